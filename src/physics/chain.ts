@@ -1,0 +1,193 @@
+/**
+ * The polymer model, defined once for every solver (spectral, network, inverse, reports).
+ *
+ * Units and conventions (SCFT-NOTES.md): contour s ∈ [0, 1] from one chain end; lengths
+ * in Rg of the whole chain; block K carries the Laplacian factor (b_K/b)², stored here as
+ * `diffusivity`. A chain is a linear sequence of blocks; diblock, triblock and homopolymer
+ * are presets that resolve to the same block list.
+ */
+import type { ChainSpec, Species } from './chain-schema.js';
+
+export const SPECIES: readonly Species[] = ['A', 'B'];
+
+export interface Block {
+  species: Species;
+  /** Length fraction of the chain, Σ = 1. */
+  fraction: number;
+  /** b_K / b. */
+  segmentLength: number;
+  /** Contour interval [start, end] of this block. */
+  start: number;
+  end: number;
+  /** (b_K/b)²: the factor of ∂²/∂x² in the MDE on this block. */
+  diffusivity: number;
+}
+
+export interface Chain {
+  blocks: Block[];
+  /** Species that occur on the chain, in the order A, B. */
+  species: Species[];
+  /** Total fraction of each species. */
+  speciesFraction: Record<Species, number>;
+  /** Contour positions of the block junctions (excluding the ends). */
+  junctions: number[];
+  /** True when the reversed chain equals the chain, so q† ≡ q. */
+  palindromic: boolean;
+  /** Human-readable label, e.g. "A0.50-B0.50". */
+  label: string;
+}
+
+export class ModelError extends Error {
+  constructor(
+    public readonly field: string,
+    public readonly value: unknown,
+    public readonly allowed: string,
+  ) {
+    super(`${field}: got ${JSON.stringify(value)}; ${allowed}`);
+    this.name = 'ModelError';
+  }
+}
+
+const FRACTION_SUM_TOL = 1e-9;
+
+interface RawBlock {
+  species: Species;
+  fraction: number;
+  segmentLength: number;
+}
+
+function rawBlocks(spec: ChainSpec): RawBlock[] {
+  switch (spec.type) {
+    case 'diblock':
+      return [
+        { species: 'A', fraction: spec.f, segmentLength: spec.segmentLengths.A },
+        { species: 'B', fraction: 1 - spec.f, segmentLength: spec.segmentLengths.B },
+      ];
+    case 'triblock': {
+      const a1 = spec.f * spec.firstBlockShare;
+      const a2 = spec.f - a1;
+      return [
+        { species: 'A', fraction: a1, segmentLength: spec.segmentLengths.A },
+        { species: 'B', fraction: 1 - spec.f, segmentLength: spec.segmentLengths.B },
+        { species: 'A', fraction: a2, segmentLength: spec.segmentLengths.A },
+      ];
+    }
+    case 'homopolymer':
+      return [{ species: spec.species, fraction: 1, segmentLength: spec.segmentLength }];
+    case 'blocks':
+      return spec.blocks.map((b) => ({ ...b }));
+  }
+}
+
+/** Resolve a chain spec to the block model; adjacent blocks of one species are merged. */
+export function buildChain(spec: ChainSpec): Chain {
+  const raw = rawBlocks(spec);
+  const total = raw.reduce((acc, b) => acc + b.fraction, 0);
+  if (Math.abs(total - 1) > FRACTION_SUM_TOL) {
+    throw new ModelError('system.chain.blocks', raw.map((b) => b.fraction), `block fractions must sum to 1 (sum is ${total})`);
+  }
+  const merged: RawBlock[] = [];
+  for (const b of raw) {
+    const last = merged[merged.length - 1];
+    if (last && last.species === b.species && last.segmentLength === b.segmentLength) last.fraction += b.fraction;
+    else merged.push({ ...b });
+  }
+  let s = 0;
+  const blocks: Block[] = merged.map((b, i) => {
+    const start = s;
+    s = i === merged.length - 1 ? 1 : s + b.fraction;
+    return { ...b, start, end: s, diffusivity: b.segmentLength * b.segmentLength };
+  });
+  const speciesFraction: Record<Species, number> = { A: 0, B: 0 };
+  for (const b of blocks) speciesFraction[b.species] += b.fraction;
+  const species = SPECIES.filter((k) => speciesFraction[k] > 0);
+  const n = blocks.length;
+  const palindromic = blocks.every((b, i) => {
+    const o = blocks[n - 1 - i];
+    return o.species === b.species && Math.abs(o.fraction - b.fraction) < 1e-12 && o.segmentLength === b.segmentLength;
+  });
+  return {
+    blocks,
+    species,
+    speciesFraction,
+    junctions: blocks.slice(0, -1).map((b) => b.end),
+    palindromic,
+    label: blocks.map((b) => `${b.species}${b.fraction.toFixed(3)}${b.segmentLength !== 1 ? `(b=${b.segmentLength})` : ''}`).join('-'),
+  };
+}
+
+/** The same chain read from the other end: the chain that q† propagates along. */
+export function reverseChain(chain: Chain): Chain {
+  const rev = [...chain.blocks].reverse();
+  let s = 0;
+  const blocks = rev.map((b, i) => {
+    const start = s;
+    s = i === rev.length - 1 ? 1 : s + b.fraction;
+    return { ...b, start, end: s };
+  });
+  return { ...chain, blocks, junctions: blocks.slice(0, -1).map((b) => b.end), label: blocks.map((b) => b.species).join('-') };
+}
+
+/** Index of the block that contains contour point s (junction points belong to the later block). */
+export function blockIndexAt(chain: Chain, s: number): number {
+  for (let i = 0; i < chain.blocks.length; i++) if (s < chain.blocks[i].end) return i;
+  return chain.blocks.length - 1;
+}
+
+/** Free energy per chain of the homogeneous melt, in kT: χN φ̄_A φ̄_B (SCFT-NOTES.md). */
+export function disorderedFreeEnergy(chain: Chain, chiN: number): number {
+  return chiN * chain.speciesFraction.A * chain.speciesFraction.B;
+}
+
+export interface ContourGrid {
+  /** Total number of contour steps, Σ per block. */
+  ns: number;
+  ds: number;
+  /** Steps on each block (even, for Simpson's rule). */
+  stepsPerBlock: number[];
+  /** Index of the first contour point of each block in the global grid 0..ns. */
+  blockOffset: number[];
+}
+
+/**
+ * Split ns contour steps over the blocks. Every block must hold an even whole number of
+ * steps of the same size: the splitting step must not straddle a junction (the field jumps
+ * there) and Simpson's rule needs pairs of intervals.
+ */
+export function contourGrid(chain: Chain, ns: number, field = 'cell.ns'): ContourGrid {
+  if (!Number.isInteger(ns) || ns < 2) throw new ModelError(field, ns, 'allowed: an even integer ≥ 2');
+  const ds = 1 / ns;
+  const stepsPerBlock: number[] = [];
+  const blockOffset: number[] = [];
+  let offset = 0;
+  for (const b of chain.blocks) {
+    const exact = b.fraction * ns;
+    const n = Math.round(exact);
+    if (Math.abs(exact - n) > 1e-6 || n % 2 !== 0 || n === 0) {
+      const want = chain.blocks.map((bb) => bb.fraction);
+      throw new ModelError(
+        field,
+        ns,
+        `each block needs an even whole number of contour steps (fraction × ns); block ${b.species} with fraction ${b.fraction} gets ${exact.toFixed(4)}. ` +
+          `Choose ns so that ns × fraction is an even integer for every fraction in [${want.join(', ')}] (steps must not straddle a junction, and Simpson's rule needs pairs)`,
+      );
+    }
+    blockOffset.push(offset);
+    stepsPerBlock.push(n);
+    offset += n;
+  }
+  return { ns, ds, stepsPerBlock, blockOffset };
+}
+
+/** Smallest ns ≥ minimum that satisfies contourGrid for this chain, or undefined if none below 100000. */
+export function suggestContourSteps(chain: Chain, minimum: number): number | undefined {
+  for (let ns = Math.max(2, minimum + (minimum % 2)); ns <= 100000; ns += 2) {
+    try {
+      contourGrid(chain, ns);
+      return ns;
+    } catch {
+      /* keep looking */
+    }
+  }
+  return undefined;
+}

@@ -1,0 +1,112 @@
+/**
+ * Anderson mixing for the fixed-point problem x = x + d(x) (Anderson, J. ACM 12, 547
+ * (1965); in the form used for SCFT by Stasiak & Matsen, Eur. Phys. J. E 34, 110 (2011)).
+ *
+ * With the newest iterate x_k, its deviation d_k and up to m earlier pairs:
+ *   U_ij = (d_k − d_{k−i})·(d_k − d_{k−j}),  V_i = (d_k − d_{k−i})·d_k,  C = U⁻¹V,
+ *   x̄ = x_k + Σ C_i (x_{k−i} − x_k),  d̄ = d_k + Σ C_i (d_{k−i} − d_k),
+ *   x_{k+1} = x̄ + λ d̄.
+ * A singular U (a stalled history) clears the history and falls back to x + λ d.
+ */
+
+export class AndersonMixer {
+  private xs: Float64Array[] = [];
+  private ds: Float64Array[] = [];
+
+  constructor(
+    private readonly history: number,
+    private readonly mixing: number,
+  ) {}
+
+  reset(): void {
+    this.xs = [];
+    this.ds = [];
+  }
+
+  next(x: Float64Array, d: Float64Array): Float64Array {
+    this.xs.unshift(Float64Array.from(x));
+    this.ds.unshift(Float64Array.from(d));
+    if (this.xs.length > this.history + 1) {
+      this.xs.pop();
+      this.ds.pop();
+    }
+    const n = x.length;
+    const m = this.xs.length - 1;
+    const out = new Float64Array(n);
+    const coeffs = m > 0 ? this.coefficients(m) : undefined;
+    if (!coeffs) {
+      if (m > 0) {
+        this.xs.length = 1;
+        this.ds.length = 1;
+      }
+      for (let j = 0; j < n; j++) out[j] = x[j] + this.mixing * d[j];
+      return out;
+    }
+    const x0 = this.xs[0];
+    const d0 = this.ds[0];
+    for (let j = 0; j < n; j++) {
+      let xb = x0[j];
+      let db = d0[j];
+      for (let i = 1; i <= m; i++) {
+        xb += coeffs[i - 1] * (this.xs[i][j] - x0[j]);
+        db += coeffs[i - 1] * (this.ds[i][j] - d0[j]);
+      }
+      out[j] = xb + this.mixing * db;
+    }
+    return out;
+  }
+
+  private coefficients(m: number): Float64Array | undefined {
+    const d0 = this.ds[0];
+    const n = d0.length;
+    const diffs = this.ds.slice(1).map((di) => {
+      const v = new Float64Array(n);
+      for (let j = 0; j < n; j++) v[j] = d0[j] - di[j];
+      return v;
+    });
+    const U = Array.from({ length: m }, () => new Float64Array(m));
+    const V = new Float64Array(m);
+    for (let a = 0; a < m; a++) {
+      for (let b = a; b < m; b++) {
+        let s = 0;
+        for (let j = 0; j < n; j++) s += diffs[a][j] * diffs[b][j];
+        U[a][b] = s;
+        U[b][a] = s;
+      }
+      let v = 0;
+      for (let j = 0; j < n; j++) v += diffs[a][j] * d0[j];
+      V[a] = v;
+    }
+    return solveDense(U, V);
+  }
+}
+
+/** Gaussian elimination with partial pivoting; undefined when the matrix is (nearly) singular. */
+export function solveDense(A: Float64Array[], b: Float64Array): Float64Array | undefined {
+  const n = b.length;
+  const M = A.map((row) => Float64Array.from(row));
+  const r = Float64Array.from(b);
+  let scale = 0;
+  for (let i = 0; i < n; i++) scale = Math.max(scale, Math.abs(M[i][i]));
+  if (!(scale > 0)) return undefined;
+  for (let c = 0; c < n; c++) {
+    let p = c;
+    for (let i = c + 1; i < n; i++) if (Math.abs(M[i][c]) > Math.abs(M[p][c])) p = i;
+    if (Math.abs(M[p][c]) < 1e-13 * scale) return undefined;
+    [M[c], M[p]] = [M[p], M[c]];
+    [r[c], r[p]] = [r[p], r[c]];
+    for (let i = c + 1; i < n; i++) {
+      const f = M[i][c] / M[c][c];
+      if (f === 0) continue;
+      for (let k = c; k < n; k++) M[i][k] -= f * M[c][k];
+      r[i] -= f * r[c];
+    }
+  }
+  const x = new Float64Array(n);
+  for (let i = n - 1; i >= 0; i--) {
+    let s = r[i];
+    for (let k = i + 1; k < n; k++) s -= M[i][k] * x[k];
+    x[i] = s / M[i][i];
+  }
+  return x;
+}

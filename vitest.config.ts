@@ -1,0 +1,11 @@
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+  test: {
+    include: ['tests/**/*.test.ts'],
+    testTimeout: 120_000,
+    hookTimeout: 120_000,
+    // Two cores: one worker per core keeps CPU-bound tests from starving each other.
+    maxWorkers: 2,
+  },
+});
