@@ -3,6 +3,7 @@ import { defineConfig } from 'vitest/config';
 export default defineConfig({
   test: {
     include: ['tests/**/*.test.ts'],
+    globalSetup: ['tests/global-setup.ts'],
     testTimeout: 120_000,
     hookTimeout: 120_000,
     // Two cores: one worker per core keeps CPU-bound tests from starving each other.

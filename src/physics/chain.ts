@@ -165,11 +165,12 @@ export function contourGrid(chain: Chain, ns: number, field = 'cell.ns'): Contou
     const n = Math.round(exact);
     if (Math.abs(exact - n) > 1e-6 || n % 2 !== 0 || n === 0) {
       const want = chain.blocks.map((bb) => bb.fraction);
+      const hint = suggestContourSteps(chain, ns);
       throw new ModelError(
         field,
         ns,
         `each block needs an even whole number of contour steps (fraction × ns); block ${b.species} with fraction ${b.fraction} gets ${exact.toFixed(4)}. ` +
-          `Choose ns so that ns × fraction is an even integer for every fraction in [${want.join(', ')}] (steps must not straddle a junction, and Simpson's rule needs pairs)`,
+          `Choose ns so that ns × fraction is an even integer for every fraction in [${want.join(', ')}] (steps must not straddle a junction, and Simpson's rule needs pairs)${hint ? `; the nearest valid ns above is ${hint}` : ''}`,
       );
     }
     blockOffset.push(offset);
@@ -179,15 +180,16 @@ export function contourGrid(chain: Chain, ns: number, field = 'cell.ns'): Contou
   return { ns, ds, stepsPerBlock, blockOffset };
 }
 
-/** Smallest ns ≥ minimum that satisfies contourGrid for this chain, or undefined if none below 100000. */
+function fitsContour(chain: Chain, ns: number): boolean {
+  return chain.blocks.every((b) => {
+    const exact = b.fraction * ns;
+    const n = Math.round(exact);
+    return Math.abs(exact - n) <= 1e-6 && n % 2 === 0 && n > 0;
+  });
+}
+
+/** Smallest even ns ≥ minimum that gives every block an even whole number of steps, if any below 100000. */
 export function suggestContourSteps(chain: Chain, minimum: number): number | undefined {
-  for (let ns = Math.max(2, minimum + (minimum % 2)); ns <= 100000; ns += 2) {
-    try {
-      contourGrid(chain, ns);
-      return ns;
-    } catch {
-      /* keep looking */
-    }
-  }
+  for (let ns = Math.max(2, Math.ceil(minimum / 2) * 2); ns <= 100000; ns += 2) if (fitsContour(chain, ns)) return ns;
   return undefined;
 }

@@ -70,6 +70,15 @@ export function optimizePeriod(req: PeriodSearchRequest): PeriodSearchResult {
     return sol.freeEnergy;
   };
 
+  // Probe three periods first: if all collapse, the melt is disordered here and F(L) is
+  // flat, so there is no period to find (and bracketing a flat function would not end).
+  const probes = [guess, guess * 1.05, guess / 1.05];
+  for (const p of probes) evaluate(p);
+  if (trace.every((t) => t.phase === 'disordered')) {
+    const sol = solved.get(guess)!;
+    sol.notes.push(`disordered at every trial period (${probes.map((p) => p.toFixed(3)).join(', ')} Rg): no equilibrium lamellar period at these parameters`);
+    return { solution: sol, period: Number.NaN, periodTolerance: Number.NaN, evaluations: trace.length, totalIterations, seconds: (performance.now() - t0) / 1000, trace };
+  }
   const lower = 0.2 * guess;
   const upper = 5 * guess;
   const br = bracketMinimum(evaluate, guess, guess * 1.05, lower, upper);

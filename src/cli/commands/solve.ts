@@ -1,0 +1,149 @@
+/** `mesofield solve`: one spectral reference solve, from a config file and/or flags. */
+import type { Command } from 'commander';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
+import { solveConfigSchema } from '../../io/schemas/solve-config.js';
+import type { SolveConfig } from '../../io/schemas/solve-config.js';
+import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
+import { writeDirectoryAtomic } from '../../io/atomic-write.js';
+import { provenance } from '../../io/versions.js';
+import { solveFromConfig } from '../../spectral/solve-from-config.js';
+import { action, numberFlag } from '../run-command.js';
+import { Progress } from '../progress.js';
+import { loadJsonFile } from '../../io/load-json.js';
+
+interface SolveFlags {
+  preset?: string;
+  f?: string;
+  chiN?: string;
+  period?: string;
+  periods?: string;
+  nx?: string;
+  ns?: string;
+  tolerance?: string;
+  start?: string;
+  json?: boolean;
+  out?: string;
+  propagators?: boolean;
+  quiet?: boolean;
+}
+
+function readRawConfig(path: string): Record<string, unknown> {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (e) {
+    throw new InputError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+  }
+  try {
+    return JSON.parse(text) as Record<string, unknown>;
+  } catch (e) {
+    throw new InputError(`${path}: not valid JSON (${(e as Error).message})`);
+  }
+}
+
+function obj(parent: Record<string, unknown>, key: string): Record<string, unknown> {
+  const v = parent[key];
+  if (v && typeof v === 'object' && !Array.isArray(v)) return v as Record<string, unknown>;
+  const fresh: Record<string, unknown> = {};
+  parent[key] = fresh;
+  return fresh;
+}
+
+/** Flags are applied on top of the config file (or of an empty diblock config). */
+export function buildSolveConfig(configPath: string | undefined, flags: SolveFlags): SolveConfig {
+  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 1, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } };
+  const system = obj(raw, 'system');
+  if (flags.preset !== undefined) {
+    const chain: Record<string, unknown> = { type: flags.preset };
+    system.chain = chain;
+  }
+  const chain = obj(system, 'chain');
+  const f = numberFlag('--f', flags.f);
+  if (f !== undefined) chain.f = f;
+  if (chain.type === undefined) chain.type = 'diblock';
+  if (chain.type !== 'homopolymer' && chain.type !== 'blocks' && chain.f === undefined) chain.f = 0.5;
+  const chiN = numberFlag('--chiN', flags.chiN);
+  if (chiN !== undefined) system.chiN = chiN;
+  const cell = obj(raw, 'cell');
+  if (flags.period !== undefined) cell.period = flags.period === 'optimize' ? 'optimize' : numberFlag('--period', flags.period);
+  const periods = numberFlag('--periods', flags.periods);
+  if (periods !== undefined) cell.periods = periods;
+  const nx = numberFlag('--nx', flags.nx);
+  if (nx !== undefined) cell.nx = nx;
+  const ns = numberFlag('--ns', flags.ns);
+  if (ns !== undefined) cell.ns = ns;
+  const solver = obj(raw, 'solver');
+  const tol = numberFlag('--tolerance', flags.tolerance);
+  if (tol !== undefined) solver.tolerance = tol;
+  if (flags.start !== undefined) solver.start = flags.start === 'rpa' ? { type: 'rpa' } : flags.start === 'cosine' ? { type: 'cosine' } : { type: 'file', path: flags.start };
+  if (flags.propagators) obj(raw, 'output').propagators = true;
+  return parseOrThrow(solveConfigSchema, raw, configPath ?? 'flags');
+}
+
+export function registerSolve(program: Command): void {
+  program
+    .command('solve')
+    .description('spectral SCFT reference solve of a 1D lamellar cell (config file and/or flags; flags override the file)')
+    .argument('[config]', 'solve config JSON (kind "solve")')
+    .option('--preset <chain>', 'chain preset: diblock | triblock | homopolymer')
+    .option('--f <f>', 'A fraction of the chain')
+    .option('--chiN <x>', 'χN')
+    .option('--period <L|optimize>', 'lamellar period in Rg, or "optimize" for the stress-free period')
+    .option('--periods <n>', 'lamellar periods in the cell')
+    .option('--nx <n>', 'grid points (power of two)')
+    .option('--ns <n>', 'contour steps over the chain (even per block)')
+    .option('--tolerance <t>', 'stop when max |w_out − w_in| < t (kT)')
+    .option('--start <cosine|rpa|FILE>', 'initial fields: cosine guess, RPA mode, or a solution.json to warm-start from')
+    .option('--propagators', 'also write q(x, s) and q†(x, s)')
+    .option('--json', 'print the result summary as JSON on stdout')
+    .option('--out <dir>', 'write solution.json and profile.csv into this directory')
+    .option('--quiet', 'no progress on stderr')
+    .action(
+      action(async (configPath: string | undefined, flags: SolveFlags) => {
+        const config = buildSolveConfig(configPath, flags);
+        let initial;
+        if (config.solver.start.type === 'file') {
+          const file = loadJsonFile(config.solver.start.path, solutionFileSchema);
+          initial = { A: Float64Array.from(file.grid.wA), B: Float64Array.from(file.grid.wB) };
+        }
+        const progress = new Progress('solve', flags.quiet);
+        let ref;
+        try {
+          ref = solveFromConfig(config, {
+            initial,
+            onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(6)} Rg, F = ${e.freeEnergy.toFixed(9)} kT (${e.phase})`),
+          });
+        } catch (e) {
+          throw asInputError(e, configPath ?? 'flags');
+        }
+        const sol = ref.solution;
+        progress.done(`${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`);
+        const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
+        if (flags.out) {
+          const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
+          const files: Record<string, string> = {
+            'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}) }, null, 1)}\n`,
+            'profile.csv': solutionGridCsv(sol),
+          };
+          const prop = propagatorCsv(sol);
+          if (prop) files['propagators.csv'] = prop;
+          writeDirectoryAtomic(flags.out, files);
+          if (!flags.quiet) process.stderr.write(`solve: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
+        }
+        if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
+        else {
+          const lines = [
+            `chain ${summary.chain}, χN = ${summary.chiN}, phase: ${summary.phase}${summary.converged ? '' : ' (NOT CONVERGED)'}`,
+            `period ${summary.period.toFixed(6)} Rg${summary.periodTolerance ? ` ± ${summary.periodTolerance.toExponential(1)}` : ''} (${summary.periods} in a cell of ${summary.length.toFixed(6)} Rg)`,
+            `F = ${summary.freeEnergy.toFixed(10)} kT/chain, F_disordered = ${summary.freeEnergyDisordered ?? 'n/a'}, ΔF = ${summary.freeEnergyExcess === null ? 'n/a' : summary.freeEnergyExcess.toExponential(6)}`,
+            `Q = ${summary.Q.toPrecision(12)} (from q†: ${summary.QDagger.toPrecision(12)}), ${summary.iterations} iterations, residual ${summary.residual.toExponential(2)}`,
+            ...summary.notes.map((n) => `note: ${n}`),
+          ];
+          process.stdout.write(`${lines.join('\n')}\n`);
+        }
+        if (!sol.converged) throw new RunFailure(`solve did not converge: ${sol.notes.join('; ')}`);
+      }),
+    );
+}

@@ -1,0 +1,26 @@
+#!/usr/bin/env node
+/**
+ * mesofield command line. A thin layer: each command parses its inputs and calls library
+ * functions. Commands that do not train never import tfjs (start-up time matters).
+ */
+import { Command } from 'commander';
+import { mesofieldVersion } from '../io/versions.js';
+import { registerSolve } from './commands/solve.js';
+import { registerSpinodal } from './commands/spinodal.js';
+
+const program = new Command();
+program
+  .name('mesofield')
+  .description('Physics-informed networks for 1D polymer SCFT, checked against a spectral reference solver')
+  .version(mesofieldVersion())
+  .showHelpAfterError()
+  .configureOutput({ writeErr: (s) => process.stderr.write(s) })
+  .exitOverride((err) => {
+    // commander's own usage errors (unknown option, missing argument) are bad input: exit 2.
+    process.exit(err.exitCode === 0 ? 0 : 2);
+  });
+
+registerSolve(program);
+registerSpinodal(program);
+
+await program.parseAsync(process.argv);

@@ -1,0 +1,62 @@
+/**
+ * User-facing errors. Every bad input names the field, the value received and what is
+ * allowed; the CLI maps these to exit code 2 (bad input) or 3 (a run that failed).
+ */
+import type { z } from 'zod';
+import { ModelError } from '../physics/chain.js';
+
+export class InputError extends Error {
+  readonly exitCode = 2;
+  constructor(message: string) {
+    super(message);
+    this.name = 'InputError';
+  }
+}
+
+export class RunFailure extends Error {
+  readonly exitCode = 3;
+  constructor(message: string) {
+    super(message);
+    this.name = 'RunFailure';
+  }
+}
+
+function describeValue(v: unknown): string {
+  if (v === undefined) return 'nothing (missing)';
+  const s = JSON.stringify(v);
+  return s.length > 80 ? `${s.slice(0, 77)}...` : s;
+}
+
+function valueAt(root: unknown, path: PropertyKey[]): unknown {
+  let cur: unknown = root;
+  for (const key of path) {
+    if (cur === null || typeof cur !== 'object') return undefined;
+    cur = (cur as Record<PropertyKey, unknown>)[key];
+  }
+  return cur;
+}
+
+/** One line per zod issue: "<file>: <path>: got <value>; <what is allowed>". */
+export function formatZodError(error: z.ZodError, input: unknown, source: string): string {
+  const lines = error.issues.map((issue) => {
+    const path = issue.path.length ? issue.path.map(String).join('.') : '(top level)';
+    if (issue.code === 'unrecognized_keys') {
+      return `${source}: ${path}: unknown field(s) ${issue.keys.map((k) => JSON.stringify(k)).join(', ')}; remove them (check the spelling)`;
+    }
+    return `${source}: ${path}: got ${describeValue(valueAt(input, issue.path))}; ${issue.message}`;
+  });
+  return lines.join('\n');
+}
+
+/** Parse with a schema, throwing an InputError that lists every invalid field. */
+export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, source: string): z.infer<S> {
+  const r = schema.safeParse(input);
+  if (!r.success) throw new InputError(formatZodError(r.error, input, source));
+  return r.data;
+}
+
+/** Model errors (from the physics layer) are input errors too. */
+export function asInputError(e: unknown, source: string): unknown {
+  if (e instanceof ModelError) return new InputError(`${source}: ${e.message}`);
+  return e;
+}

@@ -1,0 +1,24 @@
+/** Config file kind "solve": one reference SCFT solve. */
+import { z } from 'zod';
+import { systemSchema } from '../../physics/chain-schema.js';
+import { cellSchema, spectralSchema } from './spectral-schema.js';
+
+export const solveConfigSchema = z
+  .object({
+    version: z.literal(1),
+    kind: z.literal('solve'),
+    system: systemSchema,
+    cell: cellSchema.default({ period: 'optimize', periods: 1, nx: 64, ns: 100 }),
+    solver: spectralSchema.default(spectralSchema.parse({})),
+    output: z
+      .object({
+        /** Also write q(x, s) and q†(x, s) on the full contour grid. */
+        propagators: z.boolean().default(false),
+      })
+      .strict()
+      .default({ propagators: false }),
+  })
+  .strict();
+
+export type SolveConfig = z.infer<typeof solveConfigSchema>;
+export type SolveConfigInput = z.input<typeof solveConfigSchema>;

@@ -1,0 +1,134 @@
+import { existsSync, mkdtempSync, readFileSync, writeFileSync, mkdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { runCli } from '../helpers/run-cli.js';
+
+const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-cli-'));
+
+function writeConfig(dir: string, cfg: unknown): string {
+  const p = join(dir, 'cfg.json');
+  writeFileSync(p, JSON.stringify(cfg));
+  return p;
+}
+
+const baseConfig = { version: 1, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 3.75, nx: 32, ns: 60 } };
+
+describe('mesofield solve', () => {
+  it('prints a JSON summary with the documented fields and writes solution files', () => {
+    const dir = tmp();
+    const out = join(dir, 'run');
+    const r = runCli(['solve', '--chiN', '15', '--f', '0.5', '--period', 'optimize', '--nx', '32', '--ns', '60', '--json', '--out', out]);
+    expect(r.code).toBe(0);
+    const s = JSON.parse(r.stdout);
+    for (const k of ['period', 'freeEnergy', 'freeEnergyDisordered', 'Q', 'phase', 'iterations', 'residual', 'chiN', 'f']) expect(s).toHaveProperty(k);
+    expect(s.phase).toBe('lamellar');
+    expect(s.freeEnergy).toBeLessThan(s.freeEnergyDisordered);
+    expect(r.stderr).toMatch(/period search/);
+    const file = JSON.parse(readFileSync(join(out, 'solution.json'), 'utf8'));
+    expect(file.kind).toBe('solution');
+    expect(file.provenance.tool).toBe('mesofield');
+    expect(file.config.system.chiN).toBe(15);
+    const csv = readFileSync(join(out, 'profile.csv'), 'utf8').trim().split('\n');
+    expect(csv[0]).toBe('x,phiA,phiB,wA,wB');
+    expect(csv.length).toBe(33);
+  });
+
+  it('warm-starts from a previous solution file', () => {
+    const dir = tmp();
+    const first = join(dir, 'first');
+    expect(runCli(['solve', writeConfig(dir, baseConfig), '--out', first, '--quiet']).code).toBe(0);
+    const r = runCli(['solve', writeConfig(dir, baseConfig), '--start', join(first, 'solution.json'), '--json', '--quiet']);
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).iterations).toBeLessThan(5);
+  });
+
+  const bad: [string, string[], RegExp][] = [
+    ['non-power-of-two nx', ['--nx', '100'], /cell\.nx: got 100;.*power of two/],
+    ['odd steps per block', ['--ns', '30', '--f', '0.3'], /cell\.ns: got 30;.*even whole number.*nearest valid ns above is 40/],
+    ['f out of range', ['--f', '1.5'], /system\.chain\.f: got 1\.5;/],
+    ['negative χN', ['--chiN', '-3'], /system\.chiN: got -3;/],
+    ['zero period', ['--period', '0'], /cell\.period: got 0;/],
+    ['non-numeric flag', ['--chiN', 'abc'], /--chiN: got "abc"; allowed: a number/],
+    ['unknown preset', ['--preset', 'star'], /system\.chain\.type: got "star";/],
+    ['optimize for a homopolymer', ['--preset', 'homopolymer'], /cell\.period: got "optimize"; a period search needs a chain with both A and B/],
+  ];
+  for (const [name, args, msg] of bad) {
+    it(`bad input (${name}) exits 2 with a message naming the field and value`, () => {
+      const r = runCli(['solve', ...args, '--quiet']);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toMatch(msg);
+      expect(r.stdout).toBe('');
+    });
+  }
+
+  it('bad config files: unknown field, bad JSON, missing file, wrong version', () => {
+    const dir = tmp();
+    const unknown = runCli(['solve', writeConfig(dir, { ...baseConfig, colour: 'red' })]);
+    expect(unknown.code).toBe(2);
+    expect(unknown.stderr).toMatch(/unknown field\(s\) "colour"/);
+    const p = join(dir, 'broken.json');
+    writeFileSync(p, '{ "version": 1, ');
+    expect(runCli(['solve', p]).stderr).toMatch(/not valid JSON/);
+    expect(runCli(['solve', join(dir, 'nope.json')]).stderr).toMatch(/cannot read the file \(ENOENT\)/);
+    const v = runCli(['solve', writeConfig(dir, { ...baseConfig, version: 7 })]);
+    expect(v.code).toBe(2);
+    expect(v.stderr).toMatch(/version: got 7/);
+  });
+
+  it('a failing run leaves an existing output directory untouched', () => {
+    const dir = tmp();
+    const out = join(dir, 'keep');
+    mkdirSync(out);
+    writeFileSync(join(out, 'solution.json'), 'previous');
+    const r = runCli(['solve', writeConfig(dir, { ...baseConfig, cell: { ...baseConfig.cell, nx: 12 } }), '--out', out]);
+    expect(r.code).toBe(2);
+    expect(readFileSync(join(out, 'solution.json'), 'utf8')).toBe('previous');
+  });
+
+  it('a non-converging run says so and exits 3', () => {
+    const dir = tmp();
+    const r = runCli(['solve', writeConfig(dir, { ...baseConfig, solver: { maxIterations: 2 } }), '--json']);
+    expect(r.code).toBe(3);
+    expect(r.stderr).toMatch(/did not converge/);
+    expect(JSON.parse(r.stdout).converged).toBe(false);
+  });
+
+  it('homopolymer in a prescribed field is a single-chain problem', () => {
+    const dir = tmp();
+    const cfg = { version: 1, kind: 'solve', system: { chain: { type: 'homopolymer' }, externalField: { A: { type: 'uniform', value: 0.7 } } }, cell: { period: 2, nx: 16, ns: 20 } };
+    const r = runCli(['solve', writeConfig(dir, cfg), '--json']);
+    expect(r.code).toBe(0);
+    const s = JSON.parse(r.stdout);
+    expect(s.phase).toBe('single-chain');
+    // Analytic: Q = exp(−w) in a uniform field.
+    expect(s.Q).toBeCloseTo(Math.exp(-0.7), 12);
+  });
+});
+
+describe('mesofield spinodal', () => {
+  it('prints Leibler’s values for the symmetric diblock', () => {
+    // Leibler, Macromolecules 13, 1602 (1980): (χN)_s = 10.495, q*Rg = 1.946.
+    const r = runCli(['spinodal', '--f', '0.5', '--json']);
+    expect(r.code).toBe(0);
+    const s = JSON.parse(r.stdout);
+    expect(s.chiNSpinodal).toBeCloseTo(10.495, 3);
+    expect(s.qStarRg).toBeCloseTo(1.946, 3);
+  });
+
+  it('bad f exits 2', () => {
+    const r = runCli(['spinodal', '--f', '0']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/f: got 0;/);
+  });
+});
+
+describe('start-up', () => {
+  it('commands that do not train do not load tfjs', () => {
+    const r = runCli(['spinodal', '--json']);
+    expect(r.code).toBe(0);
+    expect(existsSync(join(process.cwd(), 'dist/cli/main.js'))).toBe(true);
+    const main = readFileSync(join(process.cwd(), 'dist/cli/main.js'), 'utf8');
+    expect(main).not.toMatch(/@tensorflow/);
+  });
+});
