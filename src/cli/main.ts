@@ -5,6 +5,7 @@
  */
 import { Command } from 'commander';
 import { mesofieldVersion } from '../io/versions.js';
+import { registerDemo } from './commands/demo.js';
 import { registerSolve } from './commands/solve.js';
 import { registerSpinodal } from './commands/spinodal.js';
 
@@ -21,6 +22,7 @@ program
   });
 
 registerSolve(program);
+registerDemo(program);
 registerSpinodal(program);
 
 await program.parseAsync(process.argv);

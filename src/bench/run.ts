@@ -1,0 +1,4 @@
+/** `npm run bench`: prints timings of every part; never fails on a time. */
+import { runSpectralBench } from './spectral-bench.js';
+
+runSpectralBench();

@@ -1,0 +1,57 @@
+/**
+ * Timing of the spectral reference (not a test: prints figures, never fails on a time).
+ * Each figure is the median of several runs after a warm-up, on whatever else the
+ * machine is doing at the time.
+ */
+import { buildChain, contourGrid } from '../physics/chain.js';
+import { PropagatorSolver } from '../spectral/propagator-solver.js';
+import { cosineStart, solveFixedCell } from '../spectral/scft-solver.js';
+import { optimizePeriod } from '../spectral/period-search.js';
+import type { SystemSpec } from '../physics/chain-schema.js';
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
+}
+
+function timeIt(fn: () => void, repeats: number): number {
+  fn();
+  const t: number[] = [];
+  for (let i = 0; i < repeats; i++) {
+    const t0 = performance.now();
+    fn();
+    t.push(performance.now() - t0);
+  }
+  return median(t);
+}
+
+export function runSpectralBench(): void {
+  const system: SystemSpec = { chain: { type: 'diblock', f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 20 };
+  const chain = buildChain(system.chain);
+  console.log('spectral reference, f = 0.5, χN = 20 (cosine start, tolerance 1e-9, L = 4.045 Rg)');
+  console.log('  nx    ns   solve ms  iterations  propagation ms  period search ms (evaluations)');
+  for (const [nx, ns] of [
+    [32, 100],
+    [64, 100],
+    [128, 100],
+    [64, 200],
+    [128, 200],
+    [256, 400],
+  ]) {
+    let iterations = 0;
+    const solveMs = timeIt(() => {
+      iterations = solveFixedCell({ system, length: 4.045, periods: 1, nx, ns }).iterations;
+    }, 5);
+    const solver = new PropagatorSolver(chain, { length: 4.045, nx }, contourGrid(chain, ns));
+    solver.setFields(cosineStart(chain, 20, nx, 1, 0.3));
+    // One solve() runs both propagators (q and q†).
+    const propMs = timeIt(() => solver.solve(), 20) / 2;
+    let evaluations = 0;
+    const periodMs = timeIt(() => {
+      evaluations = optimizePeriod({ system, periods: 1, nx, ns }).evaluations;
+    }, 3);
+    console.log(
+      `  ${String(nx).padStart(4)} ${String(ns).padStart(5)} ${solveMs.toFixed(1).padStart(10)} ${String(iterations).padStart(11)} ${propMs.toFixed(3).padStart(15)} ${periodMs.toFixed(0).padStart(17)} (${evaluations})`,
+    );
+  }
+}
