@@ -110,6 +110,33 @@ export function cubicMinimizer(a: number, fa: number, da: number, b: number, fb:
   return b - ((b - a) * (db + d2 - d1)) / den;
 }
 
+/**
+ * The L-BFGS search direction d = −H_k g by the two-loop recursion (N&W Alg. 7.4), pairs
+ * (s_i, y_i) oldest first, ρ_i = 1/(y_iᵀ s_i), H0 = γ I with γ = sᵀy/yᵀy of the newest
+ * pair (N&W eq. 7.20; γ = 1 without pairs).
+ */
+export function twoLoopDirection(g: Float64Array, S: Float64Array[], Y: Float64Array[], rho: number[]): Float64Array {
+  const n = g.length;
+  const k = S.length;
+  const alpha = new Float64Array(k);
+  const q = Float64Array.from(g);
+  for (let i = k - 1; i >= 0; i--) {
+    const a = rho[i] * dot(S[i], q);
+    alpha[i] = a;
+    const yi = Y[i];
+    for (let j = 0; j < n; j++) q[j] -= a * yi[j];
+  }
+  const gamma = k > 0 ? dot(S[k - 1], Y[k - 1]) / dot(Y[k - 1], Y[k - 1]) : 1;
+  for (let j = 0; j < n; j++) q[j] *= gamma;
+  for (let i = 0; i < k; i++) {
+    const c = alpha[i] - rho[i] * dot(Y[i], q);
+    const si = S[i];
+    for (let j = 0; j < n; j++) q[j] += c * si[j];
+  }
+  for (let j = 0; j < n; j++) q[j] = -q[j];
+  return q;
+}
+
 export function lbfgs(fg: Objective, x0: ArrayLike<number>, options: LbfgsOptions = {}): LbfgsResult {
   const n = x0.length;
   const maxIterations = options.maxIterations ?? 200;
@@ -141,29 +168,8 @@ export function lbfgs(fg: Objective, x0: ArrayLike<number>, options: LbfgsOption
   const S: Float64Array[] = [];
   const Y: Float64Array[] = [];
   const rho: number[] = [];
-  const alphaTmp = new Float64Array(m);
 
-  /** Two-loop recursion (N&W Alg. 7.4): returns d = −H g. */
-  const direction = (): Float64Array => {
-    const q = Float64Array.from(g);
-    const k = S.length;
-    for (let i = k - 1; i >= 0; i--) {
-      const a = rho[i] * dot(S[i], q);
-      alphaTmp[i] = a;
-      const yi = Y[i];
-      for (let j = 0; j < n; j++) q[j] -= a * yi[j];
-    }
-    const gamma = k > 0 ? dot(S[k - 1], Y[k - 1]) / dot(Y[k - 1], Y[k - 1]) : 1;
-    for (let j = 0; j < n; j++) q[j] *= gamma;
-    for (let i = 0; i < k; i++) {
-      const b = rho[i] * dot(Y[i], q);
-      const si = S[i];
-      const c = alphaTmp[i] - b;
-      for (let j = 0; j < n; j++) q[j] += c * si[j];
-    }
-    for (let j = 0; j < n; j++) q[j] = -q[j];
-    return q;
-  };
+  const direction = (): Float64Array => twoLoopDirection(g, S, Y, rho);
 
   for (let iter = 1; iter <= maxIterations; iter++) {
     let d = direction();

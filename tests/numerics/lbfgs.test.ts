@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cubicMinimizer, lbfgs, type LbfgsResult } from '../../src/numerics/lbfgs.js';
+import { cubicMinimizer, lbfgs, twoLoopDirection, type LbfgsResult } from '../../src/numerics/lbfgs.js';
 
 /**
  * Extended Rosenbrock function (Rosenbrock, Comput. J. 3, 175, 1960; n-dimensional form
@@ -101,6 +101,47 @@ describe('lbfgs', () => {
     expect(cb.reason).toBe('callback');
     expect(cb.iterations).toBe(2);
     expect(lbfgs(rosenbrock, [-1.2, 1], { maxEvaluations: 5 }).reason).toBe('maxEvaluations');
+  });
+
+  it('two-loop recursion equals the dense BFGS inverse-Hessian update applied pair by pair', () => {
+    // N&W eq. 6.17: H ← (I − ρ s yᵀ) H (I − ρ y sᵀ) + ρ s sᵀ, from H0 = γI (eq. 7.20);
+    // Alg. 7.4 must give exactly −H g (N&W §7.2). Pairs with sᵀy > 0, fixed pseudo-random data.
+    const n = 6;
+    const k = 4;
+    let seed = 12345;
+    const rnd = () => ((seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0) / 2 ** 32) * 2 - 1;
+    const S: Float64Array[] = [];
+    const Y: Float64Array[] = [];
+    const rho: number[] = [];
+    while (S.length < k) {
+      const s = Float64Array.from({ length: n }, rnd);
+      const y = s.map((v) => 2 * v + 0.5 * rnd());
+      let sy = 0;
+      for (let j = 0; j < n; j++) sy += s[j] * y[j];
+      if (sy <= 0) continue;
+      S.push(s);
+      Y.push(y);
+      rho.push(1 / sy);
+    }
+    const g = Float64Array.from({ length: n }, rnd);
+    let yy = 0;
+    let sy = 0;
+    for (let j = 0; j < n; j++) {
+      yy += Y[k - 1][j] ** 2;
+      sy += S[k - 1][j] * Y[k - 1][j];
+    }
+    let H = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? sy / yy : 0)));
+    for (let p = 0; p < k; p++) {
+      const [s, y, r] = [S[p], Y[p], rho[p]];
+      const V = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0) - r * y[i] * s[j])); // I − ρ y sᵀ
+      const HV = H.map((row) => V[0].map((_, j) => row.reduce((acc, h, l) => acc + h * V[l][j], 0)));
+      H = HV.map((_, i) => HV[0].map((_, j) => V.reduce((acc, vrow, l) => acc + vrow[i] * HV[l][j], 0) + r * s[i] * s[j])); // Vᵀ H V + ρ s sᵀ
+    }
+    const d = twoLoopDirection(g, S, Y, rho);
+    for (let i = 0; i < n; i++) {
+      const expected = -H[i].reduce((acc, h, j) => acc + h * g[j], 0);
+      expect(d[i]).toBeCloseTo(expected, 12);
+    }
   });
 
   it('cubic interpolation recovers the exact minimiser of a cubic (N&W eq. 3.59)', () => {
