@@ -1,0 +1,92 @@
+/**
+ * Input features of the networks, computed once per fixed point set (they do not change
+ * between optimiser steps; sin/cos are also slow on the WASM backend).
+ *
+ * Exact periodicity in x with period L (Dong & Ni, J. Comput. Phys. 435, 110242, 2021):
+ * the network sees x only through
+ *     [sin(k_1 x), cos(k_1 x), sin(k_2 x), cos(k_2 x), …, sin(k_M x), cos(k_M x)],
+ * k_m = 2π m / L (x and L in Rg), interleaved in that order. Derivative channels (exact):
+ *     ∂x sin(kx) =  k cos(kx),  ∂xx sin(kx) = −k² sin(kx),
+ *     ∂x cos(kx) = −k sin(kx),  ∂xx cos(kx) = −k² cos(kx),   ∂s = 0.
+ * Propagator networks add one contour column σ = (s − a)/Δ (a, Δ: start and length of the
+ * piece's contour interval), with ∂σ/∂s = 1/Δ and no x-dependence.
+ *
+ * Values are computed in float64 and rounded once to float32 on upload.
+ */
+import type { Tf } from './backend.js';
+import { Jet } from './jet.js';
+
+/** Number of columns of the periodic features for M modes. */
+export function periodicWidth(modes: number): number {
+  return 2 * modes;
+}
+
+/** Row-major [n, 2M] arrays of the features and their x-derivatives. */
+export function periodicFeatureArrays(x: ArrayLike<number>, period: number, modes: number) {
+  const n = x.length;
+  const w = periodicWidth(modes);
+  const v = new Float64Array(n * w);
+  const dx = new Float64Array(n * w);
+  const dxx = new Float64Array(n * w);
+  for (let i = 0; i < n; i++) {
+    for (let m = 1; m <= modes; m++) {
+      const k = (2 * Math.PI * m) / period;
+      const s = Math.sin(k * x[i]);
+      const c = Math.cos(k * x[i]);
+      const o = i * w + 2 * (m - 1);
+      v[o] = s;
+      v[o + 1] = c;
+      dx[o] = k * c;
+      dx[o + 1] = -k * s;
+      dxx[o] = -k * k * s;
+      dxx[o + 1] = -k * k * c;
+    }
+  }
+  return { v, dx, dxx, width: w };
+}
+
+/** Feature jet [n, 2M] of the points x; derivative channels only if `derivatives`. */
+export function periodicFeatures(tf: Tf, x: ArrayLike<number>, period: number, modes: number, derivatives = true): Jet {
+  const a = periodicFeatureArrays(x, period, modes);
+  const shape: [number, number] = [x.length, a.width];
+  return new Jet(tf, tf.tensor2d(f32(a.v), shape), derivatives ? tf.tensor2d(f32(a.dx), shape) : null, derivatives ? tf.tensor2d(f32(a.dxx), shape) : null, null);
+}
+
+/**
+ * Feature jet [n, 2M + 1] of points (x_i, s_i) for a piece on the contour interval
+ * [start, start + length]: periodic features of x, then σ = (s − start)/length.
+ * `ds` is the single broadcast row [0, …, 0, 1/length].
+ */
+export function propagatorFeatures(
+  tf: Tf,
+  x: ArrayLike<number>,
+  s: ArrayLike<number>,
+  period: number,
+  modes: number,
+  piece: { start: number; length: number },
+  derivatives = true,
+): Jet {
+  const n = x.length;
+  if (s.length !== n) throw new RangeError(`x and s differ in length (${n} and ${s.length})`);
+  const a = periodicFeatureArrays(x, period, modes);
+  const w = a.width + 1;
+  const v = new Float64Array(n * w);
+  const dx = new Float64Array(n * w);
+  const dxx = new Float64Array(n * w);
+  for (let i = 0; i < n; i++) {
+    v.set(a.v.subarray(i * a.width, (i + 1) * a.width), i * w);
+    dx.set(a.dx.subarray(i * a.width, (i + 1) * a.width), i * w);
+    dxx.set(a.dxx.subarray(i * a.width, (i + 1) * a.width), i * w);
+    v[i * w + a.width] = (s[i] - piece.start) / piece.length;
+  }
+  const ds = new Float64Array(w);
+  ds[a.width] = 1 / piece.length;
+  const shape: [number, number] = [n, w];
+  if (!derivatives) return new Jet(tf, tf.tensor2d(f32(v), shape), null, null, null);
+  return new Jet(tf, tf.tensor2d(f32(v), shape), tf.tensor2d(f32(dx), shape), tf.tensor2d(f32(dxx), shape), tf.tensor2d(f32(ds), [1, w]));
+}
+
+/** The one rounding to float32 (tfjs tensors are float32 on every backend). */
+export function f32(a: Float64Array): Float32Array {
+  return Float32Array.from(a);
+}
