@@ -1,0 +1,30 @@
+/**
+ * Commands that never train must not load tfjs (start-up time, and the WASM binary).
+ * Checked in a fresh Node process on the built modules (dist/, built by the global test
+ * setup): importing every src/neural module leaves tfjs's global engine
+ * (globalThis._tfengine, created when @tensorflow/tfjs-core is evaluated) undefined, and
+ * selectBackend creates it (so the probe can tell the two apart).
+ */
+import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+
+const dist = fileURLToPath(new URL('../../dist/neural/', import.meta.url));
+const modules = ['backend', 'jet', 'features', 'mlp', 'parameters', 'random', 'field-net', 'propagator-net'];
+
+function probe(select: boolean): string {
+  const imports = modules.map((m) => `await import(${JSON.stringify(dist + m + '.js')});`).join('\n');
+  const script = `${imports}
+${select ? `const b = await import(${JSON.stringify(dist + 'backend.js')}); await b.selectBackend('cpu');` : ''}
+console.log(typeof globalThis._tfengine);`;
+  const r = spawnSync(process.execPath, ['--input-type=module', '-e', script], { encoding: 'utf8', timeout: 60_000 });
+  expect(r.status, r.stderr).toBe(0);
+  return r.stdout.trim();
+}
+
+describe('lazy tfjs', () => {
+  it('importing the neural modules does not load tfjs; selecting a backend does', () => {
+    expect(probe(false)).toBe('undefined');
+    expect(probe(true)).toBe('object');
+  });
+});
