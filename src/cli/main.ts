@@ -8,6 +8,7 @@ import { mesofieldVersion } from '../io/versions.js';
 import { registerDemo } from './commands/demo.js';
 import { registerSolve } from './commands/solve.js';
 import { registerSpinodal } from './commands/spinodal.js';
+import { registerReport } from './commands/report.js';
 
 const program = new Command();
 program
@@ -24,5 +25,6 @@ program
 registerSolve(program);
 registerDemo(program);
 registerSpinodal(program);
+registerReport(program);
 
 await program.parseAsync(process.argv);

@@ -1,0 +1,56 @@
+/** `mesofield report RUN_DIR`: figures and tables of a run as an A4 PDF and/or one PNG per figure. */
+import type { Command } from 'commander';
+import { join } from 'node:path';
+import { InputError } from '../../io/errors.js';
+import { buildReport } from '../../reports/build-report.js';
+import { loadRun } from '../../reports/load-run.js';
+import { renderReport, writeReportFiles } from '../../reports/write-report.js';
+import type { ReportFormat } from '../../reports/write-report.js';
+import { action, numberFlag } from '../run-command.js';
+
+interface ReportFlags {
+  out?: string;
+  format: string;
+  dpi: string;
+  rgNm?: string;
+  quiet?: boolean;
+}
+
+const FORMATS: readonly ReportFormat[] = ['pdf', 'png'];
+const DPI_RANGE = [36, 1200] as const;
+
+export function parseFormats(value: string): ReportFormat[] {
+  const items = value.split(',').map((s) => s.trim().toLowerCase()).filter(Boolean);
+  const bad = items.filter((s) => !FORMATS.includes(s as ReportFormat));
+  if (items.length === 0 || bad.length) throw new InputError(`--format: got ${JSON.stringify(value)}; allowed: a comma-separated list of ${FORMATS.join(', ')}`);
+  return [...new Set(items)] as ReportFormat[];
+}
+
+export function registerReport(program: Command): void {
+  program
+    .command('report')
+    .description('write a report of a run directory: A4 PDF with figures, tables and assumptions, and/or one PNG per figure')
+    .argument('<run-dir>', 'the --out directory of a solve (or train/evaluate/invert) run')
+    .option('--out <dir>', 'where to write report.pdf and figures/*.png (default: RUN_DIR/report)')
+    .option('--format <list>', 'pdf, png or pdf,png', 'pdf,png')
+    .option('--dpi <n>', `PNG resolution in dots per inch (${DPI_RANGE[0]}–${DPI_RANGE[1]})`, '150')
+    .option('--rg-nm <nm>', 'Rg in nanometres: also print the period in nm')
+    .option('--quiet', 'no progress on stderr')
+    .action(
+      action(async (runDir: string, flags: ReportFlags) => {
+        const formats = parseFormats(flags.format);
+        const dpi = numberFlag('--dpi', flags.dpi)!;
+        if (!Number.isInteger(dpi) || dpi < DPI_RANGE[0] || dpi > DPI_RANGE[1]) throw new InputError(`--dpi: got ${flags.dpi}; allowed: a whole number from ${DPI_RANGE[0]} to ${DPI_RANGE[1]}`);
+        const rgNm = numberFlag('--rg-nm', flags.rgNm);
+        if (rgNm !== undefined && !(rgNm > 0)) throw new InputError(`--rg-nm: got ${flags.rgNm}; allowed: Rg in nm, a number > 0`);
+        const run = loadRun(runDir, { rgNm });
+        const doc = buildReport(run.input);
+        const rendered = renderReport(doc, formats, dpi);
+        const written = writeReportFiles(flags.out ?? join(runDir, 'report'), rendered);
+        if (!flags.quiet) {
+          for (const n of run.notes) process.stderr.write(`report: note: ${n}\n`);
+          process.stderr.write(`report: read ${run.read.join(', ')}\nreport: wrote ${written.join(', ')}\n`);
+        }
+      }),
+    );
+}

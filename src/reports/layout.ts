@@ -1,0 +1,123 @@
+/**
+ * Text and table blocks on a page, and how tall each block is, so the PDF renderer can
+ * stack blocks and start a new page when one does not fit.
+ */
+import type { CanvasRenderingContext2D } from 'canvas';
+import type { Block, TableBlock, TextBlock } from './document.js';
+import { FONT_FAMILY, TEXT } from './style.js';
+
+const FONTS = {
+  body: { size: TEXT.body, font: `${TEXT.body}px "${FONT_FAMILY}"`, lead: TEXT.body * 1.4 },
+  heading: { size: TEXT.heading, font: `bold ${TEXT.heading}px "${FONT_FAMILY}"`, lead: TEXT.heading * 1.5 },
+  mono: { size: TEXT.small, font: `${TEXT.small}px "DejaVu Sans Mono"`, lead: TEXT.small * 1.4 },
+  small: { size: TEXT.small, font: `${TEXT.small}px "${FONT_FAMILY}"`, lead: TEXT.small * 1.4 },
+} as const;
+
+export const BLOCK_GAP = 10;
+const TABLE_ROW = TEXT.small * 1.75;
+const CAPTION_LEAD = TEXT.small * 1.35;
+
+/** Greedy word wrap to a width. */
+export function wrapText(ctx: CanvasRenderingContext2D, text: string, width: number): string[] {
+  const words = text.split(' ');
+  const out: string[] = [];
+  let line = '';
+  for (const w of words) {
+    const trial = line ? `${line} ${w}` : w;
+    if (line && ctx.measureText(trial).width > width) {
+      out.push(line);
+      line = w;
+    } else line = trial;
+  }
+  out.push(line);
+  return out;
+}
+
+function textLines(ctx: CanvasRenderingContext2D, b: TextBlock, width: number): string[] {
+  const f = FONTS[b.style ?? 'body'];
+  ctx.save();
+  ctx.font = f.font;
+  const lines = b.style === 'mono' ? b.lines : b.lines.flatMap((l) => wrapText(ctx, l, width));
+  ctx.restore();
+  return lines;
+}
+
+export function captionLines(ctx: CanvasRenderingContext2D, caption: string, width: number): string[] {
+  ctx.save();
+  ctx.font = FONTS.small.font;
+  const lines = wrapText(ctx, caption, width);
+  ctx.restore();
+  return lines;
+}
+
+export function blockHeight(ctx: CanvasRenderingContext2D, b: Block, width: number): number {
+  switch (b.type) {
+    case 'text':
+      return textLines(ctx, b, width).length * FONTS[b.style ?? 'body'].lead;
+    case 'table':
+      return (b.rows.length + 1) * TABLE_ROW + 2;
+    case 'figure':
+      return b.height + 3 + captionLines(ctx, b.caption, width).length * CAPTION_LEAD;
+  }
+}
+
+export function drawText(ctx: CanvasRenderingContext2D, b: TextBlock, x: number, y: number, width: number): void {
+  const f = FONTS[b.style ?? 'body'];
+  ctx.save();
+  ctx.font = f.font;
+  ctx.fillStyle = '#000000';
+  ctx.textAlign = 'left';
+  ctx.textBaseline = 'alphabetic';
+  textLines(ctx, b, width).forEach((l, i) => ctx.fillText(l, x, y + (i + 1) * f.lead - (f.lead - f.size) / 2 - 1));
+  ctx.restore();
+}
+
+export function drawCaption(ctx: CanvasRenderingContext2D, caption: string, x: number, y: number, width: number): void {
+  ctx.save();
+  ctx.font = FONTS.small.font;
+  ctx.fillStyle = '#000000';
+  ctx.textAlign = 'left';
+  ctx.textBaseline = 'top';
+  captionLines(ctx, caption, width).forEach((l, i) => ctx.fillText(l, x, y + i * CAPTION_LEAD));
+  ctx.restore();
+}
+
+export function drawTable(ctx: CanvasRenderingContext2D, b: TableBlock, x: number, y: number, width: number): void {
+  const rel = b.widths ?? b.header.map(() => 1);
+  const total = rel.reduce((a, c) => a + c, 0);
+  const cols = rel.map((r) => (r / total) * width);
+  const right = new Set(b.alignRight ?? []);
+  ctx.save();
+  ctx.fillStyle = '#000000';
+  ctx.strokeStyle = '#000000';
+  ctx.textBaseline = 'middle';
+  const row = (cells: string[], yy: number, bold: boolean): void => {
+    ctx.font = `${bold ? 'bold ' : ''}${TEXT.small}px "${FONT_FAMILY}"`;
+    let cx = x;
+    cells.forEach((c, i) => {
+      const w = cols[i] ?? 0;
+      let text = c;
+      // Keep every cell inside its column: shorten with an ellipsis rather than overlap.
+      while (text.length > 1 && ctx.measureText(text).width > w - 6) text = `${text.slice(0, -2)}…`;
+      ctx.textAlign = right.has(i) ? 'right' : 'left';
+      ctx.fillText(text, right.has(i) ? cx + w - 3 : cx + 3, yy + TABLE_ROW / 2);
+      cx += w;
+    });
+  };
+  row(b.header, y, true);
+  ctx.lineWidth = 0.8;
+  ctx.beginPath();
+  ctx.moveTo(x, y);
+  ctx.lineTo(x + width, y);
+  ctx.moveTo(x, y + TABLE_ROW);
+  ctx.lineTo(x + width, y + TABLE_ROW);
+  ctx.stroke();
+  b.rows.forEach((r, i) => {
+    row(r, y + (i + 1) * TABLE_ROW, false);
+  });
+  ctx.beginPath();
+  ctx.moveTo(x, y + (b.rows.length + 1) * TABLE_ROW);
+  ctx.lineTo(x + width, y + (b.rows.length + 1) * TABLE_ROW);
+  ctx.stroke();
+  ctx.restore();
+}

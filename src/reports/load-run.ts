@@ -1,0 +1,197 @@
+/**
+ * A run directory → ReportInput. Reads what the directory holds:
+ *  - solution files (kind "solution", as written by `mesofield solve --out`; any *.json):
+ *    the one with solver "spectral" is the reference, one with solver "network" the
+ *    network; an optional `periodSearch` trace in the reference gives F(L);
+ *  - metrics.json: every number, string or boolean in it becomes a metrics-table row.
+ * Anything missing or inconsistent is an InputError naming the file and field.
+ */
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { join } from 'node:path';
+import { z } from 'zod';
+import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
+import { solutionFileSchema } from '../io/solution-file.js';
+import type { SolutionFile } from '../io/solution-file.js';
+import { buildChain } from '../physics/chain.js';
+import type { ScftSolution } from '../physics/result.js';
+import type { MetricRow, ReportInput } from './report-inputs.js';
+
+const summaryNumbers = z.object({
+  solver: z.enum(['spectral', 'network']),
+  period: z.number().nullable(),
+  periodTolerance: z.number().optional(),
+  Q: z.number(),
+  QDagger: z.number(),
+  freeEnergy: z.number(),
+  freeEnergyDisordered: z.number().nullable(),
+  amplitude: z.number(),
+  iterations: z.number(),
+  residual: z.number(),
+  converged: z.boolean(),
+  seconds: z.number(),
+  notes: z.array(z.string()).default([]),
+});
+
+const traceSchema = z.array(z.object({ period: z.number(), freeEnergy: z.number(), phase: z.string(), iterations: z.number() }));
+
+const provenanceSchema = z.object({ version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string().optional(), tfjs: z.string().optional() }).passthrough();
+
+interface LoadedSolution {
+  file: string;
+  data: SolutionFile;
+  solution: ScftSolution;
+  trace?: z.infer<typeof traceSchema>;
+  provenance: z.infer<typeof provenanceSchema>;
+}
+
+function readJson(path: string): unknown {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (e) {
+    throw new InputError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+  }
+  try {
+    return JSON.parse(text);
+  } catch (e) {
+    throw new InputError(`${path}: not valid JSON (${(e as Error).message})`);
+  }
+}
+
+function checkPropagators(path: string, d: SolutionFile): void {
+  const p = d.propagators;
+  if (!p) return;
+  const ns = d.summary.ns;
+  if (p.s.length !== ns + 1) throw new InputError(`${path}: propagators.s: got ${p.s.length} contour points; must hold summary.ns + 1 = ${ns + 1}`);
+  for (const k of ['q', 'qDagger'] as const) {
+    if (p[k].length !== ns + 1) throw new InputError(`${path}: propagators.${k}: got ${p[k].length} rows; must hold summary.ns + 1 = ${ns + 1} (one per contour point)`);
+    const bad = p[k].findIndex((r) => r.length !== d.summary.nx);
+    if (bad >= 0) throw new InputError(`${path}: propagators.${k}[${bad}]: got ${p[k][bad].length} values; must hold summary.nx = ${d.summary.nx}`);
+  }
+}
+
+function loadSolution(path: string, raw: unknown): LoadedSolution {
+  const data = parseOrThrow(solutionFileSchema, raw, path);
+  const s = parseOrThrow(summaryNumbers, data.summary, `${path}: summary`);
+  const provenance = parseOrThrow(provenanceSchema, data.provenance, `${path}: provenance`);
+  checkPropagators(path, data);
+  const rawTrace = (raw as Record<string, unknown>).periodSearch;
+  const trace = rawTrace === undefined ? undefined : parseOrThrow(traceSchema, rawTrace, `${path}: periodSearch`);
+  try {
+    buildChain(data.system.chain);
+  } catch (e) {
+    throw asInputError(e, path);
+  }
+  const f64 = (a: number[]): Float64Array => Float64Array.from(a);
+  const solution: ScftSolution = {
+    solver: s.solver,
+    system: data.system,
+    length: data.summary.length,
+    periods: data.summary.periods,
+    period: s.period ?? Number.NaN,
+    nx: data.summary.nx,
+    ns: data.summary.ns,
+    x: f64(data.grid.x),
+    phi: { A: f64(data.grid.phiA), B: f64(data.grid.phiB) },
+    w: { A: f64(data.grid.wA), B: f64(data.grid.wB) },
+    Q: s.Q,
+    QDagger: s.QDagger,
+    freeEnergy: s.freeEnergy,
+    freeEnergyDisordered: s.freeEnergyDisordered ?? Number.NaN,
+    phase: data.summary.phase as ScftSolution['phase'],
+    amplitude: s.amplitude,
+    iterations: s.iterations,
+    residual: s.residual,
+    converged: s.converged,
+    seconds: s.seconds,
+    notes: s.notes,
+    ...(data.propagators ? { propagators: { s: f64(data.propagators.s), q: data.propagators.q.map(f64), qDagger: data.propagators.qDagger.map(f64) } } : {}),
+  };
+  return { file: path, data, solution, trace, provenance };
+}
+
+/** Flatten a JSON object to "a.b.c: value" rows (numbers, strings, booleans; arrays are summarised). */
+export function flattenRows(value: unknown, prefix: string, out: MetricRow[] = [], depth = 0): MetricRow[] {
+  if (value === null || value === undefined) return out;
+  if (typeof value === 'number') out.push({ name: prefix, value: String(value) });
+  else if (typeof value === 'string' || typeof value === 'boolean') out.push({ name: prefix, value: String(value) });
+  else if (Array.isArray(value)) out.push({ name: prefix, value: `[${value.length} values]` });
+  else if (typeof value === 'object' && depth < 4) for (const [k, v] of Object.entries(value)) flattenRows(v, prefix ? `${prefix}.${k}` : k, out, depth + 1);
+  return out;
+}
+
+function pickOne(list: LoadedSolution[], solver: string, dir: string): LoadedSolution | undefined {
+  if (list.length <= 1) return list[0];
+  const named = list.find((l) => l.file.endsWith('/solution.json'));
+  if (named) return named;
+  throw new InputError(`${dir}: ${list.length} solution files from the ${solver} solver (${list.map((l) => l.file).join(', ')}); keep one per solver in a run directory`);
+}
+
+export interface LoadedRun {
+  input: ReportInput;
+  /** Files found and read, and files found but not read (said on stderr). */
+  read: string[];
+  notes: string[];
+}
+
+export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
+  let st;
+  try {
+    st = statSync(dir);
+  } catch {
+    throw new InputError(`${dir}: run directory not found; give the --out directory of a mesofield solve, train, evaluate or invert run`);
+  }
+  if (!st.isDirectory()) throw new InputError(`${dir}: not a directory; give the run directory (the --out directory of a run), not a file in it`);
+  const names = readdirSync(dir).filter((n) => n.endsWith('.json')).sort();
+  const solutions: LoadedSolution[] = [];
+  const read: string[] = [];
+  const notes: string[] = [];
+  let metrics: MetricRow[] | undefined;
+  for (const name of names) {
+    const path = join(dir, name);
+    const raw = readJson(path);
+    const kind = raw && typeof raw === 'object' ? (raw as Record<string, unknown>).kind : undefined;
+    if (kind === 'solution') {
+      solutions.push(loadSolution(path, raw));
+      read.push(path);
+    } else if (name === 'metrics.json') {
+      metrics = flattenRows(raw, '').map((r) => ({ ...r, name: `metrics.json: ${r.name}` }));
+      read.push(path);
+    } else notes.push(`${path}: not read (kind ${JSON.stringify(kind)} has no report section in this version)`);
+  }
+  if (solutions.length === 0) {
+    throw new InputError(`${dir}: no solution file found (a *.json with "kind": "solution", such as solution.json from mesofield solve --out); files here: ${readdirSync(dir).sort().join(', ') || 'none'}`);
+  }
+  const reference = pickOne(solutions.filter((s) => s.solution.solver === 'spectral'), 'spectral', dir);
+  const network = pickOne(solutions.filter((s) => s.solution.solver === 'network'), 'network', dir);
+  const main = reference ?? network!;
+  if (reference && network) {
+    const a = JSON.stringify(reference.data.system);
+    const b = JSON.stringify(network.data.system);
+    if (a !== b) throw new InputError(`${network.file}: system ${b} differs from the reference's (${reference.file}: ${a}); a report compares solutions of one system`);
+    if (reference.solution.nx !== network.solution.nx || Math.abs(reference.solution.length - network.solution.length) > 1e-9 * reference.solution.length) {
+      throw new InputError(`${network.file}: grid nx = ${network.solution.nx}, L = ${network.solution.length} Rg differs from the reference's (${reference.file}: nx = ${reference.solution.nx}, L = ${reference.solution.length} Rg); compare on the same grid`);
+    }
+  }
+  // Without a spectral reference a network solution is shown alone, as "reference" curves.
+  const shown = reference ?? network!;
+  const input: ReportInput = {
+    info: {
+      kind: typeof (main.data.config as Record<string, unknown> | undefined)?.kind === 'string' ? String((main.data.config as Record<string, unknown>).kind) : network ? 'evaluate' : 'solve',
+      source: dir,
+      system: main.data.system,
+      period: main.solution.period,
+      rgNm: opts.rgNm,
+      config: flattenRows(main.data.config, '').map((r) => `${r.name}: ${r.value}`),
+      provenance: (network ?? main).provenance,
+      runSeconds: main.solution.seconds,
+      runSecondsNote: main.trace ? `final solve only; the ${main.trace.length} period-search evaluations took ${main.trace.reduce((a, t) => a + t.iterations, 0)} iterations in all` : undefined,
+    },
+    profiles: { reference: shown.solution, network: reference ? network?.solution : undefined },
+    propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
+    periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
+    metrics,
+  };
+  if (!shown.solution.propagators) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);
+  return { input, read, notes };
+}

@@ -1,0 +1,122 @@
+/**
+ * What each report section needs, as small typed objects. A section renders when its
+ * input is present and is left out otherwise, so one report kind serves solve, train,
+ * evaluate and invert runs: the run loader (load-run.ts) fills in what the directory holds.
+ *
+ * Units follow SCFT-NOTES.md: x and periods in Rg, fields and free energies in kT per chain.
+ */
+import type { SystemSpec } from '../physics/chain-schema.js';
+import type { ScftSolution } from '../physics/result.js';
+
+/** The title block: what was run, with what, when (from the run's provenance) and how long. */
+export interface RunInfo {
+  /** 'solve' | 'train' | 'evaluate' | 'invert', or any later run kind. */
+  kind: string;
+  /** The run directory as given by the user (printed, not read again). */
+  source: string;
+  system: SystemSpec;
+  /** Lamellar period in Rg (NaN when there is none, e.g. disordered). */
+  period: number;
+  /** Rg in nm, when the user gives it: the period is then also printed in nm. */
+  rgNm?: number;
+  /** One "name: value" line each: the config as run. */
+  config: string[];
+  provenance: { version: string; node: string; createdAt: string; backend?: string; tfjs?: string; [k: string]: unknown };
+  /** Wall time of the run in seconds, and what it covers. */
+  runSeconds?: number;
+  runSecondsNote?: string;
+}
+
+/** Density and field profiles: the reference, and optionally a network solution on the same grid. */
+export interface ProfileInput {
+  reference: ScftSolution;
+  network?: ScftSolution;
+  /** Legend name of the network curve (default "network"). */
+  networkLabel?: string;
+}
+
+/** q(x, s) heat maps: needs `propagators` on the reference (and on the network, if given). */
+export interface PropagatorInput {
+  reference: ScftSolution;
+  network?: ScftSolution;
+  networkLabel?: string;
+}
+
+export interface PeriodTracePoint {
+  period: number;
+  freeEnergy: number;
+  phase: string;
+  iterations: number;
+}
+
+/** F(L) from an equilibrium-period search, with the chosen period. */
+export interface PeriodSearchInput {
+  trace: PeriodTracePoint[];
+  period: number;
+  periodTolerance?: number;
+}
+
+export interface LossHistoryEntry {
+  step: number;
+  /** Each loss term by name (unweighted or weighted, as the trainer logged it); > 0. */
+  terms: Record<string, number>;
+  lr: number;
+}
+
+/** Training curves; inverse runs add the trajectory of the trainable χN. */
+export interface TrainingInput {
+  history: LossHistoryEntry[];
+  chiNTrajectory?: { step: number; chiN: number }[];
+  /** A reference χN (true or estimated) drawn as a line against the trajectory. */
+  chiNReference?: { value: number; label: string };
+}
+
+export interface DataPoint {
+  x: number;
+  value: number;
+  /** One standard deviation of the measurement; > 0. */
+  sigma: number;
+}
+
+export interface EstimatorRow {
+  name: string;
+  chiN: number;
+  lower?: number;
+  upper?: number;
+  note?: string;
+}
+
+/** χN inversion from a measured profile. */
+export interface InversionInput {
+  /** What was measured, e.g. "φA"; used in axis labels. */
+  quantity: string;
+  data: DataPoint[];
+  /** The profile of the best fit, on a fine x grid. */
+  fitted: { x: number; value: number }[];
+  /** Residuals at the data points, (data − fit) / σ. */
+  residuals: { x: number; normalized: number }[];
+  /** Δχ²(χN) = χ²(χN) − min χ², minimised over the other parameters at each χN. */
+  profileLikelihood: { chiN: number; deltaChi2: number }[];
+  /** The confidence interval read from the profile, with the Δχ² threshold that defines it. */
+  interval: { lower: number; upper: number; level: number; threshold: number };
+  bestChiN: number;
+  estimators: EstimatorRow[];
+}
+
+export interface MetricRow {
+  name: string;
+  value: string;
+  unit?: string;
+}
+
+/** Everything a report can show. Add a field here for a new section's input. */
+export interface ReportInput {
+  info: RunInfo;
+  profiles?: ProfileInput;
+  propagators?: PropagatorInput;
+  periodSearch?: PeriodSearchInput;
+  training?: TrainingInput;
+  inversion?: InversionInput;
+  /** Rows appended to the metrics table (e.g. from metrics.json). */
+  metrics?: MetricRow[];
+}

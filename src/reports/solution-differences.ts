@@ -1,0 +1,51 @@
+/**
+ * Plain differences between two solutions on the same grid (network − reference): no
+ * physics here, only norms of arrays the solvers already produced.
+ */
+import { InputError } from '../io/errors.js';
+import type { ScftSolution } from '../physics/result.js';
+
+/** Two solutions can be compared point by point only on the same cell and grid. */
+export function assertSameGrid(reference: ScftSolution, other: ScftSolution, where: string): void {
+  if (reference.nx !== other.nx) throw new InputError(`${where}: the network solution has nx = ${other.nx} but the reference has nx = ${reference.nx}; both must be on the same grid`);
+  if (Math.abs(reference.length - other.length) > 1e-9 * Math.max(1, reference.length)) {
+    throw new InputError(`${where}: the network cell length is ${other.length} Rg but the reference's is ${reference.length} Rg; both must describe the same cell`);
+  }
+}
+
+export function difference(a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {
+  const out = new Float64Array(a.length);
+  for (let i = 0; i < a.length; i++) out[i] = a[i] - b[i];
+  return out;
+}
+
+export function maxAbs(a: ArrayLike<number>): number {
+  let m = 0;
+  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i]));
+  return m;
+}
+
+/** ‖a − b‖₂ / ‖b‖₂ on the grid (uniform weights: the grid is uniform). */
+export function relativeL2(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let num = 0;
+  let den = 0;
+  for (let i = 0; i < a.length; i++) {
+    num += (a[i] - b[i]) ** 2;
+    den += b[i] ** 2;
+  }
+  return Math.sqrt(num / (den || 1));
+}
+
+/** w_A − w_B: the exchange field, the part of the fields fixed by the composition. */
+export function exchangeField(sol: ScftSolution): Float64Array {
+  return difference(sol.w.A, sol.w.B);
+}
+
+export function points(x: ArrayLike<number>, y: ArrayLike<number>): { x: number; y: number }[] {
+  return Array.from({ length: x.length }, (_, i) => ({ x: x[i], y: y[i] }));
+}
+
+/** Grid values plus the periodic repeat at x = L, so a curve spans the whole cell. */
+export function periodicPoints(x: ArrayLike<number>, y: ArrayLike<number>, length: number): { x: number; y: number }[] {
+  return [...points(x, y), { x: length, y: y[0] }];
+}

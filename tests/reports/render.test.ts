@@ -1,0 +1,181 @@
+/**
+ * Every report kind renders from fixture inputs (fixtures.ts): PDF page count and text read
+ * back with poppler's pdfinfo/pdftotext, PNG sizes from the PNG header, pixels decoded with
+ * canvas's loadImage, byte-identical output for identical input.
+ */
+import { beforeAll, describe, expect, it } from 'vitest';
+import { createCanvas, loadImage } from 'canvas';
+import type { ScftSolution } from '../../src/physics/result.js';
+import { buildReport } from '../../src/reports/build-report.js';
+import { figuresOf } from '../../src/reports/document.js';
+import type { ReportDocument } from '../../src/reports/document.js';
+import { pdfPageCount, renderPdf } from '../../src/reports/render-pdf.js';
+import { PNG_PADDING, pngSize, renderFigurePng } from '../../src/reports/render-png.js';
+import type { ReportInput } from '../../src/reports/report-inputs.js';
+import { inversionFixture, networkInput, runInfo, solveAt, solveInput, trainingFixture } from './fixtures.js';
+import { pdfFile, pdfInfo, pdfText, pngHeader } from './pdf-tools.js';
+
+let reference: ScftSolution;
+let fixtureNetwork: ScftSolution;
+
+beforeAll(() => {
+  reference = solveAt(15);
+  fixtureNetwork = solveAt(15.6, reference);
+  expect(reference.converged && fixtureNetwork.converged).toBe(true);
+  expect(reference.phase).toBe('lamellar');
+});
+
+interface Rendered {
+  doc: ReportDocument;
+  path: string;
+  pdf: Buffer;
+}
+
+function render(input: ReportInput): Rendered {
+  const doc = buildReport(input);
+  const pdf = renderPdf(doc);
+  return { doc, pdf, path: pdfFile(pdf) };
+}
+
+/** Share of pixels that are not white: a figure that drew nothing (or was wiped) has none. */
+async function inkFraction(png: Buffer): Promise<number> {
+  const img = await loadImage(png);
+  const c = createCanvas(img.width, img.height);
+  const ctx = c.getContext('2d');
+  ctx.drawImage(img, 0, 0);
+  const d = ctx.getImageData(0, 0, img.width, img.height).data;
+  let ink = 0;
+  for (let i = 0; i < d.length; i += 4) if (d[i] < 245 || d[i + 1] < 245 || d[i + 2] < 245) ink++;
+  return ink / (d.length / 4);
+}
+
+describe('solve report', () => {
+  let r: Rendered;
+  beforeAll(() => {
+    r = render(solveInput(reference));
+  });
+
+  it('has title, profiles, propagators, period search and metrics pages, nothing overflowing', () => {
+    expect(r.doc.pages.map((p) => p.heading)).toEqual(['mesofield solve report', 'Density and field profiles', 'Chain propagators', 'Equilibrium period search', 'Metrics and model assumptions']);
+    expect(pdfPageCount(r.doc)).toBe(r.doc.pages.length);
+    expect(pdfInfo(r.path).Pages).toBe('5');
+  });
+
+  it('carries the run date, not the clock, as the PDF creation date', () => {
+    expect(pdfInfo(r.path).CreationDate).toMatch(/^2024-05-06T07:08:09/);
+  });
+
+  it('prints the system, units, axis labels and assumptions as extractable text', () => {
+    const title = pdfText(r.path, 1);
+    expect(title).toContain('A0.500-B0.500');
+    expect(title).toContain('χN = 15');
+    // 3.7 Rg × 4.5 nm per Rg = 16.65 nm
+    expect(title).toContain('L = 3.7 Rg = 16.65 nm');
+    expect(title).toContain('2024-05-06T07:08:09.000Z');
+    expect(title).toContain('mesofield 0.0.0-fixture');
+    expect(pdfText(r.path, 2)).toMatch(/x \/ Rg[\s\S]*wA − wB \(kT\)/);
+    const period = pdfText(r.path, 4);
+    expect(period).toContain('F (kT per chain)');
+    expect(period).toContain('L* = 3.7 Rg');
+    const last = pdfText(r.path, 5);
+    for (const s of ['Mean-field', 'Incompressible', 'Gaussian', 'One-dimensional lamellae', 'a χN fitted to data inherits these assumptions']) expect(last).toContain(s);
+    expect(last).toContain(reference.freeEnergy.toPrecision(10).replace(/0+$/, ''));
+  });
+
+  it('is byte-identical when rendered twice', () => {
+    expect(Buffer.compare(renderPdf(buildReport(solveInput(reference))), r.pdf)).toBe(0);
+  });
+
+  it('writes PNGs of the stated size and DPI, identical run to run, with ink on them', async () => {
+    const figs = figuresOf(r.doc);
+    expect(figs.map((f) => f.id)).toEqual(['profiles-phi', 'profiles-exchange-field', 'propagators', 'period-search']);
+    for (const dpi of [72, 150]) {
+      for (const f of figs) {
+        const png = renderFigurePng(f, dpi);
+        const h = pngHeader(png);
+        expect(h.width).toBe(Math.round(((f.width + 2 * PNG_PADDING) * dpi) / 72));
+        expect(h).toMatchObject(pngSize(f, dpi));
+        // pHYs is in pixels per metre: dpi / 0.0254.
+        expect(h.pixelsPerMetre).toBe(Math.round(dpi / 0.0254));
+        const img = await loadImage(png);
+        expect([img.width, img.height]).toEqual([h.width, h.height]);
+      }
+    }
+    const once = renderFigurePng(figs[2], 100);
+    expect(Buffer.compare(once, renderFigurePng(figs[2], 100))).toBe(0);
+    for (const f of figs) expect(await inkFraction(renderFigurePng(f, 60))).toBeGreaterThan(0.03);
+  });
+});
+
+describe('network-vs-reference report (fixture network)', () => {
+  it('overlays both solutions and draws their differences', () => {
+    const r = render(networkInput(reference, fixtureNetwork));
+    expect(pdfInfo(r.path).Pages).toBe('4');
+    expect(pdfPageCount(r.doc)).toBe(4);
+    const profiles = pdfText(r.path, 2);
+    expect(profiles).toContain('φA fixture χN 15.6');
+    expect(profiles).toContain('φA: fixture χN 15.6 − reference');
+    expect(profiles).toContain('Δφ (–)');
+    const prop = pdfText(r.path, 3);
+    expect(prop).toContain('q difference, fixture χN 15.6 − reference');
+    const metrics = pdfText(r.path, 4);
+    expect(metrics).toContain('relative L2 error of φA');
+    expect(metrics).toContain('fixture metric');
+    expect(pdfText(r.path, 1)).toContain('network backend wasm (fixture), tfjs 4.22.0');
+  });
+
+  it('states the largest φA difference it drew, computed independently here', () => {
+    let m = 0;
+    for (let j = 0; j < reference.nx; j++) m = Math.max(m, Math.abs(fixtureNetwork.phi.A[j] - reference.phi.A[j]));
+    expect(m).toBeGreaterThan(1e-3); // the fixture really differs
+    const r = render(networkInput(reference, fixtureNetwork));
+    expect(pdfText(r.path, 2)).toContain(`max |Δφ_A| = ${m.toExponential(2)}`.replace('Δφ_A', 'ΔφA'));
+  });
+
+  it('refuses solutions on different grids, naming both', () => {
+    const other = { ...fixtureNetwork, nx: 16 };
+    expect(() => buildReport(networkInput(reference, other))).toThrow(/nx = 16 but the reference has nx = 32/);
+  });
+});
+
+describe('training report', () => {
+  it('plots loss terms on a log axis, the learning rate and the χN trajectory', async () => {
+    const r = render({ info: runInfo('train'), training: trainingFixture() });
+    expect(pdfInfo(r.path).Pages).toBe('3');
+    const t = pdfText(r.path, 2);
+    for (const s of ['mde', 'periodicity', 'incompressibility', 'learning rate', 'true χN = 15', '1e-3']) expect(t).toContain(s);
+    const figs = figuresOf(r.doc);
+    expect(figs.map((f) => f.id)).toEqual(['training-loss', 'training-lr', 'training-chiN']);
+    for (const f of figs) expect(await inkFraction(renderFigurePng(f, 60))).toBeGreaterThan(0.02);
+  });
+
+  it('says how many non-positive loss values a log axis cannot show', () => {
+    const tr = trainingFixture();
+    tr.history[3].terms.mde = 0;
+    const r = render({ info: runInfo('train'), training: tr });
+    expect(pdfText(r.path, 2)).toContain('1 non-positive values are not drawn');
+  });
+});
+
+describe('inversion report', () => {
+  it('shows data with errors, fit, residuals, the profile likelihood and the estimator table', async () => {
+    // Noise-free fixture data made at χN = 15: the profile minimum must sit exactly there.
+    const exact = inversionFixture(reference, 0);
+    expect(exact.bestChiN).toBe(15);
+    expect(exact.profileLikelihood.find((p) => p.chiN === 15)!.deltaChi2).toBe(0);
+    expect(exact.interval.lower).toBeLessThan(15);
+    expect(exact.interval.upper).toBeGreaterThan(15);
+    const inv = inversionFixture(reference);
+    const r = render({ info: runInfo('invert'), inversion: inv });
+    expect(pdfInfo(r.path).Pages).toBe('3');
+    const t = pdfText(r.path, 2);
+    for (const s of ['φA data ± σ', 'residual / σ', 'Δχ² (–)', 'profile-likelihood grid minimum', 'true χN of the fixture data', '68 % interval']) expect(t).toContain(s);
+    for (const f of figuresOf(r.doc)) expect(await inkFraction(renderFigurePng(f, 60))).toBeGreaterThan(0.02);
+  });
+
+  it('rejects a data point without a positive σ, naming it', () => {
+    const inv = inversionFixture(reference);
+    inv.data[2].sigma = 0;
+    expect(() => buildReport({ info: runInfo('invert'), inversion: inv })).toThrow(/inversion\.data\[2\]\.sigma: got 0/);
+  });
+});

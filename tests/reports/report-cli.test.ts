@@ -1,0 +1,113 @@
+/** `mesofield report` end to end through the built CLI: a real solve run, outputs, and bad input (exit 2). */
+import { beforeAll, describe, expect, it } from 'vitest';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { runCli } from '../helpers/run-cli.js';
+import { pdfInfo, pdfText, pngHeader } from './pdf-tools.js';
+
+const root = mkdtempSync(join(tmpdir(), 'mesofield-report-'));
+const run = join(root, 'run');
+
+beforeAll(() => {
+  const r = runCli(['solve', '--chiN', '15', '--nx', '32', '--ns', '40', '--propagators', '--quiet', '--out', run]);
+  expect(r.code, r.stderr).toBe(0);
+});
+
+describe('mesofield report on a solve run', () => {
+  it('writes an A4 PDF and one PNG per figure at the asked DPI', () => {
+    const out = join(root, 'rep');
+    const r = runCli(['report', run, '--out', out, '--dpi', '100', '--rg-nm', '5']);
+    expect(r.code, r.stderr).toBe(0);
+    const info = pdfInfo(join(out, 'report.pdf'));
+    expect(info.Pages).toBe('5');
+    expect(info['Page size']).toMatch(/^595(\.\d+)? x 841(\.\d+)? pts \(A4\)/);
+    const sol = JSON.parse(readFileSync(join(run, 'solution.json'), 'utf8'));
+    // The PDF date is the run's own date (provenance.createdAt), to the second.
+    expect(info.CreationDate).toBe(`${String(sol.provenance.createdAt).slice(0, 19)}Z`);
+    const text = pdfText(join(out, 'report.pdf'));
+    expect(text).toContain(`${(sol.summary.period * 5).toPrecision(4)} nm`);
+    expect(readdirSync(join(out, 'figures')).sort()).toEqual(['period-search.png', 'profiles-exchange-field.png', 'profiles-phi.png', 'propagators.png']);
+    for (const f of readdirSync(join(out, 'figures'))) {
+      const h = pngHeader(readFileSync(join(out, 'figures', f)));
+      expect(h.pixelsPerMetre).toBe(Math.round(100 / 0.0254));
+    }
+    // The default is RUN_DIR/report, and the same run gives the same bytes.
+    expect(runCli(['report', run, '--dpi', '100', '--rg-nm', '5', '--quiet']).code).toBe(0);
+    expect(Buffer.compare(readFileSync(join(run, 'report', 'report.pdf')), readFileSync(join(out, 'report.pdf')))).toBe(0);
+    expect(Buffer.compare(readFileSync(join(run, 'report', 'figures', 'propagators.png')), readFileSync(join(out, 'figures', 'propagators.png')))).toBe(0);
+  });
+
+  it('writes only what --format asks for', () => {
+    const out = join(root, 'pdf-only');
+    expect(runCli(['report', run, '--out', out, '--format', 'pdf', '--quiet']).code).toBe(0);
+    expect(readdirSync(out)).toEqual(['report.pdf']);
+  });
+});
+
+describe('mesofield report: bad input exits 2 with a message naming the problem', () => {
+  it('missing run directory', () => {
+    const r = runCli(['report', join(root, 'nope')]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain(`${join(root, 'nope')}: run directory not found`);
+  });
+
+  it('directory without a solution file', () => {
+    const empty = join(root, 'empty');
+    mkdirSync(empty);
+    writeFileSync(join(empty, 'notes.txt'), 'x');
+    const r = runCli(['report', empty]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/no solution file found.*files here: notes\.txt/);
+  });
+
+  it('inconsistent solution file (propagators of the wrong shape), leaving an existing report untouched', () => {
+    const bad = join(root, 'bad');
+    mkdirSync(bad);
+    const sol = JSON.parse(readFileSync(join(run, 'solution.json'), 'utf8'));
+    sol.propagators.q.pop();
+    writeFileSync(join(bad, 'solution.json'), JSON.stringify(sol));
+    const out = join(root, 'keep');
+    mkdirSync(out);
+    writeFileSync(join(out, 'report.pdf'), 'previous report');
+    const r = runCli(['report', bad, '--out', out]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain(`${join(bad, 'solution.json')}: propagators.q: got 40 rows; must hold summary.ns + 1 = 41`);
+    expect(readFileSync(join(out, 'report.pdf'), 'utf8')).toBe('previous report');
+  });
+
+  it('grid arrays that disagree with summary.nx', () => {
+    const bad = join(root, 'bad-grid');
+    mkdirSync(bad);
+    const sol = JSON.parse(readFileSync(join(run, 'solution.json'), 'utf8'));
+    sol.grid.phiA = sol.grid.phiA.slice(1);
+    writeFileSync(join(bad, 'solution.json'), JSON.stringify(sol));
+    const r = runCli(['report', bad]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('grid.phiA');
+    expect(existsSync(join(bad, 'report'))).toBe(false);
+  });
+
+  it('network and reference on different grids', () => {
+    const mixed = join(root, 'mixed');
+    mkdirSync(mixed);
+    const ref = JSON.parse(readFileSync(join(run, 'solution.json'), 'utf8'));
+    writeFileSync(join(mixed, 'solution.json'), JSON.stringify(ref));
+    const net = structuredClone(ref);
+    net.summary.solver = 'network';
+    net.summary.length = ref.summary.length * 1.1;
+    writeFileSync(join(mixed, 'network-solution.json'), JSON.stringify(net));
+    const r = runCli(['report', mixed]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/network-solution\.json: grid nx = 32, L = .* differs from the reference's/);
+  });
+
+  it('bad --format and --dpi', () => {
+    const f = runCli(['report', run, '--format', 'pdf,svg']);
+    expect(f.code).toBe(2);
+    expect(f.stderr).toContain('--format: got "pdf,svg"; allowed: a comma-separated list of pdf, png');
+    const d = runCli(['report', run, '--dpi', '10']);
+    expect(d.code).toBe(2);
+    expect(d.stderr).toContain('--dpi: got 10; allowed: a whole number from 36 to 1200');
+  });
+});
