@@ -49,3 +49,12 @@ export function pngHeader(png: Buffer): { width: number; height: number; pixelsP
   }
   return { width, height, pixelsPerMetre };
 }
+
+/** Words of one page with their boxes (pdftotext -bbox), in PDF points from the top left. */
+export function pdfWords(path: string, page: number): { text: string; xMin: number; xMid: number; yMid: number }[] {
+  const html = tool('pdftotext', ['-bbox', '-f', String(page), '-l', String(page), path, '-']);
+  const out: { text: string; xMin: number; xMid: number; yMid: number }[] = [];
+  const re = /<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g;
+  for (let m = re.exec(html); m; m = re.exec(html)) out.push({ text: m[5], xMin: Number(m[1]), xMid: (Number(m[1]) + Number(m[3])) / 2, yMid: (Number(m[2]) + Number(m[4])) / 2 });
+  return out;
+}

@@ -13,7 +13,7 @@ import { pdfPageCount, renderPdf } from '../../src/reports/render-pdf.js';
 import { PNG_PADDING, pngSize, renderFigurePng } from '../../src/reports/render-png.js';
 import type { ReportInput } from '../../src/reports/report-inputs.js';
 import { inversionFixture, networkInput, runInfo, solveAt, solveInput, trainingFixture } from './fixtures.js';
-import { pdfFile, pdfInfo, pdfText, pngHeader } from './pdf-tools.js';
+import { pdfFile, pdfInfo, pdfText, pdfWords, pngHeader } from './pdf-tools.js';
 
 let reference: ScftSolution;
 let fixtureNetwork: ScftSolution;
@@ -104,6 +104,32 @@ describe('solve report', () => {
     const once = renderFigurePng(figs[2], 100);
     expect(Buffer.compare(once, renderFigurePng(figs[2], 100))).toBe(0);
     for (const f of figs) expect(await inkFraction(renderFigurePng(f, 60))).toBeGreaterThan(0.03);
+  });
+});
+
+describe('axes', () => {
+  it('label x ticks at their own values when the data do not start on a round number', () => {
+    // Data from 3.264 to 3.876: chart.js on its own adds 3.264 as a tick labelled "3.3".
+    const input = solveInput(reference);
+    input.periodSearch = { trace: [3.264, 3.43, 3.6, 3.876].map((period) => ({ period, freeEnergy: 3.43 + (period - 3.6) ** 2, phase: 'lamellar', iterations: 10 })), period: 3.6 };
+    const r = render(input);
+    const candidates = pdfWords(r.path, 4).filter((w) => /^3\.\d$/.test(w.text));
+    // Tick labels are the row of such words sharing one baseline (the guide label and caption are elsewhere).
+    const rowOf = (w: { yMid: number }): number => Math.round(w.yMid);
+    const counts = new Map<number, number>();
+    for (const w of candidates) counts.set(rowOf(w), (counts.get(rowOf(w)) ?? 0) + 1);
+    const axisRow = [...counts.entries()].sort((a, b) => b[1] - a[1])[0][0];
+    const ticks = candidates.filter((w) => rowOf(w) === axisRow).sort((a, b) => a.xMid - b.xMid);
+    const values = ticks.map((t) => Number(t.text));
+    expect(values).toEqual([3.3, 3.4, 3.5, 3.6, 3.7, 3.8]);
+    // The guide at L = 3.6 is a data-coordinate line; its label starts 3 pt right of it.
+    // The "3.6" tick label must be centred on that same x (a shifted tick set would not be).
+    const guideX = pdfWords(r.path, 4).find((w) => w.text === 'L*')!.xMin - 3;
+    const tick36 = ticks.find((t) => t.text === '3.6')!;
+    expect(Math.abs(tick36.xMid - guideX)).toBeLessThan(0.8);
+    // And labels are equally spaced: position is linear in value.
+    const dx = (ticks[ticks.length - 1].xMid - ticks[0].xMid) / (values[values.length - 1] - values[0]);
+    ticks.forEach((t) => expect(Math.abs(t.xMid - (ticks[0].xMid + (Number(t.text) - values[0]) * dx))).toBeLessThan(0.6));
   });
 });
 

@@ -4,13 +4,13 @@
  * above the plot area so it never covers data. Guide lines, a shaded interval and error
  * bars are drawn by a small inline plugin in data coordinates.
  */
-import type { Chart as ChartType, ChartConfiguration, Plugin } from 'chart.js';
+import type { Chart as ChartType, ChartConfiguration, Plugin, Scale } from 'chart.js';
 import type { Region } from '../region.js';
 import type { SeriesStyle } from '../style.js';
 import { FONT_FAMILY, TEXT, seriesStyle } from '../style.js';
 import { chartJs } from './chart-setup.js';
 import { drawLegend } from './markers.js';
-import { formatLogTick, logTicks } from './ticks.js';
+import { formatLogTick, formatTick, logTicks, niceTicks } from './ticks.js';
 
 export interface LineSeries {
   label: string;
@@ -187,8 +187,11 @@ export function drawLineChart(region: Region, spec: LineChartSpec): void {
           min: spec.xMin,
           max: spec.xMax,
           title: { display: true, text: spec.xLabel, font: { size: TEXT.axis } },
-          ticks: { font: { size: TEXT.tick }, maxRotation: 0 },
+          ticks: { font: { size: TEXT.tick }, maxRotation: 0, autoSkip: false, callback: (v: number | string, _i: number, all: { value: number }[]) => formatTick(Number(v), all.map((t) => t.value)) },
           grid: { color: '#e4e4e4' },
+          // Only round values as ticks: chart.js adds the data bounds as ticks and labels them
+          // rounded to the step (3.264 shown as "3.3"), which misreads the axis.
+          afterBuildTicks: (scale: Scale) => void (scale.ticks = niceTicks(scale.min, scale.max, 8).map((value) => ({ value }))),
         },
         y: {
           type: spec.yLog ? 'logarithmic' : 'linear',
@@ -198,7 +201,7 @@ export function drawLineChart(region: Region, spec: LineChartSpec): void {
           ticks: { font: { size: TEXT.tick }, ...(spec.yLog ? { callback: (v: number | string) => formatLogTick(Number(v)), autoSkip: false } : {}) },
           grid: { color: '#e4e4e4' },
           // chart.js's own log ticks label every mantissa and crowd the axis: use decades (or 1-2-5).
-          ...(spec.yLog ? { afterBuildTicks: (scale: { min: number; max: number; ticks: { value: number }[] }) => void (scale.ticks = logTicks(scale.min, scale.max).map((value) => ({ value }))) } : {}),
+          ...(spec.yLog ? { afterBuildTicks: (scale: Scale) => void (scale.ticks = logTicks(scale.min, scale.max).map((value) => ({ value }))) } : {}),
           afterFit: (scale: { width: number }) => void (scale.width = Y_AXIS_WIDTH),
         },
       },
