@@ -1,0 +1,128 @@
+/**
+ * Config file kind "train": a physics-informed network for one system, its reference,
+ * its losses and its training schedule.
+ */
+import { z } from 'zod';
+import { systemSchema } from '../../physics/chain-schema.js';
+import { fieldNetworkSchema, propagatorNetworkSchema } from './network-schema.js';
+import { cellSchema, spectralSchema } from './spectral-schema.js';
+
+export const lossWeightsSchema = z
+  .object({
+    /** MDE residual of q and of q† (in ln q form), mean square over collocation points. */
+    mde: z.number().min(0).default(1),
+    /** (φ_A + φ_B − 1)², mean over the x grid. */
+    incompressibility: z.number().min(0).default(1),
+    /** (w_A − w_B − χN(φ_B − φ_A))², mean over the x grid. */
+    selfConsistency: z.number().min(0).default(1),
+    /** (mean of (w_A + w_B)/2)²: pins the pressure gauge. */
+    gauge: z.number().min(0).default(1),
+  })
+  .strict();
+
+export const trainConfigSchema = z
+  .object({
+    version: z.literal(1),
+    kind: z.literal('train'),
+    system: systemSchema,
+    cell: cellSchema.prefault({}),
+    /** Settings of the spectral reference solved for the warm start and the evaluation. */
+    reference: spectralSchema.prefault({}),
+    backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
+    networks: z
+      .object({
+        field: fieldNetworkSchema.prefault({}),
+        propagator: propagatorNetworkSchema.prefault({}),
+        /** Use one propagator network for q and q† when the chain reads the same from both ends. */
+        shareWhenPalindromic: z.boolean().default(true),
+      })
+      .strict()
+      .prefault({}),
+    collocation: z
+      .object({
+        /** Fixed tensor grid: x points, and contour nodes per block (even: Simpson's rule for φ). */
+        nx: z.number().int().min(8).max(512).default(32),
+        nodesPerBlock: z
+          .number()
+          .int()
+          .min(4)
+          .max(512)
+          .refine((n) => n % 2 === 0, { message: 'must be even (Simpson intervals come in pairs)' })
+          .default(16),
+        /** Extra MDE collocation points, redrawn every resampleEvery steps. */
+        random: z.number().int().min(0).max(100000).default(256),
+        /** Of those, the share drawn where the MDE residual is largest (residual-based). */
+        residualShare: z.number().min(0).max(1).default(0.5),
+        resampleEvery: z.number().int().min(1).default(250),
+        seed: z.number().int().min(0).max(0xffffffff).default(7),
+      })
+      .strict()
+      .prefault({}),
+    losses: z
+      .object({
+        weights: lossWeightsSchema.prefault({}),
+        /**
+         * 'fixed': the weights above. 'gradient-statistics': learning-rate annealing of
+         * Wang, Teng & Perdikaris (SIAM J. Sci. Comput. 43, A3055, 2021) on top of them.
+         */
+        balancing: z.enum(['fixed', 'gradient-statistics']).default('fixed'),
+        /**
+         * 'detached': the MDE residual sees the field network's w as fixed, so the MDE term
+         * trains the propagators only and the fields answer to the field equations alone
+         * (as in an SCFT iteration). 'coupled': the MDE gradient also moves the fields.
+         */
+        fieldInMde: z.enum(['detached', 'coupled']).default('detached'),
+        balanceEvery: z.number().int().min(1).default(100),
+        balanceSmoothing: z.number().gt(0).lte(1).default(0.1),
+      })
+      .strict()
+      .prefault({}),
+    warmStart: z
+      .object({
+        /** 'reference': fit the networks to the spectral solution before physics training. */
+        type: z.enum(['reference', 'none']).default('reference'),
+        fitPropagator: z.boolean().default(true),
+        steps: z.number().int().min(0).max(100000).default(400),
+        learningRate: z.number().gt(0).lt(1).default(3e-3),
+      })
+      .strict()
+      .prefault({}),
+    /** Transfer: start from a checkpoint trained at other parameters (weights must match). */
+    initFrom: z.string().min(1).optional(),
+    training: z
+      .object({
+        /**
+         * 'alternating': the MDE term trains the propagators in the current fields, and
+         * every fieldUpdateEvery steps the field network is refitted to the SCFT field update
+         * w + λ·d of physics/scft-equations.ts computed from the networks' own φ (an SCFT
+         * iteration whose propagator solve is the network). 'joint': one weighted loss of all
+         * terms trains every network at once.
+         */
+        strategy: z.enum(['alternating', 'joint']).default('alternating'),
+        fieldUpdateEvery: z.number().int().min(1).default(100),
+        fieldMixing: z.number().gt(0).lte(1).default(0.5),
+        fieldFitSteps: z.number().int().min(1).default(150),
+        fieldFitLearningRate: z.number().gt(0).lt(1).default(3e-3),
+        steps: z.number().int().min(0).max(1000000).default(1500),
+        learningRate: z.number().gt(0).lt(1).default(2e-3),
+        /** lr(step) = learningRate · decay^(step/decaySteps). */
+        decay: z.number().gt(0).lte(1).default(0.5),
+        decaySteps: z.number().int().min(1).default(1000),
+        /** L-BFGS polish iterations after Adam (0: none). */
+        lbfgsIterations: z.number().int().min(0).max(10000).default(0),
+        logEvery: z.number().int().min(1).default(50),
+        checkpointEvery: z.number().int().min(1).default(250),
+        /** Stop as diverged when the loss exceeds this multiple of the best loss so far. */
+        divergenceFactor: z.number().gt(1).default(1e4),
+        /** Evaluate φ_A error against the reference every this many steps (0: only at the end). */
+        evaluateEvery: z.number().int().min(0).default(0),
+        /** Stop early once φ_A relative L2 error is below this (needs evaluateEvery > 0). */
+        targetPhiError: z.number().gt(0).optional(),
+      })
+      .strict()
+      .prefault({}),
+  })
+  .strict();
+
+export type TrainConfig = z.infer<typeof trainConfigSchema>;
+export type TrainConfigInput = z.input<typeof trainConfigSchema>;

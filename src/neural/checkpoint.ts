@@ -1,0 +1,110 @@
+/**
+ * Checkpoint directories. Layout:
+ *   checkpoint.json  kind "checkpoint": config, provenance (backend, tfjs), step, stage,
+ *                    loss weights, history, metrics, cell length, and the weight manifest
+ *   weights.bin      all tensors in tfjs's own weight encoding (tf.io.encodeWeights):
+ *                    the networks' parameters and the Adam moments
+ * The directory is written whole to a temporary name and swapped in (io/atomic-write.ts),
+ * so an interrupted save leaves the previous checkpoint intact.
+ */
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { z } from 'zod';
+import type * as TfModule from '@tensorflow/tfjs';
+import { writeDirectoryAtomic } from '../io/atomic-write.js';
+import { InputError } from '../io/errors.js';
+import { formatZodError } from '../io/errors.js';
+import { trainConfigSchema } from '../io/schemas/train-config.js';
+import type { Tf } from './backend.js';
+import type { NamedWeight } from './parameters.js';
+import { LOSS_TERMS } from './scft-problem.js';
+
+const lossRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number()])) as Record<(typeof LOSS_TERMS)[number], z.ZodNumber>);
+
+export const historyEntrySchema = z.object({
+  step: z.number().int(),
+  stage: z.enum(['warm-start', 'adam', 'lbfgs']),
+  total: z.number(),
+  terms: lossRecord.partial(),
+  learningRate: z.number(),
+  seconds: z.number(),
+  phiError: z.number().optional(),
+});
+
+export const checkpointFileSchema = z.object({
+  kind: z.literal('checkpoint'),
+  version: z.literal(1),
+  provenance: z.object({ tool: z.literal('mesofield'), version: z.string(), backend: z.string(), tfjs: z.string() }).passthrough(),
+  config: trainConfigSchema,
+  /** Cell length L in Rg the networks were built for (features depend on it). */
+  length: z.number().gt(0),
+  periods: z.number().int().min(1),
+  step: z.number().int().min(0),
+  stage: z.enum(['warm-start', 'adam', 'lbfgs', 'done']),
+  lossWeights: lossRecord,
+  history: z.array(historyEntrySchema),
+  metrics: z.record(z.string(), z.unknown()).optional(),
+  weightSpecs: z.array(z.object({ name: z.string(), shape: z.array(z.number().int()), dtype: z.string() }).passthrough()),
+  weightBytes: z.number().int().min(0),
+});
+
+export type CheckpointFile = z.infer<typeof checkpointFileSchema>;
+export type HistoryEntry = z.infer<typeof historyEntrySchema>;
+
+export interface LoadedCheckpoint {
+  file: CheckpointFile;
+  weights: TfModule.NamedTensorMap;
+}
+
+export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<CheckpointFile, 'kind' | 'version' | 'weightSpecs' | 'weightBytes'>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
+  const { data, specs } = await tf.io.encodeWeights(tensors.map((t) => ({ name: t.name, tensor: t.tensor })));
+  const file: CheckpointFile = { kind: 'checkpoint', version: 1, ...meta, weightSpecs: specs as CheckpointFile['weightSpecs'], weightBytes: data.byteLength };
+  writeDirectoryAtomic(dir, {
+    'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
+    'weights.bin': new Uint8Array(data),
+    ...extraFiles,
+  });
+}
+
+/** Read and check a checkpoint; every problem is an InputError that says what is wrong. */
+export function loadCheckpoint(tf: Tf, dir: string): LoadedCheckpoint {
+  const metaPath = join(dir, 'checkpoint.json');
+  const binPath = join(dir, 'weights.bin');
+  if (!existsSync(metaPath)) throw new InputError(`${dir}: not a checkpoint directory (no checkpoint.json)`);
+  if (!existsSync(binPath)) throw new InputError(`${dir}: checkpoint is incomplete (no weights.bin)`);
+  let raw: unknown;
+  try {
+    raw = JSON.parse(readFileSync(metaPath, 'utf8'));
+  } catch (e) {
+    throw new InputError(`${metaPath}: corrupted checkpoint (not valid JSON: ${(e as Error).message})`);
+  }
+  const parsed = checkpointFileSchema.safeParse(raw);
+  if (!parsed.success) throw new InputError(`${metaPath}: not a valid checkpoint\n${formatZodError(parsed.error, raw, metaPath)}`);
+  const file = parsed.data;
+  const buf = readFileSync(binPath);
+  if (buf.byteLength !== file.weightBytes) {
+    throw new InputError(`${binPath}: corrupted checkpoint: weights.bin has ${buf.byteLength} bytes, checkpoint.json says ${file.weightBytes}`);
+  }
+  const ab = buf.buffer.slice(buf.byteOffset, buf.byteOffset + buf.byteLength);
+  let weights: TfModule.NamedTensorMap;
+  try {
+    weights = tf.io.decodeWeights(ab, file.weightSpecs as TfModule.io.WeightsManifestEntry[]);
+  } catch (e) {
+    throw new InputError(`${binPath}: corrupted checkpoint: cannot decode weights (${(e as Error).message})`);
+  }
+  for (const [name, t] of Object.entries(weights)) {
+    const v = t.dataSync();
+    for (let i = 0; i < v.length; i++) {
+      if (!Number.isFinite(v[i])) throw new InputError(`${binPath}: corrupted checkpoint: weight ${name} holds a non-finite value`);
+    }
+  }
+  return { file, weights };
+}
+
+/** Split decoded tensors into network parameters and Adam state. */
+export function splitWeights(weights: TfModule.NamedTensorMap): { params: TfModule.NamedTensorMap; adam: TfModule.NamedTensorMap } {
+  const params: TfModule.NamedTensorMap = {};
+  const adam: TfModule.NamedTensorMap = {};
+  for (const [k, t] of Object.entries(weights)) (k.startsWith('adam/') ? adam : params)[k] = t;
+  return { params, adam };
+}

@@ -1,0 +1,28 @@
+/**
+ * The melt's field equations as loss terms (SCFT-NOTES.md, "Self-consistency"), on the x
+ * grid, in kT per chain. The self-consistency and gauge terms are divided by max(1, χN)²
+ * so that every term is O(φ²) whatever χN is (they compare fields of size ~χN).
+ *   incompressibility:  mean (φ_A + φ_B − 1)²
+ *   selfConsistency:    mean (w_A − w_B − χN (φ_B − φ_A))² / max(1, χN)²
+ *   gauge:              (mean (w_A + w_B)/2)² / max(1, χN)²
+ * A one-species melt keeps incompressibility (φ_K − 1)² and the gauge mean w_K = 0.
+ */
+import type * as TfModule from '@tensorflow/tfjs';
+import type { Tf } from '../backend.js';
+
+export function incompressibilityLoss(tf: Tf, phiA: TfModule.Tensor, phiB: TfModule.Tensor | null): TfModule.Scalar {
+  const total = phiB ? tf.add(phiA, phiB) : phiA;
+  return tf.mean(tf.square(tf.sub(total, 1))) as TfModule.Scalar;
+}
+
+export function selfConsistencyLoss(tf: Tf, chiN: number, wA: TfModule.Tensor, wB: TfModule.Tensor, phiA: TfModule.Tensor, phiB: TfModule.Tensor): TfModule.Scalar {
+  const scale = 1 / Math.max(1, chiN) ** 2;
+  const r = tf.sub(tf.sub(wA, wB), tf.mul(tf.sub(phiB, phiA), chiN));
+  return tf.mul(tf.mean(tf.square(r)), scale) as TfModule.Scalar;
+}
+
+export function gaugeLoss(tf: Tf, chiN: number, wA: TfModule.Tensor, wB: TfModule.Tensor | null): TfModule.Scalar {
+  const scale = 1 / Math.max(1, chiN) ** 2;
+  const pressure = wB ? tf.mul(tf.add(wA, wB), 0.5) : wA;
+  return tf.mul(tf.square(tf.mean(pressure)), scale) as TfModule.Scalar;
+}

@@ -1,0 +1,254 @@
+/**
+ * One training run from a train config: reference solve, networks, warm start (or
+ * transfer, or resume), physics training, evaluation against the reference, checkpoints.
+ * The CLI's `train` is a thin wrapper around trainRun; tests call it directly.
+ */
+import { join } from 'node:path';
+import type * as TfModule from '@tensorflow/tfjs';
+import { InputError } from '../io/errors.js';
+import type { TrainConfig } from '../io/schemas/train-config.js';
+import { solutionToFile, summarize } from '../io/solution-file.js';
+import { provenance } from '../io/versions.js';
+import { buildChain } from '../physics/chain.js';
+import type { ScftSolution } from '../physics/result.js';
+import { compareSolutions } from '../physics/solution-metrics.js';
+import type { SolutionMetrics } from '../physics/solution-metrics.js';
+import { solveFromConfig } from '../spectral/solve-from-config.js';
+import { cosineStart } from '../spectral/scft-solver.js';
+import { Adam } from './adam.js';
+import { selectBackend } from './backend.js';
+import type { BackendHandle, Tf } from './backend.js';
+import { loadCheckpoint, saveCheckpoint, splitWeights } from './checkpoint.js';
+import type { CheckpointFile, LoadedCheckpoint } from './checkpoint.js';
+import { networkSolution } from './network-solution.js';
+import { buildScftNetworks } from './scft-networks.js';
+import type { ScftNetworks } from './scft-networks.js';
+import { LOSS_TERMS, ScftProblem } from './scft-problem.js';
+import type { LossValues } from './scft-problem.js';
+import { polishWithLbfgs, runTraining } from './train-loop.js';
+import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
+import { warmStart } from './warm-start.js';
+
+/** Contour nodes per block for evaluating a network (finer than training: quadrature error stays negligible). */
+export const EVALUATION_NODES_PER_BLOCK = 64;
+
+export interface TrainRunOptions {
+  config: TrainConfig;
+  outDir?: string;
+  resumeDir?: string;
+  backend?: TrainConfig['backend'];
+  onProgress?: LoopHooks['onProgress'];
+  onStage?: (message: string) => void;
+  shouldStop?: () => boolean;
+}
+
+export interface TrainMetrics {
+  backend: string;
+  tfjs: string;
+  phase: string;
+  collapsed: boolean;
+  sharedPropagator: boolean;
+  errors: SolutionMetrics;
+  freshResiduals: LossValues;
+  reference: ReturnType<typeof summarize>;
+  network: ReturnType<typeof summarize>;
+  training: {
+    stopReason: StopReason;
+    message: string;
+    adamSteps: number;
+    seconds: number;
+    warmStart?: { steps: number; seconds: number; finalLoss: number };
+    lbfgs?: { iterations: number; finalLoss: number; reason: string };
+    reachedTarget?: { step: number; seconds: number };
+    transferredFrom?: { checkpoint: string; chiN: number; f: number };
+    resumedFrom?: { checkpoint: string; step: number };
+  };
+}
+
+export interface TrainRunResult {
+  metrics: TrainMetrics;
+  reference: ScftSolution;
+  network: ScftSolution;
+  handle: BackendHandle;
+  outDir?: string;
+  history: CheckpointFile['history'];
+}
+
+function sameArchitecture(a: TrainConfig, b: TrainConfig): string | null {
+  const ja = JSON.stringify(a.networks);
+  const jb = JSON.stringify(b.networks);
+  if (ja !== jb) return `networks differ (checkpoint ${jb}, config ${ja})`;
+  return null;
+}
+
+function unitWeights(): LossValues {
+  return Object.fromEntries(LOSS_TERMS.map((k) => [k, 1])) as LossValues;
+}
+
+export function evaluateNetworks(tf: Tf, nets: ScftNetworks, config: TrainConfig, reference: ScftSolution, keepPropagators = false): { network: ScftSolution; errors: SolutionMetrics } {
+  const network = networkSolution(tf, nets, config.system, { periods: reference.periods, nx: reference.nx, nodesPerBlock: EVALUATION_NODES_PER_BLOCK, keepPropagators });
+  return { network, errors: compareSolutions(network, reference) };
+}
+
+export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
+  const t0 = performance.now();
+  let config = opts.config;
+  const stage = opts.onStage ?? (() => {});
+  let resumed: LoadedCheckpoint | null = null;
+  if (opts.resumeDir) {
+    const probe = await selectBackend(opts.backend ?? config.backend);
+    resumed = loadCheckpoint(probe.tf, opts.resumeDir);
+    const mismatch = sameArchitecture(config, resumed.file.config);
+    if (mismatch) throw new InputError(`--resume ${opts.resumeDir}: checkpoint does not match the config: ${mismatch}`);
+    if (JSON.stringify(resumed.file.config.system) !== JSON.stringify(config.system)) {
+      throw new InputError(`--resume ${opts.resumeDir}: checkpoint was trained for another system (${JSON.stringify(resumed.file.config.system)}); use initFrom for transfer`);
+    }
+    // The resumed run continues the checkpoint's own schedule, with the new step budget.
+    config = { ...resumed.file.config, training: { ...resumed.file.config.training, steps: Math.max(config.training.steps, resumed.file.step) } };
+  }
+  const handle = await selectBackend(opts.backend ?? config.backend);
+  const tf = handle.tf;
+  const chain = buildChain(config.system.chain);
+  const singleChain = Boolean(config.system.externalField);
+
+  stage('reference solve');
+  const cell = resumed ? { ...config.cell, period: resumed.file.length / resumed.file.periods } : config.cell;
+  const ref = solveFromConfig({ system: config.system, cell, solver: config.reference, output: { propagators: true } });
+  const reference = ref.solution;
+  if (!reference.converged) throw new InputError(`reference: the spectral solve did not converge (${reference.notes.join('; ')})`);
+  if (reference.phase === 'disordered') {
+    throw new InputError(`system: the reference is disordered at χN = ${config.system.chiN} (below the order–disorder transition): there is no lamella to learn`);
+  }
+  const length = reference.length;
+  const nets = buildScftNetworks(tf, config, chain, length, !singleChain);
+  const adam = new Adam(tf, nets.parameters);
+  let state: LoopState = { step: 0, lossWeights: unitWeights(), history: [], bestTotal: Infinity, secondsBefore: 0 };
+  const training: Partial<TrainMetrics['training']> = {};
+
+  if (resumed) {
+    const { params, adam: adamState } = splitWeights(resumed.weights);
+    nets.parameters.loadNamedWeights(params);
+    adam.restore(resumed.file.step, adamState);
+    const last = resumed.file.history[resumed.file.history.length - 1];
+    state = {
+      step: resumed.file.step,
+      lossWeights: resumed.file.lossWeights,
+      history: resumed.file.history,
+      bestTotal: resumed.file.history.filter((h) => h.stage === 'adam').reduce((m, h) => Math.min(m, h.total), Infinity),
+      secondsBefore: last?.seconds ?? 0,
+    };
+    training.resumedFrom = { checkpoint: opts.resumeDir!, step: resumed.file.step };
+    stage(`resumed from ${opts.resumeDir} at step ${resumed.file.step}`);
+  } else if (config.initFrom) {
+    const src = loadCheckpoint(tf, config.initFrom);
+    const mismatch = sameArchitecture(config, src.file.config);
+    if (mismatch) throw new InputError(`initFrom ${config.initFrom}: cannot transfer: ${mismatch}`);
+    const srcChain = buildChain(src.file.config.system.chain);
+    if (srcChain.blocks.length !== chain.blocks.length) throw new InputError(`initFrom ${config.initFrom}: the checkpoint's chain has ${srcChain.blocks.length} blocks, this one ${chain.blocks.length}`);
+    nets.parameters.loadNamedWeights(splitWeights(src.weights).params);
+    training.transferredFrom = { checkpoint: config.initFrom, chiN: src.file.config.system.chiN, f: srcChain.speciesFraction.A };
+    stage(`transfer from ${config.initFrom} (χN = ${src.file.config.system.chiN})`);
+  } else if (config.warmStart.type !== 'none' && config.warmStart.steps > 0) {
+    const ws = config.warmStart;
+    const fromReference = ws.type === 'reference';
+    const w = fromReference ? reference.w : cosineStart(chain, config.system.chiN, reference.nx, reference.periods, 0.3);
+    stage(fromReference ? 'warm start: fitting the networks to the spectral solution' : 'cold start: fitting the field network to a cosine guess');
+    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.steps, ws.learningRate);
+    training.warmStart = r;
+  }
+
+  const problem = new ScftProblem(tf, nets, config.system, config.collocation, config.training.strategy === 'alternating' ? 'detached' : config.losses.fieldInMde);
+  const extra = (resumed?.file as (CheckpointFile & { extraPoints?: ReturnType<ScftProblem['extraPoints']> }) | undefined)?.extraPoints;
+  if (resumed && extra) problem.setExtraPoints(extra, Math.floor(resumed.file.step / config.collocation.resampleEvery));
+
+  const refFile = `${JSON.stringify(solutionToFile(reference, provenance(), undefined), null, 1)}\n`;
+  const prov = () => ({ ...provenance({ backend: handle.backend, tfjs: handle.tfjsVersion }), backend: handle.backend, tfjs: handle.tfjsVersion });
+  const save = async (st: LoopState, stageName: CheckpointFile['stage'], extraFiles: Record<string, string> = {}, metrics?: Record<string, unknown>) => {
+    if (!opts.outDir) return;
+    const meta = {
+      provenance: prov(),
+      config,
+      length,
+      periods: reference.periods,
+      step: st.step,
+      stage: stageName,
+      lossWeights: st.lossWeights,
+      history: st.history,
+      ...(metrics ? { metrics } : {}),
+      extraPoints: problem.extraPoints(),
+    };
+    await saveCheckpoint(tf, opts.outDir, meta as Parameters<typeof saveCheckpoint>[2], [...nets.parameters.namedWeights(), ...adam.state()], { 'reference.json': refFile, ...extraFiles });
+  };
+
+  stage(`training (${handle.backend} backend, tfjs ${handle.tfjsVersion})`);
+  const loop = await runTraining(tf, problem, nets.parameters, adam, config, state, {
+    onProgress: opts.onProgress,
+    checkpoint: (st) => save(st, 'adam'),
+    evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
+    shouldStop: opts.shouldStop,
+  });
+  training.stopReason = loop.reason;
+  training.message = loop.message;
+  training.adamSteps = loop.state.step;
+  training.reachedTarget = loop.reachedTarget;
+
+  if (loop.reason === 'diverged' || loop.reason === 'interrupted') {
+    problem.dispose();
+    adam.dispose();
+    nets.dispose();
+    const err = new TrainingStopped(loop.reason, loop.message, opts.outDir, loop.lastCheckpointStep);
+    throw err;
+  }
+
+  if (config.training.lbfgsIterations > 0) {
+    stage(`L-BFGS polish (${config.training.lbfgsIterations} iterations)`);
+    const weights = Object.fromEntries(LOSS_TERMS.map((k) => [k, config.losses.weights[k] * loop.state.lossWeights[k]])) as LossValues;
+    const r = polishWithLbfgs(tf, problem, nets.parameters, weights, config.training.lbfgsIterations);
+    training.lbfgs = { iterations: r.iterations, finalLoss: r.f, reason: r.reason };
+    loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: (performance.now() - t0) / 1000 });
+  }
+  training.seconds = (performance.now() - t0) / 1000;
+
+  stage('evaluating against the reference');
+  const { network, errors } = evaluateNetworks(tf, nets, config, reference, true);
+  const freshResiduals = problem.freshResiduals(0x5eed, 1024);
+  const metrics: TrainMetrics = {
+    backend: handle.backend,
+    tfjs: handle.tfjsVersion,
+    phase: network.phase,
+    collapsed: network.phase === 'disordered',
+    sharedPropagator: nets.shared,
+    errors,
+    freshResiduals,
+    reference: summarize(reference, { periodTolerance: ref.search?.periodTolerance }),
+    network: summarize(network),
+    training: training as TrainMetrics['training'],
+  };
+  if (opts.outDir) {
+    const networkFile = `${JSON.stringify(solutionToFile(network, prov(), config), null, 1)}\n`;
+    await save(loop.state, 'done', { 'metrics.json': `${JSON.stringify(metrics, null, 2)}\n`, 'network.json': networkFile }, metrics as unknown as Record<string, unknown>);
+  }
+  problem.dispose();
+  adam.dispose();
+  nets.dispose();
+  return { metrics, reference, network, handle, outDir: opts.outDir, history: loop.state.history };
+}
+
+/** A run that stopped before the end (diverged or interrupted): the checkpoint on disk is the last good one. */
+export class TrainingStopped extends Error {
+  constructor(
+    readonly reason: StopReason,
+    message: string,
+    readonly dir: string | undefined,
+    readonly lastCheckpointStep: number | null,
+  ) {
+    super(dir ? `${message}${lastCheckpointStep !== null ? ` (checkpoint: ${dir}, step ${lastCheckpointStep})` : ''}` : message);
+    this.name = 'TrainingStopped';
+  }
+}
+
+export function checkpointPaths(dir: string): { checkpoint: string; metrics: string; network: string; reference: string } {
+  return { checkpoint: join(dir, 'checkpoint.json'), metrics: join(dir, 'metrics.json'), network: join(dir, 'network.json'), reference: join(dir, 'reference.json') };
+}
+
+export type { TfModule };

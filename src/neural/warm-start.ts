@@ -1,0 +1,95 @@
+/**
+ * Warm start: fit the networks to given targets by least squares before physics training.
+ * From the spectral reference this places the networks on the ordered branch, so physics
+ * training cannot slide into the disordered trap (SCFT-NOTES.md); from a cosine guess it
+ * gives an ordered initial field only (a "cold start", whose collapse is then detected).
+ *
+ * Targets: w_A, w_B on the reference x grid (scaled by max(1, χN)², like the field terms),
+ * and ln q, ln q† at the reference's contour points (every k-th, at most ~64 of them).
+ */
+import type * as TfModule from '@tensorflow/tfjs';
+import type { SpeciesArrays } from '../physics/fields.js';
+import type { ScftSolution } from '../physics/result.js';
+import { Adam } from './adam.js';
+import type { Tf } from './backend.js';
+import type { ParameterSet } from './parameters.js';
+import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
+import type { ScftNetworks } from './scft-networks.js';
+
+export interface WarmStartTargets {
+  x: Float64Array;
+  w: SpeciesArrays;
+  chiN: number;
+  /** Reference propagators on uniform contour points; omitted to fit the field only. */
+  propagators?: ScftSolution['propagators'];
+}
+
+export interface WarmStartResult {
+  steps: number;
+  finalLoss: number;
+  seconds: number;
+}
+
+interface PropagatorTarget {
+  net: PropagatorNet;
+  points: PropagatorPoints;
+  target: TfModule.Tensor;
+}
+
+function propagatorTarget(tf: Tf, net: PropagatorNet, x: Float64Array, s: Float64Array, q: Float64Array[]): PropagatorTarget {
+  const stride = Math.max(1, Math.floor((s.length - 1) / 64));
+  const rows: number[] = [];
+  for (let i = 0; i < s.length; i += stride) rows.push(i);
+  if (rows[rows.length - 1] !== s.length - 1) rows.push(s.length - 1);
+  const nx = x.length;
+  const xs = new Float64Array(rows.length * nx);
+  const ss = new Float64Array(rows.length * nx);
+  const t = new Float32Array(rows.length * nx);
+  rows.forEach((i, r) => {
+    for (let j = 0; j < nx; j++) {
+      xs[r * nx + j] = x[j];
+      ss[r * nx + j] = s[i];
+      t[r * nx + j] = Math.log(q[i][j]);
+    }
+  });
+  return { net, points: net.prepare(xs, ss, false), target: tf.keep(tf.tensor2d(t, [t.length, 1])) };
+}
+
+export function warmStart(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets, steps: number, learningRate: number, onStep?: (step: number, loss: number) => void, params: ParameterSet = nets.parameters): WarmStartResult {
+  const t0 = performance.now();
+  const scale = 1 / Math.max(1, targets.chiN) ** 2;
+  const nx = targets.x.length;
+  const feats = nets.field ? nets.field.features(targets.x, false) : null;
+  const wTarget = nets.field ? tf.keep(tf.tensor2d(Float32Array.from({ length: 2 * nx }, (_, k) => (k % 2 === 0 ? targets.w.A[k >> 1] : targets.w.B[k >> 1])), [nx, 2])) : null;
+  const props: PropagatorTarget[] = [];
+  if (targets.propagators) {
+    const p = targets.propagators;
+    props.push(propagatorTarget(tf, nets.q, targets.x, p.s, p.q));
+    if (!nets.shared) props.push(propagatorTarget(tf, nets.qDagger, targets.x, p.s, p.qDagger));
+  }
+  const adam = new Adam(tf, params);
+  const vars = params.variables();
+  let finalLoss = Number.NaN;
+  for (let step = 1; step <= steps; step++) {
+    const lossValue = tf.tidy(() => {
+      const { value, grads } = tf.variableGrads(() => {
+        let loss = tf.scalar(0);
+        if (feats && wTarget) loss = tf.add(loss, tf.mul(tf.mean(tf.square(tf.sub(nets.field!.forward(feats).v, wTarget))), scale));
+        for (const pt of props) loss = tf.add(loss, tf.mean(tf.square(tf.sub(pt.net.logQ(pt.points).v, pt.target))));
+        return loss as TfModule.Scalar;
+      }, vars);
+      adam.apply(grads, learningRate);
+      return value.dataSync()[0];
+    });
+    finalLoss = lossValue;
+    onStep?.(step, lossValue);
+  }
+  adam.dispose();
+  feats?.dispose();
+  wTarget?.dispose();
+  for (const pt of props) {
+    pt.points.dispose();
+    pt.target.dispose();
+  }
+  return { steps, finalLoss, seconds: (performance.now() - t0) / 1000 };
+}
