@@ -8,6 +8,9 @@ import { mesofieldVersion } from '../io/versions.js';
 import { registerDemo } from './commands/demo.js';
 import { registerSolve } from './commands/solve.js';
 import { registerSpinodal } from './commands/spinodal.js';
+import { registerTrain } from './commands/train.js';
+import { registerSynth } from './commands/synth.js';
+import { registerInvert } from './commands/invert.js';
 import { registerReport } from './commands/report.js';
 
 const program = new Command();
@@ -25,6 +28,9 @@ program
 registerSolve(program);
 registerDemo(program);
 registerSpinodal(program);
+registerTrain(program);
+registerSynth(program);
+registerInvert(program);
 registerReport(program);
 
 await program.parseAsync(process.argv);

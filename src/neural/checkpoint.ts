@@ -44,6 +44,11 @@ export const checkpointFileSchema = z.object({
   lossWeights: lossRecord,
   history: z.array(historyEntrySchema),
   metrics: z.record(z.string(), z.unknown()).optional(),
+  /** The resampled MDE points in use at this step, so that a resumed run is exact. */
+  extraPoints: z
+    .object({ q: z.object({ x: z.array(z.number()), s: z.array(z.number()) }), qDagger: z.object({ x: z.array(z.number()), s: z.array(z.number()) }) })
+    .nullable()
+    .optional(),
   weightSpecs: z.array(z.object({ name: z.string(), shape: z.array(z.number().int()), dtype: z.string() }).passthrough()),
   weightBytes: z.number().int().min(0),
 });

@@ -59,7 +59,8 @@ export class ScftProblem {
   private readonly weightsA: TfModule.Tensor;
   private readonly weightsB: TfModule.Tensor;
   private readonly gridFieldFeatures: Jet | null;
-  resamplings = 0;
+  /** Index of the current resampling (−1: none drawn yet). */
+  resamplings = -1;
 
   constructor(
     readonly tf: Tf,

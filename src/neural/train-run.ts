@@ -158,7 +158,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   }
 
   const problem = new ScftProblem(tf, nets, config.system, config.collocation, config.training.strategy === 'alternating' ? 'detached' : config.losses.fieldInMde);
-  const extra = (resumed?.file as (CheckpointFile & { extraPoints?: ReturnType<ScftProblem['extraPoints']> }) | undefined)?.extraPoints;
+  const extra = resumed?.file.extraPoints;
   if (resumed && extra) problem.setExtraPoints(extra, Math.floor(resumed.file.step / config.collocation.resampleEvery));
 
   const refFile = `${JSON.stringify(solutionToFile(reference, provenance(), undefined), null, 1)}\n`;

@@ -1,0 +1,139 @@
+/** `mesofield train` and `mesofield evaluate`: thin wrappers over neural/train-run.ts. */
+import type { Command } from 'commander';
+import { basename, join } from 'node:path';
+import { InputError, RunFailure, asInputError } from '../../io/errors.js';
+import { loadJsonFile } from '../../io/load-json.js';
+import { trainConfigSchema } from '../../io/schemas/train-config.js';
+import { formatDuration, Progress } from '../progress.js';
+import { action, numberFlag } from '../run-command.js';
+
+interface TrainFlags {
+  out?: string;
+  resume?: string;
+  json?: boolean;
+  backend?: string;
+  steps?: string;
+  quiet?: boolean;
+}
+
+const BACKENDS = ['auto', 'native', 'wasm', 'cpu'] as const;
+
+function backendFlag(v: string | undefined): (typeof BACKENDS)[number] | undefined {
+  if (v === undefined) return undefined;
+  if (!(BACKENDS as readonly string[]).includes(v)) throw new InputError(`--backend: got ${JSON.stringify(v)}; allowed: ${BACKENDS.join(', ')}`);
+  return v as (typeof BACKENDS)[number];
+}
+
+function fmt(v: number): string {
+  return Number.isFinite(v) ? v.toExponential(2) : String(v);
+}
+
+export function registerTrain(program: Command): void {
+  program
+    .command('train')
+    .description('train a physics-informed network for one system and check it against the spectral reference')
+    .argument('<config>', 'train config JSON (kind "train")')
+    .option('--out <dir>', 'checkpoint directory (default checkpoints/<config name>)')
+    .option('--resume <dir>', 'continue the run saved in this checkpoint directory')
+    .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
+    .option('--steps <n>', 'override training.steps')
+    .option('--json', 'print the metrics as JSON on stdout')
+    .option('--quiet', 'no progress on stderr')
+    .action(
+      action(async (configPath: string, flags: TrainFlags) => {
+        let config = loadJsonFile(configPath, trainConfigSchema);
+        const steps = numberFlag('--steps', flags.steps);
+        if (steps !== undefined) {
+          if (!Number.isInteger(steps) || steps < 0) throw new InputError(`--steps: got ${steps}; allowed: a whole number ≥ 0`);
+          config = { ...config, training: { ...config.training, steps } };
+        }
+        const backend = backendFlag(flags.backend);
+        const outDir = flags.out ?? flags.resume ?? join('checkpoints', basename(configPath).replace(/(\.train)?\.json$/, ''));
+        const progress = new Progress('train', flags.quiet);
+        let stop = false;
+        const onSigint = () => {
+          if (stop) process.exit(130);
+          stop = true;
+          process.stderr.write('\ntrain: stopping after this step and saving a checkpoint (Ctrl-C again to quit at once)\n');
+        };
+        process.on('SIGINT', onSigint);
+        const { trainRun, TrainingStopped } = await import('../../neural/train-run.js');
+        try {
+          const r = await trainRun({
+            config,
+            outDir,
+            resumeDir: flags.resume,
+            backend,
+            onStage: (m) => progress.update(m, true),
+            shouldStop: () => stop,
+            onProgress: (p) =>
+              progress.update(
+                `step ${p.step}/${p.steps} | loss ${fmt(p.total)} (mde ${fmt(p.terms.mde)}, incomp ${fmt(p.terms.incompressibility)}, sc ${fmt(p.terms.selfConsistency)}, gauge ${fmt(p.terms.gauge)}) | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`,
+                p.step === p.steps,
+              ),
+          });
+          const m = r.metrics;
+          progress.done(`${m.training.message} in ${formatDuration(m.training.seconds)} on ${m.backend}; checkpoint in ${outDir}`);
+          if (flags.json) process.stdout.write(`${JSON.stringify({ checkpoint: outDir, ...m }, null, 2)}\n`);
+          else {
+            process.stdout.write(
+              [
+                `trained ${m.reference.chain}, χN = ${m.reference.chiN}, period ${m.reference.period.toFixed(5)} Rg on ${m.backend} (tfjs ${m.tfjs})${m.sharedPropagator ? ', one propagator network for q and q†' : ''}`,
+                `φA relative L2 error ${fmt(m.errors.phiA.relativeL2)} (max ${fmt(m.errors.phiA.maxError)}), wA − wB relative L2 ${fmt(m.errors.exchangeField.relativeL2)}`,
+                `Q relative error ${fmt(m.errors.QRelativeError)}, F error ${fmt(m.errors.freeEnergyError)} kT/chain (network ${m.network.freeEnergy.toFixed(6)}, reference ${m.reference.freeEnergy.toFixed(6)})`,
+                `checkpoint ${outDir} (metrics.json, network.json, reference.json)`,
+              ].join('\n') + '\n',
+            );
+          }
+          if (m.collapsed) throw new RunFailure('the network collapsed to the disordered state (φA is flat); start from the spectral solution (warmStart.type "reference")');
+        } catch (e) {
+          if (e instanceof TrainingStopped) {
+            process.stderr.write(`train: ${e.message}\n`);
+            process.exitCode = e.reason === 'interrupted' ? 130 : 3;
+            return process.exitCode;
+          }
+          throw asInputError(e, configPath);
+        } finally {
+          process.off('SIGINT', onSigint);
+        }
+      }),
+    );
+
+  program
+    .command('evaluate')
+    .description('metrics of a saved network against a fresh spectral reference')
+    .argument('<checkpoint>', 'checkpoint directory written by train')
+    .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
+    .option('--json', 'print the metrics as JSON on stdout')
+    .action(
+      action(async (dir: string, flags: { backend?: string; json?: boolean }) => {
+        const { evaluateCheckpoint } = await import('../../neural/evaluate-checkpoint.js');
+        const ev = await evaluateCheckpoint(dir, backendFlag(flags.backend));
+        const out = {
+          checkpoint: ev.checkpoint,
+          backend: ev.backend,
+          tfjs: ev.tfjs,
+          trainedOn: ev.trainedOn,
+          step: ev.step,
+          phase: ev.phase,
+          phiA: ev.errors.phiA,
+          exchangeField: ev.errors.exchangeField,
+          QRelativeError: ev.errors.QRelativeError,
+          freeEnergyError: ev.errors.freeEnergyError,
+          freshResiduals: ev.freshResiduals,
+          reference: ev.reference,
+          network: ev.network,
+        };
+        if (flags.json) process.stdout.write(`${JSON.stringify(out, null, 2)}\n`);
+        else
+          process.stdout.write(
+            [
+              `${dir}: step ${ev.step}, ${ev.phase}, evaluated on ${ev.backend} (trained on ${ev.trainedOn.backend})`,
+              `φA relative L2 ${fmt(ev.errors.phiA.relativeL2)}, max ${fmt(ev.errors.phiA.maxError)}; wA − wB relative L2 ${fmt(ev.errors.exchangeField.relativeL2)}, max ${fmt(ev.errors.exchangeField.maxError)} kT`,
+              `Q relative error ${fmt(ev.errors.QRelativeError)}; F error ${fmt(ev.errors.freeEnergyError)} kT/chain`,
+              `residuals on 1024 fresh points: ${Object.entries(ev.freshResiduals).map(([k, v]) => `${k} ${fmt(v)}`).join(', ')}`,
+            ].join('\n') + '\n',
+          );
+      }),
+    );
+}
