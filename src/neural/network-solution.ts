@@ -10,7 +10,7 @@ import { externalFields } from '../physics/fields.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import { cellMean } from '../physics/grid.js';
 import type { Phase, ScftSolution } from '../physics/result.js';
-import { freeEnergy } from '../physics/scft-equations.js';
+import { fieldDeviation, freeEnergy } from '../physics/scft-equations.js';
 import type { Tf } from './backend.js';
 import { contourNodes, gridX } from './contour-nodes.js';
 import type { PropagatorNet } from './propagator-net.js';
@@ -41,11 +41,19 @@ function logQOnGrid(tf: Tf, net: PropagatorNet, x: Float64Array, s: Float64Array
  */
 export const NETWORK_DISORDER_AMPLITUDE = 0.02;
 
+function keptPropagators(tf: Tf, nets: ScftNetworks, x: Float64Array, s: Float64Array | undefined, nodes: Float64Array, u: Float64Array[], ud: Float64Array[]) {
+  if (!s) return { s: nodes, q: u.map((r) => r.map(Math.exp)), qDagger: ud.map((r) => r.map(Math.exp)) };
+  const exp = (rows: Float64Array[]) => rows.map((r) => r.map(Math.exp));
+  return { s, q: exp(logQOnGrid(tf, nets.q, x, s)), qDagger: exp(logQOnGrid(tf, nets.qDagger, x, s)) };
+}
+
 export interface NetworkSolutionOptions {
   periods: number;
   nx: number;
   nodesPerBlock: number;
   keepPropagators?: boolean;
+  /** Contour points on which to keep the propagators (default: the quadrature nodes); pass the reference's to compare them point by point. */
+  propagatorS?: Float64Array;
 }
 
 export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, opts: NetworkSolutionOptions): ScftSolution {
@@ -103,7 +111,11 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
     phase = 'disordered';
     notes.push(`the network collapsed to the homogeneous (disordered) state: φ_A varies by only ${amplitude.toExponential(2)}`);
   } else phase = 'lamellar';
-  const ns = nn - 1;
+  // ns describes the contour grid of the stored propagators when they are kept on the reference's.
+  const ns = (opts.keepPropagators && opts.propagatorS ? opts.propagatorS.length : nn) - 1;
+  notes.push(`φ by Simpson quadrature on ${opts.nodesPerBlock} contour intervals per block`);
+  // The network's own SCFT residual max |w_out − w_in| (kT), as the spectral solver reports it.
+  const residual = fixed ? 0 : fieldDeviation(nets.chain, system.chiN, w, phi).residual;
   return {
     solver: 'network',
     system,
@@ -122,10 +134,10 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
     phase,
     amplitude,
     iterations: 0,
-    residual: Number.NaN,
+    residual,
     converged: true,
     seconds: (performance.now() - t0) / 1000,
-    propagators: opts.keepPropagators ? { s: nodes.s, q: u.map((r) => r.map(Math.exp)), qDagger: ud.map((r) => r.map(Math.exp)) } : undefined,
+    propagators: opts.keepPropagators ? keptPropagators(tf, nets, x, opts.propagatorS, nodes.s, u, ud) : undefined,
     notes,
   };
 }

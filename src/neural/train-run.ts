@@ -86,7 +86,7 @@ function unitWeights(): LossValues {
 }
 
 export function evaluateNetworks(tf: Tf, nets: ScftNetworks, config: TrainConfig, reference: ScftSolution, keepPropagators = false): { network: ScftSolution; errors: SolutionMetrics } {
-  const network = networkSolution(tf, nets, config.system, { periods: reference.periods, nx: reference.nx, nodesPerBlock: EVALUATION_NODES_PER_BLOCK, keepPropagators });
+  const network = networkSolution(tf, nets, config.system, { periods: reference.periods, nx: reference.nx, nodesPerBlock: EVALUATION_NODES_PER_BLOCK, keepPropagators, propagatorS: reference.propagators?.s });
   return { network, errors: compareSolutions(network, reference) };
 }
 

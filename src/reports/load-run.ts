@@ -32,6 +32,11 @@ const summaryNumbers = z.object({
   notes: z.array(z.string()).default([]),
 });
 
+/** The part of a training checkpoint the report reads (the full schema lives with the trainer, which loads tfjs types only). */
+const checkpointHistorySchema = z.object({
+  history: z.array(z.object({ step: z.number(), stage: z.string(), total: z.number(), terms: z.record(z.string(), z.number()), learningRate: z.number() })),
+});
+
 const traceSchema = z.array(z.object({ period: z.number(), freeEnergy: z.number(), phase: z.string(), iterations: z.number() }));
 
 const provenanceSchema = z.object({ version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string().optional(), tfjs: z.string().optional() }).passthrough();
@@ -147,12 +152,20 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   const read: string[] = [];
   const notes: string[] = [];
   let metrics: MetricRow[] | undefined;
+  let training: ReportInput['training'];
   for (const name of names) {
     const path = join(dir, name);
     const raw = readJson(path);
     const kind = raw && typeof raw === 'object' ? (raw as Record<string, unknown>).kind : undefined;
     if (kind === 'solution') {
       solutions.push(loadSolution(path, raw));
+      read.push(path);
+    } else if (kind === 'checkpoint') {
+      // A training checkpoint (neural/checkpoint.ts): its loss history is the training page.
+      const hist = parseOrThrow(checkpointHistorySchema, raw, path).history.filter((h) => h.stage === 'adam');
+      // Terms that are identically zero for this system (e.g. no field equations for a chain in a prescribed field) have no place on a log axis.
+      const positive = (t: Record<string, number>) => Object.fromEntries(Object.entries(t).filter(([, v]) => v > 0));
+      training = { history: hist.map((h) => ({ step: h.step, terms: positive({ total: h.total, ...h.terms }), lr: h.learningRate })) };
       read.push(path);
     } else if (name === 'metrics.json') {
       metrics = flattenRows(raw, '').map((r) => ({ ...r, name: `metrics.json: ${r.name}` }));
@@ -189,6 +202,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     },
     profiles: { reference: shown.solution, network: reference ? network?.solution : undefined },
     propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
+    training,
     periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
     metrics,
   };
