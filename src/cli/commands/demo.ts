@@ -2,56 +2,95 @@
  * `mesofield demo`: the README's main job on demo data, end to end.
  *
  * Scenario (ours, invented for the demo): a symmetric AB diblock annealed at a temperature
- * where χN = 15. We solve the reference lamella with its equilibrium period and write it
- * to the demo directory, printing a short summary and the paths.
+ * where χN = 15. We solve the reference lamella with its equilibrium period, train a
+ * warm-started network on a short budget, evaluate it against the reference, and write a
+ * report of each, printing a short summary and the paths.
  */
 import type { Command } from 'commander';
 import { join } from 'node:path';
 import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
+import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
 import { provenance } from '../../io/versions.js';
+import { buildReport } from '../../reports/build-report.js';
+import { loadRun } from '../../reports/load-run.js';
+import { renderReport, writeReportFiles } from '../../reports/write-report.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
-import { Progress } from '../progress.js';
+import { formatDuration, Progress } from '../progress.js';
 import { action } from '../run-command.js';
+
+export const DEMO_SYSTEM = { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } as const;
 
 export const DEMO_SOLVE_CONFIG = {
   version: 1,
   kind: 'solve',
-  system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
+  system: DEMO_SYSTEM,
   cell: { period: 'optimize', periods: 1, nx: 64, ns: 100 },
   output: { propagators: true },
 } as const;
+
+export const DEMO_TRAIN_CONFIG = {
+  version: 1,
+  kind: 'train',
+  system: DEMO_SYSTEM,
+  cell: { period: 'optimize', nx: 64, ns: 100 },
+  warmStart: { type: 'reference', steps: 400, learningRate: 0.01 },
+  training: { steps: 400, learningRate: 0.001, evaluateEvery: 100 },
+} as const;
+
+function report(runDir: string, outDir: string): string[] {
+  const run = loadRun(runDir);
+  return writeReportFiles(outDir, renderReport(buildReport(run.input), ['pdf', 'png'], 150));
+}
 
 export function registerDemo(program: Command): void {
   program
     .command('demo')
     .description('run the whole chain on the demo system (symmetric diblock, χN = 15) into a directory')
     .option('--out <dir>', 'output directory', 'reports/demo')
+    .option('--backend <b>', 'tfjs backend for the network: auto | native | wasm | cpu', 'auto')
     .option('--quiet', 'no progress on stderr')
     .action(
-      action(async (flags: { out: string; quiet?: boolean }) => {
+      action(async (flags: { out: string; backend: string; quiet?: boolean }) => {
         const t0 = performance.now();
         const progress = new Progress('demo', flags.quiet);
-        const config = parseOrThrow(solveConfigSchema, DEMO_SOLVE_CONFIG, 'demo config');
-        progress.update('reference solve with period optimisation', true);
+        const config = parseOrThrow(solveConfigSchema, DEMO_SOLVE_CONFIG, 'demo solve config');
+        progress.update('1/3 reference solve with period optimisation', true);
         const ref = solveFromConfig(config, {
           onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(5)} Rg, F = ${e.freeEnergy.toFixed(8)}`),
         });
-        const dir = join(flags.out, 'reference');
+        const refDir = join(flags.out, 'reference');
         const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
-        writeDirectoryAtomic(dir, {
+        writeDirectoryAtomic(refDir, {
           'solution.json': `${JSON.stringify({ ...file, periodSearch: ref.search?.trace }, null, 1)}\n`,
           'profile.csv': solutionGridCsv(ref.solution),
         });
+        const refReport = report(refDir, join(refDir, 'report'));
         const s = summarize(ref.solution, { periodTolerance: ref.search?.periodTolerance });
-        progress.done(`finished in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+
+        progress.update('2/3 training a warm-started network (short budget)', true);
+        const trainConfig = parseOrThrow(trainConfigSchema, { ...DEMO_TRAIN_CONFIG, backend: flags.backend }, 'demo train config');
+        const netDir = join(flags.out, 'network');
+        const { trainRun } = await import('../../neural/train-run.js');
+        const tr = await trainRun({
+          config: trainConfig,
+          outDir: netDir,
+          onStage: (m) => progress.update(m, true),
+          onProgress: (p) => progress.update(`step ${p.step}/${p.steps} | loss ${p.total.toExponential(2)} | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`),
+        });
+        progress.update('3/3 report', true);
+        const netReport = report(netDir, join(netDir, 'report'));
+        const m = tr.metrics;
+        progress.done(`finished in ${formatDuration((performance.now() - t0) / 1000)}`);
         process.stdout.write(
           [
             `demo: symmetric diblock, χN = ${s.chiN}`,
             `  reference: ${s.phase}, period ${s.period.toFixed(5)} Rg, F = ${s.freeEnergy.toFixed(8)} kT/chain (disordered ${s.freeEnergyDisordered})`,
-            `  wrote ${join(dir, 'solution.json')}, ${join(dir, 'profile.csv')}`,
+            `  network (${m.backend}, ${m.training.adamSteps} steps after a ${m.training.warmStart?.steps ?? 0}-step warm start, ${formatDuration(m.training.seconds)}): φA relative L2 error ${m.errors.phiA.relativeL2.toExponential(2)}, F error ${m.errors.freeEnergyError.toExponential(2)} kT/chain`,
+            `  wrote ${refDir}/ (solution.json, profile.csv, report/) and ${netDir}/ (checkpoint, metrics.json, report/)`,
+            `  reports: ${[...refReport, ...netReport].filter((p) => p.endsWith('.pdf')).join(', ')}`,
           ].join('\n') + '\n',
         );
       }),
