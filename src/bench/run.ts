@@ -2,3 +2,7 @@
 import { runSpectralBench } from './spectral-bench.js';
 
 runSpectralBench();
+const { runTrainerBench } = await import('./trainer-bench.js');
+await runTrainerBench();
+const inverse = await import('./inverse-bench.js').catch(() => undefined);
+if (inverse) await inverse.runInverseBench();

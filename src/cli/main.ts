@@ -7,6 +7,7 @@ import { Command } from 'commander';
 import { mesofieldVersion } from '../io/versions.js';
 import { registerDemo } from './commands/demo.js';
 import { registerSolve } from './commands/solve.js';
+import { registerSchema } from './commands/schema.js';
 import { registerSpinodal } from './commands/spinodal.js';
 import { registerTrain } from './commands/train.js';
 import { registerSynth } from './commands/synth.js';
@@ -32,5 +33,6 @@ registerTrain(program);
 registerSynth(program);
 registerInvert(program);
 registerReport(program);
+registerSchema(program);
 
 await program.parseAsync(process.argv);

@@ -1,6 +1,5 @@
 /** `mesofield solve`: one spectral reference solve, from a config file and/or flags. */
 import type { Command } from 'commander';
-import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
@@ -10,6 +9,7 @@ import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { provenance } from '../../io/versions.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
 import { action, numberFlag } from '../run-command.js';
+import { obj, readRawConfig } from '../raw-config.js';
 import { Progress } from '../progress.js';
 import { loadJsonFile } from '../../io/load-json.js';
 
@@ -27,28 +27,6 @@ interface SolveFlags {
   out?: string;
   propagators?: boolean;
   quiet?: boolean;
-}
-
-function readRawConfig(path: string): Record<string, unknown> {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (e) {
-    throw new InputError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-  try {
-    return JSON.parse(text) as Record<string, unknown>;
-  } catch (e) {
-    throw new InputError(`${path}: not valid JSON (${(e as Error).message})`);
-  }
-}
-
-function obj(parent: Record<string, unknown>, key: string): Record<string, unknown> {
-  const v = parent[key];
-  if (v && typeof v === 'object' && !Array.isArray(v)) return v as Record<string, unknown>;
-  const fresh: Record<string, unknown> = {};
-  parent[key] = fresh;
-  return fresh;
 }
 
 /** Flags are applied on top of the config file (or of an empty diblock config). */

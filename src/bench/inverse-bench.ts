@@ -1,0 +1,36 @@
+/**
+ * Timing of the classical inverse estimator (not a test: prints figures, never fails on a
+ * time). The case: f = 0.5, χN = 15, 64 points over one period, 2 % Gaussian noise with a
+ * sigma column, equilibrium period. Each fit starts from fresh models (no cache, no warm
+ * start carried over), as a CLI run does; one untimed fit first warms up the JIT.
+ */
+import { createModels, estimateClassical } from '../inverse/classical.js';
+import type { ProfileData } from '../inverse/profile-csv.js';
+import { synthesize } from '../inverse/synth.js';
+import type { ChainSpec } from '../physics/chain-schema.js';
+
+function profile(chain: ChainSpec, seed: number, nx: number, ns: number): ProfileData {
+  const s = synthesize({ chain, chiN: 15, points: 64, noise: 0.02, seed, periods: 1, offset: 0.7, period: 'equilibrium', resolution: 0, nx, ns });
+  return { source: `synthetic seed ${seed}`, x: s.x, xRaw: s.x, phi: s.phi, sigma: new Float64Array(64).fill(0.02), lines: [], units: { x: 'Rg' } };
+}
+
+export async function runInverseBench(): Promise<void> {
+  const chain: ChainSpec = { type: 'diblock', f: 0.5, segmentLengths: { A: 1, B: 1 } };
+  console.log('classical inversion, f = 0.5, χN = 15, 64 points, 2 % noise (sigma column), equilibrium period, target 2 s');
+  console.log('  grid      seed   time s   χN        68.3 % interval        95 % interval          solves (coarse)  χN evaluations');
+  for (const [nx, ns] of [
+    [64, 100],
+    [32, 60],
+  ]) {
+    const settings = { chain, nx, ns, period: { mode: 'equilibrium' as const }, resolution: 0, profilePoints: 9 };
+    estimateClassical(profile(chain, 99, nx, ns), settings, createModels(settings));
+    for (const seed of [1, 2, 3]) {
+      const data = profile(chain, seed, nx, ns);
+      const e = estimateClassical(data, settings, createModels(settings));
+      const iv = (v: [number, number]) => `[${v[0].toFixed(3)}, ${v[1].toFixed(3)}]`;
+      console.log(
+        `  ${`${nx}×${ns}`.padEnd(9)} ${String(seed).padStart(4)} ${e.seconds.toFixed(3).padStart(8)}   ${e.chiN.toFixed(4).padEnd(9)} ${iv(e.interval).padEnd(22)} ${iv(e.interval95).padEnd(22)} ${`${e.cost.solves} (${e.cost.coarseSolves})`.padEnd(16)} ${e.cost.chiNEvaluations}`,
+      );
+    }
+  }
+}

@@ -1,0 +1,73 @@
+/**
+ * Timing of the network trainer (not a test: prints figures, never fails on a time).
+ *  1. ms per Adam step of the SCFT loss for 3×32 and 3×64 propagator networks at about
+ *     2048 and 4096 grid points per propagator, on each backend that loads here;
+ *  2. time and steps for the warm-started f = 0.5, χN = 15 diblock to reach φA relative
+ *     L2 below 1e-2 and below 1e-3 (evaluated every 25 steps), and the final errors.
+ */
+import { trainConfigSchema } from '../io/schemas/train-config.js';
+import { selectBackend } from '../neural/backend.js';
+import type { BackendName } from '../neural/backend.js';
+import { trainRun } from '../neural/train-run.js';
+
+const system = { chain: { type: 'diblock' as const, f: 0.5 }, chiN: 15 };
+
+async function stepTime(backend: BackendName, width: number, points: number): Promise<number> {
+  // Grid points per propagator ≈ nx × (2·nodesPerBlock + 1); pick nodesPerBlock for the target.
+  const nx = 64;
+  const nodesPerBlock = Math.max(2, 2 * Math.round((points / nx - 1) / 4));
+  const steps = backend === 'cpu' ? 6 : 25;
+  const config = trainConfigSchema.parse({
+    version: 1,
+    kind: 'train',
+    system,
+    backend,
+    networks: { field: { hidden: [width, width, width] }, propagator: { hidden: [width, width, width] } },
+    collocation: { nx, nodesPerBlock, random: 0 },
+    warmStart: { type: 'none' },
+    training: { steps, strategy: 'joint', logEvery: steps },
+  });
+  const r = await trainRun({ config, backend });
+  return (1000 * r.history[r.history.length - 1].seconds) / steps;
+}
+
+export async function runTrainerBench(): Promise<void> {
+  console.log('\nnetwork trainer: ms per Adam step (joint loss, field + q + q† networks, per-block pieces)');
+  for (const backend of ['native', 'wasm', 'cpu'] as BackendName[]) {
+    try {
+      await selectBackend(backend);
+    } catch (e) {
+      console.log(`  ${backend}: not available (${(e as Error).message.split('\n')[0]})`);
+      continue;
+    }
+    for (const [width, points] of [
+      [32, 2048],
+      [64, 4096],
+    ]) {
+      const ms = await stepTime(backend, width, points);
+      console.log(`  ${backend.padEnd(6)} 3×${width}, ~${points} points per propagator: ${ms.toFixed(1)} ms/step (includes one-time set-up)`);
+    }
+  }
+  console.log('\nwarm-started f = 0.5, χN = 15 diblock, default config (alternating strategy), wasm:');
+  for (const target of [1e-2, 1e-3]) {
+    const config = trainConfigSchema.parse({
+      version: 1,
+      kind: 'train',
+      system,
+      backend: 'wasm',
+      cell: { nx: 64, ns: 100 },
+      warmStart: { type: 'reference', steps: 400, learningRate: 0.01 },
+      training: { steps: 3000, learningRate: 0.001, evaluateEvery: 25, targetPhiError: target },
+    });
+    const t0 = performance.now();
+    const r = await trainRun({ config, backend: 'wasm' });
+    const wall = (performance.now() - t0) / 1000;
+    const hit = r.metrics.training.reachedTarget;
+    const ws = r.metrics.training.warmStart;
+    console.log(
+      `  target ${target}: ${hit ? `reached at step ${hit.step}, ${hit.seconds.toFixed(1)} s of training` : 'not reached in 3000 steps'} ` +
+        `(+ warm start ${ws?.steps} steps, ${ws?.seconds.toFixed(1)} s; wall ${wall.toFixed(1)} s incl. reference solve); ` +
+        `final φA rel L2 ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, wA − wB rel L2 ${r.metrics.errors.exchangeField.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT`,
+    );
+  }
+}

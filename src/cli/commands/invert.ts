@@ -1,0 +1,158 @@
+/** `mesofield invert`: recover χN (and the fields) from a measured composition profile. */
+import type { Command } from 'commander';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { writeDirectoryAtomic } from '../../io/atomic-write.js';
+import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
+import { invertConfigSchema } from '../../io/schemas/invert-config.js';
+import type { InvertConfig } from '../../io/schemas/invert-config.js';
+import { solutionToFile } from '../../io/solution-file.js';
+import { provenance } from '../../io/versions.js';
+import { estimateClassical } from '../../inverse/classical.js';
+import type { PeriodMode } from '../../inverse/objective.js';
+import { fitCsv, classicalBlock, inversionResult, summaryText } from '../../inverse/inversion-result.js';
+import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
+import { action, numberFlag } from '../run-command.js';
+import { obj, readRawConfig } from '../raw-config.js';
+import { Progress } from '../progress.js';
+
+interface InvertFlags {
+  f?: string;
+  method?: string;
+  period?: string;
+  chiNRange?: string;
+  json?: boolean;
+  out?: string;
+  rgNm?: string;
+  segments?: string;
+  segmentLengthNm?: string;
+  resolution?: string;
+  nx?: string;
+  ns?: string;
+  profilePoints?: string;
+  quiet?: boolean;
+}
+
+function chiNRangeFlag(value: string | undefined): [number, number] | undefined {
+  if (value === undefined) return undefined;
+  const parts = value.split(',').map((s) => s.trim());
+  const nums = parts.map(Number);
+  if (parts.length !== 2 || parts.some((p) => p === '') || nums.some((v) => !Number.isFinite(v))) {
+    throw new InputError(`--chiN-range: got ${JSON.stringify(value)}; allowed: two numbers lo,hi (e.g. 11,40)`);
+  }
+  if (!(nums[0] > 0 && nums[0] < nums[1])) throw new InputError(`--chiN-range: got ${JSON.stringify(value)}; allowed: 0 < lo < hi`);
+  return [nums[0], nums[1]];
+}
+
+/** Flags on top of the config file (or of an empty diblock config). */
+export function buildInvertConfig(configPath: string | undefined, flags: InvertFlags): { config: InvertConfig; sources: Record<string, string> } {
+  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 1, kind: 'invert', system: { chain: { type: 'diblock' } } };
+  const src = configPath ?? 'flags';
+  const fromFile = (key: string, flag: string) => (configPath && raw[key] !== undefined ? `${configPath}: ${key}` : flag);
+  const sources: Record<string, string> = { method: fromFile('method', '--method'), period: fromFile('period', '--period'), chiNRange: fromFile('chiNRange', '--chiN-range') };
+  const chain = obj(obj(raw, 'system'), 'chain');
+  if (chain.type === undefined) chain.type = 'diblock';
+  const f = numberFlag('--f', flags.f);
+  if (f !== undefined) chain.f = f;
+  if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
+  if (flags.method !== undefined) {
+    raw.method = flags.method;
+    sources.method = '--method';
+  }
+  if (flags.period !== undefined) {
+    raw.period = flags.period === 'equilibrium' || flags.period === 'free' ? flags.period : numberFlag('--period', flags.period);
+    sources.period = '--period';
+  }
+  const range = chiNRangeFlag(flags.chiNRange);
+  if (range) {
+    raw.chiNRange = range;
+    sources.chiNRange = '--chiN-range';
+  }
+  const res = numberFlag('--resolution', flags.resolution);
+  if (res !== undefined) raw.resolution = res;
+  const grid = obj(raw, 'grid');
+  const nx = numberFlag('--nx', flags.nx);
+  if (nx !== undefined) grid.nx = nx;
+  const ns = numberFlag('--ns', flags.ns);
+  if (ns !== undefined) grid.ns = ns;
+  const pp = numberFlag('--profile-points', flags.profilePoints);
+  if (pp !== undefined) raw.profilePoints = pp;
+  const unitFlags = { rgNm: numberFlag('--rg-nm', flags.rgNm), segments: numberFlag('--segments', flags.segments), segmentLengthNm: numberFlag('--segment-length-nm', flags.segmentLengthNm) };
+  if (Object.values(unitFlags).some((v) => v !== undefined)) {
+    raw.units = Object.fromEntries(Object.entries(unitFlags).filter(([, v]) => v !== undefined));
+  }
+  return { config: parseOrThrow(invertConfigSchema, raw, src), sources };
+}
+
+export function registerInvert(program: Command): void {
+  program
+    .command('invert')
+    .description('recover χN (with profile-likelihood intervals) and the self-consistent fields from a measured composition profile')
+    .argument('<profile>', 'CSV with a header row: x, phiA and optionally sigma (per-point standard deviation)')
+    .argument('[config]', 'invert config JSON (kind "invert"); flags override it')
+    .option('--f <f>', 'A fraction of the diblock (required without a config)')
+    .option('--method <m>', 'classical | network | both (network: not available yet)')
+    .option('--period <mode>', 'equilibrium (stress-free at each χN, default) | free (fitted) | L (given, in the units of x)')
+    .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')
+    .option('--resolution <W>', 'Gaussian instrument resolution (standard deviation, units of x)')
+    .option('--rg-nm <R>', 'x is in nm and Rg = R nm')
+    .option('--segments <N>', 'x is in nm; with --segment-length-nm, Rg = b·sqrt(N/6)')
+    .option('--segment-length-nm <b>', 'statistical segment length in nm (with --segments)')
+    .option('--nx <n>', 'model grid points per period (power of two; default 64)')
+    .option('--ns <n>', 'model contour steps (default 100)')
+    .option('--profile-points <k>', 'extra points on the profile-likelihood curve (default 9)')
+    .option('--json', 'print the result JSON on stdout')
+    .option('--out <dir>', 'write result.json, fit.csv and solution.json into this directory')
+    .option('--quiet', 'no progress on stderr')
+    .action(
+      action(async (profilePath: string, configPath: string | undefined, flags: InvertFlags) => {
+        const { config, sources } = buildInvertConfig(configPath, flags);
+        if (config.method !== 'classical') {
+          throw new InputError(
+            `${sources.method}: got "${config.method}"; the network estimator is not available yet (it will be added on top of the trainer), so only "classical" can run now`,
+          );
+        }
+        const units = lengthUnits(config.units ?? {});
+        let text: string;
+        try {
+          text = readFileSync(profilePath, 'utf8');
+        } catch (e) {
+          throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+        }
+        const data = parseProfileCsv(text, profilePath, units);
+        const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
+        const period: PeriodMode = typeof config.period === 'number' ? { mode: 'given', value: toRg(config.period) } : { mode: config.period };
+        const progress = new Progress('invert', flags.quiet);
+        let estimate;
+        try {
+          estimate = estimateClassical(data, {
+            chain: config.system.chain,
+            nx: config.grid.nx,
+            ns: config.grid.ns,
+            solver: config.solver,
+            period,
+            chiNRange: config.chiNRange as [number, number] | undefined,
+            resolution: toRg(config.resolution),
+            profilePoints: config.profilePoints,
+            periodSource: sources.period,
+            rangeSource: sources.chiNRange,
+            onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
+          });
+        } catch (e) {
+          throw asInputError(e, configPath ?? 'flags');
+        }
+        progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
+        const result = inversionResult(data, config, provenance(), { classical: classicalBlock(estimate, data) });
+        if (flags.out) {
+          const files = {
+            'result.json': `${JSON.stringify(result, null, 1)}\n`,
+            'fit.csv': fitCsv(data, estimate),
+            'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
+          };
+          writeDirectoryAtomic(flags.out, files);
+          if (!flags.quiet) process.stderr.write(`invert: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
+        }
+        process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : summaryText(result));
+      }),
+    );
+}

@@ -1,0 +1,28 @@
+/**
+ * `mesofield schema KIND`: the JSON Schema of a config file kind, generated from the zod
+ * schema the tool itself validates with, so the reference cannot drift from the code.
+ */
+import type { Command } from 'commander';
+import { z } from 'zod';
+import { InputError } from '../../io/errors.js';
+import { invertConfigSchema } from '../../io/schemas/invert-config.js';
+import { solveConfigSchema } from '../../io/schemas/solve-config.js';
+import { trainConfigSchema } from '../../io/schemas/train-config.js';
+import { action } from '../run-command.js';
+
+export const CONFIG_SCHEMAS: Record<string, z.ZodType> = { solve: solveConfigSchema, train: trainConfigSchema, invert: invertConfigSchema };
+
+export function registerSchema(program: Command): void {
+  const all = CONFIG_SCHEMAS;
+  program
+    .command('schema')
+    .description(`print the JSON Schema of a config file kind (${Object.keys(all).join(', ')}), with every field, default and bound`)
+    .argument('<kind>', 'config kind')
+    .action(
+      action((kind: string) => {
+        const schema = all[kind];
+        if (!schema) throw new InputError(`kind: got ${JSON.stringify(kind)}; allowed: ${Object.keys(all).join(', ')}`);
+        process.stdout.write(`${JSON.stringify(z.toJSONSchema(schema, { io: 'input', unrepresentable: 'any' }), null, 2)}\n`);
+      }),
+    );
+}

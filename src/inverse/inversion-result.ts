@@ -1,0 +1,211 @@
+/**
+ * The result file kind "inversion": one block per estimator under `estimators` (classical
+ * now; the network estimator slots in beside it with the same fields), an `agreement`
+ * block comparing whichever are present, the model's assumptions, and the fitted-profile
+ * CSV. Lengths are in Rg, with nm copies when the input was in nm.
+ */
+import type { Provenance } from '../io/versions.js';
+import type { ClassicalEstimate } from './classical.js';
+import { fieldInDataFrame } from './classical.js';
+import type { ProfileData } from './profile-csv.js';
+
+/** What the fitted χN rests on: printed with every result. */
+export const ASSUMPTIONS: readonly string[] = [
+  'mean-field SCFT: no fluctuation corrections (at finite N these shift the order–disorder transition and the effective χN)',
+  'incompressible A/B melt (φ_A + φ_B = 1) with a Flory–Huggins χ',
+  'Gaussian chains with the given block fractions and segment lengths',
+  '1D lamellae in equilibrium, with the stress-free period unless a period is given or fitted',
+  'the fitted χN depends on these and on the assumed f and segment lengths: read a χN used for materials design with those limits',
+];
+
+/** One estimator's block: the fields every estimator reports (a network block adds its own extras). */
+export type EstimatorBlock = Pick<
+  ClassicalEstimate,
+  'chiN' | 'interval' | 'interval95' | 'intervals' | 'offset' | 'period' | 'periodMode' | 'chi2' | 'reducedChi2' | 'rss' | 'rmsResidual' | 'n' | 'p' | 'dof' | 'sigma' | 'seconds'
+> & {
+  method: string;
+  status: 'ok';
+  /** How the interval was obtained (profile likelihood here; e.g. seed spread for a network). */
+  intervalMethod: string;
+  offsetNm?: number;
+  periodNm?: number;
+  [extra: string]: unknown;
+};
+
+export interface Agreement {
+  present: string[];
+  compared: boolean;
+  note?: string;
+  pairs?: {
+    a: string;
+    b: string;
+    difference: number;
+    relativeDifference: number;
+    /** Difference over the root-sum-square of the two one-sigma half-widths. */
+    z: number;
+    intervalsOverlap: boolean;
+    eachWithinOthersInterval: boolean;
+  }[];
+}
+
+const halfWidth = (e: EstimatorBlock) => 0.5 * (e.interval[1] - e.interval[0]);
+
+/** Pairwise comparison of the estimators present (none needed with one). */
+export function agreement(estimators: Record<string, EstimatorBlock>): Agreement {
+  const names = Object.keys(estimators);
+  if (names.length < 2) return { present: names, compared: false, note: 'one estimator ran: an agreement needs two (--method both, once the network estimator is available)' };
+  const pairs: NonNullable<Agreement['pairs']> = [];
+  for (let i = 0; i < names.length; i++) {
+    for (let j = i + 1; j < names.length; j++) {
+      const a = estimators[names[i]];
+      const b = estimators[names[j]];
+      const d = b.chiN - a.chiN;
+      const inA = a.interval[0] <= b.chiN && b.chiN <= a.interval[1];
+      const inB = b.interval[0] <= a.chiN && a.chiN <= b.interval[1];
+      pairs.push({
+        a: names[i],
+        b: names[j],
+        difference: d,
+        relativeDifference: d / a.chiN,
+        z: d / Math.hypot(halfWidth(a), halfWidth(b)),
+        intervalsOverlap: a.interval[0] <= b.interval[1] && b.interval[0] <= a.interval[1],
+        eachWithinOthersInterval: inA && inB,
+      });
+    }
+  }
+  return { present: names, compared: true, pairs };
+}
+
+export function classicalBlock(est: ClassicalEstimate, data: ProfileData): EstimatorBlock {
+  const nm = data.units.x === 'nm' ? data.units.rgNm! : undefined;
+  const x = new Float64Array(est.solution.nx);
+  for (let j = 0; j < x.length; j++) x[j] = data.x[0] + (j * est.period) / x.length;
+  const field = (v: Float64Array) => Array.from(fieldInDataFrame(est, v, x));
+  const free = est.periodMode === 'free' ? ' and the period' : '';
+  return {
+    method: 'classical',
+    status: 'ok',
+    chiN: est.chiN,
+    interval: est.interval,
+    interval95: est.interval95,
+    intervalMethod: `profile likelihood of χN (offset${free} minimised at each χN); the ends are where Δχ² reaches the level, found by Brent root finding; levels ${est.sigma.source === 'column' ? 'Δχ² = 1 and 3.841 (χ² with one degree of freedom)' : `t² with n − p = ${est.dof} degrees of freedom (sigma estimated)`}`,
+    intervals: est.intervals,
+    offset: est.offset,
+    period: est.period,
+    ...(nm ? { offsetNm: est.offset * nm, periodNm: est.period * nm } : {}),
+    periodMode: est.periodMode,
+    chi2: est.chi2,
+    reducedChi2: est.reducedChi2,
+    rss: est.rss,
+    rmsResidual: est.rmsResidual,
+    n: est.n,
+    p: est.p,
+    dof: est.dof,
+    sigma: est.sigma,
+    seconds: est.seconds,
+    chiNRange: est.chiNRange,
+    resolution: est.resolution,
+    cost: est.cost,
+    profileLikelihood: est.profile,
+    freeEnergy: est.solution.freeEnergy,
+    freeEnergyDisordered: est.solution.freeEnergyDisordered,
+    fitCurve: fitCurve(est, data),
+    points: {
+      note: 'per data point: x as given, data, sigma (the column or the estimate), fit (the model compared with the data), residual = data − fit',
+      x: Array.from(data.xRaw),
+      phiA: Array.from(data.phi),
+      sigma: data.sigma ? Array.from(data.sigma) : new Array<number>(data.x.length).fill(est.sigma.value!),
+      fit: Array.from(est.fit),
+      residual: Array.from(est.residual),
+    },
+    fields: {
+      note: 'the best-fit self-consistent solution over one period, on the data coordinate (Rg) starting at the first data point; w in kT per chain, gauge: mean (wA + wB)/2 = 0',
+      x: Array.from(x),
+      phiA: field(est.solution.phi.A),
+      wA: field(est.solution.w.A),
+      wB: field(est.solution.w.B),
+    },
+    notes: est.notes,
+  };
+}
+
+/** The fitted (blurred) model on a fine grid over the data range, x in the units of the data. */
+function fitCurve(est: ClassicalEstimate, data: ProfileData, points = 400): { x: number[]; phiA: number[] } {
+  const n = data.x.length;
+  const x = new Float64Array(points);
+  for (let i = 0; i < points; i++) x[i] = data.x[0] + ((data.x[n - 1] - data.x[0]) * i) / (points - 1);
+  const v = est.model.blurred(est.resolution).evaluateShifted(x, est.offset, new Float64Array(points));
+  const scale = data.units.x === 'nm' ? data.units.rgNm! : 1;
+  return { x: Array.from(x, (t) => t * scale), phiA: Array.from(v) };
+}
+
+export interface InversionResult {
+  kind: 'inversion';
+  version: 1;
+  provenance: Provenance;
+  input: {
+    file: string;
+    n: number;
+    xRange: [number, number];
+    units: ProfileData['units'];
+    sigmaColumn: boolean;
+  };
+  config: unknown;
+  assumptions: readonly string[];
+  estimators: Record<string, EstimatorBlock>;
+  agreement: Agreement;
+}
+
+export function inversionResult(data: ProfileData, config: unknown, provenance: Provenance, estimators: Record<string, EstimatorBlock>): InversionResult {
+  return {
+    kind: 'inversion',
+    version: 1,
+    provenance,
+    input: {
+      file: data.source,
+      n: data.x.length,
+      xRange: [data.xRaw[0], data.xRaw[data.xRaw.length - 1]],
+      units: data.units,
+      sigmaColumn: data.sigma !== undefined,
+    },
+    config,
+    assumptions: ASSUMPTIONS,
+    estimators,
+    agreement: agreement(estimators),
+  };
+}
+
+/** x (as given), data, sigma (column or estimated), fit, residual = data − fit; and the unblurred model when a resolution was applied. */
+export function fitCsv(data: ProfileData, est: ClassicalEstimate): string {
+  const blur = est.resolution > 0;
+  const rows = [`x,phiA,sigma,fit,residual${blur ? ',model_unblurred' : ''}`];
+  for (let i = 0; i < data.x.length; i++) {
+    const sigma = data.sigma ? data.sigma[i] : est.sigma.value!;
+    const cells = [data.xRaw[i], data.phi[i], sigma, est.fit[i], est.residual[i]].map((v) => String(v));
+    if (blur) cells.push(String(est.fitUnblurred[i]));
+    rows.push(cells.join(','));
+  }
+  return `${rows.join('\n')}\n`;
+}
+
+/** The human summary printed on stdout. */
+export function summaryText(result: InversionResult): string {
+  const lines: string[] = [];
+  const u = result.input.units;
+  for (const [name, e] of Object.entries(result.estimators)) {
+    const f = (v: number) => v.toPrecision(6);
+    const nm = (v: number | undefined) => (v !== undefined ? ` (${v.toPrecision(6)} nm)` : '');
+    lines.push(`${name} estimate: χN = ${f(e.chiN)}`);
+    lines.push(`  68.3% interval [${f(e.interval[0])}, ${f(e.interval[1])}], 95% interval [${f(e.interval95[0])}, ${f(e.interval95[1])}] (profile likelihood)`);
+    lines.push(`  period ${e.period.toPrecision(6)} Rg${nm(e.periodNm)} (${e.periodMode}), offset ${e.offset.toPrecision(6)} Rg${nm(e.offsetNm)} (centre of an A-rich domain)`);
+    lines.push(
+      `  χ² = ${e.chi2.toPrecision(5)} for n − p = ${e.dof} (n = ${e.n}, p = ${e.p}), reduced χ² = ${e.reducedChi2.toPrecision(4)}, rms residual ${e.rmsResidual.toExponential(3)}, sigma ${e.sigma.source === 'column' ? 'from the column' : `estimated ${e.sigma.value!.toExponential(3)}`}`,
+    );
+    lines.push(`  ${e.seconds.toFixed(2)} s`);
+    for (const n of (e.notes as string[]) ?? []) lines.push(`  note: ${n}`);
+  }
+  if (u.x === 'nm') lines.push(`x in nm, Rg = ${u.rgNm!.toPrecision(6)} nm (${u.rgFrom})`);
+  lines.push('assumptions (the fitted χN holds only within them):');
+  for (const a of result.assumptions) lines.push(`  - ${a}`);
+  return `${lines.join('\n')}\n`;
+}

@@ -1,0 +1,41 @@
+/**
+ * Config file kind "invert": recover χN from a measured profile. Every length here (a given
+ * period, the resolution) is in the units of the profile's x column: Rg, or nm when units
+ * gives an Rg in nm. Command-line flags override the file.
+ */
+import { z } from 'zod';
+import { chainSchema } from '../../physics/chain-schema.js';
+import { cellSchema, spectralSchema } from './spectral-schema.js';
+
+const positive = z.number().gt(0);
+
+export const invertConfigSchema = z
+  .object({
+    version: z.literal(1),
+    kind: z.literal('invert'),
+    /** The chain of known architecture; χN is the unknown, so there is no chiN here. */
+    system: z.object({ chain: chainSchema }).strict(),
+    /** Grid of the model lamella (one period per cell). */
+    grid: cellSchema.pick({ nx: true, ns: true }).prefault({}),
+    /** "equilibrium": the stress-free period at each trial χN; "free": fitted; a number: given. */
+    period: z.union([z.enum(['equilibrium', 'free']), positive]).default('equilibrium'),
+    /** Search range of χN [lo, hi]; default [1.01 (χN)_spinodal, 60]. */
+    chiNRange: z
+      .tuple([positive, positive])
+      .refine((r) => r[0] < r[1], { message: 'must be [lo, hi] with lo < hi' })
+      .optional(),
+    /** Gaussian instrument resolution (standard deviation); 0 for none. */
+    resolution: z.number().min(0).default(0),
+    method: z.enum(['classical', 'network', 'both']).default('classical'),
+    /** x in nm: Rg in nm directly, or from N segments of length b (Rg = b·sqrt(N/6)). */
+    units: z
+      .object({ rgNm: positive.optional(), segments: positive.optional(), segmentLengthNm: positive.optional() })
+      .strict()
+      .optional(),
+    solver: spectralSchema.pick({ tolerance: true, maxIterations: true, andersonHistory: true, andersonMixing: true }).prefault({}),
+    /** Extra evenly spaced points on the profile-likelihood curve (for reports). */
+    profilePoints: z.number().int().min(0).max(100).default(9),
+  })
+  .strict();
+
+export type InvertConfig = z.infer<typeof invertConfigSchema>;
