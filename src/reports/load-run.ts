@@ -6,10 +6,11 @@
  *  - metrics.json: every number, string or boolean in it becomes a metrics-table row.
  * Anything missing or inconsistent is an InputError naming the file and field.
  */
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { z } from 'zod';
 import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
+import { readJsonFile } from '../io/load-json.js';
 import { solutionFileSchema } from '../io/solution-file.js';
 import type { SolutionFile } from '../io/solution-file.js';
 import { buildChain } from '../physics/chain.js';
@@ -49,19 +50,7 @@ interface LoadedSolution {
   provenance: z.infer<typeof provenanceSchema>;
 }
 
-function readJson(path: string): unknown {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (e) {
-    throw new InputError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-  try {
-    return JSON.parse(text);
-  } catch (e) {
-    throw new InputError(`${path}: not valid JSON (${(e as Error).message})`);
-  }
-}
+const readJson = readJsonFile;
 
 function checkPropagators(path: string, d: SolutionFile): void {
   const p = d.propagators;
