@@ -24,6 +24,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from './backend.js';
+import { addBroadcast, denseOp, fastTanh, gatherRowsOp, matMulFast, mulBroadcast } from './fast-ops.js';
 
 export type Tensor = TfModule.Tensor;
 export type Channel = Tensor | null;
@@ -76,7 +77,7 @@ export class Jet {
     const a = this;
     const v = tf.mul(a.v, b.v);
     const dx = sum(tf, prod(tf, a.dx, b.v), prod(tf, a.v, b.dx));
-    const cross = a.dx && b.dx ? tf.mul(tf.mul(a.dx, b.dx), 2) : null;
+    const cross = a.dx && b.dx ? tf.mul(mulBroadcast(tf, a.dx, b.dx), 2) : null;
     const dxx = sum(tf, sum(tf, prod(tf, a.dxx, b.v), cross), prod(tf, a.v, b.dxx));
     const ds = sum(tf, prod(tf, a.ds, b.v), prod(tf, a.v, b.ds));
     return new Jet(tf, v, dx, dxx, ds);
@@ -118,7 +119,7 @@ export class Jet {
     if (!this.dx && !this.dxx && !this.ds) return new Jet(tf, g, null, null, null);
     const d1 = g1();
     const dx = prod(tf, d1, this.dx);
-    const dxx = sum(tf, prod(tf, d1, this.dxx), this.dx ? tf.mul(g2(), tf.square(this.dx)) : null);
+    const dxx = sum(tf, prod(tf, d1, this.dxx), this.dx ? mulBroadcast(tf, g2(), tf.square(this.dx)) : null);
     const ds = prod(tf, d1, this.ds);
     return new Jet(tf, g, dx, dxx, ds);
   }
@@ -190,7 +191,7 @@ export function concatRows(jets: Jet[]): Jet {
     return tf.concat(
       jets.map((j) => {
         const c = j[k];
-        return c === null ? tf.zerosLike(j.v) : c.shape[0] === j.v.shape[0] ? c : tf.mul(tf.onesLike(j.v), c);
+        return c === null ? tf.zerosLike(j.v) : c.shape[0] === j.v.shape[0] ? c : mulBroadcast(tf, tf.onesLike(j.v), c);
       }),
       0,
     );
@@ -201,103 +202,16 @@ export function concatRows(jets: Jet[]): Jet {
 function opt(c: Channel, f: (c: Tensor) => Tensor): Channel {
   return c === null ? null : f(c);
 }
+// Channels may be single rows broadcast over the points: the *Broadcast primitives keep
+// their gradients off the slow row-Sum kernel (fast-ops.ts).
 function sum(tf: Tf, a: Channel, b: Channel): Channel {
-  return a === null ? b : b === null ? a : tf.add(a, b);
+  return a === null ? b : b === null ? a : addBroadcast(tf, a, b);
 }
 function diff(tf: Tf, a: Channel, b: Channel): Channel {
   return b === null ? a : a === null ? tf.neg(b) : tf.sub(a, b);
 }
 function prod(tf: Tf, a: Channel, b: Channel): Channel {
-  return a === null || b === null ? null : tf.mul(a, b);
+  return a === null || b === null ? null : mulBroadcast(tf, a, b);
 }
 
-type Save = (ts: TfModule.Tensor[]) => void;
-type Args = Array<TfModule.Tensor | Save>;
-
-interface FastOps {
-  tanh: (z: Tensor) => Tensor;
-  matMul: (a: Tensor, w: Tensor) => Tensor;
-  dense: (a: Tensor, w: Tensor, b: Tensor) => Tensor;
-}
-const fastOps = new WeakMap<Tf, FastOps>();
-
-/** The custom-gradient ops, built once per tfjs module instance. */
-function ops(tf: Tf): FastOps {
-  let o = fastOps.get(tf);
-  if (o) return o;
-  // tanh(z) = 2σ(2z) − 1, gradient dy·(1 − t²).
-  const sigmoidTanh = tf.customGrad((...args: Args) => {
-    const [x, save] = args as [TfModule.Tensor, Save];
-    const t = tf.sub(tf.mul(tf.sigmoid(tf.mul(x, 2)), 2), 1);
-    save([t]);
-    return { value: t, gradFunc: (dy: TfModule.Tensor, saved: TfModule.Tensor[]) => tf.mul(dy, tf.sub(1, tf.square(saved[0]))) };
-  });
-  // a·w with da = dy·wᵀ, dw = aᵀ·dy through explicit transposes.
-  const backward = (dy: TfModule.Tensor, saved: TfModule.Tensor[]) => {
-    const [xs, ks] = saved as TfModule.Tensor2D[];
-    const dy2 = dy as TfModule.Tensor2D;
-    return [tf.matMul(dy2, tf.transpose(ks)), tf.matMul(tf.transpose(xs), dy2)];
-  };
-  const matMul = tf.customGrad((...args: Args) => {
-    const [x, k, save] = args as [TfModule.Tensor2D, TfModule.Tensor2D, Save];
-    save([x, k]);
-    return { value: tf.matMul(x, k), gradFunc: backward };
-  });
-  const dense = tf.customGrad((...args: Args) => {
-    const [x, k, b, save] = args as [TfModule.Tensor2D, TfModule.Tensor2D, TfModule.Tensor, Save];
-    save([x, k]);
-    return {
-      value: tf.add(tf.matMul(x, k), b),
-      gradFunc: (dy: TfModule.Tensor, saved: TfModule.Tensor[]) => [...backward(dy, saved), tf.sum(dy, 0)],
-    };
-  });
-  // The sigmoid form pays only where tanh is slow: measured faster on WASM, slightly slower on
-  // the plain-JS backend (and native tanh is one fused kernel).
-  const tanh = (z: Tensor) => (tf.getBackend() === 'wasm' ? sigmoidTanh(z) : tf.tanh(z));
-  o = { tanh, matMul, dense };
-  fastOps.set(tf, o);
-  return o;
-}
-
-/**
- * tanh on the WASM backend as 2σ(2z) − 1 with the gradient dy·(1 − t²): the WASM tanh
- * kernel is about 12× slower than sigmoid (measured here at 2048×32: 1754 µs against
- * 147 µs), and value + gradient take 1.6 ms instead of 2.9 ms. Other backends use tf.tanh
- * (faster there). Tested against tf.tanh (value and gradient) on each backend.
- */
-export function fastTanh(tf: Tf, z: Tensor): Tensor {
-  return ops(tf).tanh(z);
-}
-
-/**
- * Plain matMul a·w whose gradient uses explicit transposes (da = dy·wᵀ, dw = aᵀ·dy):
- * tfjs's own matMul gradient calls matMul with transposeA/transposeB, about 10× slower
- * on WASM here than transpose + plain matMul. Tested against tf.matMul.
- */
-export function matMulFast(tf: Tf, a: Tensor, w: Tensor): Tensor {
-  return ops(tf).matMul(a, w);
-}
-
-/**
- * Row gather out[r] = a[index[r]] with the gradient da[j] = Σ_{r: index[r] = j} dy[r] by
- * tf.scatterND (which sums repeated indices). tfjs's own gather gradient needs the
- * UnsortedSegmentSum kernel, which the WASM backend of 4.22 does not register.
- */
-export function gatherRowsOp(tf: Tf, a: Tensor, index: Tensor): Tensor {
-  const f = tf.customGrad((...args: Args) => {
-    const [x, save] = args as [TfModule.Tensor2D, Save];
-    const shape = x.shape;
-    // Saved, not captured: a captured index made inside tf.grad's scope is gone by backward time.
-    save([index]);
-    return {
-      value: tf.gather(x, index),
-      gradFunc: (dy: TfModule.Tensor, saved: TfModule.Tensor[]) => tf.scatterND(tf.reshape(saved[0], [-1, 1]), dy, shape),
-    };
-  });
-  return f(a);
-}
-
-/** Dense layer a·w + bias: the matMulFast gradient plus db = Σ_rows dy. */
-export function denseOp(tf: Tf, a: Tensor, w: Tensor, bias: Tensor): Tensor {
-  return ops(tf).dense(a, w, bias);
-}
+export { denseOp, fastTanh, gatherRowsOp, matMulFast } from './fast-ops.js';

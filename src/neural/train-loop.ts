@@ -41,6 +41,8 @@ export interface LoopHooks {
   evaluate?: () => number;
   /** True once the user asked to stop (Ctrl-C). */
   shouldStop?: () => boolean;
+  /** Inverse runs: the current trainable χN, logged with the history. */
+  chiN?: () => number;
 }
 
 export interface LoopResult {
@@ -126,7 +128,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     }
     const lr = learningRateAt(tr, step);
     // Alternating: only the MDE term drives the gradient (fields detached; see field-update.ts).
-    const w = tr.strategy === 'alternating' ? ({ mde: 1, incompressibility: 0, selfConsistency: 0, gauge: 0 } as LossValues) : effective();
+    const w = tr.strategy === 'alternating' ? ({ mde: 1, incompressibility: 0, selfConsistency: 0, gauge: 0, data: 0 } as LossValues) : effective();
     const { total, terms } = tf.tidy(() => {
       let parts!: Record<LossTerm, TfModule.Scalar>;
       const { value, grads } = tf.variableGrads(() => {
@@ -155,7 +157,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
       if (tr.targetPhiError !== undefined && phiError < tr.targetPhiError && !reachedTarget) reachedTarget = { step: state.step, seconds: elapsed() };
     }
     if (state.step % tr.logEvery === 0 || last || phiError !== undefined) {
-      state.history.push({ step: state.step, stage: 'adam', total, terms, learningRate: lr, seconds: elapsed(), ...(phiError !== undefined ? { phiError } : {}) });
+      state.history.push({ step: state.step, stage: 'adam', total, terms, learningRate: lr, seconds: elapsed(), ...(phiError !== undefined ? { phiError } : {}), ...(hooks.chiN ? { chiN: hooks.chiN() } : {}) });
     }
     hooks.onProgress?.({ step: state.step, steps: tr.steps, total, terms, stepsPerSecond: rate, secondsLeft: (tr.steps - state.step) / rate, learningRate: lr });
     if (hooks.checkpoint && (state.step % tr.checkpointEvery === 0 || last)) {

@@ -38,6 +38,38 @@ const checkpointHistorySchema = z.object({
   history: z.array(z.object({ step: z.number(), stage: z.string(), total: z.number(), terms: z.record(z.string(), z.number()), learningRate: z.number() })),
 });
 
+/** The parts of an inversion result (inverse/inversion-result.ts) that the report draws. */
+const estimatorFileSchema = z
+  .object({
+    chiN: z.number(),
+    interval: z.tuple([z.number(), z.number()]),
+    interval95: z.tuple([z.number(), z.number()]).optional(),
+    intervals: z.record(z.string(), z.object({ deltaChi2: z.number() }).passthrough()).optional(),
+    intervalMethod: z.string(),
+    profileLikelihood: z.array(z.object({ chiN: z.number(), deltaChi2: z.number() }).passthrough()).optional(),
+    fitCurve: z.object({ x: z.array(z.number()), phiA: z.array(z.number()) }).optional(),
+    points: z.object({ x: z.array(z.number()), phiA: z.array(z.number()), sigma: z.array(z.number()), fit: z.array(z.number()), residual: z.array(z.number()) }).optional(),
+  })
+  .passthrough();
+const inversionFileSchema = z.object({ kind: z.literal('inversion'), estimators: z.record(z.string(), estimatorFileSchema) }).passthrough();
+
+function inversionInput(file: z.infer<typeof inversionFileSchema>): ReportInput['inversion'] {
+  const main = file.estimators.classical ?? Object.values(file.estimators)[0];
+  if (!main?.points || !main.fitCurve) return undefined;
+  const p = main.points;
+  const threshold = main.intervals?.['68.3%']?.deltaChi2 ?? 1;
+  return {
+    quantity: 'φA',
+    data: p.x.map((x, i) => ({ x, value: p.phiA[i], sigma: p.sigma[i] })),
+    fitted: main.fitCurve.x.map((x, i) => ({ x, value: main.fitCurve!.phiA[i] })),
+    residuals: p.x.map((x, i) => ({ x, normalized: p.residual[i] / p.sigma[i] })),
+    profileLikelihood: (main.profileLikelihood ?? []).map((q) => ({ chiN: q.chiN, deltaChi2: q.deltaChi2 })),
+    interval: { lower: main.interval[0], upper: main.interval[1], level: 0.683, threshold },
+    bestChiN: main.chiN,
+    estimators: Object.entries(file.estimators).map(([name, e]) => ({ name, chiN: e.chiN, lower: e.interval[0], upper: e.interval[1], note: e.intervalMethod.slice(0, 60) })),
+  };
+}
+
 const traceSchema = z.array(z.object({ period: z.number(), freeEnergy: z.number(), phase: z.string(), iterations: z.number() }));
 
 const provenanceSchema = z.object({ version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string().optional(), tfjs: z.string().optional() }).passthrough();
@@ -142,12 +174,16 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   const notes: string[] = [];
   let metrics: MetricRow[] | undefined;
   let training: ReportInput['training'];
+  let inversion: ReportInput['inversion'];
   for (const name of names) {
     const path = join(dir, name);
     const raw = readJson(path);
     const kind = raw && typeof raw === 'object' ? (raw as Record<string, unknown>).kind : undefined;
     if (kind === 'solution') {
       solutions.push(loadSolution(path, raw));
+      read.push(path);
+    } else if (kind === 'inversion') {
+      inversion = inversionInput(parseOrThrow(inversionFileSchema, raw, path));
       read.push(path);
     } else if (kind === 'checkpoint') {
       // A training checkpoint (neural/checkpoint.ts): its loss history is the training page.
@@ -192,6 +228,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     profiles: { reference: shown.solution, network: reference ? network?.solution : undefined },
     propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
     training,
+    inversion,
     periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
     metrics,
   };

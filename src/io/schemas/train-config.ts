@@ -17,6 +17,8 @@ export const lossWeightsSchema = z
     selfConsistency: z.number().min(0).default(1),
     /** (mean of (w_A + w_B)/2)²: pins the pressure gauge. */
     gauge: z.number().min(0).default(1),
+    /** Inverse runs: weighted mean square misfit of φ_A against the data. */
+    data: z.number().min(0).default(1),
   })
   .strict();
 
@@ -102,7 +104,7 @@ export const trainConfigSchema = z
         fieldUpdateEvery: z.number().int().min(1).default(100),
         fieldMixing: z.number().gt(0).lte(1).default(0.5),
         fieldFitSteps: z.number().int().min(1).default(150),
-        fieldFitLearningRate: z.number().gt(0).lt(1).default(3e-3),
+        fieldFitLearningRate: z.number().gt(0).lt(1).default(5e-4),
         steps: z.number().int().min(0).max(1000000).default(1500),
         learningRate: z.number().gt(0).lt(1).default(2e-3),
         /** lr(step) = learningRate · decay^(step/decaySteps). */
