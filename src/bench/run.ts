@@ -1,8 +1,17 @@
-/** `npm run bench`: prints timings of every part; never fails on a time. */
-import { runSpectralBench } from './spectral-bench.js';
-
-runSpectralBench();
-const { runTrainerBench } = await import('./trainer-bench.js');
-await runTrainerBench();
-const inverse = await import('./inverse-bench.js').catch(() => undefined);
-if (inverse) await inverse.runInverseBench();
+/**
+ * `npm run bench`: prints timings of every part; never fails on a time.
+ * `npm run bench -- --step-profile`: only the per-step timing and kernel breakdown (issue 7).
+ */
+const only = process.argv.includes('--step-profile');
+if (!only) {
+  const { runSpectralBench } = await import('./spectral-bench.js');
+  runSpectralBench();
+}
+const { runStepProfile } = await import('./step-profile.js');
+await runStepProfile();
+if (!only) {
+  const { runTrainerBench } = await import('./trainer-bench.js');
+  await runTrainerBench();
+  const inverse = await import('./inverse-bench.js').catch(() => undefined);
+  if (inverse) await inverse.runInverseBench();
+}

@@ -8,22 +8,7 @@ import { PropagatorSolver } from '../spectral/propagator-solver.js';
 import { cosineStart, solveFixedCell } from '../spectral/scft-solver.js';
 import { optimizePeriod } from '../spectral/period-search.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
-
-function timeIt(fn: () => void, repeats: number): number {
-  fn();
-  const t: number[] = [];
-  for (let i = 0; i < repeats; i++) {
-    const t0 = performance.now();
-    fn();
-    t.push(performance.now() - t0);
-  }
-  return median(t);
-}
+import { timeIt } from './timing.js';
 
 export function runSpectralBench(): void {
   const system: SystemSpec = { chain: { type: 'diblock', f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 20 };

@@ -19,6 +19,7 @@ import { PropagatorNet } from '../../src/neural/propagator-net.js';
 import { ParameterSet } from '../../src/neural/parameters.js';
 import { fieldNetworkSchema, propagatorNetworkSchema } from '../../src/io/schemas/network-schema.js';
 import { fd, features64, logQ64, mlp64, readMlp } from './reference64.js';
+import { expectClose } from '../helpers/expect-close.js';
 
 const L = 3.2; // cell length in Rg (about the lamellar period at the ODT, SCFT-NOTES.md)
 const F = 0.4; // block junction of an A0.4-B0.6 diblock
@@ -31,18 +32,6 @@ function arr(t: TfModule.Tensor | null, rows: number, cols: number): Float64Arra
   const out = new Float64Array(rows * cols);
   for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) out[i * cols + j] = d[(t.shape[0] === 1 ? 0 : i) * (t.shape[1] === 1 ? 1 : cols) + (t.shape[1] === 1 ? 0 : j)];
   return out;
-}
-
-/** max |a − b| ≤ rel · max(1, max |b|). */
-function expectClose(actual: ArrayLike<number>, expected: ArrayLike<number>, rel: number, what: string): void {
-  expect(actual.length, what).toBe(expected.length);
-  let scale = 1;
-  let err = 0;
-  for (let i = 0; i < expected.length; i++) {
-    scale = Math.max(scale, Math.abs(expected[i]));
-    err = Math.max(err, Math.abs(actual[i] - expected[i]));
-  }
-  expect(err, `${what}: max error ${err.toExponential(2)} at scale ${scale.toExponential(2)}`).toBeLessThanOrEqual(rel * scale);
 }
 
 /** Sample points: x over more than one period (periodicity), s away from 0, F, 1 by more than the FD steps. */
