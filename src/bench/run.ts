@@ -9,6 +9,8 @@ if (!only) {
 }
 const { runStepProfile } = await import('./step-profile.js');
 await runStepProfile();
+const { runWorkerBench } = await import('./worker-bench.js');
+await runWorkerBench();
 if (!only) {
   const { runTrainerBench } = await import('./trainer-bench.js');
   await runTrainerBench();

@@ -4,6 +4,7 @@
  * block comparing whichever are present, the model's assumptions, and the fitted-profile
  * CSV. Lengths are in Rg, with nm copies when the input was in nm.
  */
+import type { NetworkEstimate } from './network-estimator.js';
 import type { Provenance } from '../io/versions.js';
 import type { ClassicalEstimate } from './classical.js';
 import { fieldInDataFrame } from './classical.js';
@@ -196,9 +197,11 @@ export function summaryText(result: InversionResult): string {
     const f = (v: number) => v.toPrecision(6);
     const nm = (v: number | undefined) => (v !== undefined ? ` (${v.toPrecision(6)} nm)` : '');
     lines.push(`${name} estimate: χN = ${f(e.chiN)}`);
-    lines.push(`  68.3% interval [${f(e.interval[0])}, ${f(e.interval[1])}], 95% interval [${f(e.interval95[0])}, ${f(e.interval95[1])}] (profile likelihood)`);
+    const how = e.method === 'network' ? `seed spread, ${(e.runs as unknown[]).length} seeds: an optimisation spread, not a statistical interval` : 'profile likelihood';
+    lines.push(`  68.3% interval [${f(e.interval[0])}, ${f(e.interval[1])}], 95% interval [${f(e.interval95[0])}, ${f(e.interval95[1])}] (${how})`);
     lines.push(`  period ${e.period.toPrecision(6)} Rg${nm(e.periodNm)} (${e.periodMode}), offset ${e.offset.toPrecision(6)} Rg${nm(e.offsetNm)} (centre of an A-rich domain)`);
-    lines.push(
+    if (e.method === 'network') lines.push(`  rms residual ${e.rmsResidual.toExponential(3)} against the data; offset and period from the classical fit`);
+    else lines.push(
       `  χ² = ${e.chi2.toPrecision(5)} for n − p = ${e.dof} (n = ${e.n}, p = ${e.p}), reduced χ² = ${e.reducedChi2.toPrecision(4)}, rms residual ${e.rmsResidual.toExponential(3)}, sigma ${e.sigma.source === 'column' ? 'from the column' : `estimated ${e.sigma.value!.toExponential(3)}`}`,
     );
     lines.push(`  ${e.seconds.toFixed(2)} s`);
@@ -208,4 +211,48 @@ export function summaryText(result: InversionResult): string {
   lines.push('assumptions (the fitted χN holds only within them):');
   for (const a of result.assumptions) lines.push(`  - ${a}`);
   return `${lines.join('\n')}\n`;
+}
+
+/**
+ * The network estimator's block. Its interval is the seed spread (mean ± one standard
+ * deviation, and ± 1.96 of them), an optimisation spread rather than a statistical interval:
+ * the block says so. Offset and period are the classical ones it was given.
+ */
+export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: ProfileData): EstimatorBlock {
+  const nm = data.units.x === 'nm' ? data.units.rgNm! : undefined;
+  const rms = Math.sqrt(ne.runs.reduce((a, r) => a + r.rmsResidual ** 2, 0) / ne.runs.length);
+  const n = data.x.length;
+  const sd = ne.spread;
+  const open = { lo: false, hi: false };
+  return {
+    method: 'network',
+    status: 'ok',
+    chiN: ne.chiN,
+    interval: [ne.chiN - sd, ne.chiN + sd],
+    interval95: [ne.chiN - 1.96 * sd, ne.chiN + 1.96 * sd],
+    intervals: {
+      '68.3%': { lo: ne.chiN - sd, hi: ne.chiN + sd, probability: 0.683, deltaChi2: Number.NaN, limitedByRange: open },
+      '95%': { lo: ne.chiN - 1.96 * sd, hi: ne.chiN + 1.96 * sd, probability: 0.95, deltaChi2: Number.NaN, limitedByRange: open },
+    },
+    intervalMethod: `spread of ${ne.runs.length} seeded trainings (mean ± sd, ± 1.96 sd): an optimisation spread, not a statistical interval`,
+    offset: cl.offset,
+    period: cl.period,
+    ...(nm ? { offsetNm: cl.offset * nm, periodNm: cl.period * nm } : {}),
+    periodMode: cl.periodMode,
+    chi2: Number.NaN,
+    reducedChi2: Number.NaN,
+    rss: rms * rms * n,
+    rmsResidual: rms,
+    n,
+    p: 1,
+    dof: n - 1,
+    sigma: cl.sigma,
+    seconds: ne.seconds,
+    backend: ne.backend,
+    tfjs: ne.tfjs,
+    chiNStart: ne.chiNStart,
+    runs: ne.runs.map((r) => ({ seed: r.seed, chiN: r.chiN, rmsResidual: r.rmsResidual, seconds: r.seconds, trajectory: r.trajectory })),
+    fields: { note: 'w_A − w_B of the first seed on the model cell grid (Rg, cell frame), kT', x: Array.from(ne.x), exchange: Array.from(ne.runs[0].exchange) },
+    notes: ne.notes,
+  };
 }

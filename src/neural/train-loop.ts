@@ -43,6 +43,8 @@ export interface LoopHooks {
   shouldStop?: () => boolean;
   /** Inverse runs: the current trainable χN, logged with the history. */
   chiN?: () => number;
+  /** Replaces the forward field update of the alternating strategy (inverse runs). */
+  fieldUpdate?: () => void;
 }
 
 export interface LoopResult {
@@ -123,8 +125,11 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
       rebalance(tf, problem, params, factors, config.losses.balanceSmoothing);
     }
     if (tr.strategy === 'alternating' && step > startStep && step % tr.fieldUpdateEvery === 0) {
-      const u = updateFieldNetwork(tf, problem.nets, problem.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
-      state.lastFieldResidual = u.residual;
+      if (hooks.fieldUpdate) hooks.fieldUpdate();
+      else {
+        const u = updateFieldNetwork(tf, problem.nets, problem.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
+        state.lastFieldResidual = u.residual;
+      }
     }
     const lr = learningRateAt(tr, step);
     // Alternating: only the MDE term drives the gradient (fields detached; see field-update.ts).

@@ -10,7 +10,8 @@ import { solutionToFile } from '../../io/solution-file.js';
 import { provenance } from '../../io/versions.js';
 import { estimateClassical } from '../../inverse/classical.js';
 import type { PeriodMode } from '../../inverse/objective.js';
-import { fitCsv, classicalBlock, inversionResult, summaryText } from '../../inverse/inversion-result.js';
+import { fitCsv, classicalBlock, inversionResult, networkBlock, summaryText } from '../../inverse/inversion-result.js';
+import type { EstimatorBlock } from '../../inverse/inversion-result.js';
 import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
 import { action, numberFlag } from '../run-command.js';
 import { obj, readRawConfig } from '../raw-config.js';
@@ -30,6 +31,9 @@ interface InvertFlags {
   nx?: string;
   ns?: string;
   profilePoints?: string;
+  seeds?: string;
+  networkSteps?: string;
+  backend?: string;
   quiet?: boolean;
 }
 
@@ -55,6 +59,12 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
   const f = numberFlag('--f', flags.f);
   if (f !== undefined) chain.f = f;
   if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
+  const network = obj(raw, 'network');
+  const seeds = numberFlag('--seeds', flags.seeds);
+  if (seeds !== undefined) network.seeds = seeds;
+  const nsteps = numberFlag('--network-steps', flags.networkSteps);
+  if (nsteps !== undefined) network.steps = nsteps;
+  if (flags.backend !== undefined) network.backend = flags.backend;
   if (flags.method !== undefined) {
     raw.method = flags.method;
     sources.method = '--method';
@@ -91,7 +101,10 @@ export function registerInvert(program: Command): void {
     .argument('<profile>', 'CSV with a header row: x, phiA and optionally sigma (per-point standard deviation)')
     .argument('[config]', 'invert config JSON (kind "invert"); flags override it')
     .option('--f <f>', 'A fraction of the diblock (required without a config)')
-    .option('--method <m>', 'classical | network | both (network: not available yet)')
+    .option('--method <m>', 'classical | network | both')
+    .option('--seeds <n>', 'network: independent seeded trainings (their spread is reported)')
+    .option('--network-steps <n>', 'network: training steps per seed')
+    .option('--backend <b>', 'network: tfjs backend auto | native | wasm | cpu')
     .option('--period <mode>', 'equilibrium (stress-free at each χN, default) | free (fitted) | L (given, in the units of x)')
     .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')
     .option('--resolution <W>', 'Gaussian instrument resolution (standard deviation, units of x)')
@@ -107,11 +120,6 @@ export function registerInvert(program: Command): void {
     .action(
       action(async (profilePath: string, configPath: string | undefined, flags: InvertFlags) => {
         const { config, sources } = buildInvertConfig(configPath, flags);
-        if (config.method !== 'classical') {
-          throw new InputError(
-            `${sources.method}: got "${config.method}"; the network estimator is not available yet (it will be added on top of the trainer), so only "classical" can run now`,
-          );
-        }
         const units = lengthUnits(config.units ?? {});
         let text: string;
         try {
@@ -142,7 +150,26 @@ export function registerInvert(program: Command): void {
           throw asInputError(e, configPath ?? 'flags');
         }
         progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
-        const result = inversionResult(data, config, provenance(), { classical: classicalBlock(estimate, data) });
+        const estimators: Record<string, EstimatorBlock> = {};
+        if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data);
+        if (config.method !== 'classical') {
+          // The network fits χN and the fields; the phase offset and period come from the classical fit.
+          const { estimateNetwork } = await import('../../inverse/network-estimator.js');
+          const net = config.network;
+          const ne = await estimateNetwork(data, estimate, {
+            chain: config.system.chain,
+            seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
+            steps: net.steps,
+            fieldUpdateEvery: net.fieldUpdateEvery,
+            chiNStart: net.chiNStart,
+            resolution: toRg(config.resolution),
+            backend: net.backend,
+            onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
+          });
+          progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
+          estimators.network = networkBlock(ne, estimate, data);
+        }
+        const result = inversionResult(data, config, provenance(), estimators);
         if (flags.out) {
           const files = {
             'result.json': `${JSON.stringify(result, null, 1)}\n`,

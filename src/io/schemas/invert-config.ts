@@ -33,6 +33,21 @@ export const invertConfigSchema = z
       .strict()
       .optional(),
     solver: spectralSchema.pick({ tolerance: true, maxIterations: true, andersonHistory: true, andersonMixing: true }).prefault({}),
+    /** The network estimator (method "network" or "both"). */
+    network: z
+      .object({
+        /** Independent seeded trainings; their spread is reported. */
+        seeds: z.number().int().min(1).max(16).default(3),
+        /** Training steps per seed. */
+        steps: z.number().int().min(50).max(100000).default(1000),
+        /** Steps between field/χN updates. */
+        fieldUpdateEvery: z.number().int().min(10).default(100),
+        /** χN the networks start from; default the classical estimate. */
+        chiNStart: positive.optional(),
+        backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
+      })
+      .strict()
+      .prefault({}),
     /** Extra evenly spaced points on the profile-likelihood curve (for reports). */
     profilePoints: z.number().int().min(0).max(100).default(9),
   })

@@ -1,0 +1,60 @@
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { estimateNetwork } from '../../src/inverse/network-estimator.js';
+import { solveFixedCell } from '../../src/spectral/scft-solver.js';
+import { runCli } from '../helpers/run-cli.js';
+import { diblock, invert, synthData } from './helpers.js';
+
+// Synthetic profiles come from the spectral reference (itself checked against Leibler's RPA,
+// analytic propagators and an independent finite-difference solver in tests/spectral).
+describe('network estimator of χN', () => {
+  // Measured here: from a start 10 % low the estimate settles 2–3 % below the truth (the
+  // networks' own forward error sets this bias); the issue's 1 % target is not met yet.
+  it('noiseless profile (f = 0.5, χN = 15, 64 points), started 10 % low: moves to within 4 %, wA − wB within 5 %', async () => {
+    const chain = diblock(0.5);
+    const { data } = synthData({ chain, chiN: 15, nx: 64, ns: 100 });
+    const cl = invert(data, { chain, nx: 64, ns: 100 });
+    const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: 600, fieldUpdateEvery: 50, chiNStart: 13.5, resolution: 0, backend: 'wasm' });
+    expect(Math.abs(ne.chiN / 15 - 1)).toBeLessThan(0.04);
+    expect(Math.abs(ne.chiN - 15)).toBeLessThan(Math.abs(13.5 - 15) / 2);
+    // The trajectory must actually move from the start towards the truth.
+    expect(ne.runs[0].trajectory[0].chiN).toBeCloseTo(13.5, 6);
+    // Field discovery: the exchange field against the true self-consistent one on the same cell.
+    const truth = solveFixedCell({ system: { chain, chiN: 15 }, length: cl.period, periods: 1, nx: 64, ns: 100, initial: cl.solution.w });
+    let num = 0;
+    let den = 0;
+    for (let j = 0; j < 64; j++) {
+      const t = truth.w.A[j] - truth.w.B[j];
+      num += (ne.runs[0].exchange[j] - t) ** 2;
+      den += t * t;
+    }
+    expect(Math.sqrt(num / den)).toBeLessThan(0.05);
+  });
+
+  it('2 % Gaussian noise, started from the classical estimate: χN within 4 %', async () => {
+    const chain = diblock(0.5);
+    const { data } = synthData({ chain, chiN: 15, nx: 64, ns: 100, noise: 0.02, seed: 4 });
+    const cl = invert(data, { chain, nx: 64, ns: 100 });
+    const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: 400, fieldUpdateEvery: 50, resolution: 0, backend: 'wasm' });
+    expect(Math.abs(ne.chiN / 15 - 1)).toBeLessThan(0.04);
+  });
+});
+
+describe('mesofield invert --method both', () => {
+  it('reports both estimators and their agreement', () => {
+    const d = mkdtempSync(join(tmpdir(), 'mesofield-netinv-'));
+    const csv = join(d, 'p.csv');
+    expect(runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', csv]).code).toBe(0);
+    const out = join(d, 'run');
+    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--network-steps', '100', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out], { timeoutMs: 300_000 });
+    expect(r.code).toBe(0);
+    const res = JSON.parse(r.stdout);
+    expect(Object.keys(res.estimators).sort()).toEqual(['classical', 'network']);
+    expect(res.estimators.network.runs.length).toBe(2);
+    expect(res.estimators.network.intervalMethod).toMatch(/seed/);
+    expect(res.agreement.compared).toBe(true);
+    expect(JSON.parse(readFileSync(join(out, 'result.json'), 'utf8')).estimators.network.backend).toBe('wasm');
+  });
+});
