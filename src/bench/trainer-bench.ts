@@ -31,6 +31,26 @@ async function stepTime(backend: BackendName, width: number, points: number): Pr
   return (1000 * r.history[r.history.length - 1].seconds) / steps;
 }
 
+/** Transfer from a χN = 15 checkpoint to χN = 17 against a warm start from the χN = 17 reference, both to φA error 1e-2. */
+async function transferBench(): Promise<void> {
+  const { mkdtempSync } = await import('node:fs');
+  const { tmpdir } = await import('node:os');
+  const { join } = await import('node:path');
+  const dir = join(mkdtempSync(join(tmpdir(), 'mesofield-bench-')), 'chiN15');
+  const base = { version: 1, kind: 'train', backend: 'wasm', cell: { nx: 64, ns: 100 } } as const;
+  await trainRun({ config: trainConfigSchema.parse({ ...base, system, warmStart: { steps: 400, learningRate: 0.01 }, training: { steps: 300, learningRate: 1e-3 } }), outDir: dir, backend: 'wasm' });
+  const target = { steps: 2000, learningRate: 1e-3, evaluateEvery: 25, targetPhiError: 1e-2 };
+  const to17 = { chain: system.chain, chiN: 17 };
+  const t1 = performance.now();
+  const tr = await trainRun({ config: trainConfigSchema.parse({ ...base, system: to17, initFrom: dir, training: target }), backend: 'wasm' });
+  const transferWall = (performance.now() - t1) / 1000;
+  const t2 = performance.now();
+  const ws = await trainRun({ config: trainConfigSchema.parse({ ...base, system: to17, warmStart: { steps: 400, learningRate: 0.01 }, training: target }), backend: 'wasm' });
+  const warmWall = (performance.now() - t2) / 1000;
+  const say = (r: typeof tr) => (r.metrics.training.reachedTarget ? `step ${r.metrics.training.reachedTarget.step}` : 'not reached');
+  console.log(`\ntransfer χN 15 → 17 (to φA error 1e-2): from the checkpoint ${say(tr)}, ${transferWall.toFixed(1)} s wall; warm start from the χN = 17 reference ${say(ws)} after ${ws.metrics.training.warmStart?.steps} fitting steps, ${warmWall.toFixed(1)} s wall`);
+}
+
 export async function runTrainerBench(): Promise<void> {
   console.log('\nnetwork trainer: ms per Adam step (joint loss, field + q + q† networks, per-block pieces)');
   for (const backend of ['native', 'wasm', 'cpu'] as BackendName[]) {
@@ -48,6 +68,7 @@ export async function runTrainerBench(): Promise<void> {
       console.log(`  ${backend.padEnd(6)} 3×${width}, ~${points} points per propagator: ${ms.toFixed(1)} ms/step (includes one-time set-up)`);
     }
   }
+  await transferBench();
   console.log('\nwarm-started f = 0.5, χN = 15 diblock, default config (alternating strategy), wasm:');
   for (const target of [1e-2, 1e-3]) {
     const config = trainConfigSchema.parse({

@@ -156,7 +156,7 @@ export class ScftProblem {
    * Every loss term as a scalar tensor (call inside tf.tidy or variableGrads). With
    * gridMde false the MDE term covers only the extra points (a fresh set in evaluation).
    */
-  terms(gridMde = true): Record<LossTerm, TfModule.Scalar> {
+  terms(gridMde = true, mdeOnly = false): Record<LossTerm, TfModule.Scalar> {
     const tf = this.tf;
     const nets = this.nets;
     const nx = this.collocation.nx;
@@ -173,7 +173,8 @@ export class ScftProblem {
     if (this.extraQDagger) squares.push(tf.square(this.residual(nets.qDagger, this.extraQDagger)));
     const mde = tf.mean(tf.concat(squares.map((t) => tf.reshape(t, [-1])), 0)) as TfModule.Scalar;
     const zero = tf.scalar(0);
-    if (!nets.field) return { mde, incompressibility: zero, selfConsistency: zero, gauge: zero, data: zero };
+    // The alternating strategy trains on the MDE alone: skip the density quadrature then.
+    if (!nets.field || mdeOnly) return { mde, incompressibility: zero, selfConsistency: zero, gauge: zero, data: zero };
 
     const dens = gridDensities(tf, uq.v, uqd.v, nn, nx, this.weightsA, this.weightsB);
     const w = nets.field.forward(this.gridFieldFeatures!).v;

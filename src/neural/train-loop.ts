@@ -105,6 +105,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
   const startStep = state.step;
   const finish = (reason: StopReason, message: string): LoopResult => ({ reason, state: { ...state, lossWeights: { ...factors } }, lastCheckpointStep, message, seconds: elapsed(), reachedTarget });
 
+  let lastTerms: LossValues | null = null;
   const effective = (): LossValues => Object.fromEntries(LOSS_TERMS.map((k) => [k, baseWeights[k] * factors[k]])) as LossValues;
 
   while (state.step < tr.steps) {
@@ -134,10 +135,11 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     const lr = learningRateAt(tr, step);
     // Alternating: only the MDE term drives the gradient (fields detached; see field-update.ts).
     const w = tr.strategy === 'alternating' ? ({ mde: 1, incompressibility: 0, selfConsistency: 0, gauge: 0, data: 0 } as LossValues) : effective();
+    const mdeOnly = tr.strategy === 'alternating';
     const { total, terms } = tf.tidy(() => {
       let parts!: Record<LossTerm, TfModule.Scalar>;
       const { value, grads } = tf.variableGrads(() => {
-        parts = problem.terms();
+        parts = problem.terms(true, mdeOnly);
         for (const k of LOSS_TERMS) tf.keep(parts[k]);
         return weightedTotal(tf, parts, w);
       }, vars);
@@ -153,6 +155,17 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     }
     state.bestTotal = Math.min(state.bestTotal, total);
     state.step = step + 1;
+    if (mdeOnly) {
+      // The other terms are not trained on here; evaluate them (forward only) when logged.
+      const logNow = state.step % tr.logEvery === 0 || state.step === tr.steps || (tr.evaluateEvery > 0 && state.step % tr.evaluateEvery === 0);
+      if (logNow || !lastTerms) {
+        lastTerms = tf.tidy(() => {
+          const t = problem.terms();
+          return Object.fromEntries(LOSS_TERMS.map((k) => [k, t[k].dataSync()[0]])) as LossValues;
+        });
+      }
+      for (const k of LOSS_TERMS) if (k !== 'mde') terms[k] = lastTerms[k];
+    }
     const done = state.step - startStep;
     const rate = done / Math.max(1e-9, (performance.now() - t0) / 1000);
     const last = state.step === tr.steps;

@@ -116,16 +116,17 @@ describe('mesofield invert', () => {
     expect(b.estimators.classical.chiNRange).toEqual([11, 30]);
   });
 
-  it('refuses the network estimator explicitly (not available yet), for network and both', () => {
+  it('bad network settings exit 2 naming the field, and write nothing', () => {
     const dir = tmp();
     const p = synth(dir);
-    for (const m of ['network', 'both']) {
-      const out = join(dir, `out-${m}`);
-      const r = runCli(['invert', p, '--f', '0.5', '--method', m, '--out', out]);
-      expect(r.code).toBe(2);
-      expect(r.stderr).toMatch(new RegExp(`--method: got "${m}"; the network estimator is not available yet`));
-      expect(existsSync(out)).toBe(false);
-    }
+    const out = join(dir, 'out-net');
+    const r = runCli(['invert', p, '--f', '0.5', '--method', 'network', '--seeds', '0', '--out', out]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/network\.seeds: got 0;/);
+    const b = runCli(['invert', p, '--f', '0.5', '--method', 'both', '--backend', 'gpu', '--out', out]);
+    expect(b.code).toBe(2);
+    expect(b.stderr).toMatch(/network\.backend: got "gpu";/);
+    expect(existsSync(out)).toBe(false);
   });
 
   const header = 'x,phiA,sigma\n';
@@ -202,8 +203,8 @@ describe('mesofield invert', () => {
     expect(kind.stderr).toMatch(/k\.json: kind: got "solve"/);
     const chiN = runCli(['invert', p, write(dir, 'c.json', JSON.stringify({ ...base, system: { ...base.system, chiN: 15 } }))]);
     expect(chiN.stderr).toMatch(/c\.json: system: unknown field\(s\) "chiN"/);
-    const method = runCli(['invert', p, write(dir, 'm.json', JSON.stringify({ ...base, method: 'both' }))]);
-    expect(method.stderr).toMatch(/m\.json: method: got "both"; the network estimator is not available yet/);
+    const method = runCli(['invert', p, write(dir, 'm.json', JSON.stringify({ ...base, method: 'neural' }))]);
+    expect(method.stderr).toMatch(/m\.json: method: got "neural"/);
     expect(runCli(['invert', p, write(dir, 'b.json', '{ "version": 1,')]).stderr).toMatch(/b\.json: not valid JSON/);
   });
 });

@@ -73,6 +73,20 @@ describe('trainer: symmetric diblock, warm start, checkpoints', () => {
     expect(Array.from(ev.solutions.network.phi.A)).toEqual(Array.from(first.network.phi.A));
   });
 
+  it('transfers from the χN = 15 checkpoint to χN = 16 and reaches the target error', async () => {
+    const transfer = cfg({
+      system: { chain: { type: 'diblock', f: 0.5 }, chiN: 16 },
+      cell: { period: 'optimize', nx: 64, ns: 100 },
+      initFrom: dir,
+      training: { steps: 300, learningRate: 1e-3, evaluateEvery: 25, targetPhiError: 1e-2 },
+    });
+    const r = await trainRun({ config: transfer, backend: 'wasm' });
+    expect(r.metrics.training.transferredFrom).toEqual({ checkpoint: dir, chiN: 15, f: 0.5 });
+    expect(r.metrics.training.warmStart).toBeUndefined();
+    expect(r.metrics.training.reachedTarget).toBeDefined();
+    expect(r.metrics.errors.phiA.relativeL2).toBeLessThan(1e-2);
+  });
+
   it('seeded runs repeat and a resumed run continues the same loss curve', async () => {
     const short = { ...base, cell: { ...base.cell, nx: 32 }, warmStart: { ...base.warmStart, steps: 50 }, collocation: { ...base.collocation, resampleEvery: 40 }, training: { ...base.training, steps: 90, checkpointEvery: 45, fieldUpdateEvery: 50, logEvery: 10 } };
     const a = await trainRun({ config: short, backend: 'wasm' });
