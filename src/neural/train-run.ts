@@ -161,7 +161,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const extra = resumed?.file.extraPoints;
   if (resumed && extra) problem.setExtraPoints(extra, Math.floor(resumed.file.step / config.collocation.resampleEvery));
 
-  const refFile = `${JSON.stringify(solutionToFile(reference, provenance(), undefined), null, 1)}\n`;
+  const refFile = `${JSON.stringify(solutionToFile(reference, provenance(), config), null, 1)}\n`;
   const prov = () => ({ ...provenance({ backend: handle.backend, tfjs: handle.tfjsVersion }), backend: handle.backend, tfjs: handle.tfjsVersion });
   const save = async (st: LoopState, stageName: CheckpointFile['stage'], extraFiles: Record<string, string> = {}, metrics?: Record<string, unknown>) => {
     if (!opts.outDir) return;

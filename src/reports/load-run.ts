@@ -35,7 +35,7 @@ const summaryNumbers = z.object({
 
 /** The part of a training checkpoint the report reads (the full schema lives with the trainer, which loads tfjs types only). */
 const checkpointHistorySchema = z.object({
-  history: z.array(z.object({ step: z.number(), stage: z.string(), total: z.number(), terms: z.record(z.string(), z.number()), learningRate: z.number() })),
+  history: z.array(z.object({ step: z.number(), stage: z.string(), total: z.number(), terms: z.record(z.string(), z.number()), learningRate: z.number(), seconds: z.number().optional() })),
 });
 
 /** The parts of an inversion result (inverse/inversion-result.ts) that the report draws. */
@@ -174,6 +174,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   const notes: string[] = [];
   let metrics: MetricRow[] | undefined;
   let training: ReportInput['training'];
+  let trainingSeconds = Number.NaN;
   let inversion: ReportInput['inversion'];
   for (const name of names) {
     const path = join(dir, name);
@@ -191,6 +192,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       // Terms that are identically zero for this system (e.g. no field equations for a chain in a prescribed field) have no place on a log axis.
       const positive = (t: Record<string, number>) => Object.fromEntries(Object.entries(t).filter(([, v]) => v > 0));
       training = { history: hist.map((h) => ({ step: h.step, terms: positive({ total: h.total, ...h.terms }), lr: h.learningRate })) };
+      trainingSeconds = hist.length ? (hist[hist.length - 1] as { seconds?: number }).seconds ?? Number.NaN : Number.NaN;
       read.push(path);
     } else if (name === 'metrics.json') {
       metrics = flattenRows(raw, '').map((r) => ({ ...r, name: `metrics.json: ${r.name}` }));
@@ -222,8 +224,8 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       rgNm: opts.rgNm,
       config: flattenRows(main.data.config, '').map((r) => `${r.name}: ${r.value}`),
       provenance: (network ?? main).provenance,
-      runSeconds: main.solution.seconds,
-      runSecondsNote: main.trace ? `final solve only; the ${main.trace.length} period-search evaluations took ${main.trace.reduce((a, t) => a + t.iterations, 0)} iterations in all` : undefined,
+      runSeconds: training ? (training.history.length ? trainingSeconds : main.solution.seconds) : main.solution.seconds,
+      runSecondsNote: training ? 'training, from the checkpoint history' : main.trace ? `final solve only; the ${main.trace.length} period-search evaluations took ${main.trace.reduce((a, t) => a + t.iterations, 0)} iterations in all` : undefined,
     },
     profiles: { reference: shown.solution, network: reference ? network?.solution : undefined },
     propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
