@@ -5,6 +5,7 @@
 import type { FieldSpec, Species, SystemSpec } from './chain-schema.js';
 import { ModelError } from './chain.js';
 import type { Cell } from './grid.js';
+import { trigInterpolationMatrix } from '../numerics/trig-interpolation.js';
 
 export type SpeciesArrays = Record<Species, Float64Array>;
 
@@ -63,28 +64,11 @@ export function fieldAtPoints(spec: FieldSpec, length: number, x: ArrayLike<numb
   }
 }
 
-/** Trigonometric interpolation of a periodic grid function (direct DFT: small n only). */
+/** Trigonometric interpolation of a periodic grid function at arbitrary points. */
 export function trigInterpolate(u: Float64Array, length: number, x: ArrayLike<number>): Float64Array {
   const n = u.length;
-  const re = new Float64Array(n);
-  const im = new Float64Array(n);
-  for (let m = 0; m < n; m++) {
-    for (let j = 0; j < n; j++) {
-      const a = (-2 * Math.PI * m * j) / n;
-      re[m] += u[j] * Math.cos(a);
-      im[m] += u[j] * Math.sin(a);
-    }
-  }
+  const m = trigInterpolationMatrix(n, length, x);
   const out = new Float64Array(x.length);
-  for (let i = 0; i < x.length; i++) {
-    let v = re[0] / n;
-    for (let m = 1; m < n; m++) {
-      const mm = m <= n / 2 ? m : m - n;
-      const a = (2 * Math.PI * mm * x[i]) / length;
-      // For even n the Nyquist mode is real for real data and enters once, as a cosine.
-      v += (re[m] * Math.cos(a) - im[m] * Math.sin(a)) / n;
-    }
-    out[i] = v;
-  }
+  for (let j = 0; j < n; j++) for (let i = 0; i < x.length; i++) out[i] += u[j] * m[j * x.length + i];
   return out;
 }
