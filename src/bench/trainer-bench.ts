@@ -39,7 +39,7 @@ async function transferBench(): Promise<void> {
   const dir = join(mkdtempSync(join(tmpdir(), 'mesofield-bench-')), 'chiN15');
   const base = { version: 1, kind: 'train', backend: 'wasm', cell: { nx: 64, ns: 100 } } as const;
   await trainRun({ config: trainConfigSchema.parse({ ...base, system, warmStart: { steps: 400, learningRate: 0.01 }, training: { steps: 300, learningRate: 1e-3 } }), outDir: dir, backend: 'wasm' });
-  const target = { steps: 2000, learningRate: 1e-3, evaluateEvery: 25, targetPhiError: 1e-2 };
+  const target = { steps: 2000, learningRate: 1e-3, evaluateEvery: 25, targetPhiError: 1e-2, fieldUpdateEvery: 25 };
   const to17 = { chain: system.chain, chiN: 17 };
   const t1 = performance.now();
   const tr = await trainRun({ config: trainConfigSchema.parse({ ...base, system: to17, initFrom: dir, training: target }), backend: 'wasm' });
