@@ -4,7 +4,7 @@ export default defineConfig({
   test: {
     include: ['tests/**/*.test.ts'],
     globalSetup: ['tests/global-setup.ts'],
-    testTimeout: 120_000,
+    testTimeout: 300_000,
     hookTimeout: 120_000,
     // Two cores: one worker per core keeps CPU-bound tests from starving each other.
     maxWorkers: 2,

@@ -44,7 +44,7 @@ const estimatorFileSchema = z
     chiN: z.number(),
     interval: z.tuple([z.number(), z.number()]),
     interval95: z.tuple([z.number(), z.number()]).optional(),
-    intervals: z.record(z.string(), z.object({ deltaChi2: z.number() }).passthrough()).optional(),
+    intervals: z.record(z.string(), z.object({ deltaChi2: z.number().nullable() }).passthrough()).optional(),
     intervalMethod: z.string(),
     profileLikelihood: z.array(z.object({ chiN: z.number(), deltaChi2: z.number() }).passthrough()).optional(),
     fitCurve: z.object({ x: z.array(z.number()), phiA: z.array(z.number()) }).optional(),
@@ -184,7 +184,15 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       solutions.push(loadSolution(path, raw));
       read.push(path);
     } else if (kind === 'inversion') {
-      inversion = inversionInput(parseOrThrow(inversionFileSchema, raw, path));
+      const inv = parseOrThrow(inversionFileSchema, raw, path);
+      inversion = inversionInput(inv);
+      // The network estimator's χN trajectory (first seed), against the classical estimate.
+      const runs = (inv.estimators.network as { runs?: { trajectory?: { step: number; chiN: number }[] }[] } | undefined)?.runs;
+      const traj = runs?.[0]?.trajectory?.filter((p) => Number.isFinite(p.chiN));
+      if (traj && traj.length > 1 && !training) {
+        const cl = inv.estimators.classical;
+        training = { history: [], chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };
+      }
       read.push(path);
     } else if (kind === 'checkpoint') {
       // A training checkpoint (neural/checkpoint.ts): its loss history is the training page.

@@ -1,3 +1,4 @@
+import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -48,7 +49,7 @@ describe('mesofield invert --method both', () => {
     const csv = join(d, 'p.csv');
     expect(runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', csv]).code).toBe(0);
     const out = join(d, 'run');
-    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--network-steps', '100', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out], { timeoutMs: 300_000 });
+    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--network-steps', '200', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);
     expect(Object.keys(res.estimators).sort()).toEqual(['classical', 'network']);
@@ -56,5 +57,9 @@ describe('mesofield invert --method both', () => {
     expect(res.estimators.network.intervalMethod).toMatch(/seed/);
     expect(res.agreement.compared).toBe(true);
     expect(JSON.parse(readFileSync(join(out, 'result.json'), 'utf8')).estimators.network.backend).toBe('wasm');
+    // The report draws the network's χN trajectory against the classical estimate.
+    const text = execFileSync('pdftotext', [join(out, 'report', 'report.pdf'), '-'], { encoding: 'utf8' });
+    expect(text).toMatch(/trainable χN against step/);
+    expect(text).toMatch(/classical estimate/);
   });
 });

@@ -1,4 +1,4 @@
-import { mkdtempSync, readFileSync, writeFileSync, truncateSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync, truncateSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -156,8 +156,9 @@ describe('mesofield train / evaluate CLI', () => {
     const p = join(d, 'field.train.json');
     writeFileSync(p, JSON.stringify({ version: 1, kind: 'train', system: fieldSystem, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { steps: 30 }, backend: 'wasm' }));
     const out = join(d, 'ck');
-    const r = runCli(['train', p, '--out', out, '--json'], { timeoutMs: 120_000 });
+    const r = runCli(['train', p, '--out', out, '--json', '--report'], { timeoutMs: 120_000 });
     expect(r.code).toBe(0);
+    expect(existsSync(join(out, 'report', 'report.pdf'))).toBe(true);
     expect(r.stderr).toMatch(/step 30\/30 \| loss .* steps\/s \| .* left/);
     const m = JSON.parse(r.stdout);
     expect(m.backend).toBe('wasm');

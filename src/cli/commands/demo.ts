@@ -15,9 +15,7 @@ import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
 import { provenance } from '../../io/versions.js';
-import { buildReport } from '../../reports/build-report.js';
-import { loadRun } from '../../reports/load-run.js';
-import { renderReport, writeReportFiles } from '../../reports/write-report.js';
+import { reportRunDirectory } from '../../reports/report-run-directory.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
 import { estimateClassical } from '../../inverse/classical.js';
 import { classicalBlock, fitCsv, inversionResult, networkBlock } from '../../inverse/inversion-result.js';
@@ -45,10 +43,7 @@ export const DEMO_TRAIN_CONFIG = {
   training: { steps: 400, learningRate: 0.001, evaluateEvery: 100 },
 } as const;
 
-function report(runDir: string, outDir: string): string[] {
-  const run = loadRun(runDir);
-  return writeReportFiles(outDir, renderReport(buildReport(run.input), ['pdf', 'png'], 150));
-}
+const report = (runDir: string, outDir: string) => reportRunDirectory(runDir, outDir);
 
 export function registerDemo(program: Command): void {
   program

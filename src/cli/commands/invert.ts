@@ -34,6 +34,7 @@ interface InvertFlags {
   seeds?: string;
   networkSteps?: string;
   backend?: string;
+  report?: boolean;
   quiet?: boolean;
 }
 
@@ -116,9 +117,11 @@ export function registerInvert(program: Command): void {
     .option('--profile-points <k>', 'extra points on the profile-likelihood curve (default 9)')
     .option('--json', 'print the result JSON on stdout')
     .option('--out <dir>', 'write result.json, fit.csv and solution.json into this directory')
+    .option('--report', 'also write a PDF/PNG report into <out>/report (needs --out)')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (profilePath: string, configPath: string | undefined, flags: InvertFlags) => {
+        if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const { config, sources } = buildInvertConfig(configPath, flags);
         const units = lengthUnits(config.units ?? {});
         let text: string;
@@ -178,6 +181,11 @@ export function registerInvert(program: Command): void {
           };
           writeDirectoryAtomic(flags.out, files);
           if (!flags.quiet) process.stderr.write(`invert: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
+          if (flags.report) {
+            const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
+            const written = reportRunDirectory(flags.out, join(flags.out, 'report'));
+            if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
+          }
         }
         process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : summaryText(result));
       }),

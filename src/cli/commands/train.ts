@@ -13,6 +13,7 @@ interface TrainFlags {
   json?: boolean;
   backend?: string;
   steps?: string;
+  report?: boolean;
   quiet?: boolean;
 }
 
@@ -38,6 +39,7 @@ export function registerTrain(program: Command): void {
     .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
     .option('--steps <n>', 'override training.steps')
     .option('--json', 'print the metrics as JSON on stdout')
+    .option('--report', 'also write a PDF/PNG report of the run into <out>/report')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (configPath: string, flags: TrainFlags) => {
@@ -84,6 +86,11 @@ export function registerTrain(program: Command): void {
                 `checkpoint ${outDir} (metrics.json, network.json, reference.json)`,
               ].join('\n') + '\n',
             );
+          }
+          if (flags.report) {
+            const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
+            const written = reportRunDirectory(outDir, join(outDir, 'report'));
+            if (!flags.quiet) process.stderr.write(`train: wrote ${written.join(', ')}\n`);
           }
           if (m.collapsed) throw new RunFailure('the network collapsed to the disordered state (φA is flat); start from the spectral solution (warmStart.type "reference")');
         } catch (e) {

@@ -15,7 +15,7 @@ function lossTerms(t: TrainingInput): string[] {
 }
 
 function trainingPage(t: TrainingInput): ReportPage {
-  if (t.history.length === 0) throw new InputError('training.history: got an empty loss history; a training report needs at least one logged step');
+  if (t.history.length === 0 && !t.chiNTrajectory?.length) throw new InputError('training.history: got an empty loss history; a training report needs at least one logged step');
   const terms = lossTerms(t);
   // A log axis cannot show zero or negative values: drop them from the curve and say so.
   let dropped = 0;
@@ -33,7 +33,8 @@ function trainingPage(t: TrainingInput): ReportPage {
     }),
   }));
   const last = t.history[t.history.length - 1];
-  const blocks: Block[] = [
+  // Inverse runs may carry only the χN trajectory (no loss history): then only that figure.
+  const blocks: Block[] = !last ? [] : [
     {
       type: 'figure',
       id: 'training-loss',
