@@ -9,6 +9,7 @@ import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { action } from '../run-command.js';
+import { configReferenceMarkdown } from '../../io/config-reference.js';
 
 export const CONFIG_SCHEMAS: Record<string, z.ZodType> = { solve: solveConfigSchema, train: trainConfigSchema, invert: invertConfigSchema };
 
@@ -17,9 +18,15 @@ export function registerSchema(program: Command): void {
   program
     .command('schema')
     .description(`print the JSON Schema of a config file kind (${Object.keys(all).join(', ')}), with every field, default and bound`)
-    .argument('<kind>', 'config kind')
+    .argument('[kind]', 'config kind')
+    .option('--markdown', 'print the reference of every kind as Markdown tables (docs/config-reference.md)')
     .action(
-      action((kind: string) => {
+      action((kind: string | undefined, flags: { markdown?: boolean }) => {
+        if (flags.markdown) {
+          process.stdout.write(configReferenceMarkdown(all));
+          return;
+        }
+        if (kind === undefined) throw new InputError(`kind: missing; allowed: ${Object.keys(all).join(', ')} (or --markdown)`);
         const schema = all[kind];
         if (!schema) throw new InputError(`kind: got ${JSON.stringify(kind)}; allowed: ${Object.keys(all).join(', ')}`);
         process.stdout.write(`${JSON.stringify(z.toJSONSchema(schema, { io: 'input', unrepresentable: 'any' }), null, 2)}\n`);
