@@ -104,13 +104,13 @@ export function registerDemo(program: Command): void {
           backend: trainConfig.backend,
           onProgress: (_seed, step, steps, chiN) => progress.update(`network estimator: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
         });
-        const result = inversionResult(data, { demo: true, truth }, provenance(), { classical: classicalBlock(est, data), network: networkBlock(ne, est, data) });
+        const result = inversionResult(data, { kind: 'invert', demo: true, truth }, provenance(), { classical: classicalBlock(est, data), network: networkBlock(ne, est, data) });
         writeDirectoryAtomic(invDir, {
           'profile.csv': csv,
           'truth.json': `${JSON.stringify(truth, null, 1)}\n`,
           'result.json': `${JSON.stringify(result, null, 1)}\n`,
           'fit.csv': fitCsv(data, est),
-          'solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { demo: true }), null, 1)}\n`,
+          'solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
         });
         const invReport = report(invDir, join(invDir, 'report'));
         const m = tr.metrics;
