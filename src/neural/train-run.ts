@@ -28,6 +28,7 @@ import type { LossValues } from './scft-problem.js';
 import { polishWithLbfgs, runTraining } from './train-loop.js';
 import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
 import { warmStart } from './warm-start.js';
+import { updateFieldNetwork } from './field-update.js';
 
 /** Contour nodes per block for evaluating a network (finer than training: quadrature error stays negligible). */
 export const EVALUATION_NODES_PER_BLOCK = 64;
@@ -202,9 +203,21 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
 
   if (config.training.lbfgsIterations > 0) {
     stage(`L-BFGS polish (${config.training.lbfgsIterations} iterations)`);
-    const weights = Object.fromEntries(LOSS_TERMS.map((k) => [k, config.losses.weights[k] * loop.state.lossWeights[k]])) as LossValues;
-    const r = polishWithLbfgs(tf, problem, nets.parameters, weights, config.training.lbfgsIterations);
-    training.lbfgs = { iterations: r.iterations, finalLoss: r.f, reason: r.reason };
+    // Alternating: the polish, like the Adam steps, solves the MDE in the current fields.
+    const weights = Object.fromEntries(
+      LOSS_TERMS.map((k) => [k, config.training.strategy === 'alternating' ? (k === 'mde' ? 1 : 0) : config.losses.weights[k] * loop.state.lossWeights[k]]),
+    ) as LossValues;
+    // Alternating: polish in cycles, each a field update then L-BFGS on the MDE in the new fields.
+    const tr = config.training;
+    const cycles = tr.strategy === 'alternating' && nets.field ? tr.lbfgsCycles : 1;
+    let r = { iterations: 0, f: Number.NaN, reason: 'none' };
+    let iterations = 0;
+    for (let c = 0; c < cycles; c++) {
+      if (cycles > 1) updateFieldNetwork(tf, nets, config.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
+      r = polishWithLbfgs(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles));
+      iterations += r.iterations;
+    }
+    training.lbfgs = { iterations, finalLoss: r.f, reason: r.reason };
     loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: (performance.now() - t0) / 1000 });
   }
   training.seconds = (performance.now() - t0) / 1000;

@@ -112,6 +112,8 @@ export const trainConfigSchema = z
         decaySteps: z.number().int().min(1).default(1000),
         /** L-BFGS polish iterations after Adam (0: none). */
         lbfgsIterations: z.number().int().min(0).max(10000).default(0),
+        /** Alternating strategy: split the polish into this many (field update, L-BFGS) cycles. */
+        lbfgsCycles: z.number().int().min(1).max(100).default(4),
         logEvery: z.number().int().min(1).default(50),
         checkpointEvery: z.number().int().min(1).default(250),
         /** Stop as diverged when the loss exceeds this multiple of the best loss so far. */
