@@ -44,6 +44,25 @@ interface PlacedBlock {
   y: number;
 }
 
+/** A table taller than a whole page is cut into consecutive tables that each fit (header repeated). */
+function splitTallTables(ctx: CanvasRenderingContext2D, blocks: ReportPage['blocks'], pageHeight: number): ReportPage['blocks'] {
+  const out: ReportPage['blocks'] = [];
+  for (const block of blocks) {
+    if (block.type !== 'table' || blockHeight(ctx, block, CONTENT_WIDTH) <= pageHeight) {
+      out.push(block);
+      continue;
+    }
+    let rest = block.rows;
+    while (rest.length > 0) {
+      let n = rest.length;
+      while (n > 1 && blockHeight(ctx, { ...block, rows: rest.slice(0, n) }, CONTENT_WIDTH) > pageHeight) n = Math.floor(n * 0.9);
+      out.push({ ...block, rows: rest.slice(0, n) });
+      rest = rest.slice(n);
+    }
+  }
+  return out;
+}
+
 /** Stack blocks top to bottom; a block that does not fit starts a continuation page. */
 function paginate(ctx: CanvasRenderingContext2D, doc: ReportDocument): { heading: string; placed: PlacedBlock[] }[] {
   const out: { heading: string; placed: PlacedBlock[] }[] = [];
@@ -52,7 +71,7 @@ function paginate(ctx: CanvasRenderingContext2D, doc: ReportDocument): { heading
     let current = { heading: page.heading, placed: [] as PlacedBlock[] };
     out.push(current);
     let y = MARGIN + HEADING;
-    for (const block of page.blocks) {
+    for (const block of splitTallTables(ctx, page.blocks, bottom - (MARGIN + HEADING))) {
       const h = blockHeight(ctx, block, CONTENT_WIDTH);
       if (y + h > bottom && current.placed.length > 0) {
         current = { heading: `${page.heading} (continued)`, placed: [] };
