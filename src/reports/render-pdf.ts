@@ -45,7 +45,7 @@ interface PlacedBlock {
 }
 
 /** A table taller than a whole page is cut into consecutive tables that each fit (header repeated). */
-function splitTallTables(ctx: CanvasRenderingContext2D, blocks: ReportPage['blocks'], pageHeight: number): ReportPage['blocks'] {
+export function splitTallTables(ctx: CanvasRenderingContext2D, blocks: ReportPage['blocks'], pageHeight: number): ReportPage['blocks'] {
   const out: ReportPage['blocks'] = [];
   for (const block of blocks) {
     if (block.type !== 'table' || blockHeight(ctx, block, CONTENT_WIDTH) <= pageHeight) {
