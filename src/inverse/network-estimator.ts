@@ -24,7 +24,6 @@
  */
 import type { ChainSpec } from '../physics/chain-schema.js';
 import { buildChain } from '../physics/chain.js';
-import type { SpeciesArrays } from '../physics/fields.js';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { bandLimitedFit } from '../numerics/band-limited-fit.js';
@@ -127,7 +126,6 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
     const nets = buildScftNetworks(tf, config, chain, L, true);
     warmStart(tf, nets, { x: start.x, w: start.w, chiN: chiNStart, propagators: start.propagators }, 400, 1e-2);
     const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
-    problem.setData(matrix, Float32Array.from(data.phi), weights, false);
     let chiN = chiNStart;
     const trajectory: { step: number; chiN: number }[] = [{ step: 0, chiN }];
     let step = 0;
@@ -197,4 +195,3 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
   };
 }
 
-export type { SpeciesArrays };

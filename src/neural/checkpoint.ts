@@ -29,7 +29,6 @@ export const historyEntrySchema = z.object({
   learningRate: z.number(),
   seconds: z.number(),
   phiError: z.number().optional(),
-  chiN: z.number().optional(),
 });
 
 export const checkpointFileSchema = z.object({

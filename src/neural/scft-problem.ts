@@ -23,13 +23,12 @@ import type { Jet } from './jet.js';
 import { gridDensities } from './losses/densities.js';
 import { gaugeLoss, incompressibilityLoss, selfConsistencyLoss } from './losses/field-equations.js';
 import { mdeResidual } from './losses/mde-residual.js';
-import { dataMisfitLoss } from './losses/data-misfit.js';
 import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
 import { childSeed, Xorshift128 } from './random.js';
 import { stopGradient } from './stop-gradient.js';
 import type { ScftNetworks } from './scft-networks.js';
 
-export const LOSS_TERMS = ['mde', 'incompressibility', 'selfConsistency', 'gauge', 'data'] as const;
+export const LOSS_TERMS = ['mde', 'incompressibility', 'selfConsistency', 'gauge'] as const;
 export type LossTerm = (typeof LOSS_TERMS)[number];
 export type LossValues = Record<LossTerm, number>;
 
@@ -60,9 +59,6 @@ export class ScftProblem {
   private readonly weightsA: TfModule.Tensor;
   private readonly weightsB: TfModule.Tensor;
   private readonly gridFieldFeatures: Jet | null;
-  /** Inverse runs: the data-misfit term and a trainable ln χN (see setData). */
-  private data: { matrix: TfModule.Tensor; target: TfModule.Tensor; weight: TfModule.Tensor } | null = null;
-  logChiN: TfModule.Variable | null = null;
   /** Index of the current resampling (−1: none drawn yet). */
   resamplings = -1;
 
@@ -174,7 +170,7 @@ export class ScftProblem {
     const mde = tf.mean(tf.concat(squares.map((t) => tf.reshape(t, [-1])), 0)) as TfModule.Scalar;
     const zero = tf.scalar(0);
     // The alternating strategy trains on the MDE alone: skip the density quadrature then.
-    if (!nets.field || mdeOnly) return { mde, incompressibility: zero, selfConsistency: zero, gauge: zero, data: zero };
+    if (!nets.field || mdeOnly) return { mde, incompressibility: zero, selfConsistency: zero, gauge: zero };
 
     const dens = gridDensities(tf, uq.v, uqd.v, nn, nx, this.weightsA, this.weightsB);
     const w = nets.field.forward(this.gridFieldFeatures!).v;
@@ -183,16 +179,13 @@ export class ScftProblem {
     if (this.species === 1) {
       const only = nets.chain.species[0];
       const phi = only === 'A' ? dens.phiA : dens.phiB;
-      return { mde, incompressibility: incompressibilityLoss(tf, phi, null), selfConsistency: zero, gauge: gaugeLoss(tf, 0, only === 'A' ? wA : wB, null), data: zero };
+      return { mde, incompressibility: incompressibilityLoss(tf, phi, null), selfConsistency: zero, gauge: gaugeLoss(tf, 0, only === 'A' ? wA : wB, null) };
     }
-    // χN is trainable (positive by construction, χN = exp(θ)) in inverse runs.
-    const chiN: number | TfModule.Tensor = this.logChiN ? tf.exp(this.logChiN) : this.chiN;
     return {
       mde,
       incompressibility: incompressibilityLoss(tf, dens.phiA, dens.phiB),
-      selfConsistency: selfConsistencyLoss(tf, chiN, wA, wB, dens.phiA, dens.phiB, this.chiN),
+      selfConsistency: selfConsistencyLoss(tf, this.chiN, wA, wB, dens.phiA, dens.phiB),
       gauge: gaugeLoss(tf, this.chiN, wA, wB),
-      data: this.data ? dataMisfitLoss(tf, dens.phiA, this.data.matrix, this.data.target, this.data.weight) : zero,
     };
   }
 
@@ -250,27 +243,6 @@ export class ScftProblem {
     return this.pointSet(net, chain, x, s);
   }
 
-  /**
-   * Inverse runs: compare φ_A with data. `matrix` [nx, n] maps the grid φ_A to the data
-   * points (trigonometric interpolation, with the instrument blur folded in); `weights`
-   * are relative (mean 1). With `trainChiN` χN becomes a trainable variable ln χN.
-   */
-  setData(matrix: Float32Array, target: Float32Array, weights: Float32Array, trainChiN: boolean): void {
-    const tf = this.tf;
-    const n = target.length;
-    this.data = {
-      matrix: tf.keep(tf.tensor2d(matrix, [this.collocation.nx, n])),
-      target: tf.keep(tf.tensor2d(target, [1, n])),
-      weight: tf.keep(tf.tensor2d(weights, [1, n])),
-    };
-    if (trainChiN) this.logChiN = tf.variable(tf.scalar(Math.log(this.chiN)), true);
-  }
-
-  /** Current χN (trained in inverse runs). */
-  currentChiN(): number {
-    return this.logChiN ? Math.exp(this.logChiN.dataSync()[0]) : this.chiN;
-  }
-
   /** Coordinates of the current extra MDE points (saved in checkpoints so a resume is exact). */
   extraPoints(): { q: { x: number[]; s: number[] }; qDagger: { x: number[]; s: number[] } } | null {
     if (!this.extraQ || !this.extraQDagger) return null;
@@ -308,8 +280,6 @@ export class ScftProblem {
     this.extraQ?.dispose();
     this.extraQDagger?.dispose();
     this.weightsA.dispose();
-    if (this.data) for (const t of Object.values(this.data)) t.dispose();
-    this.logChiN?.dispose();
     this.weightsB.dispose();
     this.gridFieldFeatures?.dispose();
   }

@@ -28,8 +28,6 @@ export interface LoopState {
   bestTotal: number;
   /** Seconds of training before this session (for resumed runs). */
   secondsBefore: number;
-  /** max |d| of the last field update (alternating strategy), kT. */
-  lastFieldResidual?: number;
 }
 
 export interface LoopHooks {
@@ -41,8 +39,6 @@ export interface LoopHooks {
   evaluate?: () => number;
   /** True once the user asked to stop (Ctrl-C). */
   shouldStop?: () => boolean;
-  /** Inverse runs: the current trainable χN, logged with the history. */
-  chiN?: () => number;
   /** Replaces the forward field update of the alternating strategy (inverse runs). */
   fieldUpdate?: () => void;
 }
@@ -128,13 +124,12 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     if (tr.strategy === 'alternating' && step > startStep && step % tr.fieldUpdateEvery === 0) {
       if (hooks.fieldUpdate) hooks.fieldUpdate();
       else {
-        const u = updateFieldNetwork(tf, problem.nets, problem.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
-        state.lastFieldResidual = u.residual;
+        updateFieldNetwork(tf, problem.nets, problem.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
       }
     }
     const lr = learningRateAt(tr, step);
     // Alternating: only the MDE term drives the gradient (fields detached; see field-update.ts).
-    const w = tr.strategy === 'alternating' ? ({ mde: 1, incompressibility: 0, selfConsistency: 0, gauge: 0, data: 0 } as LossValues) : effective();
+    const w = tr.strategy === 'alternating' ? ({ mde: 1, incompressibility: 0, selfConsistency: 0, gauge: 0 } as LossValues) : effective();
     const mdeOnly = tr.strategy === 'alternating';
     const { total, terms } = tf.tidy(() => {
       let parts!: Record<LossTerm, TfModule.Scalar>;
@@ -175,7 +170,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
       if (tr.targetPhiError !== undefined && phiError < tr.targetPhiError && !reachedTarget) reachedTarget = { step: state.step, seconds: elapsed() };
     }
     if (state.step % tr.logEvery === 0 || last || phiError !== undefined) {
-      state.history.push({ step: state.step, stage: 'adam', total, terms, learningRate: lr, seconds: elapsed(), ...(phiError !== undefined ? { phiError } : {}), ...(hooks.chiN ? { chiN: hooks.chiN() } : {}) });
+      state.history.push({ step: state.step, stage: 'adam', total, terms, learningRate: lr, seconds: elapsed(), ...(phiError !== undefined ? { phiError } : {}) });
     }
     hooks.onProgress?.({ step: state.step, steps: tr.steps, total, terms, stepsPerSecond: rate, secondsLeft: (tr.steps - state.step) / rate, learningRate: lr });
     if (hooks.checkpoint && (state.step % tr.checkpointEvery === 0 || last)) {

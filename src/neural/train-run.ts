@@ -3,8 +3,6 @@
  * transfer, or resume), physics training, evaluation against the reference, checkpoints.
  * The CLI's `train` is a thin wrapper around trainRun; tests call it directly.
  */
-import { join } from 'node:path';
-import type * as TfModule from '@tensorflow/tfjs';
 import { InputError } from '../io/errors.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { solutionToFile, summarize } from '../io/solution-file.js';
@@ -260,8 +258,3 @@ export class TrainingStopped extends Error {
   }
 }
 
-export function checkpointPaths(dir: string): { checkpoint: string; metrics: string; network: string; reference: string } {
-  return { checkpoint: join(dir, 'checkpoint.json'), metrics: join(dir, 'metrics.json'), network: join(dir, 'network.json'), reference: join(dir, 'reference.json') };
-}
-
-export type { TfModule };

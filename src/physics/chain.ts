@@ -128,12 +128,6 @@ export function reverseChain(chain: Chain): Chain {
   return { ...chain, blocks, junctions: blocks.slice(0, -1).map((b) => b.end), label: blocks.map((b) => b.species).join('-') };
 }
 
-/** Index of the block that contains contour point s (junction points belong to the later block). */
-export function blockIndexAt(chain: Chain, s: number): number {
-  for (let i = 0; i < chain.blocks.length; i++) if (s < chain.blocks[i].end) return i;
-  return chain.blocks.length - 1;
-}
-
 /** Free energy per chain of the homogeneous melt, in kT: χN φ̄_A φ̄_B (SCFT-NOTES.md). */
 export function disorderedFreeEnergy(chain: Chain, chiN: number): number {
   return chiN * chain.speciesFraction.A * chain.speciesFraction.B;

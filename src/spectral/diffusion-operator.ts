@@ -47,14 +47,4 @@ export class DiffusionOperator {
     this.fft.inverseTransform(back, spectrum);
     for (let j = 0; j < nx; j++) q[j] = back[2 * j];
   }
-
-  /** Spectral ∂²u/∂x² (used by checks and by the network's reference derivatives). */
-  secondDerivative(u: Float64Array): Float64Array {
-    const out = Float64Array.from(u);
-    const mult = new Float64Array(this.nx);
-    for (let m = 0; m < this.nx; m++) mult[m] = -this.k2[m];
-    if (this.nx % 2 === 0) mult[this.nx / 2] = -this.k2[this.nx / 2]; // even derivative: Nyquist mode kept
-    this.apply(out, mult);
-    return out;
-  }
 }

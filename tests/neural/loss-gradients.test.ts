@@ -22,7 +22,7 @@ describe('full-loss parameter gradients', () => {
       const nets = buildScftNetworks(tf, config, chain, 3.5, true);
       const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'coupled');
       problem.resample(0);
-      const weights = { mde: 1, incompressibility: 3, selfConsistency: 5, gauge: 2, data: 1 };
+      const weights = { mde: 1, incompressibility: 3, selfConsistency: 5, gauge: 2 };
       const lossAt = () => tf.tidy(() => problem.total(weights).total.dataSync()[0]);
       let grad!: Float64Array;
       tf.tidy(() => {

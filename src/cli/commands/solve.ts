@@ -1,7 +1,7 @@
 /** `mesofield solve`: one spectral reference solve, from a config file and/or flags. */
 import type { Command } from 'commander';
 import { join } from 'node:path';
-import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
+import { RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
 import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';

@@ -17,8 +17,6 @@ export const lossWeightsSchema = z
     selfConsistency: z.number().min(0).default(1),
     /** (mean of (w_A + w_B)/2)²: pins the pressure gauge. */
     gauge: z.number().min(0).default(1),
-    /** Inverse runs: weighted mean square misfit of φ_A against the data. */
-    data: z.number().min(0).default(1),
   })
   .strict();
 

@@ -15,9 +15,8 @@ export function incompressibilityLoss(tf: Tf, phiA: TfModule.Tensor, phiB: TfMod
   return tf.mean(tf.square(tf.sub(total, 1))) as TfModule.Scalar;
 }
 
-/** chiN may be a tensor (trainable in inverse runs); `scaleChiN` fixes the normalisation then. */
-export function selfConsistencyLoss(tf: Tf, chiN: number | TfModule.Tensor, wA: TfModule.Tensor, wB: TfModule.Tensor, phiA: TfModule.Tensor, phiB: TfModule.Tensor, scaleChiN = typeof chiN === 'number' ? chiN : 1): TfModule.Scalar {
-  const scale = 1 / Math.max(1, scaleChiN) ** 2;
+export function selfConsistencyLoss(tf: Tf, chiN: number, wA: TfModule.Tensor, wB: TfModule.Tensor, phiA: TfModule.Tensor, phiB: TfModule.Tensor): TfModule.Scalar {
+  const scale = 1 / Math.max(1, chiN) ** 2;
   const r = tf.sub(tf.sub(wA, wB), tf.mul(tf.sub(phiB, phiA), chiN));
   return tf.mul(tf.mean(tf.square(r)), scale) as TfModule.Scalar;
 }
