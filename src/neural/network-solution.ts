@@ -8,7 +8,7 @@ import type { SystemSpec } from '../physics/chain-schema.js';
 import { disorderedFreeEnergy } from '../physics/chain.js';
 import { externalFields } from '../physics/fields.js';
 import type { SpeciesArrays } from '../physics/fields.js';
-import { cellMean } from '../physics/grid.js';
+import { cellMean, spreadOf } from '../physics/grid.js';
 import type { Phase, ScftSolution } from '../physics/result.js';
 import { fieldDeviation, freeEnergy } from '../physics/scft-equations.js';
 import type { Tf } from './backend.js';
@@ -95,13 +95,7 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
   } else {
     w = fixed ?? { A: new Float64Array(nx), B: new Float64Array(nx) };
   }
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const v of phi.A) {
-    lo = Math.min(lo, v);
-    hi = Math.max(hi, v);
-  }
-  const amplitude = hi - lo;
+  const amplitude = spreadOf(phi.A);
   const species = nets.chain.species.length;
   const notes: string[] = [];
   let phase: Phase;

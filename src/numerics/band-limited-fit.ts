@@ -4,7 +4,7 @@
  * by the normal equations (common practice, no source). With M well below the number of
  * samples this is a low-pass smoother that assumes nothing but periodicity.
  */
-import { solveDense } from '../spectral/anderson-mixer.js';
+import { solveDense } from './dense-solve.js';
 
 export function bandLimitedFit(t: ArrayLike<number>, u: ArrayLike<number>, weights: ArrayLike<number>, period: number, modes: number): (x: ArrayLike<number>) => Float64Array {
   const p = 1 + 2 * modes;

@@ -28,6 +28,17 @@ export function cellMean(u: ArrayLike<number>): number {
   return s / u.length;
 }
 
+/** max u − min u: the spread of a grid function (the order parameter of the phase verdict). */
+export function spreadOf(u: ArrayLike<number>): number {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < u.length; i++) {
+    lo = Math.min(lo, u[i]);
+    hi = Math.max(hi, u[i]);
+  }
+  return hi - lo;
+}
+
 /**
  * Periodic band-limited interpolation would need an FFT; warm starts only need a
  * smooth resample, so this is linear interpolation in the fractional coordinate x/L.

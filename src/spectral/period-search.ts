@@ -50,22 +50,19 @@ export function optimizePeriod(req: PeriodSearchRequest): PeriodSearchResult {
   const trace: PeriodSearchResult['trace'] = [];
   const solved = new Map<number, ScftSolution>();
   let warm: SpeciesArrays | undefined = req.initial;
-  let warmPeriod = Number.NaN;
   let totalIterations = 0;
 
   const evaluate = (period: number): number => {
     const cached = solved.get(period);
     if (cached) return cached.freeEnergy;
-    const sol = solveFixedCell({ ...req, options, length: period * req.periods, initial: warm });
+    // Propagators are kept only by the final solve below, not by every trial.
+    const sol = solveFixedCell({ ...req, options, length: period * req.periods, initial: warm, keepPropagators: false });
     totalIterations += sol.iterations;
     if (!sol.converged) throw new Error(`period search: solve at period ${period.toFixed(5)} Rg did not converge (${sol.notes.join('; ')})`);
     solved.set(period, sol);
     trace.push({ period, freeEnergy: sol.freeEnergy, phase: sol.phase, iterations: sol.iterations });
-    // Warm starts come from the ordered solution nearest in period to the next trial.
-    if (sol.phase === 'lamellar' && (Number.isNaN(warmPeriod) || Math.abs(period - guess) < Math.abs(warmPeriod - guess) + 10)) {
-      warm = sol.w;
-      warmPeriod = period;
-    }
+    // The latest ordered solution warm-starts the next trial (the trials close in on the minimum).
+    if (sol.phase === 'lamellar') warm = sol.w;
     req.onEvaluation?.({ period, freeEnergy: sol.freeEnergy, phase: sol.phase, evaluations: trace.length });
     return sol.freeEnergy;
   };
@@ -75,7 +72,8 @@ export function optimizePeriod(req: PeriodSearchRequest): PeriodSearchResult {
   const probes = [guess, guess * 1.05, guess / 1.05];
   for (const p of probes) evaluate(p);
   if (trace.every((t) => t.phase === 'disordered')) {
-    const sol = solved.get(guess)!;
+    const probe = solved.get(guess)!;
+    const sol = req.keepPropagators ? solveFixedCell({ ...req, options, length: guess * req.periods, initial: probe.w }) : probe;
     sol.notes.push(`disordered at every trial period (${probes.map((p) => p.toFixed(3)).join(', ')} Rg): no equilibrium lamellar period at these parameters`);
     return { solution: sol, period: Number.NaN, periodTolerance: Number.NaN, evaluations: trace.length, totalIterations, seconds: (performance.now() - t0) / 1000, trace };
   }
@@ -83,7 +81,8 @@ export function optimizePeriod(req: PeriodSearchRequest): PeriodSearchResult {
   const upper = 5 * guess;
   const br = bracketMinimum(evaluate, guess, guess * 1.05, lower, upper);
   const best = brentMinimize(evaluate, br, options.periodTolerance);
-  const solution = solved.get(best.x) ?? solveFixedCell({ ...req, options, length: best.x * req.periods, initial: warm });
+  const solution = solved.get(best.x) ?? solveFixedCell({ ...req, options, length: best.x * req.periods, initial: warm, keepPropagators: false });
+  // Re-solving from the converged fields costs one iteration and stores the propagators.
   const final = req.keepPropagators ? solveFixedCell({ ...req, options, length: best.x * req.periods, initial: solution.w }) : solution;
   return {
     solution: final,

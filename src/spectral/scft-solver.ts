@@ -11,7 +11,7 @@ import { buildChain, contourGrid, disorderedFreeEnergy, ModelError } from '../ph
 import type { Chain } from '../physics/chain.js';
 import { externalFields, zeroFields } from '../physics/fields.js';
 import type { SpeciesArrays } from '../physics/fields.js';
-import { checkCell, gridPoints, resamplePeriodic } from '../physics/grid.js';
+import { checkCell, gridPoints, resamplePeriodic, spreadOf } from '../physics/grid.js';
 import type { Phase, ScftSolution } from '../physics/result.js';
 import { fieldDeviation, fieldsFromComposition, fixGauge, freeEnergy } from '../physics/scft-equations.js';
 import { spinodal } from '../physics/rpa.js';
@@ -92,16 +92,6 @@ export function countDomains(phiA: Float64Array): number {
   return n;
 }
 
-function spread(u: Float64Array): number {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const v of u) {
-    lo = Math.min(lo, v);
-    hi = Math.max(hi, v);
-  }
-  return hi - lo;
-}
-
 export function solveFixedCell(req: FixedCellRequest): ScftSolution {
   const t0 = performance.now();
   const options = defaultSpectralOptions(req.options);
@@ -134,7 +124,7 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
       freeEnergy: F,
       freeEnergyDisordered: fixed ? Number.NaN : disorderedFreeEnergy(chain, chiN),
       phase,
-      amplitude: spread(dens.phi.A),
+      amplitude: spreadOf(dens.phi.A),
       iterations,
       residual,
       converged,
@@ -181,7 +171,7 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
     if (residual < options.tolerance) {
       let phase: Phase;
       if (species.length === 1) phase = 'homogeneous-melt';
-      else phase = spread(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
+      else phase = spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
       if (phase === 'disordered') notes.push('the iteration collapsed to the homogeneous (disordered) state: no lamella at these parameters from this start');
       if (phase === 'lamellar') {
         const domains = countDomains(dens.phi.A);
@@ -191,7 +181,7 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
     }
     if (it === options.maxIterations) {
       notes.push(`not converged after ${it} iterations (residual ${residual.toExponential(3)} > tolerance ${options.tolerance})`);
-      return finish(w, dens, it, residual, false, spread(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar');
+      return finish(w, dens, it, residual, false, spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar');
     }
     let next: SpeciesArrays;
     if (it <= simpleSteps || options.andersonHistory === 0) {

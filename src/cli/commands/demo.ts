@@ -88,7 +88,7 @@ export function registerDemo(program: Command): void {
         progress.update('4/4 synthetic noisy profile and inversion for χN', true);
         const invDir = join(flags.out, 'inversion');
         const truth = { chiN: DEMO_SYSTEM.chiN, noise: 0.02, points: 64, periods: 2, offset: 1.3, seed: 2026 };
-        const chainSpec = parseOrThrow(solveConfigSchema, DEMO_SOLVE_CONFIG, 'demo').system.chain;
+        const chainSpec = config.system.chain;
         const synth = synthesize({ chain: chainSpec, chiN: truth.chiN, points: truth.points, noise: truth.noise, seed: truth.seed, periods: truth.periods, offset: truth.offset, period: 'equilibrium', resolution: 0, nx: 64, ns: 100 });
         const csv = synthCsv(synth, truth.noise);
         const data = parseProfileCsv(csv, join(invDir, 'profile.csv'));
