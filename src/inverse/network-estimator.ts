@@ -28,7 +28,6 @@ import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { bandLimitedFit } from '../numerics/band-limited-fit.js';
 import { trigInterpolationMatrix } from '../numerics/trig-interpolation.js';
-import { fixGauge } from '../physics/scft-equations.js';
 import { solveFixedCell } from '../spectral/scft-solver.js';
 import { Adam } from '../neural/adam.js';
 import { selectBackend } from '../neural/backend.js';
@@ -38,6 +37,7 @@ import { buildScftNetworks } from '../neural/scft-networks.js';
 import { LOSS_TERMS, ScftProblem } from '../neural/scft-problem.js';
 import type { LossValues } from '../neural/scft-problem.js';
 import { runTraining } from '../neural/train-loop.js';
+import { refitFieldsToUpdate } from '../neural/field-update.js';
 import { warmStart } from '../neural/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
 import type { ProfileData } from './profile-csv.js';
@@ -141,19 +141,16 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
         den += b * b;
       }
       const ratio = Math.min(1.25, Math.max(0.8, num / den));
-      const old = chiN;
       chiN = chiN * Math.sqrt(ratio);
-      const target = { A: new Float64Array(nx), B: new Float64Array(nx) };
+      // The SCFT field update of physics/scft-equations.ts with the data's composition in the
+      // exchange part and the networks' incompressibility error (split evenly) in the pressure.
+      const phi = { A: new Float64Array(nx), B: new Float64Array(nx) };
       for (let j = 0; j < nx; j++) {
-        const xi = 0.5 * (sol.w.A[j] + sol.w.B[j] - old);
-        const pressure = 0.5 * chiN * (sol.phi.A[j] + sol.phi.B[j] - 1);
-        const tA = xi + chiN * (1 - phiData[j]) + pressure;
-        const tB = xi + chiN * phiData[j] + pressure;
-        target.A[j] = sol.w.A[j] + (s.mixing ?? 0.5) * (tA - sol.w.A[j]);
-        target.B[j] = sol.w.B[j] + (s.mixing ?? 0.5) * (tB - sol.w.B[j]);
+        const excess = 0.5 * (sol.phi.A[j] + sol.phi.B[j] - 1);
+        phi.A[j] = phiData[j] + excess;
+        phi.B[j] = 1 - phiData[j] + excess;
       }
-      fixGauge(chain, target);
-      warmStart(tf, nets, { x: sol.x, w: target, chiN }, config.training.fieldFitSteps, config.training.fieldFitLearningRate, undefined, nets.field!.parameters);
+      refitFieldsToUpdate(tf, nets, chiN, sol.x, sol.w, phi, s.mixing ?? 0.5, config.training.fieldFitSteps, config.training.fieldFitLearningRate);
       trajectory.push({ step, chiN });
       s.onProgress?.(seed, step, s.steps, chiN);
     };
