@@ -126,6 +126,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
     const nets = buildScftNetworks(tf, config, chain, L, true);
     warmStart(tf, nets, { x: start.x, w: start.w, chiN: chiNStart, propagators: start.propagators }, 400, 1e-2);
     const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
+    problem.fieldsFrozen = true;
     let chiN = chiNStart;
     const trajectory: { step: number; chiN: number }[] = [{ step: 0, chiN }];
     let step = 0;

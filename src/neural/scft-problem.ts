@@ -133,10 +133,37 @@ export class ScftProblem {
     };
   }
 
+  /**
+   * With frozen fields (the alternating strategy: the field network changes only at field
+   * updates) the field at each point set is the same every step, so it is computed once
+   * and kept until invalidateFields(). The kept tensor is a constant: no gradient reaches
+   * the field network through it, exactly as with the detached form.
+   */
+  fieldsFrozen = false;
+  private readonly frozenFields = new Map<PointSet, TfModule.Tensor>();
+
+  invalidateFields(): void {
+    for (const t of this.frozenFields.values()) t.dispose();
+    this.frozenFields.clear();
+  }
+
   /** w of the block at each point of a set: [n, 1]. */
   private pointField(set: PointSet): TfModule.Tensor {
     const tf = this.tf;
     if (set.prescribedW) return set.prescribedW;
+    if (this.fieldsFrozen) {
+      let w = this.frozenFields.get(set);
+      if (!w) {
+        w = tf.keep(tf.tidy(() => stopGradient(tf, this.fieldAtPoints(set))));
+        this.frozenFields.set(set, w);
+      }
+      return w;
+    }
+    return this.fieldAtPoints(set);
+  }
+
+  private fieldAtPoints(set: PointSet): TfModule.Tensor {
+    const tf = this.tf;
     const wNet = this.nets.field!.forward(set.fieldFeatures!).v;
     const w = this.fieldInMde === 'detached' ? stopGradient(tf, wNet) : wNet;
     const wA = tf.slice(w, [0, 0], [-1, 1]);
@@ -202,6 +229,7 @@ export class ScftProblem {
   /** Redraw the extra MDE points for resampling number `index` (deterministic in seed and index). */
   resample(index: number): void {
     const { random, residualShare, seed } = this.collocation;
+    this.invalidateFields();
     this.extraQ?.dispose();
     this.extraQDagger?.dispose();
     this.extraQ = null;
@@ -230,6 +258,8 @@ export class ScftProblem {
     const rt = this.tf.tidy(() => this.tf.abs(this.residual(net, candidates)));
     const r = rt.dataSync() as Float32Array;
     rt.dispose();
+    this.frozenFields.get(candidates)?.dispose();
+    this.frozenFields.delete(candidates);
     candidates.dispose();
     const order = Array.from(r.keys()).sort((a, b) => r[b] - r[a] || a - b);
     const x = new Float64Array(count);
@@ -251,6 +281,7 @@ export class ScftProblem {
   }
 
   setExtraPoints(pts: { q: { x: number[]; s: number[] }; qDagger: { x: number[]; s: number[] } }, index: number): void {
+    this.invalidateFields();
     this.extraQ?.dispose();
     this.extraQDagger?.dispose();
     this.extraQ = this.pointSet(this.nets.q, this.nets.chain, Float64Array.from(pts.q.x), Float64Array.from(pts.q.s));
@@ -261,6 +292,7 @@ export class ScftProblem {
   /** Loss terms on a fresh, seeded uniform point set (for evaluation); values in float. */
   freshResiduals(seed: number, count: number): LossValues {
     const saved = [this.extraQ, this.extraQDagger];
+    this.invalidateFields();
     const rng = new Xorshift128(seed);
     this.extraQ = this.drawSet(this.nets.q, this.nets.chain, rng, count, 0);
     this.extraQDagger = this.drawSet(this.nets.qDagger, this.nets.reversed, rng, count, 0);
@@ -269,12 +301,14 @@ export class ScftProblem {
       return Object.fromEntries(LOSS_TERMS.map((k) => [k, t[k].dataSync()[0]])) as LossValues;
     });
     this.extraQ.dispose();
+    this.invalidateFields();
     this.extraQDagger.dispose();
     [this.extraQ, this.extraQDagger] = saved;
     return out;
   }
 
   dispose(): void {
+    this.invalidateFields();
     this.gridQ.dispose();
     if (!this.nets.shared || this.gridQDagger !== this.gridQ) this.gridQDagger.dispose();
     this.extraQ?.dispose();

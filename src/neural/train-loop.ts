@@ -123,9 +123,8 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     }
     if (tr.strategy === 'alternating' && step > startStep && step % tr.fieldUpdateEvery === 0) {
       if (hooks.fieldUpdate) hooks.fieldUpdate();
-      else {
-        updateFieldNetwork(tf, problem.nets, problem.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
-      }
+      else updateFieldNetwork(tf, problem.nets, problem.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
+      problem.invalidateFields();
     }
     const lr = learningRateAt(tr, step);
     // Alternating: only the MDE term drives the gradient (fields detached; see field-update.ts).

@@ -157,6 +157,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   }
 
   const problem = new ScftProblem(tf, nets, config.system, config.collocation, config.training.strategy === 'alternating' ? 'detached' : config.losses.fieldInMde);
+  problem.fieldsFrozen = config.training.strategy === 'alternating';
   const extra = resumed?.file.extraPoints;
   if (resumed && extra) problem.setExtraPoints(extra, Math.floor(resumed.file.step / config.collocation.resampleEvery));
 
@@ -211,7 +212,10 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     let r = { iterations: 0, f: Number.NaN, reason: 'none' };
     let iterations = 0;
     for (let c = 0; c < cycles; c++) {
-      if (cycles > 1) updateFieldNetwork(tf, nets, config.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
+      if (cycles > 1) {
+        updateFieldNetwork(tf, nets, config.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
+        problem.invalidateFields();
+      }
       r = polishWithLbfgs(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles));
       iterations += r.iterations;
     }
