@@ -13,6 +13,7 @@ import { registerTrain } from './commands/train.js';
 import { registerSynth } from './commands/synth.js';
 import { registerInvert } from './commands/invert.js';
 import { registerReport } from './commands/report.js';
+import { registerSweep } from './commands/sweep.js';
 
 const program = new Command();
 program
@@ -33,6 +34,7 @@ registerTrain(program);
 registerSynth(program);
 registerInvert(program);
 registerReport(program);
+registerSweep(program);
 registerSchema(program);
 
 await program.parseAsync(process.argv);

@@ -12,12 +12,17 @@ function typeOf(s: Json): string {
   if (Array.isArray(s.enum)) return (s.enum as unknown[]).map((v) => JSON.stringify(v)).join(' \\| ');
   if (Array.isArray(s.anyOf)) return (s.anyOf as Json[]).map(typeOf).join(' \\| ');
   if (s.type === 'array') return `array of ${s.items ? typeOf(s.items as Json) : 'values'}`;
+  // An object inside a union (e.g. a {from, to, count} range): name its fields.
+  if (s.type === 'object' && s.properties) return `{${Object.keys(s.properties as Json).join(', ')}}`;
   if (typeof s.type === 'string') return s.type === 'integer' ? 'integer' : String(s.type);
   return 'value';
 }
 
 function bounds(s: Json): string {
+  if (Array.isArray(s.anyOf)) return [...new Set((s.anyOf as Json[]).map(bounds).filter((b) => b))].join('; ');
   const parts: string[] = [];
+  const items = s.items && !Array.isArray(s.items) ? bounds(s.items as Json) : '';
+  if (items) parts.push(`values ${items}`);
   if (s.minimum !== undefined) parts.push(`≥ ${s.minimum}`);
   if (s.exclusiveMinimum !== undefined) parts.push(`> ${s.exclusiveMinimum}`);
   if (s.maximum !== undefined) parts.push(`≤ ${s.maximum}`);

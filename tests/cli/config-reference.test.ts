@@ -10,8 +10,9 @@ describe('config reference', () => {
 
   it('lists every kind with its defaults and bounds', () => {
     const md = configReferenceMarkdown(CONFIG_SCHEMAS);
-    for (const kind of ['solve', 'train', 'invert']) expect(md).toContain(`## kind "${kind}"`);
+    for (const kind of ['solve', 'train', 'invert', 'sweep']) expect(md).toContain(`## kind "${kind}"`);
     expect(md).toMatch(/\| `training\.learningRate` \| number \| > 0, < 1 \| `0\.002` \|/);
     expect(md).toMatch(/\| `system\.chain \(type = "diblock"\)\.f` \| number \| > 0, < 1 \| required \|/);
+    expect(md).toMatch(/\| `grid\.chiN` \| array of number \\\| \{from, to, count\} \| values ≥ 0, ≤ 500, ≥ 1 items, ≤ 10000 items \| required \|/);
   });
 });

@@ -1,0 +1,101 @@
+/** `mesofield sweep`: a thin layer over src/sweep (run one shard of a grid, or merge shards). */
+import type { Command } from 'commander';
+import { basename, join } from 'node:path';
+import { InputError, RunFailure } from '../../io/errors.js';
+import { loadJsonFile } from '../../io/load-json.js';
+import { sweepConfigSchema } from '../../io/schemas/sweep-config.js';
+import { mergeShards } from '../../sweep/merge.js';
+import { runSweep } from '../../sweep/run-sweep.js';
+import { formatIndices, parseShard } from '../../sweep/shard.js';
+import type { SweepPointResult } from '../../sweep/solve-point.js';
+import { writeTable } from '../../sweep/sweep-file.js';
+import { defaultWorkers } from '../../sweep/worker-pool.js';
+import { formatDuration, Progress } from '../progress.js';
+import { action, numberFlag } from '../run-command.js';
+
+interface SweepFlags {
+  shard?: string;
+  workers?: string;
+  out?: string;
+  merge?: string[];
+  json?: boolean;
+  quiet?: boolean;
+}
+
+const MAX_WORKERS = 64;
+
+function workersFlag(value: string | undefined): number {
+  const k = numberFlag('--workers', value);
+  if (k === undefined) return defaultWorkers();
+  if (!Number.isInteger(k) || k < 1 || k > MAX_WORKERS) throw new InputError(`--workers: got ${value}; allowed: a whole number from 1 to ${MAX_WORKERS}`);
+  return k;
+}
+
+const fixed = (v: number | null, digits: number) => (v === null ? '—' : v.toFixed(digits));
+
+function tableText(points: SweepPointResult[]): string {
+  const head = ['index', 'χN', 'f', 'b_A/b_B', 'phase', 'period/Rg', 'F/kT', 'F_dis/kT', 'iterations'];
+  const rows = points.map((p) => [String(p.index), String(p.chiN), String(p.f), String(p.segmentLengthRatio), p.phase, fixed(p.period, 6), fixed(p.freeEnergy, 10), fixed(p.freeEnergyDisordered, 6), String(p.totalIterations ?? '—')]);
+  const widths = head.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c].length)));
+  return `${[head, ...rows].map((r) => r.map((v, c) => v.padStart(widths[c])).join('  ')).join('\n')}\n`;
+}
+
+function failure(failed: SweepPointResult[], total: number, file: string): RunFailure {
+  return new RunFailure(`${failed.length} of ${total} sweep points failed (${formatIndices(failed.map((p) => p.index))}); their notes in ${file} say why`);
+}
+
+export function registerSweep(program: Command): void {
+  program
+    .command('sweep')
+    .description('reference solves over a grid of χN, f and b_A/b_B: the whole grid, one shard of it (--shard), or a merge of shard outputs (--merge)')
+    .argument('[config]', 'sweep config JSON (kind "sweep")')
+    .option('--shard <I/N>', 'solve shard I of N (the points with index % N = I − 1), e.g. one per array job')
+    .option('--workers <k>', 'worker threads solving points at once (default: min(2, cores))')
+    .option('--out <dir>', 'output directory (default sweeps/<config name>); with --merge, where the merged table goes')
+    .option('--merge <dirs...>', 'merge the shard files found in these directories into sweep.json and sweep.csv')
+    .option('--json', 'print the table (or, for a shard, the shard file) as JSON on stdout')
+    .option('--quiet', 'no progress on stderr')
+    .action(
+      action(async (configPath: string | undefined, flags: SweepFlags) => {
+        const say = (m: string) => {
+          if (!flags.quiet) process.stderr.write(`sweep: ${m}\n`);
+        };
+        if (flags.merge) {
+          if (configPath !== undefined) throw new InputError(`config: got ${JSON.stringify(configPath)} with --merge; a merge takes the config from the shard files: leave it out`);
+          if (flags.shard !== undefined || flags.workers !== undefined) throw new InputError('--merge: cannot be combined with --shard or --workers (a merge solves nothing)');
+          if (flags.out === undefined) throw new InputError('--out: missing; --merge needs the directory to write sweep.json and sweep.csv into');
+          const table = mergeShards(flags.merge);
+          const written = writeTable(flags.out, table);
+          say(`merged ${table.shards.length} shard files (${table.totalPoints} points): wrote ${written.join(', ')}`);
+          process.stdout.write(flags.json ? `${JSON.stringify(table, null, 2)}\n` : tableText(table.points));
+          const failed = table.points.filter((p) => !p.converged);
+          if (failed.length) throw failure(failed, table.totalPoints, written[1]);
+          return;
+        }
+        if (configPath === undefined) throw new InputError('config: missing; give a sweep config file, or --merge DIR... --out DIR');
+        const config = loadJsonFile(configPath, sweepConfigSchema);
+        const shard = parseShard(flags.shard);
+        const workers = workersFlag(flags.workers);
+        const outDir = flags.out ?? join('sweeps', basename(configPath).replace(/(\.sweep)?\.json$/, ''));
+        const progress = new Progress('sweep', flags.quiet);
+        const r = await runSweep({
+          config,
+          outDir,
+          shard,
+          workers,
+          log: say,
+          onPoint: (p, s) => {
+            const rate = s.solved / s.seconds;
+            progress.update(
+              `point ${s.done}/${s.total} (χN = ${p.chiN}, f = ${p.f}, b_A/b_B = ${p.segmentLengthRatio}): ${p.phase} | ${rate.toFixed(2)} points/s | ${formatDuration((s.total - s.done) / rate)} left`,
+              s.done === s.total,
+            );
+          },
+        });
+        if (r.status !== 'skipped') progress.done(`shard ${shard.index}/${shard.count}: ${r.shard.points.length} points on ${workers} worker${workers > 1 ? 's' : ''}; wrote ${r.written.join(', ')}`);
+        const out = r.table ?? r.shard;
+        process.stdout.write(flags.json ? `${JSON.stringify(out, null, 2)}\n` : tableText(out.points));
+        if (r.failed.length) throw failure(r.failed, r.shard.points.length, r.shardFile);
+      }),
+    );
+}

@@ -1,0 +1,66 @@
+/**
+ * The points of a sweep grid and the system each one solves. Points are ordered f
+ * outermost, then b_A/b_B, then χN; a point's index is its place in that order, and
+ * shards, saved files and merges all name points by it. χN and f as in SCFT-NOTES.md;
+ * a ratio r = b_A/b_B gives the chain segment lengths { A: r, B: 1 } (b_B = b of Rg).
+ */
+import { InputError } from '../io/errors.js';
+import type { SolveConfig } from '../io/schemas/solve-config.js';
+import type { SweepConfig } from '../io/schemas/sweep-config.js';
+import { systemSchema } from '../physics/chain-schema.js';
+import type { SystemSpec } from '../physics/chain-schema.js';
+import { buildChain, contourGrid, ModelError } from '../physics/chain.js';
+
+export interface SweepPoint {
+  index: number;
+  chiN: number;
+  f: number;
+  /** b_A/b_B. */
+  segmentLengthRatio: number;
+}
+
+type Axis = SweepConfig['grid']['chiN'];
+
+export function axisValues(a: Axis): number[] {
+  if (Array.isArray(a)) return a.slice();
+  if (a.count === 1) return [a.from];
+  // The end value is `to` itself, not from + (count − 1)·step with its rounding error.
+  return Array.from({ length: a.count }, (_, i) => (i === a.count - 1 ? a.to : a.from + ((a.to - a.from) * i) / (a.count - 1)));
+}
+
+export function sweepPoints(config: SweepConfig): SweepPoint[] {
+  const points: SweepPoint[] = [];
+  for (const f of axisValues(config.grid.f))
+    for (const segmentLengthRatio of axisValues(config.grid.segmentLengthRatio))
+      for (const chiN of axisValues(config.grid.chiN)) points.push({ index: points.length, chiN, f, segmentLengthRatio });
+  return points;
+}
+
+export function pointSystem(config: SweepConfig, p: Pick<SweepPoint, 'chiN' | 'f' | 'segmentLengthRatio'>): SystemSpec {
+  const segmentLengths = { A: p.segmentLengthRatio, B: 1 };
+  const chain =
+    config.chain.type === 'triblock'
+      ? { type: 'triblock' as const, f: p.f, firstBlockShare: config.chain.firstBlockShare, segmentLengths }
+      : { type: 'diblock' as const, f: p.f, segmentLengths };
+  return systemSchema.parse({ chain, chiN: p.chiN });
+}
+
+/** The solve config of one point: the library's reference solve does the rest. */
+export function pointSolveConfig(config: SweepConfig, p: SweepPoint): Pick<SolveConfig, 'system' | 'cell' | 'solver' | 'output'> {
+  return { system: pointSystem(config, p), cell: config.cell, solver: config.reference, output: { propagators: false } };
+}
+
+/**
+ * Check every f of the grid against the contour grid before any work starts, so a bad
+ * value stops the sweep at once (exit 2) instead of failing points hours in.
+ */
+export function checkGrid(config: SweepConfig): void {
+  for (const f of new Set(axisValues(config.grid.f))) {
+    try {
+      contourGrid(buildChain(pointSystem(config, { chiN: 0, f, segmentLengthRatio: 1 }).chain), config.cell.ns);
+    } catch (e) {
+      if (e instanceof ModelError) throw new InputError(`${e.message} (at grid.f = ${f})`);
+      throw e;
+    }
+  }
+}
