@@ -20,6 +20,8 @@ import type { NamedWeight } from './parameters.js';
 import { LOSS_TERMS } from './scft-problem.js';
 
 const lossRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number()])) as Record<(typeof LOSS_TERMS)[number], z.ZodNumber>);
+// Balancing factors: a checkpoint written before a term existed has none for it; 1 is "unbalanced".
+const factorRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number().default(1)])) as Record<(typeof LOSS_TERMS)[number], z.ZodDefault<z.ZodNumber>>);
 
 export const historyEntrySchema = z.object({
   step: z.number().int(),
@@ -41,7 +43,7 @@ export const checkpointFileSchema = z.object({
   periods: z.number().int().min(1),
   step: z.number().int().min(0),
   stage: z.enum(['warm-start', 'adam', 'lbfgs', 'done']),
-  lossWeights: lossRecord,
+  lossWeights: factorRecord,
   history: z.array(historyEntrySchema),
   metrics: z.record(z.string(), z.unknown()).optional(),
   /** The resampled MDE points in use at this step, so that a resumed run is exact. */

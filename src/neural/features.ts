@@ -11,6 +11,12 @@
  * Propagator networks add one contour column σ = (s − a)/Δ (a, Δ: start and length of the
  * piece's contour interval), with ∂σ/∂s = 1/Δ and no x-dependence.
  *
+ * Soft periodicity (propagator networks only; the field network keeps the exact features):
+ * the network sees x through one scaled column ξ = 2x/L − 1 (ξ ∈ [−1, 1) on the cell), so
+ * nothing ties u(0, s) to u(L, s) and the `periodicity` loss term has to. Derivative
+ * channels (exact): ∂x ξ = 2/L, ∂xx ξ = 0, ∂s ξ = 0; ∂x is the same at every point, so it
+ * is one broadcast row, and ∂xx is null (identically zero).
+ *
  * Values are computed in float64 and rounded once to float32 on upload.
  */
 import type { Tf } from './backend.js';
@@ -52,10 +58,27 @@ export function periodicFeatures(tf: Tf, x: ArrayLike<number>, period: number, m
   return new Jet(tf, tf.tensor2d(f32(a.v), shape), derivatives ? tf.tensor2d(f32(a.dx), shape) : null, derivatives ? tf.tensor2d(f32(a.dxx), shape) : null, null);
 }
 
+/** How a propagator network sees x: exact periodic features, or the scaled input ξ = 2x/L − 1. */
+export type XInput = 'exact' | 'soft';
+
+/** Columns of x features of a propagator network (the contour column comes on top). */
+export function xInputWidth(modes: number, periodicity: XInput): number {
+  return periodicity === 'exact' ? periodicWidth(modes) : 1;
+}
+
+/** Row-major [n, 1] arrays of ξ = 2x/L − 1 and its x-derivatives (2/L and 0 at every point). */
+export function scaledInputArrays(x: ArrayLike<number>, period: number) {
+  const n = x.length;
+  const v = Float64Array.from({ length: n }, (_, i) => (2 * x[i]) / period - 1);
+  return { v, dx: new Float64Array(n).fill(2 / period), dxx: new Float64Array(n), width: 1 };
+}
+
 /**
- * Feature jet [n, 2M + 1] of points (x_i, s_i) for a piece on the contour interval
- * [start, start + length]: periodic features of x, then σ = (s − start)/length.
- * `ds` is the single broadcast row [0, …, 0, 1/length].
+ * Feature jet [n, w + 1] of points (x_i, s_i) for a piece on the contour interval
+ * [start, start + length]: the x features (w = 2M periodic columns, or the one scaled column
+ * when `periodicity` is 'soft'), then σ = (s − start)/length.
+ * `ds` is the single broadcast row [0, …, 0, 1/length]; with the scaled column `dx` is the
+ * broadcast row [2/L, 0] and `dxx` is null.
  */
 export function propagatorFeatures(
   tf: Tf,
@@ -65,10 +88,11 @@ export function propagatorFeatures(
   modes: number,
   piece: { start: number; length: number },
   derivatives = true,
+  periodicity: XInput = 'exact',
 ): Jet {
   const n = x.length;
   if (s.length !== n) throw new RangeError(`x and s differ in length (${n} and ${s.length})`);
-  const a = periodicFeatureArrays(x, period, modes);
+  const a = periodicity === 'exact' ? periodicFeatureArrays(x, period, modes) : scaledInputArrays(x, period);
   const w = a.width + 1;
   const v = new Float64Array(n * w);
   const dx = new Float64Array(n * w);
@@ -83,6 +107,7 @@ export function propagatorFeatures(
   ds[a.width] = 1 / piece.length;
   const shape: [number, number] = [n, w];
   if (!derivatives) return new Jet(tf, tf.tensor2d(f32(v), shape), null, null, null);
+  if (periodicity === 'soft') return new Jet(tf, tf.tensor2d(f32(v), shape), tf.tensor2d([[2 / period, 0]]), null, tf.tensor2d(f32(ds), [1, w]));
   return new Jet(tf, tf.tensor2d(f32(v), shape), tf.tensor2d(f32(dx), shape), tf.tensor2d(f32(dxx), shape), tf.tensor2d(f32(ds), [1, w]));
 }
 

@@ -16,6 +16,13 @@
  * same from both sides; its ∂s channel is the right-hand derivative. s = 1 belongs to the
  * last block.
  *
+ * Soft constraints (config `periodicity`, `initialCondition`; the defaults are the exact forms):
+ *   initialCondition 'soft': the first piece drops its factor, u = n_0(x, σ) on [0, s_1], so
+ *     U_1(x) = n_0(x, σ = 1) and U_k = U_1 + Σ_{1≤j<k} Δ_j n_j(x, 1); the later pieces and
+ *     their continuous joins are unchanged, and u(x, 0) = 0 is left to the `initial` loss.
+ *   periodicity 'soft': x enters through ξ = 2x/L − 1 (features.ts) instead of the periodic
+ *     features, so u(0, s) = u(L, s) is left to the `periodicity` loss.
+ *
  * Cost: features of fixed points are computed once (prepare), and the junction terms
  * U_k are evaluated on the distinct x values of a block's points (an x grid for the usual
  * tensor-product collocation) and gathered to the points, not evaluated at every point.
@@ -23,7 +30,7 @@
 import type * as TfModule from '@tensorflow/tfjs';
 import type { PropagatorNetworkConfig } from '../io/schemas/network-schema.js';
 import type { Tf } from './backend.js';
-import { periodicWidth, propagatorFeatures } from './features.js';
+import { propagatorFeatures, xInputWidth } from './features.js';
 import { concatRows, Jet } from './jet.js';
 import { Mlp } from './mlp.js';
 import { ParameterSet } from './parameters.js';
@@ -97,7 +104,7 @@ export class PropagatorNet {
     this.pieces = [];
     for (let k = 0; k + 1 < bounds.length; k++) {
       const mlp = new Mlp(tf, {
-        inputs: periodicWidth(config.fourierModes) + 1,
+        inputs: xInputWidth(config.fourierModes, config.periodicity) + 1,
         hidden: config.hidden,
         outputs: this.outputs,
         activation: config.activation,
@@ -140,13 +147,14 @@ export class PropagatorNet {
     }
     const L = this.options.period;
     const M = this.config.fourierModes;
+    const xin = this.config.periodicity;
     const batches: Batch[] = [];
     members.forEach((idx, k) => {
       if (idx.length === 0) return;
       const piece = this.pieces[k];
       const xs = idx.map((i) => x[i]);
       const ss = idx.map((i) => s[i]);
-      const features = propagatorFeatures(tf, xs, ss, L, M, piece, derivatives).keep();
+      const features = propagatorFeatures(tf, xs, ss, L, M, piece, derivatives, xin).keep();
       const offset = new Jet(
         tf,
         tf.tensor2d(Float32Array.from(ss, (v) => v - piece.start), [idx.length, 1]),
@@ -170,7 +178,7 @@ export class PropagatorNet {
           index[r] = j;
         });
         // σ = 1 at the end of every earlier piece; ∂s is not needed (U_k depends on x only).
-        const f = propagatorFeatures(tf, ux, ux.map(() => 1), L, M, { start: 0, length: 1 }, derivatives);
+        const f = propagatorFeatures(tf, ux, ux.map(() => 1), L, M, { start: 0, length: 1 }, derivatives, xin);
         const jf = new Jet(tf, f.v, f.dx, f.dxx, null).keep();
         if (f.ds) f.ds.dispose();
         const identity = ux.length === idx.length;
@@ -190,13 +198,17 @@ export class PropagatorNet {
 
   /** u = ln q at the prepared points: jet [n, outputs] with v, ∂x, ∂xx, ∂s channels. */
   logQ(points: PropagatorPoints): Jet {
+    // Soft initial condition: the first piece enters without its factor (s − s_0) (header).
+    const free = this.config.initialCondition === 'soft';
+    const factor = (j: number) => (free && j === 0 ? 1 : this.pieces[j].length);
     const outs = points.batches.map((b) => {
       const piece = this.pieces[b.piece];
-      let u = b.offset.mul(piece.mlp.forward(b.features));
+      const n = piece.mlp.forward(b.features);
+      let u = free && b.piece === 0 ? n : b.offset.mul(n);
       if (b.junction) {
         let U: Jet | null = null;
         for (let j = 0; j < b.piece; j++) {
-          const term = this.pieces[j].mlp.forward(b.junction.features).scale(this.pieces[j].length);
+          const term = this.pieces[j].mlp.forward(b.junction.features).scale(factor(j));
           U = U ? U.add(term) : term;
         }
         if (b.junction.index) U = U!.gatherRows(b.junction.index);

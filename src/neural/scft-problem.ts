@@ -9,7 +9,11 @@
  *   - a resampled set of extra MDE points per propagator, half uniform and half where the
  *     residual is largest (residual-based adaptive refinement; Lu, Meng, Mao & Karniadakis,
  *     SIAM Review 63, 208 (2021)), redrawn every `resampleEvery` steps from a seed derived
- *     from the resampling index, so a resumed run draws the same points.
+ *     from the resampling index, so a resumed run draws the same points;
+ *   - with soft periodicity, the two ends x = 0 and x = L of each propagator at the grid's
+ *     contour nodes (losses/periodicity.ts); with a soft initial condition, the grid's first
+ *     row s = 0 carries losses/initial-condition.ts. With the exact forms both terms are an
+ *     exact 0 (the networks satisfy them by construction).
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { TrainConfig } from '../io/schemas/train-config.js';
@@ -22,14 +26,18 @@ import type { ContourNodes } from './contour-nodes.js';
 import type { Jet } from './jet.js';
 import { gridDensities } from './losses/densities.js';
 import { gaugeLoss, incompressibilityLoss, selfConsistencyLoss } from './losses/field-equations.js';
+import { initialConditionLoss } from './losses/initial-condition.js';
 import { mdeResidual } from './losses/mde-residual.js';
+import { periodicityLoss } from './losses/periodicity.js';
 import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
 import { childSeed, Xorshift128 } from './random.js';
 import { stopGradient } from './stop-gradient.js';
 import type { ScftNetworks } from './scft-networks.js';
 
-export const LOSS_TERMS = ['mde', 'incompressibility', 'selfConsistency', 'gauge'] as const;
+export const LOSS_TERMS = ['mde', 'periodicity', 'initial', 'incompressibility', 'selfConsistency', 'gauge'] as const;
 export type LossTerm = (typeof LOSS_TERMS)[number];
+/** The terms of the propagator networks alone: what the alternating strategy trains on. */
+export const PROPAGATOR_TERMS: readonly LossTerm[] = ['mde', 'periodicity', 'initial'];
 export type LossValues = Record<LossTerm, number>;
 
 /** Points of one propagator with their per-point constants. */
@@ -59,6 +67,8 @@ export class ScftProblem {
   private readonly weightsA: TfModule.Tensor;
   private readonly weightsB: TfModule.Tensor;
   private readonly gridFieldFeatures: Jet | null;
+  /** Soft periodicity: the points (0, s_i) then (L, s_i) at the grid's contour nodes, per propagator. */
+  private readonly ends: { q: PropagatorPoints; qDagger: PropagatorPoints } | null;
   /** Index of the current resampling (−1: none drawn yet). */
   resamplings = -1;
 
@@ -92,6 +102,20 @@ export class ScftProblem {
     this.gridFieldFeatures = nets.field ? nets.field.features(this.xGrid, false) : null;
     this.gridQ = this.pointSet(nets.q, nets.chain, xs, ss);
     this.gridQDagger = this.pointSet(nets.qDagger, nets.reversed, xs, ssR);
+    const atEnds = (net: PropagatorNet, sNodes: Float64Array) => {
+      const x = Float64Array.from({ length: 2 * nn }, (_, i) => (i < nn ? 0 : nets.length));
+      return net.prepare(x, Float64Array.from({ length: 2 * nn }, (_, i) => sNodes[i % nn]), true);
+    };
+    this.ends = nets.q.config.periodicity === 'soft' ? { q: atEnds(nets.q, this.nodes.s), qDagger: atEnds(nets.qDagger, this.nodesReversed.s) } : null;
+  }
+
+  /** Whether term k depends on the parameters here (an exact-form or absent term is a constant 0). */
+  isActive(k: LossTerm): boolean {
+    if (k === 'mde') return true;
+    if (k === 'periodicity') return this.ends !== null;
+    if (k === 'initial') return this.nets.q.config.initialCondition === 'soft';
+    if (!this.nets.field) return false;
+    return this.species > 1 || k !== 'selfConsistency';
   }
 
   private pointSet(net: PropagatorNet, chain: Chain, x: Float64Array, s: Float64Array): PointSet {
@@ -178,8 +202,9 @@ export class ScftProblem {
   /**
    * Every loss term as a scalar tensor (call inside tf.tidy or variableGrads). With
    * gridMde false the MDE term covers only the extra points (a fresh set in evaluation).
+   * With propagatorOnly the field-equation terms are returned as 0 (not computed).
    */
-  terms(gridMde = true, mdeOnly = false): Record<LossTerm, TfModule.Scalar> {
+  terms(gridMde = true, propagatorOnly = false): Record<LossTerm, TfModule.Scalar> {
     const tf = this.tf;
     const nets = this.nets;
     const nx = this.collocation.nx;
@@ -196,8 +221,14 @@ export class ScftProblem {
     if (this.extraQDagger) squares.push(tf.square(this.residual(nets.qDagger, this.extraQDagger)));
     const mde = tf.mean(tf.concat(squares.map((t) => tf.reshape(t, [-1])), 0)) as TfModule.Scalar;
     const zero = tf.scalar(0);
-    // The alternating strategy trains on the MDE alone: skip the density quadrature then.
-    if (!nets.field || mdeOnly) return { mde, incompressibility: zero, selfConsistency: zero, gauge: zero };
+    const periodicity = this.ends
+      ? (tf.mul(tf.add(periodicityLoss(tf, nets.q.logQ(this.ends.q)), periodicityLoss(tf, nets.qDagger.logQ(this.ends.qDagger))), 0.5) as TfModule.Scalar)
+      : zero;
+    // Row 0 of each grid is s = 0 (contour-nodes.ts).
+    const initial = this.isActive('initial') ? initialConditionLoss(tf, tf.concat([tf.slice(uq.v, [0, 0], [nx, -1]), tf.slice(uqd.v, [0, 0], [nx, -1])], 0)) : zero;
+    const own = { mde, periodicity, initial };
+    // The alternating strategy trains on the propagator terms alone: skip the density quadrature then.
+    if (!nets.field || propagatorOnly) return { ...own, incompressibility: zero, selfConsistency: zero, gauge: zero };
 
     const dens = gridDensities(tf, uq.v, uqd.v, nn, nx, this.weightsA, this.weightsB);
     const w = nets.field.forward(this.gridFieldFeatures!).v;
@@ -206,10 +237,10 @@ export class ScftProblem {
     if (this.species === 1) {
       const only = nets.chain.species[0];
       const phi = only === 'A' ? dens.phiA : dens.phiB;
-      return { mde, incompressibility: incompressibilityLoss(tf, phi, null), selfConsistency: zero, gauge: gaugeLoss(tf, 0, only === 'A' ? wA : wB, null) };
+      return { ...own, incompressibility: incompressibilityLoss(tf, phi, null), selfConsistency: zero, gauge: gaugeLoss(tf, 0, only === 'A' ? wA : wB, null) };
     }
     return {
-      mde,
+      ...own,
       incompressibility: incompressibilityLoss(tf, dens.phiA, dens.phiB),
       selfConsistency: selfConsistencyLoss(tf, this.chiN, wA, wB, dens.phiA, dens.phiB),
       gauge: gaugeLoss(tf, this.chiN, wA, wB),
@@ -316,5 +347,7 @@ export class ScftProblem {
     this.weightsA.dispose();
     this.weightsB.dispose();
     this.gridFieldFeatures?.dispose();
+    this.ends?.q.dispose();
+    this.ends?.qDagger.dispose();
   }
 }

@@ -16,7 +16,7 @@ import type { Tf } from './backend.js';
 import type { HistoryEntry } from './checkpoint.js';
 import type { ParameterSet } from './parameters.js';
 import type { LossTerm, LossValues, ScftProblem } from './scft-problem.js';
-import { LOSS_TERMS } from './scft-problem.js';
+import { LOSS_TERMS, PROPAGATOR_TERMS } from './scft-problem.js';
 import { updateFieldNetwork } from './field-update.js';
 
 export type StopReason = 'completed' | 'target-reached' | 'interrupted' | 'diverged';
@@ -58,6 +58,16 @@ export function learningRateAt(training: TrainConfig['training'], step: number):
   return training.learningRate * Math.pow(training.decay, step / training.decaySteps);
 }
 
+/**
+ * Weights of the alternating strategy's propagator step: the MDE at 1, the soft-constraint
+ * terms at their configured weights (0 when exact: the terms are then constant 0 anyway),
+ * the field-equation terms at 0 (the fields follow the SCFT update instead).
+ */
+export function propagatorWeights(config: TrainConfig): LossValues {
+  const w = config.losses.weights;
+  return Object.fromEntries(LOSS_TERMS.map((k) => [k, k === 'mde' ? 1 : PROPAGATOR_TERMS.includes(k) ? w[k] : 0])) as LossValues;
+}
+
 function weightedTotal(tf: Tf, parts: Record<LossTerm, TfModule.Scalar>, w: LossValues): TfModule.Scalar {
   let t = tf.mul(parts.mde, w.mde) as TfModule.Scalar;
   for (const k of LOSS_TERMS) if (k !== 'mde') t = tf.add(t, tf.mul(parts[k], w[k])) as TfModule.Scalar;
@@ -68,7 +78,9 @@ function weightedTotal(tf: Tf, parts: Record<LossTerm, TfModule.Scalar>, w: Loss
 function rebalance(tf: Tf, problem: ScftProblem, params: ParameterSet, factors: LossValues, alpha: number): void {
   const vars = params.variables();
   const stats = {} as Record<LossTerm, { max: number; mean: number }>;
-  for (const k of LOSS_TERMS) {
+  // A term that is a constant here (exact form, no field network) has no gradient to measure.
+  const active = LOSS_TERMS.filter((k) => problem.isActive(k));
+  for (const k of active) {
     stats[k] = tf.tidy(() => {
       const { grads } = tf.variableGrads(() => problem.terms()[k], vars);
       const flat = params.flattenGradients(grads);
@@ -82,7 +94,7 @@ function rebalance(tf: Tf, problem: ScftProblem, params: ParameterSet, factors: 
       return { max, mean: sum / flat.length };
     });
   }
-  for (const k of LOSS_TERMS) {
+  for (const k of active) {
     if (k === 'mde' || !(stats[k].mean > 0)) continue;
     const hat = stats.mde.max / stats[k].mean;
     factors[k] = (1 - alpha) * factors[k] + alpha * hat;
@@ -127,13 +139,13 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
       problem.invalidateFields();
     }
     const lr = learningRateAt(tr, step);
-    // Alternating: only the MDE term drives the gradient (fields detached; see field-update.ts).
-    const w = tr.strategy === 'alternating' ? ({ mde: 1, incompressibility: 0, selfConsistency: 0, gauge: 0 } as LossValues) : effective();
-    const mdeOnly = tr.strategy === 'alternating';
+    // Alternating: only the propagator terms drive the gradient (fields detached; see field-update.ts).
+    const w = tr.strategy === 'alternating' ? propagatorWeights(config) : effective();
+    const propagatorOnly = tr.strategy === 'alternating';
     const { total, terms } = tf.tidy(() => {
       let parts!: Record<LossTerm, TfModule.Scalar>;
       const { value, grads } = tf.variableGrads(() => {
-        parts = problem.terms(true, mdeOnly);
+        parts = problem.terms(true, propagatorOnly);
         for (const k of LOSS_TERMS) tf.keep(parts[k]);
         return weightedTotal(tf, parts, w);
       }, vars);
@@ -149,8 +161,8 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     }
     state.bestTotal = Math.min(state.bestTotal, total);
     state.step = step + 1;
-    if (mdeOnly) {
-      // The other terms are not trained on here; evaluate them (forward only) when logged.
+    if (propagatorOnly) {
+      // The field terms are not trained on here; evaluate them (forward only) when logged.
       const logNow = state.step % tr.logEvery === 0 || state.step === tr.steps || (tr.evaluateEvery > 0 && state.step % tr.evaluateEvery === 0);
       if (logNow || !lastTerms) {
         lastTerms = tf.tidy(() => {
@@ -158,7 +170,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
           return Object.fromEntries(LOSS_TERMS.map((k) => [k, t[k].dataSync()[0]])) as LossValues;
         });
       }
-      for (const k of LOSS_TERMS) if (k !== 'mde') terms[k] = lastTerms[k];
+      for (const k of LOSS_TERMS) if (!PROPAGATOR_TERMS.includes(k)) terms[k] = lastTerms[k];
     }
     const done = state.step - startStep;
     const rate = done / Math.max(1e-9, (performance.now() - t0) / 1000);

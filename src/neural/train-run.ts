@@ -23,7 +23,7 @@ import { buildScftNetworks } from './scft-networks.js';
 import type { ScftNetworks } from './scft-networks.js';
 import { LOSS_TERMS, ScftProblem } from './scft-problem.js';
 import type { LossValues } from './scft-problem.js';
-import { polishWithLbfgs, runTraining } from './train-loop.js';
+import { polishWithLbfgs, propagatorWeights, runTraining } from './train-loop.js';
 import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
 import { warmStart } from './warm-start.js';
 import { updateFieldNetwork } from './field-update.js';
@@ -202,10 +202,11 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
 
   if (config.training.lbfgsIterations > 0) {
     stage(`L-BFGS polish (${config.training.lbfgsIterations} iterations)`);
-    // Alternating: the polish, like the Adam steps, solves the MDE in the current fields.
-    const weights = Object.fromEntries(
-      LOSS_TERMS.map((k) => [k, config.training.strategy === 'alternating' ? (k === 'mde' ? 1 : 0) : config.losses.weights[k] * loop.state.lossWeights[k]]),
-    ) as LossValues;
+    // Alternating: the polish, like the Adam steps, solves the MDE (and soft constraints) in the current fields.
+    const weights =
+      config.training.strategy === 'alternating'
+        ? propagatorWeights(config)
+        : (Object.fromEntries(LOSS_TERMS.map((k) => [k, config.losses.weights[k] * loop.state.lossWeights[k]])) as LossValues);
     // Alternating: polish in cycles, each a field update then L-BFGS on the MDE in the new fields.
     const tr = config.training;
     const cycles = tr.strategy === 'alternating' && nets.field ? tr.lbfgsCycles : 1;

@@ -7,22 +7,29 @@ import { buildChain } from '../../src/physics/chain.js';
 
 // Parameter gradients of the full SCFT loss (every term, fields coupled into the MDE)
 // against central finite differences of the loss itself (common practice, no source).
+// 'soft': soft periodicity and initial condition, so their two terms are in the loss too.
 describe('full-loss parameter gradients', () => {
-  for (const backend of ['cpu', 'wasm'] as const) {
-    it(`match finite differences on ${backend}`, async () => {
+  for (const [backend, constraints] of [['cpu', 'exact'], ['wasm', 'exact'], ['cpu', 'soft'], ['wasm', 'soft']] as const) {
+    it(`match finite differences on ${backend} (${constraints} constraints)`, async () => {
       const { tf } = await selectBackend(backend);
       const config = trainConfigSchema.parse({
         version: 1,
         kind: 'train',
         system: { chain: { type: 'diblock', f: 0.4 }, chiN: 14 },
-        networks: { field: { hidden: [6] }, propagator: { hidden: [6, 6] } },
+        networks: { field: { hidden: [6] }, propagator: { hidden: [6, 6], periodicity: constraints, initialCondition: constraints } },
         collocation: { nx: 8, nodesPerBlock: 4, random: 16 },
       });
       const chain = buildChain(config.system.chain);
       const nets = buildScftNetworks(tf, config, chain, 3.5, true);
       const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'coupled');
       problem.resample(0);
-      const weights = { mde: 1, incompressibility: 3, selfConsistency: 5, gauge: 2 };
+      const weights = { mde: 1, periodicity: 4, initial: 6, incompressibility: 3, selfConsistency: 5, gauge: 2 };
+      if (constraints === 'soft') {
+        // The soft terms are a sizeable part of the loss here, so their gradients are tested.
+        const t = tf.tidy(() => problem.terms());
+        expect(t.periodicity.dataSync()[0]).toBeGreaterThan(1e-3);
+        expect(t.initial.dataSync()[0]).toBeGreaterThan(1e-3);
+      }
       const lossAt = () => tf.tidy(() => problem.total(weights).total.dataSync()[0]);
       let grad!: Float64Array;
       tf.tidy(() => {

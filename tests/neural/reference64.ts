@@ -51,8 +51,18 @@ export function features64(x: number, period: number, modes: number): number[] {
   return f;
 }
 
-/** u = ln q by the piecewise formula: u = U_k(x) + (s − s_k) n_k(x, (s − s_k)/Δ_k). */
-export function logQ64(pieces: Mlp64[], bounds: number[], activation: 'tanh' | 'sin', period: number, modes: number, x: number, s: number, forcePiece?: number): number[] {
+/** Options of the soft constraints (propagator-net.ts header): scaled x input, free first piece. */
+export interface Soft64 {
+  periodicity?: boolean;
+  initialCondition?: boolean;
+}
+
+/**
+ * u = ln q by the piecewise formula: u = U_k(x) + (s − s_k) n_k(x, (s − s_k)/Δ_k); with a
+ * soft initial condition the first piece is n_0 itself (factor 1 in place of s − s_0 and Δ_0),
+ * with soft periodicity x enters as 2x/L − 1.
+ */
+export function logQ64(pieces: Mlp64[], bounds: number[], activation: 'tanh' | 'sin', period: number, modes: number, x: number, s: number, forcePiece?: number, soft: Soft64 = {}): number[] {
   let k = 0;
   for (let j = bounds.length - 2; j > 0; j--) {
     if (s >= bounds[j]) {
@@ -61,13 +71,14 @@ export function logQ64(pieces: Mlp64[], bounds: number[], activation: 'tanh' | '
     }
   }
   if (forcePiece !== undefined) k = forcePiece;
-  const fx = features64(x, period, modes);
+  const fx = soft.periodicity ? [(2 * x) / period - 1] : features64(x, period, modes);
   const d = bounds[k + 1] - bounds[k];
+  const factor = (j: number, offset: number) => (soft.initialCondition && j === 0 ? 1 : offset);
   const nk = mlp64(pieces[k], activation, [...fx, (s - bounds[k]) / d]);
-  const u = nk.map((v) => (s - bounds[k]) * v);
+  const u = nk.map((v) => factor(k, s - bounds[k]) * v);
   for (let j = 0; j < k; j++) {
     const nj = mlp64(pieces[j], activation, [...fx, 1]);
-    for (let c = 0; c < u.length; c++) u[c] += (bounds[j + 1] - bounds[j]) * nj[c];
+    for (let c = 0; c < u.length; c++) u[c] += factor(j, bounds[j + 1] - bounds[j]) * nj[c];
   }
   return u;
 }

@@ -52,6 +52,10 @@ export function registerTrain(program: Command): void {
         const backend = backendFlag(flags.backend);
         const outDir = flags.out ?? flags.resume ?? join('checkpoints', basename(configPath).replace(/(\.train)?\.json$/, ''));
         const progress = new Progress('train', flags.quiet);
+        const prop = config.networks.propagator;
+        // Soft constraints are shown only when chosen (they are an exact 0 otherwise).
+        const soft = (t: { periodicity: number; initial: number }) =>
+          `${prop.periodicity === 'soft' ? `, per ${fmt(t.periodicity)}` : ''}${prop.initialCondition === 'soft' ? `, ic ${fmt(t.initial)}` : ''}`;
         let stop = false;
         const onSigint = () => {
           if (stop) process.exit(130);
@@ -70,7 +74,7 @@ export function registerTrain(program: Command): void {
             shouldStop: () => stop,
             onProgress: (p) =>
               progress.update(
-                `step ${p.step}/${p.steps} | loss ${fmt(p.total)} (mde ${fmt(p.terms.mde)}, incomp ${fmt(p.terms.incompressibility)}, sc ${fmt(p.terms.selfConsistency)}, gauge ${fmt(p.terms.gauge)}) | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`,
+                `step ${p.step}/${p.steps} | loss ${fmt(p.total)} (mde ${fmt(p.terms.mde)}${soft(p.terms)}, incomp ${fmt(p.terms.incompressibility)}, sc ${fmt(p.terms.selfConsistency)}, gauge ${fmt(p.terms.gauge)}) | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`,
                 p.step === p.steps,
               ),
           });

@@ -21,7 +21,7 @@ const architectureShape = {
 /** Network for the fields w_K(x): input features of x only. */
 export const fieldNetworkSchema = z.object(architectureShape).strict();
 
-/** Network for ln q(x, s) = s·n(x, s), one piece for the whole chain or one per block. */
+/** Network for ln q(x, s) = s·n(x, s) (or n(x, s), soft initial condition), one piece for the whole chain or one per block. */
 export const propagatorNetworkSchema = z
   .object({
     ...architectureShape,
@@ -30,6 +30,17 @@ export const propagatorNetworkSchema = z
      * continuously at each junction, so ∂q/∂s may jump there as the MDE requires.
      */
     pieces: z.enum(['single', 'per-block']).default('per-block'),
+    /**
+     * 'exact': x enters through the periodic features above. 'soft': through 2x/L − 1 alone
+     * (fourierModes unused), and the loss term `periodicity` penalises the mismatch of ln q
+     * and ∂x ln q between x = 0 and x = L. The field network is exactly periodic either way.
+     */
+    periodicity: z.enum(['exact', 'soft']).default('exact'),
+    /**
+     * 'exact': ln q = s·n(x, s) on the first block, so q(x, 0) = 1 by construction. 'soft':
+     * ln q = n(x, s) there, and the loss term `initial` penalises (ln q(x, 0))² on the x grid.
+     */
+    initialCondition: z.enum(['exact', 'soft']).default('exact'),
   })
   .strict();
 

@@ -11,6 +11,14 @@ export const lossWeightsSchema = z
   .object({
     /** MDE residual of q and of q† (in ln q form), mean square over collocation points. */
     mde: z.number().min(0).default(1),
+    /**
+     * Soft periodicity only: (Δu)² + (Δ∂x u)² between x = 0 and x = L, u = ln q, mean over
+     * the contour nodes. The alternating strategy trains the propagators on the MDE (weight 1)
+     * plus this and `initial` at the weights given here.
+     */
+    periodicity: z.number().min(0).default(1),
+    /** Soft initial condition only: (ln q(x, 0))², mean over the x grid, both propagators. */
+    initial: z.number().min(0).default(1),
     /** (φ_A + φ_B − 1)², mean over the x grid. */
     incompressibility: z.number().min(0).default(1),
     /** (w_A − w_B − χN(φ_B − φ_A))², mean over the x grid. */
