@@ -60,6 +60,7 @@ export interface TrainMetrics {
     lbfgs?: { iterations: number; finalLoss: number; reason: string };
     reachedTarget?: { step: number; seconds: number };
     transferredFrom?: { checkpoint: string; chiN: number; f: number };
+    transfer?: TransferReport;
     resumedFrom?: { checkpoint: string; step: number };
   };
 }
@@ -80,6 +81,42 @@ function sameArchitecture(a: TrainConfig, b: TrainConfig): string | null {
   return null;
 }
 
+/**
+ * What a transfer (initFrom) saved: Adam steps and seconds to reach targetPhiError, against
+ * the same config warm-started from the reference (training.transferBaseline). The
+ * baseline's seconds include its warm start (the work the transfer replaces); neither side
+ * counts the reference solve, which both do alike. null: that run did not reach the target.
+ */
+export interface TransferReport {
+  targetPhiError: number;
+  transfer: { steps: number; seconds: number } | null;
+  baseline?: { steps: number; seconds: number; warmStartSteps: number; warmStartSeconds: number } | null;
+  saved?: { steps: number; seconds: number } | null;
+}
+
+function checkTransferBaseline(config: TrainConfig): void {
+  const tr = config.training;
+  if (tr.transferBaseline === 'none') return;
+  const missing = [!config.initFrom && 'initFrom', tr.targetPhiError === undefined && 'training.targetPhiError', !(tr.evaluateEvery > 0) && 'training.evaluateEvery > 0'].filter(Boolean);
+  if (missing.length > 0) throw new InputError(`training.transferBaseline: got "${tr.transferBaseline}"; it needs ${missing.join(', ')} (allowed without them: "none")`);
+}
+
+/** Train the same config warm-started from the reference, up to the same target (see TransferReport). */
+async function transferBaseline(opts: TrainRunOptions, config: TrainConfig): Promise<TransferReport['baseline']> {
+  const stage = opts.onStage ?? (() => {});
+  const r = await trainRun({
+    config: { ...config, initFrom: undefined, warmStart: { ...config.warmStart, type: 'reference' }, training: { ...config.training, transferBaseline: 'none' } },
+    backend: opts.backend,
+    onProgress: opts.onProgress,
+    onStage: (m) => stage(`baseline (warm start, no transfer): ${m}`),
+    shouldStop: opts.shouldStop,
+  });
+  const t = r.metrics.training;
+  if (!t.reachedTarget) return null;
+  const ws = t.warmStart ?? { steps: 0, seconds: 0 };
+  return { steps: t.reachedTarget.step, seconds: ws.seconds + t.reachedTarget.seconds, warmStartSteps: ws.steps, warmStartSeconds: ws.seconds };
+}
+
 function unitWeights(): LossValues {
   return Object.fromEntries(LOSS_TERMS.map((k) => [k, 1])) as LossValues;
 }
@@ -92,6 +129,7 @@ export function evaluateNetworks(tf: Tf, nets: ScftNetworks, config: TrainConfig
 export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const t0 = performance.now();
   let config = opts.config;
+  checkTransferBaseline(config);
   const stage = opts.onStage ?? (() => {});
   let resumed: LoadedCheckpoint | null = null;
   if (opts.resumeDir) {
@@ -228,6 +266,16 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   stage('evaluating against the reference');
   const { network, errors } = evaluateNetworks(tf, nets, config, reference, true);
   const freshResiduals = problem.freshResiduals(0x5eed, 1024);
+  const target = config.training.targetPhiError;
+  if (training.transferredFrom && target !== undefined) {
+    const reached = loop.reachedTarget ? { steps: loop.reachedTarget.step, seconds: loop.reachedTarget.seconds } : null;
+    const report: TransferReport = { targetPhiError: target, transfer: reached };
+    if (config.training.transferBaseline === 'warm-start') {
+      report.baseline = await transferBaseline(opts, config);
+      report.saved = reached && report.baseline ? { steps: report.baseline.steps - reached.steps, seconds: report.baseline.seconds - reached.seconds } : null;
+    }
+    training.transfer = report;
+  }
   const metrics: TrainMetrics = {
     backend: handle.backend,
     tfjs: handle.tfjsVersion,

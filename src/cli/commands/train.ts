@@ -6,6 +6,7 @@ import { loadJsonFile } from '../../io/load-json.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action, numberFlag } from '../run-command.js';
+import type { TransferReport } from '../../neural/train-run.js';
 
 interface TrainFlags {
   out?: string;
@@ -27,6 +28,19 @@ function backendFlag(v: string | undefined): (typeof BACKENDS)[number] | undefin
 
 function fmt(v: number): string {
   return Number.isFinite(v) ? v.toExponential(2) : String(v);
+}
+
+/** Steps and time a transfer took to its target, and what it saved against a warm start. */
+function transferLines(t: TransferReport, from: string): string[] {
+  const reach = (r: { steps: number; seconds: number } | null | undefined, what: string) =>
+    r ? `φA error < ${t.targetPhiError} at step ${r.steps} (${r.seconds.toFixed(1)} s ${what})` : `φA error < ${t.targetPhiError} not reached`;
+  const lines = [`transfer from ${from}: ${reach(t.transfer, 'of training')}`];
+  if (t.baseline !== undefined) {
+    const b = t.baseline;
+    lines.push(`warm-start baseline: ${reach(b, b ? `with its ${b.warmStartSteps}-step warm start, ${b.warmStartSeconds.toFixed(1)} s` : '')}`);
+    lines.push(t.saved ? `saved by the transfer: ${t.saved.steps} steps, ${t.saved.seconds.toFixed(1)} s` : 'saved by the transfer: not measured (a run did not reach the target)');
+  }
+  return lines;
 }
 
 export function registerTrain(program: Command): void {
@@ -87,6 +101,7 @@ export function registerTrain(program: Command): void {
                 `trained ${m.reference.chain}, χN = ${m.reference.chiN}, period ${m.reference.period.toFixed(5)} Rg on ${m.backend} (tfjs ${m.tfjs})${m.sharedPropagator ? ', one propagator network for q and q†' : ''}`,
                 `φA relative L2 error ${fmt(m.errors.phiA.relativeL2)} (max ${fmt(m.errors.phiA.maxError)}), wA − wB relative L2 ${fmt(m.errors.exchangeField.relativeL2)}`,
                 `Q relative error ${fmt(m.errors.QRelativeError)}, F error ${fmt(m.errors.freeEnergyError)} kT/chain (network ${m.network.freeEnergy.toFixed(6)}, reference ${m.reference.freeEnergy.toFixed(6)})`,
+                ...(m.training.transfer ? transferLines(m.training.transfer, m.training.transferredFrom!.checkpoint) : []),
                 `checkpoint ${outDir} (metrics.json, network.json, reference.json)`,
               ].join('\n') + '\n',
             );

@@ -128,6 +128,12 @@ export const trainConfigSchema = z
         evaluateEvery: z.number().int().min(0).default(0),
         /** Stop early once φ_A relative L2 error is below this (needs evaluateEvery > 0). */
         targetPhiError: z.number().gt(0).optional(),
+        /**
+         * With initFrom: 'warm-start' also trains this config from a warm start on the
+         * reference (no initFrom) up to targetPhiError and reports the steps and seconds the
+         * transfer saved. Needs initFrom, targetPhiError and evaluateEvery > 0.
+         */
+        transferBaseline: z.enum(['warm-start', 'none']).default('none'),
       })
       .strict()
       .prefault({}),
