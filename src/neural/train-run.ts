@@ -85,13 +85,15 @@ function sameArchitecture(a: TrainConfig, b: TrainConfig): string | null {
  * What a transfer (initFrom) saved: Adam steps and seconds to reach targetPhiError, against
  * the same config warm-started from the reference (training.transferBaseline). The
  * baseline's seconds include its warm start (the work the transfer replaces); neither side
- * counts the reference solve, which both do alike. null: that run did not reach the target.
+ * counts the reference solve, which both do alike. transfer null: it did not reach the
+ * target (nothing saved to report). A baseline that did not reach it (reached false) gives
+ * its whole budget, so the saving is a lower bound (saved.lowerBound).
  */
 export interface TransferReport {
   targetPhiError: number;
   transfer: { steps: number; seconds: number } | null;
-  baseline?: { steps: number; seconds: number; warmStartSteps: number; warmStartSeconds: number } | null;
-  saved?: { steps: number; seconds: number } | null;
+  baseline?: { reached: boolean; steps: number; seconds: number; warmStartSteps: number; warmStartSeconds: number };
+  saved?: { steps: number; seconds: number; lowerBound: boolean } | null;
 }
 
 function checkTransferBaseline(config: TrainConfig): void {
@@ -102,7 +104,7 @@ function checkTransferBaseline(config: TrainConfig): void {
 }
 
 /** Train the same config warm-started from the reference, up to the same target (see TransferReport). */
-async function transferBaseline(opts: TrainRunOptions, config: TrainConfig): Promise<TransferReport['baseline']> {
+async function transferBaseline(opts: TrainRunOptions, config: TrainConfig): Promise<NonNullable<TransferReport['baseline']>> {
   const stage = opts.onStage ?? (() => {});
   const r = await trainRun({
     config: { ...config, initFrom: undefined, warmStart: { ...config.warmStart, type: 'reference' }, training: { ...config.training, transferBaseline: 'none' } },
@@ -112,9 +114,9 @@ async function transferBaseline(opts: TrainRunOptions, config: TrainConfig): Pro
     shouldStop: opts.shouldStop,
   });
   const t = r.metrics.training;
-  if (!t.reachedTarget) return null;
   const ws = t.warmStart ?? { steps: 0, seconds: 0 };
-  return { steps: t.reachedTarget.step, seconds: ws.seconds + t.reachedTarget.seconds, warmStartSteps: ws.steps, warmStartSeconds: ws.seconds };
+  const end = t.reachedTarget ?? { step: t.adamSteps, seconds: r.history.filter((h) => h.stage === 'adam').pop()?.seconds ?? 0 };
+  return { reached: Boolean(t.reachedTarget), steps: end.step, seconds: ws.seconds + end.seconds, warmStartSteps: ws.steps, warmStartSeconds: ws.seconds };
 }
 
 function unitWeights(): LossValues {
@@ -271,8 +273,9 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const reached = loop.reachedTarget ? { steps: loop.reachedTarget.step, seconds: loop.reachedTarget.seconds } : null;
     const report: TransferReport = { targetPhiError: target, transfer: reached };
     if (config.training.transferBaseline === 'warm-start') {
-      report.baseline = await transferBaseline(opts, config);
-      report.saved = reached && report.baseline ? { steps: report.baseline.steps - reached.steps, seconds: report.baseline.seconds - reached.seconds } : null;
+      const b = await transferBaseline(opts, config);
+      report.baseline = b;
+      report.saved = reached ? { steps: b.steps - reached.steps, seconds: b.seconds - reached.seconds, lowerBound: !b.reached } : null;
     }
     training.transfer = report;
   }

@@ -58,6 +58,8 @@ describe('transfer report', () => {
     // Both runs reach the loose target within the budget (measured: transfer 50 steps, baseline 100).
     expect(t.transfer.steps).toBe(m.training.reachedTarget.step);
     expect(t.transfer.steps % 10).toBe(0); // evaluated every 10 steps
+    expect(t.baseline.reached).toBe(true);
+    expect(t.saved.lowerBound).toBe(false);
     expect(t.baseline.warmStartSteps).toBe(300);
     expect(t.baseline.seconds).toBeGreaterThan(t.baseline.warmStartSeconds);
     expect(t.saved.steps).toBe(t.baseline.steps - t.transfer.steps);

@@ -35,10 +35,12 @@ function transferLines(t: TransferReport, from: string): string[] {
   const reach = (r: { steps: number; seconds: number } | null | undefined, what: string) =>
     r ? `φA error < ${t.targetPhiError} at step ${r.steps} (${r.seconds.toFixed(1)} s ${what})` : `φA error < ${t.targetPhiError} not reached`;
   const lines = [`transfer from ${from}: ${reach(t.transfer, 'of training')}`];
-  if (t.baseline !== undefined) {
-    const b = t.baseline;
-    lines.push(`warm-start baseline: ${reach(b, b ? `with its ${b.warmStartSteps}-step warm start, ${b.warmStartSeconds.toFixed(1)} s` : '')}`);
-    lines.push(t.saved ? `saved by the transfer: ${t.saved.steps} steps, ${t.saved.seconds.toFixed(1)} s` : 'saved by the transfer: not measured (a run did not reach the target)');
+  const b = t.baseline;
+  if (b) {
+    const ws = `with its ${b.warmStartSteps}-step warm start, ${b.warmStartSeconds.toFixed(1)} s`;
+    lines.push(`warm-start baseline: ${b.reached ? reach(b, ws) : `φA error < ${t.targetPhiError} not reached in ${b.steps} steps (${b.seconds.toFixed(1)} s ${ws})`}`);
+    const s = t.saved;
+    lines.push(s ? `saved by the transfer: ${s.lowerBound ? 'at least ' : ''}${s.steps} steps, ${s.seconds.toFixed(1)} s` : 'saved by the transfer: not measured (the transfer did not reach the target)');
   }
   return lines;
 }
