@@ -4,9 +4,11 @@
  * network-solution.ts) the deviation d of physics/scft-equations.ts gives the simple-
  * mixing update w' = w + λ d (gauge fixed), and the field network is refitted to w'.
  */
+import type { TrainConfig } from '../io/schemas/train-config.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import { fieldDeviation, fixGauge } from '../physics/scft-equations.js';
+import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
 import type { Tf } from './backend.js';
 import { networkSolution } from './network-solution.js';
 import type { ScftNetworks } from './scft-networks.js';
@@ -16,24 +18,67 @@ export interface FieldUpdateResult {
   /** max |d| before the update (kT): the SCFT residual of the networks. */
   residual: number;
   fitLoss: number;
+  /** Shift (Rg) that put the updated lamella back at the pinned phase (physics/translation.ts). */
+  pinShift?: number;
+}
+
+/** Phase of the lamellar harmonic the updates hold fixed, and the number of periods in the cell. */
+export interface LamellarPin {
+  periods: number;
+  phase: number;
 }
 
 /**
  * Refit the field network to w' = w + λ d(w, φ) (gauge fixed), for fields w on the grid x and
  * the densities φ that answer them; shared by the forward step below and the inverse estimator.
  */
-export function refitFieldsToUpdate(tf: Tf, nets: ScftNetworks, chiN: number, x: Float64Array, w: SpeciesArrays, phi: SpeciesArrays, mixing: number, fitSteps: number, learningRate: number): FieldUpdateResult {
+export function refitFieldsToUpdate(tf: Tf, nets: ScftNetworks, chiN: number, x: Float64Array, w: SpeciesArrays, phi: SpeciesArrays, mixing: number, fitSteps: number, learningRate: number, pin?: LamellarPin): FieldUpdateResult {
   if (!nets.field) return { residual: 0, fitLoss: 0 };
   const { deviation, residual } = fieldDeviation(nets.chain, chiN, w, phi);
   const target = { A: Float64Array.from(w.A), B: Float64Array.from(w.B) };
   for (const k of nets.chain.species) for (let j = 0; j < x.length; j++) target[k][j] += mixing * deviation[k][j];
   fixGauge(nets.chain, target);
+  const pinShift = pin && nets.chain.species.length === 2 ? pinLamellarPhase(target, nets.length, pin.periods, pin.phase) : undefined;
   const fit = warmStart(tf, nets, { x, w: target, chiN }, fitSteps, learningRate, undefined, nets.field.parameters);
-  return { residual, fitLoss: fit.finalLoss };
+  return { residual, fitLoss: fit.finalLoss, ...(pinShift !== undefined ? { pinShift } : {}) };
 }
 
-export function updateFieldNetwork(tf: Tf, nets: ScftNetworks, system: SystemSpec, nx: number, nodesPerBlock: number, mixing: number, fitSteps: number, learningRate: number): FieldUpdateResult {
-  if (!nets.field) return { residual: 0, fitLoss: 0 };
-  const sol = networkSolution(tf, nets, system, { periods: 1, nx, nodesPerBlock });
-  return refitFieldsToUpdate(tf, nets, system.chiN, sol.x, sol.w, sol.phi, mixing, fitSteps, learningRate);
+export interface FieldUpdateSettings {
+  /** Grid of the update: x points and contour nodes per block of the density quadrature. */
+  nx: number;
+  nodesPerBlock: number;
+  mixing: number;
+  fitSteps: number;
+  learningRate: number;
+  /** Lamellar periods in the cell (the harmonic whose phase is pinned). */
+  periods: number;
+}
+
+export function fieldUpdateSettings(config: Pick<TrainConfig, 'collocation' | 'training' | 'cell'>): FieldUpdateSettings {
+  const { collocation: c, training: t } = config;
+  return { nx: c.nx, nodesPerBlock: c.nodesPerBlock, mixing: t.fieldMixing, fitSteps: t.fieldFitSteps, learningRate: t.fieldFitLearningRate, periods: config.cell.periods };
+}
+
+/**
+ * The forward field step of alternating training, with the lamella's translation mode
+ * pinned at the phase the fields had at the first update (after the warm start, a
+ * transfer or a resume), so the iteration cannot wander along it.
+ */
+export class FieldUpdater {
+  private pin: LamellarPin | null = null;
+
+  constructor(
+    readonly tf: Tf,
+    readonly nets: ScftNetworks,
+    readonly system: SystemSpec,
+    readonly settings: FieldUpdateSettings,
+  ) {}
+
+  update(): FieldUpdateResult {
+    const { tf, nets, settings: st } = this;
+    if (!nets.field) return { residual: 0, fitLoss: 0 };
+    const sol = networkSolution(tf, nets, this.system, { periods: st.periods, nx: st.nx, nodesPerBlock: st.nodesPerBlock });
+    this.pin ??= { periods: st.periods, phase: lamellarPhase(sol.w, st.periods).phase };
+    return refitFieldsToUpdate(tf, nets, this.system.chiN, sol.x, sol.w, sol.phi, st.mixing, st.fitSteps, st.learningRate, this.pin);
+  }
 }

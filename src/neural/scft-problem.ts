@@ -69,6 +69,8 @@ export class ScftProblem {
   private readonly gridFieldFeatures: Jet | null;
   /** Soft periodicity: the points (0, s_i) then (L, s_i) at the grid's contour nodes, per propagator. */
   private readonly ends: { q: PropagatorPoints; qDagger: PropagatorPoints } | null;
+  /** Grid and extra points of each propagator as one set (one network pass per step), for the current extras. */
+  private merged: { for: PointSet; q: PointSet; qDagger: PointSet } | null = null;
   /** Index of the current resampling (−1: none drawn yet). */
   resamplings = -1;
 
@@ -199,6 +201,42 @@ export class ScftProblem {
     return mdeResidual(this.tf, net.logQ(set.points), set.diffusivity, this.pointField(set));
   }
 
+  /** The merged (grid + extra) point sets for the current extra points, built once per resampling. */
+  private mergedSets(): [PropagatorNet, PointSet][] | null {
+    if (!this.extraQ || !this.extraQDagger) return null;
+    if (this.merged?.for !== this.extraQ) {
+      this.disposeMerged();
+      const join = (net: PropagatorNet, chain: Chain, grid: PointSet, extra: PointSet) => {
+        const x = new Float64Array(grid.x.length + extra.x.length);
+        const s = new Float64Array(x.length);
+        x.set(grid.x);
+        x.set(extra.x, grid.x.length);
+        s.set(grid.s);
+        s.set(extra.s, grid.s.length);
+        return this.pointSet(net, chain, x, s);
+      };
+      this.merged = {
+        for: this.extraQ,
+        q: join(this.nets.q, this.nets.chain, this.gridQ, this.extraQ),
+        qDagger: join(this.nets.qDagger, this.nets.reversed, this.gridQDagger, this.extraQDagger),
+      };
+    }
+    return [
+      [this.nets.q, this.merged.q],
+      [this.nets.qDagger, this.merged.qDagger],
+    ];
+  }
+
+  private disposeMerged(): void {
+    if (!this.merged) return;
+    for (const set of [this.merged.q, this.merged.qDagger]) {
+      this.frozenFields.get(set)?.dispose();
+      this.frozenFields.delete(set);
+      set.dispose();
+    }
+    this.merged = null;
+  }
+
   /**
    * Every loss term as a scalar tensor (call inside tf.tidy or variableGrads). With
    * gridMde false the MDE term covers only the extra points (a fresh set in evaluation).
@@ -209,28 +247,42 @@ export class ScftProblem {
     const nets = this.nets;
     const nx = this.collocation.nx;
     const nn = this.nodes.s.length;
-    const uq = nets.q.logQ(this.gridQ.points);
-    const uqd = nets.qDagger.logQ(this.gridQDagger.points);
-    const squares: TfModule.Tensor[] = gridMde
-      ? [
-          tf.square(mdeResidual(tf, uq, this.gridQ.diffusivity, this.pointField(this.gridQ))),
-          tf.square(mdeResidual(tf, uqd, this.gridQDagger.diffusivity, this.pointField(this.gridQDagger))),
-        ]
-      : [];
-    if (this.extraQ) squares.push(tf.square(this.residual(nets.q, this.extraQ)));
-    if (this.extraQDagger) squares.push(tf.square(this.residual(nets.qDagger, this.extraQDagger)));
+    const squares: TfModule.Tensor[] = [];
+    let uq: TfModule.Tensor;
+    let uqd: TfModule.Tensor;
+    const merged = gridMde ? this.mergedSets() : null;
+    if (merged) {
+      // One pass per propagator over grid and extra points together (rows: grid first).
+      const nGrid = this.gridQ.x.length;
+      const all = merged.map(([net, set]) => {
+        const u = net.logQ(set.points);
+        squares.push(tf.square(mdeResidual(tf, u, set.diffusivity, this.pointField(set))));
+        return tf.slice(u.v, [0, 0], [nGrid, -1]);
+      });
+      [uq, uqd] = all;
+    } else {
+      const gq = nets.q.logQ(this.gridQ.points);
+      const gqd = nets.qDagger.logQ(this.gridQDagger.points);
+      if (gridMde) {
+        squares.push(tf.square(mdeResidual(tf, gq, this.gridQ.diffusivity, this.pointField(this.gridQ))));
+        squares.push(tf.square(mdeResidual(tf, gqd, this.gridQDagger.diffusivity, this.pointField(this.gridQDagger))));
+      }
+      if (this.extraQ) squares.push(tf.square(this.residual(nets.q, this.extraQ)));
+      if (this.extraQDagger) squares.push(tf.square(this.residual(nets.qDagger, this.extraQDagger)));
+      [uq, uqd] = [gq.v, gqd.v];
+    }
     const mde = tf.mean(tf.concat(squares.map((t) => tf.reshape(t, [-1])), 0)) as TfModule.Scalar;
     const zero = tf.scalar(0);
     const periodicity = this.ends
       ? (tf.mul(tf.add(periodicityLoss(tf, nets.q.logQ(this.ends.q)), periodicityLoss(tf, nets.qDagger.logQ(this.ends.qDagger))), 0.5) as TfModule.Scalar)
       : zero;
     // Row 0 of each grid is s = 0 (contour-nodes.ts).
-    const initial = this.isActive('initial') ? initialConditionLoss(tf, tf.concat([tf.slice(uq.v, [0, 0], [nx, -1]), tf.slice(uqd.v, [0, 0], [nx, -1])], 0)) : zero;
+    const initial = this.isActive('initial') ? initialConditionLoss(tf, tf.concat([tf.slice(uq, [0, 0], [nx, -1]), tf.slice(uqd, [0, 0], [nx, -1])], 0)) : zero;
     const own = { mde, periodicity, initial };
     // The alternating strategy trains on the propagator terms alone: skip the density quadrature then.
     if (!nets.field || propagatorOnly) return { ...own, incompressibility: zero, selfConsistency: zero, gauge: zero };
 
-    const dens = gridDensities(tf, uq.v, uqd.v, nn, nx, this.weightsA, this.weightsB);
+    const dens = gridDensities(tf, uq, uqd, nn, nx, this.weightsA, this.weightsB);
     const w = nets.field.forward(this.gridFieldFeatures!).v;
     const wA = tf.reshape(tf.slice(w, [0, 0], [-1, 1]), [1, nx]);
     const wB = tf.reshape(tf.slice(w, [0, 1], [-1, 1]), [1, nx]);
@@ -261,6 +313,7 @@ export class ScftProblem {
   resample(index: number): void {
     const { random, residualShare, seed } = this.collocation;
     this.invalidateFields();
+    this.disposeMerged();
     this.extraQ?.dispose();
     this.extraQDagger?.dispose();
     this.extraQ = null;
@@ -313,6 +366,7 @@ export class ScftProblem {
 
   setExtraPoints(pts: { q: { x: number[]; s: number[] }; qDagger: { x: number[]; s: number[] } }, index: number): void {
     this.invalidateFields();
+    this.disposeMerged();
     this.extraQ?.dispose();
     this.extraQDagger?.dispose();
     this.extraQ = this.pointSet(this.nets.q, this.nets.chain, Float64Array.from(pts.q.x), Float64Array.from(pts.q.s));
@@ -340,6 +394,7 @@ export class ScftProblem {
 
   dispose(): void {
     this.invalidateFields();
+    this.disposeMerged();
     this.gridQ.dispose();
     if (!this.nets.shared || this.gridQDagger !== this.gridQ) this.gridQDagger.dispose();
     this.extraQ?.dispose();

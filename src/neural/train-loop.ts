@@ -17,7 +17,7 @@ import type { HistoryEntry } from './checkpoint.js';
 import type { ParameterSet } from './parameters.js';
 import type { LossTerm, LossValues, ScftProblem } from './scft-problem.js';
 import { LOSS_TERMS, PROPAGATOR_TERMS } from './scft-problem.js';
-import { updateFieldNetwork } from './field-update.js';
+import { FieldUpdater, fieldUpdateSettings } from './field-update.js';
 
 export type StopReason = 'completed' | 'target-reached' | 'interrupted' | 'diverged';
 
@@ -39,7 +39,7 @@ export interface LoopHooks {
   evaluate?: () => number;
   /** True once the user asked to stop (Ctrl-C). */
   shouldStop?: () => boolean;
-  /** Replaces the forward field update of the alternating strategy (inverse runs). */
+  /** The field step of the alternating strategy: a FieldUpdater's, or the inverse estimator's own. */
   fieldUpdate?: () => void;
 }
 
@@ -114,6 +114,8 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
   const finish = (reason: StopReason, message: string): LoopResult => ({ reason, state: { ...state, lossWeights: { ...factors } }, lastCheckpointStep, message, seconds: elapsed(), reachedTarget });
 
   let lastTerms: LossValues | null = null;
+  let updater: FieldUpdater | null = null;
+  const fieldUpdate = hooks.fieldUpdate ?? (() => void (updater ??= new FieldUpdater(tf, problem.nets, problem.system, fieldUpdateSettings(config))).update());
   const effective = (): LossValues => Object.fromEntries(LOSS_TERMS.map((k) => [k, baseWeights[k] * factors[k]])) as LossValues;
 
   while (state.step < tr.steps) {
@@ -134,8 +136,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
       rebalance(tf, problem, params, factors, config.losses.balanceSmoothing);
     }
     if (tr.strategy === 'alternating' && step > startStep && step % tr.fieldUpdateEvery === 0) {
-      if (hooks.fieldUpdate) hooks.fieldUpdate();
-      else updateFieldNetwork(tf, problem.nets, problem.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
+      fieldUpdate();
       problem.invalidateFields();
     }
     const lr = learningRateAt(tr, step);

@@ -26,7 +26,7 @@ import type { LossValues } from './scft-problem.js';
 import { polishWithLbfgs, propagatorWeights, runTraining } from './train-loop.js';
 import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
 import { warmStart } from './warm-start.js';
-import { updateFieldNetwork } from './field-update.js';
+import { FieldUpdater, fieldUpdateSettings } from './field-update.js';
 
 /** Contour nodes per block for evaluating a network (finer than training: quadrature error stays negligible). */
 export const EVALUATION_NODES_PER_BLOCK = 64;
@@ -198,6 +198,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
 
   const problem = new ScftProblem(tf, nets, config.system, config.collocation, config.training.strategy === 'alternating' ? 'detached' : config.losses.fieldInMde);
   problem.fieldsFrozen = config.training.strategy === 'alternating';
+  const fieldUpdater = new FieldUpdater(tf, nets, config.system, { ...fieldUpdateSettings(config), periods: reference.periods });
   const extra = resumed?.file.extraPoints;
   if (resumed && extra) problem.setExtraPoints(extra, Math.floor(resumed.file.step / config.collocation.resampleEvery));
 
@@ -222,6 +223,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
 
   stage(`training (${handle.backend} backend, tfjs ${handle.tfjsVersion})`);
   const loop = await runTraining(tf, problem, nets.parameters, adam, config, state, {
+    fieldUpdate: () => void fieldUpdater.update(),
     onProgress: opts.onProgress,
     checkpoint: (st) => save(st, 'adam'),
     evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
@@ -254,7 +256,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     let iterations = 0;
     for (let c = 0; c < cycles; c++) {
       if (cycles > 1) {
-        updateFieldNetwork(tf, nets, config.system, config.collocation.nx, config.collocation.nodesPerBlock, tr.fieldMixing, tr.fieldFitSteps, tr.fieldFitLearningRate);
+        fieldUpdater.update();
         problem.invalidateFields();
       }
       r = polishWithLbfgs(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles));
