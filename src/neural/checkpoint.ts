@@ -31,6 +31,8 @@ export const historyEntrySchema = z.object({
   learningRate: z.number(),
   seconds: z.number(),
   phiError: z.number().optional(),
+  /** L-BFGS entries: polish iterations done so far (the Adam step count stays in `step`). */
+  lbfgsIterations: z.number().int().min(0).optional(),
 });
 
 export const checkpointFileSchema = z.object({
@@ -64,8 +66,16 @@ export interface LoadedCheckpoint {
 }
 
 export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<CheckpointFile, 'kind' | 'version' | 'weightSpecs' | 'weightBytes'>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
+  await writeWeightsDirectory(tf, dir, { kind: 'checkpoint', version: 1, ...meta }, tensors, extraFiles);
+}
+
+/**
+ * A directory of `checkpoint.json` (meta plus the weight manifest) and `weights.bin`, written
+ * whole and swapped in (the layout above; also used by other network kinds, e.g. surrogates).
+ */
+export async function writeWeightsDirectory(tf: Tf, dir: string, meta: Record<string, unknown>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
   const { data, specs } = await tf.io.encodeWeights(tensors.map((t) => ({ name: t.name, tensor: t.tensor })));
-  const file: CheckpointFile = { kind: 'checkpoint', version: 1, ...meta, weightSpecs: specs as CheckpointFile['weightSpecs'], weightBytes: data.byteLength };
+  const file = { ...meta, weightSpecs: specs, weightBytes: data.byteLength };
   writeDirectoryAtomic(dir, {
     'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
     'weights.bin': new Uint8Array(data),
@@ -75,6 +85,11 @@ export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<CheckpointF
 
 /** Read and check a checkpoint; every problem is an InputError that says what is wrong. */
 export function loadCheckpoint(tf: Tf, dir: string): LoadedCheckpoint {
+  return readWeightsDirectory(tf, dir, checkpointFileSchema);
+}
+
+/** Read a directory written by writeWeightsDirectory and check it against `schema`; every problem is an InputError. */
+export function readWeightsDirectory<S extends z.ZodType<{ weightSpecs: unknown[]; weightBytes: number }>>(tf: Tf, dir: string, schema: S): { file: z.infer<S>; weights: TfModule.NamedTensorMap } {
   const metaPath = join(dir, 'checkpoint.json');
   const binPath = join(dir, 'weights.bin');
   if (!existsSync(metaPath)) throw new InputError(`${dir}: not a checkpoint directory (no checkpoint.json)`);
@@ -85,7 +100,7 @@ export function loadCheckpoint(tf: Tf, dir: string): LoadedCheckpoint {
   } catch (e) {
     throw new InputError(`${metaPath}: corrupted checkpoint (not valid JSON: ${(e as Error).message})`);
   }
-  const parsed = checkpointFileSchema.safeParse(raw);
+  const parsed = schema.safeParse(raw);
   if (!parsed.success) throw new InputError(`${metaPath}: not a valid checkpoint\n${formatZodError(parsed.error, raw, metaPath)}`);
   const file = parsed.data;
   const buf = readFileSync(binPath);

@@ -72,3 +72,15 @@ export function fieldsFromComposition(chain: Chain, chiN: number, phiA: Float64A
   fixGauge(chain, w);
   return w;
 }
+
+/**
+ * One simple-mixing step of the field iteration: w' = w + λ d(w, φ) with d from
+ * fieldDeviation, gauge fixed. Returns w' and the residual max |d| of the input (kT).
+ */
+export function mixedFieldUpdate(chain: Chain, chiN: number, w: SpeciesArrays, phi: SpeciesArrays, mixing: number): { w: SpeciesArrays; residual: number } {
+  const { deviation, residual } = fieldDeviation(chain, chiN, w, phi);
+  const out = { A: Float64Array.from(w.A), B: Float64Array.from(w.B) };
+  for (const k of chain.species) for (let j = 0; j < out[k].length; j++) out[k][j] += mixing * deviation[k][j];
+  fixGauge(chain, out);
+  return { w: out, residual };
+}

@@ -17,7 +17,7 @@ export interface SolutionMetrics {
   incompressibilityMax: number;
 }
 
-function relL2(u: ArrayLike<number>, r: ArrayLike<number>): number {
+export function relL2(u: ArrayLike<number>, r: ArrayLike<number>): number {
   let num = 0;
   let den = 0;
   for (let j = 0; j < r.length; j++) {

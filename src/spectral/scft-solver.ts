@@ -92,6 +92,72 @@ export function countDomains(phiA: Float64Array): number {
   return n;
 }
 
+interface CellContext {
+  req: Pick<FixedCellRequest, 'system' | 'length' | 'periods' | 'nx' | 'keepPropagators'>;
+  chain: Chain;
+  contour: ReturnType<typeof contourGrid>;
+  cell: { length: number; nx: number };
+  fixed: SpeciesArrays | undefined;
+  t0: number;
+  notes: string[];
+}
+
+/** The solution record of fields w and the densities they give (F from physics/scft-equations.ts). */
+function cellSolution(c: CellContext, w: SpeciesArrays, dens: ReturnType<PropagatorSolver['solve']>, iterations: number, residual: number, converged: boolean, phase: Phase): ScftSolution {
+  const { req, chain, contour, cell, fixed } = c;
+  const chiN = req.system.chiN;
+  const F = fixed ? -Math.log(dens.Q) : freeEnergy(chiN, dens.Q, w, dens.phi);
+  const ns = contour.ns;
+  const s = new Float64Array(ns + 1).map((_, i) => i / ns);
+  return {
+    solver: 'spectral',
+    system: req.system,
+    length: req.length,
+    periods: req.periods,
+    period: req.length / req.periods,
+    nx: req.nx,
+    ns,
+    x: gridPoints(cell),
+    phi: dens.phi,
+    w,
+    Q: dens.Q,
+    QDagger: dens.QDagger,
+    freeEnergy: F,
+    freeEnergyDisordered: fixed ? Number.NaN : disorderedFreeEnergy(chain, chiN),
+    phase,
+    amplitude: spreadOf(dens.phi.A),
+    iterations,
+    residual,
+    converged,
+    seconds: (performance.now() - c.t0) / 1000,
+    propagators: req.keepPropagators ? { s, q: dens.q.map((a) => Float64Array.from(a)), qDagger: dens.qDagger.map((a) => Float64Array.from(a)) } : undefined,
+    notes: c.notes,
+  };
+}
+
+/**
+ * The densities, Q and F of a melt in given fields w, from one propagator solve and no
+ * iteration (how a field surrogate becomes a solution). `residual` is the SCFT residual
+ * max |w_out − w| of the given fields (kT): how far they are from self-consistent;
+ * `iterations` is 0 and `converged` says whether that residual is below the tolerance.
+ */
+export function solveInFields(req: Omit<FixedCellRequest, 'initial'> & { fields: SpeciesArrays }): ScftSolution {
+  const t0 = performance.now();
+  const options = defaultSpectralOptions(req.options);
+  const chain = buildChain(req.system.chain);
+  const cell = { length: req.length, nx: req.nx };
+  checkCell(cell);
+  if (req.fields.A.length !== req.nx || req.fields.B.length !== req.nx) throw new RangeError(`solveInFields: fields have ${req.fields.A.length} points, the cell ${req.nx}`);
+  const contour = contourGrid(chain, req.ns);
+  const solver = new PropagatorSolver(chain, cell, contour, { richardson: options.richardson });
+  solver.setFields(req.fields);
+  const dens = solver.solve();
+  const { residual } = fieldDeviation(chain, req.system.chiN, req.fields, dens.phi);
+  const phase: Phase = chain.species.length === 1 ? 'homogeneous-melt' : spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
+  const notes = ['densities from one propagator solve in the given fields (no SCFT iteration)'];
+  return cellSolution({ req, chain, contour, cell, fixed: undefined, t0, notes }, req.fields, dens, 0, residual, residual < options.tolerance, phase);
+}
+
 export function solveFixedCell(req: FixedCellRequest): ScftSolution {
   const t0 = performance.now();
   const options = defaultSpectralOptions(req.options);
@@ -104,35 +170,8 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
   const notes: string[] = [];
   const fixed = externalFields(req.system, cell);
 
-  const finish = (w: SpeciesArrays, dens: ReturnType<PropagatorSolver['solve']>, iterations: number, residual: number, converged: boolean, phase: Phase): ScftSolution => {
-    const F = fixed ? -Math.log(dens.Q) : freeEnergy(chiN, dens.Q, w, dens.phi);
-    const ns = contour.ns;
-    const s = new Float64Array(ns + 1).map((_, i) => i / ns);
-    return {
-      solver: 'spectral',
-      system: req.system,
-      length: req.length,
-      periods: req.periods,
-      period: req.length / req.periods,
-      nx: req.nx,
-      ns,
-      x: gridPoints(cell),
-      phi: dens.phi,
-      w,
-      Q: dens.Q,
-      QDagger: dens.QDagger,
-      freeEnergy: F,
-      freeEnergyDisordered: fixed ? Number.NaN : disorderedFreeEnergy(chain, chiN),
-      phase,
-      amplitude: spreadOf(dens.phi.A),
-      iterations,
-      residual,
-      converged,
-      seconds: (performance.now() - t0) / 1000,
-      propagators: req.keepPropagators ? { s, q: dens.q.map((a) => Float64Array.from(a)), qDagger: dens.qDagger.map((a) => Float64Array.from(a)) } : undefined,
-      notes,
-    };
-  };
+  const finish = (w: SpeciesArrays, dens: ReturnType<PropagatorSolver['solve']>, iterations: number, residual: number, converged: boolean, phase: Phase): ScftSolution =>
+    cellSolution({ req, chain, contour, cell, fixed, t0, notes }, w, dens, iterations, residual, converged, phase);
 
   if (fixed) {
     solver.setFields(fixed);

@@ -36,7 +36,7 @@ export function sweepPoints(config: SweepConfig): SweepPoint[] {
   return points;
 }
 
-export function pointSystem(config: SweepConfig, p: Pick<SweepPoint, 'chiN' | 'f' | 'segmentLengthRatio'>): SystemSpec {
+export function pointSystem(config: Pick<SweepConfig, 'chain'>, p: Pick<SweepPoint, 'chiN' | 'f' | 'segmentLengthRatio'>): SystemSpec {
   const segmentLengths = { A: p.segmentLengthRatio, B: 1 };
   const chain =
     config.chain.type === 'triblock'

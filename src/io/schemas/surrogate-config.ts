@@ -1,0 +1,101 @@
+/**
+ * Config file kind "surrogate": one field network for a range of parameters (χN, and
+ * optionally f and b_A/b_B), fitted to reference solutions at anchor points and trained on
+ * the SCFT self-consistency everywhere in the range, then checked at held-out points
+ * (src/surrogate/).
+ *
+ * Lengths in Rg of a chain whose segments have the reference length b = b_B
+ * (SCFT-NOTES.md): a ratio r = b_A/b_B gives segment lengths { A: r, B: 1 }, as in a sweep.
+ */
+import { z } from 'zod';
+import { fieldNetworkSchema } from './network-schema.js';
+import { cellSchema } from './spectral-schema.js';
+import { sweepConfigSchema } from './sweep-config.js';
+
+/** A trained range [min, max] with `anchors` evenly spaced reference points (ends included). */
+function range(value: z.ZodNumber) {
+  return z
+    .object({
+      min: value,
+      max: value,
+      /** Reference solves (equilibrium period) spread evenly over [min, max], ends included. */
+      anchors: z.number().int().min(2).max(33).default(5),
+    })
+    .strict()
+    .refine((r) => r.min < r.max, { message: 'must have min < max (a fixed value is given as a plain number)' });
+}
+
+export const surrogateConfigSchema = z
+  .object({
+    version: z.literal(1),
+    kind: z.literal('surrogate'),
+    /** Chain architecture, as in a sweep; f and b_A/b_B come from `parameters`. */
+    chain: sweepConfigSchema.shape.chain,
+    parameters: z
+      .object({
+        /** χN range; the lamella must be ordered at every anchor (above the order–disorder transition). */
+        chiN: range(z.number().gt(0).max(500)),
+        /** A fraction: a fixed number, or a range. */
+        f: z.union([z.number().gt(0).lt(1), range(z.number().gt(0).lt(1))]).default(0.5),
+        /** Conformational asymmetry b_A/b_B: a fixed number, or a range. */
+        segmentLengthRatio: z.union([z.number().gt(0).lte(10), range(z.number().gt(0).lte(10))]).default(1),
+      })
+      .strict(),
+    /** Grid of every reference solve (anchors, extra data, held-out points) and of the surrogate's single-chain solve; one period per cell. */
+    cell: cellSchema.pick({ nx: true, ns: true }).prefault({}),
+    /** Spectral solver settings of every reference solve (start "file" is not allowed). */
+    reference: sweepConfigSchema.shape.reference,
+    backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
+    networks: z
+      .object({
+        /** The field network w(x; θ): periodic features of x/L(θ) and the normalised parameters as inputs. */
+        field: fieldNetworkSchema.prefault({}),
+      })
+      .strict()
+      .prefault({}),
+    warmStart: z
+      .object({
+        /** Adam steps, then L-BFGS iterations, fitting the field network to the reference fields (anchors and extra solves). */
+        adamSteps: z.number().int().min(0).max(100000).default(200),
+        learningRate: z.number().gt(0).lt(1).default(5e-3),
+        lbfgsIterations: z.number().int().min(0).max(100000).default(300),
+        /**
+         * Extra reference solves at random parameter points (cell length from the anchors'
+         * period interpolation), fitted like the anchors: the surrogate is then partly a fit.
+         */
+        extraSolves: z.number().int().min(0).max(10000).default(0),
+      })
+      .strict()
+      .prefault({}),
+    training: z
+      .object({
+        /**
+         * Physics rounds: at the anchors and `pointsPerRound` parameter points drawn afresh each
+         * round, the single-chain solve in the network's fields gives φ, the SCFT update
+         * w + mixing·d of physics/scft-equations.ts gives the new fields, and the field network
+         * is refitted to them (fitIterations of L-BFGS).
+         */
+        rounds: z.number().int().min(0).max(100000).default(20),
+        pointsPerRound: z.number().int().min(0).max(1000).default(16),
+        mixing: z.number().gt(0).lte(1).default(0.5),
+        fitIterations: z.number().int().min(1).max(10000).default(60),
+        /** Held-out error evaluated every this many rounds, into the history (0: only at the end). */
+        evaluateEvery: z.number().int().min(0).default(5),
+        seed: z.number().int().min(0).max(0xffffffff).default(7),
+      })
+      .strict()
+      .prefault({}),
+    evaluation: z
+      .object({
+        /** Held-out points: the centres of the anchor cells, plus this many random points. */
+        random: z.number().int().min(0).max(1000).default(2),
+        seed: z.number().int().min(0).max(0xffffffff).default(11),
+      })
+      .strict()
+      .prefault({}),
+  })
+  .strict();
+
+export type SurrogateConfig = z.infer<typeof surrogateConfigSchema>;
+export type SurrogateConfigInput = z.input<typeof surrogateConfigSchema>;
+export type ParameterRange = Extract<SurrogateConfig['parameters']['f'], { min: number }>;

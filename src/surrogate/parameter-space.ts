@@ -1,0 +1,163 @@
+/**
+ * The parameter box of a surrogate: which of χN, f, b_A/b_B vary, their ranges, the anchor
+ * grid (reference solves), held-out points, uniform draws, and the networks' normalised
+ * inputs θ̂ = (θ − mid)/half-range ∈ [−1, 1] per varying parameter.
+ * χN and f as in SCFT-NOTES.md; a ratio r = b_A/b_B sets segment lengths { A: r, B: 1 }.
+ */
+import { InputError } from '../io/errors.js';
+import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
+import type { SystemSpec } from '../physics/chain-schema.js';
+import { buildChain, contourGrid, ModelError } from '../physics/chain.js';
+import type { Chain } from '../physics/chain.js';
+import { Xorshift128 } from '../neural/random.js';
+import { pointSystem } from '../sweep/grid.js';
+
+export const PARAMETER_NAMES = ['chiN', 'f', 'segmentLengthRatio'] as const;
+export type ParameterName = (typeof PARAMETER_NAMES)[number];
+export type ParameterPoint = Record<ParameterName, number>;
+
+/** Flag names of the parameters (predict) and their symbols in messages. */
+export const PARAMETER_LABELS: Record<ParameterName, { flag: string; symbol: string }> = {
+  chiN: { flag: '--chiN', symbol: 'χN' },
+  f: { flag: '--f', symbol: 'f' },
+  segmentLengthRatio: { flag: '--ratio', symbol: 'b_A/b_B' },
+};
+
+export interface Axis {
+  name: ParameterName;
+  min: number;
+  max: number;
+  anchors: number;
+}
+
+export class ParameterSpace {
+  /** The varying parameters, in the order chiN, f, segmentLengthRatio. */
+  readonly axes: Axis[];
+  /** Values of the parameters that do not vary. */
+  readonly fixed: Partial<ParameterPoint>;
+
+  constructor(readonly config: Pick<SurrogateConfig, 'chain' | 'parameters'>) {
+    const axes: Axis[] = [];
+    const fixed: Partial<ParameterPoint> = {};
+    for (const name of PARAMETER_NAMES) {
+      const p = config.parameters[name];
+      if (typeof p === 'number') fixed[name] = p;
+      else axes.push({ name, min: p.min, max: p.max, anchors: p.anchors });
+    }
+    this.axes = axes;
+    this.fixed = fixed;
+  }
+
+  get dimension(): number {
+    return this.axes.length;
+  }
+
+  /** The full point from the varying values (in axis order). */
+  point(values: ArrayLike<number>): ParameterPoint {
+    const p = { ...this.fixed } as ParameterPoint;
+    this.axes.forEach((a, i) => (p[a.name] = values[i]));
+    return p;
+  }
+
+  values(p: ParameterPoint): number[] {
+    return this.axes.map((a) => p[a.name]);
+  }
+
+  /** θ̂ ∈ [−1, 1] per varying parameter (outside the box beyond ±1). */
+  normalised(p: ParameterPoint): number[] {
+    return this.axes.map((a) => (2 * (p[a.name] - a.min)) / (a.max - a.min) - 1);
+  }
+
+  system(p: ParameterPoint): SystemSpec {
+    return pointSystem(this.config, p);
+  }
+
+  chain(p: ParameterPoint): Chain {
+    return buildChain(this.system(p).chain);
+  }
+
+  /** Evenly spaced values of one axis, ends exact. */
+  static axisValues(a: Axis, count = a.anchors): number[] {
+    return Array.from({ length: count }, (_, i) => (i === count - 1 ? a.max : a.min + ((a.max - a.min) * i) / (count - 1)));
+  }
+
+  /** The anchor grid, first axis fastest. */
+  anchors(): ParameterPoint[] {
+    return this.grid(this.axes.map((a) => ParameterSpace.axisValues(a)));
+  }
+
+  private grid(values: number[][]): ParameterPoint[] {
+    const out: ParameterPoint[] = [];
+    const idx = values.map(() => 0);
+    const total = values.reduce((n, v) => n * v.length, 1);
+    for (let k = 0; k < total; k++) {
+      out.push(this.point(idx.map((i, d) => values[d][i])));
+      for (let d = 0; d < idx.length; d++) {
+        if (++idx[d] < values[d].length) break;
+        idx[d] = 0;
+      }
+    }
+    return out;
+  }
+
+  /** Centres of the anchor cells (midpoints between neighbouring anchors on every axis). */
+  cellCentres(): ParameterPoint[] {
+    return this.grid(
+      this.axes.map((a) => {
+        const v = ParameterSpace.axisValues(a);
+        return v.slice(1).map((x, i) => 0.5 * (x + v[i]));
+      }),
+    );
+  }
+
+  /** A uniform draw in the box. */
+  draw(rng: Xorshift128): ParameterPoint {
+    return this.point(this.axes.map((a) => a.min + (a.max - a.min) * rng.next()));
+  }
+
+  /** Held-out points: the anchor-cell centres, then `random` seeded uniform draws. */
+  heldOut(random: number, seed: number): ParameterPoint[] {
+    const rng = new Xorshift128(seed);
+    return [...this.cellCentres(), ...Array.from({ length: random }, () => this.draw(rng))];
+  }
+
+  /** Why p lies outside the trained box (one message per parameter), or [] inside it. */
+  outside(p: ParameterPoint): string[] {
+    const out: string[] = [];
+    for (const name of PARAMETER_NAMES) {
+      const { flag, symbol } = PARAMETER_LABELS[name];
+      const a = this.axes.find((x) => x.name === name);
+      if (a) {
+        if (!(p[name] >= a.min && p[name] <= a.max)) out.push(`${flag}: got ${p[name]}; the surrogate was trained for ${symbol} in [${a.min}, ${a.max}]`);
+      } else if (p[name] !== this.fixed[name]) {
+        out.push(`${flag}: got ${p[name]}; the surrogate was trained at the fixed ${symbol} = ${this.fixed[name]} only`);
+      }
+    }
+    return out;
+  }
+
+  /** Whether the chain reads the same from both ends everywhere in the box (checked at every corner and the centre). */
+  palindromicEverywhere(): boolean {
+    const corners = this.grid(this.axes.map((a) => [a.min, a.max]));
+    const centre = this.point(this.axes.map((a) => 0.5 * (a.min + a.max)));
+    return [...corners, centre].every((p) => this.chain(p).palindromic);
+  }
+
+  describe(p: ParameterPoint): string {
+    return PARAMETER_NAMES.filter((n) => this.axes.some((a) => a.name === n) || n === 'chiN')
+      .map((n) => `${PARAMETER_LABELS[n].symbol} = ${+p[n].toPrecision(6)}`)
+      .join(', ');
+  }
+}
+
+/** Check at set-up that every anchor's chain fits the contour grid (a bad f stops the run at once, exit 2). */
+export function checkSpace(space: ParameterSpace, ns: number): void {
+  for (const p of space.anchors()) {
+    try {
+      contourGrid(space.chain(p), ns);
+    } catch (e) {
+      if (e instanceof ModelError) throw new InputError(`${e.message} (at the anchor ${space.describe(p)})`);
+      throw e;
+    }
+  }
+}

@@ -1,0 +1,214 @@
+/**
+ * One surrogate training run from a surrogate config: anchor reference solves (equilibrium
+ * periods) and the period model, held-out reference solves, optional extra fit data, the
+ * field network's fit and physics rounds, the error map, the query timing, the checkpoint.
+ * The CLI's `train` hands surrogate configs here; tests call surrogateRun directly.
+ */
+import { RunFailure } from '../io/errors.js';
+import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
+import { solutionToFile } from '../io/solution-file.js';
+import { provenance } from '../io/versions.js';
+import { selectBackend } from '../neural/backend.js';
+import { childSeed, Xorshift128 } from '../neural/random.js';
+import type { ScftSolution } from '../physics/result.js';
+import { median } from '../bench/timing.js';
+import { heldOutErrors, onReferenceCell, summarizeErrors } from './error-map.js';
+import type { HeldOutError } from './error-map.js';
+import { checkSpace, ParameterSpace } from './parameter-space.js';
+import type { ParameterPoint } from './parameter-space.js';
+import type { PeriodModel } from './period-model.js';
+import { solveReference } from './reference-solves.js';
+import { saveSurrogate } from './surrogate-checkpoint.js';
+import type { SurrogateHistoryEntry } from './surrogate-checkpoint.js';
+import { SurrogateModel } from './surrogate-model.js';
+import { SurrogateTrainer } from './surrogate-training.js';
+import type { ReferencePoint } from './surrogate-training.js';
+
+export interface SurrogateRunOptions {
+  config: SurrogateConfig;
+  outDir?: string;
+  backend?: SurrogateConfig['backend'];
+  onStage?: (message: string) => void;
+  onRound?: (r: SurrogateHistoryEntry & { rounds: number }) => void;
+}
+
+export interface SurrogateMetrics {
+  kind: 'surrogate';
+  backend: string;
+  tfjs: string;
+  parameters: { name: string; min: number; max: number; anchors: number }[];
+  fixed: Partial<ParameterPoint>;
+  errors: ReturnType<typeof summarizeErrors>;
+  heldOut: HeldOutError[];
+  timing: {
+    /** Median wall time of one reference solve at the equilibrium period (anchors and held-out points), s. */
+    referenceSolveSeconds: number;
+    /** Median wall time of one surrogate query (fields + one propagator solve), after start-up, s. */
+    querySeconds: number;
+    /** referenceSolveSeconds / querySeconds. */
+    speedup: number;
+    anchorSeconds: number;
+    extraSolves: { count: number; seconds: number };
+    fitSeconds: number;
+    roundsSeconds: number;
+    /** Everything that built the surrogate (anchors, extra solves, fit, rounds; not the held-out check), s. */
+    buildSeconds: number;
+    /** buildSeconds / referenceSolveSeconds: the reference solves the same time would buy. */
+    equivalentReferenceSolves: number;
+    heldOutSeconds: number;
+  };
+  training: { fit: ReturnType<SurrogateTrainer['fit']>; rounds: number; lastResidual: number | null };
+}
+
+export interface SurrogateRunResult {
+  metrics: SurrogateMetrics;
+  model: SurrogateModel;
+  anchors: ReferencePoint[];
+  heldOut: ReferencePoint[];
+  history: SurrogateHistoryEntry[];
+  outDir?: string;
+}
+
+function timed<T>(f: () => T): [T, number] {
+  const t0 = performance.now();
+  const v = f();
+  return [v, (performance.now() - t0) / 1000];
+}
+
+/** The anchor whose parameters are nearest to p (in normalised units): its fields start a fixed-period solve at p. */
+function nearest(space: ParameterSpace, anchors: ReferencePoint[], p: ParameterPoint): ReferencePoint {
+  const d = (a: ReferencePoint) => space.normalised(a.point).reduce((s, v, i) => s + (v - space.normalised(p)[i]) ** 2, 0);
+  return anchors.reduce((best, a) => (d(a) < d(best) ? a : best));
+}
+
+/** Train a surrogate; the caller disposes result.model. */
+export async function surrogateRun(opts: SurrogateRunOptions): Promise<SurrogateRunResult> {
+  const { config } = opts;
+  const stage = opts.onStage ?? (() => {});
+  const space = new ParameterSpace(config);
+  checkSpace(space, config.cell.ns);
+  const backendKind = opts.backend ?? config.backend;
+
+  const anchorPoints = space.anchors();
+  stage(`reference solves at ${anchorPoints.length} anchors (equilibrium period)`);
+  const anchorTimes: number[] = [];
+  const [anchors, anchorSeconds] = timed(() =>
+    anchorPoints.map((p) => {
+      const [solution, s] = timed(() => solveReference(space, config, p, { role: 'anchor' }));
+      anchorTimes.push(s);
+      return { point: p, solution };
+    }),
+  );
+  const periodModel: PeriodModel = { axes: space.axes.map((a) => ParameterSpace.axisValues(a)), periods: anchors.map((a) => a.solution.period) };
+
+  const heldPoints = space.heldOut(config.evaluation.random, config.evaluation.seed);
+  stage(`reference solves at ${heldPoints.length} held-out points (equilibrium period)`);
+  const [heldOut, heldOutSeconds] = timed(() =>
+    heldPoints.map((p) => {
+      const [solution, s] = timed(() => solveReference(space, config, p, { role: 'held-out point' }));
+      anchorTimes.push(s);
+      return { point: p, solution };
+    }),
+  );
+
+  const handle = await selectBackend(backendKind);
+  const tf = handle.tf;
+  const model = new SurrogateModel(tf, config, periodModel);
+  try {
+    const ws = config.warmStart;
+    let extra: ReferencePoint[] = [];
+    let extraSeconds = 0;
+    if (ws.extraSolves > 0) {
+      stage(`${ws.extraSolves} extra reference solves (fit data) at random points, period from the anchors`);
+      const rng = new Xorshift128(childSeed(config.training.seed, 0x51));
+      [extra, extraSeconds] = timed(() =>
+        Array.from({ length: ws.extraSolves }, () => {
+          const p = space.draw(rng);
+          return { point: p, solution: solveReference(space, config, p, { period: model.period(p), initial: nearest(space, anchors, p).solution.w, role: 'extra fit point' }) };
+        }),
+      );
+    }
+
+    const history: SurrogateHistoryEntry[] = [];
+    const t0 = performance.now();
+    const elapsed = () => (performance.now() - t0) / 1000;
+    const evaluate = () => Math.max(...heldOutErrors(space, model.solutions(heldPoints), heldOut, anchors).map((e) => e.phiA.relativeL2));
+    const trainer = new SurrogateTrainer(tf, model, config);
+    stage(`fitting the field network to ${anchors.length + extra.length} reference solutions (${handle.backend} backend, tfjs ${handle.tfjsVersion})`);
+    const fit = trainer.fit([...anchors, ...extra]);
+    const tr = config.training;
+    const fitEntry = { round: 0, residual: null, fitLoss: fit.finalLoss, seconds: elapsed(), ...(tr.evaluateEvery > 0 ? { phiError: evaluate() } : {}) };
+    history.push(fitEntry);
+    opts.onRound?.({ ...fitEntry, rounds: tr.rounds });
+    const roundsStart = performance.now();
+    let lastResidual: number | null = null;
+    for (let k = 1; k <= tr.rounds; k++) {
+      const r = trainer.round(k, anchorPoints);
+      lastResidual = r.residual;
+      const evaluateNow = (tr.evaluateEvery > 0 && k % tr.evaluateEvery === 0) || k === tr.rounds;
+      const entry = { round: k, residual: r.residual, fitLoss: r.fitLoss, seconds: elapsed(), ...(evaluateNow ? { phiError: evaluate() } : {}) };
+      if (!Number.isFinite(r.residual) || !Number.isFinite(r.fitLoss)) throw new RunFailure(`training: round ${k} diverged (residual ${r.residual}, fit loss ${r.fitLoss}); try a smaller training.mixing`);
+      history.push(entry);
+      opts.onRound?.({ ...entry, rounds: tr.rounds });
+    }
+    const roundsSeconds = (performance.now() - roundsStart) / 1000;
+
+    stage(`error map at ${heldPoints.length} held-out points`);
+    const surrogate = model.solutions(heldPoints);
+    const errors = heldOutErrors(space, surrogate, heldOut, anchors);
+    // Query time after start-up: one point at a time, as `predict` answers.
+    const queries = heldPoints.map((p) => timed(() => model.solutions([p]))[1]);
+    const referenceSolveSeconds = median(anchorTimes);
+    const querySeconds = median(queries);
+    const buildSeconds = anchorSeconds + extraSeconds + fit.seconds + roundsSeconds;
+    const metrics: SurrogateMetrics = {
+      kind: 'surrogate',
+      backend: handle.backend,
+      tfjs: handle.tfjsVersion,
+      parameters: space.axes.map((a) => ({ ...a })),
+      fixed: space.fixed,
+      errors: summarizeErrors(errors),
+      heldOut: errors,
+      timing: {
+        referenceSolveSeconds,
+        querySeconds,
+        speedup: referenceSolveSeconds / querySeconds,
+        anchorSeconds,
+        extraSolves: { count: extra.length, seconds: extraSeconds },
+        fitSeconds: fit.seconds,
+        roundsSeconds,
+        buildSeconds,
+        equivalentReferenceSolves: buildSeconds / referenceSolveSeconds,
+        heldOutSeconds,
+      },
+      training: { fit, rounds: tr.rounds, lastResidual },
+    };
+    if (opts.outDir) {
+      const prov = { ...provenance({ backend: handle.backend, tfjs: handle.tfjsVersion }), backend: handle.backend, tfjs: handle.tfjsVersion };
+      const worst = errors.reduce((w, e, k) => (e.phiA.relativeL2 > errors[w].phiA.relativeL2 ? k : w), 0);
+      const file = (sol: ScftSolution) => `${JSON.stringify(solutionToFile(sol, prov, config), null, 1)}\n`;
+      await saveSurrogate(
+        tf,
+        opts.outDir,
+        {
+          provenance: prov,
+          config,
+          periodModel,
+          anchors: anchors.map((a) => ({ point: a.point, period: a.solution.period, freeEnergy: a.solution.freeEnergy })),
+          history,
+          metrics: metrics as unknown as Record<string, unknown>,
+        },
+        model,
+        {
+          'metrics.json': `${JSON.stringify(metrics, null, 2)}\n`,
+          'reference.json': file(heldOut[worst].solution),
+          'network.json': file(onReferenceCell(surrogate[worst], heldOut[worst].solution)),
+        },
+      );
+    }
+    return { metrics, model, anchors, heldOut, history, outDir: opts.outDir };
+  } catch (e) {
+    model.dispose();
+    throw e;
+  }
+}
