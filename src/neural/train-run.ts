@@ -92,7 +92,8 @@ function sameArchitecture(a: TrainConfig, b: TrainConfig): string | null {
 export interface TransferReport {
   targetPhiError: number;
   transfer: { steps: number; seconds: number } | null;
-  baseline?: { reached: boolean; steps: number; seconds: number; warmStartSteps: number; warmStartSeconds: number };
+  /** finalPhiError: the baseline's φ_A relative L2 error when it stopped (at the target or the budget). */
+  baseline?: { reached: boolean; steps: number; seconds: number; warmStartSteps: number; warmStartSeconds: number; finalPhiError: number };
   saved?: { steps: number; seconds: number; lowerBound: boolean } | null;
 }
 
@@ -116,7 +117,7 @@ async function transferBaseline(opts: TrainRunOptions, config: TrainConfig): Pro
   const t = r.metrics.training;
   const ws = t.warmStart ?? { steps: 0, seconds: 0 };
   const end = t.reachedTarget ?? { step: t.adamSteps, seconds: r.history.filter((h) => h.stage === 'adam').pop()?.seconds ?? 0 };
-  return { reached: Boolean(t.reachedTarget), steps: end.step, seconds: ws.seconds + end.seconds, warmStartSteps: ws.steps, warmStartSeconds: ws.seconds };
+  return { reached: Boolean(t.reachedTarget), steps: end.step, seconds: ws.seconds + end.seconds, warmStartSteps: ws.steps, warmStartSeconds: ws.seconds, finalPhiError: r.metrics.errors.phiA.relativeL2 };
 }
 
 function unitWeights(): LossValues {

@@ -38,7 +38,7 @@ function transferLines(t: TransferReport, from: string): string[] {
   const b = t.baseline;
   if (b) {
     const ws = `with its ${b.warmStartSteps}-step warm start, ${b.warmStartSeconds.toFixed(1)} s`;
-    lines.push(`warm-start baseline: ${b.reached ? reach(b, ws) : `φA error < ${t.targetPhiError} not reached in ${b.steps} steps (${b.seconds.toFixed(1)} s ${ws})`}`);
+    lines.push(`warm-start baseline: ${b.reached ? reach(b, ws) : `φA error < ${t.targetPhiError} not reached in ${b.steps} steps (${b.seconds.toFixed(1)} s ${ws}; it ended at ${fmt(b.finalPhiError)})`}`);
     const s = t.saved;
     lines.push(s ? `saved by the transfer: ${s.lowerBound ? 'at least ' : ''}${s.steps} steps, ${s.seconds.toFixed(1)} s` : 'saved by the transfer: not measured (the transfer did not reach the target)');
   }
