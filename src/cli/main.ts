@@ -14,6 +14,7 @@ import { registerSynth } from './commands/synth.js';
 import { registerInvert } from './commands/invert.js';
 import { registerReport } from './commands/report.js';
 import { registerSweep } from './commands/sweep.js';
+import { registerPredict } from './commands/predict.js';
 
 const program = new Command();
 program
@@ -35,6 +36,7 @@ registerSynth(program);
 registerInvert(program);
 registerReport(program);
 registerSweep(program);
+registerPredict(program);
 registerSchema(program);
 
 await program.parseAsync(process.argv);

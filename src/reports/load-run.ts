@@ -3,7 +3,9 @@
  *  - solution files (kind "solution", as written by `mesofield solve --out`; any *.json):
  *    the one with solver "spectral" is the reference, one with solver "network" the
  *    network; an optional `periodSearch` trace in the reference gives F(L);
- *  - metrics.json: every number, string or boolean in it becomes a metrics-table row.
+ *  - metrics.json: every number, string or boolean in it becomes a metrics-table row;
+ *  - a surrogate checkpoint (checkpoint.json of kind "surrogate-checkpoint"): the error map
+ *    and the training rounds (surrogate-input.ts).
  * Anything missing or inconsistent is an InputError naming the file and field.
  */
 import { readdirSync, statSync } from 'node:fs';
@@ -16,6 +18,7 @@ import type { SolutionFile } from '../io/solution-file.js';
 import { buildChain } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { MetricRow, ReportInput } from './report-inputs.js';
+import { surrogateInput } from './surrogate-input.js';
 
 const summaryNumbers = z.object({
   solver: z.enum(['spectral', 'network']),
@@ -176,6 +179,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   let training: ReportInput['training'];
   let trainingSeconds = Number.NaN;
   let inversion: ReportInput['inversion'];
+  let surrogate: ReportInput['surrogate'];
   for (const name of names) {
     const path = join(dir, name);
     const raw = readJson(path);
@@ -201,6 +205,9 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       const positive = (t: Record<string, number>) => Object.fromEntries(Object.entries(t).filter(([, v]) => v > 0));
       training = { history: hist.map((h) => ({ step: h.step, terms: positive({ total: h.total, ...h.terms }), lr: h.learningRate })) };
       trainingSeconds = hist.length ? (hist[hist.length - 1] as { seconds?: number }).seconds ?? Number.NaN : Number.NaN;
+      read.push(path);
+    } else if (kind === 'surrogate-checkpoint') {
+      surrogate = surrogateInput(raw, path);
       read.push(path);
     } else if (name === 'metrics.json') {
       metrics = flattenRows(raw, '').map((r) => ({ ...r, name: `metrics.json: ${r.name}` }));
@@ -232,13 +239,14 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       rgNm: opts.rgNm,
       config: flattenRows(main.data.config, '').map((r) => `${r.name}: ${r.value}`),
       provenance: (network ?? main).provenance,
-      runSeconds: training ? (training.history.length ? trainingSeconds : main.solution.seconds) : main.solution.seconds,
-      runSecondsNote: training ? 'training, from the checkpoint history' : main.trace ? `final solve only; the ${main.trace.length} period-search evaluations took ${main.trace.reduce((a, t) => a + t.iterations, 0)} iterations in all` : undefined,
+      runSeconds: surrogate ? surrogate.buildSeconds : training ? (training.history.length ? trainingSeconds : main.solution.seconds) : main.solution.seconds,
+      runSecondsNote: surrogate ? 'building the surrogate: reference solves, fit and physics rounds' : training ? 'training, from the checkpoint history' : main.trace ? `final solve only; the ${main.trace.length} period-search evaluations took ${main.trace.reduce((a, t) => a + t.iterations, 0)} iterations in all` : undefined,
     },
     profiles: { reference: shown.solution, network: reference ? network?.solution : undefined },
     propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
     training,
     inversion,
+    surrogate,
     periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
     metrics,
   };

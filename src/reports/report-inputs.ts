@@ -103,6 +103,35 @@ export interface InversionInput {
   estimators: EstimatorRow[];
 }
 
+/** A surrogate over a parameter range: its error map at held-out points, period model and training rounds. */
+export interface SurrogateInput {
+  /** The varying parameters in order (1 to 3), with the trained range and anchor count. */
+  parameters: { name: string; symbol: string; min: number; max: number; anchors: number }[];
+  /** Equilibrium period (Rg) at each anchor, with its varying-parameter values. */
+  anchors: { values: number[]; period: number }[];
+  /** The surrogate's period L(θ) (Rg) at varying-parameter values (the interpolation of the anchors). */
+  periodAt: (values: number[]) => number;
+  heldOut: {
+    values: number[];
+    phiARelativeL2: number;
+    /** F_surrogate − F_reference, kT per chain. */
+    freeEnergyError: number;
+    /** Reference (equilibrium) period and the surrogate's relative period error. */
+    referencePeriod: number;
+    periodRelativeError: number;
+    /** φA relative L2 of the anchors' reference profiles interpolated to the point (no network). */
+    anchorInterpolationPhiA: number;
+  }[];
+  /** Held-out points of the anchor-cell centres (the first cellCentres of heldOut), for the 2D map. */
+  cellCentres: number;
+  /** Training rounds: round 0 is the fit to reference data. */
+  history: { round: number; residual: number | null; fitLoss: number; phiError?: number }[];
+  /** Lines of timing text (query against reference solve, build time). */
+  timing: string[];
+  /** Wall time that built the surrogate, s. */
+  buildSeconds: number;
+}
+
 export interface MetricRow {
   name: string;
   value: string;
@@ -117,6 +146,7 @@ export interface ReportInput {
   periodSearch?: PeriodSearchInput;
   training?: TrainingInput;
   inversion?: InversionInput;
+  surrogate?: SurrogateInput;
   /** Rows appended to the metrics table (e.g. from metrics.json). */
   metrics?: MetricRow[];
 }

@@ -1,14 +1,14 @@
 /** `mesofield train` and `mesofield evaluate`: thin wrappers over neural/train-run.ts. */
 import type { Command } from 'commander';
 import { basename, join } from 'node:path';
-import { InputError, RunFailure, asInputError } from '../../io/errors.js';
-import { loadJsonFile } from '../../io/load-json.js';
+import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
+import { readJsonFile } from '../../io/load-json.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action, numberFlag } from '../run-command.js';
 import type { TransferReport } from '../../neural/train-run.js';
 
-interface TrainFlags {
+export interface TrainFlags {
   out?: string;
   resume?: string;
   json?: boolean;
@@ -20,7 +20,7 @@ interface TrainFlags {
 
 const BACKENDS = ['auto', 'native', 'wasm', 'cpu'] as const;
 
-function backendFlag(v: string | undefined): (typeof BACKENDS)[number] | undefined {
+export function backendFlag(v: string | undefined): (typeof BACKENDS)[number] | undefined {
   if (v === undefined) return undefined;
   if (!(BACKENDS as readonly string[]).includes(v)) throw new InputError(`--backend: got ${JSON.stringify(v)}; allowed: ${BACKENDS.join(', ')}`);
   return v as (typeof BACKENDS)[number];
@@ -49,7 +49,7 @@ export function registerTrain(program: Command): void {
   program
     .command('train')
     .description('train a physics-informed network for one system and check it against the spectral reference')
-    .argument('<config>', 'train config JSON (kind "train")')
+    .argument('<config>', 'train config JSON (kind "train", or "surrogate" for a network over a parameter range)')
     .option('--out <dir>', 'checkpoint directory (default checkpoints/<config name>)')
     .option('--resume <dir>', 'continue the run saved in this checkpoint directory')
     .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
@@ -59,7 +59,12 @@ export function registerTrain(program: Command): void {
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (configPath: string, flags: TrainFlags) => {
-        let config = loadJsonFile(configPath, trainConfigSchema);
+        const raw = readJsonFile(configPath);
+        if ((raw as { kind?: unknown } | null)?.kind === 'surrogate') {
+          const { trainSurrogate } = await import('./train-surrogate.js');
+          return trainSurrogate(configPath, raw, flags);
+        }
+        let config = parseOrThrow(trainConfigSchema, raw, configPath);
         const steps = numberFlag('--steps', flags.steps);
         if (steps !== undefined) {
           if (!Number.isInteger(steps) || steps < 0) throw new InputError(`--steps: got ${steps}; allowed: a whole number ≥ 0`);

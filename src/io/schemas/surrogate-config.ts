@@ -58,12 +58,12 @@ export const surrogateConfigSchema = z
         /** Adam steps, then L-BFGS iterations, fitting the field network to the reference fields (anchors and extra solves). */
         adamSteps: z.number().int().min(0).max(100000).default(200),
         learningRate: z.number().gt(0).lt(1).default(5e-3),
-        lbfgsIterations: z.number().int().min(0).max(100000).default(300),
+        lbfgsIterations: z.number().int().min(0).max(100000).default(1000),
         /**
          * Extra reference solves at random parameter points (cell length from the anchors'
          * period interpolation), fitted like the anchors: the surrogate is then partly a fit.
          */
-        extraSolves: z.number().int().min(0).max(10000).default(0),
+        extraSolves: z.number().int().min(0).max(10000).default(16),
       })
       .strict()
       .prefault({}),
@@ -75,10 +75,10 @@ export const surrogateConfigSchema = z
          * w + mixing·d of physics/scft-equations.ts gives the new fields, and the field network
          * is refitted to them (fitIterations of L-BFGS).
          */
-        rounds: z.number().int().min(0).max(100000).default(20),
+        rounds: z.number().int().min(0).max(100000).default(10),
         pointsPerRound: z.number().int().min(0).max(1000).default(16),
         mixing: z.number().gt(0).lte(1).default(0.5),
-        fitIterations: z.number().int().min(1).max(10000).default(60),
+        fitIterations: z.number().int().min(1).max(10000).default(20),
         /** Held-out error evaluated every this many rounds, into the history (0: only at the end). */
         evaluateEvery: z.number().int().min(0).default(5),
         seed: z.number().int().min(0).max(0xffffffff).default(7),

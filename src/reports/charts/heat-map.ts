@@ -23,6 +23,12 @@ export interface HeatMapSpec {
   colourBarLabel: string;
   xLabel?: string;
   yLabel?: string;
+  /**
+   * A map over a box instead of a periodic cell: rows[i][j] fills the i-th of rows.length
+   * equal bands of y (rows[0] at the bottom, y[0]) and the j-th of equal bands of x, exactly
+   * covering [x[0], x[1]] × [y[0], y[1]] (no periodic repeat; `length` unused).
+   */
+  box?: { x: [number, number]; y: [number, number] };
 }
 
 export function valueRange(rows: ArrayLike<number>[]): [number, number] {
@@ -62,16 +68,17 @@ export function drawHeatMap(region: Region, spec: HeatMapSpec): void {
   const range = colourRange(spec);
   const plotW = region.width - LEFT - RIGHT;
   const plotH = region.height - TOP - BOTTOM;
-
-  // Raster: nx + 1 columns (periodic repeat), ns + 1 rows with s = 1 at the top.
-  const img = createCanvas(nx + 1, ns + 1);
+  const box = spec.box;
+  // Raster: a periodic cell repeats x = 0 as a last column, centred on the grid points; a box fills its cells exactly.
+  const cols = box ? nx : nx + 1;
+  const img = createCanvas(cols, ns + 1);
   const ictx = img.getContext('2d');
-  const data = ictx.createImageData(nx + 1, ns + 1);
+  const data = ictx.createImageData(cols, ns + 1);
   for (let r = 0; r <= ns; r++) {
     const row = spec.rows[ns - r];
-    for (let j = 0; j <= nx; j++) {
+    for (let j = 0; j < cols; j++) {
       const [R, G, B] = colourOf(spec, range, row[j % nx]);
-      const k = 4 * (r * (nx + 1) + j);
+      const k = 4 * (r * cols + j);
       data.data[k] = R;
       data.data[k + 1] = G;
       data.data[k + 2] = B;
@@ -80,14 +87,17 @@ export function drawHeatMap(region: Region, spec: HeatMapSpec): void {
   }
   ictx.putImageData(data, 0, 0);
 
-  const dxPix = plotW / nx;
-  const dsPix = plotH / ns;
   ctx.save();
   ctx.beginPath();
   ctx.rect(LEFT, TOP, plotW, plotH);
   ctx.clip();
   ctx.imageSmoothingEnabled = false;
-  ctx.drawImage(img, LEFT - dxPix / 2, TOP - dsPix / 2, plotW + dxPix, plotH + dsPix);
+  if (box) ctx.drawImage(img, LEFT, TOP, plotW, plotH);
+  else {
+    const dxPix = plotW / nx;
+    const dsPix = plotH / ns;
+    ctx.drawImage(img, LEFT - dxPix / 2, TOP - dsPix / 2, plotW + dxPix, plotH + dsPix);
+  }
   ctx.restore();
 
   ctx.save();
@@ -101,22 +111,24 @@ export function drawHeatMap(region: Region, spec: HeatMapSpec): void {
   ctx.fillText(spec.title, 2, 2);
 
   ctx.font = `${TEXT.tick}px "${FONT_FAMILY}"`;
-  const xt = niceTicks(0, spec.length, 4);
+  const [x0, x1] = box?.x ?? [0, spec.length];
+  const [y0, y1] = box?.y ?? [0, 1];
+  const xt = niceTicks(x0, x1, 4);
   ctx.textAlign = 'center';
   ctx.textBaseline = 'top';
   for (const v of xt) {
-    const px = LEFT + (v / spec.length) * plotW;
+    const px = LEFT + ((v - x0) / (x1 - x0)) * plotW;
     ctx.beginPath();
     ctx.moveTo(px, TOP + plotH);
     ctx.lineTo(px, TOP + plotH + 3);
     ctx.stroke();
     ctx.fillText(formatTick(v, xt), px, TOP + plotH + 4);
   }
-  const st = niceTicks(0, 1, 4);
+  const st = niceTicks(y0, y1, 4);
   ctx.textAlign = 'right';
   ctx.textBaseline = 'middle';
   for (const v of st) {
-    const py = TOP + plotH - v * plotH;
+    const py = TOP + plotH - ((v - y0) / (y1 - y0)) * plotH;
     ctx.beginPath();
     ctx.moveTo(LEFT - 3, py);
     ctx.lineTo(LEFT, py);

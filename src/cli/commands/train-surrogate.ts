@@ -1,0 +1,62 @@
+/** `mesofield train CONFIG` for a config of kind "surrogate": a thin layer over surrogate/surrogate-run.ts. */
+import { basename, join } from 'node:path';
+import { InputError, parseOrThrow } from '../../io/errors.js';
+import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
+import type { SurrogateMetrics } from '../../surrogate/surrogate-run.js';
+import { formatDuration, Progress } from '../progress.js';
+import type { TrainFlags } from './train.js';
+import { backendFlag } from './train.js';
+
+const sci = (v: number) => (Number.isFinite(v) ? v.toExponential(2) : String(v));
+
+function rangeText(m: SurrogateMetrics): string {
+  const names: Record<string, string> = { chiN: 'χN', f: 'f', segmentLengthRatio: 'b_A/b_B' };
+  const varying = m.parameters.map((a) => `${names[a.name]} in [${a.min}, ${a.max}] (${a.anchors} anchors)`);
+  const fixed = Object.entries(m.fixed).map(([k, v]) => `${names[k]} = ${v}`);
+  return [...varying, ...fixed].join(', ');
+}
+
+function summaryLines(m: SurrogateMetrics, outDir: string | undefined): string[] {
+  const e = m.errors;
+  const t = m.timing;
+  return [
+    `trained surrogate over ${rangeText(m)} on ${m.backend} (tfjs ${m.tfjs}): ${m.training.fit.points} reference solutions fitted (${t.extraSolves.count} extra), ${m.training.rounds} physics rounds`,
+    `held-out (${e.points} points): φA relative L2 max ${sci(e.phiARelativeL2.max)} (mean ${sci(e.phiARelativeL2.mean)}), |F error| max ${sci(e.freeEnergyError.max)} kT/chain, period error max ${sci(e.periodRelativeError.max)}`,
+    `baseline, the anchors' reference profiles interpolated (no network): φA relative L2 max ${sci(e.anchorInterpolationPhiA.max)} (mean ${sci(e.anchorInterpolationPhiA.mean)})`,
+    `query ${(1000 * t.querySeconds).toFixed(2)} ms after start-up against ${(1000 * t.referenceSolveSeconds).toFixed(0)} ms for one reference solve at the equilibrium period (×${t.speedup.toFixed(0)}); building took ${t.buildSeconds.toFixed(1)} s = ${t.equivalentReferenceSolves.toFixed(1)} reference solves`,
+    ...(outDir ? [`checkpoint ${outDir} (checkpoint.json, weights.bin, metrics.json; reference.json and network.json at the worst held-out point)`] : []),
+  ];
+}
+
+export async function trainSurrogate(configPath: string, raw: unknown, flags: TrainFlags): Promise<void> {
+  if (flags.resume !== undefined) throw new InputError(`--resume: got ${JSON.stringify(flags.resume)}; a surrogate run cannot be resumed (it is short): run it again`);
+  if (flags.steps !== undefined) throw new InputError(`--steps: got ${JSON.stringify(flags.steps)}; a surrogate config has no steps: set training.rounds (physics rounds) or warmStart.lbfgsIterations in ${configPath}`);
+  const config = parseOrThrow(surrogateConfigSchema, raw, configPath);
+  const backend = backendFlag(flags.backend);
+  const outDir = flags.out ?? join('checkpoints', basename(configPath).replace(/(\.surrogate)?\.json$/, ''));
+  const progress = new Progress('train', flags.quiet);
+  const { surrogateRun } = await import('../../surrogate/surrogate-run.js');
+  const r = await surrogateRun({
+    config,
+    outDir,
+    backend,
+    onStage: (m) => progress.update(m, true),
+    onRound: (h) =>
+      progress.update(
+        `${h.round === 0 ? 'fit' : `round ${h.round}/${h.rounds}`} | ${h.residual === null ? '' : `SCFT residual ${sci(h.residual)} kT | `}fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''} | ${formatDuration(h.seconds)}`,
+        h.round === h.rounds || h.phiError !== undefined,
+      ),
+  });
+  try {
+    const m = r.metrics;
+    progress.done(`surrogate trained in ${formatDuration(m.timing.buildSeconds)} on ${m.backend}; checkpoint in ${outDir}`);
+    process.stdout.write(flags.json ? `${JSON.stringify({ checkpoint: outDir, ...m }, null, 2)}\n` : `${summaryLines(m, outDir).join('\n')}\n`);
+    if (flags.report) {
+      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
+      const written = reportRunDirectory(outDir, join(outDir, 'report'));
+      if (!flags.quiet) process.stderr.write(`train: wrote ${written.join(', ')}\n`);
+    }
+  } finally {
+    r.model.dispose();
+  }
+}
