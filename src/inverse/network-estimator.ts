@@ -36,7 +36,7 @@ import { networkSolution } from '../neural/network-solution.js';
 import { buildScftNetworks } from '../neural/scft-networks.js';
 import { LOSS_TERMS, ScftProblem } from '../neural/scft-problem.js';
 import type { LossValues } from '../neural/scft-problem.js';
-import { runTraining } from '../neural/train-loop.js';
+import { polishWithLbfgs, propagatorWeights, runTraining } from '../neural/train-loop.js';
 import { refitFieldsToUpdate } from '../neural/field-update.js';
 import { warmStart } from '../neural/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
@@ -56,6 +56,12 @@ export interface NetworkEstimatorSettings {
   /** Steps between field/χN updates, and their mixing λ. */
   fieldUpdateEvery?: number;
   mixing?: number;
+  /**
+   * After the Adam steps: this many L-BFGS iterations on the MDE, in cycles of
+   * `lbfgsPerUpdate`, each cycle preceded by a field/χN update (0: none).
+   */
+  lbfgsIterations?: number;
+  lbfgsPerUpdate?: number;
   onProgress?: (seed: number, step: number, steps: number, chiN: number) => void;
 }
 
@@ -120,7 +126,8 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
       system: { chain: s.chain, chiN: chiNStart },
       cell: { period: L, nx, ns: classical.solution.ns },
       networks: { field: { seed, ...(s.fourierModes ? { fourierModes: s.fourierModes } : {}) }, propagator: { seed: seed + 101, ...(s.fourierModes ? { fourierModes: s.fourierModes } : {}) } },
-      collocation: { nx, seed: seed + 7 },
+      // The trainer's default x grid (32) measured as accurate as the model grid for the MDE, at half the cost.
+      collocation: { nx: Math.min(nx, 32), seed: seed + 7 },
       training: { strategy: 'alternating', steps: s.steps, learningRate: s.learningRate ?? 1e-3, logEvery: 25, checkpointEvery: s.steps + 1, fieldUpdateEvery: updateEvery },
     });
     const nets = buildScftNetworks(tf, config, chain, L, true);
@@ -129,9 +136,8 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
     problem.fieldsFrozen = true;
     let chiN = chiNStart;
     const trajectory: { step: number; chiN: number }[] = [{ step: 0, chiN }];
-    let step = 0;
-    const fieldUpdate = () => {
-      step += updateEvery;
+    /** The field/χN update made after `step` optimisation steps (Adam steps, then L-BFGS iterations). */
+    const fieldUpdateAt = (step: number) => {
       const sol = networkSolution(tf, nets, { chain: s.chain, chiN }, { periods: 1, nx, nodesPerBlock: config.collocation.nodesPerBlock });
       let num = 0;
       let den = 0;
@@ -153,11 +159,20 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
       }
       refitFieldsToUpdate(tf, nets, chiN, sol.x, sol.w, phi, s.mixing ?? 0.5, config.training.fieldFitSteps, config.training.fieldFitLearningRate);
       trajectory.push({ step, chiN });
-      s.onProgress?.(seed, step, s.steps, chiN);
+      s.onProgress?.(seed, step, s.steps + (s.lbfgsIterations ?? 0), chiN);
     };
     const adam = new Adam(tf, nets.parameters);
+    let adamUpdates = 0;
     const unit = Object.fromEntries(LOSS_TERMS.map((k) => [k, 1])) as LossValues;
-    const loop = await runTraining(tf, problem, nets.parameters, adam, config, { step: 0, lossWeights: unit, history: [], bestTotal: Infinity, secondsBefore: 0 }, { fieldUpdate });
+    const loop = await runTraining(tf, problem, nets.parameters, adam, config, { step: 0, lossWeights: unit, history: [], bestTotal: Infinity, secondsBefore: 0 }, { fieldUpdate: () => fieldUpdateAt((adamUpdates += updateEvery)) });
+    // Quasi-Newton cycles: each a field/χN update, then L-BFGS on the MDE in the new fields
+    // (measured in the forward problem: several times the MDE reduction of Adam per second).
+    const perUpdate = s.lbfgsPerUpdate ?? 100;
+    for (let done = 0; loop.reason !== 'diverged' && done < (s.lbfgsIterations ?? 0); done += perUpdate) {
+      fieldUpdateAt(s.steps + done);
+      problem.invalidateFields();
+      polishWithLbfgs(tf, problem, nets.parameters, propagatorWeights(config), perUpdate);
+    }
     const sol = networkSolution(tf, nets, { chain: s.chain, chiN }, { periods: 1, nx, nodesPerBlock: 64 });
     let rss = 0;
     for (let i = 0; i < t.length; i++) {

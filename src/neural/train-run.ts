@@ -58,7 +58,8 @@ export interface TrainMetrics {
     seconds: number;
     warmStart?: { steps: number; seconds: number; finalLoss: number };
     lbfgs?: { iterations: number; finalLoss: number; reason: string };
-    reachedTarget?: { step: number; seconds: number };
+    /** Adam step (and L-BFGS iterations, when reached in the polish) and training seconds at which φ_A error first fell below the target. */
+    reachedTarget?: { step: number; seconds: number; lbfgsIterations?: number };
     transferredFrom?: { checkpoint: string; chiN: number; f: number };
     transfer?: TransferReport;
     resumedFrom?: { checkpoint: string; step: number };
@@ -223,6 +224,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   };
 
   stage(`training (${handle.backend} backend, tfjs ${handle.tfjsVersion})`);
+  const tLoop = performance.now();
   const loop = await runTraining(tf, problem, nets.parameters, adam, config, state, {
     fieldUpdate: () => void fieldUpdater.update(),
     onProgress: opts.onProgress,
@@ -243,7 +245,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     throw err;
   }
 
-  if (config.training.lbfgsIterations > 0) {
+  // A run that met its φ_A target in the Adam phase stops there, polish included.
+  if (config.training.lbfgsIterations > 0 && loop.reason !== 'target-reached') {
     stage(`L-BFGS polish (${config.training.lbfgsIterations} iterations)`);
     // Alternating: the polish, like the Adam steps, solves the MDE (and soft constraints) in the current fields.
     const weights =
@@ -255,6 +258,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const cycles = tr.strategy === 'alternating' && nets.field ? tr.lbfgsCycles : 1;
     let r = { iterations: 0, f: Number.NaN, reason: 'none' };
     let iterations = 0;
+    const trainingSeconds = () => loop.state.secondsBefore + (performance.now() - tLoop) / 1000;
     for (let c = 0; c < cycles; c++) {
       if (cycles > 1) {
         fieldUpdater.update();
@@ -262,9 +266,16 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       }
       r = polishWithLbfgs(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles));
       iterations += r.iterations;
+      // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.
+      const phiError = tr.evaluateEvery > 0 ? evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2 : undefined;
+      loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
+      opts.onStage?.(`L-BFGS cycle ${c + 1}/${cycles}: ${iterations} iterations, loss ${r.f.toExponential(3)}${phiError !== undefined ? `, φA error ${phiError.toExponential(3)}` : ''}`);
+      if (phiError !== undefined && tr.targetPhiError !== undefined && phiError < tr.targetPhiError && !training.reachedTarget) {
+        training.reachedTarget = { step: loop.state.step, seconds: trainingSeconds(), lbfgsIterations: iterations };
+        break;
+      }
     }
-    training.lbfgs = { iterations, finalLoss: r.f, reason: r.reason };
-    loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: (performance.now() - t0) / 1000 });
+    training.lbfgs = { iterations, finalLoss: r.f, reason: training.reachedTarget?.lbfgsIterations !== undefined ? 'target-reached' : r.reason };
   }
   training.seconds = (performance.now() - t0) / 1000;
 
