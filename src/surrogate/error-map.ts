@@ -88,6 +88,7 @@ export function summarizeErrors(errors: HeldOutError[]) {
     points: errors.length,
     phiARelativeL2: stat((e) => e.phiA.relativeL2),
     freeEnergyError: stat((e) => e.freeEnergyError),
+    QRelativeError: stat((e) => e.QRelativeError),
     periodRelativeError: stat((e) => e.period.relativeError),
     anchorInterpolationPhiA: stat((e) => e.anchorInterpolationPhiA),
   };

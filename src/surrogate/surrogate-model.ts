@@ -1,7 +1,8 @@
 /**
  * A surrogate as a whole: the parameter box, the period model L(θ) and the field network,
  * and the surrogate's answer at a parameter point θ as an ScftSolution:
- *   fields  w_K(x_j; θ) from the network on x_j = j·L(θ)/nx (one period per cell);
+ *   fields  w_K(x_j; θ) from the network on x_j = j·L(θ)/nx (one period per cell), the
+ *           pressure gauge then fixed exactly (mean (w_A + w_B)/2 = 0, as the reference);
  *   φ, Q    one float64 pseudo-spectral propagator solve in those fields, no iteration
  *           (spectral/scft-solver.ts solveInFields; SCFT-NOTES.md "Pseudo-spectral MDE step");
  *   F       physics/scft-equations.ts, from that Q, w and φ.
@@ -12,6 +13,7 @@
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
+import { fixGauge } from '../physics/scft-equations.js';
 import { solveInFields } from '../spectral/scft-solver.js';
 import type { Tf } from '../neural/backend.js';
 import { ParameterSpace } from './parameter-space.js';
@@ -79,6 +81,8 @@ export class SurrogateModel {
     const fields = this.fields(points, nx);
     const shared = (performance.now() - t0) / 1000 / Math.max(1, points.length);
     return points.map((p, k) => {
+      // The pressure gauge is a convention (mean of (w_A + w_B)/2 = 0, as the reference): fix it exactly.
+      fixGauge(this.space.chain(p), fields[k]);
       const sol = solveInFields({ system: this.space.system(p), length: this.period(p), periods: 1, nx, ns, options: this.config.reference, fields: fields[k] });
       return {
         ...sol,

@@ -1,6 +1,6 @@
 /**
  * Config file kind "surrogate": one field network for a range of parameters (χN, and
- * optionally f and b_A/b_B), fitted to reference solutions at anchor points and trained on
+ * optionally b_A/b_B; f is fixed), fitted to reference solutions at anchor points and trained on
  * the SCFT self-consistency everywhere in the range, then checked at held-out points
  * (src/surrogate/).
  *
@@ -35,8 +35,15 @@ export const surrogateConfigSchema = z
       .object({
         /** χN range; the lamella must be ordered at every anchor (above the order–disorder transition). */
         chiN: range(z.number().gt(0).max(500)),
-        /** A fraction: a fixed number, or a range. */
-        f: z.union([z.number().gt(0).lt(1), range(z.number().gt(0).lt(1))]).default(0.5),
+        /**
+         * A fraction: fixed. The spectral solves put ns·f contour steps on the A block, an even
+         * whole number, so f cannot vary continuously: train one surrogate per f.
+         */
+        f: z
+          .number({ error: (issue) => (typeof issue.input === 'object' && issue.input !== null ? 'a range of f is not supported (the contour grid needs ns·f to be an even whole number, so f cannot vary continuously): give one fixed f and train one surrogate per f' : undefined) })
+          .gt(0)
+          .lt(1)
+          .default(0.5),
         /** Conformational asymmetry b_A/b_B: a fixed number, or a range. */
         segmentLengthRatio: z.union([z.number().gt(0).lte(10), range(z.number().gt(0).lte(10))]).default(1),
       })
@@ -98,4 +105,3 @@ export const surrogateConfigSchema = z
 
 export type SurrogateConfig = z.infer<typeof surrogateConfigSchema>;
 export type SurrogateConfigInput = z.input<typeof surrogateConfigSchema>;
-export type ParameterRange = Extract<SurrogateConfig['parameters']['f'], { min: number }>;
