@@ -70,7 +70,7 @@ export const surrogateConfigSchema = z
          * Extra reference solves at random parameter points (cell length from the anchors'
          * period interpolation), fitted like the anchors: the surrogate is then partly a fit.
          */
-        extraSolves: z.number().int().min(0).max(10000).default(16),
+        extraSolves: z.number().int().min(0).max(10000).default(0),
       })
       .strict()
       .prefault({}),
