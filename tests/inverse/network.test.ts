@@ -11,14 +11,17 @@ import { diblock, invert, synthData } from './helpers.js';
 // Synthetic profiles come from the spectral reference (itself checked against Leibler's RPA,
 // analytic propagators and an independent finite-difference solver in tests/spectral).
 describe('network estimator of χN', () => {
-  // Measured here: from a start 10 % low the estimate settles 2–3 % below the truth (the
-  // networks' own forward error sets this bias); the issue's 1 % target is not met yet.
-  it('noiseless profile (f = 0.5, χN = 15, 64 points), started 10 % low: moves to within 4 %, wA − wB within 5 %', async () => {
+  // The bias of this estimator is set by the networks' forward error. Measured here: 200 Adam
+  // steps alone left it 2–3 % low; with 12 cycles of 100 L-BFGS iterations after them it
+  // ended at 14.92 (0.5 % low), still rising.
+  const settings = { seeds: [1], steps: 200, fieldUpdateEvery: 50, lbfgsIterations: 1200, lbfgsPerUpdate: 100, resolution: 0, backend: 'wasm' as const };
+
+  it('noiseless profile (f = 0.5, χN = 15, 64 points), started 10 % low: χN within 1 %, wA − wB within 5 %', async () => {
     const chain = diblock(0.5);
     const { data } = synthData({ chain, chiN: 15, nx: 64, ns: 100 });
     const cl = invert(data, { chain, nx: 64, ns: 100 });
-    const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: 600, fieldUpdateEvery: 50, chiNStart: 13.5, resolution: 0, backend: 'wasm' });
-    expect(Math.abs(ne.chiN / 15 - 1)).toBeLessThan(0.04);
+    const ne = await estimateNetwork(data, cl, { ...settings, chain, chiNStart: 13.5 });
+    expect(Math.abs(ne.chiN / 15 - 1)).toBeLessThan(0.01);
     expect(Math.abs(ne.chiN - 15)).toBeLessThan(Math.abs(13.5 - 15) / 2);
     // The trajectory must actually move from the start towards the truth.
     expect(ne.runs[0].trajectory[0].chiN).toBeCloseTo(13.5, 6);
@@ -34,12 +37,12 @@ describe('network estimator of χN', () => {
     expect(Math.sqrt(num / den)).toBeLessThan(0.05);
   });
 
-  it('2 % Gaussian noise, started from the classical estimate: χN within 4 %', async () => {
+  it('2 % Gaussian noise, started from the classical estimate: χN within 3 %', async () => {
     const chain = diblock(0.5);
     const { data } = synthData({ chain, chiN: 15, nx: 64, ns: 100, noise: 0.02, seed: 4 });
     const cl = invert(data, { chain, nx: 64, ns: 100 });
-    const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: 400, fieldUpdateEvery: 50, resolution: 0, backend: 'wasm' });
-    expect(Math.abs(ne.chiN / 15 - 1)).toBeLessThan(0.04);
+    const ne = await estimateNetwork(data, cl, { ...settings, chain });
+    expect(Math.abs(ne.chiN / 15 - 1)).toBeLessThan(0.03);
   });
 });
 
@@ -49,7 +52,7 @@ describe('mesofield invert --method both', () => {
     const csv = join(d, 'p.csv');
     expect(runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', csv]).code).toBe(0);
     const out = join(d, 'run');
-    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--network-steps', '200', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
+    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--network-steps', '100', '--network-lbfgs', '100', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);
     expect(Object.keys(res.estimators).sort()).toEqual(['classical', 'network']);

@@ -33,6 +33,7 @@ interface InvertFlags {
   profilePoints?: string;
   seeds?: string;
   networkSteps?: string;
+  networkLbfgs?: string;
   backend?: string;
   report?: boolean;
   quiet?: boolean;
@@ -65,6 +66,8 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
   if (seeds !== undefined) network.seeds = seeds;
   const nsteps = numberFlag('--network-steps', flags.networkSteps);
   if (nsteps !== undefined) network.steps = nsteps;
+  const nlbfgs = numberFlag('--network-lbfgs', flags.networkLbfgs);
+  if (nlbfgs !== undefined) network.lbfgsIterations = nlbfgs;
   if (flags.backend !== undefined) network.backend = flags.backend;
   if (flags.method !== undefined) {
     raw.method = flags.method;
@@ -104,7 +107,8 @@ export function registerInvert(program: Command): void {
     .option('--f <f>', 'A fraction of the diblock (required without a config)')
     .option('--method <m>', 'classical | network | both')
     .option('--seeds <n>', 'network: independent seeded trainings (their spread is reported)')
-    .option('--network-steps <n>', 'network: training steps per seed')
+    .option('--network-steps <n>', 'network: Adam steps per seed')
+    .option('--network-lbfgs <n>', 'network: L-BFGS iterations per seed after the Adam steps')
     .option('--backend <b>', 'network: tfjs backend auto | native | wasm | cpu')
     .option('--period <mode>', 'equilibrium (stress-free at each χN, default) | free (fitted) | L (given, in the units of x)')
     .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')
@@ -164,6 +168,8 @@ export function registerInvert(program: Command): void {
             seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
             steps: net.steps,
             fieldUpdateEvery: net.fieldUpdateEvery,
+            lbfgsIterations: net.lbfgsIterations,
+            lbfgsPerUpdate: net.lbfgsPerUpdate,
             chiNStart: net.chiNStart,
             resolution: toRg(config.resolution),
             backend: net.backend,

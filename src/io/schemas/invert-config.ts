@@ -38,10 +38,13 @@ export const invertConfigSchema = z
       .object({
         /** Independent seeded trainings; their spread is reported. */
         seeds: z.number().int().min(1).max(16).default(3),
-        /** Training steps per seed. */
-        steps: z.number().int().min(50).max(100000).default(1000),
+        /** Adam steps per seed (field/χN updates every fieldUpdateEvery of them). */
+        steps: z.number().int().min(50).max(100000).default(200),
         /** Steps between field/χN updates. */
-        fieldUpdateEvery: z.number().int().min(10).default(100),
+        fieldUpdateEvery: z.number().int().min(10).default(50),
+        /** L-BFGS iterations on the MDE after the Adam steps, a field/χN update before every lbfgsPerUpdate of them (0: none). */
+        lbfgsIterations: z.number().int().min(0).max(100000).default(1200),
+        lbfgsPerUpdate: z.number().int().min(10).max(10000).default(100),
         /** χN the networks start from; default the classical estimate. */
         chiNStart: positive.optional(),
         backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
