@@ -1,10 +1,11 @@
 /**
- * Timing of the classical inverse estimator (not a test: prints figures, never fails on a
- * time). The case: f = 0.5, χN = 15, 64 points over one period, 2 % Gaussian noise with a
+ * Timing of the inverse estimators (not a test: prints figures, never fails on a time). The case: f = 0.5, χN = 15, 64 points over one period, 2 % Gaussian noise with a
  * sigma column, equilibrium period. Each fit starts from fresh models (no cache, no warm
  * start carried over), as a CLI run does; one untimed fit first warms up the JIT.
  */
+import { invertConfigSchema } from '../io/schemas/invert-config.js';
 import { createModels, estimateClassical } from '../inverse/classical.js';
+import { estimateNetwork } from '../inverse/network-estimator.js';
 import type { ProfileData } from '../inverse/profile-csv.js';
 import { synthesize } from '../inverse/synth.js';
 import type { ChainSpec } from '../physics/chain-schema.js';
@@ -33,4 +34,14 @@ export async function runInverseBench(): Promise<void> {
       );
     }
   }
+  // The network estimator with the invert defaults, one seed, on the first noisy profile.
+  const net = invertConfigSchema.parse({ version: 1, kind: 'invert', system: { chain } }).network;
+  const settings = { chain, nx: 64, ns: 100, period: { mode: 'equilibrium' as const }, resolution: 0, profilePoints: 0 };
+  const data = profile(chain, 1, 64, 100);
+  const cl = estimateClassical(data, settings, createModels(settings));
+  const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: net.steps, fieldUpdateEvery: net.fieldUpdateEvery, lbfgsIterations: net.lbfgsIterations, lbfgsPerUpdate: net.lbfgsPerUpdate, resolution: 0, backend: 'wasm' });
+  console.log(
+    `network estimator (defaults: ${net.steps} Adam steps + ${net.lbfgsIterations} L-BFGS iterations, one seed, wasm), same case, seed 1, target 2 min: ` +
+      `χN = ${ne.chiN.toFixed(4)} (classical ${cl.chiN.toFixed(4)}) in ${ne.seconds.toFixed(1)} s`,
+  );
 }

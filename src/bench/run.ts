@@ -1,27 +1,31 @@
 /**
  * `npm run bench`: prints timings of every part; never fails on a time.
- * `npm run bench -- --step-profile`: only the per-step timing and kernel breakdown (issue 7).
- * `npm run bench -- --surrogate`: only the parametric surrogate (issue 6).
+ * One part only: `npm run bench -- --step-profile` (per-step timing and kernel breakdown),
+ * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
+ * estimators), `--surrogate` (the parametric surrogate).
  */
-const only = process.argv.includes('--step-profile');
-const surrogateOnly = process.argv.includes('--surrogate');
-if (!surrogateOnly) {
-  if (!only) {
-    const { runSpectralBench } = await import('./spectral-bench.js');
-    runSpectralBench();
-  }
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate'].filter((p) => process.argv.includes(p));
+const want = (p: string) => parts.length === 0 || parts.includes(p);
+
+if (parts.length === 0) {
+  const { runSpectralBench } = await import('./spectral-bench.js');
+  runSpectralBench();
+}
+if (want('--step-profile')) {
   const { runStepProfile } = await import('./step-profile.js');
   await runStepProfile();
   const { runWorkerBench } = await import('./worker-bench.js');
   await runWorkerBench();
-  if (!only) {
-    const { runTrainerBench } = await import('./trainer-bench.js');
-    await runTrainerBench();
-    const inverse = await import('./inverse-bench.js').catch(() => undefined);
-    if (inverse) await inverse.runInverseBench();
-  }
 }
-if (!only) {
+if (want('--trainer')) {
+  const { runTrainerBench } = await import('./trainer-bench.js');
+  await runTrainerBench();
+}
+if (want('--inverse')) {
+  const { runInverseBench } = await import('./inverse-bench.js');
+  await runInverseBench();
+}
+if (want('--surrogate')) {
   const { runSurrogateBench } = await import('./surrogate-bench.js');
   await runSurrogateBench();
 }
