@@ -100,13 +100,17 @@ describe('surrogate commands', () => {
     expect(bad.stderr).toMatch(/--points: got 0; allowed: a whole number from 2 to 8192/);
   });
 
-  it('predict on something that is not a surrogate checkpoint says so (exit 2)', () => {
+  it('predict on something that is not a surrogate checkpoint says so, and evaluate on a surrogate (exit 2)', () => {
     const other = join(work, 'other');
     runCli(['solve', '--f', '0.5', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', other]);
     writeFileSync(join(other, 'checkpoint.json'), JSON.stringify({ kind: 'checkpoint' }));
     const r = runCli(['predict', other, '--chiN', '15']);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/predict needs a surrogate checkpoint/);
+    // And the other way round: evaluate (single-point networks) points a surrogate to predict and report.
+    const ev = runCli(['evaluate', ck]);
+    expect(ev.code).toBe(2);
+    expect(ev.stderr).toMatch(/a surrogate checkpoint; its error map .* is in .*metrics\.json/);
   });
 
   it('report draws the error map of the checkpoint', () => {

@@ -1,13 +1,12 @@
 /** `mesofield predict CHECKPOINT --chiN X …`: a thin layer over surrogate/predict.ts. */
 import type { Command } from 'commander';
-import { join } from 'node:path';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { InputError } from '../../io/errors.js';
-import { readJsonFile } from '../../io/load-json.js';
 import { provenance } from '../../io/versions.js';
 import { PARAMETER_LABELS, PARAMETER_NAMES } from '../../surrogate/parameter-space.js';
 import type { ParameterPoint } from '../../surrogate/parameter-space.js';
 import { checkPointCount, predictAt } from '../../surrogate/predict.js';
+import { checkpointKind } from '../../io/checkpoint-kind.js';
 import type { Prediction } from '../../surrogate/predict.js';
 import { action, numberFlag } from '../run-command.js';
 import { backendFlag } from './train.js';
@@ -54,9 +53,9 @@ export function registerPredict(program: Command): void {
         const points = numberFlag('--points', flags.points);
         checkPointCount(points);
         const backend = backendFlag(flags.backend);
-        const raw = readJsonFile(join(dir, 'checkpoint.json')) as { kind?: unknown };
-        if (raw?.kind !== 'surrogate-checkpoint') {
-          throw new InputError(`${dir}: checkpoint kind ${JSON.stringify(raw?.kind)}; predict needs a surrogate checkpoint (kind "surrogate-checkpoint", from mesofield train on a config of kind "surrogate"); for a single-point network use mesofield evaluate`);
+        const kind = checkpointKind(dir);
+        if (kind !== undefined && kind !== 'surrogate-checkpoint') {
+          throw new InputError(`${dir}: checkpoint kind ${JSON.stringify(kind)}; predict needs a surrogate checkpoint (kind "surrogate-checkpoint", from mesofield train on a config of kind "surrogate"); for a single-point network use mesofield evaluate`);
         }
         const t0 = performance.now();
         const { selectBackend } = await import('../../neural/backend.js');

@@ -7,6 +7,7 @@ import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action, numberFlag } from '../run-command.js';
 import type { TransferReport } from '../../neural/train-run.js';
+import { checkpointKind } from '../../io/checkpoint-kind.js';
 
 export interface TrainFlags {
   out?: string;
@@ -140,6 +141,9 @@ export function registerTrain(program: Command): void {
     .option('--json', 'print the metrics as JSON on stdout')
     .action(
       action(async (dir: string, flags: { backend?: string; json?: boolean }) => {
+        if (checkpointKind(dir) === 'surrogate-checkpoint') {
+          throw new InputError(`${dir}: a surrogate checkpoint; its error map against fresh reference solves is in ${join(dir, 'metrics.json')} (mesofield report ${dir} draws it); mesofield predict ${dir} --chiN X answers at a point`);
+        }
         const { evaluateCheckpoint } = await import('../../neural/evaluate-checkpoint.js');
         const ev = await evaluateCheckpoint(dir, backendFlag(flags.backend));
         const out = {
