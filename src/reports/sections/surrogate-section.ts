@@ -103,8 +103,16 @@ function surrogatePage(s: SurrogateInput): ReportPage {
   const names = s.parameters.map((p) => p.symbol);
   const rounds = s.history.filter((h) => h.round > 0);
   const evaluated = s.history.filter((h) => h.phiError !== undefined);
+  const worst = s.heldOut.reduce((w, h) => (h.phiARelativeL2 > w.phiARelativeL2 ? h : w));
   const blocks: Block[] = [
-    { type: 'text', lines: [`Trained range: ${s.parameters.map((p) => `${p.symbol} in [${sig(p.min, 5)}, ${sig(p.max, 5)}], ${p.anchors} anchors`).join('; ')}.`, ...s.timing] },
+    {
+      type: 'text',
+      lines: [
+        `Trained range: ${s.parameters.map((p) => `${p.symbol} in [${sig(p.min, 5)}, ${sig(p.max, 5)}], ${p.anchors} anchors`).join('; ')}.`,
+        ...s.timing,
+        `The system on the title page and the profile and metrics pages is the held-out point with the largest φA error, ${names.map((n, i) => `${n} = ${sig(worst.values[i], 6)}`).join(', ')}: the surrogate there against its reference solve, drawn on t = x/L.`,
+      ],
+    },
     ...(s.parameters.length === 1 ? errorCharts(s) : s.parameters.length === 2 ? errorMap(s) : []),
   ];
   if (rounds.length || evaluated.length) {
