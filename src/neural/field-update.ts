@@ -7,7 +7,7 @@
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { SpeciesArrays } from '../physics/fields.js';
-import { fieldDeviation, fixGauge } from '../physics/scft-equations.js';
+import { mixedFieldUpdate } from '../physics/scft-equations.js';
 import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
 import type { Tf } from './backend.js';
 import { networkSolution } from './network-solution.js';
@@ -34,10 +34,7 @@ export interface LamellarPin {
  */
 export function refitFieldsToUpdate(tf: Tf, nets: ScftNetworks, chiN: number, x: Float64Array, w: SpeciesArrays, phi: SpeciesArrays, mixing: number, fitSteps: number, learningRate: number, pin?: LamellarPin): FieldUpdateResult {
   if (!nets.field) return { residual: 0, fitLoss: 0 };
-  const { deviation, residual } = fieldDeviation(nets.chain, chiN, w, phi);
-  const target = { A: Float64Array.from(w.A), B: Float64Array.from(w.B) };
-  for (const k of nets.chain.species) for (let j = 0; j < x.length; j++) target[k][j] += mixing * deviation[k][j];
-  fixGauge(nets.chain, target);
+  const { w: target, residual } = mixedFieldUpdate(nets.chain, chiN, w, phi, mixing);
   const pinShift = pin && nets.chain.species.length === 2 ? pinLamellarPhase(target, nets.length, pin.periods, pin.phase) : undefined;
   const fit = warmStart(tf, nets, { x, w: target, chiN }, fitSteps, learningRate, undefined, nets.field.parameters);
   return { residual, fitLoss: fit.finalLoss, ...(pinShift !== undefined ? { pinShift } : {}) };

@@ -41,7 +41,9 @@ describe('network estimator of χN', () => {
     const chain = diblock(0.5);
     const { data } = synthData({ chain, chiN: 15, nx: 64, ns: 100, noise: 0.02, seed: 4 });
     const cl = invert(data, { chain, nx: 64, ns: 100 });
-    const ne = await estimateNetwork(data, cl, { ...settings, chain });
+    // A third of the default L-BFGS budget keeps the suite short; measured along the default
+    // run: 15.27 at most (+1.8 %) on the way, 14.91 after 500 iterations, 14.905 after 1000.
+    const ne = await estimateNetwork(data, cl, { ...settings, lbfgsIterations: 400, chain });
     expect(Math.abs(ne.chiN / 15 - 1)).toBeLessThan(0.03);
   });
 });
