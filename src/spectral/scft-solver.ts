@@ -14,7 +14,7 @@ import type { SpeciesArrays } from '../physics/fields.js';
 import { checkCell, gridPoints, resamplePeriodic, spreadOf } from '../physics/grid.js';
 import type { Phase, ScftSolution } from '../physics/result.js';
 import { fieldDeviation, fieldsFromComposition, fixGauge, freeEnergy } from '../physics/scft-equations.js';
-import { spinodal } from '../physics/rpa.js';
+import { inverseStructureFactor, spinodal } from '../physics/rpa.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
 import { spectralSchema } from '../io/schemas/spectral-schema.js';
 import { AndersonMixer } from './anderson-mixer.js';
@@ -170,68 +170,91 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
   const notes: string[] = [];
   const fixed = externalFields(req.system, cell);
 
-  const finish = (w: SpeciesArrays, dens: ReturnType<PropagatorSolver['solve']>, iterations: number, residual: number, converged: boolean, phase: Phase): ScftSolution =>
-    cellSolution({ req, chain, contour, cell, fixed, t0, notes }, w, dens, iterations, residual, converged, phase);
-
   if (fixed) {
     solver.setFields(fixed);
     const dens = solver.solve();
     notes.push('single-chain problem in prescribed fields: no self-consistency; F = −ln Q');
-    return finish(fixed, dens, 0, 0, true, 'single-chain');
+    return cellSolution({ req, chain, contour, cell, fixed, t0, notes }, fixed, dens, 0, 0, true, 'single-chain');
   }
 
-  let w = initialFields(req, chain, options);
-  fixGauge(chain, w);
-  const mixer = new AndersonMixer(options.andersonHistory, options.andersonMixing);
-  const species = chain.species;
-  const pack = (u: SpeciesArrays) => {
-    const v = new Float64Array(species.length * req.nx);
-    species.forEach((k, i) => v.set(u[k], i * req.nx));
-    return v;
-  };
-  const unpack = (v: Float64Array): SpeciesArrays => {
-    const u = zeroFields(req.nx);
-    species.forEach((k, i) => u[k].set(v.subarray(i * req.nx, (i + 1) * req.nx)));
-    return u;
-  };
-
-  // A warm start is already near a solution: simple mixing would only slow it down.
-  const simpleSteps = req.initial ? 0 : options.simpleSteps;
-  let residual = Infinity;
-  for (let it = 1; it <= options.maxIterations; it++) {
-    solver.setFields(w);
-    const dens = solver.solve();
-    const upd = fieldDeviation(chain, chiN, w, dens.phi);
-    residual = upd.residual;
-    if (!Number.isFinite(residual) || !(dens.Q > 0)) {
-      notes.push(`iteration diverged at step ${it} (residual ${residual}, Q ${dens.Q}); try smaller andersonMixing or more simpleSteps`);
-      return finish(w, dens, it, residual, false, 'lamellar');
+  const first = iterateFields(initialFields(req, chain, options), req.initial ? 0 : options.simpleSteps);
+  if (first.phase !== 'disordered' || !first.converged || chain.species.length === 1) return first;
+  // Above the cell's own spinodal the homogeneous state is linearly unstable (Leibler's RPA:
+  // N/S(q) < 0 at the cell's lamellar wave number q = 2πp/L), so a collapse onto it is the
+  // mixing scheme landing on an unstable fixed point, not the answer: restart from smaller,
+  // RPA-sized starts before reporting disorder. (Seen: χN = 16, L = 3.75 Rg from the default
+  // cosine start, while the lamella there has F 0.44 kT below the disordered state.)
+  const q = (2 * Math.PI * req.periods) / req.length;
+  if (!(inverseStructureFactor(chain, chiN, q * q) < 0)) return first;
+  const restarts: [string, SpeciesArrays][] = [
+    ['the RPA start', rpaStart(chain, chiN, req.nx, req.periods)],
+    ['a cosine start of amplitude 0.1', cosineStart(chain, chiN, req.nx, req.periods, 0.1)],
+  ];
+  for (const [name, w0] of restarts) {
+    const r = iterateFields(w0, options.simpleSteps);
+    if (r.converged && r.phase === 'lamellar') {
+      r.notes.unshift(`the first start collapsed to the disordered state (${first.iterations} iterations), which is linearly unstable in this cell (RPA N/S(q) < 0 at q = 2πp/L); ${name} converged to the lamella`);
+      return r;
     }
-    if (residual < options.tolerance) {
-      let phase: Phase;
-      if (species.length === 1) phase = 'homogeneous-melt';
-      else phase = spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
-      if (phase === 'disordered') notes.push('the iteration collapsed to the homogeneous (disordered) state: no lamella at these parameters from this start');
-      if (phase === 'lamellar') {
-        const domains = countDomains(dens.phi.A);
-        if (domains !== req.periods) notes.push(`cell set up for ${req.periods} period(s) but the solution has ${domains} A domain(s)`);
+  }
+  first.notes.push('the disordered state is linearly unstable in this cell (RPA N/S(q) < 0 at q = 2πp/L), but no restart reached a lamella');
+  return first;
+
+  /** The field iteration from w0: simple mixing for `simpleSteps` steps, then Anderson mixing. */
+  function iterateFields(w0: SpeciesArrays, simpleSteps: number): ScftSolution {
+    const notes: string[] = [];
+    const finish = (w: SpeciesArrays, dens: ReturnType<PropagatorSolver['solve']>, iterations: number, residual: number, converged: boolean, phase: Phase): ScftSolution =>
+      cellSolution({ req, chain, contour, cell, fixed, t0, notes }, w, dens, iterations, residual, converged, phase);
+    let w = w0;
+    fixGauge(chain, w);
+    const mixer = new AndersonMixer(options.andersonHistory, options.andersonMixing);
+    const species = chain.species;
+    const pack = (u: SpeciesArrays) => {
+      const v = new Float64Array(species.length * req.nx);
+      species.forEach((k, i) => v.set(u[k], i * req.nx));
+      return v;
+    };
+    const unpack = (v: Float64Array): SpeciesArrays => {
+      const u = zeroFields(req.nx);
+      species.forEach((k, i) => u[k].set(v.subarray(i * req.nx, (i + 1) * req.nx)));
+      return u;
+    };
+    let residual = Infinity;
+    for (let it = 1; it <= options.maxIterations; it++) {
+      solver.setFields(w);
+      const dens = solver.solve();
+      const upd = fieldDeviation(chain, chiN, w, dens.phi);
+      residual = upd.residual;
+      if (!Number.isFinite(residual) || !(dens.Q > 0)) {
+        notes.push(`iteration diverged at step ${it} (residual ${residual}, Q ${dens.Q}); try smaller andersonMixing or more simpleSteps`);
+        return finish(w, dens, it, residual, false, 'lamellar');
       }
-      return finish(w, dens, it, residual, true, phase);
+      if (residual < options.tolerance) {
+        let phase: Phase;
+        if (species.length === 1) phase = 'homogeneous-melt';
+        else phase = spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
+        if (phase === 'disordered') notes.push('the iteration collapsed to the homogeneous (disordered) state: no lamella at these parameters from this start');
+        if (phase === 'lamellar') {
+          const domains = countDomains(dens.phi.A);
+          if (domains !== req.periods) notes.push(`cell set up for ${req.periods} period(s) but the solution has ${domains} A domain(s)`);
+        }
+        return finish(w, dens, it, residual, true, phase);
+      }
+      if (it === options.maxIterations) {
+        notes.push(`not converged after ${it} iterations (residual ${residual.toExponential(3)} > tolerance ${options.tolerance})`);
+        return finish(w, dens, it, residual, false, spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar');
+      }
+      let next: SpeciesArrays;
+      if (it <= simpleSteps || options.andersonHistory === 0) {
+        next = zeroFields(req.nx);
+        const mix = it <= simpleSteps ? options.simpleMixing : options.andersonMixing;
+        for (const k of species) for (let j = 0; j < req.nx; j++) next[k][j] = w[k][j] + mix * upd.deviation[k][j];
+      } else {
+        next = unpack(mixer.next(pack(w), pack(upd.deviation)));
+      }
+      fixGauge(chain, next);
+      w = next;
     }
-    if (it === options.maxIterations) {
-      notes.push(`not converged after ${it} iterations (residual ${residual.toExponential(3)} > tolerance ${options.tolerance})`);
-      return finish(w, dens, it, residual, false, spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar');
-    }
-    let next: SpeciesArrays;
-    if (it <= simpleSteps || options.andersonHistory === 0) {
-      next = zeroFields(req.nx);
-      const mix = it <= simpleSteps ? options.simpleMixing : options.andersonMixing;
-      for (const k of species) for (let j = 0; j < req.nx; j++) next[k][j] = w[k][j] + mix * upd.deviation[k][j];
-    } else {
-      next = unpack(mixer.next(pack(w), pack(upd.deviation)));
-    }
-    fixGauge(chain, next);
-    w = next;
+    throw new Error('unreachable');
   }
-  throw new Error('unreachable');
 }
