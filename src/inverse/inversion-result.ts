@@ -4,6 +4,8 @@
  * block comparing whichever are present, the model's assumptions, and the fitted-profile
  * CSV. Lengths are in Rg, with nm copies when the input was in nm.
  */
+import { truthText } from './truth-comparison.js';
+import type { TruthComparison } from './truth-comparison.js';
 import type { NetworkEstimate } from './network-estimator.js';
 import type { Provenance } from '../io/versions.js';
 import type { ClassicalEstimate } from './classical.js';
@@ -155,9 +157,11 @@ export interface InversionResult {
   assumptions: readonly string[];
   estimators: Record<string, EstimatorBlock>;
   agreement: Agreement;
+  /** Synthetic profiles only: the estimates against the truth that made the data. */
+  truth?: TruthComparison;
 }
 
-export function inversionResult(data: ProfileData, config: unknown, provenance: Provenance, estimators: Record<string, EstimatorBlock>): InversionResult {
+export function inversionResult(data: ProfileData, config: unknown, provenance: Provenance, estimators: Record<string, EstimatorBlock>, truth?: TruthComparison): InversionResult {
   return {
     kind: 'inversion',
     version: 1,
@@ -173,6 +177,7 @@ export function inversionResult(data: ProfileData, config: unknown, provenance: 
     assumptions: ASSUMPTIONS,
     estimators,
     agreement: agreement(estimators),
+    ...(truth ? { truth } : {}),
   };
 }
 
@@ -208,6 +213,7 @@ export function summaryText(result: InversionResult): string {
     for (const n of (e.notes as string[]) ?? []) lines.push(`  note: ${n}`);
   }
   if (u.x === 'nm') lines.push(`x in nm, Rg = ${u.rgNm!.toPrecision(6)} nm (${u.rgFrom})`);
+  if (result.truth) lines.push(truthText(result.truth).trimEnd());
   lines.push('assumptions (the fitted χN holds only within them):');
   for (const a of result.assumptions) lines.push(`  - ${a}`);
   return `${lines.join('\n')}\n`;

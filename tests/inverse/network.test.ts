@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { estimateNetwork } from '../../src/inverse/network-estimator.js';
-import { solveFixedCell } from '../../src/spectral/scft-solver.js';
+import { compareWithTruth } from '../../src/inverse/truth-comparison.js';
 import { runCli } from '../helpers/run-cli.js';
 import { diblock, invert, synthData } from './helpers.js';
 
@@ -26,15 +26,9 @@ describe('network estimator of χN', () => {
     // The trajectory must actually move from the start towards the truth.
     expect(ne.runs[0].trajectory[0].chiN).toBeCloseTo(13.5, 6);
     // Field discovery: the exchange field against the true self-consistent one on the same cell.
-    const truth = solveFixedCell({ system: { chain, chiN: 15 }, length: cl.period, periods: 1, nx: 64, ns: 100, initial: cl.solution.w });
-    let num = 0;
-    let den = 0;
-    for (let j = 0; j < 64; j++) {
-      const t = truth.w.A[j] - truth.w.B[j];
-      num += (ne.runs[0].exchange[j] - t) ** 2;
-      den += t * t;
-    }
-    expect(Math.sqrt(num / den)).toBeLessThan(0.05);
+    const vsTruth = compareWithTruth('test', 15, chain, cl, ne);
+    expect(vsTruth.estimators.network.exchangeFieldRelativeL2).toBeLessThan(0.05);
+    expect(vsTruth.estimators.network.error).toBeCloseTo(ne.chiN - 15, 12);
   });
 
   it('2 % Gaussian noise, started from the classical estimate: χN within 3 %', async () => {
@@ -62,6 +56,11 @@ describe('mesofield invert --method both', () => {
     expect(res.estimators.network.intervalMethod).toMatch(/seed/);
     expect(res.agreement.compared).toBe(true);
     expect(JSON.parse(readFileSync(join(out, 'result.json'), 'utf8')).estimators.network.backend).toBe('wasm');
+    // synth wrote its truth beside the CSV: the result measures both estimates against it.
+    expect(res.truth.chiN).toBe(15);
+    expect(res.truth.estimators.classical.error).toBeCloseTo(res.estimators.classical.chiN - 15, 12);
+    expect(res.truth.estimators.network.exchangeFieldRelativeL2).toBeGreaterThan(0);
+    expect(res.truth.estimators.network.exchangeFieldRelativeL2).toBeLessThan(0.2);
     // The report draws the network's χN trajectory against the classical estimate.
     const text = execFileSync('pdftotext', [join(out, 'report', 'report.pdf'), '-'], { encoding: 'utf8' });
     expect(text).toMatch(/trainable χN against step/);

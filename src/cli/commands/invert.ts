@@ -1,6 +1,6 @@
 /** `mesofield invert`: recover χN (and the fields) from a measured composition profile. */
 import type { Command } from 'commander';
-import { readFileSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
@@ -13,6 +13,8 @@ import type { PeriodMode } from '../../inverse/objective.js';
 import { fitCsv, classicalBlock, inversionResult, networkBlock, summaryText } from '../../inverse/inversion-result.js';
 import type { EstimatorBlock } from '../../inverse/inversion-result.js';
 import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
+import type { NetworkEstimate } from '../../inverse/network-estimator.js';
+import { compareWithTruth, readTruthSidecar } from '../../inverse/truth-comparison.js';
 import { action, numberFlag } from '../run-command.js';
 import { obj, readRawConfig } from '../raw-config.js';
 import { Progress } from '../progress.js';
@@ -158,12 +160,13 @@ export function registerInvert(program: Command): void {
         }
         progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
         const estimators: Record<string, EstimatorBlock> = {};
+        let ne: NetworkEstimate | undefined;
         if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data);
         if (config.method !== 'classical') {
           // The network fits χN and the fields; the phase offset and period come from the classical fit.
           const { estimateNetwork } = await import('../../inverse/network-estimator.js');
           const net = config.network;
-          const ne = await estimateNetwork(data, estimate, {
+          ne = await estimateNetwork(data, estimate, {
             chain: config.system.chain,
             seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
             steps: net.steps,
@@ -178,7 +181,10 @@ export function registerInvert(program: Command): void {
           progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
           estimators.network = networkBlock(ne, estimate, data);
         }
-        const result = inversionResult(data, config, provenance(), estimators);
+        // A synthetic profile (synth --out) has its truth beside it: measure the estimates against it.
+        const truthPath = `${profilePath}.truth.json`;
+        const truth = existsSync(truthPath) ? compareWithTruth(truthPath, readTruthSidecar(truthPath).chiN, config.system.chain, estimate, ne) : undefined;
+        const result = inversionResult(data, config, provenance(), estimators, truth);
         if (flags.out) {
           const files = {
             'result.json': `${JSON.stringify(result, null, 1)}\n`,
