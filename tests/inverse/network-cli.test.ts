@@ -1,0 +1,33 @@
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { runCli } from '../helpers/run-cli.js';
+
+// In a file of its own so that the test runner can run it beside the long estimator tests.
+describe('mesofield invert --method both', () => {
+  it('reports both estimators and their agreement', () => {
+    const d = mkdtempSync(join(tmpdir(), 'mesofield-netinv-'));
+    const csv = join(d, 'p.csv');
+    expect(runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', csv]).code).toBe(0);
+    const out = join(d, 'run');
+    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--network-steps', '100', '--network-lbfgs', '100', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
+    expect(r.code).toBe(0);
+    const res = JSON.parse(r.stdout);
+    expect(Object.keys(res.estimators).sort()).toEqual(['classical', 'network']);
+    expect(res.estimators.network.runs.length).toBe(2);
+    expect(res.estimators.network.intervalMethod).toMatch(/seed/);
+    expect(res.agreement.compared).toBe(true);
+    expect(JSON.parse(readFileSync(join(out, 'result.json'), 'utf8')).estimators.network.backend).toBe('wasm');
+    // synth wrote its truth beside the CSV: the result measures both estimates against it.
+    expect(res.truth.chiN).toBe(15);
+    expect(res.truth.estimators.classical.error).toBeCloseTo(res.estimators.classical.chiN - 15, 12);
+    expect(res.truth.estimators.network.exchangeFieldRelativeL2).toBeGreaterThan(0);
+    expect(res.truth.estimators.network.exchangeFieldRelativeL2).toBeLessThan(0.2);
+    // The report draws the network's χN trajectory against the classical estimate.
+    const text = execFileSync('pdftotext', [join(out, 'report', 'report.pdf'), '-'], { encoding: 'utf8' });
+    expect(text).toMatch(/trainable χN against step/);
+    expect(text).toMatch(/classical estimate/);
+  });
+});
