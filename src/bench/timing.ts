@@ -1,10 +1,8 @@
 /** Timing helpers of the benchmarks: medians after a warm-up (robust to a shared machine's spikes). */
 
-export function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
+import { median } from '../numerics/median.js';
+
+export { median };
 
 /** Median ms of `repeats` calls of fn after `warmup` untimed ones. */
 export function timeIt(fn: () => void, repeats: number, warmup = 1): number {

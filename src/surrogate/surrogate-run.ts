@@ -11,7 +11,7 @@ import { provenance } from '../io/versions.js';
 import { selectBackend } from '../neural/backend.js';
 import { childSeed, Xorshift128 } from '../neural/random.js';
 import type { ScftSolution } from '../physics/result.js';
-import { median } from '../bench/timing.js';
+import { median } from '../numerics/median.js';
 import { heldOutErrors, onReferenceCell, summarizeErrors } from './error-map.js';
 import type { HeldOutError } from './error-map.js';
 import { checkSpace, ParameterSpace } from './parameter-space.js';
