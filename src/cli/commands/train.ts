@@ -101,7 +101,8 @@ export function registerTrain(program: Command): void {
               ),
           });
           const m = r.metrics;
-          progress.done(`${m.training.message} in ${formatDuration(m.training.seconds)} on ${m.backend}; checkpoint in ${outDir}`);
+          const polish = m.training.lbfgs ? ` and ${m.training.lbfgs.iterations} L-BFGS iterations` : '';
+          progress.done(`${m.training.message}${polish} in ${formatDuration(m.training.seconds)} on ${m.backend}; checkpoint in ${outDir}`);
           if (flags.json) process.stdout.write(`${JSON.stringify({ checkpoint: outDir, ...m }, null, 2)}\n`);
           else {
             process.stdout.write(
