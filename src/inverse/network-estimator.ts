@@ -36,7 +36,7 @@ import { networkSolution } from '../neural/network-solution.js';
 import { buildScftNetworks } from '../neural/scft-networks.js';
 import { LOSS_TERMS, ScftProblem } from '../neural/scft-problem.js';
 import type { LossValues } from '../neural/scft-problem.js';
-import { polishWithLbfgs, propagatorWeights, runTraining } from '../neural/train-loop.js';
+import { polishCycle, propagatorWeights, runTraining } from '../neural/train-loop.js';
 import { refitFieldsToUpdate } from '../neural/field-update.js';
 import { warmStart } from '../neural/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
@@ -169,9 +169,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
     // (measured in the forward problem: several times the MDE reduction of Adam per second).
     const perUpdate = s.lbfgsPerUpdate ?? 100;
     for (let done = 0; loop.reason !== 'diverged' && done < (s.lbfgsIterations ?? 0); done += perUpdate) {
-      fieldUpdateAt(s.steps + done);
-      problem.invalidateFields();
-      polishWithLbfgs(tf, problem, nets.parameters, propagatorWeights(config), perUpdate);
+      polishCycle(tf, problem, nets.parameters, propagatorWeights(config), perUpdate, () => fieldUpdateAt(s.steps + done));
     }
     const sol = networkSolution(tf, nets, { chain: s.chain, chiN }, { periods: 1, nx, nodesPerBlock: 64 });
     let rss = 0;

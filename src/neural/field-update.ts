@@ -18,8 +18,6 @@ export interface FieldUpdateResult {
   /** max |d| before the update (kT): the SCFT residual of the networks. */
   residual: number;
   fitLoss: number;
-  /** Shift (Rg) that put the updated lamella back at the pinned phase (physics/translation.ts). */
-  pinShift?: number;
 }
 
 /** Phase of the lamellar harmonic the updates hold fixed, and the number of periods in the cell. */
@@ -35,9 +33,9 @@ export interface LamellarPin {
 export function refitFieldsToUpdate(tf: Tf, nets: ScftNetworks, chiN: number, x: Float64Array, w: SpeciesArrays, phi: SpeciesArrays, mixing: number, fitSteps: number, learningRate: number, pin?: LamellarPin): FieldUpdateResult {
   if (!nets.field) return { residual: 0, fitLoss: 0 };
   const { w: target, residual } = mixedFieldUpdate(nets.chain, chiN, w, phi, mixing);
-  const pinShift = pin && nets.chain.species.length === 2 ? pinLamellarPhase(target, nets.length, pin.periods, pin.phase) : undefined;
+  if (pin && nets.chain.species.length === 2) pinLamellarPhase(target, nets.length, pin.periods, pin.phase);
   const fit = warmStart(tf, nets, { x, w: target, chiN }, fitSteps, learningRate, undefined, nets.field.parameters);
-  return { residual, fitLoss: fit.finalLoss, ...(pinShift !== undefined ? { pinShift } : {}) };
+  return { residual, fitLoss: fit.finalLoss };
 }
 
 export interface FieldUpdateSettings {

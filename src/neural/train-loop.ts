@@ -200,6 +200,18 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
   return finish('completed', `completed ${state.step} Adam steps`);
 }
 
+/**
+ * One polish cycle: the field step when given (alternating strategy: a field update, after
+ * which the frozen field values are stale), then L-BFGS in the fields as they now are.
+ */
+export function polishCycle(tf: Tf, problem: ScftProblem, params: ParameterSet, weights: LossValues, iterations: number, fieldStep?: () => void): { iterations: number; f: number; reason: string } {
+  if (fieldStep) {
+    fieldStep();
+    problem.invalidateFields();
+  }
+  return polishWithLbfgs(tf, problem, params, weights, iterations);
+}
+
 /** L-BFGS polish of all parameters on the same weighted loss (fixed collocation points). */
 export function polishWithLbfgs(tf: Tf, problem: ScftProblem, params: ParameterSet, weights: LossValues, iterations: number, onIteration?: (it: number, f: number) => void): { iterations: number; f: number; reason: string } {
   const vars = params.variables();

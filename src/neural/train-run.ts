@@ -23,7 +23,7 @@ import { buildScftNetworks } from './scft-networks.js';
 import type { ScftNetworks } from './scft-networks.js';
 import { LOSS_TERMS, ScftProblem } from './scft-problem.js';
 import type { LossValues } from './scft-problem.js';
-import { polishWithLbfgs, propagatorWeights, runTraining } from './train-loop.js';
+import { polishCycle, propagatorWeights, runTraining } from './train-loop.js';
 import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
 import { warmStart } from './warm-start.js';
 import { FieldUpdater, fieldUpdateSettings } from './field-update.js';
@@ -260,22 +260,19 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     let iterations = 0;
     const trainingSeconds = () => loop.state.secondsBefore + (performance.now() - tLoop) / 1000;
     for (let c = 0; c < cycles; c++) {
-      if (cycles > 1) {
-        fieldUpdater.update();
-        problem.invalidateFields();
-      }
-      r = polishWithLbfgs(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles));
+      r = polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined);
       iterations += r.iterations;
       // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.
       const phiError = tr.evaluateEvery > 0 ? evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2 : undefined;
       loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
-      opts.onStage?.(`L-BFGS cycle ${c + 1}/${cycles}: ${iterations} iterations, loss ${r.f.toExponential(3)}${phiError !== undefined ? `, φA error ${phiError.toExponential(3)}` : ''}`);
-      if (phiError !== undefined && tr.targetPhiError !== undefined && phiError < tr.targetPhiError && !training.reachedTarget) {
+      stage(`L-BFGS cycle ${c + 1}/${cycles}: ${iterations} iterations, loss ${r.f.toExponential(3)}${phiError !== undefined ? `, φA error ${phiError.toExponential(3)}` : ''}`);
+      if (phiError !== undefined && tr.targetPhiError !== undefined && phiError < tr.targetPhiError) {
         training.reachedTarget = { step: loop.state.step, seconds: trainingSeconds(), lbfgsIterations: iterations };
+        r = { ...r, reason: 'target-reached' };
         break;
       }
     }
-    training.lbfgs = { iterations, finalLoss: r.f, reason: training.reachedTarget?.lbfgsIterations !== undefined ? 'target-reached' : r.reason };
+    training.lbfgs = { iterations, finalLoss: r.f, reason: r.reason };
   }
   training.seconds = (performance.now() - t0) / 1000;
 
@@ -284,7 +281,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const freshResiduals = problem.freshResiduals(0x5eed, 1024);
   const target = config.training.targetPhiError;
   if (training.transferredFrom && target !== undefined) {
-    const reached = loop.reachedTarget ? { steps: loop.reachedTarget.step, seconds: loop.reachedTarget.seconds } : null;
+    // Reached in the Adam phase or in an L-BFGS cycle (then its iterations are in training.reachedTarget).
+    const reached = training.reachedTarget ? { steps: training.reachedTarget.step, seconds: training.reachedTarget.seconds } : null;
     const report: TransferReport = { targetPhiError: target, transfer: reached };
     if (config.training.transferBaseline === 'warm-start') {
       const b = await transferBaseline(opts, config);

@@ -78,6 +78,12 @@ function initialFields(req: FixedCellRequest, chain: Chain, options: SpectralOpt
   }
 }
 
+/** The verdict on converged densities: a one-species melt, or lamellar unless φ_A is flat. */
+function phaseOf(chain: Chain, phi: SpeciesArrays): Phase {
+  if (chain.species.length === 1) return 'homogeneous-melt';
+  return spreadOf(phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
+}
+
 /** Number of A-rich domains: upward crossings of φ_A through its mean on the periodic grid. */
 export function countDomains(phiA: Float64Array): number {
   let mean = 0;
@@ -153,7 +159,7 @@ export function solveInFields(req: Omit<FixedCellRequest, 'initial'> & { fields:
   solver.setFields(req.fields);
   const dens = solver.solve();
   const { residual } = fieldDeviation(chain, req.system.chiN, req.fields, dens.phi);
-  const phase: Phase = chain.species.length === 1 ? 'homogeneous-melt' : spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
+  const phase = phaseOf(chain, dens.phi);
   const notes = ['densities from one propagator solve in the given fields (no SCFT iteration)'];
   return cellSolution({ req, chain, contour, cell, fixed: undefined, t0, notes }, req.fields, dens, 0, residual, residual < options.tolerance, phase);
 }
@@ -230,9 +236,7 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
         return finish(w, dens, it, residual, false, 'lamellar');
       }
       if (residual < options.tolerance) {
-        let phase: Phase;
-        if (species.length === 1) phase = 'homogeneous-melt';
-        else phase = spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
+        const phase = phaseOf(chain, dens.phi);
         if (phase === 'disordered') notes.push('the iteration collapsed to the homogeneous (disordered) state: no lamella at these parameters from this start');
         if (phase === 'lamellar') {
           const domains = countDomains(dens.phi.A);

@@ -14,15 +14,15 @@ import { InputError, RunFailure } from '../io/errors.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
+import { modePhase } from '../physics/translation.js';
 import { solveFromConfig } from '../spectral/solve-from-config.js';
 import type { ParameterPoint, ParameterSpace } from './parameter-space.js';
 
 /** The solution moved by half a period when its A domain is not at x = 0 (see header). */
 export function canonicalPhase(sol: ScftSolution): ScftSolution {
   const nx = sol.nx;
-  let c = 0;
-  for (let j = 0; j < nx; j++) c += sol.phi.A[j] * Math.cos((2 * Math.PI * j) / nx);
-  if (c >= 0 || nx % 2 !== 0) return sol;
+  // A non-negative cosine coefficient of mode 1 is a phase within ±π/2.
+  if (Math.abs(modePhase(sol.phi.A, 1).phase) <= Math.PI / 2 || nx % 2 !== 0) return sol;
   const roll = (a: Float64Array) => Float64Array.from(a, (_, j) => a[(j + nx / 2) % nx]);
   const both = (u: SpeciesArrays) => ({ A: roll(u.A), B: roll(u.B) });
   return { ...sol, phi: both(sol.phi), w: both(sol.w), notes: [...sol.notes, 'rolled by half a period to put the A domain at x = 0'] };
