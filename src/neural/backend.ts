@@ -17,6 +17,7 @@
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import type * as TfModule from '@tensorflow/tfjs';
+import { installAliasingCopies } from './wasm/aliasing-copies.js';
 
 export type Tf = typeof TfModule;
 export type BackendKind = 'auto' | 'native' | 'wasm' | 'cpu';
@@ -89,6 +90,7 @@ async function initWasm(): Promise<BackendHandle> {
   if (!ok) throw new BackendError(`backend "wasm" did not initialise (binaries looked up in ${dist})`);
   await tf.ready();
   quiet(tf);
+  installAliasingCopies(tf);
   return { tf, backend: 'wasm', tfjsVersion: tf.version.tfjs };
 }
 
