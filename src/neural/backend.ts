@@ -17,7 +17,7 @@
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import type * as TfModule from '@tensorflow/tfjs';
-import { installAliasingCopies } from './wasm/aliasing-copies.js';
+import { installWasmExtras } from './wasm/install.js';
 
 export type Tf = typeof TfModule;
 export type BackendKind = 'auto' | 'native' | 'wasm' | 'cpu';
@@ -90,7 +90,8 @@ async function initWasm(): Promise<BackendHandle> {
   if (!ok) throw new BackendError(`backend "wasm" did not initialise (binaries looked up in ${dist})`);
   await tf.ready();
   quiet(tf);
-  installAliasingCopies(tf);
+  const extras = await installWasmExtras(tf);
+  if (extras) process.emitWarning(extras);
   return { tf, backend: 'wasm', tfjsVersion: tf.version.tfjs };
 }
 

@@ -21,6 +21,8 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from './backend.js';
+import { columnSums } from './wasm/column-sums-kernel.js';
+import { weightGradientKernel } from './wasm/weight-gradient-kernel.js';
 
 type Tensor = TfModule.Tensor;
 type Save = (ts: Tensor[]) => void;
@@ -63,6 +65,8 @@ function onesRow(tf: Tf, o: Ops, n: number): Tensor {
 function sumRowsWith(tf: Tf, o: Ops, a: Tensor): Tensor {
   const n = a.shape[0]!;
   if (n === 1) return a;
+  const summed = columnSums(tf, a);
+  if (summed) return summed;
   return tf.matMul(onesRow(tf, o, n) as TfModule.Tensor2D, a as TfModule.Tensor2D);
 }
 
@@ -84,9 +88,12 @@ function transposeWith(tf: Tf, a: Tensor): Tensor {
 
 /** dW = aᵀ·dy [in, out] through plain matMuls, transposing the narrower of a and dy. */
 function weightGradient(tf: Tf, a: Tensor, dy: Tensor): Tensor {
+  const own = weightGradientKernel(tf, a, dy);
+  if (own) return own;
   const inW = a.shape[1]!;
   const outW = dy.shape[1]!;
-  if (inW <= outW) return tf.matMul(transposeWith(tf, a) as TfModule.Tensor2D, dy as TfModule.Tensor2D);
+  // The right operand of a WASM matMul is packed at every call: keep the long, wide one left.
+  if (inW <= outW || outW === 1) return tf.matMul(transposeWith(tf, a) as TfModule.Tensor2D, dy as TfModule.Tensor2D);
   return transposeWith(tf, tf.matMul(transposeWith(tf, dy) as TfModule.Tensor2D, a as TfModule.Tensor2D));
 }
 

@@ -24,7 +24,8 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from './backend.js';
-import { addBroadcast, denseOp, fastTanh, gatherRowsOp, matMulFast, mulBroadcast } from './fast-ops.js';
+import { addBroadcast, denseOp, fastTanh, gatherRowsOp, matMulFast, mulBroadcast, plainOps } from './fast-ops.js';
+import { jetTanhFused } from './wasm/jet-tanh-kernel.js';
 
 export type Tensor = TfModule.Tensor;
 export type Channel = Tensor | null;
@@ -129,6 +130,9 @@ export class Jet {
    */
   tanh(): Jet {
     const tf = this.tf;
+    // On WASM, all of the rules below in one kernel each way (wasm/jet-tanh-kernel.ts).
+    const fused = plainOps() ? null : jetTanhFused(tf, this.v, this.dx, this.dxx, this.ds);
+    if (fused) return new Jet(tf, fused.t, fused.dx, fused.dxx, fused.ds);
     const t = fastTanh(tf, this.v);
     let one: Tensor | null = null;
     const d1 = () => (one ??= tf.sub(1, tf.square(t)));

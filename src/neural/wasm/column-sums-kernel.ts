@@ -1,0 +1,50 @@
+/**
+ * Σ over the rows of an [n, m] float32 tensor as [1, m], one f32x4 pass (issue 7).
+ *
+ * fast-ops.ts sums rows as the matMul ones[1, n]·a, which beats tfjs's Sum kernel on WASM
+ * but still pays XNNPACK's packing of the right operand a (an [n, m] copy plus set-up) on
+ * every call, since a is new each time; a plain accumulation is one read of a.
+ */
+import type * as TfModule from '@tensorflow/tfjs';
+import type { Tf } from '../backend.js';
+import { add, heapView, load, rowLoopFunction, store } from './heap-module.js';
+import type { HeapExports, WasmBackend } from './heap-module.js';
+
+type TensorInfo = TfModule.TensorInfo;
+
+const KERNEL = 'MesofieldColumnSums';
+
+/** out[c] += x[p, c] over all points p (out zeroed by the caller). */
+export const columnSumsWat = rowLoopFunction('column_sums', ['x', 'out'], [], [store('out', add(load('out', true), load('x')), true)]);
+
+let ready = false;
+
+export function installColumnSumsKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
+  if (ready) return;
+  const offset = (t: TensorInfo) => backend.getMemoryOffset(t.dataId);
+  tf.registerKernel({
+    kernelName: KERNEL,
+    backendName: 'wasm',
+    kernelFunc: ({ inputs }) => {
+      const x = inputs.x as TensorInfo;
+      const [n, m] = x.shape;
+      const out = backend.makeOutput([1, m], 'float32');
+      heapView(backend, out).fill(0);
+      heap.column_sums(n, m, offset(x), offset(out));
+      return out;
+    },
+  });
+  // d/dx Σ_p x[p, c] = 1: the gradient is dy broadcast over the rows.
+  tf.registerGradient({
+    kernelName: KERNEL,
+    inputsToSave: ['x'],
+    gradFunc: (dy, saved) => ({ x: () => tf.broadcastTo(dy as TfModule.Tensor, saved[0].shape) }),
+  });
+  ready = true;
+}
+
+/** Σ over rows as [1, m] by the kernel, or null where it does not apply (not WASM, m not a multiple of 4). */
+export function columnSums(tf: Tf, a: TfModule.Tensor): TfModule.Tensor | null {
+  if (!ready || a.rank !== 2 || a.dtype !== 'float32' || a.shape[1]! % 4 !== 0 || tf.getBackend() !== 'wasm') return null;
+  return tf.engine().runKernel(KERNEL, { x: a }) as TfModule.Tensor;
+}

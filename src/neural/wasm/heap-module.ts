@@ -1,0 +1,91 @@
+/**
+ * Kernels of our own on the tfjs WASM backend's heap (issue 7).
+ *
+ * A module written in WebAssembly text (SIMD, f32x4) is assembled by wabt and instantiated
+ * with the backend's own WebAssembly.Memory as its memory, so it reads and writes tfjs
+ * tensors in place: a kernel is handed byte offsets (BackendWasm.getMemoryOffset) and
+ * allocates nothing. Our modules use no linear-memory stack and no data segments; every
+ * byte they touch belongs to a tensor the calling kernel owns.
+ */
+import type * as TfModule from '@tensorflow/tfjs';
+
+type TensorInfo = TfModule.TensorInfo;
+
+/** The parts of tfjs-backend-wasm's BackendWasm the kernels use. */
+export interface WasmBackend {
+  wasm: { asm: { memory: WebAssembly.Memory } };
+  makeOutput(shape: number[], dtype: 'float32'): TensorInfo;
+  disposeData(dataId: object, force?: boolean): boolean;
+  getMemoryOffset(dataId: object): number;
+}
+
+type WabtInit = typeof import('wabt');
+type Assembler = Awaited<ReturnType<WabtInit>>;
+let assembler: Assembler | null = null;
+
+/** Load the assembler once (async; done when the WASM backend starts). */
+export async function loadAssembler(): Promise<void> {
+  if (assembler) return;
+  // A CommonJS package (`export =`): its function arrives as the default export.
+  const mod = (await import('wabt')) as unknown as { default: WabtInit };
+  assembler = await mod.default();
+}
+
+export type HeapExports = Record<string, (...args: number[]) => void>;
+
+/** Assemble `wat` and instantiate it on the backend's memory. */
+export function instantiateOnHeap(backend: WasmBackend, wat: string): HeapExports {
+  if (!assembler) throw new Error('instantiateOnHeap: loadAssembler() has not run');
+  const parsed = assembler.parseWat('mesofield-kernels.wat', wat, { simd: true });
+  try {
+    parsed.validate();
+    const { buffer } = parsed.toBinary({});
+    const module = new WebAssembly.Module(buffer);
+    return new WebAssembly.Instance(module, { env: { memory: backend.wasm.asm.memory } }).exports as unknown as HeapExports;
+  } finally {
+    parsed.destroy();
+  }
+}
+
+/** A float32 view of a tensor's data (valid until the next allocation may grow the heap). */
+export function heapView(backend: WasmBackend, t: TensorInfo): Float32Array {
+  const size = t.shape.reduce((a, b) => a * b, 1);
+  return new Float32Array(backend.wasm.asm.memory.buffer, backend.getMemoryOffset(t.dataId), size);
+}
+
+// ---- WebAssembly text helpers for elementwise f32x4 loops -------------------------------
+
+/** f32x4 constant. */
+export const splat = (c: number): string => `(f32x4.splat (f32.const ${c}))`;
+export const mul = (a: string, b: string): string => `(f32x4.mul ${a} ${b})`;
+export const add = (a: string, b: string): string => `(f32x4.add ${a} ${b})`;
+export const sub = (a: string, b: string): string => `(f32x4.sub ${a} ${b})`;
+export const get = (name: string): string => `(local.get $${name})`;
+export const set = (name: string, v: string): string => `(local.set $${name} ${v})`;
+
+/** Address of the current 4 floats of pointer `p`: full tensors step with $o, rows with $r. */
+const at = (p: string, row: boolean) => `(i32.add (local.get $${p}) (local.get $${row ? 'r' : 'o'}))`;
+export const load = (p: string, row = false): string => `(v128.load ${at(p, row)})`;
+export const store = (p: string, v: string, row = false): string => `(v128.store ${at(p, row)} ${v})`;
+
+/**
+ * A function looping over an [n, h] row-major float32 array, 4 columns at a time
+ * (h a positive multiple of 4): $o is the byte offset of the current 4 floats in a full
+ * [n, h] tensor, $r the offset within one row (for [1, h] tensors broadcast over rows).
+ */
+export function rowLoopFunction(name: string, pointers: string[], locals: string[], body: string[]): string {
+  const params = ['n', 'h', ...pointers].map((p) => `(param $${p} i32)`).join(' ');
+  const decl = [...['o', 'r', 'end', 'rowEnd'].map((l) => `(local $${l} i32)`), ...locals.map((l) => `(local $${l} v128)`)].join(' ');
+  return `(func (export "${name}") ${params} ${decl}
+  (local.set $end (i32.shl (i32.mul (local.get $n) (local.get $h)) (i32.const 2)))
+  (local.set $rowEnd (i32.shl (local.get $h) (i32.const 2)))
+  (block $done (loop $rows
+    (br_if $done (i32.ge_u (local.get $o) (local.get $end)))
+    (local.set $r (i32.const 0))
+    (loop $cols
+      ${body.join('\n      ')}
+      (local.set $o (i32.add (local.get $o) (i32.const 16)))
+      (local.set $r (i32.add (local.get $r) (i32.const 16)))
+      (br_if $cols (i32.lt_u (local.get $r) (local.get $rowEnd))))
+    (br $rows))))`;
+}
