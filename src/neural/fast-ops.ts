@@ -22,6 +22,7 @@
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from './backend.js';
 import { columnSums } from './wasm/column-sums-kernel.js';
+import { matMulKernel } from './wasm/matmul-kernel.js';
 import { weightGradientKernel } from './wasm/weight-gradient-kernel.js';
 
 type Tensor = TfModule.Tensor;
@@ -97,6 +98,11 @@ function weightGradient(tf: Tf, a: Tensor, dy: Tensor): Tensor {
   return transposeWith(tf, tf.matMul(transposeWith(tf, dy) as TfModule.Tensor2D, a as TfModule.Tensor2D));
 }
 
+/** a·w by our WASM kernel where it applies, else tf.matMul (no gradient: used inside custom ops). */
+function product(tf: Tf, a: Tensor, w: Tensor): Tensor {
+  return matMulKernel(tf, a, w) ?? tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D);
+}
+
 function ops(tf: Tf): Ops {
   let o = cache.get(tf);
   if (o) return o;
@@ -112,18 +118,18 @@ function ops(tf: Tf): Ops {
   // a·w: da = dy·wᵀ (w is small: its transpose is cheap), dw = aᵀ·dy by weightGradient.
   const backward = (dy: Tensor, saved: Tensor[]) => {
     const [xs, ks] = saved;
-    return [tf.matMul(dy as TfModule.Tensor2D, tf.transpose(ks) as TfModule.Tensor2D), weightGradient(tf, xs, dy)];
+    return [product(tf, dy, tf.transpose(ks)), weightGradient(tf, xs, dy)];
   };
   self.matMul = tf.customGrad((...args: Args) => {
     const [x, k, save] = args as [Tensor, Tensor, Save];
     save([x, k]);
-    return { value: tf.matMul(x as TfModule.Tensor2D, k as TfModule.Tensor2D), gradFunc: backward };
+    return { value: product(tf, x, k), gradFunc: backward };
   }) as (a: Tensor, w: Tensor) => Tensor;
   self.dense = tf.customGrad((...args: Args) => {
     const [x, k, b, save] = args as [Tensor, Tensor, Tensor, Save];
     save([x, k]);
     return {
-      value: tf.add(tf.matMul(x as TfModule.Tensor2D, k as TfModule.Tensor2D), b),
+      value: matMulKernel(tf, x, k, b) ?? tf.add(tf.matMul(x as TfModule.Tensor2D, k as TfModule.Tensor2D), b),
       gradFunc: (dy: Tensor, saved: Tensor[]) => [...backward(dy, saved), tf.reshape(sumRowsWith(tf, self, dy), b.shape)],
     };
   }) as (a: Tensor, w: Tensor, b: Tensor) => Tensor;

@@ -6,7 +6,8 @@
  *     derivative channels;
  *   - column sums against tf.sum over axis 0;
  *   - the weight gradient aᵀ·dy against tf.matMul(a, dy, transposeA), across its chunk
- *     boundary (256 rows) and its block shapes.
+ *     boundary (256 rows), its block shapes and its one-column form;
+ *   - the dense product a·w (+ bias) against tf.matMul (+ tf.add), remainder rows included.
  */
 import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type * as TfModule from '@tensorflow/tfjs';
@@ -14,6 +15,7 @@ import { selectBackend, type Tf } from '../../src/neural/backend.js';
 import { setPlainOps, sumRows } from '../../src/neural/fast-ops.js';
 import { Jet } from '../../src/neural/jet.js';
 import { jetTanhFused } from '../../src/neural/wasm/jet-tanh-kernel.js';
+import { matMulKernel } from '../../src/neural/wasm/matmul-kernel.js';
 import { weightGradientKernel } from '../../src/neural/wasm/weight-gradient-kernel.js';
 import { expectClose } from '../helpers/expect-close.js';
 
@@ -96,6 +98,10 @@ describe('WASM kernels of our own', () => {
         [1, 4, 8],
         [4096, 64, 64],
         [37, 32, 32],
+        [300, 2, 16],
+        [300, 7, 8],
+        [4096, 64, 1],
+        [9, 4, 1],
       ]) {
         const a = t2(n, i, n + i);
         const dy = t2(n, o, n + o + 1);
@@ -106,8 +112,28 @@ describe('WASM kernels of our own', () => {
         expectClose(own!.dataSync(), ref.dataSync(), 2e-6 * Math.sqrt(n), `${n}×${i}ᵀ·${n}×${o}`);
       }
       // Shapes outside the kernel's blocks are left to tfjs.
-      expect(weightGradientKernel(tf, t2(10, 6, 1), t2(10, 8, 2))).toBeNull();
-      expect(weightGradientKernel(tf, t2(10, 8, 1), t2(10, 1, 2))).toBeNull();
+      expect(weightGradientKernel(tf, t2(10, 6, 1), t2(10, 12, 2))).toBeNull();
+      expect(weightGradientKernel(tf, t2(10, 6, 1), t2(10, 1, 2))).toBeNull();
+    });
+  });
+
+  it('the dense product a·w (+ bias) equals tf.matMul (+ tf.add), with rows beyond a multiple of 4', () => {
+    tf.tidy(() => {
+      for (const [n, k, m] of [
+        [2048, 32, 32],
+        [7, 2, 8],
+        [1, 5, 16],
+        [301, 64, 64],
+      ]) {
+        const a = t2(n, k, n + k);
+        const w = t2(k, m, k + m);
+        const b = tf.tensor1d(values(m, m));
+        expectClose(matMulKernel(tf, a, w)!.dataSync(), tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D).dataSync(), 2e-6 * Math.sqrt(k), `${n}×${k}·${k}×${m}`);
+        const withBias = matMulKernel(tf, a, w, b)!;
+        expect(withBias.shape).toEqual([n, m]);
+        expectClose(withBias.dataSync(), tf.add(tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D), b).dataSync(), 2e-6 * Math.sqrt(k), `${n}×${k}·${k}×${m} + b`);
+      }
+      expect(matMulKernel(tf, t2(5, 4, 1), t2(4, 6, 2))).toBeNull();
     });
   });
 });

@@ -8,7 +8,8 @@
  * of dW is accumulated in eight f32x4 registers over one pass down the rows of a and dy,
  * reading both where they lie: the outer-product form of the product (Golub & Van Loan,
  * "Matrix Computations", 4th ed., §1.1.15, the outer-product (kji-type) matrix product).
- * Needs in a multiple of 4 and out a multiple of 8; other shapes keep the tfjs path.
+ * Needs out a multiple of 8 (blocks of 4 rows of dW, then single rows), or out = 1 with in a
+ * multiple of 4 (the one-column form below); other shapes keep the tfjs path.
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
@@ -22,20 +23,46 @@ const ROWS = 4;
 /** Points per pass: 256 rows of a and dy at 64 columns are 128 KiB, within a core's L2. */
 const CHUNK = 256;
 
-function weightGradientWat(): string {
+/** The pass over rows i of dW in blocks of `rows` (4, then 1 for the remainder of in). */
+function rowBlocks(rows: number, label: string): string {
   const acc = (r: number, h: number) => `$acc${r}${h}`;
-  const accs = Array.from({ length: ROWS }, (_, r) => [acc(r, 0), acc(r, 1)]).flat();
   // dW[(i + r)·out + j (+ 4)]: the block at row i, column j.
   const cell = (r: number, h: number) => `offset=${16 * h} (i32.add (local.get $dw) (i32.shl (i32.add (i32.mul (i32.add (local.get $i) (i32.const ${r})) (local.get $out)) (local.get $j)) (i32.const 2)))`;
-  const read = Array.from({ length: ROWS }, (_, r) => [0, 1].map((h) => `(local.set ${acc(r, h)} (v128.load ${cell(r, h)}))`).join(' ')).join('\n      ');
-  const update = Array.from({ length: ROWS }, (_, r) =>
-    [
-      `(local.set $s (f32x4.splat (f32.load offset=${4 * r} (local.get $pa))))`,
-      `(local.set ${acc(r, 0)} (f32x4.add (local.get ${acc(r, 0)}) (f32x4.mul (local.get $s) (local.get $d0))))`,
-      `(local.set ${acc(r, 1)} (f32x4.add (local.get ${acc(r, 1)}) (f32x4.mul (local.get $s) (local.get $d1))))`,
-    ].join(' '),
-  ).join('\n          ');
-  const write = Array.from({ length: ROWS }, (_, r) => [0, 1].map((h) => `(v128.store ${cell(r, h)} (local.get ${acc(r, h)}))`).join(' ')).join('\n      ');
+  const each = (f: (r: number) => string, sep: string) => Array.from({ length: rows }, (_, r) => f(r)).join(sep);
+  const read = each((r) => [0, 1].map((h) => `(local.set ${acc(r, h)} (v128.load ${cell(r, h)}))`).join(' '), '\n        ');
+  const update = each(
+    (r) =>
+      [
+        `(local.set $s (f32x4.splat (f32.load offset=${4 * r} (local.get $pa))))`,
+        `(local.set ${acc(r, 0)} (f32x4.add (local.get ${acc(r, 0)}) (f32x4.mul (local.get $s) (local.get $d0))))`,
+        `(local.set ${acc(r, 1)} (f32x4.add (local.get ${acc(r, 1)}) (f32x4.mul (local.get $s) (local.get $d1))))`,
+      ].join(' '),
+    '\n            ',
+  );
+  const write = each((r) => [0, 1].map((h) => `(v128.store ${cell(r, h)} (local.get ${acc(r, h)}))`).join(' '), '\n        ');
+  return `(block $${label}_done (loop $${label}_rows
+      (br_if $${label}_done (i32.gt_u (i32.add (local.get $i) (i32.const ${rows})) (local.get $in)))
+      (local.set $j (i32.const 0))
+      (loop $${label}_cols
+        ${read}
+        (local.set $pa (i32.add (local.get $a) (i32.shl (i32.add (i32.mul (local.get $p0) (local.get $in)) (local.get $i)) (i32.const 2))))
+        (local.set $pd (i32.add (local.get $dy) (i32.shl (i32.add (i32.mul (local.get $p0) (local.get $out)) (local.get $j)) (i32.const 2))))
+        (local.set $p (local.get $p0))
+        (loop $${label}_points
+            (local.set $d0 (v128.load (local.get $pd)))
+            (local.set $d1 (v128.load offset=16 (local.get $pd)))
+            ${update}
+          (local.set $pa (i32.add (local.get $pa) (local.get $sa)))
+          (local.set $pd (i32.add (local.get $pd) (local.get $sd)))
+          (br_if $${label}_points (i32.lt_u (local.tee $p (i32.add (local.get $p) (i32.const 1))) (local.get $p1))))
+        ${write}
+        (br_if $${label}_cols (i32.lt_u (local.tee $j (i32.add (local.get $j) (i32.const 8))) (local.get $out))))
+      (local.set $i (i32.add (local.get $i) (i32.const ${rows})))
+      (br $${label}_rows)))`;
+}
+
+function weightGradientWat(): string {
+  const accs = [0, 1, 2, 3].flatMap((r) => [`$acc${r}0`, `$acc${r}1`]);
   // Rows in chunks of CHUNK points, so that the chunk of a and dy stays in cache while every
   // block of dW passes over it; dW (zeroed by the caller) carries the sums between chunks.
   return `(func (export "weight_gradient") (param $n i32) (param $in i32) (param $out i32) (param $a i32) (param $dy i32) (param $dw i32)
@@ -48,27 +75,30 @@ function weightGradientWat(): string {
     (local.set $p1 (i32.add (local.get $p0) (i32.const ${CHUNK})))
     (if (i32.gt_u (local.get $p1) (local.get $n)) (then (local.set $p1 (local.get $n))))
     (local.set $i (i32.const 0))
-    (loop $rows
-      (local.set $j (i32.const 0))
-      (loop $cols
-        ${read}
-        (local.set $pa (i32.add (local.get $a) (i32.shl (i32.add (i32.mul (local.get $p0) (local.get $in)) (local.get $i)) (i32.const 2))))
-        (local.set $pd (i32.add (local.get $dy) (i32.shl (i32.add (i32.mul (local.get $p0) (local.get $out)) (local.get $j)) (i32.const 2))))
-        (local.set $p (local.get $p0))
-        (loop $points
-            (local.set $d0 (v128.load (local.get $pd)))
-            (local.set $d1 (v128.load offset=16 (local.get $pd)))
-            ${update}
-          (local.set $pa (i32.add (local.get $pa) (local.get $sa)))
-          (local.set $pd (i32.add (local.get $pd) (local.get $sd)))
-          (br_if $points (i32.lt_u (local.tee $p (i32.add (local.get $p) (i32.const 1))) (local.get $p1))))
-        ${write}
-        (br_if $cols (i32.lt_u (local.tee $j (i32.add (local.get $j) (i32.const 8))) (local.get $out))))
-      (br_if $rows (i32.lt_u (local.tee $i (i32.add (local.get $i) (i32.const ${ROWS}))) (local.get $in))))
+    ${rowBlocks(ROWS, 'four')}
+    ${rowBlocks(1, 'one')}
     (br_if $chunks (i32.lt_u (local.tee $p0 (local.get $p1)) (local.get $n)))))`;
 }
 
-export const weightGradientWatText = weightGradientWat();
+/**
+ * One output column (the network's last layer): dW[i] = Σ_p a[p, i]·dy[p], f32x4 over i,
+ * one pass down the rows. Needs in a multiple of 4.
+ */
+const oneColumnWat = `(func (export "weight_gradient_one_column") (param $n i32) (param $in i32) (param $a i32) (param $dy i32) (param $dw i32)
+  (local $p i32) (local $i i32) (local $pa i32) (local $rowEnd i32) (local $s v128)
+  (local.set $rowEnd (i32.shl (local.get $in) (i32.const 2)))
+  (local.set $pa (local.get $a))
+  (loop $points
+    (local.set $s (f32x4.splat (f32.load (i32.add (local.get $dy) (i32.shl (local.get $p) (i32.const 2))))))
+    (local.set $i (i32.const 0))
+    (loop $cols
+      (v128.store (i32.add (local.get $dw) (local.get $i))
+        (f32x4.add (v128.load (i32.add (local.get $dw) (local.get $i))) (f32x4.mul (v128.load (i32.add (local.get $pa) (local.get $i))) (local.get $s))))
+      (br_if $cols (i32.lt_u (local.tee $i (i32.add (local.get $i) (i32.const 16))) (local.get $rowEnd))))
+    (local.set $pa (i32.add (local.get $pa) (local.get $rowEnd)))
+    (br_if $points (i32.lt_u (local.tee $p (i32.add (local.get $p) (i32.const 1))) (local.get $n)))))`;
+
+export const weightGradientWatText = `${weightGradientWat()}\n${oneColumnWat}`;
 
 let ready = false;
 
@@ -84,7 +114,8 @@ export function installWeightGradientKernel(tf: Tf, backend: WasmBackend, heap: 
       const outW = dy.shape[1];
       const dw = backend.makeOutput([inW, outW], 'float32');
       heapView(backend, dw).fill(0);
-      heap.weight_gradient(n, inW, outW, offset(a), offset(dy), offset(dw));
+      if (outW === 1) heap.weight_gradient_one_column(n, inW, offset(a), offset(dy), offset(dw));
+      else heap.weight_gradient(n, inW, outW, offset(a), offset(dy), offset(dw));
       return dw;
     },
   });
@@ -95,6 +126,8 @@ export function installWeightGradientKernel(tf: Tf, backend: WasmBackend, heap: 
 export function weightGradientKernel(tf: Tf, a: TfModule.Tensor, dy: TfModule.Tensor): TfModule.Tensor | null {
   if (!ready || a.rank !== 2 || dy.rank !== 2 || a.dtype !== 'float32' || dy.dtype !== 'float32') return null;
   const [n, inW] = a.shape as [number, number];
-  if (n < 1 || dy.shape[0] !== n || inW % ROWS !== 0 || dy.shape[1]! % 8 !== 0 || tf.getBackend() !== 'wasm') return null;
+  const outW = dy.shape[1]!;
+  const fits = outW === 1 ? inW % 4 === 0 : outW % 8 === 0;
+  if (n < 1 || dy.shape[0] !== n || !fits || tf.getBackend() !== 'wasm') return null;
   return tf.engine().runKernel(KERNEL, { a, dy }) as TfModule.Tensor;
 }

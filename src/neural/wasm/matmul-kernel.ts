@@ -1,0 +1,100 @@
+/**
+ * C = A·W (+ b) for a tall A [n, k] and a small W [k, m] (a dense layer's forward pass and
+ * its input gradient dy·Wᵀ), as one register-blocked f32x4 kernel (issue 7).
+ *
+ * XNNPACK's matMul on tfjs's WASM backend builds and caches an operator keyed by the right
+ * operand; a layer's W changes at every optimiser step, so each call pays the set-up and
+ * packing again. Here each 4 × 8 block of C is accumulated in eight f32x4 registers, started
+ * from the bias when there is one, over the k columns of A: the row-oriented (ijk / saxpy)
+ * form of the product (Golub & Van Loan, "Matrix Computations", 4th ed., §1.1.11).
+ * Needs m a multiple of 8; rows beyond the last multiple of 4 go one at a time.
+ */
+import type * as TfModule from '@tensorflow/tfjs';
+import type { Tf } from '../backend.js';
+import type { HeapExports, WasmBackend } from './heap-module.js';
+
+type TensorInfo = TfModule.TensorInfo;
+
+const KERNEL = 'MesofieldMatMul';
+
+/** The block loop for `rows` rows of C at a time (4, then 1 for the remainder). */
+function blockLoop(rows: number, label: string): string {
+  const acc = (r: number, h: number) => `$c${r}${h}`;
+  const rowPtr = (r: number) => `$pa${r}`;
+  const cOffset = (r: number, h: number) =>
+    `offset=${16 * h} (i32.add (local.get $c) (i32.shl (i32.add (i32.mul (i32.add (local.get $p) (i32.const ${r})) (local.get $m)) (local.get $j)) (i32.const 2)))`;
+  const init = Array.from({ length: rows }, (_, r) =>
+    [0, 1].map((h) => `(local.set ${acc(r, h)} (if (result v128) (local.get $b) (then (v128.load offset=${16 * h} (i32.add (local.get $b) (i32.shl (local.get $j) (i32.const 2))))) (else (v128.const i32x4 0 0 0 0))))`).join(' '),
+  ).join('\n        ');
+  const ptrs = Array.from({ length: rows }, (_, r) => `(local.set ${rowPtr(r)} (i32.add (local.get $a) (i32.shl (i32.mul (i32.add (local.get $p) (i32.const ${r})) (local.get $k)) (i32.const 2))))`).join(' ');
+  const update = Array.from({ length: rows }, (_, r) =>
+    [
+      `(local.set $s (f32x4.splat (f32.load (local.get ${rowPtr(r)}))))`,
+      `(local.set ${acc(r, 0)} (f32x4.add (local.get ${acc(r, 0)}) (f32x4.mul (local.get $s) (local.get $w0))))`,
+      `(local.set ${acc(r, 1)} (f32x4.add (local.get ${acc(r, 1)}) (f32x4.mul (local.get $s) (local.get $w1))))`,
+      `(local.set ${rowPtr(r)} (i32.add (local.get ${rowPtr(r)}) (i32.const 4)))`,
+    ].join(' '),
+  ).join('\n            ');
+  const write = Array.from({ length: rows }, (_, r) => [0, 1].map((h) => `(v128.store ${cOffset(r, h)} (local.get ${acc(r, h)}))`).join(' ')).join('\n        ');
+  return `(block $${label}_done (loop $${label}_rows
+    (br_if $${label}_done (i32.gt_u (i32.add (local.get $p) (i32.const ${rows})) (local.get $n)))
+    (local.set $j (i32.const 0))
+    (loop $${label}_cols
+      ${init}
+      ${ptrs}
+      (local.set $pw (i32.add (local.get $w) (i32.shl (local.get $j) (i32.const 2))))
+      (local.set $q (i32.const 0))
+      (loop $${label}_inner
+        (local.set $w0 (v128.load (local.get $pw)))
+        (local.set $w1 (v128.load offset=16 (local.get $pw)))
+            ${update}
+        (local.set $pw (i32.add (local.get $pw) (local.get $sw)))
+        (br_if $${label}_inner (i32.lt_u (local.tee $q (i32.add (local.get $q) (i32.const 1))) (local.get $k))))
+      ${write}
+      (br_if $${label}_cols (i32.lt_u (local.tee $j (i32.add (local.get $j) (i32.const 8))) (local.get $m))))
+    (local.set $p (i32.add (local.get $p) (i32.const ${rows})))
+    (br $${label}_rows)))`;
+}
+
+function matMulWat(): string {
+  const locals = ['$p', '$j', '$q', '$pw', '$sw', '$pa0', '$pa1', '$pa2', '$pa3'].map((l) => `(local ${l} i32)`).join(' ');
+  const vlocals = ['$s', '$w0', '$w1', ...[0, 1, 2, 3].flatMap((r) => [`$c${r}0`, `$c${r}1`])].map((l) => `(local ${l} v128)`).join(' ');
+  // $b = 0: no bias (the heap's first bytes are never a tensor's).
+  return `(func (export "mat_mul") (param $n i32) (param $k i32) (param $m i32) (param $a i32) (param $w i32) (param $b i32) (param $c i32)
+  ${locals} ${vlocals}
+  (local.set $sw (i32.shl (local.get $m) (i32.const 2)))
+  ${blockLoop(4, 'four')}
+  ${blockLoop(1, 'one')})`;
+}
+
+export const matMulWatText = matMulWat();
+
+let ready = false;
+
+export function installMatMulKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
+  if (ready) return;
+  const offset = (t: TensorInfo) => backend.getMemoryOffset(t.dataId);
+  tf.registerKernel({
+    kernelName: KERNEL,
+    backendName: 'wasm',
+    kernelFunc: ({ inputs }) => {
+      const [a, w, b] = [inputs.a as TensorInfo, inputs.w as TensorInfo, inputs.b as TensorInfo | undefined];
+      const [n, k] = a.shape;
+      const m = w.shape[1];
+      const c = backend.makeOutput([n, m], 'float32');
+      heap.mat_mul(n, k, m, offset(a), offset(w), b ? offset(b) : 0, offset(c));
+      return c;
+    },
+  });
+  ready = true;
+}
+
+/** a·w (+ bias [m]) by the kernel, or null where it does not apply. No tfjs gradient: callers supply theirs. */
+export function matMulKernel(tf: Tf, a: TfModule.Tensor, w: TfModule.Tensor, bias?: TfModule.Tensor): TfModule.Tensor | null {
+  if (!ready || a.rank !== 2 || w.rank !== 2 || a.dtype !== 'float32' || w.dtype !== 'float32' || tf.getBackend() !== 'wasm') return null;
+  const [n, k] = a.shape as [number, number];
+  const m = w.shape[1]!;
+  if (n < 1 || k < 1 || w.shape[0] !== k || m % 8 !== 0) return null;
+  if (bias && (bias.size !== m || bias.dtype !== 'float32')) return null;
+  return tf.engine().runKernel(KERNEL, bias ? { a, w, b: bias } : { a, w }) as TfModule.Tensor;
+}
