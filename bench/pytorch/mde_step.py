@@ -8,7 +8,11 @@ One thread, float32.
 
 usage: python3 mde_step.py WEIGHTS.json STEPS ROUNDS
 prints one JSON line: {"ms": [median ms per step of each round], "losses": [first 3 losses],
-"threads": 1, "torch": version}
+"threads": 1, "torch": version, "blas": the BLAS library the process loaded}
+
+The figure depends on that library: Debian's torch links the generic libblas.so.3, which
+resolves (update-alternatives) to the reference BLAS unless an optimised one such as
+libopenblas0 is installed; the bench prints which one ran.
 """
 import json
 import math
@@ -17,6 +21,16 @@ import sys
 import time
 
 import torch
+
+
+def loaded_blas() -> str:
+    """The BLAS shared library mapped into this process (after torch has run a matmul)."""
+    try:
+        with open("/proc/self/maps") as f:
+            paths = {line.split()[-1] for line in f if "blas" in line.lower() and "/" in line}
+        return ", ".join(sorted(paths)) or "none found"
+    except OSError:
+        return "unknown"
 
 
 def main() -> None:
@@ -66,7 +80,7 @@ def main() -> None:
             step()
             t.append(1000 * (time.perf_counter() - t0))
         medians.append(statistics.median(t))
-    print(json.dumps({"ms": medians, "losses": losses, "threads": torch.get_num_threads(), "torch": torch.__version__}))
+    print(json.dumps({"ms": medians, "losses": losses, "threads": torch.get_num_threads(), "torch": torch.__version__, "blas": loaded_blas()}))
 
 
 if __name__ == "__main__":

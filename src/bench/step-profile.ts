@@ -74,7 +74,7 @@ function printProfile(label: string, p: Awaited<ReturnType<typeof profileStep>>,
 }
 
 /** The real trainer step's pieces for one size (f = 0.5, χN = 15 diblock, default losses). */
-function trainerStep(tf: Tf, width: number, points: number) {
+export function trainerStep(tf: Tf, width: number, points: number) {
   const nx = 64;
   const nodesPerBlock = Math.max(2, 2 * Math.round((points / nx - 1) / 4));
   const hidden = [width, width, width];
@@ -115,6 +115,7 @@ interface TorchResult {
   losses: number[];
   threads: number;
   torch: string;
+  blas: string;
 }
 
 /** Run the PyTorch twin of the like-for-like step on the same weights; null if torch is absent. */
@@ -128,7 +129,9 @@ function torchStep(width: number, points: number, weights: object, steps: number
   // Debian's python3-torch lives in the system python, which a pyenv shim may hide.
   let last = '';
   for (const python of [process.env.MESOFIELD_PYTHON, 'python3', '/usr/bin/python3'].filter((p): p is string => Boolean(p))) {
-    const r = spawnSync(python, [script, file, String(steps), String(rounds)], { encoding: 'utf8' });
+    // One thread for every pool torch may use (its own, OpenMP, OpenBLAS).
+    const env = { ...process.env, OMP_NUM_THREADS: '1', OPENBLAS_NUM_THREADS: '1', MKL_NUM_THREADS: '1' };
+    const r = spawnSync(python, [script, file, String(steps), String(rounds)], { encoding: 'utf8', env });
     if (r.status === 0) return JSON.parse(r.stdout.trim().split('\n').pop()!) as TorchResult;
     last = `${python}: ${(r.stderr || r.error?.message || '').trim().split('\n').pop()}`;
   }
@@ -162,7 +165,10 @@ export async function runStepProfile(opts: { top?: number; rounds?: number; step
     const torch = torchStep(width, points, initialWeights, steps, rounds);
     // tfjs again after torch, so both see the same load.
     for (let r = 0; r < rounds; r++) fastRounds.push(timeIt(() => p.step('fast'), steps));
-    const torchText = typeof torch === 'string' ? `PyTorch: ${torch}` : `PyTorch ${torch.torch} (${torch.threads} thread) ${median(torch.ms).toFixed(1)} ms [${torch.ms.map((m) => m.toFixed(1)).join(', ')}]`;
+    const torchText =
+      typeof torch === 'string'
+        ? `PyTorch: ${torch}`
+        : `PyTorch ${torch.torch} (${torch.threads} thread, BLAS ${torch.blas}) ${median(torch.ms).toFixed(1)} ms [${torch.ms.map((m) => m.toFixed(1)).join(', ')}]`;
     const fmt = (ls: number[]) => ls.map((l) => l.toPrecision(6)).join(', ');
     const lossCheck = typeof torch === 'string' ? '' : `\n    first 3 losses (same weights): tfjs ${fmt(firstLosses)}; torch ${fmt(torch.losses)}`;
     console.log(
