@@ -7,7 +7,9 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from './backend.js';
+import { plainOps } from './fast-ops.js';
 import type { NamedWeight, ParameterSet } from './parameters.js';
+import { adamUpdateKernel } from './wasm/adam-kernel.js';
 
 export interface AdamSettings {
   beta1: number;
@@ -42,6 +44,12 @@ export class Adam {
       const mOld = this.m.get(e.name);
       const vOld = this.v.get(e.name);
       const [mNew, vNew] = tf.tidy(() => {
+        // On WASM the lines below as one kernel (wasm/adam-kernel.ts), same arithmetic.
+        const fused = plainOps() ? null : adamUpdateKernel(tf, e.variable, g, mOld ?? tf.zerosLike(g), vOld ?? tf.zerosLike(g), { beta1, beta2, epsilon, lrOverC1: lr / c1, c2 });
+        if (fused) {
+          e.variable.assign(fused[0]);
+          return [tf.keep(fused[1]), tf.keep(fused[2])];
+        }
         const m = mOld ? tf.add(tf.mul(mOld, beta1), tf.mul(g, 1 - beta1)) : tf.mul(g, 1 - beta1);
         const v = vOld ? tf.add(tf.mul(vOld, beta2), tf.mul(tf.square(g), 1 - beta2)) : tf.mul(tf.square(g), 1 - beta2);
         const update = tf.div(tf.mul(m, lr / c1), tf.add(tf.sqrt(tf.div(v, c2)), epsilon));
