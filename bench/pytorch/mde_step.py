@@ -4,11 +4,11 @@ Same network (tanh MLP 2 -> 3xH -> 1, weights handed over from the tfjs side), s
 points, same loss: mean of r^2, r = du/ds - d2u/dx2 - (du/dx)^2 + 2 cos(2 pi x / L),
 with the input derivatives by autograd (create_graph=True), then torch.optim.Adam
 (lr from the file, betas 0.9/0.999, eps 1e-8: the same settings as src/neural/adam.ts).
-One thread, float32.
+One thread unless told otherwise, float32.
 
-usage: python3 mde_step.py WEIGHTS.json STEPS ROUNDS
+usage: python3 mde_step.py WEIGHTS.json STEPS ROUNDS [THREADS]  (THREADS default 1)
 prints one JSON line: {"ms": [median ms per step of each round], "losses": [first 3 losses],
-"threads": 1, "torch": version, "blas": the BLAS library the process loaded}
+"threads": THREADS, "torch": version, "blas": the BLAS library the process loaded}
 
 The figure depends on that library: Debian's torch links the generic libblas.so.3, which
 resolves (update-alternatives) to the reference BLAS unless an optimised one such as
@@ -35,7 +35,7 @@ def loaded_blas() -> str:
 
 def main() -> None:
     path, steps, rounds = sys.argv[1], int(sys.argv[2]), int(sys.argv[3])
-    torch.set_num_threads(1)
+    torch.set_num_threads(int(sys.argv[4]) if len(sys.argv) > 4 else 1)
     with open(path) as f:
         spec = json.load(f)
     layers = []

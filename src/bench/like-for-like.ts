@@ -35,6 +35,8 @@ export interface LikeForLikeProblem {
   loss(variant: StepVariant): TfModule.Scalar;
   /** One Adam step; returns the loss before the update. */
   step(variant: StepVariant): number;
+  /** One Adam step from gradients computed elsewhere (a data-parallel split sums the shares'). */
+  applyGradients(grads: TfModule.NamedTensorMap): void;
   /** Kernels and biases, layer by layer, row-major (to hand the same network to PyTorch). */
   weights(): { kernels: number[][]; biases: number[][]; shapes: number[][] };
   dispose(): void;
@@ -56,11 +58,28 @@ export function likeForLikePoints(points: number): { x: Float64Array; s: Float64
   return { x, s };
 }
 
-export function likeForLikeProblem(tf: Tf, width: number, points: number, seed = 1): LikeForLikeProblem {
+/**
+ * One share of the points for a data-parallel split: the rows of the s grid from
+ * index·ns/count up to (index + 1)·ns/count, with the loss Σ r² over the share divided by
+ * the full number of points, so that the shares' losses and gradients add up to the whole.
+ */
+export interface PointShare {
+  index: number;
+  count: number;
+}
+
+export function likeForLikeProblem(tf: Tf, width: number, allPoints: number, seed = 1, share?: PointShare): LikeForLikeProblem {
   const mlp = new Mlp(tf, { inputs: 2, hidden: [width, width, width], outputs: 1, activation: 'tanh', seed, name: 'u' });
   const params = new ParameterSet(tf, mlp.entries);
   const adam = new Adam(tf, params);
-  const { x, s } = likeForLikePoints(points);
+  const full = likeForLikePoints(allPoints);
+  const ns = allPoints / LIKE_FOR_LIKE_NX;
+  if (share && ns % share.count !== 0) throw new RangeError(`the ${ns} s rows do not split into ${share.count} equal shares`);
+  const [from, to] = share ? [(share.index * allPoints) / share.count, ((share.index + 1) * allPoints) / share.count] : [0, allPoints];
+  const { x, s } = { x: full.x.subarray(from, to), s: full.s.subarray(from, to) };
+  const points = to - from;
+  // The share's part of the mean over all points (1 without a split).
+  const shareOfMean = points / allPoints;
   const xs = new Float32Array(2 * points);
   const w = new Float32Array(points);
   for (let i = 0; i < points; i++) {
@@ -77,7 +96,8 @@ export function likeForLikeProblem(tf: Tf, width: number, points: number, seed =
   const fastLoss = (): TfModule.Scalar => {
     const u = mlp.forward(jetInput);
     const r = tf.add(tf.sub(tf.sub(u.ds!, u.dxx!), tf.square(u.dx!)), field);
-    return tf.mean(tf.square(r)) as TfModule.Scalar;
+    const mean = tf.mean(tf.square(r)) as TfModule.Scalar;
+    return shareOfMean === 1 ? mean : (tf.mul(mean, shareOfMean) as TfModule.Scalar);
   };
 
   // Written out with plain tfjs ops only (no jet class, no custom gradients).
@@ -107,7 +127,7 @@ export function likeForLikeProblem(tf: Tf, width: number, points: number, seed =
       ds = tf.mul(d1, zs);
     });
     const r = tf.add(tf.sub(tf.sub(ds, dxx), tf.square(dx)), field);
-    return tf.div(tf.sum(tf.square(r)), points) as TfModule.Scalar;
+    return tf.div(tf.sum(tf.square(r)), allPoints) as TfModule.Scalar;
   };
 
   const loss = (variant: StepVariant) => (variant === 'fast' ? fastLoss() : plainLoss());
@@ -123,6 +143,9 @@ export function likeForLikeProblem(tf: Tf, width: number, points: number, seed =
         adam.apply(grads, LIKE_FOR_LIKE_LEARNING_RATE);
         return out;
       });
+    },
+    applyGradients(grads) {
+      adam.apply(grads, LIKE_FOR_LIKE_LEARNING_RATE);
     },
     weights() {
       const kernels = mlp.layers.map((l) => Array.from(l.kernel.dataSync()));

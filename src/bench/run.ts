@@ -1,6 +1,7 @@
 /**
  * `npm run bench`: prints timings of every part; never fails on a time.
- * One part only: `npm run bench -- --step-profile` (per-step timing and kernel breakdown),
+ * One part only: `npm run bench -- --step-profile` (per-step timing and kernel breakdown,
+ * side by side with PyTorch; independent runs and one run split across worker threads),
  * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
  * estimators), `--surrogate` (the parametric surrogate).
  */
@@ -16,6 +17,8 @@ if (want('--step-profile')) {
   await runStepProfile();
   const { runWorkerBench } = await import('./worker-bench.js');
   await runWorkerBench();
+  const { runDataParallelBench } = await import('./data-parallel.js');
+  await runDataParallelBench();
 }
 if (want('--trainer')) {
   const { runTrainerBench } = await import('./trainer-bench.js');

@@ -90,6 +90,8 @@ export function trainerStep(tf: Tf, width: number, points: number) {
   const nets = buildScftNetworks(tf, config, chain, 4.0, true);
   const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
   problem.resample(0);
+  // As train-run.ts does for the alternating strategy: fields change only at field updates.
+  problem.fieldsFrozen = true;
   const adam = new Adam(tf, nets.parameters);
   const vars = nets.parameters.variables();
   const weights = Object.fromEntries(LOSS_TERMS.map((k) => [k, k === 'mde' ? 1 : 0])) as LossValues;
@@ -119,7 +121,7 @@ interface TorchResult {
 }
 
 /** Run the PyTorch twin of the like-for-like step on the same weights; null if torch is absent. */
-function torchStep(width: number, points: number, weights: object, steps: number, rounds: number): TorchResult | string {
+function torchStep(width: number, points: number, weights: object, steps: number, rounds: number, threads = 1): TorchResult | string {
   const script = join(process.cwd(), 'bench', 'pytorch', 'mde_step.py');
   if (!existsSync(script)) return `no ${script}`;
   const dir = mkdtempSync(join(tmpdir(), 'mesofield-torch-'));
@@ -129,9 +131,10 @@ function torchStep(width: number, points: number, weights: object, steps: number
   // Debian's python3-torch lives in the system python, which a pyenv shim may hide.
   let last = '';
   for (const python of [process.env.MESOFIELD_PYTHON, 'python3', '/usr/bin/python3'].filter((p): p is string => Boolean(p))) {
-    // One thread for every pool torch may use (its own, OpenMP, OpenBLAS).
-    const env = { ...process.env, OMP_NUM_THREADS: '1', OPENBLAS_NUM_THREADS: '1', MKL_NUM_THREADS: '1' };
-    const r = spawnSync(python, [script, file, String(steps), String(rounds)], { encoding: 'utf8', env });
+    // The same number of threads for every pool torch may use (its own, OpenMP, OpenBLAS).
+    const n = String(threads);
+    const env = { ...process.env, OMP_NUM_THREADS: n, OPENBLAS_NUM_THREADS: n, MKL_NUM_THREADS: n };
+    const r = spawnSync(python, [script, file, String(steps), String(rounds), n], { encoding: 'utf8', env });
     if (r.status === 0) return JSON.parse(r.stdout.trim().split('\n').pop()!) as TorchResult;
     last = `${python}: ${(r.stderr || r.error?.message || '').trim().split('\n').pop()}`;
   }
@@ -163,12 +166,15 @@ export async function runStepProfile(opts: { top?: number; rounds?: number; step
       fastRounds.push(timeIt(() => p.step('fast'), steps));
     }
     const torch = torchStep(width, points, initialWeights, steps, rounds);
+    // Both cores, to set beside the data-parallel split of the step (data-parallel.ts).
+    const torch2 = typeof torch === 'string' ? null : torchStep(width, points, initialWeights, steps, rounds, 2);
     // tfjs again after torch, so both see the same load.
     for (let r = 0; r < rounds; r++) fastRounds.push(timeIt(() => p.step('fast'), steps));
     const torchText =
       typeof torch === 'string'
         ? `PyTorch: ${torch}`
-        : `PyTorch ${torch.torch} (${torch.threads} thread, BLAS ${torch.blas}) ${median(torch.ms).toFixed(1)} ms [${torch.ms.map((m) => m.toFixed(1)).join(', ')}]`;
+        : `PyTorch ${torch.torch} (BLAS ${torch.blas.split(', ').map((b) => b.split('/').pop()).join(', ')}) 1 thread ${median(torch.ms).toFixed(1)} ms [${torch.ms.map((m) => m.toFixed(1)).join(', ')}]` +
+          (torch2 && typeof torch2 !== 'string' ? `, 2 threads ${median(torch2.ms).toFixed(1)} ms` : '');
     const fmt = (ls: number[]) => ls.map((l) => l.toPrecision(6)).join(', ');
     const lossCheck = typeof torch === 'string' ? '' : `\n    first 3 losses (same weights): tfjs ${fmt(firstLosses)}; torch ${fmt(torch.losses)}`;
     console.log(

@@ -1,5 +1,6 @@
 /** Turns thrown errors into one clear message on stderr and a non-zero exit code. */
 import { InputError, RunFailure } from '../io/errors.js';
+import { defaultWorkers } from '../io/worker-count.js';
 import { ModelError } from '../physics/chain.js';
 
 export function reportError(e: unknown): number {
@@ -34,4 +35,14 @@ export function numberFlag(name: string, value: string | undefined): number | un
   const v = Number(value);
   if (value.trim() === '' || !Number.isFinite(v)) throw new InputError(`${name}: got ${JSON.stringify(value)}; allowed: a number`);
   return v;
+}
+
+const MAX_WORKERS = 64;
+
+/** --workers: worker threads, a whole number from 1 to 64; default min(2, cores). */
+export function workersFlag(value: string | undefined): number {
+  const k = numberFlag('--workers', value);
+  if (k === undefined) return defaultWorkers();
+  if (!Number.isInteger(k) || k < 1 || k > MAX_WORKERS) throw new InputError(`--workers: got ${value}; allowed: a whole number from 1 to ${MAX_WORKERS}`);
+  return k;
 }

@@ -62,8 +62,16 @@ export interface NetworkEstimatorSettings {
    */
   lbfgsIterations?: number;
   lbfgsPerUpdate?: number;
+  /**
+   * Worker threads running seeds at once (default 1: all seeds in this thread). The seeds
+   * are independent and each is deterministic, so the estimate is the same either way.
+   */
+  workers?: number;
   onProgress?: (seed: number, step: number, steps: number, chiN: number) => void;
 }
+
+/** What the estimator reads of the classical estimate (all a worker thread is sent). */
+export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'modelOrigin' | 'solution'>;
 
 export interface NetworkRun {
   seed: number;
@@ -89,7 +97,7 @@ export interface NetworkEstimate {
   notes: string[];
 }
 
-function modelFrame(data: ProfileData, est: ClassicalEstimate): Float64Array {
+function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   const L = est.period;
   return Float64Array.from(data.x, (x) => {
     const t = (x - est.offset + est.modelOrigin) % L;
@@ -97,8 +105,14 @@ function modelFrame(data: ProfileData, est: ClassicalEstimate): Float64Array {
   });
 }
 
-export async function estimateNetwork(data: ProfileData, classical: ClassicalEstimate, s: NetworkEstimatorSettings): Promise<NetworkEstimate> {
+export async function estimateNetwork(data: ProfileData, classical: ClassicalStart, s: NetworkEstimatorSettings): Promise<NetworkEstimate> {
   const t0 = performance.now();
+  if ((s.workers ?? 1) > 1 && s.seeds.length > 1) {
+    const { estimateInSeedWorkers } = await import('./seed-workers.js');
+    const one = await estimateInSeedWorkers(data, classical, s);
+    const runs = one.flatMap((e) => e.runs).sort((a, b) => a.seed - b.seed);
+    return summarise(runs, one[0], t0);
+  }
   const handle = await selectBackend(s.backend);
   const tf = handle.tf;
   const chain = buildChain(s.chain);
@@ -185,24 +199,28 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalEst
     nets.dispose();
     if (loop.reason === 'diverged') throw new Error(`network estimator: seed ${seed}: ${loop.message}`);
   }
+  return summarise(runs, { chiNStart, backend: handle.backend, tfjs: handle.tfjsVersion, x: start.x }, t0);
+}
+
+/** The estimate from the seeds' runs: their mean, spread and range. */
+function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart' | 'backend' | 'tfjs' | 'x'>, t0: number): NetworkEstimate {
   const values = runs.map((r) => r.chiN);
   const mean = values.reduce((a, b) => a + b, 0) / values.length;
   const spread = values.length > 1 ? Math.sqrt(values.reduce((a, b) => a + (b - mean) ** 2, 0) / (values.length - 1)) : 0;
   const notes = [
     `seed spread over ${values.length} run(s): it measures how far independent trainings land apart, not the statistical error of the data; read the classical profile-likelihood interval for that`,
-    `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${chiNStart.toPrecision(6)}`,
+    `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
   ];
   return {
     chiN: mean,
     spread,
     interval: [Math.min(...values), Math.max(...values)],
     runs,
-    chiNStart,
-    backend: handle.backend,
-    tfjs: handle.tfjsVersion,
+    chiNStart: common.chiNStart,
+    backend: common.backend,
+    tfjs: common.tfjs,
     seconds: (performance.now() - t0) / 1000,
-    x: start.x,
+    x: common.x,
     notes,
   };
 }
-

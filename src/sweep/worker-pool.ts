@@ -3,7 +3,6 @@
  * takes the next point, so a slow point does not hold up the others; the order results
  * arrive in varies, their values do not (see solve-point.ts).
  */
-import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { InputError } from '../io/errors.js';
 import type { SweepConfig } from '../io/schemas/sweep-config.js';
@@ -11,9 +10,7 @@ import type { SweepPoint } from './grid.js';
 import type { SweepPointResult } from './solve-point.js';
 import { solveSweepPoint } from './solve-point.js';
 
-export function defaultWorkers(): number {
-  return Math.min(2, availableParallelism());
-}
+export { defaultWorkers } from '../io/worker-count.js';
 
 /**
  * The compiled worker entry. Under vitest this module runs from src/*.ts, which a worker

@@ -128,7 +128,8 @@ describe('training results are unchanged by the fast primitives', () => {
       kind: 'train',
       system: { chain: { type: 'diblock', f: 0.4 }, chiN: 15 },
       cell: { nx: 32, ns: 60 },
-      networks: { field: { hidden: [12, 12] }, propagator: { hidden: [12, 12, 12] } },
+      // Widths that every WASM kernel of src/neural/wasm takes (multiples of 8).
+      networks: { field: { hidden: [8, 8] }, propagator: { hidden: [16, 16, 16] } },
       collocation: { nx: 16, nodesPerBlock: 8, random: 64, resampleEvery: 20 },
       warmStart: { type: 'reference', steps: 30, learningRate: 0.01 },
       training: { steps: 45, learningRate: 2e-3, fieldUpdateEvery: 20, fieldFitSteps: 20, logEvery: 5 },

@@ -15,7 +15,7 @@ import type { EstimatorBlock } from '../../inverse/inversion-result.js';
 import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
 import type { NetworkEstimate } from '../../inverse/network-estimator.js';
 import { compareWithTruth, readTruthSidecar } from '../../inverse/truth-comparison.js';
-import { action, numberFlag } from '../run-command.js';
+import { action, numberFlag, workersFlag } from '../run-command.js';
 import { obj, readRawConfig } from '../raw-config.js';
 import { Progress } from '../progress.js';
 
@@ -34,6 +34,7 @@ interface InvertFlags {
   ns?: string;
   profilePoints?: string;
   seeds?: string;
+  workers?: string;
   networkSteps?: string;
   networkLbfgs?: string;
   backend?: string;
@@ -109,6 +110,7 @@ export function registerInvert(program: Command): void {
     .option('--f <f>', 'A fraction of the diblock (required without a config)')
     .option('--method <m>', 'classical | network | both')
     .option('--seeds <n>', 'network: independent seeded trainings (their spread is reported)')
+    .option('--workers <k>', 'network: worker threads training seeds at once (default: min(2, cores))')
     .option('--network-steps <n>', 'network: Adam steps per seed')
     .option('--network-lbfgs <n>', 'network: L-BFGS iterations per seed after the Adam steps')
     .option('--backend <b>', 'network: tfjs backend auto | native | wasm | cpu')
@@ -176,6 +178,7 @@ export function registerInvert(program: Command): void {
             chiNStart: net.chiNStart,
             resolution: toRg(config.resolution),
             backend: net.backend,
+            workers: workersFlag(flags.workers),
             onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
           });
           progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);

@@ -9,9 +9,8 @@ import { runSweep } from '../../sweep/run-sweep.js';
 import { formatIndices, parseShard } from '../../sweep/shard.js';
 import type { SweepPointResult } from '../../sweep/solve-point.js';
 import { writeTable } from '../../sweep/sweep-file.js';
-import { defaultWorkers } from '../../sweep/worker-pool.js';
 import { formatDuration, Progress } from '../progress.js';
-import { action, numberFlag } from '../run-command.js';
+import { action, workersFlag } from '../run-command.js';
 
 interface SweepFlags {
   shard?: string;
@@ -20,15 +19,6 @@ interface SweepFlags {
   merge?: string[];
   json?: boolean;
   quiet?: boolean;
-}
-
-const MAX_WORKERS = 64;
-
-function workersFlag(value: string | undefined): number {
-  const k = numberFlag('--workers', value);
-  if (k === undefined) return defaultWorkers();
-  if (!Number.isInteger(k) || k < 1 || k > MAX_WORKERS) throw new InputError(`--workers: got ${value}; allowed: a whole number from 1 to ${MAX_WORKERS}`);
-  return k;
 }
 
 const fixed = (v: number | null, digits: number) => (v === null ? '—' : v.toFixed(digits));
