@@ -6,8 +6,8 @@
  * losses of both, which must agree to float32 rounding (the sum's order differs).
  */
 import { loadavg } from 'node:os';
-import { Worker } from 'node:worker_threads';
 import { median } from './timing.js';
+import { runWorkersTogether } from './worker-bench.js';
 
 export interface SplitRun {
   msPerStep: number;
@@ -20,17 +20,10 @@ export async function runSplit(width: number, points: number, steps: number, cou
   const size = 2 * width + width + 2 * (width * width + width) + width + 1;
   const slots = new SharedArrayBuffer(4 * (size + 1) * 2 * count);
   const barrier = new SharedArrayBuffer(8);
-  const workers = Array.from({ length: count }, (_, index) => new Worker(new URL('./data-parallel-worker.js', import.meta.url), { workerData: { width, points, steps, seed, index, count, slots, barrier } }));
-  const next = (w: Worker) =>
-    new Promise<{ ms: number; losses: number[] }>((resolve, reject) => {
-      w.once('message', resolve);
-      w.once('error', reject);
-    });
-  await Promise.all(workers.map(next));
-  const done = workers.map(next);
-  for (const w of workers) w.postMessage('go');
-  const out = await Promise.all(done);
-  await Promise.all(workers.map((w) => w.terminate()));
+  const out = await runWorkersTogether<{ ms: number; losses: number[] }>(
+    './data-parallel-worker.js',
+    Array.from({ length: count }, (_, index) => ({ width, points, steps, seed, index, count, slots, barrier })),
+  );
   return { msPerStep: Math.max(...out.map((o) => o.ms)) / steps, losses: out[0].losses };
 }
 

@@ -9,11 +9,15 @@ import { loadavg } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { median } from './timing.js';
 
-/** Start one worker per seed, wait until all have set up, then let them step at the same time. */
-async function runWorkers(width: number, points: number, steps: number, seeds: number[]): Promise<Array<{ ms: number; loss: number }>> {
-  const workers = seeds.map((seed) => new Worker(new URL('./worker-steps.js', import.meta.url), { workerData: { width, points, steps, seed } }));
+/**
+ * Start one worker per entry of `data` on `script` (a sibling module), wait until every one
+ * has set up and posted once, then let them all go at the same time; resolves with each
+ * worker's second message.
+ */
+export async function runWorkersTogether<T>(script: string, data: object[]): Promise<T[]> {
+  const workers = data.map((workerData) => new Worker(new URL(script, import.meta.url), { workerData }));
   const next = (w: Worker) =>
-    new Promise<{ ms: number; loss: number }>((resolve, reject) => {
+    new Promise<T>((resolve, reject) => {
       w.once('message', resolve);
       w.once('error', reject);
     });
@@ -23,6 +27,11 @@ async function runWorkers(width: number, points: number, steps: number, seeds: n
   const out = await Promise.all(done);
   await Promise.all(workers.map((w) => w.terminate()));
   return out;
+}
+
+/** One worker per seed, each an independent run. */
+function runWorkers(width: number, points: number, steps: number, seeds: number[]): Promise<Array<{ ms: number; loss: number }>> {
+  return runWorkersTogether('./worker-steps.js', seeds.map((seed) => ({ width, points, steps, seed })));
 }
 
 export async function runWorkerBench(opts: { width?: number; points?: number; steps?: number; rounds?: number } = {}): Promise<void> {

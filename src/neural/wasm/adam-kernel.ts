@@ -11,6 +11,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
+import { heapOffset } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type TensorInfo = TfModule.TensorInfo;
@@ -53,7 +54,7 @@ let ready = false;
 
 export function installAdamKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
-  const offset = (t: TensorInfo) => backend.getMemoryOffset(t.dataId);
+  const offset = (t: TensorInfo) => heapOffset(backend, t);
   tf.registerKernel({
     kernelName: KERNEL,
     backendName: 'wasm',

@@ -7,7 +7,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
-import { add, heapView, load, rowLoopFunction, store } from './heap-module.js';
+import { add, heapOffset, heapView, load, rowLoopFunction, store } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type TensorInfo = TfModule.TensorInfo;
@@ -21,7 +21,7 @@ let ready = false;
 
 export function installColumnSumsKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
-  const offset = (t: TensorInfo) => backend.getMemoryOffset(t.dataId);
+  const offset = (t: TensorInfo) => heapOffset(backend, t);
   tf.registerKernel({
     kernelName: KERNEL,
     backendName: 'wasm',

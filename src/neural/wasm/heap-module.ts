@@ -47,6 +47,11 @@ export function instantiateOnHeap(backend: WasmBackend, wat: string): HeapExport
   }
 }
 
+/** Byte offset of a tensor's data in the heap (what our kernels are handed). */
+export function heapOffset(backend: WasmBackend, t: TensorInfo): number {
+  return backend.getMemoryOffset(t.dataId);
+}
+
 /** A float32 view of a tensor's data (valid until the next allocation may grow the heap). */
 export function heapView(backend: WasmBackend, t: TensorInfo): Float32Array {
   const size = t.shape.reduce((a, b) => a * b, 1);
@@ -67,6 +72,21 @@ export const set = (name: string, v: string): string => `(local.set $${name} ${v
 const at = (p: string, row: boolean) => `(i32.add (local.get $${p}) (local.get $${row ? 'r' : 'o'}))`;
 export const load = (p: string, row = false): string => `(v128.load ${at(p, row)})`;
 export const store = (p: string, v: string, row = false): string => `(v128.store ${at(p, row)} ${v})`;
+
+/**
+ * The update of a register block of `rows` × 8 outputs by one rank-one term:
+ * acc(r, h) += splat(scalar r) · vector h for h = 0, 1 (two f32x4 vectors of 4 columns),
+ * the inner step of both blocked matrix products (matmul-kernel.ts, weight-gradient-kernel.ts).
+ */
+export function rankOneBlockUpdate(rows: number, scalar: (r: number) => string, acc: (r: number, h: number) => string, vectors: [string, string], after: (r: number) => string = () => ''): string {
+  return Array.from({ length: rows }, (_, r) =>
+    [
+      `(local.set $s (f32x4.splat ${scalar(r)}))`,
+      ...[0, 1].map((h) => `(local.set ${acc(r, h)} (f32x4.add (local.get ${acc(r, h)}) (f32x4.mul (local.get $s) (local.get ${vectors[h]}))))`),
+      after(r),
+    ].join(' '),
+  ).join('\n            ');
+}
 
 /**
  * A function looping over an [n, h] row-major float32 array, 4 columns at a time

@@ -22,7 +22,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
-import { add, get, heapView, instantiateOnHeap, load, mul, rowLoopFunction, set, splat, store, sub } from './heap-module.js';
+import { add, get, heapOffset, heapView, load, mul, rowLoopFunction, set, splat, store, sub } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type Tensor = TfModule.Tensor;
@@ -126,7 +126,7 @@ export function installJetTanhKernels(tf: Tf, backend: WasmBackend, heap: HeapEx
   if (ready) return;
   const sigmoid = tf.getKernel('Sigmoid', 'wasm');
   if (!sigmoid) return;
-  const offset = (t: TensorInfo) => backend.getMemoryOffset(t.dataId);
+  const offset = (t: TensorInfo) => heapOffset(backend, t);
   for (const v of VARIANTS) {
     const inputs = forwardInputs(v);
     const outputs = forwardOutputs(v);

@@ -11,6 +11,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
+import { heapOffset, rankOneBlockUpdate } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type TensorInfo = TfModule.TensorInfo;
@@ -27,14 +28,7 @@ function blockLoop(rows: number, label: string): string {
     [0, 1].map((h) => `(local.set ${acc(r, h)} (if (result v128) (local.get $b) (then (v128.load offset=${16 * h} (i32.add (local.get $b) (i32.shl (local.get $j) (i32.const 2))))) (else (v128.const i32x4 0 0 0 0))))`).join(' '),
   ).join('\n        ');
   const ptrs = Array.from({ length: rows }, (_, r) => `(local.set ${rowPtr(r)} (i32.add (local.get $a) (i32.shl (i32.mul (i32.add (local.get $p) (i32.const ${r})) (local.get $k)) (i32.const 2))))`).join(' ');
-  const update = Array.from({ length: rows }, (_, r) =>
-    [
-      `(local.set $s (f32x4.splat (f32.load (local.get ${rowPtr(r)}))))`,
-      `(local.set ${acc(r, 0)} (f32x4.add (local.get ${acc(r, 0)}) (f32x4.mul (local.get $s) (local.get $w0))))`,
-      `(local.set ${acc(r, 1)} (f32x4.add (local.get ${acc(r, 1)}) (f32x4.mul (local.get $s) (local.get $w1))))`,
-      `(local.set ${rowPtr(r)} (i32.add (local.get ${rowPtr(r)}) (i32.const 4)))`,
-    ].join(' '),
-  ).join('\n            ');
+  const update = rankOneBlockUpdate(rows, (r) => `(f32.load (local.get ${rowPtr(r)}))`, acc, ['$w0', '$w1'], (r) => `(local.set ${rowPtr(r)} (i32.add (local.get ${rowPtr(r)}) (i32.const 4)))`);
   const write = Array.from({ length: rows }, (_, r) => [0, 1].map((h) => `(v128.store ${cOffset(r, h)} (local.get ${acc(r, h)}))`).join(' ')).join('\n        ');
   return `(block $${label}_done (loop $${label}_rows
     (br_if $${label}_done (i32.gt_u (i32.add (local.get $p) (i32.const ${rows})) (local.get $n)))
@@ -73,7 +67,7 @@ let ready = false;
 
 export function installMatMulKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
-  const offset = (t: TensorInfo) => backend.getMemoryOffset(t.dataId);
+  const offset = (t: TensorInfo) => heapOffset(backend, t);
   tf.registerKernel({
     kernelName: KERNEL,
     backendName: 'wasm',

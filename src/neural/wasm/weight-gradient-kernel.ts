@@ -13,7 +13,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
-import { heapView } from './heap-module.js';
+import { heapOffset, heapView, rankOneBlockUpdate } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type TensorInfo = TfModule.TensorInfo;
@@ -30,15 +30,7 @@ function rowBlocks(rows: number, label: string): string {
   const cell = (r: number, h: number) => `offset=${16 * h} (i32.add (local.get $dw) (i32.shl (i32.add (i32.mul (i32.add (local.get $i) (i32.const ${r})) (local.get $out)) (local.get $j)) (i32.const 2)))`;
   const each = (f: (r: number) => string, sep: string) => Array.from({ length: rows }, (_, r) => f(r)).join(sep);
   const read = each((r) => [0, 1].map((h) => `(local.set ${acc(r, h)} (v128.load ${cell(r, h)}))`).join(' '), '\n        ');
-  const update = each(
-    (r) =>
-      [
-        `(local.set $s (f32x4.splat (f32.load offset=${4 * r} (local.get $pa))))`,
-        `(local.set ${acc(r, 0)} (f32x4.add (local.get ${acc(r, 0)}) (f32x4.mul (local.get $s) (local.get $d0))))`,
-        `(local.set ${acc(r, 1)} (f32x4.add (local.get ${acc(r, 1)}) (f32x4.mul (local.get $s) (local.get $d1))))`,
-      ].join(' '),
-    '\n            ',
-  );
+  const update = rankOneBlockUpdate(rows, (r) => `(f32.load offset=${4 * r} (local.get $pa))`, acc, ['$d0', '$d1']);
   const write = each((r) => [0, 1].map((h) => `(v128.store ${cell(r, h)} (local.get ${acc(r, h)}))`).join(' '), '\n        ');
   return `(block $${label}_done (loop $${label}_rows
       (br_if $${label}_done (i32.gt_u (i32.add (local.get $i) (i32.const ${rows})) (local.get $in)))
@@ -104,7 +96,7 @@ let ready = false;
 
 export function installWeightGradientKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
-  const offset = (t: TensorInfo) => backend.getMemoryOffset(t.dataId);
+  const offset = (t: TensorInfo) => heapOffset(backend, t);
   tf.registerKernel({
     kernelName: KERNEL,
     backendName: 'wasm',
