@@ -15,6 +15,10 @@
  *   - tanh is ~15× slower than sigmoid: tanh z = 2σ(2z) − 1 (fastTanh, WASM only: on the
  *     plain-JS backend tf.tanh is faster, and the native backend has one fused kernel).
  *
+ * On WASM, where our own kernels (src/neural/wasm) take the shape, the products, the weight
+ * gradient and the row sums below go through them instead; the tfjs forms here remain the
+ * path for other shapes and backends.
+ *
  * setPlainOps(true) makes every primitive the straightforward op (tf.matMul, tf.tanh,
  * tf.sum, tf.transpose, broadcasting tf.mul/tf.add): the reference build for tests that
  * compare whole training runs, fast against plain.
