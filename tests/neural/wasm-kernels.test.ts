@@ -6,7 +6,7 @@
  *     derivative channels;
  *   - column sums against tf.sum over axis 0;
  *   - the weight gradient aᵀ·dy against tf.matMul(a, dy, transposeA), across its chunk
- *     boundary (256 rows), its block shapes and its one-column form;
+ *     boundaries (64 rows), its block shapes and its one-column form;
  *   - the dense product a·w (+ bias) against tf.matMul (+ tf.add), remainder rows included;
  *   - the fused Adam update against the same Adam written in tfjs ops (setPlainOps), over
  *     several steps, for tensor sizes with and without a remainder mod 4.

@@ -75,13 +75,14 @@ export const store = (p: string, v: string, row = false): string => `(v128.store
 
 /**
  * The update of a register block of `rows` × 8 outputs by one rank-one term:
- * acc(r, h) += splat(scalar r) · vector h for h = 0, 1 (two f32x4 vectors of 4 columns),
+ * acc(r, h) += splat(a_r) · vector h for h = 0, 1, with a_r the float at scalarAt(r) (two f32x4 vectors of 4 columns),
  * the inner step of both blocked matrix products (matmul-kernel.ts, weight-gradient-kernel.ts).
  */
-export function rankOneBlockUpdate(rows: number, scalar: (r: number) => string, acc: (r: number, h: number) => string, vectors: [string, string], after: (r: number) => string = () => ''): string {
+export function rankOneBlockUpdate(rows: number, scalarAt: (r: number) => string, acc: (r: number, h: number) => string, vectors: [string, string], after: (r: number) => string = () => ''): string {
   return Array.from({ length: rows }, (_, r) =>
     [
-      `(local.set $s (f32x4.splat ${scalar(r)}))`,
+      // One float loaded into all four lanes (v128.load32_splat takes `offset=… address`).
+      `(local.set $s (v128.load32_splat ${scalarAt(r)}))`,
       ...[0, 1].map((h) => `(local.set ${acc(r, h)} (f32x4.add (local.get ${acc(r, h)}) (f32x4.mul (local.get $s) (local.get ${vectors[h]}))))`),
       after(r),
     ].join(' '),

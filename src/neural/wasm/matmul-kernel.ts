@@ -28,7 +28,7 @@ function blockLoop(rows: number, label: string): string {
     [0, 1].map((h) => `(local.set ${acc(r, h)} (if (result v128) (local.get $b) (then (v128.load offset=${16 * h} (i32.add (local.get $b) (i32.shl (local.get $j) (i32.const 2))))) (else (v128.const i32x4 0 0 0 0))))`).join(' '),
   ).join('\n        ');
   const ptrs = Array.from({ length: rows }, (_, r) => `(local.set ${rowPtr(r)} (i32.add (local.get $a) (i32.shl (i32.mul (i32.add (local.get $p) (i32.const ${r})) (local.get $k)) (i32.const 2))))`).join(' ');
-  const update = rankOneBlockUpdate(rows, (r) => `(f32.load (local.get ${rowPtr(r)}))`, acc, ['$w0', '$w1'], (r) => `(local.set ${rowPtr(r)} (i32.add (local.get ${rowPtr(r)}) (i32.const 4)))`);
+  const update = rankOneBlockUpdate(rows, (r) => `(local.get ${rowPtr(r)})`, acc, ['$w0', '$w1'], (r) => `(local.set ${rowPtr(r)} (i32.add (local.get ${rowPtr(r)}) (i32.const 4)))`);
   const write = Array.from({ length: rows }, (_, r) => [0, 1].map((h) => `(v128.store ${cOffset(r, h)} (local.get ${acc(r, h)}))`).join(' ')).join('\n        ');
   return `(block $${label}_done (loop $${label}_rows
     (br_if $${label}_done (i32.gt_u (i32.add (local.get $p) (i32.const ${rows})) (local.get $n)))
