@@ -74,7 +74,7 @@ function printProfile(label: string, p: Awaited<ReturnType<typeof profileStep>>,
 }
 
 /** The real trainer step's pieces for one size (f = 0.5, χN = 15 diblock, default losses). */
-export function trainerStep(tf: Tf, width: number, points: number) {
+function trainerStep(tf: Tf, width: number, points: number) {
   const nx = 64;
   const nodesPerBlock = Math.max(2, 2 * Math.round((points / nx - 1) / 4));
   const hidden = [width, width, width];

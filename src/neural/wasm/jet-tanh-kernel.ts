@@ -116,11 +116,6 @@ export function jetTanhWat(): string {
 
 let ready = false;
 
-/** Whether the fused kernels are registered (WASM backend started with them). */
-export function jetTanhKernelsReady(): boolean {
-  return ready;
-}
-
 /** Register the forward and backward kernel of every variant, and the forward's gradient. */
 export function installJetTanhKernels(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
