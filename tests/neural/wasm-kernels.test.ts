@@ -7,7 +7,8 @@
  *   - column sums against tf.sum over axis 0;
  *   - the weight gradient aᵀ·dy against tf.matMul(a, dy, transposeA), across its chunk
  *     boundaries (64 rows), its block shapes and its one-column form;
- *   - the dense product a·w (+ bias) against tf.matMul (+ tf.add), remainder rows included;
+ *   - the dense product a·w (+ bias) against tf.matMul (+ tf.add), remainder rows and the
+ *     one-column form included;
  *   - the fused Adam update against the same Adam written in tfjs ops (setPlainOps), over
  *     several steps, for tensor sizes with and without a remainder mod 4.
  */
@@ -128,6 +129,8 @@ describe('WASM kernels of our own', () => {
         [7, 2, 8],
         [1, 5, 16],
         [301, 64, 64],
+        [2048, 32, 1],
+        [5, 4, 1],
       ]) {
         const a = t2(n, k, n + k);
         const w = t2(k, m, k + m);
@@ -138,6 +141,7 @@ describe('WASM kernels of our own', () => {
         expectClose(withBias.dataSync(), tf.add(tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D), b).dataSync(), 2e-6 * Math.sqrt(k), `${n}×${k}·${k}×${m} + b`);
       }
       expect(matMulKernel(tf, t2(5, 4, 1), t2(4, 6, 2))).toBeNull();
+      expect(matMulKernel(tf, t2(5, 6, 1), t2(6, 1, 2))).toBeNull();
     });
   });
 

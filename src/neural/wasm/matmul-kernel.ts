@@ -7,7 +7,8 @@
  * packing again. Here each 4 × 8 block of C is accumulated in eight f32x4 registers, started
  * from the bias when there is one, over the k columns of A: the row-oriented (ijk / saxpy)
  * form of the product (Golub & Van Loan, "Matrix Computations", 4th ed., §1.1.11).
- * Needs m a multiple of 8; rows beyond the last multiple of 4 go one at a time.
+ * Needs m a multiple of 8 (rows beyond the last multiple of 4 go one at a time), or m = 1
+ * with k a multiple of 4 (the one-column form below).
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
@@ -61,7 +62,29 @@ function matMulWat(): string {
   ${blockLoop(1, 'one')})`;
 }
 
-export const matMulWatText = matMulWat();
+/**
+ * One output column (a network's last layer, m = 1): c[p] = Σ_q a[p, q]·w[q] (+ b), f32x4
+ * over q and the four lanes added at the end. Needs k a multiple of 4.
+ */
+const matVecWat = `(func (export "mat_vec") (param $n i32) (param $k i32) (param $a i32) (param $w i32) (param $b i32) (param $c i32)
+  (local $p i32) (local $q i32) (local $pa i32) (local $kb i32) (local $bias f32) (local $acc v128)
+  (local.set $kb (i32.shl (local.get $k) (i32.const 2)))
+  (local.set $bias (if (result f32) (local.get $b) (then (f32.load (local.get $b))) (else (f32.const 0))))
+  (local.set $pa (local.get $a))
+  (loop $rows
+    (local.set $acc (v128.const i32x4 0 0 0 0))
+    (local.set $q (i32.const 0))
+    (loop $inner
+      (local.set $acc (f32x4.add (local.get $acc) (f32x4.mul (v128.load (i32.add (local.get $pa) (local.get $q))) (v128.load (i32.add (local.get $w) (local.get $q))))))
+      (br_if $inner (i32.lt_u (local.tee $q (i32.add (local.get $q) (i32.const 16))) (local.get $kb))))
+    (f32.store (i32.add (local.get $c) (i32.shl (local.get $p) (i32.const 2)))
+      (f32.add (local.get $bias)
+        (f32.add (f32.add (f32x4.extract_lane 0 (local.get $acc)) (f32x4.extract_lane 1 (local.get $acc)))
+                 (f32.add (f32x4.extract_lane 2 (local.get $acc)) (f32x4.extract_lane 3 (local.get $acc))))))
+    (local.set $pa (i32.add (local.get $pa) (local.get $kb)))
+    (br_if $rows (i32.lt_u (local.tee $p (i32.add (local.get $p) (i32.const 1))) (local.get $n)))))`;
+
+export const matMulWatText = `${matMulWat()}\n${matVecWat}`;
 
 let ready = false;
 
@@ -76,7 +99,8 @@ export function installMatMulKernel(tf: Tf, backend: WasmBackend, heap: HeapExpo
       const [n, k] = a.shape;
       const m = w.shape[1];
       const c = backend.makeOutput([n, m], 'float32');
-      heap.mat_mul(n, k, m, offset(a), offset(w), b ? offset(b) : 0, offset(c));
+      if (m === 1) heap.mat_vec(n, k, offset(a), offset(w), b ? offset(b) : 0, offset(c));
+      else heap.mat_mul(n, k, m, offset(a), offset(w), b ? offset(b) : 0, offset(c));
       return c;
     },
   });
@@ -88,7 +112,8 @@ export function matMulKernel(tf: Tf, a: TfModule.Tensor, w: TfModule.Tensor, bia
   if (!ready || a.rank !== 2 || w.rank !== 2 || a.dtype !== 'float32' || w.dtype !== 'float32' || tf.getBackend() !== 'wasm') return null;
   const [n, k] = a.shape as [number, number];
   const m = w.shape[1]!;
-  if (n < 1 || k < 1 || w.shape[0] !== k || m % 8 !== 0) return null;
+  const fits = m === 1 ? k % 4 === 0 : m % 8 === 0;
+  if (n < 1 || k < 1 || w.shape[0] !== k || !fits) return null;
   if (bias && (bias.size !== m || bias.dtype !== 'float32')) return null;
   return tf.engine().runKernel(KERNEL, bias ? { a, w, b: bias } : { a, w }) as TfModule.Tensor;
 }
