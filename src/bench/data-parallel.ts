@@ -6,6 +6,7 @@
  * losses of both, which must agree to float32 rounding (the sum's order differs).
  */
 import { loadavg } from 'node:os';
+import { likeForLikeParameterCount } from './like-for-like.js';
 import { median } from './timing.js';
 import { runWorkersTogether } from './worker-bench.js';
 
@@ -16,8 +17,7 @@ export interface SplitRun {
 
 /** `count` workers, one share each, `steps` timed steps after 3 untimed ones. */
 export async function runSplit(width: number, points: number, steps: number, count: number, seed = 1): Promise<SplitRun> {
-  // Parameters of the 2 → 3×H → 1 network, plus one loss slot.
-  const size = 2 * width + width + 2 * (width * width + width) + width + 1;
+  const size = likeForLikeParameterCount(width);
   const slots = new SharedArrayBuffer(4 * (size + 1) * 2 * count);
   const barrier = new SharedArrayBuffer(8);
   const out = await runWorkersTogether<{ ms: number; losses: number[] }>(

@@ -68,15 +68,28 @@ export interface PointShare {
   count: number;
 }
 
+/** Layer widths of the network: 2 → H → H → H → 1. */
+export function likeForLikeWidths(width: number): number[] {
+  return [2, width, width, width, 1];
+}
+
+/** Number of parameters (kernels and biases) of the network of width H. */
+export function likeForLikeParameterCount(width: number): number {
+  const w = likeForLikeWidths(width);
+  return w.slice(1).reduce((sum, out, l) => sum + w[l] * out + out, 0);
+}
+
 export function likeForLikeProblem(tf: Tf, width: number, allPoints: number, seed = 1, share?: PointShare): LikeForLikeProblem {
-  const mlp = new Mlp(tf, { inputs: 2, hidden: [width, width, width], outputs: 1, activation: 'tanh', seed, name: 'u' });
+  const widths = likeForLikeWidths(width);
+  const mlp = new Mlp(tf, { inputs: widths[0], hidden: widths.slice(1, -1), outputs: widths[widths.length - 1], activation: 'tanh', seed, name: 'u' });
   const params = new ParameterSet(tf, mlp.entries);
   const adam = new Adam(tf, params);
   const full = likeForLikePoints(allPoints);
   const ns = allPoints / LIKE_FOR_LIKE_NX;
   if (share && ns % share.count !== 0) throw new RangeError(`the ${ns} s rows do not split into ${share.count} equal shares`);
   const [from, to] = share ? [(share.index * allPoints) / share.count, ((share.index + 1) * allPoints) / share.count] : [0, allPoints];
-  const { x, s } = { x: full.x.subarray(from, to), s: full.s.subarray(from, to) };
+  const x = full.x.subarray(from, to);
+  const s = full.s.subarray(from, to);
   const points = to - from;
   // The share's part of the mean over all points (1 without a split).
   const shareOfMean = points / allPoints;

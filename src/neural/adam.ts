@@ -45,7 +45,7 @@ export class Adam {
       const vOld = this.v.get(e.name);
       const [mNew, vNew] = tf.tidy(() => {
         // On WASM the lines below as one kernel (wasm/adam-kernel.ts), same arithmetic.
-        const fused = plainOps() ? null : adamUpdateKernel(tf, e.variable, g, mOld ?? tf.zerosLike(g), vOld ?? tf.zerosLike(g), { beta1, beta2, epsilon, lrOverC1: lr / c1, c2 });
+        const fused = plainOps() ? null : adamUpdateKernel(tf, e.variable, g, mOld, vOld, { beta1, beta2, epsilon, lrOverC1: lr / c1, c2 });
         if (fused) {
           e.variable.assign(fused[0]);
           return [tf.keep(fused[1]), tf.keep(fused[2])];

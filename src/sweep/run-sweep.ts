@@ -20,7 +20,8 @@ import { WHOLE_GRID, shardIndices, shardName } from './shard.js';
 import type { SweepPointResult } from './solve-point.js';
 import type { ShardFile, SweepTable } from './sweep-file.js';
 import { byIndex, pointsCsv, shardFileSchema, writeTable } from './sweep-file.js';
-import { defaultWorkers, solvePoints } from './worker-pool.js';
+import { defaultWorkers } from '../io/worker-count.js';
+import { solvePoints } from './worker-pool.js';
 
 export interface SweepProgress {
   /** Points of this shard finished, counting those saved by an earlier run. */

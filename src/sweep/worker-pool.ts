@@ -10,7 +10,6 @@ import type { SweepPoint } from './grid.js';
 import type { SweepPointResult } from './solve-point.js';
 import { solveSweepPoint } from './solve-point.js';
 
-export { defaultWorkers } from '../io/worker-count.js';
 
 /**
  * The compiled worker entry. Under vitest this module runs from src/*.ts, which a worker

@@ -11,7 +11,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
-import { heapOffset } from './heap-module.js';
+import { heapOffset, registerHeapKernel } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type TensorInfo = TfModule.TensorInfo;
@@ -55,17 +55,13 @@ let ready = false;
 export function installAdamKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
   const offset = (t: TensorInfo) => heapOffset(backend, t);
-  tf.registerKernel({
-    kernelName: KERNEL,
-    backendName: 'wasm',
-    kernelFunc: ({ inputs, attrs }) => {
-      const [p, g, m, v] = (['p', 'g', 'm', 'v'] as const).map((k) => inputs[k] as TensorInfo);
-      const a = attrs as unknown as { beta1: number; beta2: number; epsilon: number; lrOverC1: number; c2: number };
-      const size = p.shape.reduce((x, y) => x * y, 1);
-      const outs = [p, m, v].map((t) => backend.makeOutput(t.shape, 'float32'));
-      heap.adam_update(size, offset(p), offset(g), offset(m), offset(v), ...outs.map(offset), a.beta1, 1 - a.beta1, a.beta2, 1 - a.beta2, a.lrOverC1, a.c2, a.epsilon);
-      return outs;
-    },
+  registerHeapKernel(tf, KERNEL, (inputs, attrs) => {
+    const [p, g, m, v] = (['p', 'g', 'm', 'v'] as const).map((k) => inputs[k] as TensorInfo);
+    const a = attrs as unknown as { beta1: number; beta2: number; epsilon: number; lrOverC1: number; c2: number };
+    const size = p.shape.reduce((x, y) => x * y, 1);
+    const outs = [p, m, v].map((t) => backend.makeOutput(t.shape, 'float32'));
+    heap.adam_update(size, offset(p), offset(g), offset(m), offset(v), ...outs.map(offset), a.beta1, 1 - a.beta1, a.beta2, 1 - a.beta2, a.lrOverC1, a.c2, a.epsilon);
+    return outs;
   });
   ready = true;
 }
@@ -80,9 +76,13 @@ export interface AdamStepSettings {
   c2: number;
 }
 
-/** [θ', m', v'] by the kernel, or null where it does not apply (not WASM). */
-export function adamUpdateKernel(tf: Tf, p: TfModule.Tensor, g: TfModule.Tensor, m: TfModule.Tensor, v: TfModule.Tensor, s: AdamStepSettings): TfModule.Tensor[] | null {
+/**
+ * [θ', m', v'] by the kernel, or null where it does not apply (not WASM). Absent moments
+ * (the first step) are zeros, which the update then turns into (1 − β)·g and (1 − β)·g².
+ */
+export function adamUpdateKernel(tf: Tf, p: TfModule.Tensor, g: TfModule.Tensor, m: TfModule.Tensor | undefined, v: TfModule.Tensor | undefined, s: AdamStepSettings): TfModule.Tensor[] | null {
   if (!ready || tf.getBackend() !== 'wasm') return null;
-  if ([p, g, m, v].some((t) => t.dtype !== 'float32' || t.size !== p.size)) return null;
-  return tf.engine().runKernel(KERNEL, { p, g, m, v }, s as unknown as TfModule.NamedAttrMap) as TfModule.Tensor[];
+  if ([p, g, m, v].some((t) => t && (t.dtype !== 'float32' || t.size !== p.size))) return null;
+  const inputs = { p, g, m: m ?? tf.zerosLike(g), v: v ?? tf.zerosLike(g) };
+  return tf.engine().runKernel(KERNEL, inputs, s as unknown as TfModule.NamedAttrMap) as TfModule.Tensor[];
 }

@@ -28,29 +28,21 @@ export function installAliasingCopies(tf: Tf): void {
   const cast = tf.getKernel('Cast', 'wasm');
   const identity = tf.getKernel('Identity', 'wasm');
   if (!cast || !identity) return;
-  const share = (x: WasmData, backend: RefCounting): WasmData => {
-    backend.incRef(x.dataId);
-    return { dataId: x.dataId, shape: x.shape, dtype: x.dtype };
+  // Strings live outside the heap: the backend's own path stays for them.
+  const alias = (name: string, original: typeof cast, shares: (x: WasmData, attrs: { dtype?: string }) => boolean) => {
+    tf.unregisterKernel(name, 'wasm');
+    tf.registerKernel({
+      kernelName: name,
+      backendName: 'wasm',
+      kernelFunc: (args) => {
+        const x = args.inputs.x as unknown as WasmData;
+        if (x.dtype === 'string' || !shares(x, args.attrs as { dtype?: string })) return original.kernelFunc(args);
+        (args.backend as unknown as RefCounting).incRef(x.dataId);
+        return { dataId: x.dataId, shape: x.shape, dtype: x.dtype } as never;
+      },
+    });
   };
-  tf.unregisterKernel('Identity', 'wasm');
-  tf.registerKernel({
-    kernelName: 'Identity',
-    backendName: 'wasm',
-    kernelFunc: (args) => {
-      const x = args.inputs.x as unknown as WasmData;
-      // Strings live outside the heap: keep the backend's own path for them.
-      return x.dtype === 'string' ? identity.kernelFunc(args) : (share(x, args.backend as unknown as RefCounting) as never);
-    },
-  });
-  tf.unregisterKernel('Cast', 'wasm');
-  tf.registerKernel({
-    kernelName: 'Cast',
-    backendName: 'wasm',
-    kernelFunc: (args) => {
-      const x = args.inputs.x as unknown as WasmData;
-      const same = x.dtype === (args.attrs as { dtype?: string }).dtype && x.dtype !== 'string';
-      return same ? (share(x, args.backend as unknown as RefCounting) as never) : cast.kernelFunc(args);
-    },
-  });
+  alias('Identity', identity, () => true);
+  alias('Cast', cast, (x, attrs) => x.dtype === attrs.dtype);
   installed = true;
 }

@@ -7,7 +7,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
-import { add, heapOffset, heapView, load, rowLoopFunction, store } from './heap-module.js';
+import { add, heapOffset, heapView, load, registerHeapKernel, rowLoopFunction, store } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type TensorInfo = TfModule.TensorInfo;
@@ -22,17 +22,13 @@ let ready = false;
 export function installColumnSumsKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
   const offset = (t: TensorInfo) => heapOffset(backend, t);
-  tf.registerKernel({
-    kernelName: KERNEL,
-    backendName: 'wasm',
-    kernelFunc: ({ inputs }) => {
-      const x = inputs.x as TensorInfo;
-      const [n, m] = x.shape;
-      const out = backend.makeOutput([1, m], 'float32');
-      heapView(backend, out).fill(0);
-      heap.column_sums(n, m, offset(x), offset(out));
-      return out;
-    },
+  registerHeapKernel(tf, KERNEL, (inputs) => {
+    const x = inputs.x as TensorInfo;
+    const [n, m] = x.shape;
+    const out = backend.makeOutput([1, m], 'float32');
+    heapView(backend, out).fill(0);
+    heap.column_sums(n, m, offset(x), offset(out));
+    return out;
   });
   // d/dx Σ_p x[p, c] = 1: the gradient is dy broadcast over the rows.
   tf.registerGradient({

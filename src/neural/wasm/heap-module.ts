@@ -8,6 +8,7 @@
  * byte they touch belongs to a tensor the calling kernel owns.
  */
 import type * as TfModule from '@tensorflow/tfjs';
+import type { Tf } from '../backend.js';
 
 type TensorInfo = TfModule.TensorInfo;
 
@@ -52,10 +53,15 @@ export function heapOffset(backend: WasmBackend, t: TensorInfo): number {
   return backend.getMemoryOffset(t.dataId);
 }
 
+/** Register `run` as the tfjs kernel `name` on the WASM backend (inputs by name, attributes). */
+export function registerHeapKernel(tf: Tf, name: string, run: (inputs: Record<string, TensorInfo>, attrs: Record<string, unknown>) => TensorInfo | TensorInfo[]): void {
+  tf.registerKernel({ kernelName: name, backendName: 'wasm', kernelFunc: ({ inputs, attrs }) => run(inputs as Record<string, TensorInfo>, attrs as Record<string, unknown>) });
+}
+
 /** A float32 view of a tensor's data (valid until the next allocation may grow the heap). */
 export function heapView(backend: WasmBackend, t: TensorInfo): Float32Array {
   const size = t.shape.reduce((a, b) => a * b, 1);
-  return new Float32Array(backend.wasm.asm.memory.buffer, backend.getMemoryOffset(t.dataId), size);
+  return new Float32Array(backend.wasm.asm.memory.buffer, heapOffset(backend, t), size);
 }
 
 // ---- WebAssembly text helpers for elementwise f32x4 loops -------------------------------

@@ -22,7 +22,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
-import { add, get, heapOffset, heapView, load, mul, rowLoopFunction, set, splat, store, sub } from './heap-module.js';
+import { add, get, heapOffset, heapView, load, mul, registerHeapKernel, rowLoopFunction, set, splat, store, sub } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type Tensor = TfModule.Tensor;
@@ -125,37 +125,29 @@ export function installJetTanhKernels(tf: Tf, backend: WasmBackend, heap: HeapEx
   for (const v of VARIANTS) {
     const inputs = forwardInputs(v);
     const outputs = forwardOutputs(v);
-    tf.registerKernel({
-      kernelName: forwardName(v),
-      backendName: 'wasm',
-      kernelFunc: ({ inputs: ins }) => {
-        const z = ins.z as TensorInfo;
-        const [n, h] = z.shape;
-        const twice = backend.makeOutput([n, h], 'float32');
-        heap.double(n, h, offset(z), offset(twice));
-        const sg = sigmoid.kernelFunc({ inputs: { x: twice }, backend: backend as never, attrs: {} }) as TensorInfo;
-        backend.disposeData(twice.dataId);
-        const outs = outputs.map(() => backend.makeOutput([n, h], 'float32'));
-        heap[`fwd_${keyOf(v)}`](n, h, offset(sg), ...inputs.slice(1).map((k) => offset(ins[k] as TensorInfo)), ...outs.map(offset));
-        backend.disposeData(sg.dataId);
-        return outs;
-      },
+    registerHeapKernel(tf, forwardName(v), (ins) => {
+      const z = ins.z as TensorInfo;
+      const [n, h] = z.shape;
+      const twice = backend.makeOutput([n, h], 'float32');
+      heap.double(n, h, offset(z), offset(twice));
+      const sg = sigmoid.kernelFunc({ inputs: { x: twice }, backend: backend as never, attrs: {} }) as TensorInfo;
+      backend.disposeData(twice.dataId);
+      const outs = outputs.map(() => backend.makeOutput([n, h], 'float32'));
+      heap[`fwd_${keyOf(v)}`](n, h, offset(sg), ...inputs.slice(1).map((k) => offset(ins[k] as TensorInfo)), ...outs.map(offset));
+      backend.disposeData(sg.dataId);
+      return outs;
     });
     const gradInputs = backwardInputs(v);
-    tf.registerKernel({
-      kernelName: backwardName(v),
-      backendName: 'wasm',
-      kernelFunc: ({ inputs: ins }) => {
-        const t = ins.t as TensorInfo;
-        const [n, h] = t.shape;
-        // Each gradient has the shape of its input: [n, h], or [1, h] for a row channel.
-        const outs = inputs.map((k) => backend.makeOutput(k === 'z' ? [n, h] : (ins[k] as TensorInfo).shape, 'float32'));
-        outs.forEach((o, i) => {
-          if (inputs[i] !== 'z' && o.shape[0] === 1 && n > 1) heapView(backend, o).fill(0);
-        });
-        heap[`bwd_${keyOf(v)}`](n, h, ...gradInputs.map((k) => offset(ins[k] as TensorInfo)), ...outs.map(offset));
-        return outs;
-      },
+    registerHeapKernel(tf, backwardName(v), (ins) => {
+      const t = ins.t as TensorInfo;
+      const [n, h] = t.shape;
+      // Each gradient has the shape of its input: [n, h], or [1, h] for a row channel.
+      const outs = inputs.map((k) => backend.makeOutput(k === 'z' ? [n, h] : (ins[k] as TensorInfo).shape, 'float32'));
+      outs.forEach((o, i) => {
+        if (inputs[i] !== 'z' && o.shape[0] === 1 && n > 1) heapView(backend, o).fill(0);
+      });
+      heap[`bwd_${keyOf(v)}`](n, h, ...gradInputs.map((k) => offset(ins[k] as TensorInfo)), ...outs.map(offset));
+      return outs;
     });
     tf.registerGradient({
       kernelName: forwardName(v),

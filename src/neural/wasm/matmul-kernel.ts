@@ -12,7 +12,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
-import { heapOffset, rankOneBlockUpdate } from './heap-module.js';
+import { heapOffset, rankOneBlockUpdate, registerHeapKernel } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type TensorInfo = TfModule.TensorInfo;
@@ -91,18 +91,14 @@ let ready = false;
 export function installMatMulKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
   const offset = (t: TensorInfo) => heapOffset(backend, t);
-  tf.registerKernel({
-    kernelName: KERNEL,
-    backendName: 'wasm',
-    kernelFunc: ({ inputs }) => {
-      const [a, w, b] = [inputs.a as TensorInfo, inputs.w as TensorInfo, inputs.b as TensorInfo | undefined];
-      const [n, k] = a.shape;
-      const m = w.shape[1];
-      const c = backend.makeOutput([n, m], 'float32');
-      if (m === 1) heap.mat_vec(n, k, offset(a), offset(w), b ? offset(b) : 0, offset(c));
-      else heap.mat_mul(n, k, m, offset(a), offset(w), b ? offset(b) : 0, offset(c));
-      return c;
-    },
+  registerHeapKernel(tf, KERNEL, (inputs) => {
+    const [a, w, b] = [inputs.a as TensorInfo, inputs.w as TensorInfo, inputs.b as TensorInfo | undefined];
+    const [n, k] = a.shape;
+    const m = w.shape[1];
+    const c = backend.makeOutput([n, m], 'float32');
+    if (m === 1) heap.mat_vec(n, k, offset(a), offset(w), b ? offset(b) : 0, offset(c));
+    else heap.mat_mul(n, k, m, offset(a), offset(w), b ? offset(b) : 0, offset(c));
+    return c;
   });
   ready = true;
 }

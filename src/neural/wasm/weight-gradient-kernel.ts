@@ -13,7 +13,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../backend.js';
-import { heapOffset, heapView, rankOneBlockUpdate } from './heap-module.js';
+import { heapOffset, heapView, rankOneBlockUpdate, registerHeapKernel } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
 type TensorInfo = TfModule.TensorInfo;
@@ -101,19 +101,15 @@ let ready = false;
 export function installWeightGradientKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   if (ready) return;
   const offset = (t: TensorInfo) => heapOffset(backend, t);
-  tf.registerKernel({
-    kernelName: KERNEL,
-    backendName: 'wasm',
-    kernelFunc: ({ inputs }) => {
-      const [a, dy] = [inputs.a as TensorInfo, inputs.dy as TensorInfo];
-      const [n, inW] = a.shape;
-      const outW = dy.shape[1];
-      const dw = backend.makeOutput([inW, outW], 'float32');
-      heapView(backend, dw).fill(0);
-      if (outW === 1) heap.weight_gradient_one_column(n, inW, offset(a), offset(dy), offset(dw));
-      else heap.weight_gradient(n, inW, outW, offset(a), offset(dy), offset(dw));
-      return dw;
-    },
+  registerHeapKernel(tf, KERNEL, (inputs) => {
+    const [a, dy] = [inputs.a as TensorInfo, inputs.dy as TensorInfo];
+    const [n, inW] = a.shape;
+    const outW = dy.shape[1];
+    const dw = backend.makeOutput([inW, outW], 'float32');
+    heapView(backend, dw).fill(0);
+    if (outW === 1) heap.weight_gradient_one_column(n, inW, offset(a), offset(dy), offset(dw));
+    else heap.weight_gradient(n, inW, outW, offset(a), offset(dy), offset(dw));
+    return dw;
   });
   ready = true;
 }
