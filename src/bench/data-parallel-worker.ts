@@ -7,7 +7,7 @@
  */
 import { parentPort, workerData } from 'node:worker_threads';
 import type * as TfModule from '@tensorflow/tfjs';
-import { selectBackend } from '../neural/backend.js';
+import { selectBackend } from '../autodiff/backend.js';
 import { likeForLikeProblem } from './like-for-like.js';
 
 interface Job {

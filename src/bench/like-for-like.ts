@@ -16,11 +16,11 @@
  *             independent implementation the fast one is tested against.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import { Adam } from '../neural/adam.js';
-import type { Tf } from '../neural/backend.js';
-import { Jet } from '../neural/jet.js';
-import { Mlp } from '../neural/mlp.js';
-import { ParameterSet } from '../neural/parameters.js';
+import { Adam } from '../autodiff/adam.js';
+import type { Tf } from '../autodiff/backend.js';
+import { Jet } from '../autodiff/jet.js';
+import { Mlp } from '../autodiff/mlp.js';
+import { ParameterSet } from '../autodiff/parameters.js';
 
 export const LIKE_FOR_LIKE_PERIOD = 4;
 export const LIKE_FOR_LIKE_NX = 64;

@@ -20,12 +20,12 @@ import { join } from 'node:path';
 import type * as TfModule from '@tensorflow/tfjs';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import { buildChain } from '../physics/chain.js';
-import { Adam } from '../neural/adam.js';
-import { selectBackend } from '../neural/backend.js';
-import type { Tf } from '../neural/backend.js';
-import { buildScftNetworks } from '../neural/scft-networks.js';
-import { LOSS_TERMS, ScftProblem } from '../neural/scft-problem.js';
-import type { LossValues } from '../neural/scft-problem.js';
+import { Adam } from '../autodiff/adam.js';
+import { selectBackend } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/backend.js';
+import { buildScftNetworks } from '../network/scft-networks.js';
+import { LOSS_TERMS, ScftProblem } from '../network/problem/scft-problem.js';
+import type { LossValues } from '../network/problem/scft-problem.js';
 import { median, timeIt } from './timing.js';
 import { likeForLikePoints, likeForLikeProblem, LIKE_FOR_LIKE_LEARNING_RATE, LIKE_FOR_LIKE_NX, LIKE_FOR_LIKE_PERIOD } from './like-for-like.js';
 

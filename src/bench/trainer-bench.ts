@@ -7,9 +7,9 @@
  *     cycle of 300 iterations), and the final errors.
  */
 import { trainConfigSchema } from '../io/schemas/train-config.js';
-import { selectBackend } from '../neural/backend.js';
-import type { BackendName } from '../neural/backend.js';
-import { trainRun } from '../neural/train-run.js';
+import { selectBackend } from '../autodiff/backend.js';
+import type { BackendName } from '../autodiff/backend.js';
+import { trainRun } from '../training/train-run.js';
 
 const system = { chain: { type: 'diblock' as const, f: 0.5 }, chiN: 15 };
 

@@ -3,7 +3,7 @@
  * (its own tfjs WASM instance, its own seed) of `steps` Adam steps; posts the wall time.
  */
 import { parentPort, workerData } from 'node:worker_threads';
-import { selectBackend } from '../neural/backend.js';
+import { selectBackend } from '../autodiff/backend.js';
 import { likeForLikeProblem } from './like-for-like.js';
 
 const { width, points, steps, seed } = workerData as { width: number; points: number; steps: number; seed: number };

@@ -9,7 +9,7 @@ import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
 import { buildChain, contourGrid, ModelError } from '../physics/chain.js';
 import type { Chain } from '../physics/chain.js';
-import { Xorshift128 } from '../neural/random.js';
+import { Xorshift128 } from '../numerics/random.js';
 import { pointSystem } from '../sweep/grid.js';
 
 export const PARAMETER_NAMES = ['chiN', 'f', 'segmentLengthRatio'] as const;

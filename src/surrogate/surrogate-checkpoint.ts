@@ -11,8 +11,8 @@
  */
 import { z } from 'zod';
 import { surrogateConfigSchema } from '../io/schemas/surrogate-config.js';
-import type { Tf } from '../neural/backend.js';
-import { readWeightsDirectory, writeWeightsDirectory } from '../neural/checkpoint.js';
+import type { Tf } from '../autodiff/backend.js';
+import { readWeightsDirectory, writeWeightsDirectory } from '../training/checkpoint.js';
 import { InputError } from '../io/errors.js';
 import { SurrogateModel } from './surrogate-model.js';
 

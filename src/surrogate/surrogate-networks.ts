@@ -14,11 +14,11 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
-import type { Tf } from '../neural/backend.js';
-import { f32, periodicFeatureArrays, periodicWidth } from '../neural/features.js';
-import { Jet } from '../neural/jet.js';
-import { Mlp } from '../neural/mlp.js';
-import { ParameterSet } from '../neural/parameters.js';
+import type { Tf } from '../autodiff/backend.js';
+import { f32, periodicFeatureArrays, periodicWidth } from '../network/features.js';
+import { Jet } from '../autodiff/jet.js';
+import { Mlp } from '../autodiff/mlp.js';
+import { ParameterSet } from '../autodiff/parameters.js';
 
 /** Points t = x/L ∈ [0, 1) of one parameter point θ. */
 export interface ParameterGroup {

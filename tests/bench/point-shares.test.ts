@@ -8,7 +8,7 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import type * as TfModule from '@tensorflow/tfjs';
 import { likeForLikeProblem } from '../../src/bench/like-for-like.js';
-import { selectBackend, type Tf } from '../../src/neural/backend.js';
+import { selectBackend, type Tf } from '../../src/autodiff/backend.js';
 import { expectClose } from '../helpers/expect-close.js';
 
 describe('point shares of the like-for-like problem', () => {

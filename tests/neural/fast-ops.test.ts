@@ -9,9 +9,9 @@ import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type * as TfModule from '@tensorflow/tfjs';
 import { likeForLikeProblem } from '../../src/bench/like-for-like.js';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
-import { selectBackend, type BackendName, type Tf } from '../../src/neural/backend.js';
-import { addBroadcast, denseOp, fastTanh, fastTranspose, matMulFast, mulBroadcast, setPlainOps, sumRows } from '../../src/neural/fast-ops.js';
-import { trainRun } from '../../src/neural/train-run.js';
+import { selectBackend, type BackendName, type Tf } from '../../src/autodiff/backend.js';
+import { addBroadcast, denseOp, fastTanh, fastTranspose, matMulFast, mulBroadcast, setPlainOps, sumRows } from '../../src/autodiff/fast-ops.js';
+import { trainRun } from '../../src/training/train-run.js';
 import { expectClose } from '../helpers/expect-close.js';
 
 /** Deterministic values in (−2, 2) (an LCG; Numerical Recipes §7.1 constants). */

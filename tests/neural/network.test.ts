@@ -11,12 +11,12 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type * as TfModule from '@tensorflow/tfjs';
-import { selectBackend, type BackendName, type Tf } from '../../src/neural/backend.js';
-import { periodicFeatures, propagatorFeatures } from '../../src/neural/features.js';
-import { FieldNet } from '../../src/neural/field-net.js';
-import { concatRows, fastTanh, gatherRowsOp, Jet, matMulFast, denseOp } from '../../src/neural/jet.js';
-import { PropagatorNet } from '../../src/neural/propagator-net.js';
-import { ParameterSet } from '../../src/neural/parameters.js';
+import { selectBackend, type BackendName, type Tf } from '../../src/autodiff/backend.js';
+import { periodicFeatures, propagatorFeatures } from '../../src/network/features.js';
+import { FieldNet } from '../../src/network/field-net.js';
+import { concatRows, fastTanh, gatherRowsOp, Jet, matMulFast, denseOp } from '../../src/autodiff/jet.js';
+import { PropagatorNet } from '../../src/network/propagator-net.js';
+import { ParameterSet } from '../../src/autodiff/parameters.js';
 import { fieldNetworkSchema, propagatorNetworkSchema } from '../../src/io/schemas/network-schema.js';
 import { fd, features64, logQ64, mlp64, readMlp } from './reference64.js';
 import { expectClose } from '../helpers/expect-close.js';

@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import type { TrainConfigInput } from '../../src/io/schemas/train-config.js';
-import { trainRun } from '../../src/neural/train-run.js';
+import { trainRun } from '../../src/training/train-run.js';
 import { runCli } from '../helpers/run-cli.js';
 
 const system = { chain: { type: 'diblock' as const, f: 0.5 }, chiN: 15 };

@@ -6,7 +6,7 @@
  * the memory is released when the last one goes; a Cast that changes dtype still converts.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
-import { selectBackend, type Tf } from '../../src/neural/backend.js';
+import { selectBackend, type Tf } from '../../src/autodiff/backend.js';
 import { likeForLikeProblem } from '../../src/bench/like-for-like.js';
 
 describe('aliasing Identity and Cast on the wasm backend', () => {

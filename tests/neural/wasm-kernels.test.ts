@@ -14,14 +14,14 @@
  */
 import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type * as TfModule from '@tensorflow/tfjs';
-import { selectBackend, type Tf } from '../../src/neural/backend.js';
-import { Adam } from '../../src/neural/adam.js';
-import { setPlainOps, sumRows } from '../../src/neural/fast-ops.js';
-import { ParameterSet } from '../../src/neural/parameters.js';
-import { Jet } from '../../src/neural/jet.js';
-import { jetTanhFused } from '../../src/neural/wasm/jet-tanh-kernel.js';
-import { matMulKernel } from '../../src/neural/wasm/matmul-kernel.js';
-import { weightGradientKernel } from '../../src/neural/wasm/weight-gradient-kernel.js';
+import { selectBackend, type Tf } from '../../src/autodiff/backend.js';
+import { Adam } from '../../src/autodiff/adam.js';
+import { setPlainOps, sumRows } from '../../src/autodiff/fast-ops.js';
+import { ParameterSet } from '../../src/autodiff/parameters.js';
+import { Jet } from '../../src/autodiff/jet.js';
+import { jetTanhFused } from '../../src/autodiff/wasm/jet-tanh-kernel.js';
+import { matMulKernel } from '../../src/autodiff/wasm/matmul-kernel.js';
+import { weightGradientKernel } from '../../src/autodiff/wasm/weight-gradient-kernel.js';
 import { expectClose } from '../helpers/expect-close.js';
 
 /** Deterministic values in (−2, 2) (an LCG; Numerical Recipes §7.1 constants). */

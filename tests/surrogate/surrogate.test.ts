@@ -10,7 +10,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { surrogateConfigSchema } from '../../src/io/schemas/surrogate-config.js';
 import type { SurrogateConfigInput } from '../../src/io/schemas/surrogate-config.js';
 import { InputError } from '../../src/io/errors.js';
-import { selectBackend } from '../../src/neural/backend.js';
+import { selectBackend } from '../../src/autodiff/backend.js';
 import { relL2 } from '../../src/physics/solution-metrics.js';
 import { ParameterSpace } from '../../src/surrogate/parameter-space.js';
 import { monotoneCubic } from '../../src/surrogate/period-model.js';

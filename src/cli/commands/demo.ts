@@ -75,7 +75,7 @@ export function registerDemo(program: Command): void {
         progress.update('2/3 training a warm-started network (short budget)', true);
         const trainConfig = parseOrThrow(trainConfigSchema, { ...DEMO_TRAIN_CONFIG, backend: flags.backend }, 'demo train config');
         const netDir = join(flags.out, 'network');
-        const { trainRun } = await import('../../neural/train-run.js');
+        const { trainRun } = await import('../../training/train-run.js');
         const tr = await trainRun({
           config: trainConfig,
           outDir: netDir,

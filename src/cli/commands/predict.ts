@@ -58,7 +58,7 @@ export function registerPredict(program: Command): void {
           throw new InputError(`${dir}: checkpoint kind ${JSON.stringify(kind)}; predict needs a surrogate checkpoint (kind "surrogate-checkpoint", from mesofield train on a config of kind "surrogate"); for a single-point network use mesofield evaluate`);
         }
         const t0 = performance.now();
-        const { selectBackend } = await import('../../neural/backend.js');
+        const { selectBackend } = await import('../../autodiff/backend.js');
         const { loadSurrogate } = await import('../../surrogate/surrogate-checkpoint.js');
         const handle = await selectBackend(backend);
         const { file, model } = loadSurrogate(handle.tf, dir);

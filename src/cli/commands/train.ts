@@ -6,7 +6,7 @@ import { readJsonFile } from '../../io/load-json.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action, numberFlag } from '../run-command.js';
-import type { TransferReport } from '../../neural/train-run.js';
+import type { TransferReport } from '../../training/train-run.js';
 import { checkpointKind } from '../../io/checkpoint-kind.js';
 
 export interface TrainFlags {
@@ -85,7 +85,7 @@ export function registerTrain(program: Command): void {
           process.stderr.write('\ntrain: stopping after this step and saving a checkpoint (Ctrl-C again to quit at once)\n');
         };
         process.on('SIGINT', onSigint);
-        const { trainRun, TrainingStopped } = await import('../../neural/train-run.js');
+        const { trainRun, TrainingStopped } = await import('../../training/train-run.js');
         try {
           const r = await trainRun({
             config,
@@ -145,7 +145,7 @@ export function registerTrain(program: Command): void {
         if (checkpointKind(dir) === 'surrogate-checkpoint') {
           throw new InputError(`${dir}: a surrogate checkpoint; its error map against fresh reference solves is in ${join(dir, 'metrics.json')} (mesofield report ${dir} draws it); mesofield predict ${dir} --chiN X answers at a point`);
         }
-        const { evaluateCheckpoint } = await import('../../neural/evaluate-checkpoint.js');
+        const { evaluateCheckpoint } = await import('../../training/evaluate-checkpoint.js');
         const ev = await evaluateCheckpoint(dir, backendFlag(flags.backend));
         const out = {
           checkpoint: ev.checkpoint,

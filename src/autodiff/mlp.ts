@@ -8,7 +8,7 @@ import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from './backend.js';
 import type { Jet } from './jet.js';
 import type { ParameterEntry } from './parameters.js';
-import { glorotUniform, Xorshift128 } from './random.js';
+import { glorotUniform, Xorshift128 } from '../numerics/random.js';
 
 export type Activation = 'tanh' | 'sin';
 

@@ -11,13 +11,13 @@
 import type * as TfModule from '@tensorflow/tfjs';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { lbfgs } from '../numerics/lbfgs.js';
-import type { Adam } from './adam.js';
-import type { Tf } from './backend.js';
+import type { Adam } from '../autodiff/adam.js';
+import type { Tf } from '../autodiff/backend.js';
 import type { HistoryEntry } from './checkpoint.js';
-import type { ParameterSet } from './parameters.js';
-import type { LossTerm, LossValues, ScftProblem } from './scft-problem.js';
-import { LOSS_TERMS, PROPAGATOR_TERMS } from './scft-problem.js';
-import { FieldUpdater, fieldUpdateSettings } from './field-update.js';
+import type { ParameterSet } from '../autodiff/parameters.js';
+import type { LossTerm, LossValues, ScftProblem } from '../network/problem/scft-problem.js';
+import { LOSS_TERMS, PROPAGATOR_TERMS } from '../network/problem/scft-problem.js';
+import { FieldUpdater, fieldUpdateSettings } from '../network/field-update.js';
 
 export type StopReason = 'completed' | 'target-reached' | 'interrupted' | 'diverged';
 

@@ -4,8 +4,8 @@
  * Units: s ∈ [0, 1], x in Rg, w in kT per chain, D = (b_K/b)² of the block at each point.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../backend.js';
-import type { Jet } from '../jet.js';
+import type { Tf } from '../../autodiff/backend.js';
+import type { Jet } from '../../autodiff/jet.js';
 
 /** r at each point: u is a jet [n, 1] with dx, dxx, ds; D and w are [n, 1]. */
 export function mdeResidual(tf: Tf, u: Jet, diffusivity: TfModule.Tensor, w: TfModule.Tensor): TfModule.Tensor {

@@ -17,7 +17,7 @@
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import type * as TfModule from '@tensorflow/tfjs';
-import { installWasmExtras } from './wasm/install.js';
+import { installWasmExtras } from './wasm/kernels.js';
 
 export type Tf = typeof TfModule;
 export type BackendKind = 'auto' | 'native' | 'wasm' | 'cpu';

@@ -16,23 +16,23 @@
  *     exact 0 (the networks satisfy them by construction).
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { TrainConfig } from '../io/schemas/train-config.js';
-import type { SystemSpec } from '../physics/chain-schema.js';
-import type { Chain } from '../physics/chain.js';
-import { fieldAtPoints } from '../physics/fields.js';
-import type { Tf } from './backend.js';
-import { contourNodes, gridX, speciesAt } from './contour-nodes.js';
-import type { ContourNodes } from './contour-nodes.js';
-import type { Jet } from './jet.js';
-import { gridDensities } from './losses/densities.js';
-import { gaugeLoss, incompressibilityLoss, selfConsistencyLoss } from './losses/field-equations.js';
-import { initialConditionLoss } from './losses/initial-condition.js';
-import { mdeResidual } from './losses/mde-residual.js';
-import { periodicityLoss } from './losses/periodicity.js';
-import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
-import { childSeed, Xorshift128 } from './random.js';
-import { stopGradient } from './stop-gradient.js';
-import type { ScftNetworks } from './scft-networks.js';
+import type { TrainConfig } from '../../io/schemas/train-config.js';
+import type { SystemSpec } from '../../physics/chain-schema.js';
+import type { Chain } from '../../physics/chain.js';
+import { fieldAtPoints } from '../../physics/fields.js';
+import type { Tf } from '../../autodiff/backend.js';
+import { contourNodes, gridX, speciesAt } from '../contour-nodes.js';
+import type { ContourNodes } from '../contour-nodes.js';
+import type { Jet } from '../../autodiff/jet.js';
+import { gridDensities } from '../losses/densities.js';
+import { gaugeLoss, incompressibilityLoss, selfConsistencyLoss } from '../losses/field-equations.js';
+import { initialConditionLoss } from '../losses/initial-condition.js';
+import { mdeResidual } from '../losses/mde-residual.js';
+import { periodicityLoss } from '../losses/periodicity.js';
+import type { PropagatorNet, PropagatorPoints } from '../propagator-net.js';
+import { childSeed, Xorshift128 } from '../../numerics/random.js';
+import { stopGradient } from '../../autodiff/stop-gradient.js';
+import type { ScftNetworks } from '../scft-networks.js';
 
 export const LOSS_TERMS = ['mde', 'periodicity', 'initial', 'incompressibility', 'selfConsistency', 'gauge'] as const;
 export type LossTerm = (typeof LOSS_TERMS)[number];

@@ -15,9 +15,9 @@ import { writeDirectoryAtomic } from '../io/atomic-write.js';
 import { InputError } from '../io/errors.js';
 import { formatZodError } from '../io/errors.js';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
-import type { Tf } from './backend.js';
-import type { NamedWeight } from './parameters.js';
-import { LOSS_TERMS } from './scft-problem.js';
+import type { Tf } from '../autodiff/backend.js';
+import type { NamedWeight } from '../autodiff/parameters.js';
+import { LOSS_TERMS } from '../network/problem/scft-problem.js';
 
 const lossRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number()])) as Record<(typeof LOSS_TERMS)[number], z.ZodNumber>);
 // Balancing factors: a checkpoint written before a term existed has none for it; 1 is "unbalanced".

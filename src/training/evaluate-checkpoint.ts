@@ -12,13 +12,13 @@ import { buildChain } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { SolutionMetrics } from '../physics/solution-metrics.js';
 import { solveFromConfig } from '../spectral/solve-from-config.js';
-import { selectBackend } from './backend.js';
-import type { BackendKind } from './backend.js';
+import { selectBackend } from '../autodiff/backend.js';
+import type { BackendKind } from '../autodiff/backend.js';
 import { loadCheckpoint, splitWeights } from './checkpoint.js';
 import type { CheckpointFile } from './checkpoint.js';
-import { buildScftNetworks } from './scft-networks.js';
-import { ScftProblem } from './scft-problem.js';
-import type { LossValues } from './scft-problem.js';
+import { buildScftNetworks } from '../network/scft-networks.js';
+import { ScftProblem } from '../network/problem/scft-problem.js';
+import type { LossValues } from '../network/problem/scft-problem.js';
 import { evaluateNetworks } from './train-run.js';
 
 export interface CheckpointEvaluation {

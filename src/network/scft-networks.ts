@@ -6,9 +6,9 @@
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import type { Chain } from '../physics/chain.js';
 import { reverseChain } from '../physics/chain.js';
-import type { Tf } from './backend.js';
+import type { Tf } from '../autodiff/backend.js';
 import { FieldNet } from './field-net.js';
-import { ParameterSet } from './parameters.js';
+import { ParameterSet } from '../autodiff/parameters.js';
 import { PropagatorNet } from './propagator-net.js';
 
 export interface ScftNetworks {

@@ -29,12 +29,12 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { PropagatorNetworkConfig } from '../io/schemas/network-schema.js';
-import type { Tf } from './backend.js';
+import type { Tf } from '../autodiff/backend.js';
 import { propagatorFeatures, xInputWidth } from './features.js';
-import { concatRows, Jet } from './jet.js';
-import { Mlp } from './mlp.js';
-import { ParameterSet } from './parameters.js';
-import { childSeed } from './random.js';
+import { concatRows, Jet } from '../autodiff/jet.js';
+import { Mlp } from '../autodiff/mlp.js';
+import { ParameterSet } from '../autodiff/parameters.js';
+import { childSeed } from '../numerics/random.js';
 
 export interface PropagatorNetOptions {
   /** Cell length L in Rg. */

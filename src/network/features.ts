@@ -19,8 +19,8 @@
  *
  * Values are computed in float64 and rounded once to float32 on upload.
  */
-import type { Tf } from './backend.js';
-import { Jet } from './jet.js';
+import type { Tf } from '../autodiff/backend.js';
+import { Jet } from '../autodiff/jet.js';
 
 /** Number of columns of the periodic features for M modes. */
 export function periodicWidth(modes: number): number {

@@ -4,11 +4,11 @@
  * with all its derivatives. Parameter names `${name}/layer${ℓ}/kernel|bias`.
  */
 import type { FieldNetworkConfig } from '../io/schemas/network-schema.js';
-import type { Tf } from './backend.js';
+import type { Tf } from '../autodiff/backend.js';
 import { periodicFeatures, periodicWidth } from './features.js';
-import type { Jet } from './jet.js';
-import { Mlp } from './mlp.js';
-import { ParameterSet } from './parameters.js';
+import type { Jet } from '../autodiff/jet.js';
+import { Mlp } from '../autodiff/mlp.js';
+import { ParameterSet } from '../autodiff/parameters.js';
 
 export interface FieldNetOptions {
   /** Cell length L in Rg. */
