@@ -1,7 +1,7 @@
 /**
  * Primitives that route around slow tfjs 4.22 WASM kernels (issue 7). Each one computes
  * exactly the function of the straightforward tfjs op named beside it, with a custom
- * gradient made of fast kernels only; tests/neural/fast-ops.test.ts checks values and
+ * gradient made of fast kernels only; tests/autodiff/fast-ops.test.ts checks values and
  * gradients of each against that op.
  *
  * Measured on WASM, one thread, here (src/bench/step-profile.ts and the issue's table):
@@ -15,7 +15,7 @@
  *   - tanh is ~15× slower than sigmoid: tanh z = 2σ(2z) − 1 (fastTanh, WASM only: on the
  *     plain-JS backend tf.tanh is faster, and the native backend has one fused kernel).
  *
- * On WASM, where our own kernels (src/neural/wasm) take the shape, the products, the weight
+ * On WASM, where our own kernels (src/autodiff/wasm) take the shape, the products, the weight
  * gradient and the row sums below go through them instead; the tfjs forms here remain the
  * path for other shapes and backends.
  *

@@ -1,7 +1,7 @@
 /**
  * A fully connected network on jets: hidden layers z ← act(zW + b), then a linear output
  * layer. Glorot-uniform kernels, zero biases, drawn from the seeded xorshift128 generator
- * (src/neural/random.ts), so equal seeds give equal networks on every backend.
+ * (src/numerics/random.ts), so equal seeds give equal networks on every backend.
  * Layer ℓ has parameters `${name}/layer${ℓ}/kernel` [in, out] and `${name}/layer${ℓ}/bias` [out].
  */
 import type * as TfModule from '@tensorflow/tfjs';

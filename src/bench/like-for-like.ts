@@ -3,15 +3,15 @@
  * WASM speed is compared with PyTorch (bench/pytorch/mde_step.py computes the same thing):
  *
  *   network  u(x, s): tanh MLP 2 → H → H → H → 1 on the raw inputs (x, s),
- *            Glorot-uniform kernels from the seeded generator of src/neural/random.ts;
+ *            Glorot-uniform kernels from the seeded generator of src/numerics/random.ts;
  *   points   a tensor grid x_j = j·L/nx (j < nx = 64), s_i = (i + ½)/ns, n = nx·ns
  *            (ns = 32 for 2048 points, 64 for 4096), L = 4 Rg;
  *   loss     mean over the points of r², r = ∂s u − ∂xx u − (∂x u)² + w(x),
  *            w(x) = 2 cos(2π x / L) (the MDE in ln q form, SCFT-NOTES.md, D = 1);
- *   update   Adam (src/neural/adam.ts), learning rate 1e-3.
+ *   update   Adam (src/autodiff/adam.ts), learning rate 1e-3.
  *
  * Two builds of the same loss on the same variables:
- *   'fast'  — the trainer's own code: jets (src/neural/jet.ts) through Mlp.forward;
+ *   'fast'  — the trainer's own code: jets (src/autodiff/jet.ts) through Mlp.forward;
  *   'plain' — straightforward tfjs ops written out here (tf.matMul, tf.tanh, tf.sum), the
  *             independent implementation the fast one is tested against.
  */

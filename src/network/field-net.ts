@@ -1,6 +1,6 @@
 /**
  * Field network w(x): one output channel per species (e.g. w_A, w_B in kT), input the
- * exactly periodic features of x (src/neural/features.ts), so every output is L-periodic
+ * exactly periodic features of x (src/network/features.ts), so every output is L-periodic
  * with all its derivatives. Parameter names `${name}/layer${ℓ}/kernel|bias`.
  */
 import type { FieldNetworkConfig } from '../io/schemas/network-schema.js';

@@ -199,7 +199,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       }
       read.push(path);
     } else if (kind === 'checkpoint') {
-      // A training checkpoint (neural/checkpoint.ts): its loss history is the training page.
+      // A training checkpoint (training/checkpoint.ts): its loss history is the training page.
       const hist = parseOrThrow(checkpointHistorySchema, raw, path).history.filter((h) => h.stage === 'adam');
       // Terms that are identically zero for this system (e.g. no field equations for a chain in a prescribed field) have no place on a log axis.
       const positive = (t: Record<string, number>) => Object.fromEntries(Object.entries(t).filter(([, v]) => v > 0));

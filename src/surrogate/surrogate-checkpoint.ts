@@ -1,5 +1,5 @@
 /**
- * Surrogate checkpoint directories, in the layout of neural/checkpoint.ts:
+ * Surrogate checkpoint directories, in the layout of training/checkpoint.ts:
  *   checkpoint.json  kind "surrogate-checkpoint": config, provenance (backend, tfjs), the
  *                    period model (anchor values and periods), the anchors' results, the
  *                    training history, the metrics with the error map, the weight manifest

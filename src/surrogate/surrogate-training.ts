@@ -3,7 +3,7 @@
  * trainer, field-update.ts, with the parameter points drawn afresh every round and the
  * propagators solved exactly in the network's fields):
  *   fit     least squares of w/χN to reference fields on their x grid (the anchors, and extra
- *           solves if configured): Adam (Kingma & Ba, ICLR 2015; neural/adam.ts), then L-BFGS
+ *           solves if configured): Adam (Kingma & Ba, ICLR 2015; autodiff/adam.ts), then L-BFGS
  *           (numerics/lbfgs.ts) on the flattened parameters;
  *   rounds  at the anchors and `pointsPerRound` random θ: the surrogate's solution (one
  *           spectral propagator solve in its fields, surrogate-model.ts) gives φ, the simple-

@@ -1,4 +1,4 @@
-// The WebAssembly JS API as far as src/neural/wasm uses it (lib ES2022 has no WebAssembly
+// The WebAssembly JS API as far as src/autodiff/wasm uses it (lib ES2022 has no WebAssembly
 // types without the DOM library, and @types/node 20 does not declare them).
 declare namespace WebAssembly {
   class Memory {

@@ -98,7 +98,7 @@ describe('mesofield sweep', () => {
   });
 
   it('the sweep modules do not load tfjs', () => {
-    // tfjs-core creates globalThis._tfengine when it is evaluated (see tests/neural/lazy-load.test.ts).
+    // tfjs-core creates globalThis._tfengine when it is evaluated (see tests/autodiff/lazy-load.test.ts).
     const dist = fileURLToPath(new URL('../../dist/', import.meta.url));
     const mods = ['sweep/run-sweep.js', 'sweep/merge.js', 'cli/commands/sweep.js'].map((m) => `await import(${JSON.stringify(dist + m)});`);
     const r = spawnSync(process.execPath, ['--input-type=module', '-e', `${mods.join('\n')}\nconsole.log(typeof globalThis._tfengine);`], { encoding: 'utf8' });

@@ -1,6 +1,6 @@
 /**
  * One Adam update of one parameter tensor in one WASM kernel (issue 7): the same arithmetic,
- * in the same order and in float32, as the tfjs ops of src/neural/adam.ts (Kingma & Ba,
+ * in the same order and in float32, as the tfjs ops of src/autodiff/adam.ts (Kingma & Ba,
  * ICLR 2015, Alg. 1):
  *   m' = β₁·m + (1 − β₁)·g
  *   v' = β₂·v + (1 − β₂)·g²

@@ -1,7 +1,7 @@
 /**
  * tanh on a jet in one WASM kernel forward and one backward (issue 7).
  *
- * Channel-by-channel, Jet.tanh (src/neural/jet.ts) is about 14 tfjs kernels forward and
+ * Channel-by-channel, Jet.tanh (src/autodiff/jet.ts) is about 14 tfjs kernels forward and
  * twice that in tfjs's reverse mode, each a pass over an [n, h] array on a fresh part of the
  * heap. Here the same rules are one pass each way, in f32x4 SIMD on the tensors in place:
  *
@@ -17,7 +17,7 @@
  * A channel may be absent, or one row [1, h] broadcast over the n points (the first layer's
  * ∂x and ∂s when the input is x or s itself); the gradient of a row channel is summed over
  * the points. Each combination is its own kernel name, so tfjs saves exactly the tensors its
- * gradient reads. tests/neural/wasm-kernels.test.ts checks values and gradients against
+ * gradient reads. tests/autodiff/wasm-kernels.test.ts checks values and gradients against
  * the channel-by-channel jets on plain tfjs ops.
  */
 import type * as TfModule from '@tensorflow/tfjs';

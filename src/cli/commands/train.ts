@@ -1,4 +1,4 @@
-/** `mesofield train` and `mesofield evaluate`: thin wrappers over neural/train-run.ts. */
+/** `mesofield train` and `mesofield evaluate`: thin wrappers over training/train-run.ts. */
 import type { Command } from 'commander';
 import { basename, join } from 'node:path';
 import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';

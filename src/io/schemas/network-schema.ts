@@ -1,5 +1,5 @@
 /**
- * Schema pieces for the neural networks (src/neural): architecture and seed. The cell
+ * Schema pieces for the neural networks (src/network): architecture and seed. The cell
  * period L and the block boundaries come from the cell and the chain, not from here.
  *
  * zod 4: an object default is returned as given, not parsed, so nest these with

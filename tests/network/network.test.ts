@@ -3,7 +3,7 @@
  * field and propagator networks (every derivative channel), parameter gradients, seeded
  * initialisation, flatten/named weights.
  *
- * Oracles: a float64 re-implementation of each forward pass (tests/neural/reference64.ts)
+ * Oracles: a float64 re-implementation of each forward pass (tests/network/reference64.ts)
  * differentiated by central finite differences; analytic derivatives of sin, cos, tanh,
  * exp. tfjs computes in float32, so channels are compared to a relative 2e-4 of their
  * scale (float32 rounding through a few layers is ~1e-6; a wrong propagation rule is an

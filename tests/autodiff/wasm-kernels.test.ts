@@ -1,5 +1,5 @@
 /**
- * mesofield's own WASM kernels (src/neural/wasm) against the straightforward tfjs ops they
+ * mesofield's own WASM kernels (src/autodiff/wasm) against the straightforward tfjs ops they
  * replace, in value and gradient, to float32 rounding:
  *   - the fused jet tanh against Jet.tanh built from plain tfjs ops (tf.tanh, tf.mul, …,
  *     differentiated by tfjs), for every combination of absent, per-point and one-row

@@ -1,5 +1,5 @@
 /**
- * The fast primitives of src/neural/fast-ops.ts against the straightforward tfjs ops they
+ * The fast primitives of src/autodiff/fast-ops.ts against the straightforward tfjs ops they
  * replace (the independent implementation: tf.matMul, tf.tanh, tf.sum, tf.transpose,
  * broadcasting tf.mul / tf.add and tfjs's own gradients of them), in value and gradient,
  * to float32 rounding; then whole steps and a whole seeded training run built with the
@@ -128,7 +128,7 @@ describe('training results are unchanged by the fast primitives', () => {
       kind: 'train',
       system: { chain: { type: 'diblock', f: 0.4 }, chiN: 15 },
       cell: { nx: 32, ns: 60 },
-      // Widths that every WASM kernel of src/neural/wasm takes (multiples of 8).
+      // Widths that every WASM kernel of src/autodiff/wasm takes (multiples of 8).
       networks: { field: { hidden: [8, 8] }, propagator: { hidden: [16, 16, 16] } },
       collocation: { nx: 16, nodesPerBlock: 8, random: 64, resampleEvery: 20 },
       warmStart: { type: 'reference', steps: 30, learningRate: 0.01 },

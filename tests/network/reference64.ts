@@ -1,6 +1,6 @@
 /**
  * Float64 plain-JS re-implementation of the networks' forward passes (values only), written
- * from the formulas in the headers of src/neural/features.ts, mlp.ts, field-net.ts and
+ * from the formulas in the headers of src/network/features.ts, mlp.ts, field-net.ts and
  * propagator-net.ts, sharing no code with them. Derivatives of these values are taken by
  * central finite differences in float64, which gives the tests an independent oracle for
  * every derivative channel the tfjs jets compute in float32.

@@ -1,6 +1,6 @@
 /**
  * The WASM backend's Identity and same-dtype Cast share memory instead of copying
- * (src/neural/wasm/aliasing-copies.ts). What must hold is tfjs's own contract for these
+ * (src/autodiff/wasm/aliasing-copies.ts). What must hold is tfjs's own contract for these
  * ops (the plain-JS backend implements Identity the same way): the result has the input's
  * values, shape and dtype; either tensor can be disposed first without touching the other;
  * the memory is released when the last one goes; a Cast that changes dtype still converts.
