@@ -6,10 +6,10 @@
  * tensors that a checkpoint stores and a resumed run restores exactly.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from './backend.js';
 import { plainOps } from './fast-ops.js';
 import type { NamedWeight, ParameterSet } from './parameters.js';
-import { adamUpdateKernel } from './wasm/adam-kernel.js';
+import type { Tf } from './tf.js';
+import { wasmKernels } from './wasm/kernels.js';
 
 export interface AdamSettings {
   beta1: number;
@@ -45,7 +45,7 @@ export class Adam {
       const vOld = this.v.get(e.name);
       const [mNew, vNew] = tf.tidy(() => {
         // On WASM the lines below as one kernel (wasm/adam-kernel.ts), same arithmetic.
-        const fused = plainOps() ? null : adamUpdateKernel(tf, e.variable, g, mOld, vOld, { beta1, beta2, epsilon, lrOverC1: lr / c1, c2 });
+        const fused = plainOps() ? null : wasmKernels(tf)?.adamUpdate(tf, e.variable, g, mOld, vOld, { beta1, beta2, epsilon, lrOverC1: lr / c1, c2 });
         if (fused) {
           e.variable.assign(fused[0]);
           return [tf.keep(fused[1]), tf.keep(fused[2])];

@@ -16,10 +16,10 @@
  */
 import { createRequire } from 'node:module';
 import path from 'node:path';
-import type * as TfModule from '@tensorflow/tfjs';
-import { installWasmExtras } from './wasm/kernels.js';
+import type { Tf } from './tf.js';
+import { installWasmKernels } from './wasm/kernels.js';
 
-export type Tf = typeof TfModule;
+export type { Tf } from './tf.js';
 export type BackendKind = 'auto' | 'native' | 'wasm' | 'cpu';
 export type BackendName = 'native' | 'wasm' | 'cpu';
 
@@ -90,8 +90,9 @@ async function initWasm(): Promise<BackendHandle> {
   if (!ok) throw new BackendError(`backend "wasm" did not initialise (binaries looked up in ${dist})`);
   await tf.ready();
   quiet(tf);
-  const extras = await installWasmExtras(tf);
-  if (extras) process.emitWarning(extras);
+  // Our kernels (wasm/kernels.ts), or a warning and tfjs's own kernels.
+  const warning = await installWasmKernels(tf, { core: tf.version['tfjs-core'], wasmBackend: wasm.version_wasm });
+  if (warning) process.emitWarning(warning);
   return { tf, backend: 'wasm', tfjsVersion: tf.version.tfjs };
 }
 

@@ -15,7 +15,7 @@
  *   - tanh is ~15× slower than sigmoid: tanh z = 2σ(2z) − 1 (fastTanh, WASM only: on the
  *     plain-JS backend tf.tanh is faster, and the native backend has one fused kernel).
  *
- * On WASM, where our own kernels (src/autodiff/wasm) take the shape, the products, the weight
+ * On WASM, where our own kernels (src/autodiff/wasm/kernels.ts) take the shape, the products, the weight
  * gradient and the row sums below go through them instead; the tfjs forms here remain the
  * path for other shapes and backends.
  *
@@ -24,10 +24,8 @@
  * compare whole training runs, fast against plain.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from './backend.js';
-import { columnSums } from './wasm/column-sums-kernel.js';
-import { matMulKernel } from './wasm/matmul-kernel.js';
-import { weightGradientKernel } from './wasm/weight-gradient-kernel.js';
+import type { Tf } from './tf.js';
+import { wasmKernels } from './wasm/kernels.js';
 
 type Tensor = TfModule.Tensor;
 type Save = (ts: Tensor[]) => void;
@@ -70,7 +68,7 @@ function onesRow(tf: Tf, o: Ops, n: number): Tensor {
 function sumRowsWith(tf: Tf, o: Ops, a: Tensor): Tensor {
   const n = a.shape[0]!;
   if (n === 1) return a;
-  const summed = columnSums(tf, a);
+  const summed = wasmKernels(tf)?.columnSums(tf, a);
   if (summed) return summed;
   return tf.matMul(onesRow(tf, o, n) as TfModule.Tensor2D, a as TfModule.Tensor2D);
 }
@@ -93,7 +91,7 @@ function transposeWith(tf: Tf, a: Tensor): Tensor {
 
 /** dW = aᵀ·dy [in, out] through plain matMuls, transposing the narrower of a and dy. */
 function weightGradient(tf: Tf, a: Tensor, dy: Tensor): Tensor {
-  const own = weightGradientKernel(tf, a, dy);
+  const own = wasmKernels(tf)?.weightGradient(tf, a, dy);
   if (own) return own;
   const inW = a.shape[1]!;
   const outW = dy.shape[1]!;
@@ -104,7 +102,7 @@ function weightGradient(tf: Tf, a: Tensor, dy: Tensor): Tensor {
 
 /** a·w by our WASM kernel where it applies, else tf.matMul (no gradient: used inside custom ops). */
 function product(tf: Tf, a: Tensor, w: Tensor): Tensor {
-  return matMulKernel(tf, a, w) ?? tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D);
+  return wasmKernels(tf)?.matMul(tf, a, w) ?? tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D);
 }
 
 function ops(tf: Tf): Ops {
@@ -133,7 +131,7 @@ function ops(tf: Tf): Ops {
     const [x, k, b, save] = args as [Tensor, Tensor, Tensor, Save];
     save([x, k]);
     return {
-      value: matMulKernel(tf, x, k, b) ?? tf.add(tf.matMul(x as TfModule.Tensor2D, k as TfModule.Tensor2D), b),
+      value: wasmKernels(tf)?.matMul(tf, x, k, b) ?? tf.add(tf.matMul(x as TfModule.Tensor2D, k as TfModule.Tensor2D), b),
       gradFunc: (dy: Tensor, saved: Tensor[]) => [...backward(dy, saved), tf.reshape(sumRowsWith(tf, self, dy), b.shape)],
     };
   }) as (a: Tensor, w: Tensor, b: Tensor) => Tensor;

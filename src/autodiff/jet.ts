@@ -23,9 +23,9 @@
  * formula to second order: (g∘f)'' = g''(f)·f'² + g'(f)·f'').
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from './backend.js';
 import { addBroadcast, denseOp, fastTanh, gatherRowsOp, matMulFast, mulBroadcast, plainOps } from './fast-ops.js';
-import { jetTanhFused } from './wasm/jet-tanh-kernel.js';
+import type { Tf } from './tf.js';
+import { wasmKernels } from './wasm/kernels.js';
 
 export type Tensor = TfModule.Tensor;
 export type Channel = Tensor | null;
@@ -126,12 +126,14 @@ export class Jet {
   }
 
   /**
-   * tanh: t' = 1 − t², t'' = −2t(1 − t²). The value comes from fastTanh (sigmoid form).
+   * tanh: t' = 1 − t², t'' = −2t·t'. The value comes from fastTanh (sigmoid form).
+   * This is the one statement of the rule: the fused WASM kernel (wasm/jet-tanh-kernel.ts)
+   * computes the same and is tested against this method on plain tfjs ops.
    */
   tanh(): Jet {
     const tf = this.tf;
-    // On WASM, all of the rules below in one kernel each way (wasm/jet-tanh-kernel.ts).
-    const fused = plainOps() ? null : jetTanhFused(tf, this.v, this.dx, this.dxx, this.ds);
+    // On WASM, all of the rule in one kernel each way.
+    const fused = plainOps() ? null : wasmKernels(tf)?.jetTanh(tf, this.v, this.dx, this.dxx, this.ds);
     if (fused) return new Jet(tf, fused.t, fused.dx, fused.dxx, fused.ds);
     const t = fastTanh(tf, this.v);
     let one: Tensor | null = null;

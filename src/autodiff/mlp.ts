@@ -1,14 +1,23 @@
 /**
  * A fully connected network on jets: hidden layers z ← act(zW + b), then a linear output
- * layer. Glorot-uniform kernels, zero biases, drawn from the seeded xorshift128 generator
- * (src/numerics/random.ts), so equal seeds give equal networks on every backend.
+ * layer. Kernels Glorot-uniform (Glorot & Bengio, AISTATS 2010, eq. 16: W ~ U(−a, a),
+ * a = sqrt(6 / (fan_in + fan_out))), drawn from the seeded xorshift128 generator
+ * (src/numerics/random.ts), so equal seeds give equal networks on every backend; biases zero.
  * Layer ℓ has parameters `${name}/layer${ℓ}/kernel` [in, out] and `${name}/layer${ℓ}/bias` [out].
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from './backend.js';
+import type { Tf } from './tf.js';
 import type { Jet } from './jet.js';
 import type { ParameterEntry } from './parameters.js';
-import { glorotUniform, Xorshift128 } from '../numerics/random.js';
+import { Xorshift128 } from '../numerics/random.js';
+
+/** Glorot-uniform kernel [fanIn, fanOut], row-major. */
+export function glorotUniform(rng: Xorshift128, fanIn: number, fanOut: number): Float64Array {
+  const a = Math.sqrt(6 / (fanIn + fanOut));
+  const w = new Float64Array(fanIn * fanOut);
+  for (let i = 0; i < w.length; i++) w[i] = (2 * rng.next() - 1) * a;
+  return w;
+}
 
 export type Activation = 'tanh' | 'sin';
 

@@ -8,7 +8,7 @@
  * Values cross the float32/float64 boundary here: tfjs variables are float32.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from './backend.js';
+import type { Tf } from './tf.js';
 
 export interface NamedWeight {
   name: string;

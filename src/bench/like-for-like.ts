@@ -17,7 +17,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import { Adam } from '../autodiff/adam.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { Jet } from '../autodiff/jet.js';
 import { Mlp } from '../autodiff/mlp.js';
 import { ParameterSet } from '../autodiff/parameters.js';

@@ -22,7 +22,7 @@ import { trainConfigSchema } from '../io/schemas/train-config.js';
 import { buildChain } from '../physics/chain.js';
 import { Adam } from '../autodiff/adam.js';
 import { selectBackend } from '../autodiff/backend.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { buildScftNetworks } from '../network/scft-networks.js';
 import { LOSS_TERMS, ScftProblem } from '../network/problem/scft-problem.js';
 import type { LossValues } from '../network/problem/scft-problem.js';

@@ -9,7 +9,7 @@ import type { ChainSpec } from '../physics/chain-schema.js';
 import { RunFailure } from '../io/errors.js';
 import { LamellaModel } from './lamella-model.js';
 import type { ModelPoint } from './lamella-model.js';
-import { GaussianNoise } from './random.js';
+import { GaussianNoise } from '../numerics/random.js';
 
 export interface SynthSettings {
   chain: ChainSpec;

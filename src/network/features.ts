@@ -19,7 +19,7 @@
  *
  * Values are computed in float64 and rounded once to float32 on upload.
  */
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { Jet } from '../autodiff/jet.js';
 
 /** Number of columns of the periodic features for M modes. */

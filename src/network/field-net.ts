@@ -4,7 +4,7 @@
  * with all its derivatives. Parameter names `${name}/layer${ℓ}/kernel|bias`.
  */
 import type { FieldNetworkConfig } from '../io/schemas/network-schema.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { periodicFeatures, periodicWidth } from './features.js';
 import type { Jet } from '../autodiff/jet.js';
 import { Mlp } from '../autodiff/mlp.js';

@@ -9,7 +9,7 @@ import type { SystemSpec } from '../physics/chain-schema.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import { mixedFieldUpdate } from '../physics/scft-equations.js';
 import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { networkSolution } from './network-solution.js';
 import type { ScftNetworks } from './scft-networks.js';
 import { warmStart } from './warm-start.js';

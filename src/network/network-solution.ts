@@ -11,7 +11,7 @@ import type { SpeciesArrays } from '../physics/fields.js';
 import { cellMean, spreadOf } from '../physics/grid.js';
 import type { Phase, ScftSolution } from '../physics/result.js';
 import { fieldDeviation, freeEnergy } from '../physics/scft-equations.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { contourNodes, gridX } from './contour-nodes.js';
 import type { PropagatorNet } from './propagator-net.js';
 import type { ScftNetworks } from './scft-networks.js';

@@ -29,7 +29,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { PropagatorNetworkConfig } from '../io/schemas/network-schema.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { propagatorFeatures, xInputWidth } from './features.js';
 import { concatRows, Jet } from '../autodiff/jet.js';
 import { Mlp } from '../autodiff/mlp.js';

@@ -6,7 +6,7 @@
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import type { Chain } from '../physics/chain.js';
 import { reverseChain } from '../physics/chain.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { FieldNet } from './field-net.js';
 import { ParameterSet } from '../autodiff/parameters.js';
 import { PropagatorNet } from './propagator-net.js';

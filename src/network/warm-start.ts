@@ -11,7 +11,7 @@ import type * as TfModule from '@tensorflow/tfjs';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
 import { Adam } from '../autodiff/adam.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
 import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
 import type { ScftNetworks } from './scft-networks.js';

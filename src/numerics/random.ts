@@ -1,6 +1,8 @@
 /**
- * Seeded pseudo-random numbers for network initialisation, so that a seeded run repeats
- * bit for bit (tfjs's own initialisers draw from an internal generator we do not control).
+ * The one seeded pseudo-random generator of mesofield: network initialisation, collocation
+ * points, surrogate parameter draws and the noise of synthetic profiles all draw from it,
+ * so a seeded run repeats bit for bit (tfjs's own initialisers draw from an internal
+ * generator we do not control).
  *
  * Generator: Marsaglia's xorshift128 ("Xorshift RNGs", J. Stat. Softw. 8(14), 2003: the
  * xor128 routine, shifts 11, 8, 19), period 2^128 − 1. The 128-bit state is filled from
@@ -8,8 +10,8 @@
  * (Press et al., Numerical Recipes, 2nd ed., §7.1 "quick and dirty" generator), which
  * never leaves the state all zero for four consecutive outputs.
  *
- * Initialisation: Glorot & Bengio (AISTATS 2010, eq. 16) uniform, W ~ U(−a, a) with
- * a = sqrt(6 / (fan_in + fan_out)); biases start at zero.
+ * Normal deviates: the Box–Muller transform (Box & Muller, Ann. Math. Stat. 29, 610 (1958)),
+ * z = sqrt(−2 ln u1) cos(2π u2), with the paired sine value kept for the next call.
  */
 
 export class Xorshift128 {
@@ -54,10 +56,27 @@ export function childSeed(seed: number, k: number): number {
   return (Math.imul((seed + Math.imul(k + 1, 0x9e3779b9)) >>> 0, 1664525) + 1013904223) >>> 0;
 }
 
-/** Glorot-uniform kernel [fanIn, fanOut], row-major. */
-export function glorotUniform(rng: Xorshift128, fanIn: number, fanOut: number): Float64Array {
-  const a = Math.sqrt(6 / (fanIn + fanOut));
-  const w = new Float64Array(fanIn * fanOut);
-  for (let i = 0; i < w.length; i++) w[i] = (2 * rng.next() - 1) * a;
-  return w;
+/** Standard normal deviates from a seeded Xorshift128 (Box–Muller, see the header). */
+export class GaussianNoise {
+  private readonly uniform: Xorshift128;
+  private spare: number | undefined;
+
+  constructor(seed: number) {
+    this.uniform = new Xorshift128(seed);
+  }
+
+  /** One standard normal deviate. */
+  next(): number {
+    if (this.spare !== undefined) {
+      const s = this.spare;
+      this.spare = undefined;
+      return s;
+    }
+    // u1 in (0, 1]: ln(u1) stays finite.
+    const u1 = 1 - this.uniform.next();
+    const u2 = this.uniform.next();
+    const r = Math.sqrt(-2 * Math.log(u1));
+    this.spare = r * Math.sin(2 * Math.PI * u2);
+    return r * Math.cos(2 * Math.PI * u2);
+  }
 }

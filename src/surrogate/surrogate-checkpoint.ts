@@ -11,7 +11,7 @@
  */
 import { z } from 'zod';
 import { surrogateConfigSchema } from '../io/schemas/surrogate-config.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { readWeightsDirectory, writeWeightsDirectory } from '../training/checkpoint.js';
 import { InputError } from '../io/errors.js';
 import { SurrogateModel } from './surrogate-model.js';

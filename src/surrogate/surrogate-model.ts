@@ -15,7 +15,7 @@ import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
 import { fixGauge } from '../physics/scft-equations.js';
 import { solveInFields } from '../spectral/scft-solver.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { ParameterSpace } from './parameter-space.js';
 import type { ParameterPoint } from './parameter-space.js';
 import { periodAt } from './period-model.js';

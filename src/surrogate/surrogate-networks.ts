@@ -14,7 +14,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import { f32, periodicFeatureArrays, periodicWidth } from '../network/features.js';
 import { Jet } from '../autodiff/jet.js';
 import { Mlp } from '../autodiff/mlp.js';

@@ -19,7 +19,7 @@ import type { ScftSolution } from '../physics/result.js';
 import { mixedFieldUpdate } from '../physics/scft-equations.js';
 import { lbfgs } from '../numerics/lbfgs.js';
 import { Adam } from '../autodiff/adam.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
 import { childSeed, Xorshift128 } from '../numerics/random.js';
 import type { ParameterPoint } from './parameter-space.js';

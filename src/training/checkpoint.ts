@@ -15,7 +15,7 @@ import { writeDirectoryAtomic } from '../io/atomic-write.js';
 import { InputError } from '../io/errors.js';
 import { formatZodError } from '../io/errors.js';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import type { NamedWeight } from '../autodiff/parameters.js';
 import { LOSS_TERMS } from '../network/problem/scft-problem.js';
 

@@ -12,7 +12,7 @@ import type * as TfModule from '@tensorflow/tfjs';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { lbfgs } from '../numerics/lbfgs.js';
 import type { Adam } from '../autodiff/adam.js';
-import type { Tf } from '../autodiff/backend.js';
+import type { Tf } from '../autodiff/tf.js';
 import type { HistoryEntry } from './checkpoint.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
 import type { LossTerm, LossValues, ScftProblem } from '../network/problem/scft-problem.js';

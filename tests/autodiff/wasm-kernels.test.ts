@@ -1,9 +1,10 @@
 /**
- * mesofield's own WASM kernels (src/autodiff/wasm) against the straightforward tfjs ops they
+ * mesofield's own WASM kernels (src/autodiff/wasm, through wasm/kernels.ts) against the straightforward tfjs ops they
  * replace, in value and gradient, to float32 rounding:
  *   - the fused jet tanh against Jet.tanh built from plain tfjs ops (tf.tanh, tf.mul, …,
  *     differentiated by tfjs), for every combination of absent, per-point and one-row
- *     derivative channels;
+ *     derivative channels: Jet.tanh is the one statement of the tanh rule, and this is
+ *     what ties the kernel's hand-written WAT to it (jet-tanh-kernel.ts says why);
  *   - column sums against tf.sum over axis 0;
  *   - the weight gradient aᵀ·dy against tf.matMul(a, dy, transposeA), across its chunk
  *     boundaries (64 rows), its block shapes and its one-column form;
@@ -19,9 +20,7 @@ import { Adam } from '../../src/autodiff/adam.js';
 import { setPlainOps, sumRows } from '../../src/autodiff/fast-ops.js';
 import { ParameterSet } from '../../src/autodiff/parameters.js';
 import { Jet } from '../../src/autodiff/jet.js';
-import { jetTanhFused } from '../../src/autodiff/wasm/jet-tanh-kernel.js';
-import { matMulKernel } from '../../src/autodiff/wasm/matmul-kernel.js';
-import { weightGradientKernel } from '../../src/autodiff/wasm/weight-gradient-kernel.js';
+import { wasmKernels } from '../../src/autodiff/wasm/kernels.js';
 import { expectClose } from '../helpers/expect-close.js';
 
 /** Deterministic values in (−2, 2) (an LCG; Numerical Recipes §7.1 constants). */
@@ -39,6 +38,12 @@ describe('WASM kernels of our own', () => {
   beforeAll(async () => {
     tf = (await selectBackend('wasm')).tf;
   });
+  /** The kernels through their one interface (installed when the backend started). */
+  const kernels = () => {
+    const k = wasmKernels(tf);
+    if (!k) throw new Error('the WASM kernels are not installed');
+    return k;
+  };
   const t2 = (r: number, c: number, seed: number) => tf.tensor2d(values(r * c, seed), [r, c]);
 
   type Form = 'none' | 'full' | 'row';
@@ -66,7 +71,7 @@ describe('WASM kernels of our own', () => {
         });
         return sum as TfModule.Scalar;
       };
-      const fused = jetTanhFused(tf, inputs[0]!, inputs[1], inputs[2], inputs[3]);
+      const fused = kernels().jetTanh(tf, inputs[0]!, inputs[1], inputs[2], inputs[3]);
       if (x === 'none' && xx === 'none' && s === 'none') expect(fused).toBeNull();
       else expect(fused).not.toBeNull();
       const a = tf.valueAndGrads(loss(false))(present);
@@ -110,15 +115,15 @@ describe('WASM kernels of our own', () => {
       ]) {
         const a = t2(n, i, n + i);
         const dy = t2(n, o, n + o + 1);
-        const own = weightGradientKernel(tf, a, dy);
+        const own = kernels().weightGradient(tf, a, dy);
         expect(own, `${n}, ${i}, ${o}`).not.toBeNull();
         const ref = tf.matMul(a as TfModule.Tensor2D, dy as TfModule.Tensor2D, true, false);
         expect(own!.shape).toEqual([i, o]);
         expectClose(own!.dataSync(), ref.dataSync(), 2e-6 * Math.sqrt(n), `${n}×${i}ᵀ·${n}×${o}`);
       }
       // Shapes outside the kernel's blocks are left to tfjs.
-      expect(weightGradientKernel(tf, t2(10, 6, 1), t2(10, 12, 2))).toBeNull();
-      expect(weightGradientKernel(tf, t2(10, 6, 1), t2(10, 1, 2))).toBeNull();
+      expect(kernels().weightGradient(tf, t2(10, 6, 1), t2(10, 12, 2))).toBeNull();
+      expect(kernels().weightGradient(tf, t2(10, 6, 1), t2(10, 1, 2))).toBeNull();
     });
   });
 
@@ -135,13 +140,13 @@ describe('WASM kernels of our own', () => {
         const a = t2(n, k, n + k);
         const w = t2(k, m, k + m);
         const b = tf.tensor1d(values(m, m));
-        expectClose(matMulKernel(tf, a, w)!.dataSync(), tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D).dataSync(), 2e-6 * Math.sqrt(k), `${n}×${k}·${k}×${m}`);
-        const withBias = matMulKernel(tf, a, w, b)!;
+        expectClose(kernels().matMul(tf, a, w)!.dataSync(), tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D).dataSync(), 2e-6 * Math.sqrt(k), `${n}×${k}·${k}×${m}`);
+        const withBias = kernels().matMul(tf, a, w, b)!;
         expect(withBias.shape).toEqual([n, m]);
         expectClose(withBias.dataSync(), tf.add(tf.matMul(a as TfModule.Tensor2D, w as TfModule.Tensor2D), b).dataSync(), 2e-6 * Math.sqrt(k), `${n}×${k}·${k}×${m} + b`);
       }
-      expect(matMulKernel(tf, t2(5, 4, 1), t2(4, 6, 2))).toBeNull();
-      expect(matMulKernel(tf, t2(5, 6, 1), t2(6, 1, 2))).toBeNull();
+      expect(kernels().matMul(tf, t2(5, 4, 1), t2(4, 6, 2))).toBeNull();
+      expect(kernels().matMul(tf, t2(5, 6, 1), t2(6, 1, 2))).toBeNull();
     });
   });
 

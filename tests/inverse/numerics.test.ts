@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { brentRoot } from '../../src/numerics/brent-root.js';
 import { deltaChi2Level, LEVELS, studentT } from '../../src/inverse/confidence.js';
 import { PeriodicProfile, resampleSpectral } from '../../src/inverse/periodic-profile.js';
-import { GaussianNoise, Mulberry32 } from '../../src/inverse/random.js';
+import { GaussianNoise, Xorshift128 } from '../../src/numerics/random.js';
 import { fitOffset } from '../../src/inverse/offset-fit.js';
 import { LamellaModel } from '../../src/inverse/lamella-model.js';
 import { optimizePeriod } from '../../src/spectral/period-search.js';
@@ -77,7 +77,7 @@ describe('seeded noise', () => {
     // Sampling error of the mean and variance of 20000 standard normals: 0.007 and 0.01 (one sigma).
     expect(Math.abs(mean)).toBeLessThan(0.03);
     expect(Math.abs(variance - 1)).toBeLessThan(0.04);
-    const u = new Mulberry32(0);
+    const u = new Xorshift128(0);
     for (let i = 0; i < 1000; i++) {
       const v = u.next();
       expect(v).toBeGreaterThanOrEqual(0);

@@ -10,7 +10,7 @@
  * elements, then one at a time for the last size mod 4.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../backend.js';
+import type { Tf } from '../tf.js';
 import { heapOffset, registerHeapKernel } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
@@ -50,10 +50,8 @@ export const adamWat = `(func (export "adam_update") (param $size i32) (param $p
   ${adamLoop(true, 'lanes')}
   ${adamLoop(false, 'tail')})`;
 
-let ready = false;
-
-export function installAdamKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
-  if (ready) return;
+/** Register the kernel on the WASM backend (once, from wasm/kernels.ts). */
+export function registerAdamKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   const offset = (t: TensorInfo) => heapOffset(backend, t);
   registerHeapKernel(tf, KERNEL, (inputs, attrs) => {
     const [p, g, m, v] = (['p', 'g', 'm', 'v'] as const).map((k) => inputs[k] as TensorInfo);
@@ -63,7 +61,6 @@ export function installAdamKernel(tf: Tf, backend: WasmBackend, heap: HeapExport
     heap.adam_update(size, offset(p), offset(g), offset(m), offset(v), ...outs.map(offset), a.beta1, 1 - a.beta1, a.beta2, 1 - a.beta2, a.lrOverC1, a.c2, a.epsilon);
     return outs;
   });
-  ready = true;
 }
 
 export interface AdamStepSettings {
@@ -77,11 +74,11 @@ export interface AdamStepSettings {
 }
 
 /**
- * [θ', m', v'] by the kernel, or null where it does not apply (not WASM). Absent moments
- * (the first step) are zeros, which the update then turns into (1 − β)·g and (1 − β)·g².
+ * [θ', m', v'] by the kernel, or null where it does not apply (not float32, sizes differ).
+ * Absent moments (the first step) are zeros, which the update then turns into (1 − β)·g
+ * and (1 − β)·g². Call through wasm/kernels.ts (which knows whether the kernel is installed).
  */
-export function adamUpdateKernel(tf: Tf, p: TfModule.Tensor, g: TfModule.Tensor, m: TfModule.Tensor | undefined, v: TfModule.Tensor | undefined, s: AdamStepSettings): TfModule.Tensor[] | null {
-  if (!ready || tf.getBackend() !== 'wasm') return null;
+export function runAdamUpdate(tf: Tf, p: TfModule.Tensor, g: TfModule.Tensor, m: TfModule.Tensor | undefined, v: TfModule.Tensor | undefined, s: AdamStepSettings): TfModule.Tensor[] | null {
   if ([p, g, m, v].some((t) => t && (t.dtype !== 'float32' || t.size !== p.size))) return null;
   const inputs = { p, g, m: m ?? tf.zerosLike(g), v: v ?? tf.zerosLike(g) };
   return tf.engine().runKernel(KERNEL, inputs, s as unknown as TfModule.NamedAttrMap) as TfModule.Tensor[];

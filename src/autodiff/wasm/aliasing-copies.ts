@@ -9,7 +9,7 @@
  * can be the same buffer with one more reference, which is how tfjs's own plain-JS backend
  * implements Identity. Values, shapes and dtypes are unchanged; only the copy goes.
  */
-import type { Tf } from '../backend.js';
+import type { Tf } from '../tf.js';
 
 interface WasmData {
   dataId: object;
@@ -20,11 +20,8 @@ interface RefCounting {
   incRef(dataId: object): void;
 }
 
-let installed = false;
-
-/** Replace the WASM Identity kernel, and Cast to the same dtype, by shared references. */
+/** Replace the WASM Identity kernel, and Cast to the same dtype, by shared references (once, from wasm/kernels.ts). */
 export function installAliasingCopies(tf: Tf): void {
-  if (installed) return;
   const cast = tf.getKernel('Cast', 'wasm');
   const identity = tf.getKernel('Identity', 'wasm');
   if (!cast || !identity) return;
@@ -44,5 +41,4 @@ export function installAliasingCopies(tf: Tf): void {
   };
   alias('Identity', identity, () => true);
   alias('Cast', cast, (x, attrs) => x.dtype === attrs.dtype);
-  installed = true;
 }

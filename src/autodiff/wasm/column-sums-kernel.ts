@@ -6,7 +6,7 @@
  * every call, since a is new each time; a plain accumulation is one read of a.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../backend.js';
+import type { Tf } from '../tf.js';
 import { add, heapOffset, heapView, load, registerHeapKernel, rowLoopFunction, store } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
@@ -17,10 +17,8 @@ const KERNEL = 'MesofieldColumnSums';
 /** out[c] += x[p, c] over all points p (out zeroed by the caller). */
 export const columnSumsWat = rowLoopFunction('column_sums', ['x', 'out'], [], [store('out', add(load('out', true), load('x')), true)]);
 
-let ready = false;
-
-export function installColumnSumsKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
-  if (ready) return;
+/** Register the kernel and its gradient on the WASM backend (once, from wasm/kernels.ts). */
+export function registerColumnSumsKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   const offset = (t: TensorInfo) => heapOffset(backend, t);
   registerHeapKernel(tf, KERNEL, (inputs) => {
     const x = inputs.x as TensorInfo;
@@ -36,11 +34,10 @@ export function installColumnSumsKernel(tf: Tf, backend: WasmBackend, heap: Heap
     inputsToSave: ['x'],
     gradFunc: (dy, saved) => ({ x: () => tf.broadcastTo(dy as TfModule.Tensor, saved[0].shape) }),
   });
-  ready = true;
 }
 
-/** Σ over rows as [1, m] by the kernel, or null where it does not apply (not WASM, m not a multiple of 4). */
-export function columnSums(tf: Tf, a: TfModule.Tensor): TfModule.Tensor | null {
-  if (!ready || a.rank !== 2 || a.dtype !== 'float32' || a.shape[1]! % 4 !== 0 || tf.getBackend() !== 'wasm') return null;
+/** Σ over rows as [1, m] by the kernel, or null where it does not apply (m not a multiple of 4). Call through wasm/kernels.ts. */
+export function runColumnSums(tf: Tf, a: TfModule.Tensor): TfModule.Tensor | null {
+  if (a.rank !== 2 || a.dtype !== 'float32' || a.shape[1]! % 4 !== 0) return null;
   return tf.engine().runKernel(KERNEL, { x: a }) as TfModule.Tensor;
 }

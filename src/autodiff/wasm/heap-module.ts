@@ -8,7 +8,7 @@
  * byte they touch belongs to a tensor the calling kernel owns.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../backend.js';
+import type { Tf } from '../tf.js';
 
 type TensorInfo = TfModule.TensorInfo;
 
@@ -21,22 +21,19 @@ export interface WasmBackend {
 }
 
 type WabtInit = typeof import('wabt');
-type Assembler = Awaited<ReturnType<WabtInit>>;
-let assembler: Assembler | null = null;
+export type Assembler = Awaited<ReturnType<WabtInit>>;
 
-/** Load the assembler once (async; done when the WASM backend starts). */
-export async function loadAssembler(): Promise<void> {
-  if (assembler) return;
+/** Load the WebAssembly text assembler (async; done once, when the WASM backend starts: wasm/kernels.ts). */
+export async function loadAssembler(): Promise<Assembler> {
   // A CommonJS package (`export =`): its function arrives as the default export.
   const mod = (await import('wabt')) as unknown as { default: WabtInit };
-  assembler = await mod.default();
+  return mod.default();
 }
 
 export type HeapExports = Record<string, (...args: number[]) => void>;
 
 /** Assemble `wat` and instantiate it on the backend's memory. */
-export function instantiateOnHeap(backend: WasmBackend, wat: string): HeapExports {
-  if (!assembler) throw new Error('instantiateOnHeap: loadAssembler() has not run');
+export function instantiateOnHeap(assembler: Assembler, backend: WasmBackend, wat: string): HeapExports {
   const parsed = assembler.parseWat('mesofield-kernels.wat', wat, { simd: true });
   try {
     parsed.validate();

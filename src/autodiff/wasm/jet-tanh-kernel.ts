@@ -1,27 +1,35 @@
 /**
  * tanh on a jet in one WASM kernel forward and one backward (issue 7).
  *
- * Channel-by-channel, Jet.tanh (src/autodiff/jet.ts) is about 14 tfjs kernels forward and
- * twice that in tfjs's reverse mode, each a pass over an [n, h] array on a fresh part of the
- * heap. Here the same rules are one pass each way, in f32x4 SIMD on the tensors in place:
+ * The rule is stated once, in Jet.tanh (src/autodiff/jet.ts): t = tanh z, t' = 1 − t²,
+ * t'' = −2t·t', carried to the channels by the jet's chain rule. Channel by channel that
+ * is about 14 tfjs kernels forward and twice that in tfjs's reverse mode, each a pass over
+ * an [n, h] array on a fresh part of the heap; here it is one pass each way, in f32x4 SIMD
+ * on the tensors in place. What the passes compute (the backward is the reverse mode of
+ * the forward, with g_c = ∂L/∂out_c):
  *
- *   forward   t = tanh z = 2σ(2z) − 1 (σ by the backend's own Sigmoid kernel, as fastTanh);
- *             d1 = 1 − t², d2 = −2t·d1;
- *             out_x = d1·z_x,  out_xx = d1·z_xx + d2·z_x²,  out_s = d1·z_s
- *   backward  (g_c = ∂L/∂out_c; reverse mode of the lines above)
- *             G1 = g_x·z_x + g_xx·z_xx + g_s·z_s            (∂L/∂d1)
- *             ∂L/∂t = g_v − 2t·G1 + (4 − 6·d1)·g_xx·z_x²     (d1' = −2t; d2' = −2 + 6t² = 4 − 6·d1)
- *             ∂L/∂z = ∂L/∂t · d1;  ∂L/∂z_x = g_x·d1 + 2·d2·z_x·g_xx;
- *             ∂L/∂z_xx = g_xx·d1;  ∂L/∂z_s = g_s·d1
+ *   forward   t = 2σ(2z) − 1 (σ by the backend's own Sigmoid kernel, as fastTanh);
+ *             d1 = t', d2 = t'' from the rule; out_x = d1·z_x,
+ *             out_xx = d1·z_xx + d2·z_x², out_s = d1·z_s
+ *   backward  G1 = g_x·z_x + g_xx·z_xx + g_s·z_s,   ∂L/∂t = g_v + G1·∂d1/∂t + g_xx·z_x²·∂d2/∂t,
+ *             ∂L/∂z = ∂L/∂t·d1,  ∂L/∂z_x = g_x·d1 + 2·d2·z_x·g_xx,
+ *             ∂L/∂z_xx = g_xx·d1,  ∂L/∂z_s = g_s·d1
+ *
+ * Tested against the rule, not generated from it: tests/autodiff/wasm-kernels.test.ts runs
+ * Jet.tanh on plain tfjs ops (tfjs differentiates it) beside this kernel for every mix of
+ * absent, per-point and one-row channels and compares values and gradients. Generating
+ * the WAT would need a symbolic differentiator for the backward pass, several times the
+ * size of the rule, and would change the float32 association of the kernel's arithmetic,
+ * so that seeded training runs would no longer repeat bit for bit across that change; the
+ * test pins the kernel to the rule just as well.
  *
  * A channel may be absent, or one row [1, h] broadcast over the n points (the first layer's
  * ∂x and ∂s when the input is x or s itself); the gradient of a row channel is summed over
  * the points. Each combination is its own kernel name, so tfjs saves exactly the tensors its
- * gradient reads. tests/autodiff/wasm-kernels.test.ts checks values and gradients against
- * the channel-by-channel jets on plain tfjs ops.
+ * gradient reads.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../backend.js';
+import type { Tf } from '../tf.js';
 import { add, get, heapOffset, heapView, load, mul, registerHeapKernel, rowLoopFunction, set, splat, store, sub } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
@@ -83,6 +91,7 @@ function backwardWat(v: Variant): string {
     body.push(set('vgs', load('gs')));
     g1.push(mul(get('vgs'), load('zs', rs)));
   }
+  // For the rule t' = 1 − t²: ∂d1/∂t = −2t and ∂d2/∂t = −2 + 6t² = 4 − 6·d1.
   let gt = load('gv');
   if (g1.length) gt = sub(gt, mul(mul(get('vt'), g1.reduce((a, b) => add(a, b))), splat(2)));
   if (hasX) gt = add(gt, mul(sub(splat(4), mul(get('vd1'), splat(6))), mul(mul(get('vgxx'), get('vzx')), get('vzx'))));
@@ -114,13 +123,10 @@ export function jetTanhWat(): string {
   return [doubleWat, ...VARIANTS.map(forwardWat), ...VARIANTS.map(backwardWat)].join('\n');
 }
 
-let ready = false;
-
-/** Register the forward and backward kernel of every variant, and the forward's gradient. */
-export function installJetTanhKernels(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
-  if (ready) return;
+/** Register the forward and backward kernel of every variant, and the forward's gradient (once, from wasm/kernels.ts). */
+export function registerJetTanhKernels(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   const sigmoid = tf.getKernel('Sigmoid', 'wasm');
-  if (!sigmoid) return;
+  if (!sigmoid) throw new Error('the tfjs wasm backend has no Sigmoid kernel, which the fused jet tanh calls');
   const offset = (t: TensorInfo) => heapOffset(backend, t);
   for (const v of VARIANTS) {
     const inputs = forwardInputs(v);
@@ -163,15 +169,22 @@ export function installJetTanhKernels(tf: Tf, backend: WasmBackend, heap: HeapEx
       },
     });
   }
-  ready = true;
+}
+
+export interface JetTanhChannels {
+  t: Tensor;
+  dx: Tensor | null;
+  dxx: Tensor | null;
+  ds: Tensor | null;
 }
 
 /**
  * The fused tanh of a jet with values z [n, h] and channels z_x, z_xx, z_s, or null when
- * the shapes are not ones the kernels take (then Jet.tanh runs channel by channel).
+ * the shapes are not ones the kernels take (then Jet.tanh runs channel by channel). Call
+ * through wasm/kernels.ts.
  */
-export function jetTanhFused(tf: Tf, z: Tensor, zx: Tensor | null, zxx: Tensor | null, zs: Tensor | null): { t: Tensor; dx: Tensor | null; dxx: Tensor | null; ds: Tensor | null } | null {
-  if (!ready || z.rank !== 2 || z.dtype !== 'float32' || tf.getBackend() !== 'wasm') return null;
+export function runJetTanh(tf: Tf, z: Tensor, zx: Tensor | null, zxx: Tensor | null, zs: Tensor | null): JetTanhChannels | null {
+  if (z.rank !== 2 || z.dtype !== 'float32') return null;
   const [n, h] = z.shape as [number, number];
   if (h % 4 !== 0 || n < 1) return null;
   const form = (c: Tensor | null): Form | null => {

@@ -11,7 +11,7 @@
  * with k a multiple of 4 (the one-column form below).
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../backend.js';
+import type { Tf } from '../tf.js';
 import { heapOffset, rankOneBlockUpdate, registerHeapKernel } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
@@ -86,10 +86,8 @@ const matVecWat = `(func (export "mat_vec") (param $n i32) (param $k i32) (param
 
 export const matMulWatText = `${matMulWat()}\n${matVecWat}`;
 
-let ready = false;
-
-export function installMatMulKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
-  if (ready) return;
+/** Register the kernel on the WASM backend (once, from wasm/kernels.ts). */
+export function registerMatMulKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   const offset = (t: TensorInfo) => heapOffset(backend, t);
   registerHeapKernel(tf, KERNEL, (inputs) => {
     const [a, w, b] = [inputs.a as TensorInfo, inputs.w as TensorInfo, inputs.b as TensorInfo | undefined];
@@ -100,12 +98,14 @@ export function installMatMulKernel(tf: Tf, backend: WasmBackend, heap: HeapExpo
     else heap.mat_mul(n, k, m, offset(a), offset(w), b ? offset(b) : 0, offset(c));
     return c;
   });
-  ready = true;
 }
 
-/** a·w (+ bias [m]) by the kernel, or null where it does not apply. No tfjs gradient: callers supply theirs. */
-export function matMulKernel(tf: Tf, a: TfModule.Tensor, w: TfModule.Tensor, bias?: TfModule.Tensor): TfModule.Tensor | null {
-  if (!ready || a.rank !== 2 || w.rank !== 2 || a.dtype !== 'float32' || w.dtype !== 'float32' || tf.getBackend() !== 'wasm') return null;
+/**
+ * a·w (+ bias [m]) by the kernel, or null where it does not apply (shapes above). No tfjs
+ * gradient: callers supply theirs. Call through wasm/kernels.ts.
+ */
+export function runMatMul(tf: Tf, a: TfModule.Tensor, w: TfModule.Tensor, bias?: TfModule.Tensor): TfModule.Tensor | null {
+  if (a.rank !== 2 || w.rank !== 2 || a.dtype !== 'float32' || w.dtype !== 'float32') return null;
   const [n, k] = a.shape as [number, number];
   const m = w.shape[1]!;
   const fits = m === 1 ? k % 4 === 0 : m % 8 === 0;

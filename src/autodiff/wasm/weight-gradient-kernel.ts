@@ -12,7 +12,7 @@
  * multiple of 4 (the one-column form below); other shapes keep the tfjs path.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../backend.js';
+import type { Tf } from '../tf.js';
 import { heapOffset, heapView, rankOneBlockUpdate, registerHeapKernel } from './heap-module.js';
 import type { HeapExports, WasmBackend } from './heap-module.js';
 
@@ -96,10 +96,8 @@ const oneColumnWat = `(func (export "weight_gradient_one_column") (param $n i32)
 
 export const weightGradientWatText = `${weightGradientWat()}\n${oneColumnWat}`;
 
-let ready = false;
-
-export function installWeightGradientKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
-  if (ready) return;
+/** Register the kernel on the WASM backend (once, from wasm/kernels.ts). */
+export function registerWeightGradientKernel(tf: Tf, backend: WasmBackend, heap: HeapExports): void {
   const offset = (t: TensorInfo) => heapOffset(backend, t);
   registerHeapKernel(tf, KERNEL, (inputs) => {
     const [a, dy] = [inputs.a as TensorInfo, inputs.dy as TensorInfo];
@@ -111,15 +109,14 @@ export function installWeightGradientKernel(tf: Tf, backend: WasmBackend, heap: 
     else heap.weight_gradient(n, inW, outW, offset(a), offset(dy), offset(dw));
     return dw;
   });
-  ready = true;
 }
 
-/** aᵀ·dy by the kernel, or null where it does not apply. Used inside gradient functions only. */
-export function weightGradientKernel(tf: Tf, a: TfModule.Tensor, dy: TfModule.Tensor): TfModule.Tensor | null {
-  if (!ready || a.rank !== 2 || dy.rank !== 2 || a.dtype !== 'float32' || dy.dtype !== 'float32') return null;
+/** aᵀ·dy by the kernel, or null where it does not apply (shapes above). Used inside gradient functions only; call through wasm/kernels.ts. */
+export function runWeightGradient(tf: Tf, a: TfModule.Tensor, dy: TfModule.Tensor): TfModule.Tensor | null {
+  if (a.rank !== 2 || dy.rank !== 2 || a.dtype !== 'float32' || dy.dtype !== 'float32') return null;
   const [n, inW] = a.shape as [number, number];
   const outW = dy.shape[1]!;
   const fits = outW === 1 ? inW % 4 === 0 : outW % 8 === 0;
-  if (n < 1 || dy.shape[0] !== n || !fits || tf.getBackend() !== 'wasm') return null;
+  if (n < 1 || dy.shape[0] !== n || !fits) return null;
   return tf.engine().runKernel(KERNEL, { a, dy }) as TfModule.Tensor;
 }

@@ -6,7 +6,7 @@
  * s'_i = 1 − s_{n−1−i}, so q†(x, 1 − s_i) is row n−1−i of the q† grid.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../../autodiff/backend.js';
+import type { Tf } from '../../autodiff/tf.js';
 
 export interface GridDensities {
   /** [1, nx] each. */

@@ -8,7 +8,7 @@
  * A one-species melt keeps incompressibility (φ_K − 1)² and the gauge mean w_K = 0.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../../autodiff/backend.js';
+import type { Tf } from '../../autodiff/tf.js';
 
 export function incompressibilityLoss(tf: Tf, phiA: TfModule.Tensor, phiB: TfModule.Tensor | null): TfModule.Scalar {
   const total = phiB ? tf.add(phiA, phiB) : phiA;

@@ -4,7 +4,7 @@
  * used when the network does not satisfy it by construction. Units: u dimensionless.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../../autodiff/backend.js';
+import type { Tf } from '../../autodiff/tf.js';
 
 /** u0: values of u at s = 0 on the x grid, any shape (one or more propagators stacked). */
 export function initialConditionLoss(tf: Tf, u0: TfModule.Tensor): TfModule.Scalar {

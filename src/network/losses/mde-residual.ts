@@ -4,7 +4,7 @@
  * Units: s ∈ [0, 1], x in Rg, w in kT per chain, D = (b_K/b)² of the block at each point.
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../../autodiff/backend.js';
+import type { Tf } from '../../autodiff/tf.js';
 import type { Jet } from '../../autodiff/jet.js';
 
 /** r at each point: u is a jet [n, 1] with dx, dxx, ds; D and w are [n, 1]. */

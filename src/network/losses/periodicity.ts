@@ -8,7 +8,7 @@
  * Units: u dimensionless, ∂x u in 1/Rg (L is a few Rg, so both parts are of one size).
  */
 import type * as TfModule from '@tensorflow/tfjs';
-import type { Tf } from '../../autodiff/backend.js';
+import type { Tf } from '../../autodiff/tf.js';
 import type { Jet } from '../../autodiff/jet.js';
 
 /** u: jet [2m, 1] with ∂x; rows [0, m) at x = 0 and rows [m, 2m) at x = L, same s_i in order. */

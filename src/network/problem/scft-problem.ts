@@ -20,7 +20,7 @@ import type { TrainConfig } from '../../io/schemas/train-config.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
 import type { Chain } from '../../physics/chain.js';
 import { fieldAtPoints } from '../../physics/fields.js';
-import type { Tf } from '../../autodiff/backend.js';
+import type { Tf } from '../../autodiff/tf.js';
 import { contourNodes, gridX, speciesAt } from '../contour-nodes.js';
 import type { ContourNodes } from '../contour-nodes.js';
 import type { Jet } from '../../autodiff/jet.js';
