@@ -7,6 +7,7 @@
  */
 import { InputError } from '../io/errors.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
+import { median } from '../numerics/median.js';
 import type { ChainSpec } from '../physics/chain-schema.js';
 import { buildChain, suggestContourSteps } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';
@@ -111,11 +112,6 @@ export interface ClassicalEstimate {
   /** The best-fit φ_A as a band-limited periodic profile (unblurred, origin at an A-domain centre). */
   model: PeriodicProfile;
   notes: string[];
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
 }
 
 export function estimateClassical(data: ProfileData, settings: ClassicalSettings, models: ModelSet = createModels(settings)): ClassicalEstimate {
