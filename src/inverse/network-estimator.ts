@@ -105,10 +105,36 @@ function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   });
 }
 
+/** What a seed worker (seed-worker.ts) is sent once (no functions: they do not cross threads). */
+export interface SeedWorkerData {
+  data: ProfileData;
+  classical: ClassicalStart;
+  settings: Omit<NetworkEstimatorSettings, 'onProgress' | 'seeds' | 'workers'>;
+}
+
+/** A seed's progress as it crosses the thread boundary: the arguments of onProgress. */
+export type SeedProgress = Parameters<NonNullable<NetworkEstimatorSettings['onProgress']>>;
+
+/**
+ * The seeds on worker threads, each with its own tfjs instance (threads/worker-pool.ts): the
+ * seeds are independent trainings, and two at once use both cores of a small machine
+ * (measured for two like-for-like runs: ×1.48 the throughput of one, npm run bench --
+ * --step-profile). One estimate per seed, in the order of `seeds`.
+ */
+async function estimateInSeedWorkers(data: ProfileData, classical: ClassicalStart, s: NetworkEstimatorSettings): Promise<NetworkEstimate[]> {
+  const { runInWorkers } = await import('../threads/worker-pool.js');
+  const { onProgress, seeds, workers, ...settings } = s;
+  const workerData: SeedWorkerData = {
+    data,
+    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, modelOrigin: classical.modelOrigin, solution: classical.solution },
+    settings,
+  };
+  return runInWorkers<number, NetworkEstimate, SeedProgress>(seeds, { entry: 'inverse/seed-worker.js', workerData, workers: workers ?? 1, onProgress: (p) => onProgress?.(...p) });
+}
+
 export async function estimateNetwork(data: ProfileData, classical: ClassicalStart, s: NetworkEstimatorSettings): Promise<NetworkEstimate> {
   const t0 = performance.now();
   if ((s.workers ?? 1) > 1 && s.seeds.length > 1) {
-    const { estimateInSeedWorkers } = await import('./seed-workers.js');
     const one = await estimateInSeedWorkers(data, classical, s);
     const runs = one.flatMap((e) => e.runs).sort((a, b) => a.seed - b.seed);
     return summarise(runs, one[0], t0);

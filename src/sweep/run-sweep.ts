@@ -21,7 +21,7 @@ import type { SweepPointResult } from './solve-point.js';
 import type { ShardFile, SweepTable } from './sweep-file.js';
 import { byIndex, pointsCsv, shardFileSchema, writeTable } from './sweep-file.js';
 import { defaultWorkers } from '../io/worker-count.js';
-import { solvePoints } from './worker-pool.js';
+import { solvePoints } from './solve-points.js';
 
 export interface SweepProgress {
   /** Points of this shard finished, counting those saved by an earlier run. */
