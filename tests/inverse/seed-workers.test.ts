@@ -4,8 +4,7 @@ import { diblock, invert, synthData } from './helpers.js';
 
 // The seeds of the network estimator are independent, deterministic trainings, so running
 // them on worker threads (threads/worker-pool.ts, inverse/seed-worker.ts) must give the same
-// runs as one after the other
-// in this thread (common practice, no source). A short budget: this checks the plumbing,
+// runs as one after the other in this thread (common practice, no source). A short budget: this checks the plumbing,
 // not the accuracy (tests/inverse/network*.test.ts do that).
 describe('network estimator seeds on worker threads', () => {
   it('two workers give the same runs, in seed order, as this thread alone', async () => {
