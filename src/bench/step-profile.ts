@@ -24,8 +24,9 @@ import { Adam } from '../autodiff/adam.js';
 import { selectBackend } from '../autodiff/backend.js';
 import type { Tf } from '../autodiff/tf.js';
 import { buildScftNetworks } from '../network/scft-networks.js';
-import { LOSS_TERMS, ScftProblem } from '../network/problem/scft-problem.js';
-import type { LossValues } from '../network/problem/scft-problem.js';
+import { LOSS_TERMS } from '../network/losses/terms.js';
+import type { LossValues } from '../network/losses/terms.js';
+import { ScftProblem } from '../network/problem/scft-problem.js';
 import { median, timeIt } from './timing.js';
 import { likeForLikePoints, likeForLikeProblem, LIKE_FOR_LIKE_LEARNING_RATE, LIKE_FOR_LIKE_NX, LIKE_FOR_LIKE_PERIOD } from './like-for-like.js';
 

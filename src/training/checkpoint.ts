@@ -17,7 +17,7 @@ import { formatZodError } from '../io/errors.js';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { NamedWeight } from '../autodiff/parameters.js';
-import { LOSS_TERMS } from '../network/problem/scft-problem.js';
+import { LOSS_TERMS } from '../network/losses/terms.js';
 
 const lossRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number()])) as Record<(typeof LOSS_TERMS)[number], z.ZodNumber>);
 // Balancing factors: a checkpoint written before a term existed has none for it; 1 is "unbalanced".

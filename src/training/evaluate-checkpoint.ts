@@ -18,7 +18,7 @@ import { loadCheckpoint, splitWeights } from './checkpoint.js';
 import type { CheckpointFile } from './checkpoint.js';
 import { buildScftNetworks } from '../network/scft-networks.js';
 import { ScftProblem } from '../network/problem/scft-problem.js';
-import type { LossValues } from '../network/problem/scft-problem.js';
+import type { LossValues } from '../network/losses/terms.js';
 import { evaluateNetworks } from './train-run.js';
 
 export interface CheckpointEvaluation {

@@ -8,15 +8,15 @@
  *   λ̂_i = max|∇_θ L_mde| / mean|∇_θ L_i|,   λ_i ← (1 − α) λ_i + α λ̂_i,
  * for each term i other than the MDE residual, on top of the configured weights.
  */
-import type * as TfModule from '@tensorflow/tfjs';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { lbfgs } from '../numerics/lbfgs.js';
 import type { Adam } from '../autodiff/adam.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { HistoryEntry } from './checkpoint.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
-import type { LossTerm, LossValues, ScftProblem } from '../network/problem/scft-problem.js';
-import { LOSS_TERMS, PROPAGATOR_TERMS } from '../network/problem/scft-problem.js';
+import { LOSS_TERMS, PROPAGATOR_TERMS, weightedTotal } from '../network/losses/terms.js';
+import type { LossTensors, LossTerm, LossValues } from '../network/losses/terms.js';
+import type { ScftProblem } from '../network/problem/scft-problem.js';
 import { FieldUpdater, fieldUpdateSettings } from '../network/field-update.js';
 
 export type StopReason = 'completed' | 'target-reached' | 'interrupted' | 'diverged';
@@ -66,12 +66,6 @@ export function learningRateAt(training: TrainConfig['training'], step: number):
 export function propagatorWeights(config: TrainConfig): LossValues {
   const w = config.losses.weights;
   return Object.fromEntries(LOSS_TERMS.map((k) => [k, k === 'mde' ? 1 : PROPAGATOR_TERMS.includes(k) ? w[k] : 0])) as LossValues;
-}
-
-function weightedTotal(tf: Tf, parts: Record<LossTerm, TfModule.Scalar>, w: LossValues): TfModule.Scalar {
-  let t = tf.mul(parts.mde, w.mde) as TfModule.Scalar;
-  for (const k of LOSS_TERMS) if (k !== 'mde') t = tf.add(t, tf.mul(parts[k], w[k])) as TfModule.Scalar;
-  return t;
 }
 
 /** One Wang–Teng–Perdikaris update of the balancing factors (see the file header). */
@@ -144,7 +138,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     const w = tr.strategy === 'alternating' ? propagatorWeights(config) : effective();
     const propagatorOnly = tr.strategy === 'alternating';
     const { total, terms } = tf.tidy(() => {
-      let parts!: Record<LossTerm, TfModule.Scalar>;
+      let parts!: LossTensors;
       const { value, grads } = tf.variableGrads(() => {
         parts = problem.terms(true, propagatorOnly);
         for (const k of LOSS_TERMS) tf.keep(parts[k]);

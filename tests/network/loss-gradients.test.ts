@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import { selectBackend } from '../../src/autodiff/backend.js';
 import { buildScftNetworks } from '../../src/network/scft-networks.js';
-import { ScftProblem, LOSS_TERMS } from '../../src/network/problem/scft-problem.js';
+import { LOSS_TERMS } from '../../src/network/losses/terms.js';
+import { ScftProblem } from '../../src/network/problem/scft-problem.js';
 import { buildChain } from '../../src/physics/chain.js';
 
 // Parameter gradients of the full SCFT loss (every term, fields coupled into the MDE)
