@@ -3,7 +3,7 @@
 Same network (tanh MLP 2 -> 3xH -> 1, weights handed over from the tfjs side), same
 points, same loss: mean of r^2, r = du/ds - d2u/dx2 - (du/dx)^2 + 2 cos(2 pi x / L),
 with the input derivatives by autograd (create_graph=True), then torch.optim.Adam
-(lr from the file, betas 0.9/0.999, eps 1e-8: the same settings as src/neural/adam.ts).
+(lr from the file, betas 0.9/0.999, eps 1e-8: the same settings as src/autodiff/adam.ts).
 One thread unless told otherwise, float32.
 
 usage: python3 mde_step.py WEIGHTS.json STEPS ROUNDS [THREADS]  (THREADS default 1)

@@ -37,7 +37,7 @@ console.log(typeof globalThis._tfengine);`;
 }
 
 describe('lazy tfjs', () => {
-  it('importing the neural modules does not load tfjs; selecting a backend does', () => {
+  it('importing the modules of the network layers does not load tfjs; selecting a backend does', () => {
     expect(probe(false)).toBe('undefined');
     expect(probe(true)).toBe('object');
   });
