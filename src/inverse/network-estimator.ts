@@ -27,7 +27,6 @@ import { buildChain } from '../physics/chain.js';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { bandLimitedFit } from '../numerics/band-limited-fit.js';
-import { trigInterpolationMatrix } from '../numerics/trig-interpolation.js';
 import { solveFixedCell } from '../spectral/scft-solver.js';
 import { Adam } from '../neural/adam.js';
 import { selectBackend } from '../neural/backend.js';
@@ -71,7 +70,7 @@ export interface NetworkEstimatorSettings {
 }
 
 /** What the estimator reads of the classical estimate (all a worker thread is sent). */
-export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'modelOrigin' | 'solution'>;
+export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'solution'>;
 
 export interface NetworkRun {
   seed: number;
@@ -100,7 +99,7 @@ export interface NetworkEstimate {
 function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   const L = est.period;
   return Float64Array.from(data.x, (x) => {
-    const t = (x - est.offset + est.modelOrigin) % L;
+    const t = (x - est.offset) % L;
     return t < 0 ? t + L : t;
   });
 }
@@ -120,9 +119,10 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   const nx = classical.solution.nx;
   const chiNStart = s.chiNStart ?? classical.chiN;
   // Starting fields: the spectral solution at the starting χN in the classical cell.
-  const start = solveFixedCell({ system: { chain: s.chain, chiN: chiNStart }, length: L, periods: 1, nx, ns: classical.solution.ns, initial: classical.solution.w, keepPropagators: true });
+  const cell = classical.solution.cell.withLength(L);
+  const start = solveFixedCell({ system: { chain: s.chain, chiN: chiNStart }, cell, contour: classical.solution.contour, initial: classical.solution.w, keepPropagators: true });
   const t = modelFrame(data, classical);
-  const matrix = Float32Array.from(trigInterpolationMatrix(nx, L, t, s.resolution));
+  const matrix = Float32Array.from(cell.interpolationMatrix(t, s.resolution));
   const sig = data.sigma ?? new Float64Array(data.x.length).fill(1);
   let meanInvVar = 0;
   for (const v of sig) meanInvVar += 1 / (v * v);

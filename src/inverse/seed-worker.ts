@@ -3,10 +3,12 @@
  * sent (one at a time, on this thread's own tfjs backend) and posts progress and the result.
  */
 import { parentPort, workerData } from 'node:worker_threads';
+import { restored } from '../physics/cell/make-cell.js';
 import { estimateNetwork } from './network-estimator.js';
 import type { SeedWorkerData, SeedWorkerReply } from './seed-workers.js';
 
-const { data, classical, settings } = workerData as SeedWorkerData;
+const { data, classical: sent, settings } = workerData as SeedWorkerData;
+const classical = { ...sent, solution: restored(sent.solution) };
 const post = (m: SeedWorkerReply) => parentPort!.postMessage(m);
 
 parentPort!.on('message', (seed: number) => {

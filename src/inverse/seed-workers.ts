@@ -7,12 +7,14 @@
  */
 import { Worker } from 'node:worker_threads';
 import type { ProfileData } from './profile-csv.js';
+import { portable } from '../physics/cell/make-cell.js';
+import type { Portable } from '../physics/cell/make-cell.js';
 import type { ClassicalStart, NetworkEstimate, NetworkEstimatorSettings } from './network-estimator.js';
 
 /** What a seed worker is sent once (no functions: they do not cross threads). */
 export interface SeedWorkerData {
   data: ProfileData;
-  classical: ClassicalStart;
+  classical: Omit<ClassicalStart, 'solution'> & { solution: Portable<ClassicalStart['solution']> };
   settings: Omit<NetworkEstimatorSettings, 'onProgress' | 'seeds' | 'workers'>;
 }
 
@@ -28,7 +30,7 @@ export async function estimateInSeedWorkers(data: ProfileData, classical: Classi
   const { onProgress, seeds, workers, ...settings } = s;
   const start: SeedWorkerData = {
     data,
-    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, modelOrigin: classical.modelOrigin, solution: classical.solution },
+    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, solution: portable(classical.solution) },
     settings,
   };
   const queue = [...seeds];

@@ -29,7 +29,7 @@ export function canonicalPhase(sol: ScftSolution): ScftSolution {
 }
 
 export function solveReference(space: ParameterSpace, config: SurrogateConfig, p: ParameterPoint, opts: { period?: number; initial?: SpeciesArrays; role: string }): ScftSolution {
-  const cell = { period: opts.period ?? ('optimize' as const), periods: 1, nx: config.cell.nx, ns: config.cell.ns };
+  const cell = { kind: 'periodic' as const, period: opts.period ?? ('optimize' as const), periods: 1, nx: config.cell.nx, ns: config.cell.ns };
   let solution: ScftSolution;
   try {
     solution = solveFromConfig({ system: space.system(p), cell, solver: config.reference, output: { propagators: false } }, { initial: opts.initial }).solution;

@@ -9,7 +9,7 @@
  */
 import { z } from 'zod';
 import { fieldNetworkSchema } from './network-schema.js';
-import { cellSchema } from './spectral-schema.js';
+import { contourStepsSchema, gridPointsSchema } from './spectral-schema.js';
 import { sweepConfigSchema } from './sweep-config.js';
 
 /** A trained range [min, max] with `anchors` evenly spaced reference points (ends included). */
@@ -49,7 +49,7 @@ export const surrogateConfigSchema = z
       })
       .strict(),
     /** Grid of every reference solve (anchors, extra data, held-out points) and of the surrogate's single-chain solve; one period per cell. */
-    cell: cellSchema.pick({ nx: true, ns: true }).prefault({}),
+    cell: z.object({ nx: gridPointsSchema.default(64), ns: contourStepsSchema.default(100) }).strict().prefault({}),
     /** Spectral solver settings of every reference solve (start "file" is not allowed). */
     reference: sweepConfigSchema.shape.reference,
     backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
