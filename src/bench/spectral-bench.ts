@@ -3,10 +3,12 @@
  * Each figure is the median of several runs after a warm-up, on whatever else the
  * machine is doing at the time.
  */
-import { buildChain, contourGrid } from '../physics/chain.js';
+import { buildChain } from '../physics/chain.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import { contourWithTotal } from '../physics/contour.js';
 import { PropagatorSolver } from '../spectral/propagator-solver.js';
 import { cosineStart, solveFixedCell } from '../spectral/scft-solver.js';
-import { optimizePeriod } from '../spectral/period-search.js';
+import { findEquilibriumPeriod } from '../spectral/period-search.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
 import { timeIt } from './timing.js';
 
@@ -24,16 +26,17 @@ export function runSpectralBench(): void {
     [256, 400],
   ]) {
     let iterations = 0;
+    const cell = new PeriodicCell(4.045, nx, 1);
     const solveMs = timeIt(() => {
-      iterations = solveFixedCell({ system, length: 4.045, periods: 1, nx, ns }).iterations;
+      iterations = solveFixedCell({ system, cell, contour: ns }).iterations;
     }, 5);
-    const solver = new PropagatorSolver(chain, { length: 4.045, nx }, contourGrid(chain, ns));
-    solver.setFields(cosineStart(chain, 20, nx, 1, 0.3));
+    const solver = new PropagatorSolver(chain, cell, contourWithTotal(chain, ns));
+    solver.setFields(cosineStart(chain, 20, cell, 0.3));
     // One solve() runs both propagators (q and q†).
     const propMs = timeIt(() => solver.solve(), 20) / 2;
     let evaluations = 0;
     const periodMs = timeIt(() => {
-      evaluations = optimizePeriod({ system, periods: 1, nx, ns }).evaluations;
+      evaluations = findEquilibriumPeriod({ system, cell, contour: ns }).evaluations;
     }, 3);
     console.log(
       `  ${String(nx).padStart(4)} ${String(ns).padStart(5)} ${solveMs.toFixed(1).padStart(10)} ${String(iterations).padStart(11)} ${propMs.toFixed(3).padStart(15)} ${periodMs.toFixed(0).padStart(17)} (${evaluations})`,

@@ -54,7 +54,7 @@ export async function runSurrogateBench(): Promise<void> {
   // Timed through the library call itself: from the cosine start a fixed-period solve may collapse (its phase is printed).
   let coldPhase = '';
   const cold = timeIt(() => {
-    coldPhase = solveFromConfig({ system: space.system(p), cell: { period: L, periods: 1, nx: config.cell.nx, ns: config.cell.ns }, solver: config.reference, output: { propagators: false } }).solution.phase;
+    coldPhase = solveFromConfig({ system: space.system(p), cell: { kind: 'periodic', period: L, periods: 1, nx: config.cell.nx, ns: config.cell.ns }, solver: config.reference, output: { propagators: false } }).solution.phase;
   }, 5, 1);
   const nearest = r.anchors.reduce((a, b) => (Math.abs(b.point.chiN - p.chiN) < Math.abs(a.point.chiN - p.chiN) ? b : a));
   const warm = timeIt(() => solveReference(space, config, p, { period: L, initial: nearest.solution.w, role: 'bench point' }), 5, 1);

@@ -9,7 +9,7 @@ import { InputError } from '../io/errors.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
 import { median } from '../numerics/median.js';
 import type { ChainSpec } from '../physics/chain-schema.js';
-import { buildChain, suggestContourSteps } from '../physics/chain.js';
+import { buildChain } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';
 import { spinodal } from '../physics/rpa.js';
 import { deltaChi2Level, LEVELS } from './confidence.js';
@@ -19,7 +19,7 @@ import { Objective, periodogramPeriod } from './objective.js';
 import type { FitData } from './offset-fit.js';
 import type { ProfileData } from './profile-csv.js';
 import { intervalEnd, refineMinimum, scanMinimum } from './profile-likelihood.js';
-import { PeriodicProfile } from './periodic-profile.js';
+import { FourierSeries } from '../physics/cell/fourier-series.js';
 
 export interface ClassicalSettings {
   chain: ChainSpec;
@@ -54,8 +54,7 @@ const SCAN_POINTS = 8;
 
 export function createModels(s: Pick<ClassicalSettings, 'chain' | 'nx' | 'ns' | 'solver'>): ModelSet {
   const spec = { chain: s.chain, nx: s.nx, ns: s.ns, options: s.solver };
-  const chain = buildChain(s.chain);
-  const nsCoarse = Math.min(s.ns, suggestContourSteps(chain, 40) ?? s.ns);
+  const nsCoarse = Math.min(s.ns, 40);
   const nxCoarse = Math.min(s.nx, 32);
   if (nxCoarse === s.nx && nsCoarse === s.ns) {
     const full = new LamellaModel(spec);
@@ -106,11 +105,10 @@ export interface ClassicalEstimate {
   fit: Float64Array;
   fitUnblurred: Float64Array;
   residual: Float64Array;
-  /** The best-fit solution (fields, densities) and the model origin in its grid frame. */
+  /** The best-fit solution (fields, densities; in the phase convention, an A-domain centre at x = 0). */
   solution: ScftSolution;
-  modelOrigin: number;
-  /** The best-fit φ_A as a band-limited periodic profile (unblurred, origin at an A-domain centre). */
-  model: PeriodicProfile;
+  /** The best-fit φ_A as its band-limited interpolant (unblurred, origin at an A-domain centre). */
+  model: FourierSeries;
   notes: string[];
 }
 
@@ -256,14 +254,12 @@ export function estimateClassical(data: ProfileData, settings: ClassicalSettings
     fitUnblurred,
     residual,
     solution: bestEval.point.solution,
-    modelOrigin: model.shift,
     model,
     notes,
   };
 }
 
-/** A field on the best-fit grid as a function of the data coordinate (Rg), from the model frame. */
+/** A field on the best-fit grid as a function of the data coordinate (Rg): the model's x = 0 sits at the fitted offset. */
 export function fieldInDataFrame(est: ClassicalEstimate, values: Float64Array, x: Float64Array): Float64Array {
-  const prof = PeriodicProfile.fromGrid(values, est.period).withOrigin(est.modelOrigin);
-  return prof.evaluateShifted(x, est.offset, new Float64Array(x.length));
+  return FourierSeries.fromGrid(values, est.period).evaluateShifted(x, est.offset);
 }

@@ -12,23 +12,27 @@
 import { RunFailure } from '../io/errors.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
 import type { ChainSpec, SystemSpec } from '../physics/chain-schema.js';
-import { buildChain, contourGrid } from '../physics/chain.js';
-import type { Chain, ContourGrid } from '../physics/chain.js';
+import { buildChain } from '../physics/chain.js';
+import type { Chain } from '../physics/chain.js';
+import { FourierSeries } from '../physics/cell/fourier-series.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import { contourWithTotal } from '../physics/contour.js';
+import type { Contour } from '../physics/contour.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
 import { spinodal } from '../physics/rpa.js';
 import { periodGuess } from '../spectral/period-search.js';
+import { cellStress } from '../spectral/period-stress.js';
 import { solveFixedCell } from '../spectral/scft-solver.js';
-import { PeriodicProfile, resampleSpectral } from './periodic-profile.js';
-import { periodStress } from './period-stress.js';
+import { findStressFree, StressSearchFailure } from '../spectral/stress-free-search.js';
 
 export interface ModelPoint {
   chiN: number;
   /** Period in Rg (NaN for a disordered point in equilibrium mode). */
   period: number;
   phase: 'lamellar' | 'disordered';
-  /** φ_A as a recentred band-limited profile (domain centre of A at x = 0). */
-  profile: PeriodicProfile;
+  /** φ_A as its band-limited interpolant (in the phase convention: an A-domain centre at x = 0). */
+  profile: FourierSeries;
   solution: ScftSolution;
   /** dF/dL at this point (equilibrium mode): ~0 at the stress-free period. */
   stress?: number;
@@ -58,7 +62,9 @@ const PERIOD_REL_TOL = 1e-6;
 
 export class LamellaModel {
   readonly chain: Chain;
-  readonly contour: ContourGrid;
+  readonly contour: Contour;
+  /** The model's cell at unit length (one period; lengths are set per solve). */
+  readonly cell: PeriodicCell;
   readonly chiNSpinodal: number;
   readonly counters: ModelCounters = { solves: 0, iterations: 0, cacheHits: 0 };
   private readonly ordered: ModelPoint[] = [];
@@ -73,7 +79,8 @@ export class LamellaModel {
     readonly seed?: LamellaModel,
   ) {
     this.chain = buildChain(spec.chain);
-    this.contour = contourGrid(this.chain, spec.ns, 'grid.ns');
+    this.contour = contourWithTotal(this.chain, spec.ns, 'cell.ns');
+    this.cell = new PeriodicCell(1, spec.nx, 1);
     this.chiNSpinodal = spinodal(this.chain).chiN;
   }
 
@@ -101,12 +108,12 @@ export class LamellaModel {
     if (near) return near.solution.w;
     const s = Number.isNaN(period) ? this.seed?.equilibriumNear(chiN) ?? this.seed?.nearest(chiN, period) : this.seed?.nearest(chiN, period);
     if (!s) return undefined;
-    return { A: resampleSpectral(s.solution.w.A, this.spec.nx), B: resampleSpectral(s.solution.w.B, this.spec.nx) };
+    return { A: this.cell.resample(s.solution.w.A, this.spec.nx), B: this.cell.resample(s.solution.w.B, this.spec.nx) };
   }
 
   private solve(chiN: number, period: number, initial: SpeciesArrays | undefined, start?: SpectralOptions['start']): ScftSolution {
     const options = { ...this.spec.options, ...(start ? { start } : {}) };
-    const sol = solveFixedCell({ system: this.system(chiN), length: period, periods: 1, nx: this.spec.nx, ns: this.spec.ns, options, initial });
+    const sol = solveFixedCell({ system: this.system(chiN), cell: this.cell.withLength(period), contour: this.contour, options, initial });
     this.counters.solves++;
     this.counters.iterations += sol.iterations;
     if (!sol.converged) throw new RunFailure(`model solve at χN = ${chiN}, L = ${period} Rg did not converge: ${sol.notes.join('; ')}`);
@@ -115,7 +122,7 @@ export class LamellaModel {
 
   private point(chiN: number, period: number, sol: ScftSolution, stress?: number): ModelPoint {
     const ordered = sol.phase === 'lamellar';
-    const profile = ordered ? PeriodicProfile.fromGrid(sol.phi.A, period).recentre() : PeriodicProfile.constant(this.chain.speciesFraction.A, period);
+    const profile = ordered ? FourierSeries.fromGrid(sol.phi.A, period) : FourierSeries.constant(this.chain.speciesFraction.A, period);
     return { chiN, period, phase: ordered ? 'lamellar' : 'disordered', profile, solution: sol, stress };
   }
 
@@ -191,7 +198,7 @@ export class LamellaModel {
     if (st.length === 0) {
       const s = this.seed?.equilibriumNear(chiN);
       if (s) return { period: s.period * Math.pow(chiN / s.chiN, 0.25) };
-      return { period: periodGuess({ system: this.system(chiN) }) };
+      return { period: periodGuess(this.system(chiN), this.chain) };
     }
     const slope = st[0].stressSlope;
     // Lagrange polynomial through the stencil (degree ≤ 2): L_eq(χN) is smooth.
@@ -217,8 +224,9 @@ export class LamellaModel {
   }
 
   /**
-   * The lamella at its stress-free period: secant iteration on dF/dL = 0, each step a
-   * warm-started fixed-cell solve, the first slope taken from the nearest earlier point.
+   * The lamella at its stress-free period: the shared stress-free search
+   * (spectral/stress-free-search.ts), started from the period and slope predicted by the
+   * neighbouring χN already solved, each trial a warm-started, cached fixed-cell solve.
    */
   equilibrium(chiN: number): ModelPoint {
     const hit = this.equilibriumCache.get(chiN);
@@ -227,56 +235,32 @@ export class LamellaModel {
       return hit;
     }
     const guess = this.predictPeriod(chiN);
-    let L = guess.period;
-    let initial = this.warmStart(chiN, Number.NaN);
-    let sol = this.solveOrdered(chiN, L, initial);
-    if (sol.phase === 'disordered') {
-      const p = this.point(chiN, Number.NaN, sol);
+    const first = this.solveOrdered(chiN, guess.period, this.warmStart(chiN, Number.NaN));
+    if (first.phase === 'disordered') {
+      const p = this.point(chiN, Number.NaN, first);
       this.equilibriumCache.set(chiN, p);
       return p;
     }
-    let g = periodStress(this.chain, this.contour, L, sol.w);
-    // Curvature of F(L) at fixed fields overestimates the relaxed one; a neighbour's secant slope is better.
-    let slope = guess.slope ?? this.fixedFieldCurvature(L, sol.w);
-    for (let iter = 0; iter < 40; iter++) {
-      const step = -g / slope;
-      if (Math.abs(step) < PERIOD_REL_TOL * L) {
-        const p = this.point(chiN, L, sol, g);
-        p.stressSlope = slope;
-        this.equilibriumCache.set(chiN, p);
-        this.equilibriumSorted.splice(lowerBound(this.equilibriumSorted, chiN), 0, p);
-        this.remember(`${chiN}|${L}`, p);
-        return p;
-      }
-      // Steps of at most 5 %; a step whose solve collapses (the weak lamella near the ODT exists
-      // only near its own period) is halved and retried from the last ordered solution.
-      let dL = Math.max(-0.05 * L, Math.min(0.05 * L, step));
-      let next: ScftSolution | undefined;
-      for (let tries = 0; tries < 8; tries++, dL /= 2) {
-        const trial = this.solveOrdered(chiN, L + dL, sol.w);
-        if (trial.phase === 'lamellar') {
-          next = trial;
-          break;
-        }
-      }
-      if (!next) throw new RunFailure(`equilibrium period at χN = ${chiN}: the lamella collapses at every trial period near L = ${L} Rg during the stress-free search`);
-      const Lnext = L + dL;
-      const gNext = periodStress(this.chain, this.contour, Lnext, next.w);
-      // A secant over a tiny step is dominated by the solver's tolerance: keep the previous slope then.
-      const s = (gNext - g) / dL;
-      if (s > 0 && Number.isFinite(s) && Math.abs(dL) > 1e-5 * L) slope = s;
-      L = Lnext;
-      sol = next;
-      g = gNext;
+    let r;
+    try {
+      r = findStressFree(
+        {
+          solveAt: (L, initial) => this.solveOrdered(chiN, L, initial),
+          stress: (L, w) => cellStress(this.chain, this.contour, this.cell.withLength(L), w),
+        },
+        { length: guess.period, solution: first, slope: guess.slope },
+        PERIOD_REL_TOL,
+      );
+    } catch (e) {
+      if (e instanceof StressSearchFailure) throw new RunFailure(`equilibrium period at χN = ${chiN}: ${e.message}`);
+      throw e;
     }
-    throw new RunFailure(`equilibrium period at χN = ${chiN}: the stress-free search did not converge (last L = ${L} Rg, dF/dL = ${g})`);
-  }
-
-  /** d²(−ln Q)/dL² at fixed fields: a positive first slope for the secant when no neighbour has one. */
-  private fixedFieldCurvature(L: number, w: SpeciesArrays): number {
-    const h = 1e-3 * L;
-    const c = (periodStress(this.chain, this.contour, L + h, w) - periodStress(this.chain, this.contour, L - h, w)) / (2 * h);
-    return c > 0 ? c : 1;
+    const p = this.point(chiN, r.length, r.solution, 0);
+    p.stressSlope = r.slope;
+    this.equilibriumCache.set(chiN, p);
+    this.equilibriumSorted.splice(lowerBound(this.equilibriumSorted, chiN), 0, p);
+    this.remember(`${chiN}|${r.length}`, p);
+    return p;
   }
 }
 

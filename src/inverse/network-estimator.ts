@@ -26,8 +26,9 @@ import type { ChainSpec } from '../physics/chain-schema.js';
 import { buildChain } from '../physics/chain.js';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
+import { portable } from '../physics/cell/make-cell.js';
+import type { Portable } from '../physics/cell/make-cell.js';
 import { bandLimitedFit } from '../numerics/band-limited-fit.js';
-import { trigInterpolationMatrix } from '../numerics/trig-interpolation.js';
 import { solveFixedCell } from '../spectral/scft-solver.js';
 import { Adam } from '../autodiff/adam.js';
 import { selectBackend } from '../autodiff/backend.js';
@@ -72,7 +73,7 @@ export interface NetworkEstimatorSettings {
 }
 
 /** What the estimator reads of the classical estimate (all a worker thread is sent). */
-export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'modelOrigin' | 'solution'>;
+export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'solution'>;
 
 export interface NetworkRun {
   seed: number;
@@ -101,7 +102,7 @@ export interface NetworkEstimate {
 function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   const L = est.period;
   return Float64Array.from(data.x, (x) => {
-    const t = (x - est.offset + est.modelOrigin) % L;
+    const t = (x - est.offset) % L;
     return t < 0 ? t + L : t;
   });
 }
@@ -109,7 +110,8 @@ function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
 /** What a seed worker (seed-worker.ts) is sent once (no functions: they do not cross threads). */
 export interface SeedWorkerData {
   data: ProfileData;
-  classical: ClassicalStart;
+  /** The classical start with its solution's cell as a plain description (a Cell holds functions, which do not cross to a worker). */
+  classical: Omit<ClassicalStart, 'solution'> & { solution: Portable<ClassicalStart['solution']> };
   settings: Omit<NetworkEstimatorSettings, 'onProgress' | 'seeds' | 'workers'>;
 }
 
@@ -127,7 +129,7 @@ async function estimateInSeedWorkers(data: ProfileData, classical: ClassicalStar
   const { onProgress, seeds, workers, ...settings } = s;
   const workerData: SeedWorkerData = {
     data,
-    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, modelOrigin: classical.modelOrigin, solution: classical.solution },
+    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, solution: portable(classical.solution) },
     settings,
   };
   return runInWorkers<number, NetworkEstimate, SeedProgress>(seeds, { entry: 'inverse/seed-worker.js', workerData, workers: workers ?? 1, onProgress: (p) => onProgress?.(...p) });
@@ -147,9 +149,10 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   const nx = classical.solution.nx;
   const chiNStart = s.chiNStart ?? classical.chiN;
   // Starting fields: the spectral solution at the starting χN in the classical cell.
-  const start = solveFixedCell({ system: { chain: s.chain, chiN: chiNStart }, length: L, periods: 1, nx, ns: classical.solution.ns, initial: classical.solution.w, keepPropagators: true });
+  const cell = classical.solution.cell.withLength(L);
+  const start = solveFixedCell({ system: { chain: s.chain, chiN: chiNStart }, cell, contour: classical.solution.contour, initial: classical.solution.w, keepPropagators: true });
   const t = modelFrame(data, classical);
-  const matrix = Float32Array.from(trigInterpolationMatrix(nx, L, t, s.resolution));
+  const matrix = Float32Array.from(cell.interpolationMatrix(t, s.resolution));
   const sig = data.sigma ?? new Float64Array(data.x.length).fill(1);
   let meanInvVar = 0;
   for (const v of sig) meanInvVar += 1 / (v * v);

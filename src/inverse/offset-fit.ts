@@ -6,7 +6,7 @@
  * swap the A and B domains: two distinct local minima, and the scan picks the better one.
  */
 import { brentMinimize } from '../numerics/brent-minimize.js';
-import type { PeriodicProfile } from './periodic-profile.js';
+import type { FourierSeries } from '../physics/cell/fourier-series.js';
 
 export interface FitData {
   x: Float64Array;
@@ -22,7 +22,7 @@ export interface OffsetFit {
   value: number;
 }
 
-export function misfit(model: PeriodicProfile, data: FitData, x0: number, scratch: Float64Array): number {
+export function misfit(model: FourierSeries, data: FitData, x0: number, scratch: Float64Array): number {
   model.evaluateShifted(data.x, x0, scratch);
   let s = 0;
   for (let i = 0; i < scratch.length; i++) {
@@ -32,10 +32,10 @@ export function misfit(model: PeriodicProfile, data: FitData, x0: number, scratc
   return s;
 }
 
-export function fitOffset(model: PeriodicProfile, data: FitData, scanPoints = 64): OffsetFit {
+export function fitOffset(model: FourierSeries, data: FitData, scanPoints = 64): OffsetFit {
   const scratch = new Float64Array(data.x.length);
   const L = model.period;
-  if (model.fundamental() < 1e-12) return { x0: 0, value: misfit(model, data, 0, scratch) };
+  if (model.mode(1).amplitude < 2e-12) return { x0: 0, value: misfit(model, data, 0, scratch) };
   const k = Math.max(scanPoints, 2 * model.modes);
   const h = L / k;
   let best = 0;

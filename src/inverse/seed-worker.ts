@@ -4,10 +4,13 @@
  * posts progress and the result through threads/task-worker.ts.
  */
 import { workerData } from 'node:worker_threads';
+import { restored } from '../physics/cell/make-cell.js';
+import type { ScftSolution } from '../physics/result.js';
 import { serveTasks } from '../threads/task-worker.js';
 import { estimateNetwork } from './network-estimator.js';
 import type { NetworkEstimate, SeedProgress, SeedWorkerData } from './network-estimator.js';
 
-const { data, classical, settings } = workerData as SeedWorkerData;
+const { data, classical: sent, settings } = workerData as SeedWorkerData;
+const classical = { ...sent, solution: restored<ScftSolution>(sent.solution) };
 
 serveTasks<number, NetworkEstimate, SeedProgress>((seed, progress) => estimateNetwork(data, classical, { ...settings, seeds: [seed], workers: 1, onProgress: (...p) => progress(p) }));

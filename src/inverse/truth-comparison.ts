@@ -33,7 +33,7 @@ export function compareWithTruth(source: string, truthChiN: number, chain: Chain
   const estimators: TruthComparison['estimators'] = { classical: entry(cl.chiN) };
   if (ne) {
     const sol = cl.solution;
-    const truth = solveFixedCell({ system: { chain, chiN: truthChiN }, length: cl.period, periods: 1, nx: sol.nx, ns: sol.ns, initial: sol.w });
+    const truth = solveFixedCell({ system: { chain, chiN: truthChiN }, cell: sol.cell.withLength(cl.period), contour: sol.contour, initial: sol.w });
     let num = 0;
     let den = 0;
     for (let j = 0; j < sol.nx; j++) {

@@ -8,6 +8,7 @@ import type { TrainConfig } from '../io/schemas/train-config.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import { mixedFieldUpdate } from '../physics/scft-equations.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
 import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
 import type { Tf } from '../autodiff/tf.js';
 import { networkSolution } from './network-solution.js';
@@ -33,7 +34,7 @@ export interface LamellarPin {
 export function refitFieldsToUpdate(tf: Tf, nets: ScftNetworks, chiN: number, x: Float64Array, w: SpeciesArrays, phi: SpeciesArrays, mixing: number, fitSteps: number, learningRate: number, pin?: LamellarPin): FieldUpdateResult {
   if (!nets.field) return { residual: 0, fitLoss: 0 };
   const { w: target, residual } = mixedFieldUpdate(nets.chain, chiN, w, phi, mixing);
-  if (pin && nets.chain.species.length === 2) pinLamellarPhase(target, nets.length, pin.periods, pin.phase);
+  if (pin && nets.chain.species.length === 2) pinLamellarPhase(target, new PeriodicCell(nets.length, target.A.length, pin.periods), pin.phase);
   const fit = warmStart(tf, nets, { x, w: target, chiN }, fitSteps, learningRate, undefined, nets.field.parameters);
   return { residual, fitLoss: fit.finalLoss };
 }
@@ -51,7 +52,7 @@ export interface FieldUpdateSettings {
 
 export function fieldUpdateSettings(config: Pick<TrainConfig, 'collocation' | 'training' | 'cell'>): FieldUpdateSettings {
   const { collocation: c, training: t } = config;
-  return { nx: c.nx, nodesPerBlock: c.nodesPerBlock, mixing: t.fieldMixing, fitSteps: t.fieldFitSteps, learningRate: t.fieldFitLearningRate, periods: config.cell.periods };
+  return { nx: c.nx, nodesPerBlock: c.nodesPerBlock, mixing: t.fieldMixing, fitSteps: t.fieldFitSteps, learningRate: t.fieldFitLearningRate, periods: config.cell.kind === 'periodic' ? config.cell.periods : 1 };
 }
 
 /**
@@ -72,7 +73,7 @@ export class FieldUpdater {
   update(): FieldUpdateResult {
     const { tf, nets, settings: st } = this;
     if (!nets.field) return { residual: 0, fitLoss: 0 };
-    const sol = networkSolution(tf, nets, this.system, { periods: st.periods, nx: st.nx, nodesPerBlock: st.nodesPerBlock });
+    const sol = networkSolution(tf, nets, this.system, { periods: st.periods, nx: st.nx, nodesPerBlock: st.nodesPerBlock, placeInConvention: false });
     this.pin ??= { periods: st.periods, phase: lamellarPhase(sol.w, st.periods).phase };
     return refitFieldsToUpdate(tf, nets, this.system.chiN, sol.x, sol.w, sol.phi, st.mixing, st.fitSteps, st.learningRate, this.pin);
   }

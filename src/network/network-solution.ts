@@ -5,14 +5,14 @@
  * (or the prescribed fields), F from physics/scft-equations.ts.
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
-import { disorderedFreeEnergy } from '../physics/chain.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import { contourFromSteps, densitiesFromPropagators } from '../physics/contour.js';
 import { externalFields } from '../physics/fields.js';
 import type { SpeciesArrays } from '../physics/fields.js';
-import { cellMean, spreadOf } from '../physics/grid.js';
-import type { Phase, ScftSolution } from '../physics/result.js';
-import { fieldDeviation, freeEnergy } from '../physics/scft-equations.js';
+import type { ScftSolution } from '../physics/result.js';
+import { fieldDeviation } from '../physics/scft-equations.js';
+import { buildSolution, DISORDER_SPREAD, spreadOf } from '../physics/solution-record.js';
 import type { Tf } from '../autodiff/tf.js';
-import { contourNodes, gridX } from './contour-nodes.js';
 import type { PropagatorNet } from './propagator-net.js';
 import type { ScftNetworks } from './scft-networks.js';
 
@@ -34,12 +34,6 @@ function logQOnGrid(tf: Tf, net: PropagatorNet, x: Float64Array, s: Float64Array
   return Array.from({ length: s.length }, (_, i) => Float64Array.from(flat.subarray(i * nx, (i + 1) * nx)));
 }
 
-/**
- * A network's φ_A is only accurate to ~1e-3–1e-2, so the spectral threshold (1e-5) cannot
- * be used: below a spread of 0.02 we call it disordered. Even close to the ODT a converged
- * lamella has a much larger spread (0.2 at χN = 10.6 for f = 0.5, tests/spectral).
- */
-export const NETWORK_DISORDER_AMPLITUDE = 0.02;
 
 function keptPropagators(tf: Tf, nets: ScftNetworks, x: Float64Array, s: Float64Array | undefined, nodes: Float64Array, u: Float64Array[], ud: Float64Array[]) {
   if (!s) return { s: nodes, q: u.map((r) => r.map(Math.exp)), qDagger: ud.map((r) => r.map(Math.exp)) };
@@ -48,6 +42,8 @@ function keptPropagators(tf: Tf, nets: ScftNetworks, x: Float64Array, s: Float64
 }
 
 export interface NetworkSolutionOptions {
+  /** Put the lamella in the phase convention (default); off for the trainer's own field updates. */
+  placeInConvention?: boolean;
   periods: number;
   nx: number;
   nodesPerBlock: number;
@@ -58,29 +54,22 @@ export interface NetworkSolutionOptions {
 
 export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, opts: NetworkSolutionOptions): ScftSolution {
   const t0 = performance.now();
-  const x = gridX(nets.length, opts.nx);
-  const nodes = contourNodes(nets.chain, opts.nodesPerBlock);
-  const nodesR = contourNodes(nets.reversed, opts.nodesPerBlock);
-  const u = logQOnGrid(tf, nets.q, x, nodes.s);
-  const ud = logQOnGrid(tf, nets.qDagger, x, nodesR.s);
-  const nn = nodes.s.length;
+  const cell = new PeriodicCell(nets.length, opts.nx, opts.periods);
+  const x = cell.x;
+  const steps = nets.chain.blocks.map(() => opts.nodesPerBlock);
+  const contour = contourFromSteps(nets.chain, steps);
+  const contourR = contourFromSteps(nets.reversed, [...steps].reverse());
+  const u = logQOnGrid(tf, nets.q, x, contour.s);
+  const ud = logQOnGrid(tf, nets.qDagger, x, contourR.s);
+  const nn = contour.s.length;
   const nx = opts.nx;
-  const Q = cellMean(u[nn - 1].map(Math.exp));
-  const QDagger = cellMean(ud[nn - 1].map(Math.exp));
-  const phi: SpeciesArrays = { A: new Float64Array(nx), B: new Float64Array(nx) };
-  for (let i = 0; i < nn; i++) {
-    const cA = nodes.weights.A[i];
-    const cB = nodes.weights.B[i];
-    const a = u[i];
-    const b = ud[nn - 1 - i];
-    for (let j = 0; j < nx; j++) {
-      const p = Math.exp(a[j] + b[j]) / Q;
-      phi.A[j] += cA * p;
-      phi.B[j] += cB * p;
-    }
-  }
+  const q = u.map((r) => r.map(Math.exp));
+  const qd = ud.map((r) => r.map(Math.exp));
+  const Q = cell.mean(q[nn - 1]);
+  const QDagger = cell.mean(qd[nn - 1]);
+  const phi = densitiesFromPropagators(contour, q, qd, Q);
   let w: SpeciesArrays;
-  const fixed = externalFields(system, { length: nets.length, nx });
+  const fixed = externalFields(system, cell);
   if (nets.field) {
     const feats = nets.field.features(x, false);
     const t = tf.tidy(() => nets.field!.forward(feats).v);
@@ -95,43 +84,36 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
   } else {
     w = fixed ?? { A: new Float64Array(nx), B: new Float64Array(nx) };
   }
-  const amplitude = spreadOf(phi.A);
-  const species = nets.chain.species.length;
   const notes: string[] = [];
-  let phase: Phase;
-  if (fixed) phase = 'single-chain';
-  else if (species === 1) phase = 'homogeneous-melt';
-  else if (amplitude < NETWORK_DISORDER_AMPLITUDE) {
-    phase = 'disordered';
+  const amplitude = spreadOf(phi.A);
+  if (!fixed && nets.chain.species.length > 1 && amplitude < DISORDER_SPREAD.network) {
     notes.push(`the network collapsed to the homogeneous (disordered) state: φ_A varies by only ${amplitude.toExponential(2)}`);
-  } else phase = 'lamellar';
-  // ns describes the contour grid of the stored propagators when they are kept on the reference's.
-  const ns = (opts.keepPropagators && opts.propagatorS ? opts.propagatorS.length : nn) - 1;
+  }
   notes.push(`φ by Simpson quadrature on ${opts.nodesPerBlock} contour intervals per block`);
   // The network's own SCFT residual max |w_out − w_in| (kT), as the spectral solver reports it.
-  const residual = fixed ? 0 : fieldDeviation(nets.chain, system.chiN, w, phi).residual;
-  return {
+  const residual = fixed ? 0 : fieldDeviation(nets.chain, system.chiN, w, phi, cell).residual;
+  const propagators = opts.keepPropagators ? keptPropagators(tf, nets, x, opts.propagatorS, contour.s, u, ud) : undefined;
+  const sol = buildSolution({
     solver: 'network',
     system,
-    length: nets.length,
-    periods: opts.periods,
-    period: nets.length / opts.periods,
-    nx,
-    ns,
-    x,
-    phi,
+    chain: nets.chain,
+    cell,
+    contour,
     w,
+    phi,
     Q,
     QDagger,
-    freeEnergy: fixed ? -Math.log(Q) : freeEnergy(system.chiN, Q, w, phi),
-    freeEnergyDisordered: fixed ? Number.NaN : disorderedFreeEnergy(nets.chain, system.chiN),
-    phase,
-    amplitude,
+    prescribedFields: Boolean(fixed),
     iterations: 0,
     residual,
     converged: true,
     seconds: (performance.now() - t0) / 1000,
-    propagators: opts.keepPropagators ? keptPropagators(tf, nets, x, opts.propagatorS, nodes.s, u, ud) : undefined,
     notes,
-  };
+    propagators,
+    disorderSpread: DISORDER_SPREAD.network,
+    placeInConvention: opts.placeInConvention,
+  });
+  // ns describes the contour grid of the stored propagators when they are kept on the reference's.
+  if (opts.keepPropagators && opts.propagatorS) sol.ns = opts.propagatorS.length - 1;
+  return sol;
 }

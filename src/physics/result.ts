@@ -3,28 +3,35 @@
  * so that evaluation, inversion and reports never care which solver made it.
  */
 import type { SystemSpec } from './chain-schema.js';
+import type { Cell } from './cell/cell.js';
+import type { Contour } from './contour.js';
 import type { SpeciesArrays } from './fields.js';
 
 export type Phase = 'lamellar' | 'disordered' | 'homogeneous-melt' | 'single-chain';
 
 export interface Propagators {
-  /** Contour points s_i = i/ns, i = 0..ns. */
+  /** Contour nodes s_i, i = 0..ns (physics/contour.ts). */
   s: Float64Array;
   /** q[i] is q(x, s_i) on the grid. */
   q: Float64Array[];
-  /** qDagger[i] is q†(x, s_i). */
+  /** qDagger[i] is q†(x, s'_i) on the reversed chain's nodes (s'_{ns−i} = 1 − s_i). */
   qDagger: Float64Array[];
 }
 
 export interface ScftSolution {
-  solver: 'spectral' | 'network';
+  solver: 'spectral' | 'network' | 'surrogate';
   system: SystemSpec;
-  /** Cell length L in Rg. */
+  /** The cell the solution lives in (its grid is `x`). */
+  cell: Cell;
+  /** The contour of the densities' quadrature (the spectral steps, or a network's evaluation nodes). */
+  contour: Contour;
+  /** Cell length L in Rg (cell.length). */
   length: number;
-  /** Lamellar periods in the cell (the cell was set up with this many). */
+  /** Lamellar periods in the cell (cell.periods; 0 for a film). */
   periods: number;
-  /** Lamellar period L / periods, in Rg. */
+  /** Lamellar period L / periods, in Rg (NaN when the cell does not fix it). */
   period: number;
+  /** Grid points (cell.n) and contour steps (contour.ns). */
   nx: number;
   ns: number;
   x: Float64Array;

@@ -1,20 +1,32 @@
 /**
- * The SCFT equations of an incompressible A/B melt (SCFT-NOTES.md), in one place:
- * the self-consistent field update and its residual, the gauge, and the free energy.
+ * The SCFT equations of an incompressible A/B melt (docs/physics.md), in one place: the
+ * self-consistent field update and its residual, the gauge, and the free energy. Every solver
+ * (spectral, network, surrogate) calls these.
  *
- * Conventions: fields and free energies in kT per chain; cell averages (1/L)∫dx are
- * plain grid means (periodic grid, spectrally exact).
+ * Conventions: fields and free energies in kT per chain; cell averages ⟨u⟩ = (1/L)∫u dx are the
+ * cell's own quadrature (cell.mean). A cell may carry a total density φ₀(x) (a film's wall
+ * layer; 1 elsewhere) and a surface field h(x) (a film's wall affinity for A); both are absent
+ * (φ₀ = 1, h = 0) in a periodic cell.
  *
- * Field update (the usual pressure-field elimination, e.g. Matsen's reviews of SCFT):
- * at a solution w_A = χN φ_B + ξ and w_B = χN φ_A + ξ with φ_A + φ_B = 1, so adding
- * them gives ξ = (w_A + w_B − χN)/2. For an input w this ξ defines the output
- *   w_A' = χN φ_B[w] + ξ,  w_B' = χN φ_A[w] + ξ,
- * and d = w' − w vanishes exactly when both w_A − w_B = χN(φ_B − φ_A) and
- * φ_A + φ_B = 1 hold. A one-species melt has only the pressure: w' = w + (φ − 1).
+ * Self-consistency (the usual pressure-field elimination, e.g. Matsen's reviews of SCFT):
+ * at a solution w_A = χN φ_B − h + ξ and w_B = χN φ_A + h + ξ with φ_A + φ_B = φ₀, so adding
+ * them gives ξ = (w_A + w_B − χN φ₀)/2. For an input w this ξ defines the output
+ *   w_A' = χN φ_B[w] − h + ξ,  w_B' = χN φ_A[w] + h + ξ,
+ * and d = w' − w vanishes exactly when both w_A − w_B = χN(φ_B − φ_A) − 2h and
+ * φ_A + φ_B = φ₀ hold (χN > 0). A one-species melt has only the pressure: w' = w + (φ − φ₀).
+ *
+ * Free energy per chain (the ξ term vanishes at a solution):
+ *   F = −ln Q + ln⟨φ₀⟩ + ⟨χN φ_A φ_B − h (φ_A − φ_B) − w_A φ_A − w_B φ_B⟩ / ⟨φ₀⟩,
+ * Q = ⟨q(x, 1)⟩; the ln⟨φ₀⟩ term is the chains' translational entropy in the volume they fill
+ * (it matters when a film's wall layer takes a different share of different thicknesses).
+ * With φ₀ = 1, h = 0 this is F = −ln Q + ⟨χN φ_A φ_B − w_A φ_A − w_B φ_B⟩.
  */
 import type { Chain } from './chain.js';
+import type { Cell } from './cell/cell.js';
 import type { SpeciesArrays } from './fields.js';
-import { cellMean } from './grid.js';
+
+/** The constraints the equations need from a cell (periodic cells have neither). */
+export type FieldCell = Pick<Cell, 'mean' | 'totalDensity' | 'surfaceField'>;
 
 export interface FieldUpdate {
   /** w' − w per species present on the chain. */
@@ -23,53 +35,71 @@ export interface FieldUpdate {
   residual: number;
 }
 
-export function fieldDeviation(chain: Chain, chiN: number, w: SpeciesArrays, phi: SpeciesArrays): FieldUpdate {
+export function fieldDeviation(chain: Chain, chiN: number, w: SpeciesArrays, phi: SpeciesArrays, cell?: FieldCell): FieldUpdate {
   const nx = w.A.length;
+  const total = cell?.totalDensity ?? null;
+  const h = cell?.surfaceField ?? null;
   const d: SpeciesArrays = { A: new Float64Array(nx), B: new Float64Array(nx) };
   let residual = 0;
   if (chain.species.length === 1) {
     const k = chain.species[0];
     for (let j = 0; j < nx; j++) {
-      d[k][j] = phi[k][j] - 1;
+      d[k][j] = phi[k][j] - (total ? total[j] : 1);
       residual = Math.max(residual, Math.abs(d[k][j]));
     }
     return { deviation: d, residual };
   }
   for (let j = 0; j < nx; j++) {
-    const xi = 0.5 * (w.A[j] + w.B[j] - chiN);
-    d.A[j] = chiN * phi.B[j] + xi - w.A[j];
-    d.B[j] = chiN * phi.A[j] + xi - w.B[j];
+    const t = total ? total[j] : 1;
+    const hj = h ? h[j] : 0;
+    const xi = 0.5 * (w.A[j] + w.B[j] - chiN * t);
+    d.A[j] = chiN * phi.B[j] - hj + xi - w.A[j];
+    d.B[j] = chiN * phi.A[j] + hj + xi - w.B[j];
     residual = Math.max(residual, Math.abs(d.A[j]), Math.abs(d.B[j]));
   }
   return { deviation: d, residual };
 }
 
+/** Plain grid mean: the quadrature of every cell kind on its own grid. */
+function gridMean(u: ArrayLike<number>): number {
+  let s = 0;
+  for (let i = 0; i < u.length; i++) s += u[i];
+  return s / u.length;
+}
+
 /** Shift all fields by one constant so the mean pressure field (w_A + w_B)/2 is zero (one-species: mean w = 0). */
-export function fixGauge(chain: Chain, w: SpeciesArrays): void {
-  const shift = chain.species.length === 1 ? cellMean(w[chain.species[0]]) : 0.5 * (cellMean(w.A) + cellMean(w.B));
+export function fixGauge(chain: Chain, w: SpeciesArrays, cell?: Pick<Cell, 'mean'>): void {
+  const mean = cell ? (u: ArrayLike<number>) => cell.mean(u) : gridMean;
+  const shift = chain.species.length === 1 ? mean(w[chain.species[0]]) : 0.5 * (mean(w.A) + mean(w.B));
   for (let j = 0; j < w.A.length; j++) {
     w.A[j] -= shift;
     w.B[j] -= shift;
   }
 }
 
-/** F = −ln Q + (1/L)∫[χN φ_A φ_B − w_A φ_A − w_B φ_B] dx, per chain in kT. */
-export function freeEnergy(chiN: number, Q: number, w: SpeciesArrays, phi: SpeciesArrays): number {
+/** F per chain in kT (see the header). */
+export function freeEnergy(cell: FieldCell, chiN: number, Q: number, w: SpeciesArrays, phi: SpeciesArrays): number {
   const nx = w.A.length;
-  let s = 0;
-  for (let j = 0; j < nx; j++) s += chiN * phi.A[j] * phi.B[j] - w.A[j] * phi.A[j] - w.B[j] * phi.B[j];
-  return -Math.log(Q) + s / nx;
+  const h = cell.surfaceField;
+  const terms = new Float64Array(nx);
+  for (let j = 0; j < nx; j++) terms[j] = chiN * phi.A[j] * phi.B[j] - (h ? h[j] * (phi.A[j] - phi.B[j]) : 0) - w.A[j] * phi.A[j] - w.B[j] * phi.B[j];
+  const filled = cell.totalDensity ? cell.mean(cell.totalDensity) : 1;
+  return -Math.log(Q) + Math.log(filled) + cell.mean(terms) / filled;
 }
 
 /** Fields that reproduce a target A composition profile φ_A at the self-consistency relation (gauge fixed). */
-export function fieldsFromComposition(chain: Chain, chiN: number, phiA: Float64Array): SpeciesArrays {
+export function fieldsFromComposition(chain: Chain, chiN: number, phiA: Float64Array, cell?: FieldCell): SpeciesArrays {
   const nx = phiA.length;
+  const total = cell?.totalDensity ?? null;
+  const h = cell?.surfaceField ?? null;
   const w: SpeciesArrays = { A: new Float64Array(nx), B: new Float64Array(nx) };
   for (let j = 0; j < nx; j++) {
-    w.A[j] = chiN * (1 - phiA[j]);
-    w.B[j] = chiN * phiA[j];
+    const t = total ? total[j] : 1;
+    const hj = h ? h[j] : 0;
+    w.A[j] = chiN * (t - phiA[j]) - hj;
+    w.B[j] = chiN * phiA[j] + hj;
   }
-  fixGauge(chain, w);
+  fixGauge(chain, w, cell);
   return w;
 }
 
@@ -77,10 +107,11 @@ export function fieldsFromComposition(chain: Chain, chiN: number, phiA: Float64A
  * One simple-mixing step of the field iteration: w' = w + λ d(w, φ) with d from
  * fieldDeviation, gauge fixed. Returns w' and the residual max |d| of the input (kT).
  */
-export function mixedFieldUpdate(chain: Chain, chiN: number, w: SpeciesArrays, phi: SpeciesArrays, mixing: number): { w: SpeciesArrays; residual: number } {
-  const { deviation, residual } = fieldDeviation(chain, chiN, w, phi);
-  const out = { A: Float64Array.from(w.A), B: Float64Array.from(w.B) };
-  for (const k of chain.species) for (let j = 0; j < out[k].length; j++) out[k][j] += mixing * deviation[k][j];
-  fixGauge(chain, out);
+export function mixedFieldUpdate(chain: Chain, chiN: number, w: SpeciesArrays, phi: SpeciesArrays, mixing: number, cell?: FieldCell): { w: SpeciesArrays; residual: number } {
+  const { deviation, residual } = fieldDeviation(chain, chiN, w, phi, cell);
+  // A species that is not on the chain has no field to update: it is set to 0 (before the gauge).
+  const out = { A: new Float64Array(w.A.length), B: new Float64Array(w.B.length) };
+  for (const k of chain.species) for (let j = 0; j < out[k].length; j++) out[k][j] = w[k][j] + mixing * deviation[k][j];
+  fixGauge(chain, out, cell);
   return { w: out, residual };
 }

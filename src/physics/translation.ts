@@ -18,20 +18,14 @@
  * u = a cos(k_p x − θ) + … the phase is θ, and u(x) → u(x + δ) changes it to θ − k_p δ,
  * k_p = 2πp/L.
  */
-import { trigInterpolate } from './fields.js';
+import type { Cell } from './cell/cell.js';
+import { FourierSeries } from './cell/fourier-series.js';
 import type { SpeciesArrays } from './fields.js';
 
-/** Amplitude and phase of mode p of a periodic grid function: u ≈ a cos(k_p x − θ) + … */
+/** Amplitude and phase θ of mode p of a periodic grid function, read as u ≈ a cos(k_p x − θ) + … */
 export function modePhase(u: ArrayLike<number>, p: number): { amplitude: number; phase: number } {
-  const n = u.length;
-  let c = 0;
-  let s = 0;
-  for (let j = 0; j < n; j++) {
-    const a = (2 * Math.PI * p * j) / n;
-    c += u[j] * Math.cos(a);
-    s += u[j] * Math.sin(a);
-  }
-  return { amplitude: (2 * Math.hypot(c, s)) / n, phase: Math.atan2(s, c) };
+  const m = FourierSeries.fromGrid(u, 1).mode(p);
+  return { amplitude: m.amplitude, phase: -m.phase };
 }
 
 /** Phase of the lamellar harmonic (mode `periods`) of w_A − w_B. */
@@ -43,21 +37,21 @@ export function lamellarPhase(w: SpeciesArrays, periods: number): { amplitude: n
 }
 
 /**
- * Shift the fields (in place, through their trigonometric interpolant) so the lamellar harmonic
- * has phase `phase` again. Returns the shift δ applied (Rg); a field with no lamellar
- * harmonic (amplitude below `minAmplitude` kT) is left alone.
+ * Shift the fields (in place, through the cell's translation) so the lamellar harmonic has
+ * phase `phase` again. Returns the shift δ applied (Rg); a field with no lamellar harmonic
+ * (amplitude below `minAmplitude` kT), or a cell without translation symmetry, is left alone.
  */
-export function pinLamellarPhase(w: SpeciesArrays, length: number, periods: number, phase: number, minAmplitude = 1e-6): number {
+export function pinLamellarPhase(w: SpeciesArrays, cell: Cell, phase: number, minAmplitude = 1e-6): number {
+  if (!cell.translation) return 0;
+  const periods = cell.periods;
   const now = lamellarPhase(w, periods);
   if (!(now.amplitude > minAmplitude)) return 0;
   let dphi = now.phase - phase;
   dphi -= 2 * Math.PI * Math.round(dphi / (2 * Math.PI));
   // u(x) → u(x + δ) moves the phase by −k_p δ.
-  const delta = (dphi * length) / (2 * Math.PI * periods);
+  const delta = (dphi * cell.length) / (2 * Math.PI * periods);
   if (delta === 0) return 0;
-  const n = w.A.length;
-  const x = Float64Array.from({ length: n }, (_, j) => (j * length) / n + delta);
-  w.A.set(trigInterpolate(w.A, length, x));
-  w.B.set(trigInterpolate(w.B, length, x));
+  w.A.set(cell.translation.shift(w.A, delta));
+  w.B.set(cell.translation.shift(w.B, delta));
   return delta;
 }

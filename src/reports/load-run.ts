@@ -16,12 +16,14 @@ import { readJsonFile } from '../io/load-json.js';
 import { solutionFileSchema } from '../io/solution-file.js';
 import type { SolutionFile } from '../io/solution-file.js';
 import { buildChain } from '../physics/chain.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import { contourWithTotal } from '../physics/contour.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { MetricRow, ReportInput } from './report-inputs.js';
 import { surrogateInput } from './surrogate-input.js';
 
 const summaryNumbers = z.object({
-  solver: z.enum(['spectral', 'network']),
+  solver: z.enum(['spectral', 'network', 'surrogate']),
   period: z.number().nullable(),
   periodTolerance: z.number().optional(),
   Q: z.number(),
@@ -106,8 +108,9 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
   checkPropagators(path, data);
   const rawTrace = (raw as Record<string, unknown>).periodSearch;
   const trace = rawTrace === undefined ? undefined : parseOrThrow(traceSchema, rawTrace, `${path}: periodSearch`);
+  let chain;
   try {
-    buildChain(data.system.chain);
+    chain = buildChain(data.system.chain);
   } catch (e) {
     throw asInputError(e, path);
   }
@@ -115,6 +118,8 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
   const solution: ScftSolution = {
     solver: s.solver,
     system: data.system,
+    cell: new PeriodicCell(data.summary.length, data.summary.nx, data.summary.periods),
+    contour: contourWithTotal(chain, data.summary.ns),
     length: data.summary.length,
     periods: data.summary.periods,
     period: s.period ?? Number.NaN,

@@ -16,7 +16,8 @@ export class AndersonMixer {
 
   constructor(
     private readonly history: number,
-    private readonly mixing: number,
+    /** λ of x_{k+1} = x̄ + λ d̄; lowered by the solver's divergence safeguard. */
+    public mixing: number,
   ) {}
 
   reset(): void {

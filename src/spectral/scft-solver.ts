@@ -1,54 +1,82 @@
 /**
- * Self-consistent field iteration in a fixed periodic cell: the spectral reference.
+ * Self-consistent field iteration in a fixed cell: the spectral reference.
  *
  * Units: x in Rg, fields and free energies in kT per chain. Each iteration solves the MDE
  * for q and q† (propagator-solver.ts), forms the densities, and updates the fields with
  * the deviation of physics/scft-equations.ts: a few simple-mixing steps, then Anderson
  * mixing (anderson-mixer.ts). The gauge (mean pressure field zero) is fixed every step.
+ * The solution record is built by physics/solution-record.ts (F, verdict, phase convention).
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
-import { buildChain, contourGrid, disorderedFreeEnergy, ModelError } from '../physics/chain.js';
+import { buildChain, ModelError } from '../physics/chain.js';
 import type { Chain } from '../physics/chain.js';
+import type { Cell } from '../physics/cell/cell.js';
+import { contourWithTotal } from '../physics/contour.js';
+import type { Contour } from '../physics/contour.js';
 import { externalFields, zeroFields } from '../physics/fields.js';
 import type { SpeciesArrays } from '../physics/fields.js';
-import { checkCell, gridPoints, resamplePeriodic, spreadOf } from '../physics/grid.js';
 import type { Phase, ScftSolution } from '../physics/result.js';
-import { fieldDeviation, fieldsFromComposition, fixGauge, freeEnergy } from '../physics/scft-equations.js';
+import { fieldDeviation, fieldsFromComposition, fixGauge, mixedFieldUpdate } from '../physics/scft-equations.js';
+import { buildSolution, DISORDER_SPREAD, spreadOf } from '../physics/solution-record.js';
 import { inverseStructureFactor, spinodal } from '../physics/rpa.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
 import { spectralSchema } from '../io/schemas/spectral-schema.js';
 import { AndersonMixer } from './anderson-mixer.js';
 import { PropagatorSolver } from './propagator-solver.js';
+import type { ChainDensities } from './propagator-solver.js';
 
-/** Below this spread of φ_A a melt is homogeneous: the iteration has found the disordered state. */
-export const DISORDER_AMPLITUDE = 1e-5;
+/** The safeguard's threshold: a residual this many times the best so far counts as diverging. */
+const DIVERGENCE_GROWTH = 100;
+const MAX_RESTARTS = 8;
+const MIN_MIXING = 0.05;
 
 export interface FixedCellRequest {
   system: SystemSpec;
-  /** Cell length L in Rg. */
-  length: number;
-  periods: number;
-  nx: number;
-  ns: number;
+  cell: Cell;
+  /** Contour steps over the whole chain (spread over the blocks, physics/contour.ts), or a contour. */
+  contour: number | Contour;
   options?: Partial<SpectralOptions>;
-  /** Warm start: fields of an earlier solution (resampled when nx differs; L may differ). */
+  /** Warm start: fields of an earlier solution (resampled by the cell when the grid differs; L may differ). */
   initial?: SpeciesArrays;
   keepPropagators?: boolean;
+}
+
+/**
+ * A bulk lamellar period to start from: 2π/q* at the spinodal, stretched by (χN/χN_s)^{1/5}
+ * above it (between Semenov's strong-segregation 1/6 and the steeper growth SCFT shows at
+ * moderate χN). A guess only: period searches and film starts correct it.
+ */
+export function bulkPeriodGuess(chain: Chain, chiN: number): number {
+  if (chain.species.length < 2) return 1;
+  const sp = spinodal(chain);
+  return sp.period * Math.pow(Math.max(1, chiN / sp.chiN), 1 / 5);
+}
+
+/** Anderson history for "auto" (see the schema). */
+export function autoHistory(chiN: number): number {
+  return Math.min(100, Math.max(20, Math.ceil(chiN / 2.5)));
 }
 
 export function defaultSpectralOptions(partial: Partial<SpectralOptions> = {}): SpectralOptions {
   return { ...spectralSchema.parse({}), ...partial };
 }
 
-/** The initial composition guess φ_A = f + a cos(2π p x / L), mapped to fields by self-consistency. */
-export function cosineStart(chain: Chain, chiN: number, nx: number, periods: number, amplitude: number): SpeciesArrays {
+export function contourOf(chain: Chain, spec: number | Contour): Contour {
+  return typeof spec === 'number' ? contourWithTotal(chain, spec) : spec;
+}
+
+/**
+ * The initial composition guess φ_A = f + a·pattern with the cell's lamellar start pattern
+ * (cell.startPattern; a film's needs the bulk period, guessed from the RPA), mapped to fields
+ * by self-consistency.
+ */
+export function cosineStart(chain: Chain, chiN: number, cell: Cell, amplitude: number): SpeciesArrays {
   const f = chain.speciesFraction.A;
   const a = Math.min(amplitude, 0.95 * Math.min(f, 1 - f));
-  const phiA = new Float64Array(nx);
-  for (let j = 0; j < nx; j++) phiA[j] = f + a * Math.cos((2 * Math.PI * periods * j) / nx);
+  const { pattern } = cell.startPattern(cell.kind === 'periodic' ? cell.length : bulkPeriodGuess(chain, chiN));
+  const phiA = Float64Array.from(pattern, (c) => f + a * c);
   // At χN = 0 self-consistency gives no field; seed the exchange field directly instead.
-  const w = fieldsFromComposition(chain, Math.max(chiN, 1), phiA);
-  return w;
+  return fieldsFromComposition(chain, Math.max(chiN, 1), phiA, cell);
 }
 
 /**
@@ -56,35 +84,30 @@ export function cosineStart(chain: Chain, chiN: number, nx: number, periods: num
  * amplitude grows as (χN − χN_s)^{1/2} above the spinodal (mean-field Landau scaling),
  * so the guess takes a ≈ 0.5·((χN − χN_s)/χN_s)^{1/2}, kept within [0.05, 0.45].
  */
-export function rpaStart(chain: Chain, chiN: number, nx: number, periods: number): SpeciesArrays {
+export function rpaStart(chain: Chain, chiN: number, cell: Cell): SpeciesArrays {
   const sp = spinodal(chain);
   const reduced = Math.max(0, (chiN - sp.chiN) / sp.chiN);
   const a = Math.min(0.45, Math.max(0.05, 0.5 * Math.sqrt(reduced)));
-  return cosineStart(chain, chiN, nx, periods, a);
+  return cosineStart(chain, chiN, cell, a);
 }
 
 function initialFields(req: FixedCellRequest, chain: Chain, options: SpectralOptions): SpeciesArrays {
+  const cell = req.cell;
   if (req.initial) {
-    return { A: resamplePeriodic(req.initial.A, req.nx), B: resamplePeriodic(req.initial.B, req.nx) };
+    return { A: cell.resample(req.initial.A, cell.n), B: cell.resample(req.initial.B, cell.n) };
   }
   const start = options.start;
   switch (start.type) {
     case 'cosine':
-      return cosineStart(chain, req.system.chiN, req.nx, req.periods, start.amplitude);
+      return cosineStart(chain, req.system.chiN, cell, start.amplitude);
     case 'rpa':
-      return rpaStart(chain, req.system.chiN, req.nx, req.periods);
+      return rpaStart(chain, req.system.chiN, cell);
     case 'file':
       throw new ModelError('solver.start', start, 'a file start must be loaded by the caller and passed as initial fields');
   }
 }
 
-/** The verdict on converged densities: a one-species melt, or lamellar unless φ_A is flat. */
-function phaseOf(chain: Chain, phi: SpeciesArrays): Phase {
-  if (chain.species.length === 1) return 'homogeneous-melt';
-  return spreadOf(phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar';
-}
-
-/** Number of A-rich domains: upward crossings of φ_A through its mean on the periodic grid. */
+/** Number of A-rich domains: upward crossings of φ_A through its mean on the grid (periodic wrap-around). */
 export function countDomains(phiA: Float64Array): number {
   let mean = 0;
   for (const v of phiA) mean += v;
@@ -98,47 +121,36 @@ export function countDomains(phiA: Float64Array): number {
   return n;
 }
 
-interface CellContext {
-  req: Pick<FixedCellRequest, 'system' | 'length' | 'periods' | 'nx' | 'keepPropagators'>;
+interface SolveContext {
+  req: FixedCellRequest;
   chain: Chain;
-  contour: ReturnType<typeof contourGrid>;
-  cell: { length: number; nx: number };
-  fixed: SpeciesArrays | undefined;
+  contour: Contour;
   t0: number;
-  notes: string[];
 }
 
-/** The solution record of fields w and the densities they give (F from physics/scft-equations.ts). */
-function cellSolution(c: CellContext, w: SpeciesArrays, dens: ReturnType<PropagatorSolver['solve']>, iterations: number, residual: number, converged: boolean, phase: Phase): ScftSolution {
-  const { req, chain, contour, cell, fixed } = c;
-  const chiN = req.system.chiN;
-  const F = fixed ? -Math.log(dens.Q) : freeEnergy(chiN, dens.Q, w, dens.phi);
-  const ns = contour.ns;
-  const s = new Float64Array(ns + 1).map((_, i) => i / ns);
-  return {
+/** The solution record of fields w and the densities they give. */
+function record(c: SolveContext, w: SpeciesArrays, dens: ChainDensities, fields: { prescribed: boolean; iterations: number; residual: number; converged: boolean; phase?: Phase; notes: string[] }): ScftSolution {
+  const { req, chain, contour } = c;
+  return buildSolution({
     solver: 'spectral',
     system: req.system,
-    length: req.length,
-    periods: req.periods,
-    period: req.length / req.periods,
-    nx: req.nx,
-    ns,
-    x: gridPoints(cell),
-    phi: dens.phi,
+    chain,
+    cell: req.cell,
+    contour,
     w,
+    phi: dens.phi,
     Q: dens.Q,
     QDagger: dens.QDagger,
-    freeEnergy: F,
-    freeEnergyDisordered: fixed ? Number.NaN : disorderedFreeEnergy(chain, chiN),
-    phase,
-    amplitude: spreadOf(dens.phi.A),
-    iterations,
-    residual,
-    converged,
+    prescribedFields: fields.prescribed,
+    iterations: fields.iterations,
+    residual: fields.residual,
+    converged: fields.converged,
     seconds: (performance.now() - c.t0) / 1000,
-    propagators: req.keepPropagators ? { s, q: dens.q.map((a) => Float64Array.from(a)), qDagger: dens.qDagger.map((a) => Float64Array.from(a)) } : undefined,
-    notes: c.notes,
-  };
+    notes: fields.notes,
+    propagators: req.keepPropagators ? { s: contour.s, q: dens.q.map((a) => Float64Array.from(a)), qDagger: dens.qDagger.map((a) => Float64Array.from(a)) } : undefined,
+    disorderSpread: DISORDER_SPREAD.spectral,
+    phase: fields.phase,
+  });
 }
 
 /**
@@ -151,53 +163,48 @@ export function solveInFields(req: Omit<FixedCellRequest, 'initial'> & { fields:
   const t0 = performance.now();
   const options = defaultSpectralOptions(req.options);
   const chain = buildChain(req.system.chain);
-  const cell = { length: req.length, nx: req.nx };
-  checkCell(cell);
-  if (req.fields.A.length !== req.nx || req.fields.B.length !== req.nx) throw new RangeError(`solveInFields: fields have ${req.fields.A.length} points, the cell ${req.nx}`);
-  const contour = contourGrid(chain, req.ns);
+  const cell = req.cell;
+  if (req.fields.A.length !== cell.n || req.fields.B.length !== cell.n) throw new RangeError(`solveInFields: fields have ${req.fields.A.length} points, the cell ${cell.n}`);
+  const contour = contourOf(chain, req.contour);
   const solver = new PropagatorSolver(chain, cell, contour, { richardson: options.richardson });
   solver.setFields(req.fields);
   const dens = solver.solve();
-  const { residual } = fieldDeviation(chain, req.system.chiN, req.fields, dens.phi);
-  const phase = phaseOf(chain, dens.phi);
+  const { residual } = fieldDeviation(chain, req.system.chiN, req.fields, dens.phi, cell);
   const notes = ['densities from one propagator solve in the given fields (no SCFT iteration)'];
-  return cellSolution({ req, chain, contour, cell, fixed: undefined, t0, notes }, req.fields, dens, 0, residual, residual < options.tolerance, phase);
+  return record({ req, chain, contour, t0 }, req.fields, dens, { prescribed: false, iterations: 0, residual, converged: residual < options.tolerance, notes });
 }
 
 export function solveFixedCell(req: FixedCellRequest): ScftSolution {
   const t0 = performance.now();
   const options = defaultSpectralOptions(req.options);
   const chain = buildChain(req.system.chain);
-  const cell = { length: req.length, nx: req.nx };
-  checkCell(cell);
-  const contour = contourGrid(chain, req.ns);
-  const solver = new PropagatorSolver(chain, cell, contour, { richardson: options.richardson });
+  const contour = contourOf(chain, req.contour);
   const chiN = req.system.chiN;
-  const notes: string[] = [];
-  const fixed = externalFields(req.system, cell);
+  const fixed = externalFields(req.system, req.cell);
 
   if (fixed) {
+    const solver = new PropagatorSolver(chain, req.cell, contour, { richardson: options.richardson });
     solver.setFields(fixed);
     const dens = solver.solve();
-    notes.push('single-chain problem in prescribed fields: no self-consistency; F = −ln Q');
-    return cellSolution({ req, chain, contour, cell, fixed, t0, notes }, fixed, dens, 0, 0, true, 'single-chain');
+    const notes = ['single-chain problem in prescribed fields: no self-consistency; F = −ln Q'];
+    return record({ req, chain, contour, t0 }, fixed, dens, { prescribed: true, iterations: 0, residual: 0, converged: true, notes });
   }
 
-  const first = iterateFields(initialFields(req, chain, options), req.initial ? 0 : options.simpleSteps);
+  const first = iterate(req, initialFields(req, chain, options), req.initial ? 0 : options.simpleSteps);
   if (first.phase !== 'disordered' || !first.converged || chain.species.length === 1) return first;
   // Above the cell's own spinodal the homogeneous state is linearly unstable (Leibler's RPA:
   // N/S(q) < 0 at the cell's lamellar wave number q = 2πp/L), so a collapse onto it is the
   // mixing scheme landing on an unstable fixed point, not the answer: restart from smaller,
   // RPA-sized starts before reporting disorder. (Seen: χN = 16, L = 3.75 Rg from the default
   // cosine start, while the lamella there has F 0.44 kT below the disordered state.)
-  const q = (2 * Math.PI * req.periods) / req.length;
+  const q = req.cell.startPattern(bulkPeriodGuess(chain, chiN)).waveNumber;
   if (!(inverseStructureFactor(chain, chiN, q * q) < 0)) return first;
   const restarts: [string, SpeciesArrays][] = [
-    ['the RPA start', rpaStart(chain, chiN, req.nx, req.periods)],
-    ['a cosine start of amplitude 0.1', cosineStart(chain, chiN, req.nx, req.periods, 0.1)],
+    ['the RPA start', rpaStart(chain, chiN, req.cell)],
+    ['a cosine start of amplitude 0.1', cosineStart(chain, chiN, req.cell, 0.1)],
   ];
   for (const [name, w0] of restarts) {
-    const r = iterateFields(w0, options.simpleSteps);
+    const r = iterate(req, w0, options.simpleSteps);
     if (r.converged && r.phase === 'lamellar') {
       r.notes.unshift(`the first start collapsed to the disordered state (${first.iterations} iterations), which is linearly unstable in this cell (RPA N/S(q) < 0 at q = 2πp/L); ${name} converged to the lamella`);
       return r;
@@ -207,56 +214,73 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
   return first;
 
   /** The field iteration from w0: simple mixing for `simpleSteps` steps, then Anderson mixing. */
-  function iterateFields(w0: SpeciesArrays, simpleSteps: number): ScftSolution {
+  function iterate(req: FixedCellRequest, w0: SpeciesArrays, simpleSteps: number): ScftSolution {
+    const cell = req.cell;
+    const n = cell.n;
+    const solver = new PropagatorSolver(chain, cell, contour, { richardson: options.richardson });
     const notes: string[] = [];
-    const finish = (w: SpeciesArrays, dens: ReturnType<PropagatorSolver['solve']>, iterations: number, residual: number, converged: boolean, phase: Phase): ScftSolution =>
-      cellSolution({ req, chain, contour, cell, fixed, t0, notes }, w, dens, iterations, residual, converged, phase);
+    const finish = (w: SpeciesArrays, dens: ChainDensities, iterations: number, residual: number, converged: boolean, phase?: Phase): ScftSolution =>
+      record({ req, chain, contour, t0 }, w, dens, { prescribed: false, iterations, residual, converged, phase, notes });
     let w = w0;
-    fixGauge(chain, w);
-    const mixer = new AndersonMixer(options.andersonHistory, options.andersonMixing);
+    fixGauge(chain, w, cell);
+    const history = options.andersonHistory === 'auto' ? autoHistory(chiN) : options.andersonHistory;
+    const mixer = new AndersonMixer(history, options.andersonMixing);
     const species = chain.species;
     const pack = (u: SpeciesArrays) => {
-      const v = new Float64Array(species.length * req.nx);
-      species.forEach((k, i) => v.set(u[k], i * req.nx));
+      const v = new Float64Array(species.length * n);
+      species.forEach((k, i) => v.set(u[k], i * n));
       return v;
     };
     const unpack = (v: Float64Array): SpeciesArrays => {
-      const u = zeroFields(req.nx);
-      species.forEach((k, i) => u[k].set(v.subarray(i * req.nx, (i + 1) * req.nx)));
+      const u = zeroFields(n);
+      species.forEach((k, i) => u[k].set(v.subarray(i * n, (i + 1) * n)));
       return u;
     };
     let residual = Infinity;
+    // Divergence safeguard: when the residual grows far above the best one seen, the Anderson
+    // history is dropped, the iteration restarts from the best fields and λ is halved
+    // (common practice, no source; seen: χN = 500 from a cosine start, λ = 1).
+    let best = { residual: Infinity, w };
+    let restarts = 0;
     for (let it = 1; it <= options.maxIterations; it++) {
       solver.setFields(w);
       const dens = solver.solve();
-      const upd = fieldDeviation(chain, chiN, w, dens.phi);
+      const upd = fieldDeviation(chain, chiN, w, dens.phi, cell);
       residual = upd.residual;
+      const diverging = !Number.isFinite(residual) || !(dens.Q > 0) || (it > simpleSteps && residual > DIVERGENCE_GROWTH * best.residual);
+      if (diverging && restarts < MAX_RESTARTS && Number.isFinite(best.residual)) {
+        restarts++;
+        mixer.reset();
+        mixer.mixing = Math.max(MIN_MIXING, mixer.mixing / 2);
+        w = { A: Float64Array.from(best.w.A), B: Float64Array.from(best.w.B) };
+        continue;
+      }
       if (!Number.isFinite(residual) || !(dens.Q > 0)) {
         notes.push(`iteration diverged at step ${it} (residual ${residual}, Q ${dens.Q}); try smaller andersonMixing or more simpleSteps`);
         return finish(w, dens, it, residual, false, 'lamellar');
       }
+      if (residual < best.residual) best = { residual, w };
+      if (restarts > 0 && it === options.maxIterations) notes.push(`the iteration was restarted ${restarts} time(s) from its best fields after the residual grew, with λ lowered to ${mixer.mixing}`);
       if (residual < options.tolerance) {
-        const phase = phaseOf(chain, dens.phi);
-        if (phase === 'disordered') notes.push('the iteration collapsed to the homogeneous (disordered) state: no lamella at these parameters from this start');
-        if (phase === 'lamellar') {
-          const domains = countDomains(dens.phi.A);
-          if (domains !== req.periods) notes.push(`cell set up for ${req.periods} period(s) but the solution has ${domains} A domain(s)`);
+        const sol = finish(w, dens, it, residual, true);
+        if (sol.phase === 'disordered') notes.push('the iteration collapsed to the homogeneous (disordered) state: no lamella at these parameters from this start');
+        if (sol.phase === 'lamellar' && cell.translation) {
+          const domains = countDomains(sol.phi.A);
+          if (domains !== cell.periods) notes.push(`cell set up for ${cell.periods} period(s) but the solution has ${domains} A domain(s)`);
         }
-        return finish(w, dens, it, residual, true, phase);
+        return sol;
       }
       if (it === options.maxIterations) {
         notes.push(`not converged after ${it} iterations (residual ${residual.toExponential(3)} > tolerance ${options.tolerance})`);
-        return finish(w, dens, it, residual, false, spreadOf(dens.phi.A) < DISORDER_AMPLITUDE ? 'disordered' : 'lamellar');
+        return finish(w, dens, it, residual, false, spreadOf(dens.phi.A) < DISORDER_SPREAD.spectral ? 'disordered' : 'lamellar');
       }
       let next: SpeciesArrays;
-      if (it <= simpleSteps || options.andersonHistory === 0) {
-        next = zeroFields(req.nx);
-        const mix = it <= simpleSteps ? options.simpleMixing : options.andersonMixing;
-        for (const k of species) for (let j = 0; j < req.nx; j++) next[k][j] = w[k][j] + mix * upd.deviation[k][j];
+      if (it <= simpleSteps || history === 0) {
+        next = mixedFieldUpdate(chain, chiN, w, dens.phi, it <= simpleSteps ? options.simpleMixing : mixer.mixing, cell).w;
       } else {
         next = unpack(mixer.next(pack(w), pack(upd.deviation)));
+        fixGauge(chain, next, cell);
       }
-      fixGauge(chain, next);
       w = next;
     }
     throw new Error('unreachable');

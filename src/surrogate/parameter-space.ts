@@ -7,7 +7,7 @@
 import { InputError } from '../io/errors.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
-import { buildChain, contourGrid, ModelError } from '../physics/chain.js';
+import { buildChain, ModelError } from '../physics/chain.js';
 import type { Chain } from '../physics/chain.js';
 import { Xorshift128 } from '../numerics/random.js';
 import { pointSystem } from '../sweep/grid.js';
@@ -147,17 +147,5 @@ export class ParameterSpace {
     return PARAMETER_NAMES.filter((n) => this.axes.some((a) => a.name === n) || n === 'chiN')
       .map((n) => `${PARAMETER_LABELS[n].symbol} = ${+p[n].toPrecision(6)}`)
       .join(', ');
-  }
-}
-
-/** Check at set-up that every anchor's chain fits the contour grid (a bad f stops the run at once, exit 2). */
-export function checkSpace(space: ParameterSpace, ns: number): void {
-  for (const p of space.anchors()) {
-    try {
-      contourGrid(space.chain(p), ns);
-    } catch (e) {
-      if (e instanceof ModelError) throw new InputError(`${e.message} (at the anchor ${space.describe(p)})`);
-      throw e;
-    }
   }
 }

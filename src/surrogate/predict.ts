@@ -4,7 +4,6 @@
  * Units: x and the period in Rg, t = x/L, fields and F in kT per chain.
  */
 import { InputError } from '../io/errors.js';
-import { trigInterpolate } from '../physics/fields.js';
 import type { ParameterPoint } from './parameter-space.js';
 import type { SurrogateModel } from './surrogate-model.js';
 
@@ -59,7 +58,7 @@ export function predictAt(model: SurrogateModel, p: ParameterPoint, opts: { poin
   const [sol] = model.solutions([p], nx);
   const L = sol.period;
   const x = Float64Array.from({ length: n }, (_, j) => (j * L) / n);
-  const at = (u: Float64Array) => Array.from(n === nx ? u : trigInterpolate(u, L, x));
+  const at = (u: Float64Array) => Array.from(n === nx ? u : sol.cell.interpolate(u, x));
   const out = {
     phiA: at(sol.phi.A),
     phiB: at(sol.phi.B),

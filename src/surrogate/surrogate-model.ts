@@ -13,6 +13,7 @@
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
 import { fixGauge } from '../physics/scft-equations.js';
 import { solveInFields } from '../spectral/scft-solver.js';
 import type { Tf } from '../autodiff/tf.js';
@@ -83,10 +84,10 @@ export class SurrogateModel {
     return points.map((p, k) => {
       // The pressure gauge is a convention (mean of (w_A + w_B)/2 = 0, as the reference): fix it exactly.
       fixGauge(this.space.chain(p), fields[k]);
-      const sol = solveInFields({ system: this.space.system(p), length: this.period(p), periods: 1, nx, ns, options: this.config.reference, fields: fields[k] });
+      const sol = solveInFields({ system: this.space.system(p), cell: new PeriodicCell(this.period(p), nx, 1), contour: ns, options: this.config.reference, fields: fields[k] });
       return {
         ...sol,
-        solver: 'network' as const,
+        solver: 'surrogate' as const,
         seconds: sol.seconds + shared,
         notes: [`surrogate at ${this.space.describe(p)}: fields from the network, period L(θ) = ${sol.period.toFixed(6)} Rg from the anchors; ${sol.notes.join('; ')}; residual = max |w_out − w| of these fields (kT)`],
       };

@@ -14,7 +14,7 @@ import type { ScftSolution } from '../physics/result.js';
 import { median } from '../numerics/median.js';
 import { heldOutErrors, onReferenceCell, summarizeErrors } from './error-map.js';
 import type { HeldOutError } from './error-map.js';
-import { checkSpace, ParameterSpace } from './parameter-space.js';
+import { ParameterSpace } from './parameter-space.js';
 import type { ParameterPoint } from './parameter-space.js';
 import type { PeriodModel } from './period-model.js';
 import { solveReference } from './reference-solves.js';
@@ -86,7 +86,6 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
   const { config } = opts;
   const stage = opts.onStage ?? (() => {});
   const space = new ParameterSpace(config);
-  checkSpace(space, config.cell.ns);
   const backendKind = opts.backend ?? config.backend;
 
   const anchorPoints = space.anchors();

@@ -9,7 +9,6 @@ import type { SolveConfig } from '../io/schemas/solve-config.js';
 import type { SweepConfig } from '../io/schemas/sweep-config.js';
 import { systemSchema } from '../physics/chain-schema.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
-import { buildChain, contourGrid, ModelError } from '../physics/chain.js';
 
 export interface SweepPoint {
   index: number;
@@ -48,19 +47,4 @@ export function pointSystem(config: Pick<SweepConfig, 'chain'>, p: Pick<SweepPoi
 /** The solve config of one point: the library's reference solve does the rest. */
 export function pointSolveConfig(config: SweepConfig, p: SweepPoint): Pick<SolveConfig, 'system' | 'cell' | 'solver' | 'output'> {
   return { system: pointSystem(config, p), cell: config.cell, solver: config.reference, output: { propagators: false } };
-}
-
-/**
- * Check every f of the grid against the contour grid before any work starts, so a bad
- * value stops the sweep at once (exit 2) instead of failing points hours in.
- */
-export function checkGrid(config: SweepConfig): void {
-  for (const f of new Set(axisValues(config.grid.f))) {
-    try {
-      contourGrid(buildChain(pointSystem(config, { chiN: 0, f, segmentLengthRatio: 1 }).chain), config.cell.ns);
-    } catch (e) {
-      if (e instanceof ModelError) throw new InputError(`${e.message} (at grid.f = ${f})`);
-      throw e;
-    }
-  }
 }

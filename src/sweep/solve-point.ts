@@ -6,6 +6,7 @@
  */
 import type { SweepConfig } from '../io/schemas/sweep-config.js';
 import { summarize } from '../io/solution-file.js';
+import { RunFailure } from '../io/errors.js';
 import { solveFromConfig } from '../spectral/solve-from-config.js';
 import type { SweepPoint } from './grid.js';
 import { pointSolveConfig } from './grid.js';
@@ -57,10 +58,10 @@ export function solveSweepPoint(config: SweepConfig, point: SweepPoint): SweepPo
       notes: s.notes,
     };
   } catch (e) {
-    // A point the solver gives up on (a period trial that does not converge, no bracket
-    // of the minimum: plain Errors) is a result of the sweep, not the end of it: the other
-    // points are still worth having. Bad input and bugs (other error classes) still stop it.
-    if (!(e instanceof Error) || e.constructor !== Error) throw e;
+    // A point the solver gives up on (a period search that fails: RunFailure) is a result of
+    // the sweep, not the end of it: the other points are still worth having. Bad input and
+    // bugs (other error classes) still stop it.
+    if (!(e instanceof RunFailure)) throw e;
     return {
       ...point,
       phase: 'failed',

@@ -193,7 +193,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   } else if (config.warmStart.type !== 'none' && config.warmStart.steps > 0) {
     const ws = config.warmStart;
     const fromReference = ws.type === 'reference';
-    const w = fromReference ? reference.w : cosineStart(chain, config.system.chiN, reference.nx, reference.periods, 0.3);
+    const w = fromReference ? reference.w : cosineStart(chain, config.system.chiN, reference.cell, 0.3);
     stage(fromReference ? 'warm start: fitting the networks to the spectral solution' : 'cold start: fitting the field network to a cosine guess');
     const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.steps, ws.learningRate);
     training.warmStart = r;

@@ -1,11 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { brentRoot } from '../../src/numerics/brent-root.js';
 import { deltaChi2Level, LEVELS, studentT } from '../../src/inverse/confidence.js';
-import { PeriodicProfile, resampleSpectral } from '../../src/inverse/periodic-profile.js';
+import { FourierSeries } from '../../src/physics/cell/fourier-series.js';
+import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
+import { conventionShift } from '../../src/physics/phase-convention.js';
 import { GaussianNoise, Xorshift128 } from '../../src/numerics/random.js';
 import { fitOffset } from '../../src/inverse/offset-fit.js';
 import { LamellaModel } from '../../src/inverse/lamella-model.js';
-import { optimizePeriod } from '../../src/spectral/period-search.js';
+import { findEquilibriumPeriod } from '../../src/spectral/period-search.js';
 
 const smooth = (x: number, L: number) => Math.exp(Math.cos((2 * Math.PI * x) / L)) + 0.3 * Math.sin((4 * Math.PI * x) / L);
 
@@ -14,7 +16,7 @@ describe('band-limited interpolation of a periodic grid function', () => {
     const L = 3.7;
     const n = 32;
     const u = Float64Array.from({ length: n }, (_, j) => smooth((j * L) / n, L));
-    const p = PeriodicProfile.fromGrid(u, L);
+    const p = FourierSeries.fromGrid(u, L);
     const grid = p.evaluateShifted(Float64Array.from({ length: n }, (_, j) => (j * L) / n), 0, new Float64Array(n));
     for (let j = 0; j < n; j++) expect(Math.abs(grid[j] - u[j])).toBeLessThan(1e-13);
     // Common practice, no source: the Fourier coefficients of an analytic periodic function decay
@@ -30,22 +32,23 @@ describe('band-limited interpolation of a periodic grid function', () => {
     const n = 16;
     const k = (2 * Math.PI * 2) / L;
     const u = Float64Array.from({ length: n }, (_, j) => 0.5 + 0.2 * Math.cos((k * j * L) / n));
-    const b = PeriodicProfile.fromGrid(u, L).blurred(0.3);
+    const b = FourierSeries.fromGrid(u, L).blurred(0.3);
     const x = Float64Array.of(0, 0.4, 1.3);
     const v = b.evaluateShifted(x, 0, new Float64Array(3));
     for (let i = 0; i < 3; i++) expect(v[i]).toBeCloseTo(0.5 + 0.2 * Math.exp(-0.5 * k * k * 0.09) * Math.cos(k * x[i]), 13);
   });
 
-  it('recentre() moves the peak of the fundamental to x = 0; spectral resampling is exact for band-limited data', () => {
+  it('the phase convention moves the peak of the fundamental to x = 0; spectral resampling is exact for band-limited data', () => {
     const L = 3;
     const n = 32;
     const u = Float64Array.from({ length: n }, (_, j) => 0.5 + 0.3 * Math.cos((2 * Math.PI * ((j * L) / n - 0.8)) / L));
-    const r = PeriodicProfile.fromGrid(u, L).recentre();
-    expect(r.shift).toBeCloseTo(0.8, 12);
-    expect(r.evaluateShifted(Float64Array.of(0), 0, new Float64Array(1))[0]).toBeCloseTo(0.8, 12);
-    const up = resampleSpectral(u, 64);
+    const cell = new PeriodicCell(L, n, 1);
+    const shift = conventionShift(cell, u);
+    expect(shift).toBeCloseTo(0.8, 12);
+    expect(cell.translation.shift(u, shift)[0]).toBeCloseTo(0.8, 12);
+    const up = cell.resample(u, 64);
     for (let j = 0; j < 64; j++) expect(up[j]).toBeCloseTo(0.5 + 0.3 * Math.cos((2 * Math.PI * ((j * L) / 64 - 0.8)) / L), 12);
-    const down = resampleSpectral(up, 32);
+    const down = cell.withPoints(64).resample(up, 32);
     for (let j = 0; j < 32; j++) expect(down[j]).toBeCloseTo(u[j], 12);
   });
 
@@ -53,7 +56,7 @@ describe('band-limited interpolation of a periodic grid function', () => {
     const L = 3.2;
     const n = 64;
     const u = Float64Array.from({ length: n }, (_, j) => smooth((j * L) / n, L));
-    const p = PeriodicProfile.fromGrid(u, L);
+    const p = FourierSeries.fromGrid(u, L);
     const x = Float64Array.from({ length: 50 }, (_, i) => 0.1 + i * 0.13);
     const phi = p.evaluateShifted(x, 2.345, new Float64Array(50));
     const r = fitOffset(p, { x, phi, weight: new Float64Array(50).fill(1) });
@@ -114,7 +117,7 @@ describe('stress-free period of the forward model', () => {
     const chain = { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } };
     const m = new LamellaModel({ chain, nx: 32, ns: 60 });
     const eq = m.equilibrium(15);
-    const ref = optimizePeriod({ system: { chain, chiN: 15 }, periods: 1, nx: 32, ns: 60, options: { periodTolerance: 1e-7 } });
+    const ref = findEquilibriumPeriod({ system: { chain, chiN: 15 }, cell: new PeriodicCell(1, 32, 1), contour: 60, options: { periodTolerance: 1e-7 } });
     // F(L) is flat at its minimum, so the minimisation fixes L only to ~1e-6 at a field tolerance of 1e-9.
     expect(Math.abs(eq.period / ref.period - 1)).toBeLessThan(1e-5);
     expect(Math.abs(eq.solution.freeEnergy - ref.solution.freeEnergy)).toBeLessThan(1e-10);

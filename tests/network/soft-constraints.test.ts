@@ -21,7 +21,8 @@ import { PropagatorNet } from '../../src/network/propagator-net.js';
 import { buildScftNetworks } from '../../src/network/scft-networks.js';
 import { ScftProblem } from '../../src/network/problem/scft-problem.js';
 import { trainRun } from '../../src/training/train-run.js';
-import { contourNodes, gridX } from '../../src/network/contour-nodes.js';
+import { contourFromSteps } from '../../src/physics/contour.js';
+import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import { buildChain } from '../../src/physics/chain.js';
 import { expectClose } from '../helpers/expect-close.js';
 import { fd, logQ64, readMlp } from './reference64.js';
@@ -30,9 +31,12 @@ const L = 3.2; // cell length in Rg
 // Short training runs below (150 Adam steps after a 300-step warm start, 2×32 networks), measured
 // here: total loss fell to 0.29 (soft periodicity) and 0.11 (soft IC) of its first logged value;
 // φA relative L2 error 0.10 and 0.23 (exact forms on the same budget: 0.027; these runs are
-// far from converged, the README compares the variants on the full budget).
+// far from converged, the README compares the variants on the full budget). Since every solution
+// puts an A-domain centre at x = 0 (physics/phase-convention.ts), the cell's ends cut an A domain,
+// and a soft periodicity misses there: φA relative L2 0.32 on the same run (the ends fell in a B
+// domain before, where φA is small and its error counts for little). The bound says so.
 const LOSS_FALL = 0.5;
-const PHI_BOUND = { periodicity: 0.15, initial: 0.35 };
+const PHI_BOUND = { periodicity: 0.4, initial: 0.35 };
 const F = 0.4; // junction of an A0.4-B0.6 diblock
 
 /** A channel read out at full [rows, cols] size (broadcast rows expanded; null is zero). */
@@ -217,10 +221,10 @@ describe.each(['cpu', 'wasm'] as BackendName[])('soft constraints on the %s back
       for (const s of nodes) acc += (u(0, s) - u(L, s)) ** 2 + (fd((t) => u(t, s), 0).d1 - fd((t) => u(t, s), L).d1) ** 2;
       return acc / nodes.length;
     };
-    const nodes = contourNodes(soft.chain, 4).s;
-    const nodesR = contourNodes(soft.nets.reversed, 4).s;
+    const nodes = contourFromSteps(soft.chain, soft.chain.blocks.map(() => 4)).s;
+    const nodesR = contourFromSteps(soft.nets.reversed, soft.nets.reversed.blocks.map(() => 4)).s;
     const periodicity64 = 0.5 * (ends(uq, nodes) + ends(uqd, nodesR));
-    const xg = gridX(L, 8);
+    const xg = new PeriodicCell(L, 8).x;
     const initial64 = [...xg].reduce((a, x) => a + uq(x, 0) ** 2 + uqd(x, 0) ** 2, 0) / (2 * xg.length);
     const t = tf.tidy(() => {
       const terms = soft.problem.terms();

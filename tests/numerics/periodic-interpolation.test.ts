@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { bandLimitedFit } from '../../src/numerics/band-limited-fit.js';
-import { trigInterpolationMatrix } from '../../src/numerics/trig-interpolation.js';
+import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import { fieldAtPoints } from '../../src/physics/fields.js';
 
 const L = 3.7;
@@ -12,7 +12,7 @@ describe('periodic interpolation', () => {
   it('the trigonometric interpolation matrix is exact for a band-limited function', () => {
     // Sampling theorem (common practice, no source): modes below n/2 are reproduced exactly.
     const n = 16;
-    const m = trigInterpolationMatrix(n, L, points);
+    const m = new PeriodicCell(L, n).interpolationMatrix(points);
     const u = grid(n);
     points.forEach((t, i) => {
       let v = 0;
@@ -25,7 +25,7 @@ describe('periodic interpolation', () => {
     // Convolution theorem: a Gaussian of standard deviation W has Fourier transform exp(−k²W²/2).
     const n = 32;
     const W = 0.2;
-    const m = trigInterpolationMatrix(n, L, points, W);
+    const m = new PeriodicCell(L, n).interpolationMatrix(points, W);
     const u = grid(n);
     const k = (q: number) => (2 * Math.PI * q) / L;
     const blurred = (t: number) => 0.4 + Math.exp(-0.5 * (k(2) * W) ** 2) * Math.cos(k(2) * t) + 0.3 * Math.exp(-0.5 * (k(5) * W) ** 2) * Math.sin(k(5) * t);

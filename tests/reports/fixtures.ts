@@ -4,6 +4,7 @@
  * χN, relabelled — it only exercises the overlay and error plots, it is not a network.
  */
 import { solveFixedCell } from '../../src/spectral/scft-solver.js';
+import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import type { ScftSolution } from '../../src/physics/result.js';
 import type { InversionInput, ReportInput, RunInfo, TrainingInput } from '../../src/reports/report-inputs.js';
 
@@ -13,7 +14,7 @@ export const NX = 32;
 export const NS = 40;
 
 export function solveAt(chiN: number, initial?: ScftSolution): ScftSolution {
-  return solveFixedCell({ system: { ...SYSTEM, chiN }, length: LENGTH, periods: 1, nx: NX, ns: NS, keepPropagators: true, initial: initial?.w });
+  return solveFixedCell({ system: { ...SYSTEM, chiN }, cell: new PeriodicCell(LENGTH, NX, 1), contour: NS, keepPropagators: true, initial: initial?.w });
 }
 
 export function runInfo(kind: string): RunInfo {

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { buildChain, contourGrid } from '../../src/physics/chain.js';
+import { buildChain } from '../../src/physics/chain.js';
+import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
+import { contourWithTotal } from '../../src/physics/contour.js';
 import type { SpeciesArrays } from '../../src/physics/fields.js';
 import { PropagatorSolver } from '../../src/spectral/propagator-solver.js';
 import { crankNicolsonQ1 } from '../helpers/crank-nicolson.js';
@@ -8,7 +10,7 @@ const homopolymer = buildChain({ type: 'homopolymer', species: 'A', segmentLengt
 
 function solveIn(wA: Float64Array, length: number, ns: number, richardson = true, chain = homopolymer) {
   const nx = wA.length;
-  const solver = new PropagatorSolver(chain, { length, nx }, contourGrid(chain, ns), { richardson });
+  const solver = new PropagatorSolver(chain, new PeriodicCell(length, nx), contourWithTotal(chain, ns), { richardson });
   const w: SpeciesArrays = { A: wA, B: new Float64Array(nx) };
   solver.setFields(w);
   return solver.solve();
@@ -91,7 +93,7 @@ describe('pseudo-spectral MDE', () => {
     // Common practice, no source: both propagators integrate the same chain partition function.
     const chain = buildChain({ type: 'blocks', blocks: [{ species: 'A', fraction: 0.3, segmentLength: 1.4 }, { species: 'B', fraction: 0.5, segmentLength: 1 }, { species: 'A', fraction: 0.2, segmentLength: 1.4 }] });
     const nx = 32;
-    const solver = new PropagatorSolver(chain, { length: 3.7, nx }, contourGrid(chain, 100));
+    const solver = new PropagatorSolver(chain, new PeriodicCell(3.7, nx), contourWithTotal(chain, 100));
     solver.setFields({ A: cosField(nx, 3, 1, 1), B: cosField(nx, -2, 2, -0.5) });
     const r = solver.solve();
     expect(chain.palindromic).toBe(false);

@@ -15,7 +15,8 @@ import { relL2 } from '../../src/physics/solution-metrics.js';
 import { ParameterSpace } from '../../src/surrogate/parameter-space.js';
 import { monotoneCubic } from '../../src/surrogate/period-model.js';
 import { predictAt } from '../../src/surrogate/predict.js';
-import { canonicalPhase } from '../../src/surrogate/reference-solves.js';
+import { inConvention } from '../../src/physics/phase-convention.js';
+import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import { loadSurrogate } from '../../src/surrogate/surrogate-checkpoint.js';
 import { surrogateRun } from '../../src/surrogate/surrogate-run.js';
 import type { SurrogateRunResult } from '../../src/surrogate/surrogate-run.js';
@@ -175,10 +176,11 @@ describe('surrogate over χN and b_A/b_B (two parameters)', () => {
 });
 
 describe('surrogate set-up', () => {
-  it('refuses a range of f with the reason (the contour grid needs ns·f even)', () => {
-    const r = surrogateConfigSchema.safeParse({ version: 1, kind: 'surrogate', parameters: { chiN: { min: 12, max: 20 }, f: { min: 0.4, max: 0.5 } } });
+  it('takes a range of f (each block has its own contour steps), and refuses an empty one', () => {
+    expect(surrogateConfigSchema.safeParse({ version: 1, kind: 'surrogate', parameters: { chiN: { min: 12, max: 20 }, f: { min: 0.4, max: 0.5 } } }).success).toBe(true);
+    const r = surrogateConfigSchema.safeParse({ version: 1, kind: 'surrogate', parameters: { chiN: { min: 12, max: 20 }, f: { min: 0.5, max: 0.4 } } });
     expect(r.success).toBe(false);
-    expect(r.error!.issues[0].message).toMatch(/a range of f is not supported/);
+    expect(r.error!.issues[0].message).toMatch(/min < max/);
   });
 
   it('refuses a range whose anchors are disordered, naming the point', async () => {
@@ -193,9 +195,10 @@ describe('surrogate set-up', () => {
     expect(space.cellCentres().map((p) => p.chiN)).toEqual([13, 15, 17, 19]);
     const nx = 8;
     const phiA = Float64Array.from({ length: nx }, (_, j) => 0.5 - 0.4 * Math.cos((2 * Math.PI * j) / nx));
-    const sol = { nx, phi: { A: phiA, B: phiA.map((v) => 1 - v) }, w: { A: phiA.slice(), B: phiA.slice() }, notes: [] } as never;
-    const c = canonicalPhase(sol);
+    const cell = new PeriodicCell(3.7, nx, 1);
+    const sol = { phi: { A: phiA, B: phiA.map((v) => 1 - v) }, w: { A: phiA.slice(), B: phiA.slice() } };
+    const c = inConvention(cell, sol);
     expect(c.phi.A[0]).toBeCloseTo(0.9, 12);
-    expect(canonicalPhase(c)).toBe(c);
+    expect(inConvention(cell, c)).toBe(c);
   });
 });

@@ -59,15 +59,16 @@ describe('mesofield sweep', () => {
     expect(existsSync(join(dir, 'out'))).toBe(false);
   });
 
-  it('other bad input exits 2: workers, a grid value the contour grid cannot take, a file start, flag mixes', () => {
+  it('other bad input exits 2: workers, a file start, flag mixes; any f is solved (each block takes its own contour steps)', () => {
     const dir = tmp();
     const cfg = writeConfig(dir, { chiN: [12] });
     const workers = runCli(['sweep', cfg, '--workers', '1.5']);
     expect(workers.code).toBe(2);
     expect(workers.stderr).toMatch(/--workers: got 1\.5; allowed: a whole number from 1 to 64/);
-    const badF = runCli(['sweep', writeConfig(dir, { chiN: [12], f: [0.5, 0.33] }), '--out', join(dir, 'o')]);
-    expect(badF.code).toBe(2);
-    expect(badF.stderr).toMatch(/cell\.ns: got 40; each block needs an even whole number .* \(at grid\.f = 0\.33\)/);
+    // f = 0.33 gives no even whole number of steps of one size on both blocks; per-block steps solve it.
+    const anyF = runCli(['sweep', writeConfig(dir, { chiN: [14], f: [0.5, 0.33] }), '--out', join(dir, 'f033'), '--json']);
+    expect(anyF.code).toBe(0);
+    expect(JSON.parse(anyF.stdout).points.map((p: { phase: string }) => p.phase)).toEqual(['lamellar', 'lamellar']);
     const range = runCli(['sweep', writeConfig(dir, { chiN: { from: 10, to: 12, count: 0 } })]);
     expect(range.code).toBe(2);
     expect(range.stderr).toMatch(/grid\.chiN/);

@@ -5,7 +5,7 @@
  */
 import { z } from 'zod';
 import { chainSchema } from '../../physics/chain-schema.js';
-import { cellSchema, spectralSchema } from './spectral-schema.js';
+import { contourStepsSchema, gridPointsSchema, spectralSchema } from './spectral-schema.js';
 
 const positive = z.number().gt(0);
 
@@ -16,7 +16,7 @@ export const invertConfigSchema = z
     /** The chain of known architecture; χN is the unknown, so there is no chiN here. */
     system: z.object({ chain: chainSchema }).strict(),
     /** Grid of the model lamella (one period per cell). */
-    grid: cellSchema.pick({ nx: true, ns: true }).prefault({}),
+    grid: z.object({ nx: gridPointsSchema.default(64), ns: contourStepsSchema.default(100) }).strict().prefault({}),
     /** "equilibrium": the stress-free period at each trial χN; "free": fitted; a number: given. */
     period: z.union([z.enum(['equilibrium', 'free']), positive]).default('equilibrium'),
     /** Search range of χN [lo, hi]; default [1.01 (χN)_spinodal, 60]. */

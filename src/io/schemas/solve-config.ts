@@ -8,7 +8,7 @@ export const solveConfigSchema = z
     version: z.literal(1),
     kind: z.literal('solve'),
     system: systemSchema,
-    cell: cellSchema.default({ period: 'optimize', periods: 1, nx: 64, ns: 100 }),
+    cell: cellSchema.prefault({}),
     solver: spectralSchema.default(spectralSchema.parse({})),
     output: z
       .object({

@@ -9,7 +9,7 @@
  */
 import { z } from 'zod';
 import { fieldNetworkSchema } from './network-schema.js';
-import { cellSchema } from './spectral-schema.js';
+import { contourStepsSchema, gridPointsSchema } from './spectral-schema.js';
 import { sweepConfigSchema } from './sweep-config.js';
 
 /** A trained range [min, max] with `anchors` evenly spaced reference points (ends included). */
@@ -35,21 +35,14 @@ export const surrogateConfigSchema = z
       .object({
         /** χN range; the lamella must be ordered at every anchor (above the order–disorder transition). */
         chiN: range(z.number().gt(0).max(500)),
-        /**
-         * A fraction: fixed. The spectral solves put ns·f contour steps on the A block, an even
-         * whole number, so f cannot vary continuously: train one surrogate per f.
-         */
-        f: z
-          .number({ error: (issue) => (typeof issue.input === 'object' && issue.input !== null ? 'a range of f is not supported (the contour grid needs ns·f to be an even whole number, so f cannot vary continuously): give one fixed f and train one surrogate per f' : undefined) })
-          .gt(0)
-          .lt(1)
-          .default(0.5),
+        /** A fraction: a fixed number, or a range (each block takes its own contour steps, so f may vary continuously). */
+        f: z.union([z.number().gt(0).lt(1), range(z.number().gt(0).lt(1))]).default(0.5),
         /** Conformational asymmetry b_A/b_B: a fixed number, or a range. */
         segmentLengthRatio: z.union([z.number().gt(0).lte(10), range(z.number().gt(0).lte(10))]).default(1),
       })
       .strict(),
     /** Grid of every reference solve (anchors, extra data, held-out points) and of the surrogate's single-chain solve; one period per cell. */
-    cell: cellSchema.pick({ nx: true, ns: true }).prefault({}),
+    cell: z.object({ nx: gridPointsSchema.default(64), ns: contourStepsSchema.default(100) }).strict().prefault({}),
     /** Spectral solver settings of every reference solve (start "file" is not allowed). */
     reference: sweepConfigSchema.shape.reference,
     backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),

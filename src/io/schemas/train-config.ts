@@ -52,7 +52,13 @@ export const trainConfigSchema = z
     collocation: z
       .object({
         /** Fixed tensor grid: x points, and contour nodes per block (even: Simpson's rule for φ). */
-        nx: z.number().int().min(8).max(512).default(32),
+        nx: z
+          .number()
+          .int()
+          .min(8)
+          .max(512)
+          .refine((n) => n % 2 === 0, { message: 'must be even (the grid of the periodic cell; its Fourier interpolant needs an even count)' })
+          .default(32),
         nodesPerBlock: z
           .number()
           .int()

@@ -1,7 +1,8 @@
 /**
  * Densities from the network propagators on the fixed tensor grid (SCFT-NOTES.md):
  *   Q = (1/L) ∫ q(x, 1) dx,   φ_K(x) = (1/Q) Σ_i c^K_i q(x, s_i) q†(x, 1 − s_i),
- * with c^K the Simpson weights of contour-nodes.ts. Grid values are laid out s-major:
+ * with c^K the Simpson weights of physics/contour.ts (the one quadrature; tests/network check
+ * these tensor densities against its float64 form). Grid values are laid out s-major:
  * row i holds the nx points at node s_i (q) or at node s'_i of the reversed chain (q†);
  * s'_i = 1 − s_{n−1−i}, so q†(x, 1 − s_i) is row n−1−i of the q† grid.
  */

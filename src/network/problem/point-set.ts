@@ -13,7 +13,7 @@ import type { Tf } from '../../autodiff/tf.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
 import type { Chain } from '../../physics/chain.js';
 import { fieldAtPoints } from '../../physics/fields.js';
-import { speciesAt } from '../contour-nodes.js';
+import { blockAt } from '../../physics/contour.js';
 import type { PropagatorNet, PropagatorPoints } from '../propagator-net.js';
 import type { ScftNetworks } from '../scft-networks.js';
 
@@ -46,7 +46,7 @@ export function preparePointSet(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
   const D = new Float32Array(n);
   const mA = new Float32Array(n);
   for (let i = 0; i < n; i++) {
-    const at = speciesAt(chain, s[i]);
+    const at = chain.blocks[blockAt(chain, s[i])];
     D[i] = at.diffusivity;
     mA[i] = at.species === 'A' ? 1 : 0;
   }

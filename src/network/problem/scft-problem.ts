@@ -16,7 +16,7 @@ import type { Tf } from '../../autodiff/tf.js';
 import type { TrainConfig } from '../../io/schemas/train-config.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
 import { childSeed, Xorshift128 } from '../../numerics/random.js';
-import type { ContourNodes } from '../contour-nodes.js';
+import type { Contour } from '../../physics/contour.js';
 import { gridDensities } from '../losses/densities.js';
 import { mdeResidual } from '../losses/mde-residual.js';
 import { fieldEquationTerms, initialTerm, LOSS_TERMS, mdeTerm, periodicityTerm, weightedTotal } from '../losses/terms.js';
@@ -55,11 +55,11 @@ export class ScftProblem {
     this.merged = new MergedPoints(tf, nets, system, this.fields);
   }
 
-  get nodes(): ContourNodes {
+  get nodes(): Contour {
     return this.grid.nodes;
   }
 
-  get nodesReversed(): ContourNodes {
+  get nodesReversed(): Contour {
     return this.grid.nodesReversed;
   }
 
@@ -222,7 +222,7 @@ export class ScftProblem {
     const mde = mdeTerm(tf, residuals);
     const zero = tf.scalar(0);
     const periodicity = grid.ends ? periodicityTerm(tf, nets.q.logQ(grid.ends.q), nets.qDagger.logQ(grid.ends.qDagger)) : zero;
-    // Row 0 of each grid is s = 0 (contour-nodes.ts).
+    // Row 0 of each grid is s = 0 (physics/contour.ts).
     const atStart = (u: Tensor) => tf.slice(u, [0, 0], [nx, -1]);
     const initial = this.isActive('initial') ? initialTerm(tf, atStart(uq), atStart(uqDagger)) : zero;
     const own = { mde, periodicity, initial };

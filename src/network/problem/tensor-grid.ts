@@ -1,7 +1,7 @@
 /**
  * The fixed points of one SCFT problem, prepared once:
- *   - a tensor grid per propagator, x_j = jL/nx (j < nx) × the Simpson contour nodes of
- *     contour-nodes.ts, laid out s-major (row i holds the nx points at node s_i); it carries
+ *   - a tensor grid per propagator, the cell's grid x_j = jL/nx (j < nx) × the contour nodes
+ *     of physics/contour.ts (nodesPerBlock Simpson intervals per block), laid out s-major (row i holds the nx points at node s_i); it carries
  *     both the MDE residual and the quadrature of φ (losses/densities.ts), so one forward
  *     pass with derivative channels gives every term;
  *   - the field network's features at the grid's x;
@@ -13,16 +13,17 @@ import type * as TfModule from '@tensorflow/tfjs';
 import type { Jet } from '../../autodiff/jet.js';
 import type { Tf } from '../../autodiff/tf.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
-import { contourNodes, gridX } from '../contour-nodes.js';
-import type { ContourNodes } from '../contour-nodes.js';
+import { PeriodicCell } from '../../physics/cell/periodic-cell.js';
+import { contourFromSteps } from '../../physics/contour.js';
+import type { Contour } from '../../physics/contour.js';
 import type { PropagatorNet, PropagatorPoints } from '../propagator-net.js';
 import type { ScftNetworks } from '../scft-networks.js';
 import { preparePointSet } from './point-set.js';
 import type { PointSet } from './point-set.js';
 
 export class TensorGrid {
-  readonly nodes: ContourNodes;
-  readonly nodesReversed: ContourNodes;
+  readonly nodes: Contour;
+  readonly nodesReversed: Contour;
   readonly x: Float64Array;
   readonly nx: number;
   /** [1, nodes] Simpson weights per species (losses/densities.ts). */
@@ -35,9 +36,9 @@ export class TensorGrid {
   readonly ends: { q: PropagatorPoints; qDagger: PropagatorPoints } | null;
 
   constructor(tf: Tf, nets: ScftNetworks, system: SystemSpec, nx: number, nodesPerBlock: number) {
-    this.nodes = contourNodes(nets.chain, nodesPerBlock);
-    this.nodesReversed = contourNodes(nets.reversed, nodesPerBlock);
-    this.x = gridX(nets.length, nx);
+    this.nodes = contourFromSteps(nets.chain, nets.chain.blocks.map(() => nodesPerBlock), 'collocation.nodesPerBlock');
+    this.nodesReversed = contourFromSteps(nets.reversed, nets.reversed.blocks.map(() => nodesPerBlock), 'collocation.nodesPerBlock');
+    this.x = new PeriodicCell(nets.length, nx, 1, 'collocation').x;
     this.nx = nx;
     const nn = this.nodes.s.length;
     const xs = new Float64Array(nn * nx);
