@@ -4,29 +4,25 @@
  * (spectral, network, surrogate) calls these.
  *
  * Conventions: fields and free energies in kT per chain; cell averages ⟨u⟩ = (1/L)∫u dx are the
- * cell's own quadrature (cell.mean). A cell may carry a total density φ₀(x) (a film's wall
- * layer; 1 elsewhere) and a surface field h(x) (a film's wall affinity for A); both are absent
- * (φ₀ = 1, h = 0) in a periodic cell.
+ * cell's own quadrature (cell.mean). A cell may carry a surface field h(x) (a film's wall
+ * affinity for A: it lowers w_A and raises w_B); a periodic cell has none (h = 0).
  *
  * Self-consistency (the usual pressure-field elimination, e.g. Matsen's reviews of SCFT):
- * at a solution w_A = χN φ_B − h + ξ and w_B = χN φ_A + h + ξ with φ_A + φ_B = φ₀, so adding
- * them gives ξ = (w_A + w_B − χN φ₀)/2. For an input w this ξ defines the output
+ * at a solution w_A = χN φ_B − h + ξ and w_B = χN φ_A + h + ξ with φ_A + φ_B = 1, so adding
+ * them gives ξ = (w_A + w_B − χN)/2. For an input w this ξ defines the output
  *   w_A' = χN φ_B[w] − h + ξ,  w_B' = χN φ_A[w] + h + ξ,
  * and d = w' − w vanishes exactly when both w_A − w_B = χN(φ_B − φ_A) − 2h and
- * φ_A + φ_B = φ₀ hold (χN > 0). A one-species melt has only the pressure: w' = w + (φ − φ₀).
+ * φ_A + φ_B = 1 hold (χN > 0). A one-species melt has only the pressure: w' = w + (φ − 1).
  *
  * Free energy per chain (the ξ term vanishes at a solution):
- *   F = −ln Q + ln⟨φ₀⟩ + ⟨χN φ_A φ_B − h (φ_A − φ_B) − w_A φ_A − w_B φ_B⟩ / ⟨φ₀⟩,
- * Q = ⟨q(x, 1)⟩; the ln⟨φ₀⟩ term is the chains' translational entropy in the volume they fill
- * (it matters when a film's wall layer takes a different share of different thicknesses).
- * With φ₀ = 1, h = 0 this is F = −ln Q + ⟨χN φ_A φ_B − w_A φ_A − w_B φ_B⟩.
+ *   F = −ln Q + ⟨χN φ_A φ_B − h (φ_A − φ_B) − w_A φ_A − w_B φ_B⟩,   Q = ⟨q(x, 1)⟩.
  */
 import type { Chain } from './chain.js';
 import type { Cell } from './cell/cell.js';
 import type { SpeciesArrays } from './fields.js';
 
 /** The constraints the equations need from a cell (periodic cells have neither). */
-export type FieldCell = Pick<Cell, 'mean' | 'totalDensity' | 'surfaceField'>;
+export type FieldCell = Pick<Cell, 'mean' | 'surfaceField'>;
 
 export interface FieldUpdate {
   /** w' − w per species present on the chain. */
@@ -37,22 +33,20 @@ export interface FieldUpdate {
 
 export function fieldDeviation(chain: Chain, chiN: number, w: SpeciesArrays, phi: SpeciesArrays, cell?: FieldCell): FieldUpdate {
   const nx = w.A.length;
-  const total = cell?.totalDensity ?? null;
   const h = cell?.surfaceField ?? null;
   const d: SpeciesArrays = { A: new Float64Array(nx), B: new Float64Array(nx) };
   let residual = 0;
   if (chain.species.length === 1) {
     const k = chain.species[0];
     for (let j = 0; j < nx; j++) {
-      d[k][j] = phi[k][j] - (total ? total[j] : 1);
+      d[k][j] = phi[k][j] - 1;
       residual = Math.max(residual, Math.abs(d[k][j]));
     }
     return { deviation: d, residual };
   }
   for (let j = 0; j < nx; j++) {
-    const t = total ? total[j] : 1;
     const hj = h ? h[j] : 0;
-    const xi = 0.5 * (w.A[j] + w.B[j] - chiN * t);
+    const xi = 0.5 * (w.A[j] + w.B[j] - chiN);
     d.A[j] = chiN * phi.B[j] - hj + xi - w.A[j];
     d.B[j] = chiN * phi.A[j] + hj + xi - w.B[j];
     residual = Math.max(residual, Math.abs(d.A[j]), Math.abs(d.B[j]));
@@ -83,20 +77,17 @@ export function freeEnergy(cell: FieldCell, chiN: number, Q: number, w: SpeciesA
   const h = cell.surfaceField;
   const terms = new Float64Array(nx);
   for (let j = 0; j < nx; j++) terms[j] = chiN * phi.A[j] * phi.B[j] - (h ? h[j] * (phi.A[j] - phi.B[j]) : 0) - w.A[j] * phi.A[j] - w.B[j] * phi.B[j];
-  const filled = cell.totalDensity ? cell.mean(cell.totalDensity) : 1;
-  return -Math.log(Q) + Math.log(filled) + cell.mean(terms) / filled;
+  return -Math.log(Q) + cell.mean(terms);
 }
 
 /** Fields that reproduce a target A composition profile φ_A at the self-consistency relation (gauge fixed). */
 export function fieldsFromComposition(chain: Chain, chiN: number, phiA: Float64Array, cell?: FieldCell): SpeciesArrays {
   const nx = phiA.length;
-  const total = cell?.totalDensity ?? null;
   const h = cell?.surfaceField ?? null;
   const w: SpeciesArrays = { A: new Float64Array(nx), B: new Float64Array(nx) };
   for (let j = 0; j < nx; j++) {
-    const t = total ? total[j] : 1;
     const hj = h ? h[j] : 0;
-    w.A[j] = chiN * (t - phiA[j]) - hj;
+    w.A[j] = chiN * (1 - phiA[j]) - hj;
     w.B[j] = chiN * phiA[j] + hj;
   }
   fixGauge(chain, w, cell);

@@ -21,6 +21,7 @@ import type { Contour } from '../physics/contour.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
 import { fieldsFromComposition } from '../physics/scft-equations.js';
+import { spinodal } from '../physics/rpa.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
 import { bulkPeriodGuess, contourOf, solveFixedCell } from './scft-solver.js';
 import { solveByNewton } from './newton-solve.js';
@@ -39,7 +40,7 @@ export interface FilmSolve {
   /** The disordered film with the same walls. */
   disordered: ScftSolution;
   layers: FilmLayers;
-  /** F·⟨φ₀⟩·H: free energy per unit area, kT ρ₀Rg/N. */
+  /** F·H: free energy per unit area, kT ρ₀Rg/N (chains per area ρ₀H/N times F per chain). */
   freeEnergyPerArea: number;
   /** Every start tried: its half-periods m (0: the uniform start), F and whether it converged. */
   starts: { halfPeriods: number; freeEnergy: number; converged: boolean; phase: string }[];
@@ -55,11 +56,16 @@ export interface FilmRequest {
   keepPropagators?: boolean;
 }
 
-/** Layers: runs of the sign of φ_A − φ_B along z. */
+/** Below this |φ_A − φ_B| a point belongs to no layer (a mixed melt, or an interface). */
+const LAYER_CONTRAST = 0.02;
+
+/** Layers: runs of the sign of φ_A − φ_B along z, where the contrast is clear. */
 export function countLayers(phi: SpeciesArrays): FilmLayers {
   let sequence = '';
   for (let j = 0; j < phi.A.length; j++) {
-    const k = phi.A[j] >= phi.B[j] ? 'A' : 'B';
+    const d = phi.A[j] - phi.B[j];
+    if (Math.abs(d) < LAYER_CONTRAST) continue;
+    const k = d > 0 ? 'A' : 'B';
     if (sequence[sequence.length - 1] !== k) sequence += k;
   }
   return { A: [...sequence].filter((c) => c === 'A').length, B: [...sequence].filter((c) => c === 'B').length, sequence };
@@ -69,9 +75,61 @@ function lamellarStart(chain: Chain, chiN: number, cell: FilmCell, halfPeriods: 
   const f = chain.speciesFraction.A;
   const a = Math.min(amplitude, 0.95 * Math.min(f, 1 - f));
   const k = (Math.PI * halfPeriods) / cell.length;
-  const total = cell.totalDensity;
-  const phiA = Float64Array.from(cell.x, (z, j) => (f + a * sign * Math.cos(k * z)) * (total ? total[j] : 1));
+  const phiA = Float64Array.from(cell.x, (z) => f + a * sign * Math.cos(k * z));
   return fieldsFromComposition(chain, Math.max(chiN, 1), phiA, cell);
+}
+
+/**
+ * The disordered film with these walls: where the disordered melt is stable (χN below half the
+ * bulk spinodal) a mixing iteration from the uniform composition converges to it; above, it is
+ * carried up in χN by Newton's method (which follows it past the spinodal, where it turns
+ * unstable), each step started from the last with the fields scaled by the χN ratio.
+ */
+/** Largest χN ratio of one continuation stage of the disordered film. */
+const MAX_STEP_RATIO = 1.5;
+
+export function disorderedFilm(req: FilmRequest, chain: Chain, contour: Contour): ScftSolution {
+  const cell = req.cell;
+  const chiN = req.system.chiN;
+  const f = chain.speciesFraction.A;
+  const uniform = (x: number) => fieldsFromComposition(chain, x, new Float64Array(cell.n).fill(f), cell);
+  const stable = chain.species.length < 2 ? chiN : Math.min(chiN, 0.5 * spinodal(chain).chiN);
+  let sol = solveFixedCell({ ...req, contour, system: { ...req.system, chiN: stable }, initial: uniform(stable) });
+  let at = stable;
+  let ratio = MAX_STEP_RATIO;
+  const tolerance = req.options?.tolerance ?? 1e-9;
+  while (at < chiN && sol.converged) {
+    const next = Math.min(chiN, at * ratio);
+    const start = { A: sol.w.A.map((v) => (v * next) / at), B: sol.w.B.map((v) => (v * next) / at) };
+    // Intermediate stages need only be close enough to start the next one.
+    const options = { ...req.options, tolerance: next < chiN ? Math.max(tolerance, 1e-6) : tolerance };
+    const trial = solveByNewton({ ...req, options, contour, system: { ...req.system, chiN: next }, start });
+    if (trial.converged) {
+      sol = trial;
+      at = next;
+      ratio = Math.min(MAX_STEP_RATIO, ratio * ratio);
+    } else if ((ratio = Math.sqrt(ratio)) < 1.005) {
+      return trial;
+    }
+  }
+  return sol;
+}
+
+/** Spread of φ_A that counts as order in a film's interior (its middle half). */
+const INTERIOR_ORDER = 0.05;
+/** Iterations allowed to the neighbouring starts (frustrated layer counts converge slowly and lie higher). */
+const NEIGHBOUR_ITERATIONS = 400;
+
+/** max φ_A − min φ_A over the middle half of the film: order that the walls alone do not make. */
+export function interiorSpread(cell: FilmCell, phiA: Float64Array): number {
+  let lo = Infinity;
+  let hi = -Infinity;
+  cell.x.forEach((z, j) => {
+    if (z < cell.length / 4 || z > (3 * cell.length) / 4) return;
+    lo = Math.min(lo, phiA[j]);
+    hi = Math.max(hi, phiA[j]);
+  });
+  return hi - lo;
 }
 
 export function solveFilm(req: FilmRequest): FilmSolve {
@@ -79,48 +137,46 @@ export function solveFilm(req: FilmRequest): FilmSolve {
   const contour = contourOf(chain, req.contour);
   const chiN = req.system.chiN;
   const cell = req.cell;
-  const solve = (initial: SpeciesArrays) => solveFixedCell({ ...req, contour, initial });
-  const f = chain.speciesFraction.A;
-  const uniform = fieldsFromComposition(chain, chiN, Float64Array.from(cell.x, (_, j) => f * (cell.totalDensity ? cell.totalDensity[j] : 1)), cell);
-  const disordered = solveByNewton({ ...req, contour, start: uniform });
+  const solve = (initial: SpeciesArrays, maxIterations?: number) => solveFixedCell({ ...req, contour, initial, options: maxIterations ? { ...req.options, maxIterations } : req.options });
+  const disordered = disorderedFilm(req, chain, contour);
   const starts: FilmSolve['starts'] = [{ halfPeriods: 0, freeEnergy: disordered.freeEnergy, converged: disordered.converged, phase: 'disordered' }];
-  const candidates: ScftSolution[] = [];
+  const candidates: ScftSolution[] = disordered.converged ? [disordered] : [];
   if (chain.species.length === 2 && !req.system.externalField) {
     const base = cell.startPattern(bulkPeriodGuess(chain, chiN));
     const m0 = Math.round((base.waveNumber * cell.length) / Math.PI);
     const sign = Math.sign(base.pattern[0]) || 1;
     const fixedParity = cell.walls.bottom.affinity !== 0 && cell.walls.top.affinity !== 0;
     const step = fixedParity ? 2 : 1;
-    for (const m of [m0, m0 + step, m0 - step].filter((v) => v >= 1)) {
-      const sol = solve(lamellarStart(chain, chiN, cell, m, sign));
+    const tries: [number, SpeciesArrays, number | undefined][] = [m0, m0 + step, m0 - step].filter((v) => v >= 1).map((m, i) => [m, lamellarStart(chain, chiN, cell, m, sign), i === 0 ? undefined : NEIGHBOUR_ITERATIONS]);
+    if (req.initial) tries.push([-1, req.initial, undefined]);
+    for (const [m, w0, cap] of tries) {
+      const sol = solve(w0, cap);
       starts.push({ halfPeriods: m, freeEnergy: sol.freeEnergy, converged: sol.converged, phase: sol.phase });
       if (sol.converged) candidates.push(sol);
     }
-    if (req.initial) {
-      const sol = solve(req.initial);
-      starts.push({ halfPeriods: -1, freeEnergy: sol.freeEnergy, converged: sol.converged, phase: sol.phase });
-      if (sol.converged) candidates.push(sol);
-    }
   }
-  // The ordered state must be a different state from the disordered film and lie below it.
-  const distinct = (s: ScftSolution) => {
-    let d = 0;
-    for (let j = 0; j < s.phi.A.length; j++) d = Math.max(d, Math.abs(s.phi.A[j] - disordered.phi.A[j]));
-    return d > 1e-4;
-  };
-  const ordered = candidates.filter((s) => distinct(s) && s.freeEnergy < disordered.freeEnergy).sort((a, b) => a.freeEnergy - b.freeEnergy)[0];
-  const fDis = disordered.converged ? disordered.freeEnergy : Number.NaN;
-  const chosen = ordered ?? disordered;
-  const phase = ordered ? 'lamellar' : chain.species.length === 1 ? 'homogeneous-melt' : req.system.externalField ? 'single-chain' : 'disordered';
+  const chosen = [...candidates].sort((a, b) => a.freeEnergy - b.freeEnergy)[0] ?? disordered;
+  const sameState = (a: ScftSolution, b: ScftSolution) => a.phi.A.every((v, j) => Math.abs(v - b.phi.A[j]) < 1e-4);
+  // The disordered film is a reference only when it is a state of its own: below the bulk
+  // spinodal the branch from the uniform melt crosses no instability, so it is the disordered
+  // film whatever oscillations the walls induce; above it, only while its interior stays
+  // disordered. With preferential walls and a commensurate thickness that branch can turn
+  // continuously into the layered film (surface-induced ordering), and then there is no
+  // disordered film to compare with.
+  const belowSpinodal = chain.species.length === 2 && chiN < spinodal(chain).chiN;
+  const disorderedDistinct = disordered.converged && (belowSpinodal || interiorSpread(cell, disordered.phi.A) < INTERIOR_ORDER);
+  const fDis = disorderedDistinct ? disordered.freeEnergy : Number.NaN;
+  const isDisordered = disorderedDistinct && (chosen === disordered || sameState(chosen, disordered));
+  const phase = req.system.externalField ? 'single-chain' : chain.species.length === 1 ? 'homogeneous-melt' : isDisordered ? 'disordered' : 'lamellar';
   const notes = [...chosen.notes];
-  if (!disordered.converged) notes.push('the disordered film (uniform start) did not converge: F_disordered is not available');
+  if (!disordered.converged) notes.push('the disordered film (from the uniform melt) did not converge: F_disordered is not available');
+  else if (!disorderedDistinct) notes.push('no disordered film distinct from the layered one: the state reached from the uniform melt is layered through the film (surface-induced ordering between these walls), so F_disordered is not given');
   const solution: ScftSolution = { ...chosen, phase, freeEnergyDisordered: fDis, notes };
-  const filled = cell.totalDensity ? cell.mean(cell.totalDensity) : 1;
   return {
     solution,
     disordered: { ...disordered, phase: 'disordered', freeEnergyDisordered: fDis },
     layers: countLayers(solution.phi),
-    freeEnergyPerArea: solution.freeEnergy * filled * cell.length,
+    freeEnergyPerArea: solution.freeEnergy * cell.length,
     starts,
   };
 }

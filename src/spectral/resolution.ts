@@ -50,6 +50,20 @@ export function defaultGridPoints(chain: Chain, chiN: number, length: number): n
   return n;
 }
 
+/**
+ * A film of thickness H holds the same interfaces as a periodic cell (the even extension is a
+ * periodic cell of length 2H with 2n points), and its surface field of range λ needs a few
+ * points across: n ≥ max(10·H·√χN/π, 4H/λ), a power of two, at least 32.
+ */
+export function defaultFilmPoints(chain: Chain, chiN: number, thickness: number, range: number): number {
+  const lengths = chain.blocks.map((b) => b.segmentLength);
+  const asym = Math.max(...lengths) / Math.min(...lengths);
+  const want = Math.max((10 * thickness * Math.sqrt(Math.max(chiN, 1)) * asym) / Math.PI, (4 * thickness) / range);
+  let n = 32;
+  while (n < want && n < MAX_POINTS) n *= 2;
+  return n;
+}
+
 export interface ResolutionError {
   /** max |Δφ_A| and |Δ ln Q| between the solution's contour and twice its steps. */
   contour: { phi: number; lnQ: number };

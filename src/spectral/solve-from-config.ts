@@ -18,6 +18,11 @@ import { defaultContourSteps, defaultGridPoints, RESOLUTION_TARGET, resolutionEr
 import type { ResolutionError } from './resolution.js';
 import type { FixedCellRequest } from './scft-solver.js';
 import { solveFixedCell } from './scft-solver.js';
+import { FilmCell } from '../physics/cell/film-cell.js';
+import type { FilmCellSpec } from '../io/schemas/spectral-schema.js';
+import { solveFilm } from './film-solve.js';
+import type { FilmSolve } from './film-solve.js';
+import { defaultFilmPoints } from './resolution.js';
 
 /** What resolution a solve used, how it was chosen, and the solver's estimate of what it costs. */
 export interface ResolutionReport {
@@ -37,6 +42,8 @@ export interface ResolutionReport {
 export interface ReferenceSolve {
   solution: ScftSolution;
   search?: PeriodSearchResult;
+  /** A film's disordered reference, layers and free energy per area (film-solve.ts). */
+  film?: Omit<FilmSolve, 'solution'>;
   resolution: ResolutionReport;
 }
 
@@ -51,7 +58,7 @@ const MAX_REFINEMENTS = 3;
 export function solveFromConfig(config: Pick<SolveConfig, 'system' | 'cell' | 'solver' | 'output'>, hooks: SolveHooks = {}): ReferenceSolve {
   const chain = buildChain(config.system.chain);
   const { cell } = config;
-  if (cell.kind === 'film') throw new InputError('cell.kind: got "film"; films are not solved yet');
+  if (cell.kind === 'film') return solveFilmFromConfig(config, { ...cell }, chain, hooks);
   const optimize = cell.period === 'optimize';
   if (optimize) {
     if (chain.species.length < 2) {
@@ -126,4 +133,37 @@ export function solveFittingPeriods(req: FixedCellRequest & { cell: PeriodicCell
     `the cell of ${req.cell.length.toPrecision(6)} Rg holds ${fits} periods of ${(req.cell.length / fits).toPrecision(6)} Rg: started with ${fits}, the lamella has F = ${alt.freeEnergy.toPrecision(10)} kT/chain against ${asked.phase === 'lamellar' && asked.converged ? `${asked.freeEnergy.toPrecision(10)} with ${req.cell.periods}` : `the ${asked.converged ? asked.phase : 'unconverged'} result of a ${req.cell.periods}-period start`}`,
   );
   return alt;
+}
+
+/** A film as the config describes it, with the same automatic resolution as a periodic cell. */
+function solveFilmFromConfig(config: Pick<SolveConfig, 'system' | 'solver' | 'output'>, cell: FilmCellSpec, chain: Chain, hooks: SolveHooks): ReferenceSolve {
+  const chiN = config.system.chiN;
+  let nx = cell.nx === 'auto' ? defaultFilmPoints(chain, chiN, cell.thickness, cell.walls.range) : cell.nx;
+  let ns = cell.ns === 'auto' ? defaultContourSteps(chain, chiN) : cell.ns;
+  const refinements: string[] = [];
+  let initial = hooks.initial;
+  for (let round = 0; ; round++) {
+    const contour = contourWithTotal(chain, ns, 'cell.ns');
+    const film = solveFilm({ system: config.system, cell: new FilmCell(cell.thickness, nx, cell.walls), contour, options: config.solver, initial, keepPropagators: config.output.propagators });
+    const { solution, ...rest } = film;
+    const error = resolutionError(chain, solution.cell, solution.contour, solution.w);
+    const done: ReferenceSolve = {
+      solution,
+      film: rest,
+      resolution: { nx, ns: contour.ns, stepsPerBlock: contour.blocks.map((b) => b.steps), chosen: { nx: cell.nx === 'auto' ? 'auto' : 'given', ns: cell.ns === 'auto' ? 'auto' : 'given' }, error, target: RESOLUTION_TARGET, refinements },
+    };
+    if (!solution.converged || round >= MAX_REFINEMENTS) return done;
+    const refineNs = cell.ns === 'auto' && (error.contour.phi > RESOLUTION_TARGET.phi || error.contour.lnQ > RESOLUTION_TARGET.lnQ);
+    const refineNx = cell.nx === 'auto' && (error.grid.phi > RESOLUTION_TARGET.phi || error.grid.lnQ > RESOLUTION_TARGET.lnQ);
+    if (!refineNs && !refineNx) return done;
+    if (refineNs) {
+      refinements.push(`ns ${contour.ns} → ${2 * contour.ns} (contour error estimate: φA ${error.contour.phi.toExponential(1)}, ln Q ${error.contour.lnQ.toExponential(1)})`);
+      ns = 2 * contour.ns;
+    }
+    if (refineNx) {
+      refinements.push(`nx ${nx} → ${2 * nx} (grid error estimate: φA ${error.grid.phi.toExponential(1)}, ln Q ${error.grid.lnQ.toExponential(1)})`);
+      nx *= 2;
+    }
+    initial = solution.w;
+  }
 }

@@ -23,8 +23,6 @@ export const wallsSchema = z
   .object({
     bottom: wallSchema.prefault({}),
     top: wallSchema.prefault({}),
-    /** Width ε (Rg) of the wall layer over which the total density falls to zero at each wall; 0: none (the default, whose free energy converges with the grid). */
-    layer: z.number().min(0).max(10).default(0),
     /** Range λ (Rg) of the walls' short-range surface field (a half-Gaussian of standard deviation λ). */
     range: z.number().gt(0).max(5).default(0.25),
   })
@@ -40,7 +38,7 @@ const cellFields = z
     periods: z.number().int().min(1).max(16).optional(),
     /** Film: thickness H in Rg (walls at z = 0 and z = H). */
     thickness: z.number().gt(0).lte(500).optional(),
-    /** Film: the walls (affinities, wall layer, range of the surface field). */
+    /** Film: the walls (affinities, range of the surface field). */
     walls: wallsSchema.optional(),
     /** Grid points, or "auto": chosen from χN, the segment lengths and the cell length, and checked after the solve (spectral/resolution.ts). */
     nx: z.union([gridPointsSchema, z.literal('auto')]).default('auto'),

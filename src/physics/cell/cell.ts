@@ -22,8 +22,6 @@ export interface WallsDescription {
   /** Affinity of each wall for A (kT per chain; see docs/physics.md, "Films"). */
   bottom: { affinity: number };
   top: { affinity: number };
-  /** Width of the wall layer over which the total density falls to zero (Rg); 0: none. */
-  layer: number;
   /** Range of the short-range surface field (Rg). */
   range: number;
 }
@@ -88,8 +86,6 @@ export interface Cell {
    */
   startPattern(bulkPeriod: number): { pattern: Float64Array; waveNumber: number };
   readonly features: NetworkFeatures;
-  /** For a film: the fraction of the volume the melt fills at each grid point (1 in the bulk, → 0 at a wall layer); null: 1 everywhere. */
-  readonly totalDensity: Float64Array | null;
   /** For a film: the walls' surface field h(x) (kT per chain; it lowers w_A and raises w_B by h); null: none. */
   readonly surfaceField: Float64Array | null;
   describe(): CellDescription;

@@ -5,9 +5,8 @@
  * (docs/physics.md, "Films").
  * Formulation: reflecting walls, i.e. zero-flux (Neumann) conditions ∂q/∂z = 0 for q and q†
  * at both walls, solved pseudo-spectrally in the cosine basis cos(πmz/H), each wall with a
- * short-range surface field that favours A (affinity Λ > 0) or B (Λ < 0), and optionally a
- * wall layer of width ε over which the total segment density falls to zero at the wall
- * (Matsen, J. Chem. Phys. 106, 7781 (1997)). Grid: cell centres z_j = (j + ½)H/n, n a power of
+ * short-range surface field that favours A (affinity Λ > 0) or B (Λ < 0); the melt is
+ * incompressible up to the walls. Grid: cell centres z_j = (j + ½)H/n, n a power of
  * two, where the midpoint rule is spectrally exact for the cosine basis (cell averages are plain
  * grid means). The cosine transform is done as the FFT of the even extension: a reflecting
  * wall is a mirror plane, so the film is exactly the half of a periodic cell of length 2H with
@@ -18,10 +17,12 @@
  * ∫_0^∞ g dz = 1 and each wall's integrated field is its affinity Λ. A half-Gaussian is even
  * about its wall, so the field stays smooth in the even extension and the free energy
  * converges spectrally with the grid (an exponential profile would have a kink there).
- * Wall layer: φ₀(z) = ½[1 − cos(πz/ε)] for z < ε (and mirrored at the top), 1 elsewhere.
- * With ε > 0 the pressure that empties the wall layer grows without bound as the grid
- * reaches the wall, so absolute free energies then depend on the grid (free-energy
- * differences at equal grids do not): docs/physics.md says which figures are affected.
+ * No wall layer: a wall profile that brings the total density to zero at a reflecting wall
+ * (Matsen, J. Chem. Phys. 106, 7781 (1997)) needs a pressure field that grows without bound
+ * at the wall as the grid reaches it; tried here (½[1 − cos(πz/ε)], ε = 0.4 Rg, 64 points,
+ * H = D, χN = 15, Λ = 1), the field iteration stalled at a residual of 0.8 kT after 2000
+ * iterations. Without it the free energy converges spectrally with the grid (docs/physics.md,
+ * "Films"; tests/spectral/film.test.ts).
  */
 import { ModelError } from '../chain.js';
 import type { Cell, CellDescription, DiffusionStep, NetworkFeatures, WallsDescription } from './cell.js';
@@ -37,7 +38,6 @@ export class FilmCell implements Cell {
   readonly x: Float64Array;
   readonly translation = null;
   readonly features: NetworkFeatures;
-  readonly totalDensity: Float64Array | null;
   readonly surfaceField: Float64Array | null;
   /** The mirror-extended periodic cell (length 2H, 2n points, offset by half a grid step). */
   private readonly mirror: PeriodicCell;
@@ -50,13 +50,11 @@ export class FilmCell implements Cell {
   ) {
     if (!(length > 0) || !Number.isFinite(length)) throw new ModelError(`${field}.thickness`, length, 'allowed: a finite thickness > 0 (in Rg)');
     if (!Number.isInteger(n) || n < 4 || (n & (n - 1)) !== 0) throw new ModelError(`${field}.nx`, n, 'allowed: a power of two ≥ 4 (the cosine transform goes through the FFT)');
-    if (!(walls.layer >= 0) || walls.layer > length / 2) throw new ModelError(`${field}.walls.layer`, walls.layer, `allowed: a width from 0 to half the thickness (${length / 2} Rg)`);
     if (!(walls.range > 0)) throw new ModelError(`${field}.walls.range`, walls.range, 'allowed: a range > 0 (Rg)');
     const dz = length / n;
     this.x = Float64Array.from({ length: n }, (_, j) => (j + 0.5) * dz);
     this.mirror = new PeriodicCell(2 * length, 2 * n, 1, field);
     this.features = { kind: 'cosine', waveNumber: (m) => (Math.PI * m) / length };
-    this.totalDensity = walls.layer > 0 ? Float64Array.from(this.x, (z) => wallLayer(z, walls.layer) * wallLayer(length - z, walls.layer)) : null;
     const g = (z: number) => (Math.sqrt(2 / Math.PI) / walls.range) * Math.exp(-(z * z) / (2 * walls.range * walls.range));
     const { bottom, top } = walls;
     this.surfaceField = bottom.affinity !== 0 || top.affinity !== 0 ? Float64Array.from(this.x, (z) => bottom.affinity * g(z) + top.affinity * g(length - z)) : null;
@@ -163,9 +161,4 @@ export class FilmCell implements Cell {
   describe(): CellDescription {
     return { kind: 'film', length: this.length, n: this.n, walls: this.walls };
   }
-}
-
-/** ½[1 − cos(πz/ε)] for z < ε, else 1: the total density near one wall. */
-function wallLayer(z: number, eps: number): number {
-  return z >= eps ? 1 : 0.5 * (1 - Math.cos((Math.PI * z) / eps));
 }

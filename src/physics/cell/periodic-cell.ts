@@ -61,7 +61,6 @@ export class PeriodicCell implements Cell {
   readonly x: Float64Array;
   readonly translation: TranslationMode;
   readonly features: NetworkFeatures;
-  readonly totalDensity = null;
   readonly surfaceField = null;
   private readonly field: string;
 
