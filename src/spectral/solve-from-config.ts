@@ -8,6 +8,7 @@ import { buildChain } from '../physics/chain.js';
 import type { Chain } from '../physics/chain.js';
 import { PeriodicCell } from '../physics/cell/periodic-cell.js';
 import { contourWithTotal } from '../physics/contour.js';
+import type { Contour } from '../physics/contour.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
 import { InputError } from '../io/errors.js';
@@ -19,7 +20,6 @@ import type { ResolutionError } from './resolution.js';
 import type { FixedCellRequest } from './scft-solver.js';
 import { solveFixedCell } from './scft-solver.js';
 import { FilmCell } from '../physics/cell/film-cell.js';
-import type { FilmCellSpec } from '../io/schemas/spectral-schema.js';
 import { solveFilm } from './film-solve.js';
 import type { FilmSolve } from './film-solve.js';
 import { defaultFilmPoints } from './resolution.js';
@@ -55,51 +55,30 @@ export interface SolveHooks {
 /** At most this many doublings of nx or ns after the first solve. */
 const MAX_REFINEMENTS = 3;
 
-export function solveFromConfig(config: Pick<SolveConfig, 'system' | 'cell' | 'solver' | 'output'>, hooks: SolveHooks = {}): ReferenceSolve {
-  const chain = buildChain(config.system.chain);
-  const { cell } = config;
-  if (cell.kind === 'film') return solveFilmFromConfig(config, { ...cell }, chain, hooks);
-  const optimize = cell.period === 'optimize';
-  if (optimize) {
-    if (chain.species.length < 2) {
-      throw new InputError(`cell.period: got "optimize"; a period search needs a chain with both A and B blocks (${chain.label} has one species): give a number`);
-    }
-    if (config.system.externalField) {
-      throw new InputError('cell.period: got "optimize"; a chain in prescribed external fields has no equilibrium period: give a number');
-    }
-  }
-  const chiN = config.system.chiN;
-  const length = (cell.period === 'optimize' ? periodGuess(config.system, chain) : cell.period) * cell.periods;
-  let nx = cell.nx === 'auto' ? defaultGridPoints(chain, chiN, length) : cell.nx;
-  let ns = cell.ns === 'auto' ? defaultContourSteps(chain, chiN) : cell.ns;
+/** One solve at a given resolution, warm-started from `initial` (the fields of the previous round). */
+type ResolvedSolve = (nx: number, contour: Contour, initial: SpeciesArrays | undefined) => Omit<ReferenceSolve, 'resolution'>;
+
+/**
+ * The refinement loop of "auto" (resolution.ts): solve at the chosen nx and ns, measure the
+ * solver's own error estimates, and double whichever is "auto" and above its target, up to
+ * MAX_REFINEMENTS times, each round warm-started from the last.
+ */
+function solveResolved(chain: Chain, spec: { nx: number | 'auto'; ns: number | 'auto' }, first: { nx: number; ns: number }, initial: SpeciesArrays | undefined, solveAt: ResolvedSolve): ReferenceSolve {
+  let { nx, ns } = first;
   const refinements: string[] = [];
-  let initial = hooks.initial;
-  let guess: number | undefined;
   for (let round = 0; ; round++) {
     const contour = contourWithTotal(chain, ns, 'cell.ns');
-    const base = { system: config.system, contour, options: config.solver, initial, keepPropagators: config.output.propagators };
-    let solution: ScftSolution;
-    let search: PeriodSearchResult | undefined;
-    if (optimize) {
-      search = findEquilibriumPeriod({ ...base, cell: new PeriodicCell(1, nx, cell.periods), guess, onEvaluation: hooks.onEvaluation });
-      solution = search.solution;
-    } else {
-      solution = solveFittingPeriods({ ...base, cell: new PeriodicCell(length, nx, cell.periods) }, chain);
-    }
+    const out = solveAt(nx, contour, initial);
+    const solution = out.solution;
     const error = resolutionError(chain, solution.cell, solution.contour, solution.w);
-    const report = (): ResolutionReport => ({
-      nx,
-      ns: contour.ns,
-      stepsPerBlock: contour.blocks.map((b) => b.steps),
-      chosen: { nx: cell.nx === 'auto' ? 'auto' : 'given', ns: cell.ns === 'auto' ? 'auto' : 'given' },
-      error,
-      target: RESOLUTION_TARGET,
-      refinements,
-    });
-    if (!solution.converged || round >= MAX_REFINEMENTS) return { solution, search, resolution: report() };
-    const refineNs = cell.ns === 'auto' && (error.contour.phi > RESOLUTION_TARGET.phi || error.contour.lnQ > RESOLUTION_TARGET.lnQ);
-    const refineNx = cell.nx === 'auto' && (error.grid.phi > RESOLUTION_TARGET.phi || error.grid.lnQ > RESOLUTION_TARGET.lnQ);
-    if (!refineNs && !refineNx) return { solution, search, resolution: report() };
+    const done: ReferenceSolve = {
+      ...out,
+      resolution: { nx, ns: contour.ns, stepsPerBlock: contour.blocks.map((b) => b.steps), chosen: { nx: spec.nx === 'auto' ? 'auto' : 'given', ns: spec.ns === 'auto' ? 'auto' : 'given' }, error, target: RESOLUTION_TARGET, refinements },
+    };
+    if (!solution.converged || round >= MAX_REFINEMENTS) return done;
+    const refineNs = spec.ns === 'auto' && (error.contour.phi > RESOLUTION_TARGET.phi || error.contour.lnQ > RESOLUTION_TARGET.lnQ);
+    const refineNx = spec.nx === 'auto' && (error.grid.phi > RESOLUTION_TARGET.phi || error.grid.lnQ > RESOLUTION_TARGET.lnQ);
+    if (!refineNs && !refineNx) return done;
     if (refineNs) {
       refinements.push(`ns ${contour.ns} → ${2 * contour.ns} (contour error estimate: φA ${error.contour.phi.toExponential(1)}, ln Q ${error.contour.lnQ.toExponential(1)})`);
       ns = 2 * contour.ns;
@@ -110,8 +89,40 @@ export function solveFromConfig(config: Pick<SolveConfig, 'system' | 'cell' | 's
     }
     // The refined solve starts from the fields just found (resampled onto the new grid by the solver).
     initial = solution.w;
-    if (optimize && Number.isFinite(solution.period)) guess = solution.period;
   }
+}
+
+export function solveFromConfig(config: Pick<SolveConfig, 'system' | 'cell' | 'solver' | 'output'>, hooks: SolveHooks = {}): ReferenceSolve {
+  const chain = buildChain(config.system.chain);
+  const { cell } = config;
+  const chiN = config.system.chiN;
+  const ns = cell.ns === 'auto' ? defaultContourSteps(chain, chiN) : cell.ns;
+  const common = { system: config.system, options: config.solver, keepPropagators: config.output.propagators };
+  if (cell.kind === 'film') {
+    const nx = cell.nx === 'auto' ? defaultFilmPoints(chain, chiN, cell.thickness, cell.walls.range) : cell.nx;
+    return solveResolved(chain, cell, { nx, ns }, hooks.initial, (n, contour, initial) => {
+      const { solution, ...film } = solveFilm({ ...common, cell: new FilmCell(cell.thickness, n, cell.walls), contour, initial });
+      return { solution, film };
+    });
+  }
+  const optimize = cell.period === 'optimize';
+  if (optimize) {
+    if (chain.species.length < 2) {
+      throw new InputError(`cell.period: got "optimize"; a period search needs a chain with both A and B blocks (${chain.label} has one species): give a number`);
+    }
+    if (config.system.externalField) {
+      throw new InputError('cell.period: got "optimize"; a chain in prescribed external fields has no equilibrium period: give a number');
+    }
+  }
+  const length = (cell.period === 'optimize' ? periodGuess(config.system, chain) : cell.period) * cell.periods;
+  const nx = cell.nx === 'auto' ? defaultGridPoints(chain, chiN, length) : cell.nx;
+  let guess: number | undefined;
+  return solveResolved(chain, cell, { nx, ns }, hooks.initial, (n, contour, initial) => {
+    if (!optimize) return { solution: solveFittingPeriods({ ...common, contour, initial, cell: new PeriodicCell(length, n, cell.periods) }, chain) };
+    const search = findEquilibriumPeriod({ ...common, contour, initial, cell: new PeriodicCell(1, n, cell.periods), guess, onEvaluation: hooks.onEvaluation });
+    if (Number.isFinite(search.period)) guess = search.period;
+    return { solution: search.solution, search };
+  });
 }
 
 /**
@@ -133,37 +144,4 @@ export function solveFittingPeriods(req: FixedCellRequest & { cell: PeriodicCell
     `the cell of ${req.cell.length.toPrecision(6)} Rg holds ${fits} periods of ${(req.cell.length / fits).toPrecision(6)} Rg: started with ${fits}, the lamella has F = ${alt.freeEnergy.toPrecision(10)} kT/chain against ${asked.phase === 'lamellar' && asked.converged ? `${asked.freeEnergy.toPrecision(10)} with ${req.cell.periods}` : `the ${asked.converged ? asked.phase : 'unconverged'} result of a ${req.cell.periods}-period start`}`,
   );
   return alt;
-}
-
-/** A film as the config describes it, with the same automatic resolution as a periodic cell. */
-function solveFilmFromConfig(config: Pick<SolveConfig, 'system' | 'solver' | 'output'>, cell: FilmCellSpec, chain: Chain, hooks: SolveHooks): ReferenceSolve {
-  const chiN = config.system.chiN;
-  let nx = cell.nx === 'auto' ? defaultFilmPoints(chain, chiN, cell.thickness, cell.walls.range) : cell.nx;
-  let ns = cell.ns === 'auto' ? defaultContourSteps(chain, chiN) : cell.ns;
-  const refinements: string[] = [];
-  let initial = hooks.initial;
-  for (let round = 0; ; round++) {
-    const contour = contourWithTotal(chain, ns, 'cell.ns');
-    const film = solveFilm({ system: config.system, cell: new FilmCell(cell.thickness, nx, cell.walls), contour, options: config.solver, initial, keepPropagators: config.output.propagators });
-    const { solution, ...rest } = film;
-    const error = resolutionError(chain, solution.cell, solution.contour, solution.w);
-    const done: ReferenceSolve = {
-      solution,
-      film: rest,
-      resolution: { nx, ns: contour.ns, stepsPerBlock: contour.blocks.map((b) => b.steps), chosen: { nx: cell.nx === 'auto' ? 'auto' : 'given', ns: cell.ns === 'auto' ? 'auto' : 'given' }, error, target: RESOLUTION_TARGET, refinements },
-    };
-    if (!solution.converged || round >= MAX_REFINEMENTS) return done;
-    const refineNs = cell.ns === 'auto' && (error.contour.phi > RESOLUTION_TARGET.phi || error.contour.lnQ > RESOLUTION_TARGET.lnQ);
-    const refineNx = cell.nx === 'auto' && (error.grid.phi > RESOLUTION_TARGET.phi || error.grid.lnQ > RESOLUTION_TARGET.lnQ);
-    if (!refineNs && !refineNx) return done;
-    if (refineNs) {
-      refinements.push(`ns ${contour.ns} → ${2 * contour.ns} (contour error estimate: φA ${error.contour.phi.toExponential(1)}, ln Q ${error.contour.lnQ.toExponential(1)})`);
-      ns = 2 * contour.ns;
-    }
-    if (refineNx) {
-      refinements.push(`nx ${nx} → ${2 * nx} (grid error estimate: φA ${error.grid.phi.toExponential(1)}, ln Q ${error.grid.lnQ.toExponential(1)})`);
-      nx *= 2;
-    }
-    initial = solution.w;
-  }
 }

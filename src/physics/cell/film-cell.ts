@@ -26,6 +26,7 @@
  */
 import { ModelError } from '../chain.js';
 import type { Cell, CellDescription, DiffusionStep, NetworkFeatures, WallsDescription } from './cell.js';
+import { cardinalMatrix } from './cardinal-matrix.js';
 import { FourierSeries } from './fourier-series.js';
 import { PeriodicCell } from './periodic-cell.js';
 
@@ -128,16 +129,7 @@ export class FilmCell implements Cell {
   }
 
   interpolationMatrix(at: ArrayLike<number>, blur = 0): Float64Array {
-    const n = this.n;
-    const m = at.length;
-    const out = new Float64Array(n * m);
-    const e = new Float64Array(n);
-    for (let j = 0; j < n; j++) {
-      e.fill(0);
-      e[j] = 1;
-      out.set(this.interpolate(e, at, blur), j * m);
-    }
-    return out;
+    return cardinalMatrix(this.n, at, (e, points) => this.interpolate(e, points, blur));
   }
 
   resample(u: ArrayLike<number>, n: number): Float64Array {

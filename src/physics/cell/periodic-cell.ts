@@ -11,6 +11,7 @@
 import FFT from 'fft.js';
 import { ModelError } from '../chain.js';
 import type { Cell, CellDescription, DiffusionStep, NetworkFeatures, TranslationMode } from './cell.js';
+import { cardinalMatrix } from './cardinal-matrix.js';
 import { FourierSeries } from './fourier-series.js';
 
 export const MAX_POINTS = 8192;
@@ -128,17 +129,7 @@ export class PeriodicCell implements Cell {
   }
 
   interpolationMatrix(at: ArrayLike<number>, blur = 0): Float64Array {
-    // Column j is the interpolant of the unit vector e_j (cardinal function), evaluated at `at`.
-    const n = this.n;
-    const m = at.length;
-    const out = new Float64Array(n * m);
-    const e = new Float64Array(n);
-    for (let j = 0; j < n; j++) {
-      e.fill(0);
-      e[j] = 1;
-      out.set(this.interpolate(e, at, blur), j * m);
-    }
-    return out;
+    return cardinalMatrix(this.n, at, (e, points) => this.interpolate(e, points, blur));
   }
 
   resample(u: ArrayLike<number>, n: number): Float64Array {
