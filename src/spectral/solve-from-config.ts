@@ -60,8 +60,9 @@ type ResolvedSolve = (nx: number, contour: Contour, initial: SpeciesArrays | und
 
 /**
  * The refinement loop of "auto" (resolution.ts): solve at the chosen nx and ns, measure the
- * solver's own error estimates, and double whichever is "auto" and above its target, up to
- * MAX_REFINEMENTS times, each round warm-started from the last.
+ * solver's own error estimates, and refine whichever is "auto" and above its target (ns to the
+ * count the fourth-order estimate asks for, nx doubled), up to MAX_REFINEMENTS times, each round
+ * warm-started from the last.
  */
 function solveResolved(chain: Chain, spec: { nx: number | 'auto'; ns: number | 'auto' }, first: { nx: number; ns: number }, initial: SpeciesArrays | undefined, solveAt: ResolvedSolve): ReferenceSolve {
   let { nx, ns } = first;
@@ -80,8 +81,11 @@ function solveResolved(chain: Chain, spec: { nx: number | 'auto'; ns: number | '
     const refineNx = spec.nx === 'auto' && (error.grid.phi > RESOLUTION_TARGET.phi || error.grid.lnQ > RESOLUTION_TARGET.lnQ);
     if (!refineNs && !refineNx) return done;
     if (refineNs) {
-      refinements.push(`ns ${contour.ns} → ${2 * contour.ns} (contour error estimate: φA ${error.contour.phi.toExponential(1)}, ln Q ${error.contour.lnQ.toExponential(1)})`);
-      ns = 2 * contour.ns;
+      // The error falls as h⁴: jump to the steps the estimate asks for (15 % margin), at least ×1.25.
+      const excess = Math.max(error.contour.phi / RESOLUTION_TARGET.phi, error.contour.lnQ / RESOLUTION_TARGET.lnQ);
+      const next = 2 * Math.ceil((contour.ns * Math.min(4, Math.max(1.25, 1.15 * Math.pow(excess, 1 / 4)))) / 2);
+      refinements.push(`ns ${contour.ns} → ${next} (contour error estimate: φA ${error.contour.phi.toExponential(1)}, ln Q ${error.contour.lnQ.toExponential(1)})`);
+      ns = next;
     }
     if (refineNx) {
       refinements.push(`nx ${nx} → ${2 * nx} (grid error estimate: φA ${error.grid.phi.toExponential(1)}, ln Q ${error.grid.lnQ.toExponential(1)})`);
