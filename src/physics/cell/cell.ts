@@ -32,6 +32,8 @@ export interface DiffusionStep {
   multiplier(diffusivity: number, h: number): Float64Array;
   /** q ← the diffused q, in place. */
   apply(q: Float64Array, multiplier: Float64Array): void;
+  /** Two independent diffusions at once, a with its multiplier and b with its own, in place (one complex transform pair for two real ones). */
+  applyPair(a: Float64Array, multiplierA: Float64Array, b: Float64Array, multiplierB: Float64Array): void;
 }
 
 /** The symmetry of a translation-invariant cell: a lamella can slide along x. */

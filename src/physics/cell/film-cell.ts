@@ -110,15 +110,28 @@ export class FilmCell implements Cell {
     const inner = this.mirror.diffusion();
     const n = this.n;
     const ext = new Float64Array(2 * n);
+    const ext2 = new Float64Array(2 * n);
+    const extend = (q: Float64Array, into: Float64Array) => {
+      for (let j = 0; j < n; j++) {
+        into[j] = q[j];
+        into[2 * n - 1 - j] = q[j];
+      }
+    };
     return {
       multiplier: (d, h) => inner.multiplier(d, h),
       apply: (q, mult) => {
-        for (let j = 0; j < n; j++) {
-          ext[j] = q[j];
-          ext[2 * n - 1 - j] = q[j];
-        }
+        extend(q, ext);
         inner.apply(ext, mult);
         for (let j = 0; j < n; j++) q[j] = ext[j];
+      },
+      applyPair: (a, ma, b, mb) => {
+        extend(a, ext);
+        extend(b, ext2);
+        inner.applyPair(ext, ma, ext2, mb);
+        for (let j = 0; j < n; j++) {
+          a[j] = ext[j];
+          b[j] = ext2[j];
+        }
       },
     };
   }

@@ -20,6 +20,7 @@ class PeriodicDiffusion implements DiffusionStep {
   private readonly fft: FFT;
   private readonly spectrum: Float64Array;
   private readonly back: Float64Array;
+  private readonly packed: Float64Array;
   private readonly k2: Float64Array;
 
   constructor(
@@ -29,6 +30,7 @@ class PeriodicDiffusion implements DiffusionStep {
     this.fft = new FFT(n);
     this.spectrum = new Float64Array(2 * n);
     this.back = new Float64Array(2 * n);
+    this.packed = new Float64Array(2 * n);
     this.k2 = new Float64Array(n);
     for (let m = 0; m < n; m++) {
       const mm = m < n / 2 ? m : m - n;
@@ -53,6 +55,36 @@ class PeriodicDiffusion implements DiffusionStep {
     }
     this.fft.inverseTransform(back, spectrum);
     for (let j = 0; j < n; j++) q[j] = back[2 * j];
+  }
+
+  /**
+   * z = a + i b in one complex FFT: with Z_k its transform, A_k = (Z_k + Z̄_{−k})/2 and
+   * B_k = (Z_k − Z̄_{−k})/2i, so Ma A + i Mb B = ½(Ma + Mb) Z_k + ½(Ma − Mb) Z̄_{−k}; the inverse
+   * transform of that is a' + i b' (both real, the multipliers being real and even in k).
+   */
+  applyPair(a: Float64Array, ma: Float64Array, b: Float64Array, mb: Float64Array): void {
+    const { spectrum, back, packed, n } = this;
+    for (let j = 0; j < n; j++) {
+      packed[2 * j] = a[j];
+      packed[2 * j + 1] = b[j];
+    }
+    this.fft.transform(spectrum, packed);
+    for (let k = 0; k < n; k++) {
+      const kk = (n - k) & (n - 1);
+      const zr = spectrum[2 * k];
+      const zi = spectrum[2 * k + 1];
+      const cr = spectrum[2 * kk];
+      const ci = -spectrum[2 * kk + 1];
+      const p = 0.5 * (ma[k] + mb[k]);
+      const m = 0.5 * (ma[k] - mb[k]);
+      packed[2 * k] = p * zr + m * cr;
+      packed[2 * k + 1] = p * zi + m * ci;
+    }
+    this.fft.inverseTransform(back, packed);
+    for (let j = 0; j < n; j++) {
+      a[j] = back[2 * j];
+      b[j] = back[2 * j + 1];
+    }
   }
 }
 
