@@ -16,6 +16,7 @@ import type { PeriodicCell } from '../physics/cell/periodic-cell.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
 import { spinodal } from '../physics/rpa.js';
+import { contourWithTotal } from '../physics/contour.js';
 import type { FixedCellRequest } from './scft-solver.js';
 import { bulkPeriodGuess, contourOf, defaultSpectralOptions, solveFixedCell } from './scft-solver.js';
 import { cellStress } from './period-stress.js';
@@ -123,7 +124,7 @@ export function findEquilibriumPeriod(req: PeriodSearchRequest): PeriodSearchRes
   function continued(cause: Error): PeriodSearchResult {
     const from = Math.max(COLD_START_CHIN, 1.5 * spinodal(chain).chiN);
     if (!(from < req.system.chiN)) throw asRunFailure(cause, req.system.chiN);
-    const below = findEquilibriumPeriod({ ...req, system: { ...req.system, chiN: from }, guess: undefined, initial: undefined, keepPropagators: false, onEvaluation: undefined });
+    const below = findEquilibriumPeriod({ ...req, contour: contourWithTotal(chain, Math.max(100, Math.round((contour.ns * from) / req.system.chiN))), system: { ...req.system, chiN: from }, guess: undefined, initial: undefined, keepPropagators: false, onEvaluation: undefined });
     totalIterations += below.totalIterations;
     if (below.solution.phase !== 'lamellar') throw asRunFailure(cause, req.system.chiN);
     let carried;
@@ -131,7 +132,9 @@ export function findEquilibriumPeriod(req: PeriodSearchRequest): PeriodSearchRes
       carried = continueInChiN(
         {
           solveAt: (chiN, length, initial) => {
-            const sol = solveFixedCell({ ...req, options, contour, system: { ...req.system, chiN }, cell: req.cell.withLength(length), initial, keepPropagators: false });
+            // A stage below the target needs fewer contour steps (the step error grows with χN·h): scale them down.
+            const stage = chiN < req.system.chiN ? contourWithTotal(chain, Math.max(100, Math.round((contour.ns * chiN) / req.system.chiN))) : contour;
+            const sol = solveFixedCell({ ...req, options, contour: stage, system: { ...req.system, chiN }, cell: req.cell.withLength(length), initial, keepPropagators: false });
             totalIterations += sol.iterations;
             return sol;
           },
