@@ -24,6 +24,7 @@ import type { ScftNetworks } from '../network/scft-networks.js';
 import { LOSS_TERMS } from '../network/losses/terms.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftProblem } from '../network/problem/scft-problem.js';
+import { yieldToEvents } from '../runtime/stop.js';
 import { polishCycle, propagatorWeights, runTraining } from './train-loop.js';
 import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
 import { warmStart } from '../network/warm-start.js';
@@ -261,6 +262,15 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     let iterations = 0;
     const trainingSeconds = () => loop.state.secondsBefore + (performance.now() - tLoop) / 1000;
     for (let c = 0; c < cycles; c++) {
+      // A stop asked during the polish lands between cycles (each cycle is one synchronous L-BFGS run).
+      await yieldToEvents();
+      if (opts.shouldStop?.()) {
+        await save(loop.state, 'adam');
+        problem.dispose();
+        adam.dispose();
+        nets.dispose();
+        throw new TrainingStopped('interrupted', `interrupted in the L-BFGS polish after ${iterations} iterations (cycle ${c + 1} of ${cycles}); checkpoint saved at step ${loop.state.step}`, opts.outDir, opts.outDir ? loop.state.step : null);
+      }
       r = polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined);
       iterations += r.iterations;
       // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.

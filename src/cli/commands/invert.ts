@@ -1,8 +1,10 @@
 /** `mesofield invert`: recover χN (and the fields) from a measured composition profile. */
 import type { Command } from 'commander';
-import { existsSync, readFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeDirectoryAtomic } from '../../io/atomic-write.js';
+import type { OutputDirectory } from '../../io/output-directory.js';
+import { synthTruthPath } from '../../io/synth-output.js';
+import { claimOut, withOutput } from '../run-output.js';
 import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
 import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
@@ -26,6 +28,7 @@ interface InvertFlags {
   chiNRange?: string;
   json?: boolean;
   out?: string;
+  overwrite?: boolean;
   rgNm?: string;
   segments?: string;
   segmentLengthNm?: string;
@@ -125,84 +128,92 @@ export function registerInvert(program: Command): void {
     .option('--profile-points <k>', 'extra points on the profile-likelihood curve (default 9)')
     .option('--json', 'print the result JSON on stdout')
     .option('--out <dir>', 'write result.json, fit.csv and solution.json into this directory')
+    .option('--overwrite', 'replace a previous invert output in --out (only the files mesofield wrote there)')
     .option('--report', 'also write a PDF/PNG report into <out>/report (needs --out)')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (profilePath: string, configPath: string | undefined, flags: InvertFlags) => {
         if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const { config, sources } = buildInvertConfig(configPath, flags);
-        const units = lengthUnits(config.units ?? {});
-        let text: string;
-        try {
-          text = readFileSync(profilePath, 'utf8');
-        } catch (e) {
-          throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-        }
-        const data = parseProfileCsv(text, profilePath, units);
-        const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
-        const period: PeriodMode = typeof config.period === 'number' ? { mode: 'given', value: toRg(config.period) } : { mode: config.period };
-        const progress = new Progress('invert', flags.quiet);
-        let estimate;
-        try {
-          estimate = estimateClassical(data, {
-            chain: config.system.chain,
-            nx: config.grid.nx,
-            ns: config.grid.ns,
-            solver: config.solver,
-            period,
-            chiNRange: config.chiNRange as [number, number] | undefined,
-            resolution: toRg(config.resolution),
-            profilePoints: config.profilePoints,
-            periodSource: sources.period,
-            rangeSource: sources.chiNRange,
-            onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
-          });
-        } catch (e) {
-          throw asInputError(e, configPath ?? 'flags');
-        }
-        progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
-        const estimators: Record<string, EstimatorBlock> = {};
-        let ne: NetworkEstimate | undefined;
-        if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data);
-        if (config.method !== 'classical') {
-          // The network fits χN and the fields; the phase offset and period come from the classical fit.
-          const { estimateNetwork } = await import('../../inverse/network-estimator.js');
-          const net = config.network;
-          ne = await estimateNetwork(data, estimate, {
-            chain: config.system.chain,
-            seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
-            steps: net.steps,
-            fieldUpdateEvery: net.fieldUpdateEvery,
-            lbfgsIterations: net.lbfgsIterations,
-            lbfgsPerUpdate: net.lbfgsPerUpdate,
-            chiNStart: net.chiNStart,
-            resolution: toRg(config.resolution),
-            backend: net.backend,
-            workers: workersFlag(flags.workers),
-            onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
-          });
-          progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
-          estimators.network = networkBlock(ne, estimate, data);
-        }
-        // A synthetic profile (synth --out) has its truth beside it: measure the estimates against it.
-        const truthPath = `${profilePath}.truth.json`;
-        const truth = existsSync(truthPath) ? compareWithTruth(truthPath, readTruthSidecar(truthPath).chiN, config.system.chain, estimate, ne) : undefined;
-        const result = inversionResult(data, config, provenance(), estimators, truth);
-        if (flags.out) {
-          const files = {
-            'result.json': `${JSON.stringify(result, null, 1)}\n`,
-            'fit.csv': fitCsv(data, estimate),
-            'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
-          };
-          writeDirectoryAtomic(flags.out, files);
-          if (!flags.quiet) process.stderr.write(`invert: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
-          if (flags.report) {
-            const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
-            const written = reportRunDirectory(flags.out, join(flags.out, 'report'));
-            if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
-          }
-        }
-        process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : summaryText(result));
+        // Checked now, not when the network estimator starts: a typo must not wait for (or hide behind) a classical fit.
+        const workers = workersFlag(flags.workers);
+        const out = claimOut(flags, 'invert');
+        return withOutput(out, () => invertCommand(profilePath, configPath, flags, config, sources, workers, out));
       }),
     );
+}
+
+async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<void> {
+  const units = lengthUnits(config.units ?? {});
+  let text: string;
+  try {
+    text = readFileSync(profilePath, 'utf8');
+  } catch (e) {
+    throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+  }
+  const data = parseProfileCsv(text, profilePath, units);
+  const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
+  const period: PeriodMode = typeof config.period === 'number' ? { mode: 'given', value: toRg(config.period) } : { mode: config.period };
+  const progress = new Progress('invert', flags.quiet);
+  let estimate;
+  try {
+    estimate = estimateClassical(data, {
+      chain: config.system.chain,
+      nx: config.grid.nx,
+      ns: config.grid.ns,
+      solver: config.solver,
+      period,
+      chiNRange: config.chiNRange as [number, number] | undefined,
+      resolution: toRg(config.resolution),
+      profilePoints: config.profilePoints,
+      periodSource: sources.period,
+      rangeSource: sources.chiNRange,
+      onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
+    });
+  } catch (e) {
+    throw asInputError(e, configPath ?? 'flags');
+  }
+  progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
+  const estimators: Record<string, EstimatorBlock> = {};
+  let ne: NetworkEstimate | undefined;
+  if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data);
+  if (config.method !== 'classical') {
+    // The network fits χN and the fields; the phase offset and period come from the classical fit.
+    const { estimateNetwork } = await import('../../inverse/network-estimator.js');
+    const net = config.network;
+    ne = await estimateNetwork(data, estimate, {
+      chain: config.system.chain,
+      seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
+      steps: net.steps,
+      fieldUpdateEvery: net.fieldUpdateEvery,
+      lbfgsIterations: net.lbfgsIterations,
+      lbfgsPerUpdate: net.lbfgsPerUpdate,
+      chiNStart: net.chiNStart,
+      resolution: toRg(config.resolution),
+      backend: net.backend,
+      workers,
+      onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
+    });
+    progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
+    estimators.network = networkBlock(ne, estimate, data);
+  }
+  // A synthetic profile (synth --out DIR) has its truth beside it: measure the estimates against it.
+  const truthPath = synthTruthPath(profilePath);
+  const truth = truthPath ? compareWithTruth(truthPath, readTruthSidecar(truthPath).chiN, config.system.chain, estimate, ne) : undefined;
+  const result = inversionResult(data, config, provenance(), estimators, truth);
+  if (flags.out) {
+    const files = {
+      'result.json': `${JSON.stringify(result, null, 1)}\n`,
+      'fit.csv': fitCsv(data, estimate),
+      'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
+    };
+    const written = out!.write(files);
+    if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
+    if (flags.report) {
+      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
+      const written = reportRunDirectory(flags.out, join(flags.out, 'report'));
+      if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
+    }
+  }
+  process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : summaryText(result));
 }

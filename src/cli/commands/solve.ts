@@ -5,7 +5,8 @@ import { RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
 import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
-import { writeDirectoryAtomic } from '../../io/atomic-write.js';
+import type { OutputDirectory } from '../../io/output-directory.js';
+import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { provenance } from '../../io/versions.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
 import { action, numberFlag } from '../run-command.js';
@@ -25,6 +26,7 @@ interface SolveFlags {
   start?: string;
   json?: boolean;
   out?: string;
+  overwrite?: boolean;
   propagators?: boolean;
   quiet?: boolean;
 }
@@ -77,51 +79,61 @@ export function registerSolve(program: Command): void {
     .option('--propagators', 'also write q(x, s) and q†(x, s)')
     .option('--json', 'print the result summary as JSON on stdout')
     .option('--out <dir>', 'write solution.json and profile.csv into this directory')
+    .option('--overwrite', 'replace a previous solve output in --out (only the files mesofield wrote there)')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (configPath: string | undefined, flags: SolveFlags) => {
         const config = buildSolveConfig(configPath, flags);
-        let initial;
-        if (config.solver.start.type === 'file') {
-          const file = loadJsonFile(config.solver.start.path, solutionFileSchema);
-          initial = { A: Float64Array.from(file.grid.wA), B: Float64Array.from(file.grid.wB) };
-        }
-        const progress = new Progress('solve', flags.quiet);
-        let ref;
-        try {
-          ref = solveFromConfig(config, {
-            initial,
-            onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(6)} Rg, F = ${e.freeEnergy.toFixed(9)} kT (${e.phase})`),
-          });
-        } catch (e) {
-          throw asInputError(e, configPath ?? 'flags');
-        }
-        const sol = ref.solution;
-        progress.done(`${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`);
-        const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
-        if (flags.out) {
-          const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
-          const files: Record<string, string> = {
-            'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}) }, null, 1)}\n`,
-            'profile.csv': solutionGridCsv(sol),
-          };
-          const prop = propagatorCsv(sol);
-          if (prop) files['propagators.csv'] = prop;
-          writeDirectoryAtomic(flags.out, files);
-          if (!flags.quiet) process.stderr.write(`solve: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
-        }
-        if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
-        else {
-          const lines = [
-            `chain ${summary.chain}, χN = ${summary.chiN}, phase: ${summary.phase}${summary.converged ? '' : ' (NOT CONVERGED)'}`,
-            `period ${summary.period.toFixed(6)} Rg${summary.periodTolerance ? ` ± ${summary.periodTolerance.toExponential(1)}` : ''} (${summary.periods} in a cell of ${summary.length.toFixed(6)} Rg)`,
-            `F = ${summary.freeEnergy.toFixed(10)} kT/chain, F_disordered = ${summary.freeEnergyDisordered ?? 'n/a'}, ΔF = ${summary.freeEnergyExcess === null ? 'n/a' : summary.freeEnergyExcess.toExponential(6)}`,
-            `Q = ${summary.Q.toPrecision(12)} (from q†: ${summary.QDagger.toPrecision(12)}), ${summary.iterations} iterations, residual ${summary.residual.toExponential(2)}`,
-            ...summary.notes.map((n) => `note: ${n}`),
-          ];
-          process.stdout.write(`${lines.join('\n')}\n`);
-        }
-        if (!sol.converged) throw new RunFailure(`solve did not converge: ${sol.notes.join('; ')}`);
+        const out = claimOut(flags, 'solve');
+        return withOutput(out, () => solveCommand(config, configPath, flags, out));
       }),
     );
+}
+
+async function solveCommand(config: SolveConfig, configPath: string | undefined, flags: SolveFlags, out: OutputDirectory | undefined): Promise<void> {
+  let initial;
+  if (config.solver.start.type === 'file') {
+    const file = loadJsonFile(config.solver.start.path, solutionFileSchema);
+    initial = { A: Float64Array.from(file.grid.wA), B: Float64Array.from(file.grid.wB) };
+  }
+  const progress = new Progress('solve', flags.quiet);
+  let ref;
+  try {
+    ref = solveFromConfig(config, {
+      initial,
+      onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(6)} Rg, F = ${e.freeEnergy.toFixed(9)} kT (${e.phase})`),
+    });
+  } catch (e) {
+    throw asInputError(e, configPath ?? 'flags');
+  }
+  const sol = ref.solution;
+  progress.done(`${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`);
+  let failedWhere = '';
+  const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
+  if (flags.out) {
+    const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
+    const files: Record<string, string> = {
+      'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}) }, null, 1)}\n`,
+      'profile.csv': solutionGridCsv(sol),
+    };
+    const prop = propagatorCsv(sol);
+    if (prop) files['propagators.csv'] = prop;
+    if (!sol.converged) failedWhere = writeFailedOutput(flags.out, 'solve', files);
+    else {
+      const written = out!.write(files);
+      if (!flags.quiet) process.stderr.write(`solve: wrote ${written.join(', ')}\n`);
+    }
+  }
+  if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
+  else {
+    const lines = [
+      `chain ${summary.chain}, χN = ${summary.chiN}, phase: ${summary.phase}${summary.converged ? '' : ' (NOT CONVERGED)'}`,
+      `period ${summary.period.toFixed(6)} Rg${summary.periodTolerance ? ` ± ${summary.periodTolerance.toExponential(1)}` : ''} (${summary.periods} in a cell of ${summary.length.toFixed(6)} Rg)`,
+      `F = ${summary.freeEnergy.toFixed(10)} kT/chain, F_disordered = ${summary.freeEnergyDisordered ?? 'n/a'}, ΔF = ${summary.freeEnergyExcess === null ? 'n/a' : summary.freeEnergyExcess.toExponential(6)}`,
+      `Q = ${summary.Q.toPrecision(12)} (from q†: ${summary.QDagger.toPrecision(12)}), ${summary.iterations} iterations, residual ${summary.residual.toExponential(2)}`,
+      ...summary.notes.map((n) => `note: ${n}`),
+    ];
+    process.stdout.write(`${lines.join('\n')}\n`);
+  }
+  if (!sol.converged) throw new RunFailure(`solve did not converge: ${sol.notes.join('; ')}${failedWhere ? `; ${failedWhere}` : ''}`);
 }
