@@ -21,8 +21,10 @@ export class RunFailure extends Error {
   }
 }
 
-function describeValue(v: unknown): string {
+/** A value as a message shows it (non-finite numbers by name: JSON would print them as null). */
+export function describeValue(v: unknown): string {
   if (v === undefined) return 'nothing (missing)';
+  if (typeof v === 'number' && !Number.isFinite(v)) return String(v);
   const s = JSON.stringify(v);
   return s.length > 80 ? `${s.slice(0, 77)}...` : s;
 }

@@ -39,7 +39,8 @@ export function readJsonFile(path: string): unknown {
   try {
     text = readFileSync(path, 'utf8');
   } catch (e) {
-    throw new InputError(isFsError(e) ? `cannot read ${describeFsError(e, path)}` : `${path}: cannot read the file (${String(e)})`);
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new InputError(`${path}: cannot read the file (${code ?? String(e)})${isFsError(e) ? `: ${describeFsError(e, path).replace(/^.*?: /, '').replace(/ \(\w+\)$/, '')}` : ''}`);
   }
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   if (text.trim() === '') throw new InputError(`${path}: the file is empty; allowed: a JSON object (see mesofield schema KIND)`);

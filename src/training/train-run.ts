@@ -183,7 +183,14 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     training.resumedFrom = { checkpoint: opts.resumeDir!, step: resumed.file.step };
     stage(`resumed from ${opts.resumeDir} at step ${resumed.file.step}`);
   } else if (config.initFrom) {
-    const src = loadCheckpoint(tf, config.initFrom);
+    let src: LoadedCheckpoint;
+    try {
+      src = loadCheckpoint(tf, config.initFrom);
+    } catch (e) {
+      // Name the config key, so the user knows which setting pointed there.
+      if (e instanceof InputError) throw new InputError(`initFrom: ${e.message}`);
+      throw e;
+    }
     const mismatch = sameArchitecture(config, src.file.config);
     if (mismatch) throw new InputError(`initFrom ${config.initFrom}: cannot transfer: ${mismatch}`);
     const srcChain = buildChain(src.file.config.system.chain);

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { synthTruthPath } from '../../io/synth-output.js';
 import { claimOut, withOutput } from '../run-output.js';
-import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
+import { InputError, asInputError } from '../../io/errors.js';
 import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
 import { solutionToFile } from '../../io/solution-file.js';
@@ -17,8 +17,8 @@ import type { EstimatorBlock } from '../../inverse/inversion-result.js';
 import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
 import type { NetworkEstimate } from '../../inverse/network-estimator.js';
 import { compareWithTruth, readTruthSidecar } from '../../inverse/truth-comparison.js';
-import { action, numberFlag, workersFlag } from '../run-command.js';
-import { obj, readRawConfig } from '../raw-config.js';
+import { action, parseDecimal, workersFlag } from '../run-command.js';
+import { ConfigInput } from '../config-input.js';
 import { Progress } from '../progress.js';
 
 interface InvertFlags {
@@ -48,60 +48,50 @@ interface InvertFlags {
 function chiNRangeFlag(value: string | undefined): [number, number] | undefined {
   if (value === undefined) return undefined;
   const parts = value.split(',').map((s) => s.trim());
-  const nums = parts.map(Number);
-  if (parts.length !== 2 || parts.some((p) => p === '') || nums.some((v) => !Number.isFinite(v))) {
+  const nums = parts.map((p) => parseDecimal('--chiN-range', p));
+  if (parts.length !== 2 || nums.some((v) => typeof v === 'string')) {
     throw new InputError(`--chiN-range: got ${JSON.stringify(value)}; allowed: two numbers lo,hi (e.g. 11,40)`);
   }
-  if (!(nums[0] > 0 && nums[0] < nums[1])) throw new InputError(`--chiN-range: got ${JSON.stringify(value)}; allowed: 0 < lo < hi`);
-  return [nums[0], nums[1]];
+  if (!((nums[0] as number) > 0 && (nums[0] as number) < (nums[1] as number))) throw new InputError(`--chiN-range: got ${JSON.stringify(value)}; allowed: 0 < lo < hi`);
+  return [nums[0] as number, nums[1] as number];
 }
 
-/** Flags on top of the config file (or of an empty diblock config). */
+/** Flags on top of the config file (or of an empty diblock config); messages name the flag or the file's key. */
 export function buildInvertConfig(configPath: string | undefined, flags: InvertFlags): { config: InvertConfig; sources: Record<string, string> } {
-  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 1, kind: 'invert', system: { chain: { type: 'diblock' } } };
-  const src = configPath ?? 'flags';
-  const fromFile = (key: string, flag: string) => (configPath && raw[key] !== undefined ? `${configPath}: ${key}` : flag);
+  const input = new ConfigInput('invert', configPath, { version: 1, kind: 'invert', system: { chain: { type: 'diblock' } } });
+  const fromFile = (key: string, flag: string) => (configPath && input.get(key) !== undefined ? `${configPath}: ${key}` : flag);
   const sources: Record<string, string> = { method: fromFile('method', '--method'), period: fromFile('period', '--period'), chiNRange: fromFile('chiNRange', '--chiN-range') };
-  const chain = obj(obj(raw, 'system'), 'chain');
-  if (chain.type === undefined) chain.type = 'diblock';
-  const f = numberFlag('--f', flags.f);
-  if (f !== undefined) chain.f = f;
+  const chain = input.get('system.chain');
+  if (chain && typeof chain === 'object' && (chain as Record<string, unknown>).type === undefined) (chain as Record<string, unknown>).type = 'diblock';
+  const f = input.number('--f', flags.f);
   if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
-  const network = obj(raw, 'network');
-  const seeds = numberFlag('--seeds', flags.seeds);
-  if (seeds !== undefined) network.seeds = seeds;
-  const nsteps = numberFlag('--network-steps', flags.networkSteps);
-  if (nsteps !== undefined) network.steps = nsteps;
-  const nlbfgs = numberFlag('--network-lbfgs', flags.networkLbfgs);
-  if (nlbfgs !== undefined) network.lbfgsIterations = nlbfgs;
-  if (flags.backend !== undefined) network.backend = flags.backend;
+  input.number('--seeds', flags.seeds);
+  input.number('--network-steps', flags.networkSteps);
+  input.number('--network-lbfgs', flags.networkLbfgs);
+  if (flags.backend !== undefined) input.set('--backend', flags.backend);
   if (flags.method !== undefined) {
-    raw.method = flags.method;
+    input.set('--method', flags.method);
     sources.method = '--method';
   }
   if (flags.period !== undefined) {
-    raw.period = flags.period === 'equilibrium' || flags.period === 'free' ? flags.period : numberFlag('--period', flags.period);
+    input.period('--period', flags.period, ['free']);
     sources.period = '--period';
   }
   const range = chiNRangeFlag(flags.chiNRange);
   if (range) {
-    raw.chiNRange = range;
+    input.set('--chiN-range', range);
     sources.chiNRange = '--chiN-range';
   }
-  const res = numberFlag('--resolution', flags.resolution);
-  if (res !== undefined) raw.resolution = res;
-  const grid = obj(raw, 'grid');
-  const nx = numberFlag('--nx', flags.nx);
-  if (nx !== undefined) grid.nx = nx;
-  const ns = numberFlag('--ns', flags.ns);
-  if (ns !== undefined) grid.ns = ns;
-  const pp = numberFlag('--profile-points', flags.profilePoints);
-  if (pp !== undefined) raw.profilePoints = pp;
-  const unitFlags = { rgNm: numberFlag('--rg-nm', flags.rgNm), segments: numberFlag('--segments', flags.segments), segmentLengthNm: numberFlag('--segment-length-nm', flags.segmentLengthNm) };
-  if (Object.values(unitFlags).some((v) => v !== undefined)) {
-    raw.units = Object.fromEntries(Object.entries(unitFlags).filter(([, v]) => v !== undefined));
-  }
-  return { config: parseOrThrow(invertConfigSchema, raw, src), sources };
+  input.number('--resolution', flags.resolution);
+  input.number('--nx', flags.nx);
+  input.number('--ns', flags.ns);
+  input.number('--profile-points', flags.profilePoints);
+  // Unit flags replace the config's units block as a whole (one way to say what x is in).
+  if (flags.rgNm !== undefined || flags.segments !== undefined || flags.segmentLengthNm !== undefined) input.reset('units');
+  input.number('--rg-nm', flags.rgNm);
+  input.number('--segments', flags.segments);
+  input.number('--segment-length-nm', flags.segmentLengthNm);
+  return { config: input.parse(invertConfigSchema), sources };
 }
 
 export function registerInvert(program: Command): void {

@@ -10,7 +10,7 @@ import { checkPointCount, predictAt } from '../../surrogate/predict.js';
 import { checkpointKind } from '../../io/checkpoint-kind.js';
 import type { Prediction } from '../../surrogate/predict.js';
 import { action, numberFlag } from '../run-command.js';
-import { backendFlag } from './train.js';
+import { backendFlag } from './train-flags.js';
 
 interface PredictFlags {
   chiN?: string;

@@ -4,8 +4,8 @@ import { InputError, parseOrThrow } from '../../io/errors.js';
 import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
 import type { SurrogateMetrics } from '../../surrogate/surrogate-run.js';
 import { formatDuration, Progress } from '../progress.js';
-import type { TrainFlags } from './train.js';
-import { backendFlag } from './train.js';
+import type { TrainFlags } from './train-flags.js';
+import { backendFlag } from './train-flags.js';
 
 const sci = (v: number) => (Number.isFinite(v) ? v.toExponential(2) : String(v));
 

@@ -1,6 +1,6 @@
 /** `mesofield train` and `mesofield evaluate`: thin wrappers over training/train-run.ts. */
 import type { Command } from 'commander';
-import { basename, join, resolve } from 'node:path';
+import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
 import { readJsonObject } from '../../io/load-json.js';
 import { installStopHandlers, stopExitCode, stopRequested } from '../../runtime/stop.js';
@@ -8,28 +8,11 @@ import { EXIT } from '../exit-codes.js';
 import { claimOut } from '../run-output.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { formatDuration, Progress } from '../progress.js';
+import { backendFlag } from './train-flags.js';
+import type { TrainFlags } from './train-flags.js';
 import { action, numberFlag } from '../run-command.js';
 import type { TransferReport } from '../../training/train-run.js';
 import { checkpointKind } from '../../io/checkpoint-kind.js';
-
-export interface TrainFlags {
-  out?: string;
-  overwrite?: boolean;
-  resume?: string;
-  json?: boolean;
-  backend?: string;
-  steps?: string;
-  report?: boolean;
-  quiet?: boolean;
-}
-
-const BACKENDS = ['auto', 'native', 'wasm', 'cpu'] as const;
-
-export function backendFlag(v: string | undefined): (typeof BACKENDS)[number] | undefined {
-  if (v === undefined) return undefined;
-  if (!(BACKENDS as readonly string[]).includes(v)) throw new InputError(`--backend: got ${JSON.stringify(v)}; allowed: ${BACKENDS.join(', ')}`);
-  return v as (typeof BACKENDS)[number];
-}
 
 function fmt(v: number): string {
   return Number.isFinite(v) ? v.toExponential(2) : String(v);
@@ -66,6 +49,8 @@ export function registerTrain(program: Command): void {
     .action(
       action(async (configPath: string, flags: TrainFlags) => {
         const raw = readJsonObject(configPath);
+        // Paths in a config are read relative to the config file's folder (it works from any working directory).
+        if (typeof raw.initFrom === 'string' && raw.initFrom !== '' && !isAbsolute(raw.initFrom)) raw.initFrom = resolve(dirname(configPath), raw.initFrom);
         if ((raw as { kind?: unknown } | null)?.kind === 'surrogate') {
           const { trainSurrogate } = await import('./train-surrogate.js');
           return trainSurrogate(configPath, raw, flags);
