@@ -22,6 +22,7 @@ interface SynthFlags {
   rgNm?: string;
   out?: string;
   overwrite?: boolean;
+  quiet?: boolean;
 }
 
 function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
@@ -48,6 +49,7 @@ export function registerSynth(program: Command): void {
     .option('--rg-nm <R>', 'write x in nm with Rg = R nm (the other length flags stay in Rg)')
     .option('--out <dir>', `write ${SYNTH_PROFILE} and its truth ${SYNTH_TRUTH} into this directory (default: CSV on stdout)`)
     .option('--overwrite', 'replace a previous synth output in --out (only the files mesofield wrote there)')
+    .option('--quiet', 'no messages on stderr')
     .action(
       action(async (flags: SynthFlags) => {
         const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
@@ -99,7 +101,7 @@ export function registerSynth(program: Command): void {
             note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
           };
           const written = out.write({ [SYNTH_PROFILE]: csv, [SYNTH_TRUTH]: `${JSON.stringify(truth, null, 1)}\n` });
-          process.stderr.write(`synth: wrote ${written.join(' and ')} (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
+          if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
         });
       }),
     );

@@ -128,8 +128,9 @@ export function registerTrain(program: Command): void {
     .argument('<checkpoint>', 'checkpoint directory written by train')
     .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
     .option('--json', 'print the metrics as JSON on stdout')
+    .option('--quiet', 'no messages on stderr')
     .action(
-      action(async (dir: string, flags: { backend?: string; json?: boolean }) => {
+      action(async (dir: string, flags: { backend?: string; json?: boolean; quiet?: boolean }) => {
         if (checkpointKind(dir) === 'surrogate-checkpoint') {
           throw new InputError(`${dir}: a surrogate checkpoint; its error map against fresh reference solves is in ${join(dir, 'metrics.json')} (mesofield report ${dir} draws it); mesofield predict ${dir} --chiN X answers at a point`);
         }
