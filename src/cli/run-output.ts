@@ -3,6 +3,7 @@
  * (io/output-directory.ts says what is allowed), released however the run ends.
  */
 import { InputError } from '../io/errors.js';
+import { RunStopped } from '../runtime/stop.js';
 import { claimOutputDirectory, failedOutputPath } from '../io/output-directory.js';
 import type { OutputDirectory } from '../io/output-directory.js';
 
@@ -30,7 +31,9 @@ export async function withOutput<T>(out: OutputDirectory | undefined, work: () =
     out?.finish();
     return r;
   } catch (e) {
-    out?.abandon();
+    // A run stopped by a signal saved its work there: that is its output (marked, to resume).
+    if (e instanceof RunStopped) out?.finish(false);
+    else out?.abandon();
     throw e;
   }
 }

@@ -40,8 +40,8 @@ export interface OutputDirectory {
   command: string;
   /** Write files (paths relative to the directory), each atomically; the marker follows. */
   write(files: Record<string, string | Uint8Array>): string[];
-  /** Record every file now in the directory (except what was there and not ours) as the tool's, complete; release the lock. */
-  finish(): void;
+  /** Record every file now in the directory (except what was there and not ours) as the tool's; release the lock. `complete` false: a stopped run, to be resumed. */
+  finish(complete?: boolean): void;
   /** Release the lock; a directory this claim created and left empty is removed. */
   abandon(): void;
 }
@@ -117,6 +117,8 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
     throw e;
   }
   const previous = readMarker(abs);
+  const markerPath = join(abs, OUTPUT_MARKER);
+  const previousMarkerText = existsSync(markerPath) ? readFileSync(markerPath) : null;
   const ours = new Set(previous?.files ?? []);
   const foreign = new Set(listFiles(abs).filter((f) => f !== OUTPUT_LOCK && f !== OUTPUT_MARKER && !ours.has(f)));
   const written = new Set<string>();
@@ -130,6 +132,9 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
       throw e;
     }
   };
+  // Marked (incomplete) at once: a run killed before it writes anything still leaves a folder
+  // that says whose it is, so the next run (a resume) may continue it.
+  wrap(() => mark(false, [...ours]));
   return {
     dir,
     command,
@@ -144,17 +149,21 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
         return Object.keys(files).map((n) => join(dir, n));
       });
     },
-    finish() {
+    finish(complete = true) {
       wrap(() => {
         const now = listFiles(abs).filter((f) => f !== OUTPUT_LOCK && f !== OUTPUT_MARKER && !foreign.has(f));
         // Files of a replaced previous output that this run did not write again are stale: remove them.
-        for (const f of ours) if (!written.has(f) && now.includes(f) && opts.overwrite && !opts.continuePrevious) rmSync(join(abs, f), { force: true });
-        mark(true, listFiles(abs).filter((f) => f !== OUTPUT_LOCK && f !== OUTPUT_MARKER && !foreign.has(f)));
+        if (complete) for (const f of ours) if (!written.has(f) && now.includes(f) && opts.overwrite && !opts.continuePrevious) rmSync(join(abs, f), { force: true });
+        mark(complete, listFiles(abs).filter((f) => f !== OUTPUT_LOCK && f !== OUTPUT_MARKER && !foreign.has(f)));
       });
       lock.release();
     },
     abandon() {
       lock.release();
+      if (written.size > 0) return;
+      // Nothing was written: put the marker back as it was (or remove it), and a folder this run made.
+      if (previousMarkerText) writeFileAtomic(markerPath, previousMarkerText);
+      else rmSync(markerPath, { force: true });
       if (created && existsSync(abs) && readdirSync(abs).length === 0) rmdirSync(abs);
     },
   };

@@ -109,7 +109,7 @@ export function registerTrain(program: Command): void {
           if (m.collapsed) throw new RunFailure('the network collapsed to the disordered state (φA is flat); start from the spectral solution (warmStart.type "reference")');
         } catch (e) {
           // A stopped run keeps what it wrote (the last good checkpoint) as its output; anything else only drops the lock.
-          if (e instanceof TrainingStopped) out?.finish();
+          if (e instanceof TrainingStopped) out?.finish(false);
           else out?.abandon();
           if (e instanceof TrainingStopped) {
             process.stderr.write(`train: ${e.message}\n`);
