@@ -19,7 +19,7 @@ import { trainRun, TrainingStopped } from '../../src/training/train-run.js';
 import { CLI } from '../helpers/run-cli.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
-const counts = { tried: 0, 'clear stop': 0, 'correct answer': 0 };
+const counts = { tried: 0, 'clear error or stop': 0, 'correct answer': 0 };
 
 /** A small train config: a fixed cell on a coarse grid, small networks, no L-BFGS: seconds per run. */
 const TRAIN = {
@@ -85,7 +85,7 @@ describe('signals', () => {
       const step = Number(/interrupted at step (\d+)/.exec(p.stderr())![1]);
       expect(checkpointStep(out)).toBe(step);
       expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
-      counts['clear stop']++;
+      counts['clear error or stop']++;
     });
   }
 
@@ -130,7 +130,7 @@ describe('signals', () => {
     const r2 = await q.code;
     expect(r2.code, q.stderr()).toBe(0);
     expect(q.stderr()).toMatch(new RegExp(`resuming .* ${done} of 40 points already saved`));
-    counts['clear stop']++;
+    counts['clear error or stop']++;
   });
 });
 
@@ -158,9 +158,14 @@ describe('resume fidelity', () => {
     expect(rel(resumed.metrics.errors.phiA.relativeL2, whole.metrics.errors.phiA.relativeL2)).toBeLessThan(1e-6);
     expect(rel(resumed.metrics.errors.freeEnergyError, whole.metrics.errors.freeEnergyError)).toBeLessThan(1e-6);
     counts['correct answer']++;
+    // Changed settings on resume are refused with the differences listed, never silently ignored.
+    counts.tried++;
+    const changed = { ...base, training: { ...base.training, learningRate: base.training.learningRate * 2 } };
+    await expect(trainRun({ config: changed, resumeDir: dir, outDir: dir, backend: 'wasm' })).rejects.toThrow(/the config differs from the one the checkpoint was trained with[\s\S]*training\.learningRate: checkpoint 0\.002, config 0\.004/);
+    counts['clear error or stop']++;
   });
 });
 
 afterAll(() => {
-  process.stdout.write(`\nsignals and resume: tried ${counts.tried}, clear stop ${counts['clear stop']}, correct answer ${counts['correct answer']}\n`);
+  process.stdout.write(`\nsignals and resume: tried ${counts.tried}, clear error or stop ${counts['clear error or stop']}, correct answer ${counts['correct answer']}\n`);
 });
