@@ -19,6 +19,7 @@ import type { NetworkEstimate } from '../../inverse/network-estimator.js';
 import { compareWithTruth, readTruthSidecar } from '../../inverse/truth-comparison.js';
 import { action, parseDecimal, workersFlag } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
+import { installStopHandlers } from '../../runtime/stop.js';
 import { Progress } from '../progress.js';
 
 interface InvertFlags {
@@ -171,19 +172,24 @@ async function invertCommand(profilePath: string, configPath: string | undefined
     // The network fits χN and the fields; the phase offset and period come from the classical fit.
     const { estimateNetwork } = await import('../../inverse/network-estimator.js');
     const net = config.network;
-    ne = await estimateNetwork(data, estimate, {
-      chain: config.system.chain,
-      seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
-      steps: net.steps,
-      fieldUpdateEvery: net.fieldUpdateEvery,
-      lbfgsIterations: net.lbfgsIterations,
-      lbfgsPerUpdate: net.lbfgsPerUpdate,
-      chiNStart: net.chiNStart,
-      resolution: toRg(config.resolution),
-      backend: net.backend,
-      workers,
-      onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
-    });
+    const uninstall = installStopHandlers('invert');
+    try {
+      ne = await estimateNetwork(data, estimate, {
+        chain: config.system.chain,
+        seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
+        steps: net.steps,
+        fieldUpdateEvery: net.fieldUpdateEvery,
+        lbfgsIterations: net.lbfgsIterations,
+        lbfgsPerUpdate: net.lbfgsPerUpdate,
+        chiNStart: net.chiNStart,
+        resolution: toRg(config.resolution),
+        backend: net.backend,
+        workers,
+        onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
+      });
+    } finally {
+      uninstall();
+    }
     progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
     estimators.network = networkBlock(ne, estimate, data);
   }
