@@ -163,4 +163,26 @@ function bomRuns(): FaultCase[] {
   ];
 }
 
-export const CONFIG_CASES: FaultCase[] = [...KINDS.flatMap(fileFaults), ...fieldFaults(), ...bomRuns()];
+/** A path in a config is read relative to the config's folder, not the working directory. */
+function relativePaths(): FaultCase[] {
+  let cfg = '';
+  return [
+    {
+      group: 'config files',
+      name: 'solve: solver.start.path relative to the config file warm-starts from the file beside it',
+      setup: async (s) => {
+        const first = await runCli(['solve', s.json('first.json', smallSolveConfig()), '--out', s.path('cfgdir/sol'), '--quiet'], { capture: true });
+        expect(first.code, first.stderr).toBe(0);
+        const c = smallSolveConfig() as Record<string, any>;
+        c.solver = { ...c.solver, start: { type: 'file', path: 'sol/solution.json' } };
+        cfg = s.json('cfgdir/c.json', c);
+      },
+      argv: () => ['solve', cfg, '--json', '--quiet'],
+      code: 0,
+      // Started from its own converged fields, the solve is done within a few iterations.
+      check: (r) => expect(JSON.parse(r.stdout).iterations).toBeLessThan(5),
+    },
+  ];
+}
+
+export const CONFIG_CASES: FaultCase[] = [...KINDS.flatMap(fileFaults), ...fieldFaults(), ...bomRuns(), ...relativePaths()];
