@@ -7,7 +7,7 @@
  */
 import { dirname, isAbsolute, resolve } from 'node:path';
 import type { z } from 'zod';
-import { InputError, describeValue } from '../io/errors.js';
+import { InputError, describeValue, issueMessage } from '../io/errors.js';
 import { readRawConfig } from './raw-config.js';
 import { parseDecimal } from './run-command.js';
 
@@ -145,7 +145,7 @@ export class ConfigInput<C extends Command> {
         return `${this.configPath ?? 'flags'}: ${path || '(top level)'}: unknown field(s) ${issue.keys.map((k) => JSON.stringify(k)).join(', ')}; remove them (check the spelling)`;
       }
       const { where, isDefault } = path ? this.source(path) : { where: `${this.configPath ?? 'flags'}: (top level)`, isDefault: false };
-      return `${where}: got ${describeValue(getAt(this.raw, path))}${isDefault ? ' (the default)' : ''}; ${issue.message}`;
+      return `${where}: got ${describeValue(getAt(this.raw, path))}${isDefault ? ' (the default)' : ''}; ${issueMessage(issue)}`;
     });
     throw new InputError(lines.join('\n'));
   }
