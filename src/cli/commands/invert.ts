@@ -129,6 +129,7 @@ export function registerInvert(program: Command): void {
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (profilePath: string, configPath: string | undefined, flags: InvertFlags) => {
+        const t0 = performance.now();
         if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const { config, sources } = buildInvertConfig(configPath, flags);
         const units = lengthUnits(config.units ?? {});
@@ -190,7 +191,8 @@ export function registerInvert(program: Command): void {
         const result = inversionResult(data, config, provenance(), estimators, truth);
         if (flags.out) {
           const files = {
-            'result.json': `${JSON.stringify(result, null, 1)}\n`,
+            // runSeconds: the wall time of the whole inversion (every estimator), for the report's title page.
+            'result.json': `${JSON.stringify({ ...result, runSeconds: (performance.now() - t0) / 1000 }, null, 1)}\n`,
             'fit.csv': fitCsv(data, estimate),
             'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
           };

@@ -80,6 +80,7 @@ export function registerSolve(program: Command): void {
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (configPath: string | undefined, flags: SolveFlags) => {
+        const t0 = performance.now();
         const config = buildSolveConfig(configPath, flags);
         let initial;
         if (config.solver.start.type === 'file') {
@@ -102,7 +103,8 @@ export function registerSolve(program: Command): void {
         if (flags.out) {
           const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
           const files: Record<string, string> = {
-            'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}) }, null, 1)}\n`,
+            // runSeconds: the wall time of the whole solve (period search included), for the report's title page.
+            'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}), ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}), runSeconds: (performance.now() - t0) / 1000 }, null, 1)}\n`,
             'profile.csv': solutionGridCsv(sol),
           };
           const prop = propagatorCsv(sol);
