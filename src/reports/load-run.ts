@@ -285,8 +285,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     film,
     periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
   };
-  for (const s of solutions) if (s === reference || s === network) read.push(s.file);
-  if (!shown.solution.propagators && !film) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);
+  if (!shown.solution.propagators && !film && !inv && !training) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);
   return { input, read, notes };
 }
 

@@ -71,16 +71,20 @@ function paginate(ctx: CanvasRenderingContext2D, doc: ReportDocument): { heading
     let current = { heading: page.heading, placed: [] as PlacedBlock[] };
     out.push(current);
     let y = MARGIN + HEADING;
-    for (const block of splitTallTables(ctx, page.blocks, bottom - (MARGIN + HEADING))) {
+    const blocks = splitTallTables(ctx, page.blocks, bottom - (MARGIN + HEADING));
+    blocks.forEach((block, i) => {
       const h = blockHeight(ctx, block, CONTENT_WIDTH);
-      if (y + h > bottom && current.placed.length > 0) {
+      // A heading stays with what it heads: it moves to the next page when that block does.
+      const next = block.type === 'text' && block.style === 'heading' ? blocks[i + 1] : undefined;
+      const needed = next ? h + BLOCK_GAP + Math.min(blockHeight(ctx, next, CONTENT_WIDTH), 60) : h;
+      if (y + needed > bottom && current.placed.length > 0) {
         current = { heading: `${page.heading} (continued)`, placed: [] };
         out.push(current);
         y = MARGIN + HEADING;
       }
       current.placed.push({ block, y });
       y += h + BLOCK_GAP;
-    }
+    });
   }
   return out;
 }
