@@ -276,7 +276,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   const film = shown.film;
   const input: ReportInput = {
     info,
-    profiles: film ? undefined : { reference: shown.solution, network: reference ? network?.solution : undefined },
+    profiles: film ? undefined : { reference: shown.solution, network: reference ? network?.solution : undefined, ...(inv?.rgNm !== undefined ? { rgNm: inv.rgNm } : {}) },
     propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
     training,
     networkMetrics,

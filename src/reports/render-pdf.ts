@@ -67,16 +67,28 @@ export function splitTallTables(ctx: CanvasRenderingContext2D, blocks: ReportPag
 function paginate(ctx: CanvasRenderingContext2D, doc: ReportDocument): { heading: string; placed: PlacedBlock[] }[] {
   const out: { heading: string; placed: PlacedBlock[] }[] = [];
   const bottom = A4.height - MARGIN - FOOTER + 10;
+  let y = 0;
   for (const page of doc.pages) {
-    let current = { heading: page.heading, placed: [] as PlacedBlock[] };
-    out.push(current);
-    let y = MARGIN + HEADING;
-    const blocks = splitTallTables(ctx, page.blocks, bottom - (MARGIN + HEADING));
+    let current: { heading: string; placed: PlacedBlock[] };
+    let blocks = splitTallTables(ctx, page.blocks, bottom - (MARGIN + HEADING));
+    const prev = out[out.length - 1];
+    const first = blocks[0] ? blockHeight(ctx, blocks[0], CONTENT_WIDTH) : 0;
+    if (page.flow && prev && y + HEADING + first <= bottom) {
+      // Continue on the previous page: the page heading becomes a heading block there.
+      current = prev;
+      blocks = [{ type: 'text', lines: [page.heading], style: 'heading' }, ...blocks];
+      y += BLOCK_GAP;
+    } else {
+      current = { heading: page.heading, placed: [] as PlacedBlock[] };
+      out.push(current);
+      y = MARGIN + HEADING;
+    }
     blocks.forEach((block, i) => {
       const h = blockHeight(ctx, block, CONTENT_WIDTH);
       // A heading stays with what it heads: it moves to the next page when that block does.
       const next = block.type === 'text' && block.style === 'heading' ? blocks[i + 1] : undefined;
-      const needed = next ? h + BLOCK_GAP + Math.min(blockHeight(ctx, next, CONTENT_WIDTH), 60) : h;
+      // (a block that does not fit starts a new page whole, so the heading goes with it).
+      const needed = next ? h + BLOCK_GAP + blockHeight(ctx, next, CONTENT_WIDTH) : h;
       if (y + needed > bottom && current.placed.length > 0) {
         current = { heading: `${page.heading} (continued)`, placed: [] };
         out.push(current);

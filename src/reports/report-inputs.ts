@@ -33,6 +33,8 @@ export interface ProfileInput {
   network?: ScftSolution;
   /** Legend name of the network curve (default "network"). */
   networkLabel?: string;
+  /** Rg in nm when the run's data were in nm: x is then drawn in nm with Rg on a top axis. */
+  rgNm?: number;
 }
 
 /** q(x, s) heat maps: needs `propagators` on the reference (and on the network, if given). */

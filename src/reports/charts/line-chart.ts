@@ -32,6 +32,8 @@ export interface GuideLine {
   style?: number | SeriesStyle;
   /** Where the label of a horizontal guide sits (default left). */
   labelAt?: 'left' | 'right';
+  /** Vertical guides: the label's row from the top (0 default), so labels of close guides do not overlap. */
+  labelRow?: number;
 }
 
 export interface LineChartSpec {
@@ -156,7 +158,7 @@ function overlayPlugin(spec: LineChartSpec): Plugin<'line'> {
             const w = ctx.measureText(g.label).width;
             const right = px + 3 + w < chartArea.right;
             ctx.textAlign = right ? 'left' : 'right';
-            ctx.fillText(g.label, right ? px + 3 : px - 3, chartArea.top + 3);
+            ctx.fillText(g.label, right ? px + 3 : px - 3, chartArea.top + 3 + (g.labelRow ?? 0) * (TEXT.small + 3));
           } else {
             const atRight = g.labelAt === 'right';
             ctx.textAlign = atRight ? 'right' : 'left';

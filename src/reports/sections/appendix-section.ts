@@ -29,7 +29,7 @@ export function appendixPage(input: ReportInput): ReportPage {
     { type: 'text', lines: assumptions(input).map((a) => `• ${a}`) },
   ];
   if (s.length) blocks.push({ type: 'text', lines: ['Settings as run'], style: 'heading' }, { type: 'table', header: ['setting', 'value', 'setting', 'value'], widths: [2.6, 1.9, 2.6, 1.9], rows });
-  return { heading: 'Appendix: assumptions and settings', blocks };
+  return { heading: 'Appendix: assumptions and settings', blocks, flow: true };
 }
 
 export const appendixSection: ReportSection = { id: 'appendix', pages: (input: ReportInput) => [appendixPage(input)] };

@@ -65,6 +65,7 @@ function metricsPage(input: ReportInput): ReportPage | null {
   if (!rows.length) return null;
   return {
     heading: 'Metrics',
+    flow: true,
     blocks: [{ type: 'table', header: ['quantity', 'value', 'unit'], widths: [4.4, 3.6, 1.3], rows: rows.map((r) => [r.name, r.value, r.unit ?? '']) }],
   };
 }

@@ -32,7 +32,7 @@ function groups(s: SweepInput, x: Axis): { label: string; points: SweepPointInpu
     if (!map.has(key)) map.set(key, []);
     map.get(key)!.push(p);
   }
-  return [...map.entries()].map(([label, points]) => ({ label: label || 'all points', points: points.sort((a, b) => a[x] - b[x]) }));
+  return [...map.entries()].map(([label, points]) => ({ label: label || 'sweep points', points: points.sort((a, b) => a[x] - b[x]) }));
 }
 
 function figure(id: string, caption: string, height: number, draw: FigureBlock['draw']): Block {
@@ -54,7 +54,7 @@ function sweepPages(s: SweepInput): ReportPage[] {
   if (x === 'chiN') {
     const spinodals = [...new Set(series.map((r) => r.spinodalChiN))];
     spinodals.forEach((c, i) => guides.push({ axis: 'x', value: c, label: spinodals.length === 1 ? `RPA spinodal χN = ${sig(c, 4)}` : undefined, style: 6 + i }));
-    series.forEach((r, i) => r.odt && guides.push({ axis: 'x', value: r.odt.estimate, label: series.length === 1 ? `ODT ≈ ${sig(r.odt.estimate, 4)}` : undefined, style: 5 + i }));
+    series.forEach((r, i) => r.odt && guides.push({ axis: 'x', value: r.odt.estimate, label: series.length === 1 ? `order–disorder estimate ≈ ${sig(r.odt.estimate, 4)}` : undefined, style: 5 + i, labelRow: 1 }));
   }
   const odtText = series
     .map((r: SweepSeries) => {
@@ -98,7 +98,7 @@ function sweepPages(s: SweepInput): ReportPage[] {
   const table: Block = {
     type: 'table',
     header: ['χN', 'f', 'b_A/b_B', 'phase', 'D / Rg', 'F (kT/chain)', 'F − F_dis (kT/chain)', 'Q', 'converged'],
-    widths: [0.9, 0.7, 0.8, 1.1, 1.0, 1.2, 1.5, 1.1, 0.9],
+    widths: [0.8, 0.6, 0.8, 1.1, 0.9, 1.2, 1.5, 1.1, 1.1],
     alignRight: [0, 1, 2, 4, 5, 6, 7],
     rows: rows.map((p) => [
       sig(p.chiN, 5),
