@@ -26,7 +26,8 @@ describe('mesofield report on a solve run', () => {
     // The PDF date is the run's own date (provenance.createdAt), to the second.
     expect(info.CreationDate).toBe(`${String(sol.provenance.createdAt).slice(0, 19)}Z`);
     const text = pdfText(join(out, 'report.pdf'));
-    expect(text).toContain(`${(sol.summary.period * 5).toPrecision(4)} nm`);
+    // The period in nm first (five significant digits), Rg second.
+    expect(text).toContain(`${Number((sol.summary.period * 5).toPrecision(5))} nm (${Number(sol.summary.period.toPrecision(5))} Rg)`);
     expect(readdirSync(join(out, 'figures')).sort()).toEqual(['period-search.png', 'profiles-exchange-field.png', 'profiles-phi.png', 'propagators.png']);
     for (const f of readdirSync(join(out, 'figures'))) {
       const h = pngHeader(readFileSync(join(out, 'figures', f)));

@@ -19,7 +19,7 @@ export function periodText(period: number, rgNm: number | undefined, digits = 5)
 
 function solutionRows(sol: ScftSolution, rgNm: number | undefined, periodTolerance?: number): MetricRow[] {
   const rows: MetricRow[] = [{ name: 'phase', value: phaseText(sol.phase) }];
-  if (Number.isFinite(sol.period)) rows.push({ name: 'lamellar period L', value: `${periodText(sol.period, rgNm, 6)}${periodTolerance !== undefined ? ` ± ${sci(periodTolerance, 1)} Rg` : ''}` });
+  if (Number.isFinite(sol.period)) rows.push({ name: 'lamellar period L', value: `${periodText(sol.period, rgNm, 5)}${periodTolerance !== undefined ? ` ± ${sci(periodTolerance, 1)} Rg` : ''}` });
   rows.push({ name: 'free energy F', value: sig(sol.freeEnergy, 7), unit: 'kT per chain' });
   if (Number.isFinite(sol.freeEnergyDisordered) && sol.phase !== 'disordered') rows.push({ name: 'F − F of the disordered melt', value: sig(sol.freeEnergy - sol.freeEnergyDisordered, 5), unit: 'kT per chain' });
   return rows;
