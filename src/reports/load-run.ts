@@ -224,7 +224,8 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       }
     } else if (kind === 'surrogate-checkpoint') {
       surrogate = surrogateInput(raw, path);
-    } else if (name === 'metrics.json' && raw && typeof raw === 'object' && 'errors' in raw) {
+    } else if (name === 'metrics.json' && (raw as { errors?: { phiA?: unknown } } | null)?.errors?.phiA !== undefined) {
+      // A train run's metrics (a surrogate's metrics.json is read with its checkpoint).
       const m = readTrainMetrics(raw, path);
       networkMetrics = m.metrics;
       trainSeconds = { runSeconds: m.runSeconds, runSecondsNote: m.runSecondsNote };
