@@ -46,6 +46,25 @@ describe('mesofield report on a solve run', () => {
   });
 });
 
+describe('mesofield report on a sweep run', () => {
+  it('draws F − F_dis, the period and Q against χN with the spinodal and the order–disorder estimate', () => {
+    const cfg = join(root, 'scan.sweep.json');
+    writeFileSync(
+      cfg,
+      JSON.stringify({ version: 1, kind: 'sweep', chain: { type: 'diblock' }, grid: { chiN: { from: 9, to: 21, count: 5 }, f: [0.5], segmentLengthRatio: [1] }, cell: { period: 'optimize', periods: 1, nx: 32, ns: 60 }, reference: { tolerance: 1e-8 } }),
+    );
+    const dir = join(root, 'scan');
+    const s = runCli(['sweep', cfg, '--out', dir, '--quiet'], { timeoutMs: 120_000 });
+    expect(s.code, s.stderr).toBe(0);
+    const r = runCli(['report', dir, '--format', 'pdf']);
+    expect(r.code, r.stderr).toBe(0);
+    const text = pdfText(join(dir, 'report', 'report.pdf'));
+    for (const t of ['mesofield sweep report', 'F − F_dis (kT per chain)', 'period D / Rg', 'order–disorder estimate', 'RPA spinodal', 'Q (–)']) expect(text).toContain(t);
+    // The symmetric diblock's spinodal (Leibler 1980: 10.495, from memory) on page 1.
+    expect(pdfText(join(dir, 'report', 'report.pdf'), 1)).toMatch(/RPA spinodal χN\s+10\.49/);
+  });
+});
+
 describe('mesofield report: bad input exits 2 with a message naming the problem', () => {
   it('missing run directory', () => {
     const r = runCli(['report', join(root, 'nope')]);
