@@ -12,6 +12,7 @@ import { buildChain } from '../../src/physics/chain.js';
 import { spinodal } from '../../src/physics/rpa.js';
 import { solveFilm } from '../../src/spectral/film-solve.js';
 import { FilmCell } from '../../src/physics/cell/film-cell.js';
+import { scanThickness } from '../../src/spectral/thickness-scan.js';
 import { runInfo } from './fixtures.js';
 import { pdfFile, pdfText } from './pdf-tools.js';
 
@@ -96,5 +97,18 @@ describe('film pages', () => {
     };
     const all = pdfText(pdfFile(renderPdf(buildReport(input))));
     for (const s of ['Film: specular reflectivity', 'Q (1/Å)', 'R·Q⁴', 'R (–)']) expect(all).toContain(s);
+  });
+
+  it('draw F(H) from a thickness scan with its minima marked', () => {
+    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+    const walls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
+    // Three thicknesses of five-layer films; the middle one is lowest (measured: F 2.946, 2.924, 2.937 kT per chain), so one minimum.
+    const scan = scanThickness({ system, walls, thicknesses: [5.6, 6.4, 7.2], nx: 32, ns: 40 });
+    expect(scan.minima.length).toBe(1);
+    const r = solveFilm({ system, cell: new FilmCell(3.8, 16, walls), contour: 40 });
+    const input: ReportInput = { info: { ...runInfo('solve'), system }, film: { solution: r.solution, thickness: 3.8, walls: { bottom: 2, top: 2, range: 0.25 }, layers: r.layers, scan } };
+    const all = pdfText(pdfFile(renderPdf(buildReport(input))));
+    for (const s of ['Film: free energy against thickness', 'film thickness H / Rg', 'F (kT per chain)', 'minima']) expect(all).toContain(s);
+    for (const m of scan.minima) expect(all).toContain(`H = ${Number(m.thickness.toPrecision(4))} Rg`);
   });
 });
