@@ -23,6 +23,11 @@ function propagatorsOf(sol: ScftSolution, who: string): NonNullable<ScftSolution
   return p;
 }
 
+/** A film's grid points are cell centres between walls: its map fills [0, H] exactly, with no periodic repeat. */
+function filmBox(sol: ScftSolution): Partial<HeatMapSpec> {
+  return sol.cell.kind === 'film' ? { box: { x: [0, sol.length], y: [0, 1] }, xLabel: 'z / Rg' } : {};
+}
+
 function gridFigure(id: string, caption: string, panels: HeatMapSpec[]): FigureBlock {
   // Three panels sit in one row: a 2 × 2 grid would leave one slot empty.
   const cols = panels.length === 3 ? 3 : 2;
@@ -51,8 +56,8 @@ function propagatorPage(p: PropagatorInput): ReportPage {
       heading: 'Chain propagators',
       blocks: [
         gridFigure('propagators', `Figure: reference propagators q(x, s) (from the s = 0 end) and q†(x, s) (from the s = 1 end), on one colour scale; ${rq.s.length - 1} contour steps, ${ref.nx} grid points.`, [
-          { title: 'q(x, s), reference', rows: rq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)' },
-          { title: 'q†(x, s), reference', rows: rq.qDagger, length: ref.length, map: 'sequential', range, colourBarLabel: 'q† (–)' },
+          { title: 'q(x, s), reference', rows: rq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)', ...filmBox(ref) },
+          { title: 'q†(x, s), reference', rows: rq.qDagger, length: ref.length, map: 'sequential', range, colourBarLabel: 'q† (–)', ...filmBox(ref) },
         ]),
       ],
     };
