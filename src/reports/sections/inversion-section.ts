@@ -101,7 +101,7 @@ function inversionPage(v: InversionInput): ReportPage {
       {
         type: 'table',
         header: ['estimator', 'χN', `lower (${Math.round(level * 100)} %)`, `upper (${Math.round(level * 100)} %)`, 'how the interval was found'],
-        widths: [1.8, 1.0, 1.2, 1.2, 4.8],
+        widths: [1.6, 0.9, 1.4, 1.4, 4.7],
         alignRight: [1, 2, 3],
         rows: v.estimators.map((e) => [e.name, sig(e.chiN, 5), sig(e.lower, 5), sig(e.upper, 5), e.note ?? '']),
       },
