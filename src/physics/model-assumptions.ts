@@ -13,7 +13,7 @@ const COMMON: readonly string[] = [
 ];
 
 const GEOMETRY: Record<CellKind, string> = {
-  periodic: 'one-dimensional lamellae in a periodic cell: other morphologies (cylinders, gyroid, spheres) are not considered and may be more stable',
+  periodic: 'one-dimensional lamellae in a periodic cell, compared with the disordered melt only: other morphologies (cylinders, gyroid, spheres) are not considered and may be more stable',
   film: 'a one-dimensional film between flat walls: reflecting walls with short-range surface fields of the given affinities; lateral structure (perpendicular lamellae, islands and holes) is not resolved',
 };
 

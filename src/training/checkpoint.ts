@@ -33,6 +33,8 @@ export const historyEntrySchema = z.object({
   phiError: z.number().optional(),
   /** L-BFGS entries: polish iterations done so far (the Adam step count stays in `step`). */
   lbfgsIterations: z.number().int().min(0).optional(),
+  /** Seconds since the run started (reference solve and warm start included): the report's wall-time axis over every phase. */
+  wallSeconds: z.number().optional(),
 });
 
 export const checkpointFileSchema = z.object({

@@ -66,6 +66,8 @@ export interface TrainMetrics {
     transfer?: TransferReport;
     resumedFrom?: { checkpoint: string; step: number };
   };
+  /** Wall time of the whole run in seconds: reference solve, warm start, training and the final evaluation. */
+  runSeconds: number;
 }
 
 export interface TrainRunResult {
@@ -209,7 +211,10 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const fromReference = ws.type === 'reference';
     const w = fromReference ? reference.w : cosineStart(chain, config.system.chiN, reference.cell, 0.3);
     stage(fromReference ? 'warm start: fitting the networks to the spectral solution' : 'cold start: fitting the field network to a cosine guess');
-    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.steps, ws.learningRate);
+    const wsStart = performance.now();
+    // Every warm-start step in the history: the report draws the loss over every phase.
+    const onStep = (step: number, loss: number) => state.history.push({ step, stage: 'warm-start', total: loss, terms: {}, learningRate: ws.learningRate, seconds: (performance.now() - wsStart) / 1000, wallSeconds: (performance.now() - t0) / 1000 });
+    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.steps, ws.learningRate, onStep);
     training.warmStart = r;
   }
 
@@ -246,6 +251,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     checkpoint: (st) => save(st, 'adam'),
     evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
     shouldStop: opts.shouldStop,
+    wallSeconds: () => (performance.now() - t0) / 1000,
   });
   training.stopReason = loop.reason;
   training.message = loop.message;
@@ -284,11 +290,14 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         nets.dispose();
         throw new TrainingStopped('interrupted', `interrupted in the L-BFGS polish after ${iterations} iterations (cycle ${c + 1} of ${cycles}); checkpoint saved at step ${loop.state.step}`, opts.outDir, opts.outDir ? loop.state.step : null);
       }
-      r = polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined);
+      const before = iterations;
+      // Every L-BFGS iteration in the history (loss only); the cycle's end entry below adds the φA error.
+      const onIteration = (it: number, f: number) => loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: before + it });
+      r = polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined, onIteration);
       iterations += r.iterations;
       // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.
       const phiError = tr.evaluateEvery > 0 ? evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2 : undefined;
-      loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
+      loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
       stage(`L-BFGS cycle ${c + 1}/${cycles}: ${iterations} iterations, loss ${r.f.toExponential(3)}${phiError !== undefined ? `, φA error ${phiError.toExponential(3)}` : ''}`);
       if (phiError !== undefined && tr.targetPhiError !== undefined && phiError < tr.targetPhiError) {
         training.reachedTarget = { step: loop.state.step, seconds: trainingSeconds(), lbfgsIterations: iterations };
@@ -326,6 +335,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     reference: summarize(reference, { periodTolerance: ref.search?.periodTolerance }),
     network: summarize(network),
     training: training as TrainMetrics['training'],
+    runSeconds: (performance.now() - t0) / 1000,
   };
   if (opts.outDir) {
     const networkFile = `${JSON.stringify(solutionToFile(network, prov(), config), null, 1)}\n`;

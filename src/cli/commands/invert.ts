@@ -135,6 +135,7 @@ export function registerInvert(program: Command): void {
 }
 
 async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<void> {
+  const t0 = performance.now();
   const units = lengthUnits(config.units ?? {});
   let text: string;
   try {
@@ -199,7 +200,8 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   const result = inversionResult(data, config, provenance(), estimators, truth);
   if (flags.out) {
     const files = {
-      'result.json': `${JSON.stringify(result, null, 1)}\n`,
+      // runSeconds: the wall time of the whole inversion (every estimator), for the report's title page.
+      'result.json': `${JSON.stringify({ ...result, runSeconds: (performance.now() - t0) / 1000 }, null, 1)}\n`,
       'fit.csv': fitCsv(data, estimate),
       'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
     };

@@ -83,6 +83,7 @@ export function registerSolve(program: Command): void {
 }
 
 async function solveCommand(config: SolveConfig, configPath: string | undefined, flags: SolveFlags, out: OutputDirectory | undefined): Promise<void> {
+  const t0 = performance.now();
   let initial;
   if (config.solver.start.type === 'file') {
     const file = loadJsonFile(config.solver.start.path, solutionFileSchema);
@@ -105,7 +106,8 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
   if (flags.out) {
     const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
     const files: Record<string, string> = {
-      'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}) }, null, 1)}\n`,
+      // runSeconds: the wall time of the whole solve (period search included), for the report's title page.
+      'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}), ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}), runSeconds: (performance.now() - t0) / 1000 }, null, 1)}\n`,
       'profile.csv': solutionGridCsv(sol),
     };
     const prop = propagatorCsv(sol);
