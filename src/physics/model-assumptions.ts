@@ -14,7 +14,7 @@ const COMMON: readonly string[] = [
 
 const GEOMETRY: Record<CellKind, string> = {
   periodic: 'one-dimensional lamellae in a periodic cell, compared with the disordered melt only: other morphologies (cylinders, gyroid, spheres) are not considered and may be more stable',
-  film: 'a one-dimensional film between flat walls: reflecting walls with short-range surface fields of the given affinities; lateral structure (perpendicular lamellae, islands and holes) is not resolved',
+  film: 'a film between flat walls, composition varying across the film only (one dimension): reflecting walls with short-range surface fields of the given affinities; lateral structure (perpendicular lamellae, islands and holes) is not resolved',
 };
 
 const FIT_CAUTION =
