@@ -8,7 +8,8 @@ import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
 import { solutionToFile } from '../../io/solution-file.js';
 import { provenance } from '../../io/versions.js';
-import { estimateClassical } from '../../inverse/classical.js';
+import { estimateWithAssumedInputs } from '../../inverse/classical-with-inputs.js';
+import { assumedInputs } from '../../inverse/assumed-inputs.js';
 import type { PeriodMode } from '../../inverse/objective.js';
 import { fitCsv, classicalBlock, inversionResult, networkBlock, summaryText } from '../../inverse/inversion-result.js';
 import type { EstimatorBlock } from '../../inverse/inversion-result.js';
@@ -27,6 +28,9 @@ interface InvertFlags {
   json?: boolean;
   out?: string;
   rgNm?: string;
+  rgNmSd?: string;
+  fSd?: string;
+  segmentRatioSd?: string;
   segments?: string;
   segmentLengthNm?: string;
   resolution?: string;
@@ -94,10 +98,28 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
   if (ns !== undefined) grid.ns = ns;
   const pp = numberFlag('--profile-points', flags.profilePoints);
   if (pp !== undefined) raw.profilePoints = pp;
-  const unitFlags = { rgNm: numberFlag('--rg-nm', flags.rgNm), segments: numberFlag('--segments', flags.segments), segmentLengthNm: numberFlag('--segment-length-nm', flags.segmentLengthNm) };
+  const unitFlags = {
+    rgNm: numberFlag('--rg-nm', flags.rgNm),
+    rgNmSd: numberFlag('--rg-nm-sd', flags.rgNmSd),
+    segments: numberFlag('--segments', flags.segments),
+    segmentLengthNm: numberFlag('--segment-length-nm', flags.segmentLengthNm),
+  };
   if (Object.values(unitFlags).some((v) => v !== undefined)) {
     raw.units = Object.fromEntries(Object.entries(unitFlags).filter(([, v]) => v !== undefined));
   }
+  for (const [flag, key, v] of [
+    ['--f-sd', 'f', flags.fSd],
+    ['--segment-ratio-sd', 'segmentRatio', flags.segmentRatioSd],
+  ] as const) {
+    const n = numberFlag(flag, v);
+    if (n !== undefined) {
+      obj(raw, 'uncertainty')[key] = n;
+      sources[`sd.${key}`] = flag;
+    }
+  }
+  if (unitFlags.rgNmSd !== undefined) sources['sd.rgNm'] = '--rg-nm-sd';
+  for (const key of ['f', 'segmentRatio']) if (!sources[`sd.${key}`]) sources[`sd.${key}`] = `${src}: uncertainty.${key}`;
+  if (!sources['sd.rgNm']) sources['sd.rgNm'] = `${src}: units.rgNmSd`;
   return { config: parseOrThrow(invertConfigSchema, raw, src), sources };
 }
 
@@ -118,6 +140,9 @@ export function registerInvert(program: Command): void {
     .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')
     .option('--resolution <W>', 'Gaussian instrument resolution (standard deviation, units of x)')
     .option('--rg-nm <R>', 'x is in nm and Rg = R nm')
+    .option('--rg-nm-sd <S>', 'standard deviation of Rg in nm: profiled into the χN interval')
+    .option('--f-sd <S>', 'standard deviation of f: profiled into the χN interval (two extra fits at f ± S)')
+    .option('--segment-ratio-sd <S>', 'standard deviation of b_A/b_B: profiled into the χN interval (two extra fits)')
     .option('--segments <N>', 'x is in nm; with --segment-length-nm, Rg = b·sqrt(N/6)')
     .option('--segment-length-nm <b>', 'statistical segment length in nm (with --segments)')
     .option('--nx <n>', 'model grid points per period (power of two; default 64)')
@@ -143,27 +168,34 @@ export function registerInvert(program: Command): void {
         const period: PeriodMode = typeof config.period === 'number' ? { mode: 'given', value: toRg(config.period) } : { mode: config.period };
         const progress = new Progress('invert', flags.quiet);
         let estimate;
+        let assumed;
         try {
-          estimate = estimateClassical(data, {
-            chain: config.system.chain,
-            nx: config.grid.nx,
-            ns: config.grid.ns,
-            solver: config.solver,
-            period,
-            chiNRange: config.chiNRange as [number, number] | undefined,
-            resolution: toRg(config.resolution),
-            profilePoints: config.profilePoints,
-            periodSource: sources.period,
-            rangeSource: sources.chiNRange,
-            onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
-          });
+          const inputs = assumedInputs(config, units, sources);
+          ({ estimate, assumed } = estimateWithAssumedInputs(
+            data,
+            {
+              chain: config.system.chain,
+              nx: config.grid.nx,
+              ns: config.grid.ns,
+              solver: config.solver,
+              period,
+              chiNRange: config.chiNRange as [number, number] | undefined,
+              resolution: toRg(config.resolution),
+              profilePoints: config.profilePoints,
+              periodSource: sources.period,
+              rangeSource: sources.chiNRange,
+              onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
+            },
+            inputs,
+            (label) => progress.update(`refit with ${label}`, true),
+          ));
         } catch (e) {
           throw asInputError(e, configPath ?? 'flags');
         }
         progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
         const estimators: Record<string, EstimatorBlock> = {};
         let ne: NetworkEstimate | undefined;
-        if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data);
+        if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data, assumed);
         if (config.method !== 'classical') {
           // The network fits χN and the fields; the phase offset and period come from the classical fit.
           const { estimateNetwork } = await import('../../inverse/network-estimator.js');

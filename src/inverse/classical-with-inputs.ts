@@ -1,0 +1,27 @@
+/**
+ * The classical estimate together with what it owes to the assumed inputs (assumed-inputs.ts):
+ * the uncertain ones profiled into the interval, and, without an Rg uncertainty, the
+ * sensitivity to Rg whenever x is in nm and the period is tied to the equilibrium period.
+ */
+import type { AssumedInput, AssumedInputsReport } from './assumed-inputs.js';
+import { assessAssumedInputs, refitter } from './assumed-inputs.js';
+import type { ClassicalEstimate, ClassicalSettings } from './classical.js';
+import { createModels, estimateClassical } from './classical.js';
+import { checkLengthScale } from './length-scale-check.js';
+import type { ProfileData } from './profile-csv.js';
+
+export interface ClassicalWithInputs {
+  estimate: ClassicalEstimate;
+  assumed: AssumedInputsReport;
+}
+
+export function estimateWithAssumedInputs(data: ProfileData, settings: ClassicalSettings, inputs: AssumedInput[], onRefit?: (label: string) => void): ClassicalWithInputs {
+  checkLengthScale(data, settings.chain);
+  const models = createModels(settings);
+  const estimate = estimateClassical(data, settings, models);
+  const hasRgSd = inputs.some((i) => i.key === 'rgNm');
+  const tied = data.units.x === 'nm' && settings.period.mode === 'equilibrium' && !hasRgSd;
+  const refit = refitter(data, { ...settings, onEvaluation: undefined }, models, onRefit);
+  const assumed = assessAssumedInputs(estimate, inputs, refit, { sensitivityRg: tied ? data.units.rgNm : undefined });
+  return { estimate, assumed };
+}
