@@ -7,10 +7,12 @@
  * ((θ − θ₀)/s)² (Cowan, Statistical Data Analysis (1998), §6.11 and §9.2), evaluated in
  * the local quadratic approximation: two refits at θ₀ ± s give the shift of the best χN,
  * k = dχ̂N/dθ, and the data's own curvature in θ, h = ½ d²χ²_min/dθ² (≥ 0). For a χ² that is
- * quadratic in (χN, θ), profiling θ out exactly gives
- *   Δχ²(χN) = (χN − χ̂N)² / (w² + k² v),   v = 1/(h + 1/s²),
- * where w is the half-width from the fit at θ₀, so each end of an interval of level d moves
- * from χ̂N ± w to χ̂N ± sqrt(w² + d k² v). Several inputs add their k² v terms (their
+ * quadratic in (χN, θ), χ²_min(θ₀ + δ) − χ²_min(θ₀) = g δ + h δ² (g, h from the two refits)
+ * and profiling θ out exactly gives
+ *   Δχ²(χN) = (χN − χ̂N − k δ*)² / (w² + k² v),   v = 1/(h + 1/s²),  δ* = −g v / 2,
+ * where w is the half-width from the fit at θ₀: the centre moves by k δ* (the data pull θ
+ * within its constraint) and each end of an interval of level d lies at the centre
+ * ∓ sqrt(w² + d k² v). Several inputs add their k² v terms (their
  * cross-terms are neglected: each is profiled at the others' values). The two refits also
  * show how far the response is from linear (χ̂N at −s and +s are reported).
  *
@@ -48,6 +50,9 @@ export interface AssumedInputEffect {
   dataCurvature: number;
   /** sqrt(k² v): the standard deviation this input adds to χN. */
   chiNSd: number;
+  /** The data's pull on θ within its constraint, δ*, and the shift k δ* it gives χN. */
+  valueShift: number;
+  chiNShift: number;
 }
 
 export interface Sensitivity {
@@ -60,6 +65,8 @@ export interface Sensitivity {
 
 export interface AssumedInputsReport {
   effects: AssumedInputEffect[];
+  /** χN with the uncertain inputs profiled out (the centre of the intervals below). */
+  chiN?: number;
   /** The intervals with the uncertain inputs profiled out (same shape as the estimate's). */
   intervals?: ClassicalEstimate['intervals'];
   interval?: [number, number];
@@ -120,23 +127,39 @@ export function assessAssumedInputs(base: ClassicalEstimate, inputs: AssumedInpu
     const plus = refit({ [inp.key]: inp.value + inp.sd });
     const slope = (plus.chiN - minus.chiN) / (2 * inp.sd);
     const curvature = Math.max(0, (chi2On(base, plus) + chi2On(base, minus) - 2 * c0) / (2 * inp.sd * inp.sd));
+    const gradient = (chi2On(base, plus) - chi2On(base, minus)) / (2 * inp.sd);
     const v = 1 / (curvature + 1 / (inp.sd * inp.sd));
-    effects.push({ key: inp.key, source: inp.source, value: inp.value, sd: inp.sd, chiNAtMinus: minus.chiN, chiNAtPlus: plus.chiN, slope, dataCurvature: curvature, chiNSd: Math.sqrt(slope * slope * v) });
+    const valueShift = (-gradient * v) / 2;
+    effects.push({
+      key: inp.key,
+      source: inp.source,
+      value: inp.value,
+      sd: inp.sd,
+      chiNAtMinus: minus.chiN,
+      chiNAtPlus: plus.chiN,
+      slope,
+      dataCurvature: curvature,
+      chiNSd: Math.sqrt(slope * slope * v),
+      valueShift,
+      chiNShift: slope * valueShift,
+    });
   }
   const report: AssumedInputsReport = {
     effects,
     statisticalInterval: base.interval,
     statisticalInterval95: base.interval95,
     method:
-      'profile likelihood with each uncertain input as a nuisance parameter under a Gaussian constraint, in the local quadratic approximation (refits at the value ± its sd give dχN/dθ and the data’s own curvature in θ); each interval end moves from χN ± w to χN ± sqrt(w² + Δχ²·k²v)',
+      'profile likelihood with each uncertain input as a nuisance parameter under a Gaussian constraint, in the local quadratic approximation (refits at the value ± its sd give dχN/dθ and the data’s own curvature in θ); the centre moves by the data’s pull on the input within its constraint, and each interval end lies at the centre ∓ sqrt(w² + Δχ²·k²v)',
     seconds: 0,
   };
   if (effects.length > 0) {
     const extra = effects.reduce((a, e) => a + e.chiNSd * e.chiNSd, 0);
+    const centre = base.chiN + effects.reduce((a, e) => a + e.chiNShift, 0);
+    report.chiN = centre;
     const intervals = {} as ClassicalEstimate['intervals'];
     for (const [name, iv] of Object.entries(base.intervals) as [keyof ClassicalEstimate['intervals'], ClassicalEstimate['intervals']['95%']][]) {
-      const lo = base.chiN - Math.sqrt((base.chiN - iv.lo) ** 2 + iv.deltaChi2 * extra);
-      const hi = base.chiN + Math.sqrt((iv.hi - base.chiN) ** 2 + iv.deltaChi2 * extra);
+      const lo = centre - Math.sqrt((base.chiN - iv.lo) ** 2 + iv.deltaChi2 * extra);
+      const hi = centre + Math.sqrt((iv.hi - base.chiN) ** 2 + iv.deltaChi2 * extra);
       intervals[name] = { ...iv, lo, hi };
     }
     report.intervals = intervals;

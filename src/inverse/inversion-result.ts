@@ -97,7 +97,8 @@ export function classicalBlock(est: ClassicalEstimate, data: ProfileData, assume
   return {
     method: 'classical',
     status: 'ok',
-    chiN: est.chiN,
+    chiN: withInputs ? assumed!.chiN! : est.chiN,
+    ...(withInputs ? { chiNDataOnly: est.chiN } : {}),
     interval: withInputs ? assumed!.interval! : est.interval,
     interval95: withInputs ? assumed!.interval95! : est.interval95,
     intervalMethod: `profile likelihood of χN (offset${free} minimised at each χN); the ends are where Δχ² reaches the level, found by Brent root finding; levels ${est.sigma.source === 'column' ? 'Δχ² = 1 and 3.841 (χ² with one degree of freedom)' : `t² with n − p = ${est.dof} degrees of freedom (sigma estimated)`}${withInputs ? `; uncertain inputs (${assumed!.effects.map((e) => e.key).join(', ')}) included by ${assumed!.method}` : ''}`,
@@ -220,9 +221,9 @@ export function summaryText(result: InversionResult): string {
       const how = e.method === 'network' ? `seed spread, ${(e.runs as unknown[]).length} seeds: an optimisation spread, not a statistical interval` : assumed?.intervals ? `profile likelihood, including ${assumed.effects.map((x) => `${x.key} ± ${x.sd} (${x.source})`).join(', ')}` : 'profile likelihood';
       lines.push(`  68.3% interval [${f(e.interval[0])}, ${f(e.interval[1])}], 95% interval [${f(e.interval95[0])}, ${f(e.interval95[1])}] (${how})`);
       if (assumed?.intervals) {
-        lines.push(`  from the data alone (inputs fixed): 68.3% [${f(assumed.statisticalInterval[0])}, ${f(assumed.statisticalInterval[1])}], 95% [${f(assumed.statisticalInterval95[0])}, ${f(assumed.statisticalInterval95[1])}]`);
+        lines.push(`  from the data alone (inputs fixed at their values): χN = ${f(e.chiNDataOnly as number)}, 68.3% [${f(assumed.statisticalInterval[0])}, ${f(assumed.statisticalInterval[1])}], 95% [${f(assumed.statisticalInterval95[0])}, ${f(assumed.statisticalInterval95[1])}]`);
         for (const x of assumed.effects) {
-          lines.push(`  ${x.key} = ${x.value} ± ${x.sd}: χN = ${f(x.chiNAtMinus)} at −1 sd, ${f(x.chiNAtPlus)} at +1 sd; adds sd ${x.chiNSd.toPrecision(3)} to χN`);
+          lines.push(`  ${x.key} = ${x.value} ± ${x.sd}: χN = ${f(x.chiNAtMinus)} at −1 sd, ${f(x.chiNAtPlus)} at +1 sd; adds sd ${x.chiNSd.toPrecision(3)} to χN; the data pull ${x.key} by ${x.valueShift.toPrecision(3)}, moving χN by ${x.chiNShift.toPrecision(3)}`);
         }
       }
       if (assumed?.sensitivity) lines.push(`  SENSITIVITY: ${assumed.sensitivity.note}`);
