@@ -16,6 +16,7 @@ import { registerReport } from './commands/report.js';
 import { registerSweep } from './commands/sweep.js';
 import { registerPredict } from './commands/predict.js';
 import { registerFitScattering } from './commands/fit-scattering.js';
+import { registerBragg } from './commands/bragg.js';
 
 const program = new Command();
 program
@@ -39,6 +40,7 @@ registerReport(program);
 registerSweep(program);
 registerPredict(program);
 registerFitScattering(program);
+registerBragg(program);
 registerSchema(program);
 
 await program.parseAsync(process.argv);

@@ -18,6 +18,7 @@
 import { InputError } from '../../io/errors.js';
 import type { ChainSpec } from '../../physics/chain-schema.js';
 import { deltaChi2Level, LEVELS } from '../confidence.js';
+import { reducedChi2Warning } from '../fit-quality.js';
 import { defaultChiNRange } from '../classical.js';
 import { LamellaModel } from '../lamella-model.js';
 import type { ProfiledPoint } from '../profile-likelihood.js';
@@ -128,6 +129,8 @@ export function fitBragg(data: MeasuredPeaks, s: BraggFitSettings): BraggFit {
     intervals[level.name] = { lo: lo.chiN, hi: hi.chiN, limitedByRange: { lo: lo.limitedByRange, hi: hi.limitedByRange } };
     if (hi.limitedByRange) notes.push(`the ${level.name} interval reaches the upper bound of the χN range: the relative intensities saturate in strong segregation, so these peaks set only a lower limit on χN`);
   }
+  const poor = dof > 0 ? reducedChi2Warning(b.value / dof, dof, 'these peak intensities') : undefined;
+  if (poor) notes.unshift(`WARNING: ${poor}`);
   notes.push('peak intensities are taken as integrated intensities in the kinematic approximation; thermal disorder and grain-size effects damp higher orders (a Debye–Waller-like factor) and bias χN low');
   const profile = known()
     .sort((p, q) => p.chiN - q.chiN)
