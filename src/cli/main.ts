@@ -17,6 +17,7 @@ import { registerSweep } from './commands/sweep.js';
 import { registerPredict } from './commands/predict.js';
 import { registerFitScattering } from './commands/fit-scattering.js';
 import { registerBragg } from './commands/bragg.js';
+import { registerFitSpacing } from './commands/fit-spacing.js';
 
 const program = new Command();
 program
@@ -41,6 +42,7 @@ registerSweep(program);
 registerPredict(program);
 registerFitScattering(program);
 registerBragg(program);
+registerFitSpacing(program);
 registerSchema(program);
 
 await program.parseAsync(process.argv);

@@ -73,8 +73,16 @@ export function fitSpacingSeries(data: SpacingData, s: { chain: ChainSpec; nx: n
     return out;
   };
   const search = { range, rangeSource: 'χ range', scanPoints: 8, relTol: 1e-7 };
-  const guess = scanMinimum(fn, search, 1e-5);
-  const best = fn(refineMinimum(fn, search, guess, 2e-3).chiN);
+  let best;
+  try {
+    best = fn(refineMinimum(fn, search, scanMinimum(fn, search, 1e-5), 2e-3).chiN);
+  } catch (e) {
+    if (!(e instanceof InputError)) throw e;
+    const upper = /upper bound/.test(e.message);
+    throw new InputError(
+      `${data.source}: the best χ runs to the ${upper ? 'upper' : 'lower'} end of its search range [${range[0].toPrecision(4)}, ${range[1].toPrecision(4)}] (${upper ? `χN = ${s.maxChiN ?? 60} at the largest N` : '5 % above the spinodal at the smallest N'}): D grows with N ${upper ? 'faster' : 'more slowly'} than mean-field lamellae allow in that range; check the units of D and N, or give --chi-range`,
+    );
+  }
   const dof = n - 2;
   const scale = data.dD ? 1 : Math.max(best.value / dof, 1e-30);
   const notes: string[] = [];
