@@ -67,6 +67,8 @@ export interface AssumedInputsReport {
   effects: AssumedInputEffect[];
   /** χN with the uncertain inputs profiled out (the centre of the intervals below). */
   chiN?: number;
+  /** Rg profiled exactly (rg-profile.ts; x in nm, equilibrium period): its input and the best Rg. */
+  rgProfile?: { source: string; value: number; sd: number; rgNmAtBest: number; chiN: number; intervals: ClassicalEstimate['intervals'] };
   /** The intervals with the uncertain inputs profiled out (same shape as the estimate's). */
   intervals?: ClassicalEstimate['intervals'];
   interval?: [number, number];
@@ -118,7 +120,12 @@ function chi2On(base: ClassicalEstimate, e: ClassicalEstimate): number {
   return base.sigma.source === 'column' ? e.chi2 : e.rss / (base.sigma.value! * base.sigma.value!);
 }
 
-export function assessAssumedInputs(base: ClassicalEstimate, inputs: AssumedInput[], refit: (change: Change) => ClassicalEstimate, opts: { sensitivityRg?: number }): AssumedInputsReport {
+export function assessAssumedInputs(
+  base: ClassicalEstimate,
+  inputs: AssumedInput[],
+  refit: (change: Change) => ClassicalEstimate,
+  opts: { sensitivityRg?: number; rgProfile?: AssumedInputsReport['rgProfile'] },
+): AssumedInputsReport {
   const t0 = performance.now();
   const effects: AssumedInputEffect[] = [];
   const c0 = chi2On(base, base);
@@ -152,14 +159,20 @@ export function assessAssumedInputs(base: ClassicalEstimate, inputs: AssumedInpu
       'profile likelihood with each uncertain input as a nuisance parameter under a Gaussian constraint, in the local quadratic approximation (refits at the value ± its sd give dχN/dθ and the data’s own curvature in θ); the centre moves by the data’s pull on the input within its constraint, and each interval end lies at the centre ∓ sqrt(w² + Δχ²·k²v)',
     seconds: 0,
   };
-  if (effects.length > 0) {
+  const rp = opts.rgProfile;
+  if (rp) {
+    report.rgProfile = rp;
+    report.method = `exact profile likelihood over Rg under its Gaussian constraint (equilibrium period: Rg only rescales x)${effects.length ? `; then ${report.method}` : ''}`;
+  }
+  if (effects.length > 0 || rp) {
+    const start = rp ?? { chiN: base.chiN, intervals: base.intervals };
     const extra = effects.reduce((a, e) => a + e.chiNSd * e.chiNSd, 0);
-    const centre = base.chiN + effects.reduce((a, e) => a + e.chiNShift, 0);
+    const centre = start.chiN + effects.reduce((a, e) => a + e.chiNShift, 0);
     report.chiN = centre;
     const intervals = {} as ClassicalEstimate['intervals'];
-    for (const [name, iv] of Object.entries(base.intervals) as [keyof ClassicalEstimate['intervals'], ClassicalEstimate['intervals']['95%']][]) {
-      const lo = centre - Math.sqrt((base.chiN - iv.lo) ** 2 + iv.deltaChi2 * extra);
-      const hi = centre + Math.sqrt((iv.hi - base.chiN) ** 2 + iv.deltaChi2 * extra);
+    for (const [name, iv] of Object.entries(start.intervals) as [keyof ClassicalEstimate['intervals'], ClassicalEstimate['intervals']['95%']][]) {
+      const lo = centre - Math.sqrt((start.chiN - iv.lo) ** 2 + iv.deltaChi2 * extra);
+      const hi = centre + Math.sqrt((iv.hi - start.chiN) ** 2 + iv.deltaChi2 * extra);
       intervals[name] = { ...iv, lo, hi };
     }
     report.intervals = intervals;

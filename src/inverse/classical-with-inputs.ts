@@ -2,12 +2,14 @@
  * The classical estimate together with what it owes to the assumed inputs (assumed-inputs.ts):
  * the uncertain ones profiled into the interval, and, without an Rg uncertainty, the
  * sensitivity to Rg whenever x is in nm and the period is tied to the equilibrium period.
+ * Rg with the equilibrium period is profiled exactly (rg-profile.ts).
  */
 import type { AssumedInput, AssumedInputsReport } from './assumed-inputs.js';
 import { assessAssumedInputs, refitter } from './assumed-inputs.js';
 import type { ClassicalEstimate, ClassicalSettings } from './classical.js';
 import { createModels, estimateClassical } from './classical.js';
 import { checkLengthScale } from './length-scale-check.js';
+import { exactRgProfile } from './rg-profile.js';
 import type { ProfileData } from './profile-csv.js';
 
 export interface ClassicalWithInputs {
@@ -22,6 +24,15 @@ export function estimateWithAssumedInputs(data: ProfileData, settings: Classical
   const hasRgSd = inputs.some((i) => i.key === 'rgNm');
   const tied = data.units.x === 'nm' && settings.period.mode === 'equilibrium' && !hasRgSd;
   const refit = refitter(data, { ...settings, onEvaluation: undefined }, models, onRefit);
-  const assumed = assessAssumedInputs(estimate, inputs, refit, { sensitivityRg: tied ? data.units.rgNm : undefined });
+  // Rg with the equilibrium period: profiled exactly (cheap: Rg only rescales x). Otherwise
+  // (and for f, the segment ratio) in the local quadratic approximation.
+  const rgInput = inputs.find((i) => i.key === 'rgNm');
+  let rgProfile;
+  if (rgInput && settings.period.mode === 'equilibrium') {
+    const e = exactRgProfile(data, settings, models, estimate, rgInput.value, rgInput.sd);
+    rgProfile = { source: rgInput.source, value: rgInput.value, sd: rgInput.sd, rgNmAtBest: e.rgNm, chiN: e.chiN, intervals: e.intervals };
+  }
+  const others = rgProfile ? inputs.filter((i) => i.key !== 'rgNm') : inputs;
+  const assumed = assessAssumedInputs(estimate, others, refit, { sensitivityRg: tied ? data.units.rgNm : undefined, rgProfile });
   return { estimate, assumed };
 }

@@ -101,7 +101,7 @@ export function classicalBlock(est: ClassicalEstimate, data: ProfileData, assume
     ...(withInputs ? { chiNDataOnly: est.chiN } : {}),
     interval: withInputs ? assumed!.interval! : est.interval,
     interval95: withInputs ? assumed!.interval95! : est.interval95,
-    intervalMethod: `profile likelihood of χN (offset${free} minimised at each χN); the ends are where Δχ² reaches the level, found by Brent root finding; levels ${est.sigma.source === 'column' ? 'Δχ² = 1 and 3.841 (χ² with one degree of freedom)' : `t² with n − p = ${est.dof} degrees of freedom (sigma estimated)`}${withInputs ? `; uncertain inputs (${assumed!.effects.map((e) => e.key).join(', ')}) included by ${assumed!.method}` : ''}`,
+    intervalMethod: `profile likelihood of χN (offset${free} minimised at each χN); the ends are where Δχ² reaches the level, found by Brent root finding; levels ${est.sigma.source === 'column' ? 'Δχ² = 1 and 3.841 (χ² with one degree of freedom)' : `t² with n − p = ${est.dof} degrees of freedom (sigma estimated)`}${withInputs ? `; uncertain inputs (${[...(assumed!.rgProfile ? ['rgNm'] : []), ...assumed!.effects.map((e) => e.key)].join(', ')}) included by ${assumed!.method}` : ''}`,
     intervals: withInputs ? assumed!.intervals! : est.intervals,
     ...(assumed ? { assumedInputs: assumed } : {}),
     offset,
@@ -218,10 +218,11 @@ export function summaryText(result: InversionResult): string {
     if (oneSeed) lines.push('  no interval: one seed has no spread (run --seeds 3 or more for a seed spread)');
     else {
       const assumed = e.assumedInputs as AssumedInputsReport | undefined;
-      const how = e.method === 'network' ? `seed spread, ${(e.runs as unknown[]).length} seeds: an optimisation spread, not a statistical interval` : assumed?.intervals ? `profile likelihood, including ${assumed.effects.map((x) => `${x.key} ± ${x.sd} (${x.source})`).join(', ')}` : 'profile likelihood';
+      const how = e.method === 'network' ? `seed spread, ${(e.runs as unknown[]).length} seeds: an optimisation spread, not a statistical interval` : assumed?.intervals ? `profile likelihood, including ${[...(assumed.rgProfile ? [`Rg ${assumed.rgProfile.value} ± ${assumed.rgProfile.sd} nm (${assumed.rgProfile.source}), profiled exactly`] : []), ...assumed.effects.map((x) => `${x.key} ± ${x.sd} (${x.source})`)].join(', ')}` : 'profile likelihood';
       lines.push(`  68.3% interval [${f(e.interval[0])}, ${f(e.interval[1])}], 95% interval [${f(e.interval95[0])}, ${f(e.interval95[1])}] (${how})`);
       if (assumed?.intervals) {
         lines.push(`  from the data alone (inputs fixed at their values): χN = ${f(e.chiNDataOnly as number)}, 68.3% [${f(assumed.statisticalInterval[0])}, ${f(assumed.statisticalInterval[1])}], 95% [${f(assumed.statisticalInterval95[0])}, ${f(assumed.statisticalInterval95[1])}]`);
+        if (assumed.rgProfile) lines.push(`  Rg profiled out: best Rg ${assumed.rgProfile.rgNmAtBest.toPrecision(5)} nm within its constraint ${assumed.rgProfile.value} ± ${assumed.rgProfile.sd} nm`);
         for (const x of assumed.effects) {
           lines.push(`  ${x.key} = ${x.value} ± ${x.sd}: χN = ${f(x.chiNAtMinus)} at −1 sd, ${f(x.chiNAtPlus)} at +1 sd; adds sd ${x.chiNSd.toPrecision(3)} to χN; the data pull ${x.key} by ${x.valueShift.toPrecision(3)}, moving χN by ${x.chiNShift.toPrecision(3)}`);
         }

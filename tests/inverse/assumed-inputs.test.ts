@@ -3,6 +3,7 @@ import { assessAssumedInputs, refitter } from '../../src/inverse/assumed-inputs.
 import { createModels, estimateClassical } from '../../src/inverse/classical.js';
 import type { ClassicalSettings } from '../../src/inverse/classical.js';
 import { checkLengthScale } from '../../src/inverse/length-scale-check.js';
+import { exactRgProfile } from '../../src/inverse/rg-profile.js';
 import { fitOffset } from '../../src/inverse/offset-fit.js';
 import type { ProfileData } from '../../src/inverse/profile-csv.js';
 import { parseProfileCsv } from '../../src/inverse/profile-csv.js';
@@ -22,7 +23,7 @@ describe('assumed inputs: Rg with an uncertainty', () => {
   const sd = 0.12; // 2 % of Rg
   const report = assessAssumedInputs(base, [{ key: 'rgNm', source: '--rg-nm-sd', value: RG, sd }], refitter(nmData, settings, models), {});
 
-  it('widens the interval and agrees with the exact profile likelihood over Rg computed independently here', () => {
+  it('the quadratic approximation and the exact profile (rg-profile.ts) agree with the profile likelihood over Rg computed independently here', () => {
     expect(report.interval![1] - report.interval![0]).toBeGreaterThan(base.interval[1] - base.interval[0]);
     // Exact profile (independent of assumed-inputs.ts): at each χN the equilibrium lamella is
     // fixed and Rg only rescales x, so P(χN) = min over Rg of χ²(χN, Rg) + ((Rg − 6)/sd)²,
@@ -64,6 +65,10 @@ describe('assumed inputs: Rg with an uncertainty', () => {
     // The quadratic approximation against the exact profile: within 10 % (interpolation error included).
     expect(Math.abs(halfQuad / halfExact - 1)).toBeLessThan(0.1);
     expect(halfExact).toBeGreaterThan(1.3 * (base.interval[1] - base.interval[0]) / 2);
+    // The library's exact profile (rg-profile.ts) against this one: ends within a fifth of a grid step.
+    const lib = exactRgProfile(nmData, settings, models, base, RG, sd).intervals['68.3%'];
+    expect(Math.abs(lib.lo - exact[0])).toBeLessThan(0.2 * step);
+    expect(Math.abs(lib.hi - exact[1])).toBeLessThan(0.2 * step);
   });
 
   it('reports the response at ± sd and the added sd', () => {
