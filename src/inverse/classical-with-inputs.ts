@@ -18,7 +18,7 @@ export interface ClassicalWithInputs {
 }
 
 export function estimateWithAssumedInputs(data: ProfileData, settings: ClassicalSettings, inputs: AssumedInput[], onRefit?: (label: string) => void): ClassicalWithInputs {
-  checkLengthScale(data, settings.chain);
+  checkLengthScale(data, settings.chain, settings.chiNRange?.[1] ?? 60);
   const models = createModels(settings);
   const estimate = estimateClassical(data, settings, models);
   const hasRgSd = inputs.some((i) => i.key === 'rgNm');

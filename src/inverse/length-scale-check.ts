@@ -3,9 +3,10 @@
  * of Rg is many times any equilibrium period of the chain, and a fit would either fail or
  * return a meaningless χN. The data's own period (periodogram, objective.ts) is compared
  * with the chain's period at the RPA spinodal, L_s = 2π/q* (the shortest equilibrium
- * period near the transition; it grows only slowly with χN, about χN^(1/6) in strong
- * segregation, so 4 L_s covers χN far beyond any search range). Outside [L_s/2, 4 L_s] the
- * lengths cannot be in Rg.
+ * period near the transition). The equilibrium period grows slowly with χN (measured with
+ * the reference at 128 × 200: L_eq(60)/L_s = 1.61 at f = 0.5 and 1.67 at f = 0.25; about
+ * χN^(1/6) in strong segregation), so periods beyond 2.5 L_s × (χN_max/60)^(1/6), or below
+ * L_s/2, cannot be in Rg.
  */
 import { InputError } from '../io/errors.js';
 import { median } from '../numerics/median.js';
@@ -15,10 +16,10 @@ import { spinodal } from '../physics/rpa.js';
 import { periodogramPeriod } from './objective.js';
 import type { ProfileData } from './profile-csv.js';
 
-export const PERIOD_RATIO_LIMITS: [number, number] = [0.5, 4];
+export const PERIOD_RATIO_LIMITS: [number, number] = [0.5, 2.5];
 
 /** Throws an InputError naming --rg-nm when x is read as Rg and the data's period is no lamellar period in Rg. */
-export function checkLengthScale(data: ProfileData, chain: ChainSpec): void {
+export function checkLengthScale(data: ProfileData, chain: ChainSpec, chiNMax = 60): void {
   if (data.units.x !== 'Rg') return;
   const n = data.x.length;
   if (n < 8) return;
@@ -31,9 +32,10 @@ export function checkLengthScale(data: ProfileData, chain: ChainSpec): void {
   const period = periodogramPeriod({ x: data.x, phi: data.phi, weight }, lo, hi);
   const ls = spinodal(buildChain(chain)).period;
   const ratio = period / ls;
-  if (ratio > PERIOD_RATIO_LIMITS[1] || ratio < PERIOD_RATIO_LIMITS[0]) {
+  const upper = PERIOD_RATIO_LIMITS[1] * Math.max(1, Math.pow(chiNMax / 60, 1 / 6));
+  if (ratio > upper || ratio < PERIOD_RATIO_LIMITS[0]) {
     throw new InputError(
-      `${data.source}: x is read in Rg (no unit given), but the data's period is ${period.toPrecision(4)} in those units, ${ratio.toPrecision(3)} times this chain's lamellar period near the transition (${ls.toPrecision(4)} Rg); equilibrium periods lie within ${PERIOD_RATIO_LIMITS[0]}–${PERIOD_RATIO_LIMITS[1]} times it. The units of x look wrong: if x is in nm, give --rg-nm R (or --segments N --segment-length-nm b), or name the column x_nm`,
+      `${data.source}: x is read in Rg (no unit given), but the data's period is ${period.toPrecision(4)} in those units, ${ratio.toPrecision(3)} times this chain's lamellar period near the transition (${ls.toPrecision(4)} Rg); equilibrium periods up to χN = ${chiNMax} lie within ${PERIOD_RATIO_LIMITS[0]}–${upper.toPrecision(3)} times it. The units of x look wrong: if x is in nm, give --rg-nm R (or --segments N --segment-length-nm b), or name the column x_nm`,
     );
   }
 }
