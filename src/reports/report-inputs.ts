@@ -7,6 +7,7 @@
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { ScftSolution } from '../physics/result.js';
+import type { ScatteringReportInput } from './scattering-input.js';
 
 /** The title block: what was run, with what, when (from the run's provenance) and how long. */
 export interface RunInfo {
@@ -147,6 +148,8 @@ export interface ReportInput {
   training?: TrainingInput;
   inversion?: InversionInput;
   surrogate?: SurrogateInput;
+  /** Disordered-melt scattering fits (fit-scattering). */
+  scattering?: ScatteringReportInput;
   /** Rows appended to the metrics table (e.g. from metrics.json). */
   metrics?: MetricRow[];
 }

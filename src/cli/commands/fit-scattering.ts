@@ -20,6 +20,7 @@ interface Flags {
   nbar?: string;
   json?: boolean;
   out?: string;
+  report?: boolean;
   quiet?: boolean;
 }
 
@@ -88,6 +89,7 @@ export function registerFitScattering(program: Command): void {
     .option('--nbar <Nbar>', 'invariant degree of polymerisation N̄: adds the Fredrickson–Helfand fluctuation-corrected ODT (symmetric diblocks)')
     .option('--json', 'print the result JSON on stdout')
     .option('--out <dir>', 'write result.json and one fit-<k>.csv per file into this directory')
+    .option('--report', 'also write a PDF/PNG report into <out>/report (needs --out)')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (files: string[], flags: Flags) => {
@@ -97,6 +99,7 @@ export function registerFitScattering(program: Command): void {
         const { writeDirectoryAtomic } = await import('../../io/atomic-write.js');
         const { provenance } = await import('../../io/versions.js');
         const { asInputError } = await import('../../io/errors.js');
+        if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const raw = buildScatteringConfig(files, flags);
         const config = parseOrThrow(scatteringConfigSchema, raw, flags.config ?? 'flags');
         const baseDir = flags.config && files.length === 0 ? dirname(flags.config) : process.cwd();
@@ -119,6 +122,23 @@ export function registerFitScattering(program: Command): void {
           result.fits.forEach((f, i) => (out[`fit-${i + 1}.csv`] = fitCsvFor(f)));
           writeDirectoryAtomic(flags.out, out);
           if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${Object.keys(out).map((n) => join(flags.out!, n)).join(', ')}\n`);
+          if (flags.report) {
+            const { scatteringReportInput } = await import('../../reports/scattering-input.js');
+            const { buildReport } = await import('../../reports/build-report.js');
+            const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
+            const info = {
+              kind: 'fit-scattering',
+              source: flags.out,
+              system: { chain: config.system.chain, chiN: result.fits[0].chiN },
+              period: Number.NaN,
+              config: [`files: ${config.files.map((f) => f.file + (f.temperature !== undefined ? ` (${f.temperature} K)` : '')).join(', ')}`, `resolution: ${config.resolution}`, `units: ${JSON.stringify(config.units)}`],
+              provenance: result.provenance as { version: string; node: string; createdAt: string },
+              runSeconds: result.seconds,
+              runSecondsNote: 'all fits',
+            };
+            const written = writeReportFiles(join(flags.out, 'report'), renderReport(buildReport({ info, scattering: scatteringReportInput(result) }), ['pdf', 'png'], 150));
+            if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${written.join(', ')}\n`);
+          }
         }
         process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : scatteringSummary(result));
       }),
