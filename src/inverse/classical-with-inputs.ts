@@ -21,6 +21,7 @@ export function estimateWithAssumedInputs(data: ProfileData, settings: Classical
   checkLengthScale(data, settings.chain, settings.chiNRange?.[1] ?? 60);
   const models = createModels(settings);
   const estimate = estimateClassical(data, settings, models);
+  const t0 = performance.now();
   const hasRgSd = inputs.some((i) => i.key === 'rgNm');
   const tied = data.units.x === 'nm' && settings.period.mode === 'equilibrium' && !hasRgSd;
   const refit = refitter(data, { ...settings, onEvaluation: undefined }, models, onRefit);
@@ -34,5 +35,7 @@ export function estimateWithAssumedInputs(data: ProfileData, settings: Classical
   }
   const others = rgProfile ? inputs.filter((i) => i.key !== 'rgNm') : inputs;
   const assumed = assessAssumedInputs(estimate, others, refit, { sensitivityRg: tied ? data.units.rgNm : undefined, rgProfile });
+  // The refits and the Rg profile, beside the base fit's own time.
+  assumed.seconds = (performance.now() - t0) / 1000;
   return { estimate, assumed };
 }

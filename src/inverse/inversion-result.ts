@@ -234,7 +234,8 @@ export function summaryText(result: InversionResult): string {
     else lines.push(
       `  χ² = ${e.chi2.toPrecision(5)} for n − p = ${e.dof} (n = ${e.n}, p = ${e.p}), reduced χ² = ${e.reducedChi2.toPrecision(4)}, rms residual ${e.rmsResidual.toExponential(3)}, sigma ${e.sigma.source === 'column' ? 'from the column' : `estimated ${e.sigma.value!.toExponential(3)}`}`,
     );
-    lines.push(`  ${e.seconds.toFixed(2)} s`);
+    const extraSeconds = (e.assumedInputs as AssumedInputsReport | undefined)?.seconds;
+    lines.push(`  ${e.seconds.toFixed(2)} s${extraSeconds ? ` for the fit, + ${extraSeconds.toFixed(2)} s for the assumed inputs (refits, Rg profile)` : ''}`);
     for (const w of (e.warnings as string[] | undefined) ?? []) lines.push(`  WARNING: ${w}`);
     for (const n of (e.notes as string[]) ?? []) lines.push(`  note: ${n}`);
   }
