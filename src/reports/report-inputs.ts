@@ -8,6 +8,7 @@
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { ScatteringReportInput } from './scattering-input.js';
+import type { BraggReportInput } from './bragg-input.js';
 
 /** The title block: what was run, with what, when (from the run's provenance) and how long. */
 export interface RunInfo {
@@ -150,6 +151,8 @@ export interface ReportInput {
   surrogate?: SurrogateInput;
   /** Disordered-melt scattering fits (fit-scattering). */
   scattering?: ScatteringReportInput;
+  /** A predicted Bragg pattern (bragg-pattern). */
+  bragg?: BraggReportInput;
   /** Rows appended to the metrics table (e.g. from metrics.json). */
   metrics?: MetricRow[];
 }

@@ -10,6 +10,7 @@ import { action, numberFlag } from '../run-command.js';
 
 interface PatternFlags {
   orders: string;
+  report?: boolean;
   lorentz?: boolean;
   width?: string;
   rgNm?: string;
@@ -36,15 +37,17 @@ export function registerBragg(program: Command): void {
     .argument('<solution>', 'solution.json of a periodic lamella')
     .option('--orders <n>', 'number of orders', '6')
     .option('--lorentz', 'apply the powder Lorentz factor 1/q²')
-    .option('--width <w>', 'peak standard deviation for the drawn pattern (1/Rg, or nm⁻¹ with --rg-nm); default D/50 in q units: 2π/D × 0.02')
+    .option('--width <w>', 'peak standard deviation for the drawn pattern (1/Rg, or nm⁻¹ with --rg-nm); default 4 % of q_1 = 2π/D')
     .option('--rg-nm <R>', 'Rg in nm: q in nm⁻¹')
     .option('--json', 'print JSON on stdout')
     .option('--out <dir>', 'write peaks.csv and pattern.csv into this directory')
+    .option('--report', 'also draw the pattern into <out>/report (PDF/PNG; needs --out)')
     .action(
       action(async (solution: string, flags: PatternFlags) => {
         const { lamellaFromSolutionFile } = await import('../../inverse/bragg/bragg-inputs.js');
         const { braggPeaks, patternCurve } = await import('../../inverse/bragg/bragg-pattern.js');
         const { writeDirectoryAtomic } = await import('../../io/atomic-write.js');
+        if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const orders = numberFlag('--orders', flags.orders)!;
         if (!(Number.isInteger(orders) && orders >= 1 && orders <= 32)) throw new InputError(`--orders: got ${flags.orders}; allowed: a whole number from 1 to 32`);
         const rg = numberFlag('--rg-nm', flags.rgNm);
@@ -54,7 +57,7 @@ export function registerBragg(program: Command): void {
         const p = braggPeaks(lam.phiA, lam.periods, orders, Boolean(flags.lorentz));
         const toUnit = rg ? 1 / rg : 1;
         const unit = rg ? 'nm⁻¹' : '1/Rg';
-        const width = numberFlag('--width', flags.width) ?? ((2 * Math.PI) / p.period) * 0.02 * toUnit;
+        const width = numberFlag('--width', flags.width) ?? ((2 * Math.PI) / p.period) * 0.04 * toUnit;
         if (!(width > 0)) throw new InputError(`--width: got ${flags.width}; allowed: a peak standard deviation > 0`);
         const peaks = p.peaks.map((k) => ({ order: k.order, q: k.q * toUnit, relative: k.relative }));
         const curve = patternCurve({ ...p, peaks: p.peaks.map((k) => ({ ...k, q: k.q * toUnit })) }, width, peaks[peaks.length - 1].q * 1.15);
@@ -65,6 +68,24 @@ export function registerBragg(program: Command): void {
             'pattern.csv': `q,I\n${curve.q.map((q, i) => `${q},${curve.I[i]}`).join('\n')}\n`,
             'result.json': `${JSON.stringify(result, null, 1)}\n`,
           });
+          if (flags.report) {
+            const { buildReport } = await import('../../reports/build-report.js');
+            const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
+            const { provenance } = await import('../../io/versions.js');
+            const periodText = rg ? `${(p.period * rg).toPrecision(5)} nm (${p.period.toPrecision(5)} Rg)` : `${p.period.toPrecision(5)} Rg`;
+            const info = {
+              kind: 'bragg-pattern',
+              source: flags.out,
+              system: lam.system,
+              period: p.period,
+              ...(rg ? { rgNm: rg } : {}),
+              config: [`solution: ${solution}`, `orders: ${orders}`, `Lorentz factor: ${p.lorentz ? 'yes' : 'no'}`, `peak width: ${width} ${unit}`],
+              provenance: { ...provenance() },
+            };
+            const bragg = { qLabel: rg ? 'q / nm⁻¹' : 'q Rg', chiN: lam.chiN, periodText, lorentz: p.lorentz, width, peaks, curve };
+            const written = writeReportFiles(join(flags.out, 'report'), renderReport(buildReport({ info, bragg }), ['pdf', 'png'], 150));
+            process.stderr.write(`bragg-pattern: wrote ${written.join(', ')}\n`);
+          }
         }
         if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
         else {

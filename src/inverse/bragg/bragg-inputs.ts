@@ -6,6 +6,7 @@
 import { InputError, parseOrThrow } from '../../io/errors.js';
 import { readJsonFile } from '../../io/load-json.js';
 import { solutionFileSchema } from '../../io/solution-file.js';
+import type { SolutionFile } from '../../io/solution-file.js';
 import { FourierSeries } from '../../physics/cell/fourier-series.js';
 import type { MeasuredPeaks } from './bragg-fit.js';
 
@@ -58,7 +59,7 @@ export function parsePeaksCsv(text: string, source: string): MeasuredPeaks & { q
 }
 
 /** φ_A of a periodic solution file as its Fourier series over the cell, with the number of periods in the cell. */
-export function lamellaFromSolutionFile(path: string): { phiA: FourierSeries; periods: number; chiN: number; f: number; phase: string } {
+export function lamellaFromSolutionFile(path: string): { phiA: FourierSeries; periods: number; chiN: number; f: number; phase: string; system: SolutionFile['system'] } {
   const file = parseOrThrow(solutionFileSchema, readJsonFile(path), path);
   const cfg = file.config as { cell?: { kind?: string } } | undefined;
   if (cfg?.cell?.kind === 'film') throw new InputError(`${path}: a film solution; Bragg peaks here are those of a periodic lamellar stack (give a periodic solution)`);
@@ -69,5 +70,6 @@ export function lamellaFromSolutionFile(path: string): { phiA: FourierSeries; pe
     chiN: file.system.chiN,
     f: (file.summary as unknown as { f: number }).f,
     phase: file.summary.phase,
+    system: file.system,
   };
 }

@@ -50,7 +50,7 @@ export function braggPeaks(phiA: FourierSeries, periods: number, orders: number,
 }
 
 /** A drawn pattern: Gaussian peaks of standard deviation `width` (1/Rg) and area I_n/I_1, on `points` q values over [0, qMax]. */
-export function patternCurve(p: BraggPattern, width: number, qMax: number, points = 600): { q: number[]; I: number[] } {
+export function patternCurve(p: BraggPattern, width: number, qMax: number, points = 2000): { q: number[]; I: number[] } {
   const q: number[] = [];
   const I: number[] = [];
   for (let k = 0; k < points; k++) {

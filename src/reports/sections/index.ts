@@ -5,11 +5,12 @@ import { periodSearchSection } from './period-search-section.js';
 import { profilesSection } from './profiles-section.js';
 import { propagatorSection } from './propagator-section.js';
 import { scatteringSection } from './scattering-section.js';
+import { braggSection } from './bragg-section.js';
 import { surrogateSection } from './surrogate-section.js';
 import type { ReportSection } from './section.js';
 import { titleSection } from './title-section.js';
 import { trainingSection } from './training-section.js';
 
-export const REPORT_SECTIONS: readonly ReportSection[] = [titleSection, surrogateSection, profilesSection, propagatorSection, periodSearchSection, trainingSection, inversionSection, scatteringSection, metricsSection];
+export const REPORT_SECTIONS: readonly ReportSection[] = [titleSection, surrogateSection, profilesSection, propagatorSection, periodSearchSection, trainingSection, inversionSection, scatteringSection, braggSection, metricsSection];
 
 export type { ReportSection } from './section.js';
