@@ -37,8 +37,8 @@ describe('Bragg peaks of the mean-field lamella', () => {
 
 describe('fit-bragg: χN and D from measured peaks', () => {
   it('recovers χN and D from peaks computed on a finer reference', () => {
-    // Scenario of our own: f = 0.3, χN = 18, Rg = 6 nm; "measured" peaks from a 128 × 120 solve.
-    const fine = new LamellaModel({ chain: diblock(0.3), nx: 128, ns: 120 });
+    // Scenario of our own: f = 0.3, χN = 18, Rg = 6 nm; "measured" peaks from a 64 × 100 solve, fitted on 32 × 60.
+    const fine = new LamellaModel({ chain: diblock(0.3), nx: 64, ns: 100 });
     const pt = fine.equilibrium(18);
     const p = braggPeaks(pt.profile, 1, 4, false);
     const D = pt.period * 6;
@@ -50,7 +50,7 @@ describe('fit-bragg: χN and D from measured peaks', () => {
       intensity: orders.map((o) => 1000 * p.peaks[o - 1].relative),
       dI: orders.map((o) => 30 * Math.max(p.peaks[o - 1].relative, 0.01)),
     };
-    const fit = fitBragg(data, { chain: diblock(0.3), nx: 64, ns: 100, lorentz: false, chiNRange: [14, 28] });
+    const fit = fitBragg(data, { chain: diblock(0.3), nx: 32, ns: 60, lorentz: false, chiNRange: [15, 22] });
     expect(fit.periodNm).toBeCloseTo(D, 8);
     expect(fit.intervals['95%'].lo).toBeLessThan(18);
     expect(fit.intervals['95%'].hi).toBeGreaterThan(18);

@@ -8,7 +8,7 @@ const grid = ['--nx', '32', '--ns', '60'];
 const dir = mkdtempSync(join(tmpdir(), 'mesofield-meas-'));
 // Scenario of our own: χN = 15, Rg = 2.8 nm, two periods, 2 % noise, x written in nm.
 const nm = join(dir, 'nm.csv');
-const made = runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '2', '--points', '60', '--noise', '0.02', '--seed', '3', '--rg-nm', '2.8', '--out', nm]);
+const made = runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '2', '--points', '40', '--noise', '0.02', '--seed', '3', '--rg-nm', '2.8', '--out', nm]);
 
 describe('invert: honest about Rg and units', () => {
   it('states the Rg sensitivity without an sd, and profiles Rg out with one', () => {
