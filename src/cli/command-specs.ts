@@ -19,6 +19,11 @@ export const COMMAND_SPECS: Record<string, () => Promise<Register>> = {
   report: async () => (await import('./commands/report.js')).registerReport,
   sweep: async () => (await import('./commands/sweep.js')).registerSweep,
   predict: async () => (await import('./commands/predict.js')).registerPredict,
+  'fit-scattering': async () => (await import('./commands/fit-scattering.js')).registerFitScattering,
+  // bragg.ts declares both bragg-pattern and fit-bragg.
+  'bragg-pattern': async () => (await import('./commands/bragg.js')).registerBragg,
+  'fit-bragg': async () => (await import('./commands/bragg.js')).registerBragg,
+  'fit-spacing': async () => (await import('./commands/fit-spacing.js')).registerFitSpacing,
   schema: async () => (await import('./commands/schema.js')).registerSchema,
 };
 

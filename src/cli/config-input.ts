@@ -41,6 +41,9 @@ export const FLAG_CONFIG_PATHS = {
     '--rg-nm': 'units.rgNm',
     '--segments': 'units.segments',
     '--segment-length-nm': 'units.segmentLengthNm',
+    '--rg-nm-sd': 'units.rgNmSd',
+    '--f-sd': 'uncertainty.f',
+    '--segment-ratio-sd': 'uncertainty.segmentRatio',
   },
 } as const;
 

@@ -7,6 +7,8 @@
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { ScftSolution } from '../physics/result.js';
+import type { ScatteringReportInput } from './scattering-input.js';
+import type { BraggReportInput } from './bragg-input.js';
 
 /** The title block: what was run, with what, when (from the run's provenance) and how long. */
 export interface RunInfo {
@@ -250,6 +252,10 @@ export interface ReportInput {
   networkMetrics?: NetworkMetricsInput;
   sweep?: SweepInput;
   film?: FilmInput;
+  /** Disordered-melt scattering fits (fit-scattering). */
+  scattering?: ScatteringReportInput;
+  /** A predicted Bragg pattern (bragg-pattern). */
+  bragg?: BraggReportInput;
   /** Rows appended to the metrics table (e.g. from metrics.json). */
   metrics?: MetricRow[];
 }

@@ -10,7 +10,8 @@ import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
 import { solutionToFile } from '../../io/solution-file.js';
 import { provenance } from '../../io/versions.js';
-import { estimateClassical } from '../../inverse/classical.js';
+import { estimateWithAssumedInputs } from '../../inverse/classical-with-inputs.js';
+import { assumedInputs } from '../../inverse/assumed-inputs.js';
 import type { PeriodMode } from '../../inverse/objective.js';
 import { fitCsv, classicalBlock, inversionResult, networkBlock, summaryText } from '../../inverse/inversion-result.js';
 import type { EstimatorBlock } from '../../inverse/inversion-result.js';
@@ -31,6 +32,9 @@ interface InvertFlags {
   out?: string;
   overwrite?: boolean;
   rgNm?: string;
+  rgNmSd?: string;
+  fSd?: string;
+  segmentRatioSd?: string;
   segments?: string;
   segmentLengthNm?: string;
   resolution?: string;
@@ -88,10 +92,17 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
   input.number('--ns', flags.ns);
   input.number('--profile-points', flags.profilePoints);
   // Unit flags replace the config's units block as a whole (one way to say what x is in).
-  if (flags.rgNm !== undefined || flags.segments !== undefined || flags.segmentLengthNm !== undefined) input.reset('units');
+  if (flags.rgNm !== undefined || flags.rgNmSd !== undefined || flags.segments !== undefined || flags.segmentLengthNm !== undefined) input.reset('units');
   input.number('--rg-nm', flags.rgNm);
   input.number('--segments', flags.segments);
   input.number('--segment-length-nm', flags.segmentLengthNm);
+  input.number('--rg-nm-sd', flags.rgNmSd);
+  input.number('--f-sd', flags.fSd);
+  input.number('--segment-ratio-sd', flags.segmentRatioSd);
+  // Where each assumed input's uncertainty came from (named in messages about it).
+  sources['sd.rgNm'] = flags.rgNmSd !== undefined ? '--rg-nm-sd' : `${configPath ?? 'flags'}: units.rgNmSd`;
+  sources['sd.f'] = flags.fSd !== undefined ? '--f-sd' : `${configPath ?? 'flags'}: uncertainty.f`;
+  sources['sd.segmentRatio'] = flags.segmentRatioSd !== undefined ? '--segment-ratio-sd' : `${configPath ?? 'flags'}: uncertainty.segmentRatio`;
   return { config: input.parse(invertConfigSchema), sources };
 }
 
@@ -112,6 +123,9 @@ export function registerInvert(program: Command): void {
     .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')
     .option('--resolution <W>', 'Gaussian instrument resolution (standard deviation, units of x)')
     .option('--rg-nm <R>', 'x is in nm and Rg = R nm')
+    .option('--rg-nm-sd <S>', 'standard deviation of Rg in nm: profiled into the χN interval')
+    .option('--f-sd <S>', 'standard deviation of f: profiled into the χN interval (two extra fits at f ± S)')
+    .option('--segment-ratio-sd <S>', 'standard deviation of b_A/b_B: profiled into the χN interval (two extra fits)')
     .option('--segments <N>', 'x is in nm; with --segment-length-nm, Rg = b·sqrt(N/6)')
     .option('--segment-length-nm <b>', 'statistical segment length in nm (with --segments)')
     .option('--nx <n>', 'model grid points per period (power of two; default 64)')
@@ -148,27 +162,34 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   const period: PeriodMode = typeof config.period === 'number' ? { mode: 'given', value: toRg(config.period) } : { mode: config.period };
   const progress = new Progress('invert', flags.quiet);
   let estimate;
+  let assumed;
   try {
-    estimate = estimateClassical(data, {
-      chain: config.system.chain,
-      nx: config.grid.nx,
-      ns: config.grid.ns,
-      solver: config.solver,
-      period,
-      chiNRange: config.chiNRange as [number, number] | undefined,
-      resolution: toRg(config.resolution),
-      profilePoints: config.profilePoints,
-      periodSource: sources.period,
-      rangeSource: sources.chiNRange,
-      onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
-    });
+    const inputs = assumedInputs(config, units, sources);
+    ({ estimate, assumed } = estimateWithAssumedInputs(
+      data,
+      {
+        chain: config.system.chain,
+        nx: config.grid.nx,
+        ns: config.grid.ns,
+        solver: config.solver,
+        period,
+        chiNRange: config.chiNRange as [number, number] | undefined,
+        resolution: toRg(config.resolution),
+        profilePoints: config.profilePoints,
+        periodSource: sources.period,
+        rangeSource: sources.chiNRange,
+        onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
+      },
+      inputs,
+      (label) => progress.update(`refit with ${label}`, true),
+    ));
   } catch (e) {
     throw asInputError(e, configPath ?? 'flags');
   }
   progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
   const estimators: Record<string, EstimatorBlock> = {};
   let ne: NetworkEstimate | undefined;
-  if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data);
+  if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data, assumed);
   if (config.method !== 'classical') {
     // The network fits χN and the fields; the phase offset and period come from the classical fit.
     const { estimateNetwork } = await import('../../inverse/network-estimator.js');

@@ -6,6 +6,8 @@ import { metricsSection } from './metrics-section.js';
 import { periodSearchSection } from './period-search-section.js';
 import { profilesSection } from './profiles-section.js';
 import { propagatorSection } from './propagator-section.js';
+import { scatteringSection } from './scattering-section.js';
+import { braggSection } from './bragg-section.js';
 import { surrogateSection } from './surrogate-section.js';
 import { sweepSection } from './sweep-section.js';
 import type { ReportSection } from './section.js';
@@ -16,6 +18,8 @@ export const REPORT_SECTIONS: readonly ReportSection[] = [
   titleSection,
   surrogateSection,
   inversionSection,
+  scatteringSection,
+  braggSection,
   sweepSection,
   filmSection,
   profilesSection,
