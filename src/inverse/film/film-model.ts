@@ -1,0 +1,130 @@
+/**
+ * The film model a fit evaluates many times: the film solve (spectral/film-solve.ts) at a
+ * state (χN, both wall affinities, thickness), warm-started from the nearest state already
+ * solved, so that a fit costs a few short field iterations per step instead of a full solve.
+ *
+ * Units: thickness and wall range in Rg, affinities in kT per chain × Rg (docs/physics.md,
+ * "Films"). The first state is solved by the full film solve (every lamellar start and the
+ * disordered film, the lowest free energy wins); every later state starts from the fields of
+ * the nearest solved state (on the same number of grid points, so a thickness change maps
+ * z/H to z/H). A warm start follows the state it starts from (its layer count), so the fit
+ * follows the film's state at the start; `confirm` re-solves a state from scratch to check
+ * that it is still the lowest-F state there.
+ */
+import type { SpectralOptions } from '../../io/schemas/spectral-schema.js';
+import type { ChainSpec } from '../../physics/chain-schema.js';
+import { FilmCell } from '../../physics/cell/film-cell.js';
+import type { ScftSolution } from '../../physics/result.js';
+import { solveFilm } from '../../spectral/film-solve.js';
+import type { FilmLayers } from '../../spectral/film-solve.js';
+import { countLayers } from '../../spectral/film-solve.js';
+import { solveFixedCell } from '../../spectral/scft-solver.js';
+
+export interface FilmState {
+  chiN: number;
+  /** Affinities of the bottom (substrate) and top wall for A. */
+  bottom: number;
+  top: number;
+  /** Thickness, Rg. */
+  thickness: number;
+}
+
+export interface FilmModelSpec {
+  chain: ChainSpec;
+  nx: number;
+  ns: number;
+  /** Range of the walls' surface field, Rg. */
+  wallRange: number;
+  solver?: Partial<SpectralOptions>;
+}
+
+export interface FilmPoint {
+  state: FilmState;
+  cell: FilmCell;
+  solution: ScftSolution;
+  layers: FilmLayers;
+}
+
+/** Solved states kept as warm starts (the oldest dropped first). */
+const KEEP = 200;
+
+export class FilmModel {
+  readonly counters = { solves: 0, fullSolves: 0, iterations: 0, seconds: 0 };
+  private readonly points: FilmPoint[] = [];
+  private readonly memo = new Map<string, FilmPoint>();
+
+  constructor(readonly spec: FilmModelSpec) {}
+
+  cellOf(s: FilmState): FilmCell {
+    return new FilmCell(s.thickness, this.spec.nx, { bottom: { affinity: s.bottom }, top: { affinity: s.top }, range: this.spec.wallRange }, 'cell');
+  }
+
+  private system(s: FilmState) {
+    return { chain: this.spec.chain, chiN: s.chiN };
+  }
+
+  /** The state solved from scratch (the full film solve). */
+  confirm(s: FilmState): FilmPoint {
+    const t0 = performance.now();
+    const cell = this.cellOf(s);
+    const r = solveFilm({ system: this.system(s), cell, contour: this.spec.ns, options: this.spec.solver });
+    this.counters.fullSolves++;
+    this.counters.iterations += r.solution.iterations;
+    this.counters.seconds += (performance.now() - t0) / 1000;
+    return { state: { ...s }, cell, solution: r.solution, layers: r.layers };
+  }
+
+  /** The state solved from scratch and kept as a warm start (a fit's start for each pair of wall preferences). */
+  confirmAndKeep(s: FilmState): FilmPoint {
+    const point = this.confirm(s);
+    this.keep(point);
+    return point;
+  }
+
+  private keep(point: FilmPoint): void {
+    const s = point.state;
+    this.memo.set(`${s.chiN},${s.bottom},${s.top},${s.thickness}`, point);
+    this.points.push(point);
+    if (this.points.length > KEEP) {
+      const old = this.points.shift()!;
+      this.memo.delete(`${old.state.chiN},${old.state.bottom},${old.state.top},${old.state.thickness}`);
+    }
+  }
+
+  at(s: FilmState): FilmPoint {
+    const key = `${s.chiN},${s.bottom},${s.top},${s.thickness}`;
+    const hit = this.memo.get(key);
+    if (hit) return hit;
+    const near = this.nearest(s);
+    let point: FilmPoint | undefined;
+    if (near) {
+      const t0 = performance.now();
+      const cell = this.cellOf(s);
+      // Fields scale roughly with χN (w ~ χN φ), so the start is scaled by the χN ratio.
+      const k = s.chiN / near.state.chiN;
+      const initial = { A: near.solution.w.A.map((v) => v * k), B: near.solution.w.B.map((v) => v * k) };
+      const sol = solveFixedCell({ system: this.system(s), cell, contour: this.spec.ns, options: this.spec.solver, initial });
+      this.counters.solves++;
+      this.counters.iterations += sol.iterations;
+      this.counters.seconds += (performance.now() - t0) / 1000;
+      if (sol.converged) point = { state: { ...s }, cell, solution: sol, layers: countLayers(sol.phi) };
+    }
+    point ??= this.confirm(s);
+    this.keep(point);
+    return point;
+  }
+
+  /** The solved state closest to s (relative in χN and thickness, absolute in the affinities). */
+  private nearest(s: FilmState): FilmPoint | undefined {
+    let best: FilmPoint | undefined;
+    let bestD = Infinity;
+    for (const p of this.points) {
+      const d = Math.log(p.state.chiN / s.chiN) ** 2 + (p.state.bottom - s.bottom) ** 2 + (p.state.top - s.top) ** 2 + Math.log(p.state.thickness / s.thickness) ** 2;
+      if (d < bestD) {
+        bestD = d;
+        best = p;
+      }
+    }
+    return best;
+  }
+}
