@@ -149,23 +149,41 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
   const mag = (v: number | undefined) => Math.abs(v ?? 1) || 1;
   for (const b of s.start?.bottom !== undefined ? [Math.sign(s.start.bottom) || 1] : [1, -1])
     for (const t of s.start?.top !== undefined ? [Math.sign(s.start.top) || 1] : [1, -1]) signPairs.push([b * mag(s.start?.bottom), t * mag(s.start?.top)]);
-  const chiScan = s.start?.chiN !== undefined ? [base.chiN] : [12, 16, 22, 30].filter((c) => c >= chiLo && c <= chiHi);
-  if (chiScan.length === 0) chiScan.push(Math.sqrt(chiLo * chiHi));
+  // χN values tried from each start, outward from the first (each warm-started from its neighbour).
+  const chi0 = Math.min(chiHi, Math.max(chiLo, base.chiN));
+  const chiScan = s.start?.chiN !== undefined ? [] : [12, 9, 22, 30].filter((c) => c >= chiLo && c <= chiHi && c !== chi0);
   let start = base;
   let startCost = Infinity;
+  let startPoint: FilmPoint | undefined;
+  const score = (pt: FilmPoint, q: FilmParams) => {
+    const m = data.kind === 'phi' ? predictPhi(pt.cell, pt.solution, q, data.x) : data.kind === 'sld' ? predictSld(pt.cell, pt.solution, q, data.x, inst.slds!) : predictReflectivity(pt.cell, pt.solution, q.width, data.x, { ...inst, slds: inst.slds!, rgNm: inst.rgNm! });
+    return cost(m.map((v, i) => (v - data.y[i]) * weight[i]));
+  };
   for (const [b, t] of signPairs) {
-    // A full solve for each pair of wall preferences: the layer parity they ask for differs.
-    model.confirmAndKeep({ chiN: chiScan[0], bottom: b, top: t, thickness: H });
-    for (const c of chiScan) {
-      const q = { ...base, chiN: c, bottom: b, top: t };
-      const v = cost(residualsOf(q));
-      s.onProgress?.('start', `χN = ${c.toPrecision(4)}, affinities ${b}, ${t}: χ² ${v.toPrecision(5)}`);
-      if (v < startCost) {
-        startCost = v;
-        start = q;
+    // Every layering the film solve reaches for this pair of wall preferences (the data may
+    // hold one that is not the lowest in free energy at the starting χN), each carried in χN.
+    for (const first of model.layerings({ chiN: chi0, bottom: b, top: t, thickness: H })) {
+      let prevUp = first;
+      let prevDown = first;
+      for (const c of [chi0, ...chiScan.sort((u, v) => Math.abs(u - chi0) - Math.abs(v - chi0))]) {
+        const prev = c >= chi0 ? prevUp : prevDown;
+        const pt = c === chi0 ? first : model.warmFrom(prev, { chiN: c, bottom: b, top: t, thickness: H });
+        if (!pt) continue;
+        if (c > chi0) prevUp = pt;
+        else if (c < chi0) prevDown = pt;
+        const q = { ...base, chiN: c, bottom: b, top: t };
+        const v = score(pt, q);
+        s.onProgress?.('start', `χN = ${c.toPrecision(4)}, affinities ${b}, ${t}, layers ${pt.layers.sequence}: χ² ${v.toPrecision(5)}`);
+        if (v < startCost) {
+          startCost = v;
+          start = q;
+          startPoint = pt;
+        }
       }
     }
   }
+  if (!startPoint) throw new RunFailure('no film solve converged at any starting point of the fit');
+  model.restartFrom(startPoint);
 
   const fitFrom = (from: FilmParams, free: FilmParamName[], stage: string, maxIterations = 40) => {
     const vec = (q: FilmParams) => Float64Array.from(free, (k) => q[k]);

@@ -74,6 +74,45 @@ export class FilmModel {
     return { state: { ...s }, cell, solution: r.solution, layers: r.layers };
   }
 
+  /**
+   * Every distinct layering the full film solve reaches at s (the lowest-F state and the
+   * other converged starts), lowest F first; none is kept as a warm start.
+   */
+  layerings(s: FilmState): FilmPoint[] {
+    const t0 = performance.now();
+    const cell = this.cellOf(s);
+    const r = solveFilm({ system: this.system(s), cell, contour: this.spec.ns, options: this.spec.solver });
+    this.counters.fullSolves++;
+    this.counters.seconds += (performance.now() - t0) / 1000;
+    const seen = new Map<string, FilmPoint>();
+    for (const sol of [...r.states].sort((a, b) => a.freeEnergy - b.freeEnergy)) {
+      const layers = countLayers(sol.phi);
+      if (!seen.has(layers.sequence)) seen.set(layers.sequence, { state: { ...s }, cell, solution: sol, layers });
+    }
+    return [...seen.values()];
+  }
+
+  /** The state s solved from the fields of `from` (not kept); undefined when it does not converge. */
+  warmFrom(from: FilmPoint, s: FilmState): FilmPoint | undefined {
+    const t0 = performance.now();
+    const cell = this.cellOf(s);
+    // Fields scale roughly with χN (w ~ χN φ), so the start is scaled by the χN ratio.
+    const k = s.chiN / from.state.chiN;
+    const initial = { A: from.solution.w.A.map((v) => v * k), B: from.solution.w.B.map((v) => v * k) };
+    const sol = solveFixedCell({ system: this.system(s), cell, contour: this.spec.ns, options: this.spec.solver, initial });
+    this.counters.solves++;
+    this.counters.iterations += sol.iterations;
+    this.counters.seconds += (performance.now() - t0) / 1000;
+    return sol.converged ? { state: { ...s }, cell, solution: sol, layers: countLayers(sol.phi) } : undefined;
+  }
+
+  /** Forget every warm start and start again from this one state (a fit follows its layering). */
+  restartFrom(point: FilmPoint): void {
+    this.points.length = 0;
+    this.memo.clear();
+    this.keep(point);
+  }
+
   /** The state solved from scratch and kept as a warm start (a fit's start for each pair of wall preferences). */
   confirmAndKeep(s: FilmState): FilmPoint {
     const point = this.confirm(s);
@@ -97,18 +136,7 @@ export class FilmModel {
     if (hit) return hit;
     const near = this.nearest(s);
     let point: FilmPoint | undefined;
-    if (near) {
-      const t0 = performance.now();
-      const cell = this.cellOf(s);
-      // Fields scale roughly with χN (w ~ χN φ), so the start is scaled by the χN ratio.
-      const k = s.chiN / near.state.chiN;
-      const initial = { A: near.solution.w.A.map((v) => v * k), B: near.solution.w.B.map((v) => v * k) };
-      const sol = solveFixedCell({ system: this.system(s), cell, contour: this.spec.ns, options: this.spec.solver, initial });
-      this.counters.solves++;
-      this.counters.iterations += sol.iterations;
-      this.counters.seconds += (performance.now() - t0) / 1000;
-      if (sol.converged) point = { state: { ...s }, cell, solution: sol, layers: countLayers(sol.phi) };
-    }
+    if (near) point = this.warmFrom(near, s);
     point ??= this.confirm(s);
     this.keep(point);
     return point;
