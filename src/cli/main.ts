@@ -15,6 +15,7 @@ import { registerInvert } from './commands/invert.js';
 import { registerReport } from './commands/report.js';
 import { registerSweep } from './commands/sweep.js';
 import { registerPredict } from './commands/predict.js';
+import { registerReflectivity } from './commands/reflectivity.js';
 
 const program = new Command();
 program
@@ -37,6 +38,7 @@ registerInvert(program);
 registerReport(program);
 registerSweep(program);
 registerPredict(program);
+registerReflectivity(program);
 registerSchema(program);
 
 await program.parseAsync(process.argv);

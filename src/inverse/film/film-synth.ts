@@ -77,3 +77,37 @@ export function synthesizeFilm(s: FilmSynthSettings): FilmSynth {
   const y = clean.map((v, i) => v + sigma[i] * g.next());
   return { x, y, clean, sigma, point };
 }
+
+/** The data CSV (in the units the fits read: x in Rg or nm, SLD in 10⁻⁶ Å⁻², Q in Å⁻¹) and the truth beside it. */
+export function filmSynthFiles(s: FilmSynthSettings, d: FilmSynth, rgNm?: number): { csv: string; truth: Record<string, unknown> } {
+  const xs = rgNm ?? 1;
+  const SLD = 1e-6;
+  let rows: string[];
+  if (s.kind === 'phi') rows = ['x,phiA,sigma', ...Array.from(d.x, (v, i) => `${v * xs},${d.y[i]},${d.sigma[i]}`)];
+  else if (s.kind === 'sld') rows = ['x,sld,sigma', ...Array.from(d.x, (v, i) => `${v * xs},${d.y[i] / SLD},${d.sigma[i] / SLD}`)];
+  else rows = ['Q,R,dR', ...Array.from(d.x, (v, i) => `${v},${d.y[i]},${d.sigma[i]}`)];
+  const truth = {
+    kind: 'film-synth-truth',
+    version: 1,
+    measurement: s.kind,
+    chain: s.chain,
+    chiN: s.chiN,
+    affinity: { bottom: s.bottom, top: s.top },
+    thickness: s.thickness,
+    ...(rgNm ? { thicknessNm: s.thickness * rgNm, rgNm } : {}),
+    resolution: s.width,
+    offset: s.offset,
+    wallRange: s.wallRange,
+    points: s.points,
+    noise: s.noise,
+    seed: s.seed,
+    nx: s.nx,
+    ns: s.ns,
+    layers: d.point.layers.sequence,
+    freeEnergy: d.point.solution.freeEnergy,
+    ...(s.instrument.slds ? { sld: { A: s.instrument.slds.A / SLD, B: s.instrument.slds.B / SLD, substrate: s.instrument.slds.substrate / SLD, medium: s.instrument.slds.medium / SLD }, sldUnits: '1e-6 Å⁻²' } : {}),
+    ...(s.kind === 'reflectivity' ? { dQoverQ: s.instrument.dQoverQ ?? 0, qRange: s.qRange } : {}),
+    note: 'lengths (thickness, resolution, offset) in Rg; noise is the standard deviation of φA or of the SLD (10⁻⁶ Å⁻² in the CSV), or the relative error of R',
+  };
+  return { csv: `${rows.join('\n')}\n`, truth };
+}
