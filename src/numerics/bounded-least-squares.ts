@@ -25,6 +25,8 @@ export interface BoundedLsqOptions {
   relTol?: number;
   /** Stop when every |δp_i| is below this fraction of its difference step. */
   stepTol?: number;
+  /** Stop when an accepted step lowers the sum of squares by less than this (absolute). */
+  absTol?: number;
   /** Columns computed by the caller instead of forward differences (null: difference that column). */
   jacobian?: (p: Float64Array, r: Float64Array) => (Float64Array | null)[];
   onIteration?: (it: { iteration: number; cost: number; p: Float64Array; mu: number }) => void;
@@ -132,14 +134,15 @@ export function boundedLeastSquares(residuals: (p: Float64Array) => Float64Array
       if (ct < cost && rho > 0) {
         accepted = true;
         const small = actual.every((v, a) => Math.abs(v) < stepTol * Math.abs(o.steps[a]));
-        const relDrop = (cost - ct) / Math.max(cost, 1e-300);
+        const drop = cost - ct;
+        const relDrop = drop / Math.max(cost, 1e-300);
         p = trial;
         r = rt;
         cost = ct;
         mu *= Math.max(1 / 3, 1 - (2 * rho - 1) ** 3);
         nu = 2;
         o.onIteration?.({ iteration: it + 1, cost, p, mu });
-        if (relDrop < relTol || small) {
+        if (relDrop < relTol || small || drop < (o.absTol ?? 0)) {
           converged = true;
           break;
         }

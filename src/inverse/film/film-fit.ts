@@ -185,6 +185,9 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
   if (!startPoint) throw new RunFailure('no film solve converged at any starting point of the fit');
   model.restartFrom(startPoint);
 
+  // Inner fits of the profile likelihood stop once χ² moves by less than this fraction of the
+  // smallest Δχ² level: the interval ends move by far less than their own precision then.
+  let absTol = 0;
   const fitFrom = (from: FilmParams, free: FilmParamName[], stage: string, maxIterations = 40) => {
     const vec = (q: FilmParams) => Float64Array.from(free, (k) => q[k]);
     const unvec = (v: ArrayLike<number>): FilmParams => {
@@ -199,6 +202,7 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
       maxIterations,
       relTol: 1e-7,
       stepTol: 0.1,
+      absTol,
       onIteration: (it) => s.onProgress?.(stage, `iteration ${it.iteration}: χ² ${it.cost.toPrecision(7)}, ${free.map((k, i) => `${k} ${it.p[i].toPrecision(5)}`).join(', ')}`),
     });
     return { params: unvec(r.p), cost: r.cost, iterations: r.iterations, atBound: free.filter((_, i) => r.atBound[i]) };
@@ -212,6 +216,7 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
   const scale = data.sigma ? 1 : Math.max(best.cost / dof, 1e-300);
   const warnings: string[] = [];
   const notes: string[] = [];
+  absTol = 0.01 * scale;
 
   // Profile-likelihood intervals.
   const intervals: FilmFitResult['intervals'] = {};
