@@ -58,6 +58,42 @@ const estimatorFileSchema = z
   .passthrough();
 const inversionFileSchema = z.object({ kind: z.literal('inversion'), estimators: z.record(z.string(), estimatorFileSchema) }).passthrough();
 
+/** The parts of a film-fit result (inverse/film/film-fit-run.ts) that the report draws. */
+const levelSchema = z.object({ lo: z.number(), hi: z.number(), deltaChi2: z.number() }).passthrough();
+const filmFitFileSchema = z
+  .object({
+    kind: z.literal('film-fit-result'),
+    input: z.object({ dataKind: z.enum(['phi', 'sld', 'reflectivity']) }).passthrough(),
+    chiN: z.number(),
+    affinity: z.object({ bottom: z.number(), top: z.number() }).passthrough(),
+    intervals: z.record(z.string(), z.object({ '95%': levelSchema }).passthrough()),
+    profiles: z.record(z.string(), z.array(z.object({ value: z.number(), deltaChi2: z.number() }))),
+    layers: z.string(),
+    reducedChi2: z.number(),
+    warnings: z.array(z.string()),
+    curve: z.object({ xUnits: z.string(), yUnits: z.string(), x: z.array(z.number()), y: z.array(z.number()), sigma: z.array(z.number()), fit: z.array(z.number()) }),
+  })
+  .passthrough();
+
+function filmFitInput(f: z.infer<typeof filmFitFileSchema>): ReportInput['filmFit'] {
+  const c = f.curve;
+  const kind = f.input.dataKind;
+  const best: Record<string, number> = { chiN: f.chiN, bottom: f.affinity.bottom, top: f.affinity.top };
+  const unit: Record<string, string> = { chiN: '–', bottom: 'kT per chain × Rg', top: 'kT per chain × Rg' };
+  const label: Record<string, string> = { chiN: 'χN', bottom: 'bottom-wall affinity', top: 'top-wall affinity' };
+  return {
+    dataKind: kind,
+    xLabel: kind === 'reflectivity' ? 'Q (Å⁻¹)' : `depth (${c.xUnits})`,
+    yLabel: kind === 'reflectivity' ? 'R (–)' : kind === 'sld' ? 'SLD (10⁻⁶ Å⁻²)' : 'φA (–)',
+    data: c.x.map((x, i) => ({ x, value: c.y[i], sigma: c.sigma[i], fit: c.fit[i] })),
+    parameters: Object.keys(best).map((k) => ({ name: label[k], value: best[k], lower: f.intervals[k]?.['95%'].lo, upper: f.intervals[k]?.['95%'].hi, unit: unit[k] })),
+    profiles: Object.entries(f.profiles).map(([k, pts]) => ({ name: label[k] ?? k, points: pts, threshold: f.intervals[k]?.['95%'].deltaChi2 ?? 3.841 })),
+    layers: f.layers,
+    reducedChi2: f.reducedChi2,
+    warnings: f.warnings,
+  };
+}
+
 function inversionInput(file: z.infer<typeof inversionFileSchema>): ReportInput['inversion'] {
   const main = file.estimators.classical ?? Object.values(file.estimators)[0];
   if (!main?.points || !main.fitCurve) return undefined;
@@ -184,6 +220,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   let training: ReportInput['training'];
   let trainingSeconds = Number.NaN;
   let inversion: ReportInput['inversion'];
+  let filmFit: ReportInput['filmFit'];
   let surrogate: ReportInput['surrogate'];
   for (const name of names) {
     const path = join(dir, name);
@@ -202,6 +239,9 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
         const cl = inv.estimators.classical;
         training = { history: [], chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };
       }
+      read.push(path);
+    } else if (kind === 'film-fit-result') {
+      filmFit = filmFitInput(parseOrThrow(filmFitFileSchema, raw, path));
       read.push(path);
     } else if (kind === 'checkpoint') {
       // A training checkpoint (training/checkpoint.ts): its loss history is the training page.
@@ -251,6 +291,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
     training,
     inversion,
+    filmFit,
     surrogate,
     periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
     metrics,

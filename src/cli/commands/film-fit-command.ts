@@ -36,6 +36,7 @@ export interface FilmFitFlags {
   json?: boolean;
   out?: string;
   quiet?: boolean;
+  report?: boolean;
 }
 
 export function buildFilmFitConfig(configPath: string | undefined, flags: FilmFitFlags): FilmFitConfig {
@@ -82,7 +83,8 @@ export function buildFilmFitConfig(configPath: string | undefined, flags: FilmFi
 }
 
 /** Read, fit, write; prints the summary (or JSON) on stdout. */
-export function runFilmFitCommand(command: string, dataPath: string, config: FilmFitConfig, flags: FilmFitFlags): void {
+export async function runFilmFitCommand(command: string, dataPath: string, config: FilmFitConfig, flags: FilmFitFlags): Promise<void> {
+  if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
   let text: string;
   try {
     text = readFileSync(dataPath, 'utf8');
@@ -103,6 +105,11 @@ export function runFilmFitCommand(command: string, dataPath: string, config: Fil
     const files = { 'result.json': `${JSON.stringify(out.result, null, 1)}\n`, 'fit.csv': out.fitCsv, 'solution.json': `${JSON.stringify(out.solution, null, 1)}\n` };
     writeDirectoryAtomic(flags.out, files);
     if (!flags.quiet) process.stderr.write(`${command}: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
+    if (flags.report) {
+      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
+      const written = reportRunDirectory(flags.out, join(flags.out, 'report'));
+      if (!flags.quiet) process.stderr.write(`${command}: wrote ${written.join(', ')}\n`);
+    }
   }
   process.stdout.write(flags.json ? `${JSON.stringify(out.result, null, 2)}\n` : out.summary);
 }

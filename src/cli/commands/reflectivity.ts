@@ -101,6 +101,7 @@ export function registerReflectivity(program: Command): void {
     .option('--json', 'print the result JSON on stdout')
     .option('--out <dir>', 'write the result files into this directory')
     .option('--quiet', 'no progress on stderr')
+    .option('--report', 'with DATA: also write a PDF/PNG report into <out>/report (needs --out)')
     .action(
       action(async (dataPath: string | undefined, configPath: string | undefined, flags: ReflectivityFlags) => {
         if (!dataPath) return computeCurve(flags);
@@ -108,7 +109,7 @@ export function registerReflectivity(program: Command): void {
         if (flags.rgNm === undefined && !configPath) throw new InputError('--rg-nm: missing; a reflectivity fit needs Rg in nm (Q is in Å⁻¹)');
         const { buildFilmFitConfig, runFilmFitCommand } = await import('./film-fit-command.js');
         const config = buildFilmFitConfig(configPath, flags);
-        runFilmFitCommand('reflectivity', dataPath, config, flags);
+        await runFilmFitCommand('reflectivity', dataPath, config, flags);
       }),
     );
 }

@@ -127,8 +127,23 @@ export function runFilmFit(config: FilmFitConfig, data: FilmData, prov: Provenan
     warnings: fit.warnings,
     notes: fit.notes,
     assumptions: FILM_ASSUMPTIONS,
+    // The data against the model in the file's own units (what a report draws; fit.csv has the same).
+    curve: curveOf(data, fit, rgNm),
   };
   return { result, fitCsv: filmFitCsv(data, fit, rgNm), solution: solutionToFile(fit.point.solution, prov, config), summary: filmFitSummary(result, fit, rgNm), fit };
+}
+
+function curveOf(data: FilmData, fit: FilmFitResult, rgNm?: number) {
+  const yOut = data.kind === 'sld' ? 1 / SLD_UNIT : 1;
+  const xOut = data.kind === 'reflectivity' ? 1 : rgNm ?? 1;
+  return {
+    xUnits: data.kind === 'reflectivity' ? 'Å⁻¹' : rgNm ? 'nm' : 'Rg',
+    yUnits: data.kind === 'sld' ? '1e-6 Å⁻²' : '–',
+    x: Array.from(data.x, (v) => v * xOut),
+    y: Array.from(data.y, (v) => v * yOut),
+    sigma: Array.from(data.x, (_, i) => (data.sigma ? data.sigma[i] : fit.sigma.value!) * yOut),
+    fit: Array.from(fit.fit, (v) => v * yOut),
+  };
 }
 
 /** The data, the model and the residuals at each point, in the file's own units. */

@@ -1,4 +1,5 @@
 /** The sections of a report, in page order. A new section is added to this list. */
+import { filmFitSection } from './film-fit-section.js';
 import { inversionSection } from './inversion-section.js';
 import { metricsSection } from './metrics-section.js';
 import { periodSearchSection } from './period-search-section.js';
@@ -9,6 +10,6 @@ import type { ReportSection } from './section.js';
 import { titleSection } from './title-section.js';
 import { trainingSection } from './training-section.js';
 
-export const REPORT_SECTIONS: readonly ReportSection[] = [titleSection, surrogateSection, profilesSection, propagatorSection, periodSearchSection, trainingSection, inversionSection, metricsSection];
+export const REPORT_SECTIONS: readonly ReportSection[] = [titleSection, surrogateSection, profilesSection, propagatorSection, periodSearchSection, trainingSection, inversionSection, filmFitSection, metricsSection];
 
 export type { ReportSection } from './section.js';
