@@ -107,7 +107,8 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
   const xmin = data.x[0];
   const xmax = data.x[n - 1];
   if (data.kind === 'phi' && !thicknessFitted && xmax - xmin > H * (1 + 1e-9)) {
-    throw new InputError(`${s.sources?.thickness ?? '--film'}: the film is ${H.toPrecision(6)} Rg thick, but the φA data span ${(xmax - xmin).toPrecision(6)} Rg: a composition profile must lie inside the film (check the thickness and the units of x)`);
+    const len = (v: number) => `${Number(v.toPrecision(6))} Rg${inst.rgNm ? ` (${Number((v * inst.rgNm).toPrecision(6))} nm)` : ''}`;
+    throw new InputError(`${s.sources?.thickness ?? '--film'}: the film is ${len(H)} thick, but the φA data span ${len(xmax - xmin)}: a composition profile must lie inside the film (check the thickness and the units of x)`);
   }
   const [chiLo, chiHi] = s.chiNRange;
   const [affLo, affHi] = s.affinityRange;
