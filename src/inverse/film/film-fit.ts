@@ -81,7 +81,7 @@ export interface FilmFitResult {
   residual: Float64Array;
   point: FilmPoint;
   seconds: { fit: number; intervals: number; total: number };
-  cost: { solves: number; fullSolves: number; iterations: number; lmIterations: number; solveSeconds: number };
+  cost: { solves: number; failedSolves: number; fullSolves: number; iterations: number; lmIterations: number; solveSeconds: number };
   warnings: string[];
   notes: string[];
 }
@@ -125,14 +125,19 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
   const steps: Record<FilmParamName, number> = { chiN: 1e-3 * Math.max(1, chiLo), bottom: 1e-3, top: 1e-3, width: 1e-3 * H, offset: 1e-3 * H, thickness: 1e-3 * H };
   const weight = data.sigma ? data.sigma.map((v) => 1 / v) : new Float64Array(n).fill(1);
   const stateOf = (q: FilmParams): FilmState => ({ chiN: q.chiN, bottom: q.bottom, top: q.top, thickness: q.thickness });
-  const predict = (q: FilmParams): Float64Array => {
+  const predict = (q: FilmParams): Float64Array | undefined => {
     const pt = model.at(stateOf(q));
+    if (!pt) return undefined;
     if (data.kind === 'phi') return predictPhi(pt.cell, pt.solution, q, data.x);
     if (data.kind === 'sld') return predictSld(pt.cell, pt.solution, q, data.x, inst.slds as StackSlds);
     return predictReflectivity(pt.cell, pt.solution, q.width, data.x, { ...inst, slds: inst.slds!, rgNm: inst.rgNm! });
   };
+  // A state the followed layering cannot reach counts as excluded: a residual so large that LM
+  // rejects the step and a profile-likelihood end falls before it.
+  const EXCLUDED = 1e6;
   const residualsOf = (q: FilmParams) => {
     const m = predict(q);
+    if (!m) return new Float64Array(n).fill(EXCLUDED);
     return m.map((v, i) => (v - data.y[i]) * weight[i]);
   };
   const cost = (r: Float64Array) => r.reduce((a, v) => a + v * v, 0);
@@ -248,13 +253,14 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
       if (lo.limitedByRange || hi.limitedByRange) notes.push(`the ${level.name} interval of ${name} reaches the search bound [${range[0]}, ${range[1]}]: it is open on that side`);
     }
     intervals[name] = out;
-    profiles[name] = known.map((k) => ({ value: k.chiN, deltaChi2: Math.max(0, (k.value - best.cost) / scale) })).sort((a, b) => a.value - b.value);
+    profiles[name] = known.filter((k) => k.value < 0.5 * n * EXCLUDED * EXCLUDED).map((k) => ({ value: k.chiN, deltaChi2: Math.max(0, (k.value - best.cost) / scale) })).sort((a, b) => a.value - b.value);
   }
   const tIntervals = performance.now();
 
   const point = model.at(stateOf(best.params));
-  if (!point.solution.converged) throw new RunFailure(`the film solve at the best fit did not converge (χN = ${best.params.chiN}, residual ${point.solution.residual})`);
-  const fit = predict(best.params);
+  if (!point || !point.solution.converged) throw new RunFailure(`the film solve at the best fit did not converge (χN = ${best.params.chiN}, residual ${point?.solution.residual ?? 'none: no converged state'})`);
+  const fit = predict(best.params)!;
+  if (model.counters.failed > 0) notes.push(`${model.counters.failed} trial state(s) could not be reached from the fitted layering (the warm-started solve did not converge): they count as excluded, so an interval may end where that layering stops existing`);
   const residual = fit.map((v, i) => data.y[i] - v);
   const chi2 = best.cost / scale;
   if (data.sigma && chi2 / dof > 2) warnings.push(`reduced χ² is ${(chi2 / dof).toPrecision(3)} (> 2): the model misses the data by more than their stated errors, so the intervals (which assume the model is right) are too narrow; check the SLDs, the thickness, the resolution, or whether the film is laterally uniform`);
@@ -282,7 +288,7 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
     residual,
     point,
     seconds: { fit: (tFit - t0) / 1000, intervals: (tIntervals - tFit) / 1000, total: (t1 - t0) / 1000 },
-    cost: { solves: model.counters.solves, fullSolves: model.counters.fullSolves, iterations: model.counters.iterations, lmIterations, solveSeconds: model.counters.seconds },
+    cost: { solves: model.counters.solves, failedSolves: model.counters.failed, fullSolves: model.counters.fullSolves, iterations: model.counters.iterations, lmIterations, solveSeconds: model.counters.seconds },
     warnings,
     notes,
   };

@@ -53,7 +53,7 @@ const MAX_HALVINGS = 3;
 const KEEP = 200;
 
 export class FilmModel {
-  readonly counters = { solves: 0, fullSolves: 0, iterations: 0, seconds: 0 };
+  readonly counters = { solves: 0, fullSolves: 0, iterations: 0, seconds: 0, failed: 0 };
   private readonly points: FilmPoint[] = [];
   private readonly memo = new Map<string, FilmPoint>();
 
@@ -154,14 +154,22 @@ export class FilmModel {
     }
   }
 
-  at(s: FilmState): FilmPoint {
+  /** The state s, warm-started from the nearest solved one; undefined when that does not converge. */
+  at(s: FilmState): FilmPoint | undefined {
     const key = `${s.chiN},${s.bottom},${s.top},${s.thickness}`;
     const hit = this.memo.get(key);
     if (hit) return hit;
     const near = this.nearest(s);
     let point: FilmPoint | undefined;
-    if (near) point = this.warmFrom(near, s);
-    point ??= this.confirm(s);
+    if (near) {
+      // The followed layering did not converge here (it may cease to exist): no state, rather
+      // than a solve from scratch that could jump to another layering.
+      point = this.warmFrom(near, s);
+      if (!point) {
+        this.counters.failed++;
+        return undefined;
+      }
+    } else point = this.confirm(s);
     this.keep(point);
     return point;
   }
