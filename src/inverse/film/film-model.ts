@@ -48,7 +48,7 @@ export interface FilmPoint {
 /** Iterations a warm-started solve may take before the jump is split in two. */
 const WARM_ITERATIONS = 400;
 /** Halvings of a failed jump before the state is solved from scratch. */
-const MAX_HALVINGS = 3;
+const MAX_HALVINGS = 1;
 /** Solved states kept as warm starts (the oldest dropped first). */
 const KEEP = 200;
 
@@ -56,6 +56,7 @@ export class FilmModel {
   readonly counters = { solves: 0, fullSolves: 0, iterations: 0, seconds: 0, failed: 0 };
   private readonly points: FilmPoint[] = [];
   private readonly memo = new Map<string, FilmPoint>();
+  private readonly unreachable = new Set<string>();
 
   constructor(readonly spec: FilmModelSpec) {}
 
@@ -134,6 +135,7 @@ export class FilmModel {
   restartFrom(point: FilmPoint): void {
     this.points.length = 0;
     this.memo.clear();
+    this.unreachable.clear();
     this.keep(point);
   }
 
@@ -161,12 +163,14 @@ export class FilmModel {
     if (hit) return hit;
     const near = this.nearest(s);
     let point: FilmPoint | undefined;
+    if (this.unreachable.has(key)) return undefined;
     if (near) {
       // The followed layering did not converge here (it may cease to exist): no state, rather
       // than a solve from scratch that could jump to another layering.
       point = this.warmFrom(near, s);
       if (!point) {
         this.counters.failed++;
+        this.unreachable.add(key);
         return undefined;
       }
     } else point = this.confirm(s);
