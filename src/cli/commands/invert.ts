@@ -140,7 +140,7 @@ export function registerInvert(program: Command): void {
     .option('--affinity-range <lo,hi>', 'film: affinity search range (default -5,5)')
     .option('--sld <a,b,sub,med>', 'film, SLD profile: SLDs of A, B, the substrate and the medium, 10⁻⁶ Å⁻²')
     .option('--wall-range <l>', "film: range of the walls' surface field, Rg (default 0.25)")
-    .option('--intervals <list>', 'film: parameters with profile-likelihood intervals: chiN,bottom,top (default) or none')
+    .option('--intervals <list>', 'film: parameters with profile-likelihood intervals: chiN (default), bottom, top (slow), comma-separated, or none')
     .action(
       action(async (profilePath: string, configPath: string | undefined, flags: InvertFlags) => {
         if (flags.film !== undefined) {

@@ -94,7 +94,7 @@ export function registerReflectivity(program: Command): void {
     .option('--points <n>', 'Q points (default 300; without DATA)')
     .option('--chiN-range <lo,hi>', 'χN search range of the fit (default 5,60)')
     .option('--affinity-range <lo,hi>', 'affinity search range of the fit (default -5,5)')
-    .option('--intervals <list>', 'parameters with profile-likelihood intervals: chiN,bottom,top (default) or none')
+    .option('--intervals <list>', 'parameters with profile-likelihood intervals: chiN (default), bottom, top (slow), comma-separated, or none')
     .option('--wall-range <l>', 'range of the walls\' surface field, Rg (default 0.25)')
     .option('--nx <n>', 'film grid points (default 64 for a curve, 32 for a fit)')
     .option('--ns <n>', 'contour steps (default 100 for a curve, 60 for a fit)')
