@@ -11,15 +11,10 @@ import type { Provenance } from '../io/versions.js';
 import type { ClassicalEstimate } from './classical.js';
 import { fieldInDataFrame } from './classical.js';
 import type { ProfileData } from './profile-csv.js';
+import { modelAssumptions } from '../physics/model-assumptions.js';
 
-/** What the fitted χN rests on: printed with every result. */
-export const ASSUMPTIONS: readonly string[] = [
-  'mean-field SCFT: no fluctuation corrections (at finite N these shift the order–disorder transition and the effective χN)',
-  'incompressible A/B melt (φ_A + φ_B = 1) with a Flory–Huggins χ',
-  'Gaussian chains with the given block fractions and segment lengths',
-  '1D lamellae in equilibrium, with the stress-free period unless a period is given or fitted',
-  'the fitted χN depends on these and on the assumed f and segment lengths: read a χN used for materials design with those limits',
-];
+/** What the fitted χN rests on: printed with every result (the one list in physics/model-assumptions.ts). */
+export const ASSUMPTIONS: readonly string[] = modelAssumptions('periodic', true);
 
 /** One estimator's block: the fields every estimator reports (a network block adds its own extras). */
 export type EstimatorBlock = Pick<

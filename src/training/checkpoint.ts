@@ -76,10 +76,11 @@ export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<CheckpointF
 export async function writeWeightsDirectory(tf: Tf, dir: string, meta: Record<string, unknown>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
   const { data, specs } = await tf.io.encodeWeights(tensors.map((t) => ({ name: t.name, tensor: t.tensor })));
   const file = { ...meta, weightSpecs: specs, weightBytes: data.byteLength };
+  // checkpoint.json last: it is what makes the directory a checkpoint (writeDirectoryAtomic renames in order).
   writeDirectoryAtomic(dir, {
-    'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
     'weights.bin': new Uint8Array(data),
     ...extraFiles,
+    'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
   });
 }
 

@@ -10,6 +10,7 @@
  */
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { lbfgs } from '../numerics/lbfgs.js';
+import { yieldToEvents } from '../runtime/stop.js';
 import type { Adam } from '../autodiff/adam.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { HistoryEntry } from './checkpoint.js';
@@ -113,6 +114,8 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
   const effective = (): LossValues => Object.fromEntries(LOSS_TERMS.map((k) => [k, baseWeights[k] * factors[k]])) as LossValues;
 
   while (state.step < tr.steps) {
+    // One event-loop turn per step (a few µs): without it a signal handler never runs during training.
+    await yieldToEvents();
     if (hooks.shouldStop?.()) {
       if (hooks.checkpoint) {
         await hooks.checkpoint({ ...state, lossWeights: { ...factors } });

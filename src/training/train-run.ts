@@ -3,7 +3,7 @@
  * transfer, or resume), physics training, evaluation against the reference, checkpoints.
  * The CLI's `train` is a thin wrapper around trainRun; tests call it directly.
  */
-import { InputError } from '../io/errors.js';
+import { InputError, RunFailure } from '../io/errors.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { solutionToFile, summarize } from '../io/solution-file.js';
 import { provenance } from '../io/versions.js';
@@ -24,6 +24,7 @@ import type { ScftNetworks } from '../network/scft-networks.js';
 import { LOSS_TERMS } from '../network/losses/terms.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftProblem } from '../network/problem/scft-problem.js';
+import { yieldToEvents } from '../runtime/stop.js';
 import { polishCycle, propagatorWeights, runTraining } from './train-loop.js';
 import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
 import { warmStart } from '../network/warm-start.js';
@@ -145,6 +146,12 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     if (JSON.stringify(resumed.file.config.system) !== JSON.stringify(config.system)) {
       throw new InputError(`--resume ${opts.resumeDir}: checkpoint was trained for another system (${JSON.stringify(resumed.file.config.system)}); use initFrom for transfer`);
     }
+    const changed = changedSettings(resumed.file.config, config);
+    if (changed.length > 0) {
+      throw new InputError(
+        `--resume ${opts.resumeDir}: the config differs from the one the checkpoint was trained with, and a resumed run continues that one exactly:\n${changed.map((c) => `  ${c}`).join('\n')}\nresume with the checkpoint's settings (only training.steps may grow), or start a new run from it with initFrom`,
+      );
+    }
     // The resumed run continues the checkpoint's own schedule, with the new step budget.
     config = { ...resumed.file.config, training: { ...resumed.file.config.training, steps: Math.max(config.training.steps, resumed.file.step) } };
   }
@@ -157,7 +164,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const cell = resumed ? { ...config.cell, period: resumed.file.length / resumed.file.periods } : config.cell;
   const ref = solveFromConfig({ system: config.system, cell, solver: config.reference, output: { propagators: true } });
   const reference = ref.solution;
-  if (!reference.converged) throw new InputError(`reference: the spectral solve did not converge (${reference.notes.join('; ')})`);
+  if (!reference.converged) throw new RunFailure(`reference: the spectral solve did not converge (${reference.notes.join('; ')})`);
   if (reference.phase === 'disordered') {
     throw new InputError(`system: the reference is disordered at χN = ${config.system.chiN} (below the order–disorder transition): there is no lamella to learn`);
   }
@@ -182,7 +189,14 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     training.resumedFrom = { checkpoint: opts.resumeDir!, step: resumed.file.step };
     stage(`resumed from ${opts.resumeDir} at step ${resumed.file.step}`);
   } else if (config.initFrom) {
-    const src = loadCheckpoint(tf, config.initFrom);
+    let src: LoadedCheckpoint;
+    try {
+      src = loadCheckpoint(tf, config.initFrom);
+    } catch (e) {
+      // Name the config key, so the user knows which setting pointed there.
+      if (e instanceof InputError) throw new InputError(`initFrom: ${e.message}`);
+      throw e;
+    }
     const mismatch = sameArchitecture(config, src.file.config);
     if (mismatch) throw new InputError(`initFrom ${config.initFrom}: cannot transfer: ${mismatch}`);
     const srcChain = buildChain(src.file.config.system.chain);
@@ -261,6 +275,15 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     let iterations = 0;
     const trainingSeconds = () => loop.state.secondsBefore + (performance.now() - tLoop) / 1000;
     for (let c = 0; c < cycles; c++) {
+      // A stop asked during the polish lands between cycles (each cycle is one synchronous L-BFGS run).
+      await yieldToEvents();
+      if (opts.shouldStop?.()) {
+        await save(loop.state, 'adam');
+        problem.dispose();
+        adam.dispose();
+        nets.dispose();
+        throw new TrainingStopped('interrupted', `interrupted in the L-BFGS polish after ${iterations} iterations (cycle ${c + 1} of ${cycles}); checkpoint saved at step ${loop.state.step}`, opts.outDir, opts.outDir ? loop.state.step : null);
+      }
       r = polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined);
       iterations += r.iterations;
       // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.
@@ -312,6 +335,21 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   adam.dispose();
   nets.dispose();
   return { metrics, reference, network, handle, outDir: opts.outDir, history: loop.state.history };
+}
+
+/**
+ * Settings that differ between a checkpoint's config and the config of a resume, as
+ * "path: checkpoint A, config B" lines. The step budget may grow and the backend may change
+ * (neither changes the curve the run follows); anything else would be silently ignored.
+ */
+export function changedSettings(saved: unknown, now: unknown, path = ''): string[] {
+  if (path === 'training.steps' || path === 'backend') return [];
+  const isObj = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
+  if (isObj(saved) && isObj(now)) {
+    const keys = [...new Set([...Object.keys(saved), ...Object.keys(now)])];
+    return keys.flatMap((k) => changedSettings(saved[k], now[k], path ? `${path}.${k}` : k));
+  }
+  return JSON.stringify(saved) === JSON.stringify(now) ? [] : [`${path}: checkpoint ${JSON.stringify(saved)}, config ${JSON.stringify(now)}`];
 }
 
 /** A run that stopped before the end (diverged or interrupted): the checkpoint on disk is the last good one. */

@@ -5,13 +5,13 @@
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
 import { filmFitConfigSchema } from '../../io/schemas/film-fit-config.js';
 import type { FilmFitConfig } from '../../io/schemas/film-fit-config.js';
 import { provenance } from '../../io/versions.js';
 import { readFilmData, runFilmFit } from '../../inverse/film/film-fit-run.js';
 import { Progress } from '../progress.js';
+import { claimOut, withOutput } from '../run-output.js';
 import { obj, readRawConfig } from '../raw-config.js';
 import { numberFlag } from '../run-command.js';
 import { numberList, sldFlag } from './film-flags.js';
@@ -37,6 +37,7 @@ export interface FilmFitFlags {
   out?: string;
   quiet?: boolean;
   report?: boolean;
+  overwrite?: boolean;
 }
 
 export function buildFilmFitConfig(configPath: string | undefined, flags: FilmFitFlags): FilmFitConfig {
@@ -93,23 +94,25 @@ export async function runFilmFitCommand(command: string, dataPath: string, confi
   }
   const data = readFilmData(text, dataPath, config.units.rgNm);
   if (command === 'reflectivity' && data.kind !== 'reflectivity') throw new InputError(`${dataPath}: the header is that of a depth profile (${data.kind}); reflectivity fits a Q,R,dR curve: fit depth profiles with invert --film`);
-  const progress = new Progress(command, flags.quiet);
-  let out;
-  try {
-    out = runFilmFit(config, data, provenance(), (stage, detail) => progress.update(`${stage}: ${detail}`));
-  } catch (e) {
-    throw asInputError(e, 'flags');
-  }
-  progress.done(`χN = ${out.fit.params.chiN.toPrecision(5)} in ${out.fit.seconds.total.toFixed(1)} s`);
-  if (flags.out) {
-    const files = { 'result.json': `${JSON.stringify(out.result, null, 1)}\n`, 'fit.csv': out.fitCsv, 'solution.json': `${JSON.stringify(out.solution, null, 1)}\n` };
-    writeDirectoryAtomic(flags.out, files);
-    if (!flags.quiet) process.stderr.write(`${command}: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
-    if (flags.report) {
-      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
-      const written = reportRunDirectory(flags.out, join(flags.out, 'report'));
+  const out = claimOut(flags, command);
+  await withOutput(out, async () => {
+    const progress = new Progress(command, flags.quiet);
+    let run;
+    try {
+      run = runFilmFit(config, data, provenance(), (stage, detail) => progress.update(`${stage}: ${detail}`));
+    } catch (e) {
+      throw asInputError(e, 'flags');
+    }
+    progress.done(`χN = ${run.fit.params.chiN.toPrecision(5)} in ${run.fit.seconds.total.toFixed(1)} s`);
+    if (out) {
+      const written = out.write({ 'result.json': `${JSON.stringify(run.result, null, 1)}\n`, 'fit.csv': run.fitCsv, 'solution.json': `${JSON.stringify(run.solution, null, 1)}\n` });
       if (!flags.quiet) process.stderr.write(`${command}: wrote ${written.join(', ')}\n`);
     }
-  }
-  process.stdout.write(flags.json ? `${JSON.stringify(out.result, null, 2)}\n` : out.summary);
+    process.stdout.write(flags.json ? `${JSON.stringify(run.result, null, 2)}\n` : run.summary);
+    if (out && flags.report) {
+      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
+      const reported = reportRunDirectory(flags.out!, join(flags.out!, 'report'));
+      if (!flags.quiet) process.stderr.write(`${command}: wrote ${reported.join(', ')}\n`);
+    }
+  });
 }

@@ -4,11 +4,10 @@
  * --resolution) are in nm here: Q is in Å⁻¹, so Rg in nm (--rg-nm) is always needed.
  */
 import type { Command } from 'commander';
-import { join } from 'node:path';
-import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { InputError, asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { action, numberFlag } from '../run-command.js';
+import { claimOut, withOutput } from '../run-output.js';
 import type { FilmFitFlags } from './film-fit-command.js';
 import { numberList, sldFlag } from './film-flags.js';
 
@@ -41,6 +40,32 @@ async function computeCurve(flags: ReflectivityFlags): Promise<void> {
   const ns = need('--ns', numberFlag('--ns', flags.ns ?? '100'), (v) => Number.isInteger(v) && v >= 4, 'an integer ≥ 4');
   const wallRange = need('--wall-range', numberFlag('--wall-range', flags.wallRange ?? '0.25'), (v) => v > 0 && v <= 5, 'the surface-field range in Rg, in (0, 5]');
   const q = Float64Array.from({ length: points }, (_, i) => q0 + ((q1 - q0) * i) / (points - 1));
+  const out = claimOut(flags, 'reflectivity');
+  await withOutput(out, () => writeCurve(flags, { f, chiN, rgNm, H, bottom, top, sld, width, dq, bg, q0, q1, points, nx, ns, wallRange, q }, out));
+}
+
+interface CurveSettings {
+  f: number;
+  chiN: number;
+  rgNm: number;
+  H: number;
+  bottom: number;
+  top: number;
+  sld: { A: number; B: number; substrate: number; medium: number };
+  width: number;
+  dq: number;
+  bg: number;
+  q0: number;
+  q1: number;
+  points: number;
+  nx: number;
+  ns: number;
+  wallRange: number;
+  q: Float64Array;
+}
+
+async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: ReturnType<typeof claimOut>): Promise<void> {
+  const { f, chiN, rgNm, H, bottom, top, sld, width, dq, bg, q0, q1, points, nx, ns, wallRange, q } = c;
   const { filmReflectivity } = await import('../../reflectivity/film-reflectivity.js');
   const { SLD_UNIT } = await import('../../inverse/film/film-fit-run.js');
   let r;
@@ -64,13 +89,12 @@ async function computeCurve(flags: ReflectivityFlags): Promise<void> {
   };
   const curve = ['Q,R,RQ4', ...Array.from(q, (v, i) => `${v},${r.R[i]},${r.R[i] * v ** 4}`)].join('\n') + '\n';
   const profile = ['z_nm,sld', ...Array.from(r.z, (v, i) => `${v},${r.sld[i] / SLD_UNIT}`)].join('\n') + '\n';
-  if (flags.out) {
-    const files = { 'reflectivity.csv': curve, 'sld-profile.csv': profile, 'result.json': `${JSON.stringify(result, null, 1)}\n` };
-    writeDirectoryAtomic(flags.out, files);
-    if (!flags.quiet) process.stderr.write(`reflectivity: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
+  if (out) {
+    const written = out.write({ 'reflectivity.csv': curve, 'sld-profile.csv': profile, 'result.json': `${JSON.stringify(result, null, 1)}\n` });
+    if (!flags.quiet) process.stderr.write(`reflectivity: wrote ${written.join(', ')}\n`);
   }
   if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
-  else if (!flags.out) process.stdout.write(curve);
+  else if (!out) process.stdout.write(curve);
   else process.stdout.write(`film ${H} nm (${(H / rgNm).toPrecision(5)} Rg), χN = ${chiN}: layers ${result.layers}, F = ${sol.freeEnergy.toFixed(5)} kT per chain; R(Q) at ${points} points from ${q0} to ${q1} Å⁻¹ (dQ/Q ${dq} FWHM, ${r.slices} slices) in ${r.seconds.toFixed(1)} s\n`);
 }
 

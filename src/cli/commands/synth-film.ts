@@ -1,10 +1,11 @@
 /** `synth --film`: a synthetic film measurement (φA or SLD depth profile, or R(Q)) and its truth. */
-import { writeFileAtomic } from '../../io/atomic-write.js';
 import { InputError, asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { filmSynthFiles, synthesizeFilm } from '../../inverse/film/film-synth.js';
 import type { FilmSynthSettings } from '../../inverse/film/film-synth.js';
 import { numberFlag } from '../run-command.js';
+import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
+import { claimOut, withOutput } from '../run-output.js';
 import { numberList, sldFlag } from './film-flags.js';
 
 export interface SynthFilmFlags {
@@ -26,6 +27,8 @@ export interface SynthFilmFlags {
   ns: string;
   rgNm?: string;
   out?: string;
+  overwrite?: boolean;
+  quiet?: boolean;
 }
 
 function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
@@ -34,7 +37,7 @@ function need(name: string, v: number | undefined, ok: (v: number) => boolean, a
   return v;
 }
 
-export function synthFilmCommand(flags: SynthFilmFlags): void {
+export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
   const kinds = ['phi', 'sld', 'reflectivity'] as const;
   const kind = kinds.find((k) => k === flags.measure);
   if (!kind) throw new InputError(`--measure: got ${JSON.stringify(flags.measure)}; allowed: phi, sld, reflectivity`);
@@ -77,18 +80,20 @@ export function synthFilmCommand(flags: SynthFilmFlags): void {
     nx,
     ns,
   };
-  let files;
-  try {
-    const d = synthesizeFilm(settings);
-    files = filmSynthFiles(settings, d, rgNm);
-  } catch (e) {
-    throw asInputError(e, 'flags');
-  }
-  if (!flags.out) {
-    process.stdout.write(files.csv);
-    return;
-  }
-  writeFileAtomic(`${flags.out}.truth.json`, `${JSON.stringify({ ...files.truth, provenance: provenance() }, null, 1)}\n`);
-  writeFileAtomic(flags.out, files.csv);
-  process.stderr.write(`synth: wrote ${flags.out} and ${flags.out}.truth.json (film ${thickness} Rg, χN = ${chiN}, layers ${files.truth.layers})\n`);
+  const out = claimOut(flags, 'synth');
+  await withOutput(out, () => {
+    let files;
+    try {
+      const d = synthesizeFilm(settings);
+      files = filmSynthFiles(settings, d, rgNm);
+    } catch (e) {
+      throw asInputError(e, 'flags');
+    }
+    if (!out) {
+      process.stdout.write(files.csv);
+      return;
+    }
+    const written = out.write({ [SYNTH_PROFILE]: files.csv, [SYNTH_TRUTH]: `${JSON.stringify({ ...files.truth, provenance: provenance() }, null, 1)}\n` });
+    if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (film ${thickness} Rg, χN = ${chiN}, layers ${files.truth.layers})\n`);
+  });
 }

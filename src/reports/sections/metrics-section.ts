@@ -1,4 +1,4 @@
-/** Last page: the numbers behind the figures, and the model's assumptions with their caution. */
+/** Last page: the numbers behind the figures, and the model's assumptions (physics/model-assumptions.ts). */
 import { buildChain } from '../../physics/chain.js';
 import type { ScftSolution } from '../../physics/result.js';
 import type { ReportPage } from '../document.js';
@@ -6,6 +6,7 @@ import { sci, sig } from '../format.js';
 import type { MetricRow, ReportInput } from '../report-inputs.js';
 import { difference, exchangeField, maxAbs, relativeL2 } from '../solution-differences.js';
 import type { ReportSection } from './section.js';
+import { modelAssumptions } from '../../physics/model-assumptions.js';
 
 function solutionRows(sol: ScftSolution, who: string): MetricRow[] {
   const excess = Number.isFinite(sol.freeEnergyDisordered) ? sol.freeEnergy - sol.freeEnergyDisordered : undefined;
@@ -30,13 +31,6 @@ function comparisonRows(ref: ScftSolution, net: ScftSolution, label: string): Me
   ];
 }
 
-export const ASSUMPTIONS = [
-  'Mean-field theory: composition fluctuations are neglected, so the order–disorder transition and the behaviour near it are the mean-field ones.',
-  'Incompressible melt: φA + φB = 1 at every point; the pressure-like field only enforces this.',
-  'Gaussian (continuous, flexible) chains with one statistical segment length per species; no finite extensibility, no chain stiffness.',
-  'One-dimensional lamellae in a periodic cell: other morphologies (cylinders, gyroid, spheres) are not considered and may be more stable.',
-  'Caution: a χN fitted to data inherits these assumptions. It is the value that makes this model reproduce the data, not a model-free measurement of χ; fluctuation corrections in particular shift the apparent χN near the transition.',
-];
 
 function metricsPage(input: ReportInput): ReportPage {
   const rows: MetricRow[] = [];
@@ -55,7 +49,7 @@ function metricsPage(input: ReportInput): ReportPage {
     blocks: [
       { type: 'table', header: ['quantity', 'value', 'unit'], widths: [4.2, 3.2, 1.4], rows: rows.map((r) => [r.name, r.value, r.unit ?? '']) },
       { type: 'text', lines: ['Model assumptions'], style: 'heading' },
-      { type: 'text', lines: ASSUMPTIONS.map((a) => `• ${a}`) },
+      { type: 'text', lines: modelAssumptions(ref?.cell.kind ?? 'periodic', true).map((a) => `• ${a[0].toUpperCase()}${a.slice(1)}.`) },
     ],
   };
 }
