@@ -25,6 +25,7 @@ export const COMMAND_SPECS: Record<string, () => Promise<Register>> = {
   'fit-bragg': async () => (await import('./commands/bragg.js')).registerBragg,
   'fit-spacing': async () => (await import('./commands/fit-spacing.js')).registerFitSpacing,
   schema: async () => (await import('./commands/schema.js')).registerSchema,
+  reflectivity: async () => (await import('./commands/reflectivity.js')).registerReflectivity,
 };
 
 /** The registration functions needed for these arguments: the named command's, or all (help, unknown). */

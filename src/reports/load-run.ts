@@ -70,6 +70,42 @@ const filmExtrasSchema = z
     runSeconds: z.number().optional(),
   })
   .passthrough();
+/** The parts of a film-fit result (inverse/film/film-fit-run.ts) that the report draws. */
+const levelSchema = z.object({ lo: z.number(), hi: z.number(), deltaChi2: z.number() }).passthrough();
+const filmFitFileSchema = z
+  .object({
+    kind: z.literal('film-fit-result'),
+    input: z.object({ dataKind: z.enum(['phi', 'sld', 'reflectivity']) }).passthrough(),
+    chiN: z.number(),
+    affinity: z.object({ bottom: z.number(), top: z.number() }).passthrough(),
+    intervals: z.record(z.string(), z.object({ '95%': levelSchema }).passthrough()),
+    profiles: z.record(z.string(), z.array(z.object({ value: z.number(), deltaChi2: z.number() }))),
+    layers: z.string(),
+    reducedChi2: z.number(),
+    warnings: z.array(z.string()),
+    curve: z.object({ xUnits: z.string(), yUnits: z.string(), x: z.array(z.number()), y: z.array(z.number()), sigma: z.array(z.number()), fit: z.array(z.number()) }),
+  })
+  .passthrough();
+
+function filmFitInput(f: z.infer<typeof filmFitFileSchema>): ReportInput['filmFit'] {
+  const c = f.curve;
+  const kind = f.input.dataKind;
+  const best: Record<string, number> = { chiN: f.chiN, bottom: f.affinity.bottom, top: f.affinity.top };
+  const unit: Record<string, string> = { chiN: '–', bottom: 'kT per chain × Rg', top: 'kT per chain × Rg' };
+  const label: Record<string, string> = { chiN: 'χN', bottom: 'bottom-wall affinity', top: 'top-wall affinity' };
+  return {
+    dataKind: kind,
+    xLabel: kind === 'reflectivity' ? 'Q (Å⁻¹)' : `depth (${c.xUnits})`,
+    yLabel: kind === 'reflectivity' ? 'R (–)' : kind === 'sld' ? 'SLD (10⁻⁶ Å⁻²)' : 'φA (–)',
+    data: c.x.map((x, i) => ({ x, value: c.y[i], sigma: c.sigma[i], fit: c.fit[i] })),
+    parameters: Object.keys(best).map((k) => ({ name: label[k], value: best[k], lower: f.intervals[k]?.['95%'].lo, upper: f.intervals[k]?.['95%'].hi, unit: unit[k] })),
+    profiles: Object.entries(f.profiles).map(([k, pts]) => ({ name: label[k] ?? k, points: pts, threshold: f.intervals[k]?.['95%'].deltaChi2 ?? 3.841 })),
+    layers: f.layers,
+    reducedChi2: f.reducedChi2,
+    warnings: f.warnings,
+  };
+}
+
 
 interface LoadedSolution {
   file: string;
@@ -197,6 +233,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   let invConfig: unknown;
   let sweep: ReturnType<typeof readSweep> | undefined;
   let sweepProvenance: z.infer<typeof provenanceSchema> | undefined;
+  let filmFit: ReportInput['filmFit'];
   let surrogate: ReportInput['surrogate'];
   for (const name of names) {
     const path = join(dir, name);
@@ -214,6 +251,10 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
         const cl = ests.classical;
         training = { records: [], phases: [], wallClock: false, chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };
       }
+      read.push(path);
+    } else if (kind === 'film-fit-result') {
+      filmFit = filmFitInput(parseOrThrow(filmFitFileSchema, raw, path));
+      read.push(path);
     } else if (kind === 'checkpoint') {
       training = trainingRecords((raw as Record<string, unknown>).history, path);
     } else if (kind === 'sweep-table' || kind === 'sweep-shard') {
@@ -282,6 +323,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     training,
     networkMetrics,
     inversion: inv?.inversion,
+    filmFit,
     surrogate,
     film,
     periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,

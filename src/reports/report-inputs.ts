@@ -142,6 +142,23 @@ export interface InversionInput {
   estimators: EstimatorRow[];
 }
 
+/** A film fit (inverse/film/film-fit-run.ts): the data against the model, and the profile likelihoods. */
+export interface FilmFitInput {
+  dataKind: 'phi' | 'sld' | 'reflectivity';
+  /** Axis label of x, with its unit (depth in nm or Rg, or Q in Å⁻¹). */
+  xLabel: string;
+  /** Axis label of the measured quantity, with its unit. */
+  yLabel: string;
+  data: { x: number; value: number; sigma: number; fit: number }[];
+  /** Best-fit values and the 95 % intervals of the parameters that have one. */
+  parameters: { name: string; value: number; lower?: number; upper?: number; unit: string }[];
+  /** Δχ² against each interval parameter, minimised over the others. */
+  profiles: { name: string; points: { value: number; deltaChi2: number }[]; threshold: number }[];
+  layers: string;
+  reducedChi2: number;
+  warnings: string[];
+}
+
 /** A surrogate over a parameter range: its error map at held-out points, period model and training rounds. */
 export interface SurrogateInput {
   /** The varying parameters in order (1 to 3), with the trained range and anchor count. */
@@ -248,6 +265,7 @@ export interface ReportInput {
   periodSearch?: PeriodSearchInput;
   training?: TrainingInput;
   inversion?: InversionInput;
+  filmFit?: FilmFitInput;
   surrogate?: SurrogateInput;
   networkMetrics?: NetworkMetricsInput;
   sweep?: SweepInput;

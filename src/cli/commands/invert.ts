@@ -48,6 +48,13 @@ interface InvertFlags {
   backend?: string;
   report?: boolean;
   quiet?: boolean;
+  film?: string;
+  thicknessStart?: string;
+  affinity?: string;
+  affinityRange?: string;
+  sld?: string;
+  wallRange?: string;
+  intervals?: string;
 }
 
 function chiNRangeFlag(value: string | undefined): [number, number] | undefined {
@@ -136,8 +143,21 @@ export function registerInvert(program: Command): void {
     .option('--overwrite', 'replace a previous invert output in --out (only the files mesofield wrote there)')
     .option('--report', 'also write a PDF/PNG report into <out>/report (needs --out)')
     .option('--quiet', 'no progress on stderr')
+    .option('--film <H|fit>', 'the profile is a depth profile through a film of thickness H (units of x), or "fit"; CSV x,phiA[,sigma] or x,sld[,sigma]')
+    .option('--thickness-start <H>', 'film: starting thickness (units of x) when --film fit')
+    .option('--affinity <b,t>', 'film: starting wall affinities for A, bottom and top (default: both signs tried)')
+    .option('--affinity-range <lo,hi>', 'film: affinity search range (default -5,5)')
+    .option('--sld <a,b,sub,med>', 'film, SLD profile: SLDs of A, B, the substrate and the medium, 10⁻⁶ Å⁻²')
+    .option('--wall-range <l>', "film: range of the walls' surface field, Rg (default 0.25)")
+    .option('--intervals <list>', 'film: parameters with profile-likelihood intervals: chiN (default), bottom, top (slow), comma-separated, or none')
     .action(
       action(async (profilePath: string, configPath: string | undefined, flags: InvertFlags) => {
+        if (flags.film !== undefined) {
+          // A film's depth profile: the film fit (its own config kind, "film-fit").
+          const { buildFilmFitConfig, runFilmFitCommand } = await import('./film-fit-command.js');
+          const config = buildFilmFitConfig(configPath, { ...flags, resolution: flags.resolution });
+          return runFilmFitCommand('invert', profilePath, config, flags);
+        }
         if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const { config, sources } = buildInvertConfig(configPath, flags);
         // Checked now, not when the network estimator starts: a typo must not wait for (or hide behind) a classical fit.

@@ -23,6 +23,13 @@ interface SynthFlags {
   out?: string;
   overwrite?: boolean;
   quiet?: boolean;
+  film?: string;
+  affinity?: string;
+  measure?: string;
+  sld?: string;
+  dqOverQ?: string;
+  qRange?: string;
+  wallRange?: string;
 }
 
 function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
@@ -50,8 +57,19 @@ export function registerSynth(program: Command): void {
     .option('--out <dir>', `write ${SYNTH_PROFILE} and its truth ${SYNTH_TRUTH} into this directory (default: CSV on stdout)`)
     .option('--overwrite', 'replace a previous synth output in --out (only the files mesofield wrote there)')
     .option('--quiet', 'no messages on stderr')
+    .option('--film <H>', 'a film of thickness H (Rg) between walls instead of a bulk lamella (then --offset is the data position of the bottom wall)')
+    .option('--affinity <b,t>', 'film: wall affinities for A, bottom and top, kT per chain × Rg', '0,0')
+    .option('--measure <kind>', 'film: phi (composition depth profile) | sld (SLD depth profile) | reflectivity (Q,R,dR)', 'phi')
+    .option('--sld <a,b,sub,med>', 'film: SLDs of A, B, the substrate and the medium, 10⁻⁶ Å⁻² (sld, reflectivity)')
+    .option('--dq-over-q <r>', 'film reflectivity: Gaussian Q resolution, FWHM relative to Q', '0.05')
+    .option('--q-range <lo,hi>', 'film reflectivity: Q range in Å⁻¹', '0.008,0.2')
+    .option('--wall-range <l>', "film: range of the walls' surface field, Rg", '0.25')
     .action(
       action(async (flags: SynthFlags) => {
+        if (flags.film !== undefined) {
+          const { synthFilmCommand } = await import('./synth-film.js');
+          return synthFilmCommand(flags);
+        }
         const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
         const chiN = need('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 500, 'a number in (0, 500]');
         const points = need('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
