@@ -24,6 +24,8 @@ export const FLAG_CONFIG_PATHS = {
     '--tolerance': 'solver.tolerance',
     '--start': 'solver.start',
     '--propagators': 'output.propagators',
+    '--film': 'cell.thickness',
+    '--affinity': 'cell.walls',
   },
   invert: {
     '--f': 'system.chain.f',

@@ -1,15 +1,16 @@
 /** `mesofield solve`: one spectral reference solve, from a config file and/or flags. */
 import type { Command } from 'commander';
 import { join } from 'node:path';
-import { RunFailure, asInputError } from '../../io/errors.js';
+import { InputError, RunFailure, asInputError } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
 import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { provenance } from '../../io/versions.js';
+import { filmSummary, filmSummaryText } from '../../spectral/film-summary.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
-import { action } from '../run-command.js';
+import { action, parseDecimal } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
 import { Progress } from '../progress.js';
 import { loadJsonFile } from '../../io/load-json.js';
@@ -29,6 +30,8 @@ interface SolveFlags {
   overwrite?: boolean;
   propagators?: boolean;
   quiet?: boolean;
+  film?: string;
+  affinity?: string;
 }
 
 /** Flags are applied on top of the config file (or of a symmetric diblock at χN = 15); messages name the flag or the file's key. */
@@ -46,6 +49,19 @@ export function buildSolveConfig(configPath: string | undefined, flags: SolveFla
   input.number('--chiN', flags.chiN);
   input.period('--period', flags.period);
   input.number('--periods', flags.periods);
+  // A film: --film H (Rg) makes the cell a film; --affinity B,T sets the walls' affinities for A.
+  if (flags.film !== undefined) {
+    input.number('--film', flags.film);
+    (input.get('cell') as Record<string, unknown>).kind = 'film';
+  }
+  if (flags.affinity !== undefined) {
+    const parts = flags.affinity.split(',');
+    if (parts.length !== 2) throw new InputError(`--affinity: got "${flags.affinity}"; expected two numbers BOTTOM,TOP (kT per chain, > 0 attracts A), e.g. 1,-0.5`);
+    const [bottom, top] = parts.map((p) => parseDecimal('--affinity', p));
+    for (const v of [bottom, top]) if (typeof v === 'string') throw new InputError(v);
+    const walls = (input.get('cell.walls') as Record<string, unknown> | undefined) ?? {};
+    input.set('--affinity', { ...walls, bottom: { affinity: bottom }, top: { affinity: top } });
+  }
   input.number('--nx', flags.nx);
   input.number('--ns', flags.ns);
   input.number('--tolerance', flags.tolerance);
@@ -64,6 +80,8 @@ export function registerSolve(program: Command): void {
     .option('--chiN <x>', 'χN')
     .option('--period <L|equilibrium>', 'lamellar period in Rg, or "equilibrium" for the stress-free period')
     .option('--periods <n>', 'lamellar periods in the cell')
+    .option('--film <H>', 'a film of thickness H (Rg) between two walls instead of a periodic cell')
+    .option('--affinity <bottom,top>', "the film walls' affinities for A (kT per chain; > 0 attracts A, < 0 attracts B, 0 neutral)")
     .option('--nx <n>', 'grid points (power of two)')
     .option('--ns <n>', 'contour steps over the chain (even per block)')
     .option('--tolerance <t>', 'stop when max |w_out − w_in| < t (kT)')
@@ -118,7 +136,10 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
       if (!flags.quiet) process.stderr.write(`solve: wrote ${written.join(', ')}\n`);
     }
   }
-  if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
+  if (ref.film) {
+    const film = filmSummary(ref);
+    process.stdout.write(flags.json ? `${JSON.stringify(film, null, 2)}\n` : `${filmSummaryText(film, summary.chain, summary.chiN).join('\n')}\n`);
+  } else if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
   else {
     const lines = [
       `chain ${summary.chain}, χN = ${summary.chiN}, phase: ${summary.phase}${summary.converged ? '' : ' (NOT CONVERGED)'}`,
