@@ -9,6 +9,8 @@ import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { provenance } from '../../io/versions.js';
 import { filmSummary, filmSummaryText } from '../../spectral/film-summary.js';
+import { filmScanText, parseScanRange, runFilmScan } from '../../spectral/film-scan-run.js';
+import type { FilmScanResult } from '../../spectral/film-scan-run.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
 import { action, parseDecimal } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
@@ -32,6 +34,7 @@ interface SolveFlags {
   quiet?: boolean;
   film?: string;
   affinity?: string;
+  thicknessScan?: string;
 }
 
 /** Flags are applied on top of the config file (or of a symmetric diblock at χN = 15); messages name the flag or the file's key. */
@@ -81,6 +84,7 @@ export function registerSolve(program: Command): void {
     .option('--period <L|equilibrium>', 'lamellar period in Rg, or "equilibrium" for the stress-free period')
     .option('--periods <n>', 'lamellar periods in the cell')
     .option('--film <H>', 'a film of thickness H (Rg) between two walls instead of a periodic cell')
+    .option('--thickness-scan <from:to:points>', 'films: also F(H) over this range of thicknesses (Rg), its minima and the terrace prediction for the film\'s thickness')
     .option('--affinity <bottom,top>', "the film walls' affinities for A (kT per chain; > 0 attracts A, < 0 attracts B, 0 neutral)")
     .option('--nx <n>', 'grid points (power of two)')
     .option('--ns <n>', 'contour steps over the chain (even per block)')
@@ -118,6 +122,13 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
     throw asInputError(e, configPath ?? 'flags');
   }
   const sol = ref.solution;
+  let scan: FilmScanResult | undefined;
+  if (flags.thicknessScan !== undefined) {
+    if (config.cell.kind !== 'film') throw new InputError('--thickness-scan: only for a film (give --film H, or a config with cell.kind "film")');
+    const range = parseScanRange('--thickness-scan', flags.thicknessScan);
+    const t1 = performance.now();
+    scan = runFilmScan({ system: config.system, walls: config.cell.walls, ...range, nx: config.cell.nx, ns: config.cell.ns, meanThickness: config.cell.thickness, options: config.solver, onPoint: (p, done, total) => progress.update(`thickness scan: ${done}/${total}, H = ${p.thickness.toPrecision(5)} Rg, F = ${p.freeEnergy.toPrecision(9)} kT (${p.layers || 'no layers'}), ${(((performance.now() - t1) / 1000 / done) * (total - done)).toFixed(0)} s left`) });
+  }
   progress.done(`${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`);
   let failedWhere = '';
   const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
@@ -125,7 +136,7 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
     const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
     const files: Record<string, string> = {
       // runSeconds: the wall time of the whole solve (period search included), for the report's title page.
-      'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}), ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}), runSeconds: (performance.now() - t0) / 1000 }, null, 1)}\n`,
+      'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}), ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}), ...(scan ? { thicknessScan: scan } : {}), runSeconds: (performance.now() - t0) / 1000 }, null, 1)}\n`,
       'profile.csv': solutionGridCsv(sol),
     };
     const prop = propagatorCsv(sol);
@@ -138,7 +149,7 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
   }
   if (ref.film) {
     const film = filmSummary(ref);
-    process.stdout.write(flags.json ? `${JSON.stringify(film, null, 2)}\n` : `${filmSummaryText(film, summary.chain, summary.chiN).join('\n')}\n`);
+    process.stdout.write(flags.json ? `${JSON.stringify(scan ? { ...film, thicknessScan: scan } : film, null, 2)}\n` : `${[...filmSummaryText(film, summary.chain, summary.chiN), ...(scan ? filmScanText(scan) : [])].join('\n')}\n`);
   } else if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
   else {
     const lines = [
