@@ -24,18 +24,47 @@ export function groupedNormalEquations(n: number, groups: readonly ResidualGroup
     const k = grp.columns.length;
     const m = grp.r.length;
     if (grp.J.length !== m * k) throw new RangeError(`group has ${grp.J.length} Jacobian entries, expected ${m}·${k}`);
-    const G = new Float64Array(k * k);
-    const gl = new Float64Array(k);
+    // Columns of J as rows of Jᵀ (k × m), so each entry of G is a dot product kept in registers.
+    const T = new Float64Array(k * m);
     for (let i = 0; i < m; i++) {
       const o = i * k;
-      const ri = grp.r[i];
-      sumSq += ri * ri;
-      for (let a = 0; a < k; a++) {
-        const ja = grp.J[o + a];
-        if (ja === 0) continue;
-        gl[a] += ja * ri;
-        const ra = a * k;
-        for (let b = 0; b <= a; b++) G[ra + b] += ja * grp.J[o + b];
+      sumSq += grp.r[i] * grp.r[i];
+      for (let a = 0; a < k; a++) T[a * m + i] = grp.J[o + a];
+    }
+    const G = new Float64Array(k * k);
+    const gl = new Float64Array(k);
+    for (let a = 0; a < k; a++) {
+      const ta = a * m;
+      let s = 0;
+      for (let i = 0; i < m; i++) s += T[ta + i] * grp.r[i];
+      gl[a] = s;
+      let b = 0;
+      for (; b + 3 <= a; b += 4) {
+        const t0 = b * m;
+        const t1 = t0 + m;
+        const t2 = t1 + m;
+        const t3 = t2 + m;
+        let s0 = 0;
+        let s1 = 0;
+        let s2 = 0;
+        let s3 = 0;
+        for (let i = 0; i < m; i++) {
+          const v = T[ta + i];
+          s0 += v * T[t0 + i];
+          s1 += v * T[t1 + i];
+          s2 += v * T[t2 + i];
+          s3 += v * T[t3 + i];
+        }
+        G[a * k + b] = s0;
+        G[a * k + b + 1] = s1;
+        G[a * k + b + 2] = s2;
+        G[a * k + b + 3] = s3;
+      }
+      for (; b <= a; b++) {
+        const tb = b * m;
+        let s0 = 0;
+        for (let i = 0; i < m; i++) s0 += T[ta + i] * T[tb + i];
+        G[a * k + b] = s0;
       }
     }
     const c = grp.columns;

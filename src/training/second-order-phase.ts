@@ -6,8 +6,12 @@
  * jointly with the propagators. The normal matrix is assembled from the row groups of the
  * Jacobian (numerics/grouped-normal-equations.ts) and factorised by Cholesky.
  *
- * The networks' tfjs variables (float32) are written only when the state is evaluated or
- * kept; the iteration itself runs on its float64 copy of the parameters.
+ * Strategy 'alternating' (like the L-BFGS cycles of the train loop): LM on each propagator's
+ * MDE in the current fields (q and q† independent, so one normal matrix each), then the
+ * field network refitted to the SCFT update (network/field-update.ts), repeated;
+ * 'joint': LM on everything at once (one normal matrix over all parameters).
+ * The networks' tfjs variables (float32) are written only when the state is evaluated,
+ * refitted or kept; the iteration itself runs on its float64 copy of the parameters.
  * Loss = Σ r² = the weighted total of losses/terms.ts on the phase's grid (the junction nodes
  * count once per block they bound).
  */
@@ -15,6 +19,7 @@ import type { SystemSpec } from '../physics/chain-schema.js';
 import type { ScftNetworks } from '../network/scft-networks.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
+import type { ResidualPart } from '../network/least-squares/scft-residual-system.js';
 import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
 import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
@@ -30,6 +35,13 @@ export interface SecondOrderSettings {
   targetPhiError?: number;
   /** Stop once the loss is below this. */
   lossTolerance: number;
+  /**
+   * 'alternating': cycles of (field step, then LM on each propagator's MDE in the current
+   * fields: per-propagator normal matrices, the Jacobian being block-diagonal between them);
+   * 'joint': LM on the whole system with the field network among the parameters.
+   */
+  strategy: 'alternating' | 'joint';
+  cycles: number;
 }
 
 export interface SecondOrderProgress {
@@ -59,6 +71,8 @@ export interface SecondOrderHooks {
   onProgress?: (p: SecondOrderProgress) => void;
   /** Every iteration, in order (for the run's history). */
   onRecord?: (r: SecondOrderRecord) => void;
+  /** The field step between alternating cycles (the run's FieldUpdater), on the networks' tfjs variables. */
+  fieldStep?: () => void;
 }
 
 export interface SecondOrderResult {
@@ -76,67 +90,103 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
   const t0 = performance.now();
   const seconds = () => (performance.now() - t0) / 1000;
   const sys = new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.nodesPerBlock }, weights);
-  const x0 = nets.parameters.flatten();
-  const start = sys.evaluate(x0, false);
+  let theta = nets.parameters.flatten();
+  const lossOf = (x: Float64Array) => sys.evaluate(x, false);
   const evaluated = Boolean(hooks.evaluate);
-  let best = { iteration: 0, loss: 2 * start.cost, phiError: evaluated ? hooks.evaluate!() : undefined, x: x0 };
+  const target = settings.targetPhiError;
+  let best = { iteration: 0, loss: 2 * lossOf(theta).cost, phiError: evaluated ? hooks.evaluate!() : undefined, x: theta };
   let stopped: SecondOrderResult['reason'] | null = null;
   let reachedTarget: SecondOrderResult['reachedTarget'];
-  const target = settings.targetPhiError;
-  if (best.phiError !== undefined && target !== undefined && best.phiError < target) reachedTarget = { iteration: 0, seconds: 0 };
-  const result = reachedTarget
-    ? { x: x0, cost: start.cost, iterations: 0, reason: 'callback' as LmStop, mu: Number.NaN }
-    : levenbergMarquardt(
-        {
-          size: sys.size,
-          cost: (x) => sys.cost(x),
-          linearise: (x) => {
-            const e = sys.evaluate(x, true);
-            const { A, g } = groupedNormalEquations(sys.size, e.groups!);
-            return { kind: 'normal', cost: e.cost, A, g };
-          },
+  if (best.phiError !== undefined && target !== undefined && best.phiError < target) {
+    reachedTarget = { iteration: 0, seconds: 0 };
+    stopped = 'target-reached';
+  }
+  let done = 0;
+  let lastLoss = best.loss;
+  let lastReason: LmStop = 'maxIterations';
+
+  /** The common bookkeeping of every LM iteration (any part): history, evaluation, best state, stop. */
+  const record = (mu: number, full: Float64Array): boolean => {
+    done++;
+    const last = done === settings.iterations;
+    let phiError: number | undefined;
+    if (evaluated && (last || (settings.evaluateEvery > 0 && done % settings.evaluateEvery === 0))) {
+      nets.parameters.unflatten(full);
+      phiError = hooks.evaluate!();
+    }
+    const e = lossOf(full);
+    const loss = 2 * e.cost;
+    lastLoss = loss;
+    const better = evaluated ? phiError !== undefined && !(phiError >= (best.phiError ?? Infinity)) : loss < best.loss;
+    if (better) best = { iteration: done, loss, phiError, x: Float64Array.from(full) };
+    const t = seconds();
+    hooks.onRecord?.({ iteration: done, loss, terms: e.terms, mu, seconds: t, ...(phiError !== undefined ? { phiError } : {}) });
+    const rate = done / Math.max(1e-9, t);
+    hooks.onProgress?.({ iteration: done, iterations: settings.iterations, loss, mu, rate, secondsLeft: (settings.iterations - done) / rate, ...(phiError !== undefined ? { phiError } : {}) });
+    if (phiError !== undefined && target !== undefined && phiError < target) {
+      reachedTarget = { iteration: done, seconds: t };
+      stopped = 'target-reached';
+      return false;
+    }
+    if (hooks.shouldStop?.()) {
+      stopped = 'interrupted';
+      return false;
+    }
+    return loss > settings.lossTolerance;
+  };
+
+  /** LM on one part: the whole system, or one propagator's columns in the current fields. */
+  const solvePart = (part: ResidualPart, iterations: number) => {
+    const { first, count } = part === 'all' ? { first: 0, count: sys.size } : sys.columnsOf(part);
+    const embed = (xs: Float64Array) => {
+      if (part === 'all') return xs;
+      const full = Float64Array.from(theta);
+      full.set(xs, first);
+      return full;
+    };
+    const r = levenbergMarquardt(
+      {
+        size: count,
+        cost: (xs) => sys.evaluate(embed(xs), false, part).cost,
+        linearise: (xs) => {
+          const e = sys.evaluate(embed(xs), true, part);
+          const groups = first === 0 ? e.groups! : e.groups!.map((g) => ({ ...g, columns: g.columns.map((c) => c - first) }));
+          const { A, g } = groupedNormalEquations(count, groups);
+          return { kind: 'normal', cost: e.cost, A, g };
         },
-        x0,
-        {
-          maxIterations: settings.iterations,
-          damping: settings.damping,
-          costTolerance: settings.lossTolerance / 2,
-          onIteration: (it, x) => {
-            const last = it.iteration === settings.iterations;
-            let phiError: number | undefined;
-            if (evaluated && (last || (settings.evaluateEvery > 0 && it.iteration % settings.evaluateEvery === 0))) {
-              nets.parameters.unflatten(x);
-              phiError = hooks.evaluate!();
-            }
-            const loss = 2 * it.cost;
-            const better = evaluated ? phiError !== undefined && !(phiError >= (best.phiError ?? Infinity)) : loss < best.loss;
-            if (better) best = { iteration: it.iteration, loss, phiError, x: Float64Array.from(x) };
-            const terms = sys.evaluate(x, false).terms;
-            const t = seconds();
-            hooks.onRecord?.({ iteration: it.iteration, loss, terms, mu: it.mu, seconds: t, ...(phiError !== undefined ? { phiError } : {}) });
-            const rate = it.iteration / Math.max(1e-9, t);
-            hooks.onProgress?.({ iteration: it.iteration, iterations: settings.iterations, loss, mu: it.mu, rate, secondsLeft: (settings.iterations - it.iteration) / rate, ...(phiError !== undefined ? { phiError } : {}) });
-            if (phiError !== undefined && target !== undefined && phiError < target && !reachedTarget) {
-              reachedTarget = { iteration: it.iteration, seconds: t };
-              stopped = 'target-reached';
-              return false;
-            }
-            if (hooks.shouldStop?.()) {
-              stopped = 'interrupted';
-              return false;
-            }
-            return true;
-          },
-        },
-      );
-  // The kept state: with no evaluation, the lowest loss seen (the last accepted iterate is that one).
-  const keep = evaluated ? best.x : result.x;
-  if (!evaluated) best = { iteration: result.iterations, loss: 2 * result.cost, phiError: undefined, x: result.x };
-  nets.parameters.unflatten(keep);
+      },
+      theta.slice(first, first + count),
+      { maxIterations: iterations, damping: settings.damping, onIteration: (it, xs) => record(it.mu, embed(xs)) },
+    );
+    theta = embed(r.x);
+    lastReason = r.reason;
+  };
+
+  if (!stopped) {
+    if (settings.strategy === 'joint') solvePart('all', settings.iterations);
+    else {
+      const sides: ResidualPart[] = nets.shared ? ['q'] : ['q', 'qDagger'];
+      const perCycle = Math.max(1, Math.ceil(settings.iterations / (settings.cycles * sides.length)));
+      for (let c = 0; c < settings.cycles && !stopped && done < settings.iterations; c++) {
+        if (c > 0 && hooks.fieldStep && nets.field) {
+          nets.parameters.unflatten(theta);
+          hooks.fieldStep();
+          theta = nets.parameters.flatten();
+        }
+        for (const side of sides) {
+          if (stopped || done >= settings.iterations) break;
+          solvePart(side, Math.min(perCycle, settings.iterations - done));
+        }
+      }
+    }
+  }
+  // The kept state: the lowest reference error measured, or with no evaluation the last iterate.
+  if (!evaluated) best = { iteration: done, loss: lastLoss, phiError: undefined, x: theta };
+  nets.parameters.unflatten(best.x);
   return {
-    iterations: result.iterations,
-    loss: 2 * result.cost,
-    reason: stopped ?? (reachedTarget ? 'target-reached' : result.reason),
+    iterations: done,
+    loss: lastLoss,
+    reason: stopped ?? lastReason,
     seconds: seconds(),
     best: { iteration: best.iteration, loss: best.loss, ...(best.phiError !== undefined ? { phiError: best.phiError } : {}) },
     ...(reachedTarget ? { reachedTarget } : {}),

@@ -316,10 +316,13 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         evaluateEvery: tr.secondOrder.evaluateEvery,
         targetPhiError: tr.targetPhiError,
         lossTolerance: tr.secondOrder.lossTolerance,
+        strategy: tr.secondOrder.strategy,
+        cycles: tr.secondOrder.cycles,
       },
       {
         evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
         shouldStop: opts.shouldStop,
+        fieldStep: () => void fieldUpdater.update(),
         onProgress: opts.onSecondOrder ?? ((p) => stage(`second-order ${p.iteration}/${p.iterations}: loss ${p.loss.toExponential(3)}, μ ${p.mu.toExponential(2)}${p.phiError !== undefined ? `, φA error ${p.phiError.toExponential(3)}` : ''}`)),
         onRecord: (rec) =>
           loop.state.history.push({

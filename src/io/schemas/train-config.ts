@@ -157,6 +157,14 @@ export const trainConfigSchema = z
               .max(256)
               .refine((n) => n % 2 === 0, { message: "must be even (Simpson's rule for φ)" })
               .optional(),
+            /**
+             * 'alternating': cycles of (field-network refit to the SCFT update, then LM on each
+             * propagator's MDE in those fields, one normal matrix per propagator); 'joint': LM on
+             * the whole system with the field network's parameters among the unknowns.
+             */
+            strategy: z.enum(['alternating', 'joint']).default('alternating'),
+            /** Alternating: the iterations are split over this many cycles. */
+            cycles: z.number().int().min(1).max(100).default(4),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */
             damping: z.enum(['marquardt', 'identity']).default('marquardt'),
             /** Measure φ_A against the reference every this many iterations (0: at the end only); the best state is kept. */

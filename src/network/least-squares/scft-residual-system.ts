@@ -69,6 +69,13 @@ interface Side {
   prescribed: Float64Array[] | null;
 }
 
+/**
+ * Which part of the system an evaluation covers: everything (the field network joint), or
+ * the MDE of one propagator in the field network's current w (its parameters held fixed:
+ * the rows then touch that propagator's columns only, and q and q† are independent).
+ */
+export type ResidualPart = 'all' | 'q' | 'qDagger';
+
 export interface ResidualEvaluation {
   /** ½ Σ r²: half the weighted loss. */
   cost: number;
@@ -156,18 +163,24 @@ export class ScftResidualSystem {
     return this.evaluate(theta, false).cost;
   }
 
-  /** Residuals (cost, terms) and, when asked, the Jacobian in groups of rows. */
-  evaluate(theta: Float64Array, jacobian: boolean): ResidualEvaluation {
-    const nx = this.nx;
-    const field = this.field ? this.fieldAt(theta, jacobian) : null;
+  /** Global columns [first, first + count) of one propagator's parameters. */
+  columnsOf(side: 'q' | 'qDagger'): { first: number; count: number } {
+    const s = this.sides[side === 'q' ? 0 : 1];
+    return { first: s.first, count: s.count };
+  }
+
+  /** Residuals (cost, terms) of the part and, when asked, its Jacobian in groups of rows. */
+  evaluate(theta: Float64Array, jacobian: boolean, part: ResidualPart = 'all'): ResidualEvaluation {
+    const field = this.field ? this.fieldAt(theta, jacobian && part === 'all') : null;
     const groups: ResidualGroup[] = [];
     const mdeScale = Math.sqrt(this.weights.mde / this.mdePoints);
     let mdeSum = 0;
     const logQ: Float64Array[][] = [];
     const valueRows: (Float64Array[] | null)[] = [];
     for (const [si, side] of this.sides.entries()) {
-      const withMde = si === 0 || !this.shared;
-      const out = this.sideResiduals(theta, side, field, withMde, jacobian, mdeScale);
+      const withMde = part === 'all' ? si === 0 || !this.shared : part === side.name;
+      if (part !== 'all' && !withMde) continue;
+      const out = this.sideResiduals(theta, side, part === 'all' ? field : field && { w: field.w, dw: null }, withMde, jacobian, mdeScale, part === 'all' && field !== null);
       mdeSum += out.sumSq;
       groups.push(...out.groups);
       logQ.push(out.u);
@@ -175,13 +188,12 @@ export class ScftResidualSystem {
     }
     const terms: LossValues = { mde: mdeSum / this.mdePoints, periodicity: 0, initial: 0, incompressibility: 0, selfConsistency: 0, gauge: 0 };
     let sumSq = this.weights.mde * terms.mde;
-    if (field) {
+    if (field && part === 'all') {
       const fe = this.fieldEquations(field, logQ, valueRows, jacobian);
       Object.assign(terms, fe.terms);
       sumSq += fe.weightedSum;
       if (fe.group) groups.push(fe.group);
     }
-    void nx;
     return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups } : {}) };
   }
 
@@ -222,7 +234,7 @@ export class ScftResidualSystem {
     return buf;
   }
 
-  private sideResiduals(theta: Float64Array, side: Side, field: { w: Float64Array[]; dw: Float64Array[][] | null } | null, withMde: boolean, jacobian: boolean, mdeScale: number) {
+  private sideResiduals(theta: Float64Array, side: Side, field: { w: Float64Array[]; dw: Float64Array[][] | null } | null, withMde: boolean, jacobian: boolean, mdeScale: number, values: boolean) {
     const nx = this.nx;
     const width = this.featX.width + 1;
     const buf = { v: new Float64Array(width), dx: new Float64Array(width), dxx: new Float64Array(width), ds: new Float64Array(width) };
@@ -253,7 +265,7 @@ export class ScftResidualSystem {
     }
     const ns = side.contour.ns;
     const u = Array.from({ length: ns + 1 }, () => new Float64Array(nx));
-    const valueRows = jacobian ? Array.from({ length: (ns + 1) * nx }, () => new Float64Array(side.count)) : null;
+    const valueRows = jacobian && values ? Array.from({ length: (ns + 1) * nx }, () => new Float64Array(side.count)) : null;
     const groups: ResidualGroup[] = [];
     let sumSq = 0;
     const row = new Float64Array(this.size);
@@ -265,7 +277,8 @@ export class ScftResidualSystem {
       const D = block.diffusivity;
       const rows = (cb.steps + 1) * nx;
       const sideCols = side.upTo[p];
-      const k = this.fieldCount + sideCols;
+      const fieldCols = field?.dw ? this.fieldCount : 0;
+      const k = fieldCols + sideCols;
       const J = jacobian && withMde ? new Float64Array(rows * k) : null;
       const r = new Float64Array(withMde ? rows : 0);
       for (let i = 0; i <= cb.steps; i++) {
@@ -295,15 +308,16 @@ export class ScftResidualSystem {
             sumSq += res * res;
           }
           if (!jacobian) continue;
-          // The value row ∂u/∂θ over this side's columns (for φ).
           const lo = side.first;
-          const vr = valueRows![node * nx + j];
-          seed.fill(0);
-          seed[0] = o;
-          row.fill(0, lo, lo + sideCols);
-          piece.mlp.backward(theta, seed, row);
-          for (let q = 0; q < p; q++) axpy(row, P[q].mlp.offset, P[q].length, endGrad[q][j][0]);
-          vr.set(row.subarray(lo, lo + sideCols));
+          if (valueRows) {
+            // The value row ∂u/∂θ over this side's columns (for φ).
+            seed.fill(0);
+            seed[0] = o;
+            row.fill(0, lo, lo + sideCols);
+            piece.mlp.backward(theta, seed, row);
+            for (let q = 0; q < p; q++) axpy(row, P[q].mlp.offset, P[q].length, endGrad[q][j][0]);
+            valueRows[node * nx + j].set(row.subarray(lo, lo + sideCols));
+          }
           if (!J) continue;
           // The residual row: seeds on n_p are (v: 1, x: −2D u_x o, xx: −D o, s: o).
           seed[0] = 1;
@@ -318,19 +332,19 @@ export class ScftResidualSystem {
             axpy(row, P[q].mlp.offset, P[q].length * -D, g[2]);
           }
           const out = J.subarray(rIndex * k, (rIndex + 1) * k);
-          if (field) out.set(field.dw![speciesChannel(b)][j]);
           const sc = mdeScale;
-          for (let c = 0; c < sideCols; c++) out[this.fieldCount + c] = sc * row[lo + c];
-          if (field) for (let c = 0; c < this.fieldCount; c++) out[c] *= sc;
+          if (fieldCols > 0) {
+            const dw = field!.dw![speciesChannel(b)][j];
+            for (let c = 0; c < fieldCols; c++) out[c] = sc * dw[c];
+          }
+          for (let c = 0; c < sideCols; c++) out[fieldCols + c] = sc * row[lo + c];
         }
       }
       if (J) {
         const columns = new Int32Array(k);
-        for (let c = 0; c < this.fieldCount; c++) columns[c] = this.fieldFirst + c;
-        for (let c = 0; c < sideCols; c++) columns[this.fieldCount + c] = side.first + c;
+        for (let c = 0; c < fieldCols; c++) columns[c] = this.fieldFirst + c;
+        for (let c = 0; c < sideCols; c++) columns[fieldCols + c] = side.first + c;
         groups.push({ columns: sortedColumns(columns, J, rows), J, r });
-      } else if (withMde && jacobian === false) {
-        // cost only
       }
     });
     return { u, valueRows, groups, sumSq };
