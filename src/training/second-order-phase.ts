@@ -42,6 +42,8 @@ export interface SecondOrderSettings {
    */
   strategy: 'alternating' | 'joint';
   cycles: number;
+  /** Joint iterations after the alternating cycles (on top of `iterations`). */
+  jointIterations: number;
 }
 
 export interface SecondOrderProgress {
@@ -102,13 +104,14 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
     stopped = 'target-reached';
   }
   let done = 0;
+  const total = settings.iterations + (settings.strategy === 'alternating' ? settings.jointIterations : 0);
   let lastLoss = best.loss;
   let lastReason: LmStop = 'maxIterations';
 
   /** The common bookkeeping of every LM iteration (any part): history, evaluation, best state, stop. */
   const record = (mu: number, full: Float64Array): boolean => {
     done++;
-    const last = done === settings.iterations;
+    const last = done === total;
     let phiError: number | undefined;
     if (evaluated && (last || (settings.evaluateEvery > 0 && done % settings.evaluateEvery === 0))) {
       nets.parameters.unflatten(full);
@@ -122,7 +125,7 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
     const t = seconds();
     hooks.onRecord?.({ iteration: done, loss, terms: e.terms, mu, seconds: t, ...(phiError !== undefined ? { phiError } : {}) });
     const rate = done / Math.max(1e-9, t);
-    hooks.onProgress?.({ iteration: done, iterations: settings.iterations, loss, mu, rate, secondsLeft: (settings.iterations - done) / rate, ...(phiError !== undefined ? { phiError } : {}) });
+    hooks.onProgress?.({ iteration: done, iterations: total, loss, mu, rate, secondsLeft: (total - done) / rate, ...(phiError !== undefined ? { phiError } : {}) });
     if (phiError !== undefined && target !== undefined && phiError < target) {
       reachedTarget = { iteration: done, seconds: t };
       stopped = 'target-reached';
@@ -177,6 +180,14 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
           if (stopped || done >= settings.iterations) break;
           solvePart(side, Math.min(perCycle, settings.iterations - done));
         }
+      }
+      if (!stopped && settings.jointIterations > 0) {
+        if (hooks.fieldStep && nets.field) {
+          nets.parameters.unflatten(theta);
+          hooks.fieldStep();
+          theta = nets.parameters.flatten();
+        }
+        solvePart('all', settings.jointIterations);
       }
     }
   }

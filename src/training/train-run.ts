@@ -318,6 +318,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         lossTolerance: tr.secondOrder.lossTolerance,
         strategy: tr.secondOrder.strategy,
         cycles: tr.secondOrder.cycles,
+        jointIterations: tr.secondOrder.jointIterations,
       },
       {
         evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,

@@ -165,6 +165,8 @@ export const trainConfigSchema = z
             strategy: z.enum(['alternating', 'joint']).default('alternating'),
             /** Alternating: the iterations are split over this many cycles. */
             cycles: z.number().int().min(1).max(100).default(4),
+            /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
+            jointIterations: z.number().int().min(0).max(100000).default(0),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */
             damping: z.enum(['marquardt', 'identity']).default('marquardt'),
             /** Measure φ_A against the reference every this many iterations (0: at the end only); the best state is kept. */
