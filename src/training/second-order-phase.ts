@@ -8,7 +8,8 @@
  *
  * Strategy 'alternating' (like the L-BFGS cycles of the train loop): LM on each propagator's
  * MDE in the current fields (q and q† independent, so one normal matrix each), then the
- * field network refitted to the SCFT update (network/field-update.ts), repeated;
+ * field network fitted by LM to the simple-mixing SCFT update of the networks' own φ
+ * (physics/scft-equations.ts), in float64, repeated;
  * 'joint': LM on everything at once (one normal matrix over all parameters).
  * The networks' tfjs variables (float32) are written only when the state is evaluated,
  * refitted or kept; the iteration itself runs on its float64 copy of the parameters.
@@ -23,6 +24,12 @@ import type { ResidualPart } from '../network/least-squares/scft-residual-system
 import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
 import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
+import { mixedFieldUpdate } from '../physics/scft-equations.js';
+import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+
+/** LM iterations of each field-network fit (a small least-squares problem over the field network alone). */
+const FIELD_FIT_ITERATIONS = 20;
 
 export interface SecondOrderSettings {
   iterations: number;
@@ -44,6 +51,10 @@ export interface SecondOrderSettings {
   cycles: number;
   /** Joint iterations after the alternating cycles (on top of `iterations`). */
   jointIterations: number;
+  /** λ of the field step's simple-mixing update w + λ d (physics/scft-equations.ts). */
+  fieldMixing: number;
+  /** Lamellar periods in the cell (the harmonic whose phase the field step pins). */
+  periods: number;
 }
 
 export interface SecondOrderProgress {
@@ -73,8 +84,6 @@ export interface SecondOrderHooks {
   onProgress?: (p: SecondOrderProgress) => void;
   /** Every iteration, in order (for the run's history). */
   onRecord?: (r: SecondOrderRecord) => void;
-  /** The field step between alternating cycles (the run's FieldUpdater), on the networks' tfjs variables. */
-  fieldStep?: () => void;
 }
 
 export interface SecondOrderResult {
@@ -165,28 +174,35 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
     lastReason = r.reason;
   };
 
+  // The field step of the alternating strategy, all in float64: the SCFT update of the networks'
+  // own φ, the lamella's phase pinned where it started (physics/translation.ts: the translation
+  // mode is a zero mode of the iteration), and the field network fitted to it by LM.
+  const twoSpecies = nets.chain.species.length === 2;
+  const pinPhase = nets.field && twoSpecies ? lamellarPhase(sys.state(theta).w, settings.periods).phase : null;
+  const fieldStep = () => {
+    const { phi, w } = sys.state(theta);
+    const { w: target } = mixedFieldUpdate(nets.chain, system.chiN, w, phi, settings.fieldMixing);
+    if (pinPhase !== null) pinLamellarPhase(target, new PeriodicCell(nets.length, sys.nx, settings.periods), pinPhase);
+    const fit = sys.fieldFit(theta, target);
+    const r = levenbergMarquardt(fit, theta.slice(fit.first, fit.first + fit.size), { maxIterations: FIELD_FIT_ITERATIONS, damping: settings.damping });
+    theta = Float64Array.from(theta);
+    theta.set(r.x, fit.first);
+  };
+
   if (!stopped) {
     if (settings.strategy === 'joint') solvePart('all', settings.iterations);
     else {
       const sides: ResidualPart[] = nets.shared ? ['q'] : ['q', 'qDagger'];
       const perCycle = Math.max(1, Math.ceil(settings.iterations / (settings.cycles * sides.length)));
       for (let c = 0; c < settings.cycles && !stopped && done < settings.iterations; c++) {
-        if (c > 0 && hooks.fieldStep && nets.field) {
-          nets.parameters.unflatten(theta);
-          hooks.fieldStep();
-          theta = nets.parameters.flatten();
-        }
+        if (c > 0 && nets.field) fieldStep();
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
           solvePart(side, Math.min(perCycle, settings.iterations - done));
         }
       }
       if (!stopped && settings.jointIterations > 0) {
-        if (hooks.fieldStep && nets.field) {
-          nets.parameters.unflatten(theta);
-          hooks.fieldStep();
-          theta = nets.parameters.flatten();
-        }
+        if (nets.field) fieldStep();
         solvePart('all', settings.jointIterations);
       }
     }

@@ -319,11 +319,12 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         strategy: tr.secondOrder.strategy,
         cycles: tr.secondOrder.cycles,
         jointIterations: tr.secondOrder.jointIterations,
+        fieldMixing: tr.fieldMixing,
+        periods: reference.periods,
       },
       {
         evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
         shouldStop: opts.shouldStop,
-        fieldStep: () => void fieldUpdater.update(),
         onProgress: opts.onSecondOrder ?? ((p) => stage(`second-order ${p.iteration}/${p.iterations}: loss ${p.loss.toExponential(3)}, μ ${p.mu.toExponential(2)}${p.phiError !== undefined ? `, φA error ${p.phiError.toExponential(3)}` : ''}`)),
         onRecord: (rec) =>
           loop.state.history.push({

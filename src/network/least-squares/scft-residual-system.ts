@@ -37,6 +37,8 @@ import { fieldAtPoints } from '../../physics/fields.js';
 import { JetMlp64 } from '../../autodiff/jet-mlp64.js';
 import type { Mlp } from '../../autodiff/mlp.js';
 import type { ResidualGroup } from '../../numerics/grouped-normal-equations.js';
+import type { LeastSquaresProblem } from '../../numerics/levenberg-marquardt.js';
+import type { SpeciesArrays } from '../../physics/fields.js';
 import { periodicFeatureArrays } from '../features.js';
 import type { LossValues } from '../losses/terms.js';
 import type { ScftNetworks } from '../scft-networks.js';
@@ -161,6 +163,65 @@ export class ScftResidualSystem {
   /** ½‖r‖² (no Jacobian). */
   cost(theta: Float64Array): number {
     return this.evaluate(theta, false).cost;
+  }
+
+  /**
+   * φ (Simpson quadrature of physics/contour.ts) and the field network's w on the phase's grid
+   * at theta, in float64: the input of an SCFT field update.
+   */
+  state(theta: Float64Array): { phi: SpeciesArrays; w: SpeciesArrays; Q: number } {
+    const field = this.field ? this.fieldAt(theta, false) : null;
+    const u = this.sides.map((side) => this.sideResiduals(theta, side, field, false, false, 0, false).u);
+    const q = u[0].map((r) => r.map(Math.exp));
+    const qd = u[1].map((r) => r.map(Math.exp));
+    const ns = this.sides[0].contour.ns;
+    const Q = q[ns].reduce((a, b) => a + b, 0) / this.nx;
+    const phi = densitiesFromPropagators(this.sides[0].contour, q, qd, Q);
+    return { phi, w: { A: field ? field.w[0] : new Float64Array(this.nx), B: field ? field.w[1] : new Float64Array(this.nx) }, Q };
+  }
+
+  /**
+   * The field network fitted to target fields on the grid, as least squares over its own
+   * columns: r_{c,j} = (w_c(x_j) − target_c(x_j)) / √(2 nx) for the species on the chain.
+   */
+  fieldFit(theta: Float64Array, target: SpeciesArrays): LeastSquaresProblem & { first: number } {
+    if (!this.field) throw new Error('fieldFit: the networks have no field network');
+    const first = this.fieldFirst;
+    const count = this.fieldCount;
+    const species = this.nets.chain.species.map((k) => (k === 'A' ? 0 : 1));
+    const scale = 1 / Math.sqrt(species.length * this.nx);
+    const embed = (xs: Float64Array) => {
+      const full = Float64Array.from(theta);
+      full.set(xs, first);
+      return full;
+    };
+    const residuals = (xs: Float64Array, jacobian: boolean) => {
+      const f = this.fieldAt(embed(xs), jacobian);
+      const m = species.length * this.nx;
+      const r = new Float64Array(m);
+      const J = jacobian ? new Float64Array(m * count) : null;
+      species.forEach((c, si) => {
+        const t = c === 0 ? target.A : target.B;
+        for (let j = 0; j < this.nx; j++) {
+          const row = si * this.nx + j;
+          r[row] = scale * (f.w[c][j] - t[j]);
+          if (J) {
+            const d = f.dw![c][j];
+            for (let a = 0; a < count; a++) J[row * count + a] = scale * d[a];
+          }
+        }
+      });
+      return { r, J, m };
+    };
+    return {
+      first,
+      size: count,
+      cost: (xs) => 0.5 * residuals(xs, false).r.reduce((a, v) => a + v * v, 0),
+      linearise: (xs) => {
+        const { r, J, m } = residuals(xs, true);
+        return { kind: 'dense', cost: 0.5 * r.reduce((a, v) => a + v * v, 0), m, J: J!, r };
+      },
+    };
   }
 
   /** Global columns [first, first + count) of one propagator's parameters. */
