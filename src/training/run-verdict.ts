@@ -22,6 +22,8 @@ export interface RunVerdict {
   /** null when the reference is not ordered (nothing to compare). */
   ordered: boolean | null;
   warnings: string[];
+  /** 'ok', or the warnings joined: one line for tables that show strings only (the report's metrics page). */
+  summary: string;
 }
 
 export function runVerdict(network: ScftSolution, reference: ScftSolution, errors: SolutionMetrics, targetPhiError: number | undefined): RunVerdict {
@@ -36,5 +38,5 @@ export function runVerdict(network: ScftSolution, reference: ScftSolution, error
       warnings.push(`the network's φA amplitude ${network.amplitude.toExponential(2)} is below ${ORDERED_AMPLITUDE_SHARE} of the reference's ${reference.amplitude.toExponential(2)}: its density is not ordered where the reference is`);
     }
   }
-  return { ok: warnings.length === 0, aboveTarget, ordered, warnings };
+  return { ok: warnings.length === 0, aboveTarget, ordered, warnings, summary: warnings.length === 0 ? 'ok' : `WARNING: ${warnings.join('; ')}` };
 }

@@ -390,7 +390,9 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     training: training as TrainMetrics['training'],
   };
   if (opts.outDir) {
-    const networkFile = `${JSON.stringify(solutionToFile(network, prov(), config), null, 1)}\n`;
+    // The network's own phase stays in its solution file, with the verdict beside it when it is not ok.
+    const judged = verdict.ok ? network : { ...network, notes: [...network.notes, `not confirmed against the reference: ${verdict.warnings.join('; ')}`] };
+    const networkFile = `${JSON.stringify(solutionToFile(judged, prov(), config), null, 1)}\n`;
     await save(loop.state, 'done', { 'metrics.json': `${JSON.stringify(metrics, null, 2)}\n`, 'network.json': networkFile }, metrics as unknown as Record<string, unknown>, training.holds);
   }
   problem.dispose();
