@@ -78,6 +78,13 @@ describe('train verdict', () => {
     expect(metrics.verdict.aboveTarget).toBe(true);
     expect(metrics.phase).toBe('unconfirmed');
     expect(metrics.phase).not.toBe('lamellar');
+    // The checkpoint says which state it holds: the Adam step with the lowest error measured.
+    const ckpt = JSON.parse(readFileSync(join(out, 'checkpoint.json'), 'utf8'));
+    expect(ckpt.holds.stage).toBe('adam');
+    expect(ckpt.holds.chosenBy).toBe('lowest-reference-error');
+    expect(ckpt.holds.step).toBe(3);
+    const network = JSON.parse(readFileSync(join(out, 'network.json'), 'utf8'));
+    expect(JSON.stringify(network)).toMatch(/not confirmed against the reference/);
     const json = runCli(['train', cfg, '--out', join(dir, 'run2'), '--backend', 'wasm', '--quiet', '--json'], { timeoutMs: 120_000 });
     expect(json.code).toBe(3);
     const parsed = JSON.parse(json.stdout);
