@@ -65,10 +65,15 @@ interface Reach {
   steps: number;
 }
 
+function median(v: number[]): number {
+  const s = [...v].sort((a, b) => a - b);
+  return s.length % 2 ? s[(s.length - 1) / 2] : 0.5 * (s[s.length / 2 - 1] + s[s.length / 2]);
+}
+
 function stats(v: number[]): string {
   if (v.length === 0) return '—';
   const s = [...v].sort((a, b) => a - b);
-  const med = s.length % 2 ? s[(s.length - 1) / 2] : 0.5 * (s[s.length / 2 - 1] + s[s.length / 2]);
+  const med = median(s);
   const f = (x: number) => (Number.isInteger(x) ? String(x) : x.toFixed(1));
   return `${f(s[0])} / ${f(med)} / ${f(s[s.length - 1])}`;
 }
@@ -94,9 +99,8 @@ export async function runRecipeBench(): Promise<void> {
         });
         process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, ${r.metrics.training.seconds.toFixed(1)} s\n`);
       }
-      const median = stats(finals).split(' / ')[1];
       LEVELS.forEach((level, li) => {
-        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seeds} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? Number(median).toExponential(2) : ''} |`);
+        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seeds} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} |`);
       });
     }
   }
