@@ -3,10 +3,11 @@
  * One part only: `npm run bench -- --step-profile` (per-step timing and kernel breakdown,
  * side by side with PyTorch; independent runs and one run split across worker threads),
  * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
- * estimators), `--surrogate` (the parametric surrogate), `--recipes` (Adam + L-BFGS against
- * the second-order phase on five systems; only when asked, it is long: see recipe-bench.ts).
+ * estimators), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
+ * line against bare node), `--recipes` (Adam + L-BFGS against the second-order phase on five
+ * systems; only when asked, it is long: see recipe-bench.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--recipes'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -37,4 +38,8 @@ if (parts.includes('--recipes')) {
 if (want('--surrogate')) {
   const { runSurrogateBench } = await import('./surrogate-bench.js');
   await runSurrogateBench();
+}
+if (want('--startup')) {
+  const { runStartupBench } = await import('./startup-bench.js');
+  runStartupBench();
 }

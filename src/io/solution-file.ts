@@ -72,7 +72,8 @@ export const solutionFileSchema = z
     config: z.unknown().optional(),
     system: systemSchema,
     summary: z.record(z.string(), z.unknown()).and(
-      z.object({ length: z.number().gt(0), periods: z.number().int().min(1), nx: z.number().int(), ns: z.number().int(), phase: z.string() }),
+      // periods: 0 for a film (a thickness between walls, no period).
+      z.object({ length: z.number().gt(0), periods: z.number().int().min(0), nx: z.number().int(), ns: z.number().int(), phase: z.string() }),
     ),
     grid: z.object({ x: numArray, phiA: numArray, phiB: numArray, wA: numArray, wB: numArray }),
     propagators: z.object({ s: numArray, q: z.array(numArray), qDagger: z.array(numArray) }).optional(),

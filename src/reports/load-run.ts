@@ -2,11 +2,17 @@
  * A run directory → ReportInput. Reads what the directory holds:
  *  - solution files (kind "solution", as written by `mesofield solve --out`; any *.json):
  *    the one with solver "spectral" is the reference, one with solver "network" the
- *    network; an optional `periodSearch` trace in the reference gives F(L);
- *  - metrics.json: every number, string or boolean in it becomes a metrics-table row;
+ *    network; an optional `periodSearch` trace in the reference gives F(L); a film's
+ *    solution (cell.kind "film") gives the film pages, with F(H) when it holds a
+ *    `thicknessScan`;
+ *  - a training checkpoint (kind "checkpoint") and its metrics.json: the loss over every
+ *    phase and the network's errors (readers/training-history.ts, readers/train-metrics.ts);
+ *  - an inversion result (kind "inversion", readers/inversion-file.ts);
+ *  - a sweep table (kind "sweep-table" or "sweep-shard", readers/sweep-file.ts);
  *  - a surrogate checkpoint (checkpoint.json of kind "surrogate-checkpoint"): the error map
  *    and the training rounds (surrogate-input.ts).
- * Anything missing or inconsistent is an InputError naming the file and field.
+ * The file formats are read in the readers/ files only. Anything missing or inconsistent is
+ * an InputError naming the file and field.
  */
 import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
@@ -16,11 +22,20 @@ import { readJsonFile } from '../io/load-json.js';
 import { solutionFileSchema } from '../io/solution-file.js';
 import type { SolutionFile } from '../io/solution-file.js';
 import { buildChain } from '../physics/chain.js';
+import type { Cell } from '../physics/cell/cell.js';
+import { DEFAULT_WALL_RANGE, FilmCell } from '../physics/cell/film-cell.js';
 import { PeriodicCell } from '../physics/cell/periodic-cell.js';
 import { contourWithTotal } from '../physics/contour.js';
 import type { ScftSolution } from '../physics/result.js';
-import type { MetricRow, ReportInput } from './report-inputs.js';
+import type { FilmInput, ReportInput, RunInfo } from './report-inputs.js';
 import { surrogateInput } from './surrogate-input.js';
+import { readInversion } from './readers/inversion-file.js';
+import type { InversionRead } from './readers/inversion-file.js';
+import { settingRows } from './readers/settings-rows.js';
+import { readSweep } from './readers/sweep-file.js';
+import { readTrainMetrics } from './readers/train-metrics.js';
+import { trainingRecords } from './readers/training-history.js';
+import { countLayers } from '../spectral/film-solve.js';
 
 const summaryNumbers = z.object({
   solver: z.enum(['spectral', 'network', 'surrogate']),
@@ -38,46 +53,59 @@ const summaryNumbers = z.object({
   notes: z.array(z.string()).default([]),
 });
 
-/** The part of a training checkpoint the report reads (the full schema lives with the trainer, which loads tfjs types only). */
-const checkpointHistorySchema = z.object({
-  history: z.array(z.object({ step: z.number(), stage: z.string(), total: z.number(), terms: z.record(z.string(), z.number()), learningRate: z.number(), seconds: z.number().optional() })),
-});
-
-/** The parts of an inversion result (inverse/inversion-result.ts) that the report draws. */
-const estimatorFileSchema = z
+const traceSchema = z.array(z.object({ period: z.number(), freeEnergy: z.number(), phase: z.string(), iterations: z.number() }));
+const provenanceSchema = z.object({ version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string().optional(), tfjs: z.string().optional() }).passthrough();
+const wallsSchema = z.object({ bottom: z.object({ affinity: z.number() }), top: z.object({ affinity: z.number() }), range: z.number().default(DEFAULT_WALL_RANGE) }).passthrough();
+const filmConfigSchema = z.object({ cell: z.object({ kind: z.literal('film'), walls: wallsSchema.optional() }).passthrough() }).passthrough();
+const filmExtrasSchema = z
   .object({
-    chiN: z.number(),
-    interval: z.tuple([z.number(), z.number()]),
-    interval95: z.tuple([z.number(), z.number()]).optional(),
-    intervals: z.record(z.string(), z.object({ deltaChi2: z.number().nullable() }).passthrough()).optional(),
-    intervalMethod: z.string(),
-    profileLikelihood: z.array(z.object({ chiN: z.number(), deltaChi2: z.number() }).passthrough()).optional(),
-    fitCurve: z.object({ x: z.array(z.number()), phiA: z.array(z.number()) }).optional(),
-    points: z.object({ x: z.array(z.number()), phiA: z.array(z.number()), sigma: z.array(z.number()), fit: z.array(z.number()), residual: z.array(z.number()) }).optional(),
+    film: z.object({ layers: z.object({ A: z.number(), B: z.number(), sequence: z.string() }), freeEnergyPerArea: z.number() }).optional(),
+    thicknessScan: z
+      .object({
+        points: z.array(z.object({ thickness: z.number(), freeEnergy: z.number(), freeEnergyPerArea: z.number(), phase: z.string(), layers: z.string(), converged: z.boolean() }).passthrough()),
+        minima: z.array(z.object({ thickness: z.number(), freeEnergy: z.number(), layers: z.string() })),
+        stable: z.array(z.number()),
+      })
+      .optional(),
+    runSeconds: z.number().optional(),
   })
   .passthrough();
-const inversionFileSchema = z.object({ kind: z.literal('inversion'), estimators: z.record(z.string(), estimatorFileSchema) }).passthrough();
+/** The parts of a film-fit result (inverse/film/film-fit-run.ts) that the report draws. */
+const levelSchema = z.object({ lo: z.number(), hi: z.number(), deltaChi2: z.number() }).passthrough();
+const filmFitFileSchema = z
+  .object({
+    kind: z.literal('film-fit-result'),
+    input: z.object({ dataKind: z.enum(['phi', 'sld', 'reflectivity']) }).passthrough(),
+    chiN: z.number(),
+    affinity: z.object({ bottom: z.number(), top: z.number() }).passthrough(),
+    intervals: z.record(z.string(), z.object({ '95%': levelSchema }).passthrough()),
+    profiles: z.record(z.string(), z.array(z.object({ value: z.number(), deltaChi2: z.number() }))),
+    layers: z.string(),
+    reducedChi2: z.number(),
+    warnings: z.array(z.string()),
+    curve: z.object({ xUnits: z.string(), yUnits: z.string(), x: z.array(z.number()), y: z.array(z.number()), sigma: z.array(z.number()), fit: z.array(z.number()) }),
+  })
+  .passthrough();
 
-function inversionInput(file: z.infer<typeof inversionFileSchema>): ReportInput['inversion'] {
-  const main = file.estimators.classical ?? Object.values(file.estimators)[0];
-  if (!main?.points || !main.fitCurve) return undefined;
-  const p = main.points;
-  const threshold = main.intervals?.['68.3%']?.deltaChi2 ?? 1;
+function filmFitInput(f: z.infer<typeof filmFitFileSchema>): ReportInput['filmFit'] {
+  const c = f.curve;
+  const kind = f.input.dataKind;
+  const best: Record<string, number> = { chiN: f.chiN, bottom: f.affinity.bottom, top: f.affinity.top };
+  const unit: Record<string, string> = { chiN: '–', bottom: 'kT per chain × Rg', top: 'kT per chain × Rg' };
+  const label: Record<string, string> = { chiN: 'χN', bottom: 'bottom-wall affinity', top: 'top-wall affinity' };
   return {
-    quantity: 'φA',
-    data: p.x.map((x, i) => ({ x, value: p.phiA[i], sigma: p.sigma[i] })),
-    fitted: main.fitCurve.x.map((x, i) => ({ x, value: main.fitCurve!.phiA[i] })),
-    residuals: p.x.map((x, i) => ({ x, normalized: p.residual[i] / p.sigma[i] })),
-    profileLikelihood: (main.profileLikelihood ?? []).map((q) => ({ chiN: q.chiN, deltaChi2: q.deltaChi2 })),
-    interval: { lower: main.interval[0], upper: main.interval[1], level: 0.683, threshold },
-    bestChiN: main.chiN,
-    estimators: Object.entries(file.estimators).map(([name, e]) => ({ name, chiN: e.chiN, lower: e.interval[0], upper: e.interval[1], note: e.intervalMethod.slice(0, 60) })),
+    dataKind: kind,
+    xLabel: kind === 'reflectivity' ? 'Q (Å⁻¹)' : `depth (${c.xUnits})`,
+    yLabel: kind === 'reflectivity' ? 'R (–)' : kind === 'sld' ? 'SLD (10⁻⁶ Å⁻²)' : 'φA (–)',
+    data: c.x.map((x, i) => ({ x, value: c.y[i], sigma: c.sigma[i], fit: c.fit[i] })),
+    parameters: Object.keys(best).map((k) => ({ name: label[k], value: best[k], lower: f.intervals[k]?.['95%'].lo, upper: f.intervals[k]?.['95%'].hi, unit: unit[k] })),
+    profiles: Object.entries(f.profiles).map(([k, pts]) => ({ name: label[k] ?? k, points: pts, threshold: f.intervals[k]?.['95%'].deltaChi2 ?? 3.841 })),
+    layers: f.layers,
+    reducedChi2: f.reducedChi2,
+    warnings: f.warnings,
   };
 }
 
-const traceSchema = z.array(z.object({ period: z.number(), freeEnergy: z.number(), phase: z.string(), iterations: z.number() }));
-
-const provenanceSchema = z.object({ version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string().optional(), tfjs: z.string().optional() }).passthrough();
 
 interface LoadedSolution {
   file: string;
@@ -85,9 +113,9 @@ interface LoadedSolution {
   solution: ScftSolution;
   trace?: z.infer<typeof traceSchema>;
   provenance: z.infer<typeof provenanceSchema>;
+  film?: FilmInput;
+  runSeconds?: number;
 }
-
-const readJson = readJsonFile;
 
 function checkPropagators(path: string, d: SolutionFile): void {
   const p = d.propagators;
@@ -105,6 +133,7 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
   const data = parseOrThrow(solutionFileSchema, raw, path);
   const s = parseOrThrow(summaryNumbers, data.summary, `${path}: summary`);
   const provenance = parseOrThrow(provenanceSchema, data.provenance, `${path}: provenance`);
+  const extras = parseOrThrow(filmExtrasSchema, raw, path);
   checkPropagators(path, data);
   const rawTrace = (raw as Record<string, unknown>).periodSearch;
   const trace = rawTrace === undefined ? undefined : parseOrThrow(traceSchema, rawTrace, `${path}: periodSearch`);
@@ -114,11 +143,19 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
   } catch (e) {
     throw asInputError(e, path);
   }
+  const filmConfig = filmConfigSchema.safeParse(data.config);
+  const walls = filmConfig.success ? (filmConfig.data.cell.walls ?? { bottom: { affinity: 0 }, top: { affinity: 0 }, range: DEFAULT_WALL_RANGE }) : undefined;
+  let cell: Cell;
+  try {
+    cell = walls ? new FilmCell(data.summary.length, data.summary.nx, { bottom: walls.bottom, top: walls.top, range: walls.range }) : new PeriodicCell(data.summary.length, data.summary.nx, data.summary.periods);
+  } catch (e) {
+    throw asInputError(e, `${path}: summary`);
+  }
   const f64 = (a: number[]): Float64Array => Float64Array.from(a);
   const solution: ScftSolution = {
     solver: s.solver,
     system: data.system,
-    cell: new PeriodicCell(data.summary.length, data.summary.nx, data.summary.periods),
+    cell,
     contour: contourWithTotal(chain, data.summary.ns),
     length: data.summary.length,
     periods: data.summary.periods,
@@ -141,17 +178,17 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
     notes: s.notes,
     ...(data.propagators ? { propagators: { s: f64(data.propagators.s), q: data.propagators.q.map(f64), qDagger: data.propagators.qDagger.map(f64) } } : {}),
   };
-  return { file: path, data, solution, trace, provenance };
-}
-
-/** Flatten a JSON object to "a.b.c: value" rows (numbers, strings, booleans; arrays are summarised). */
-export function flattenRows(value: unknown, prefix: string, out: MetricRow[] = [], depth = 0): MetricRow[] {
-  if (value === null || value === undefined) return out;
-  if (typeof value === 'number') out.push({ name: prefix, value: String(value) });
-  else if (typeof value === 'string' || typeof value === 'boolean') out.push({ name: prefix, value: String(value) });
-  else if (Array.isArray(value)) out.push({ name: prefix, value: `[${value.length} values]` });
-  else if (typeof value === 'object' && depth < 4) for (const [k, v] of Object.entries(value)) flattenRows(v, prefix ? `${prefix}.${k}` : k, out, depth + 1);
-  return out;
+  const film: FilmInput | undefined = walls
+    ? {
+        solution,
+        thickness: data.summary.length,
+        walls: { bottom: walls.bottom.affinity, top: walls.top.affinity, range: walls.range },
+        layers: extras.film?.layers ?? countLayers(solution.phi),
+        ...(extras.film ? { freeEnergyPerArea: extras.film.freeEnergyPerArea } : {}),
+        ...(extras.thicknessScan ? { scan: extras.thicknessScan } : {}),
+      }
+    : undefined;
+  return { file: path, data, solution, trace, provenance, film, runSeconds: extras.runSeconds };
 }
 
 function pickOne(list: LoadedSolution[], solver: string, dir: string): LoadedSolution | undefined {
@@ -168,59 +205,80 @@ export interface LoadedRun {
   notes: string[];
 }
 
-export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
+function checkDirectory(dir: string): void {
   let st;
   try {
     st = statSync(dir);
   } catch {
-    throw new InputError(`${dir}: run directory not found; give the --out directory of a mesofield solve, train, evaluate or invert run`);
+    throw new InputError(`${dir}: run directory not found; give the --out directory of a mesofield solve, train, evaluate, invert or sweep run`);
   }
   if (!st.isDirectory()) throw new InputError(`${dir}: not a directory; give the run directory (the --out directory of a run), not a file in it`);
+}
+
+const configKind = (config: unknown): string | undefined => {
+  const k = (config as Record<string, unknown> | undefined)?.kind;
+  return typeof k === 'string' ? k : undefined;
+};
+
+export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
+  checkDirectory(dir);
   const names = readdirSync(dir).filter((n) => n.endsWith('.json')).sort();
   const solutions: LoadedSolution[] = [];
   const read: string[] = [];
   const notes: string[] = [];
-  let metrics: MetricRow[] | undefined;
   let training: ReportInput['training'];
-  let trainingSeconds = Number.NaN;
-  let inversion: ReportInput['inversion'];
+  let networkMetrics: ReportInput['networkMetrics'];
+  let trainSeconds: { runSeconds?: number; runSecondsNote?: string } = {};
+  let inv: InversionRead | undefined;
+  let invConfig: unknown;
+  let sweep: ReturnType<typeof readSweep> | undefined;
+  let sweepProvenance: z.infer<typeof provenanceSchema> | undefined;
+  let filmFit: ReportInput['filmFit'];
   let surrogate: ReportInput['surrogate'];
   for (const name of names) {
     const path = join(dir, name);
-    const raw = readJson(path);
+    const raw = readJsonFile(path);
     const kind = raw && typeof raw === 'object' ? (raw as Record<string, unknown>).kind : undefined;
     if (kind === 'solution') {
       solutions.push(loadSolution(path, raw));
-      read.push(path);
     } else if (kind === 'inversion') {
-      const inv = parseOrThrow(inversionFileSchema, raw, path);
-      inversion = inversionInput(inv);
+      inv = readInversion(raw, path);
+      invConfig = (raw as Record<string, unknown>).config;
       // The network estimator's χN trajectory (first seed), against the classical estimate.
-      const runs = (inv.estimators.network as { runs?: { trajectory?: { step: number; chiN: number }[] }[] } | undefined)?.runs;
-      const traj = runs?.[0]?.trajectory?.filter((p) => Number.isFinite(p.chiN));
+      const ests = (raw as { estimators: Record<string, { chiN: number; runs?: { trajectory?: { step: number; chiN: number }[] }[] }> }).estimators;
+      const traj = ests.network?.runs?.[0]?.trajectory?.filter((p) => Number.isFinite(p.chiN));
       if (traj && traj.length > 1 && !training) {
-        const cl = inv.estimators.classical;
-        training = { history: [], chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };
+        const cl = ests.classical;
+        training = { records: [], phases: [], wallClock: false, chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };
       }
       read.push(path);
-    } else if (kind === 'checkpoint') {
-      // A training checkpoint (training/checkpoint.ts): its loss history is the training page.
-      const hist = parseOrThrow(checkpointHistorySchema, raw, path).history.filter((h) => h.stage === 'adam');
-      // Terms that are identically zero for this system (e.g. no field equations for a chain in a prescribed field) have no place on a log axis.
-      const positive = (t: Record<string, number>) => Object.fromEntries(Object.entries(t).filter(([, v]) => v > 0));
-      training = { history: hist.map((h) => ({ step: h.step, terms: positive({ total: h.total, ...h.terms }), lr: h.learningRate })) };
-      trainingSeconds = hist.length ? (hist[hist.length - 1] as { seconds?: number }).seconds ?? Number.NaN : Number.NaN;
+    } else if (kind === 'film-fit-result') {
+      filmFit = filmFitInput(parseOrThrow(filmFitFileSchema, raw, path));
       read.push(path);
+    } else if (kind === 'checkpoint') {
+      training = trainingRecords((raw as Record<string, unknown>).history, path);
+    } else if (kind === 'sweep-table' || kind === 'sweep-shard') {
+      // A merged table wins over its shards.
+      if (!sweep || kind === 'sweep-table') {
+        sweep = readSweep(raw, path);
+        sweepProvenance = parseOrThrow(provenanceSchema, (raw as Record<string, unknown>).provenance, `${path}: provenance`);
+      }
     } else if (kind === 'surrogate-checkpoint') {
       surrogate = surrogateInput(raw, path);
-      read.push(path);
-    } else if (name === 'metrics.json') {
-      metrics = flattenRows(raw, '').map((r) => ({ ...r, name: `metrics.json: ${r.name}` }));
-      read.push(path);
-    } else notes.push(`${path}: not read (kind ${JSON.stringify(kind)} has no report section in this version)`);
+    } else if (name === 'metrics.json' && (raw as { errors?: { phiA?: unknown } } | null)?.errors?.phiA !== undefined) {
+      // A train run's metrics (a surrogate's metrics.json is read with its checkpoint).
+      const m = readTrainMetrics(raw, path);
+      networkMetrics = m.metrics;
+      trainSeconds = { runSeconds: m.runSeconds, runSecondsNote: m.runSecondsNote };
+    } else {
+      notes.push(`${path}: not read (kind ${JSON.stringify(kind)} has no report section in this version)`);
+      continue;
+    }
+    read.push(path);
   }
+  if (solutions.length === 0 && sweep) return { input: sweepRun(dir, sweep, sweepProvenance!), read, notes };
   if (solutions.length === 0) {
-    throw new InputError(`${dir}: no solution file found (a *.json with "kind": "solution", such as solution.json from mesofield solve --out); files here: ${readdirSync(dir).sort().join(', ') || 'none'}`);
+    throw new InputError(`${dir}: no solution file found (a *.json with "kind": "solution", such as solution.json from mesofield solve --out) and no sweep table; files here: ${readdirSync(dir).sort().join(', ') || 'none'}`);
   }
   const reference = pickOne(solutions.filter((s) => s.solution.solver === 'spectral'), 'spectral', dir);
   const network = pickOne(solutions.filter((s) => s.solution.solver === 'network'), 'network', dir);
@@ -235,26 +293,48 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   }
   // Without a spectral reference a network solution is shown alone, as "reference" curves.
   const shown = reference ?? network!;
+  const kind = configKind(main.data.config) ?? (network ? 'evaluate' : 'solve');
+  const config = inv ? invConfig : (network ?? main).data.config;
+  const classicalOnly = inv !== undefined && !inv.estimatorNames.includes('network');
+  const time = surrogate
+    ? { runSeconds: surrogate.buildSeconds, runSecondsNote: 'building the surrogate: reference solves, fit and physics rounds' }
+    : inv
+      ? { runSeconds: inv.runSeconds, runSecondsNote: inv.runSecondsNote }
+      : training || networkMetrics
+        ? trainSeconds
+        : main.runSeconds !== undefined
+          ? { runSeconds: main.runSeconds }
+          : { runSeconds: main.solution.seconds, runSecondsNote: main.trace ? `the final solve only; this run did not record the ${main.trace.length} period-search evaluations' time` : undefined };
+  const info: RunInfo = {
+    kind,
+    source: dir,
+    system: main.data.system,
+    period: main.solution.period,
+    rgNm: opts.rgNm ?? inv?.rgNm,
+    settings: settingRows(config, (p) => classicalOnly && p === 'network'),
+    provenance: (network ?? main).provenance,
+    ...time,
+  };
+  const film = shown.film;
   const input: ReportInput = {
-    info: {
-      kind: typeof (main.data.config as Record<string, unknown> | undefined)?.kind === 'string' ? String((main.data.config as Record<string, unknown>).kind) : network ? 'evaluate' : 'solve',
-      source: dir,
-      system: main.data.system,
-      period: main.solution.period,
-      rgNm: opts.rgNm,
-      config: flattenRows(main.data.config, '').map((r) => `${r.name}: ${r.value}`),
-      provenance: (network ?? main).provenance,
-      runSeconds: surrogate ? surrogate.buildSeconds : training ? (training.history.length ? trainingSeconds : main.solution.seconds) : main.solution.seconds,
-      runSecondsNote: surrogate ? 'building the surrogate: reference solves, fit and physics rounds' : training ? 'training, from the checkpoint history' : main.trace ? `final solve only; the ${main.trace.length} period-search evaluations took ${main.trace.reduce((a, t) => a + t.iterations, 0)} iterations in all` : undefined,
-    },
-    profiles: { reference: shown.solution, network: reference ? network?.solution : undefined },
+    info,
+    profiles: film ? undefined : { reference: shown.solution, network: reference ? network?.solution : undefined, ...(inv?.rgNm !== undefined ? { rgNm: inv.rgNm } : {}) },
     propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
     training,
-    inversion,
+    networkMetrics,
+    inversion: inv?.inversion,
+    filmFit,
     surrogate,
+    film,
     periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
-    metrics,
   };
-  if (!shown.solution.propagators) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);
+  if (!shown.solution.propagators && !film && !inv && !training) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);
   return { input, read, notes };
+}
+
+function sweepRun(dir: string, s: ReturnType<typeof readSweep>, provenance: z.infer<typeof provenanceSchema>): ReportInput {
+  return {
+    info: { kind: 'sweep', source: dir, system: s.system, period: Number.NaN, settings: settingRows(s.config), provenance, runSeconds: s.solverSeconds, runSecondsNote: 'solver time summed over the points (points on several workers run at once)' },
+    sweep: s.sweep,
+  };
 }

@@ -6,6 +6,7 @@
 import { z } from 'zod';
 import { parseOrThrow } from '../io/errors.js';
 import { periodAt } from '../surrogate/period-model.js';
+import { PARAMETER_LABELS } from '../surrogate/parameter-space.js';
 import { sig } from './format.js';
 import type { SurrogateInput } from './report-inputs.js';
 
@@ -36,8 +37,6 @@ const surrogateFileSchema = z.object({
     .passthrough(),
 });
 
-const SYMBOLS: Record<string, string> = { chiN: 'χN', f: 'f', segmentLengthRatio: 'b_A/b_B' };
-
 export function surrogateInput(raw: unknown, path: string): SurrogateInput {
   const file = parseOrThrow(surrogateFileSchema, raw, path);
   const m = file.metrics;
@@ -45,7 +44,7 @@ export function surrogateInput(raw: unknown, path: string): SurrogateInput {
   const values = (p: Record<string, number>) => names.map((n) => p[n]);
   const t = m.timing;
   return {
-    parameters: m.parameters.map((p) => ({ ...p, symbol: SYMBOLS[p.name] ?? p.name })),
+    parameters: m.parameters.map((p) => ({ ...p, symbol: (PARAMETER_LABELS as Record<string, { symbol: string }>)[p.name]?.symbol ?? p.name })),
     anchors: file.anchors.map((a) => ({ values: values(a.point), period: a.period })),
     periodAt: (v) => periodAt(file.periodModel, v),
     heldOut: m.heldOut.map((h) => ({

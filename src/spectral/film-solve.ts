@@ -44,6 +44,8 @@ export interface FilmSolve {
   freeEnergyPerArea: number;
   /** Every start tried: its half-periods m (0: the uniform start), F and whether it converged. */
   starts: { halfPeriods: number; freeEnergy: number; converged: boolean; phase: string }[];
+  /** Every converged state the starts reached (the disordered film first): a fit to data may need one that is not the lowest. */
+  states: ScftSolution[];
 }
 
 export interface FilmRequest {
@@ -178,5 +180,6 @@ export function solveFilm(req: FilmRequest): FilmSolve {
     layers: countLayers(solution.phi),
     freeEnergyPerArea: solution.freeEnergy * cell.length,
     starts,
+    states: candidates,
   };
 }

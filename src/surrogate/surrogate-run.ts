@@ -5,6 +5,7 @@
  * The CLI's `train` hands surrogate configs here; tests call surrogateRun directly.
  */
 import { RunFailure } from '../io/errors.js';
+import { RunStopped, stopRequested, yieldToEvents } from '../runtime/stop.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import { solutionToFile } from '../io/solution-file.js';
 import { provenance } from '../io/versions.js';
@@ -142,6 +143,9 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     const roundsStart = performance.now();
     let lastResidual: number | null = null;
     for (let k = 1; k <= tr.rounds; k++) {
+      // A signal lands between rounds (each is synchronous); a surrogate run is short and not resumable.
+      await yieldToEvents();
+      if (stopRequested()) throw new RunStopped(`surrogate training stopped by a signal after round ${k - 1} of ${tr.rounds}; nothing was saved (a surrogate run is not resumable: run it again)`);
       const r = trainer.round(k, anchorPoints);
       lastResidual = r.residual;
       const evaluateNow = (tr.evaluateEvery > 0 && k % tr.evaluateEvery === 0) || k === tr.rounds;

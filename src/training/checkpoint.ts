@@ -37,6 +37,8 @@ export const historyEntrySchema = z.object({
   /** Second-order entries: Levenberg–Marquardt iterations done so far, and the damping μ after the iteration. */
   secondOrderIterations: z.number().int().min(0).optional(),
   damping: z.number().optional(),
+  /** Seconds since the run started (reference solve and warm start included): the report's wall-time axis over every phase. */
+  wallSeconds: z.number().optional(),
 });
 
 /** Which state the saved weights hold: where in the run, and its reference error when measured. */
@@ -94,10 +96,11 @@ export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<CheckpointF
 export async function writeWeightsDirectory(tf: Tf, dir: string, meta: Record<string, unknown>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
   const { data, specs } = await tf.io.encodeWeights(tensors.map((t) => ({ name: t.name, tensor: t.tensor })));
   const file = { ...meta, weightSpecs: specs, weightBytes: data.byteLength };
+  // checkpoint.json last: it is what makes the directory a checkpoint (writeDirectoryAtomic renames in order).
   writeDirectoryAtomic(dir, {
-    'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
     'weights.bin': new Uint8Array(data),
     ...extraFiles,
+    'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
   });
 }
 

@@ -5,6 +5,7 @@
 import type { Command } from 'commander';
 import { z } from 'zod';
 import { InputError } from '../../io/errors.js';
+import { filmFitConfigSchema } from '../../io/schemas/film-fit-config.js';
 import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
@@ -13,7 +14,7 @@ import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { action } from '../run-command.js';
 import { configReferenceMarkdown } from '../../io/config-reference.js';
 
-export const CONFIG_SCHEMAS: Record<string, z.ZodType> = { solve: solveConfigSchema, train: trainConfigSchema, invert: invertConfigSchema, sweep: sweepConfigSchema, surrogate: surrogateConfigSchema };
+export const CONFIG_SCHEMAS: Record<string, z.ZodType> = { solve: solveConfigSchema, train: trainConfigSchema, invert: invertConfigSchema, sweep: sweepConfigSchema, surrogate: surrogateConfigSchema, 'film-fit': filmFitConfigSchema };
 
 export function registerSchema(program: Command): void {
   const all = CONFIG_SCHEMAS;

@@ -16,6 +16,7 @@ export function registerSpinodal(program: Command): void {
     .option('--bA <b>', 'segment length of A relative to the reference', '1')
     .option('--bB <b>', 'segment length of B relative to the reference', '1')
     .option('--json', 'print JSON on stdout')
+    .option('--quiet', 'no messages on stderr (spinodal prints none; accepted like on every command)')
     .action(
       action((flags: { preset: string; f: string; share: string; bA: string; bB: string; json?: boolean }) => {
         const raw: Record<string, unknown> = {

@@ -1,6 +1,7 @@
 /** `mesofield synth`: a synthetic noisy composition profile from the reference lamella, with its truth. */
 import type { Command } from 'commander';
-import { writeFileAtomic } from '../../io/atomic-write.js';
+import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
+import { claimOut, withOutput } from '../run-output.js';
 import { InputError, asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
@@ -20,6 +21,15 @@ interface SynthFlags {
   ns: string;
   rgNm?: string;
   out?: string;
+  overwrite?: boolean;
+  quiet?: boolean;
+  film?: string;
+  affinity?: string;
+  measure?: string;
+  sld?: string;
+  dqOverQ?: string;
+  qRange?: string;
+  wallRange?: string;
 }
 
 function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
@@ -44,9 +54,22 @@ export function registerSynth(program: Command): void {
     .option('--nx <n>', 'model grid points per period (power of two)', '64')
     .option('--ns <n>', 'model contour steps', '100')
     .option('--rg-nm <R>', 'write x in nm with Rg = R nm (the other length flags stay in Rg)')
-    .option('--out <file>', 'write the CSV here and the truth to FILE.truth.json (default: CSV on stdout)')
+    .option('--out <dir>', `write ${SYNTH_PROFILE} and its truth ${SYNTH_TRUTH} into this directory (default: CSV on stdout)`)
+    .option('--overwrite', 'replace a previous synth output in --out (only the files mesofield wrote there)')
+    .option('--quiet', 'no messages on stderr')
+    .option('--film <H>', 'a film of thickness H (Rg) between walls instead of a bulk lamella (then --offset is the data position of the bottom wall)')
+    .option('--affinity <b,t>', 'film: wall affinities for A, bottom and top, kT per chain × Rg', '0,0')
+    .option('--measure <kind>', 'film: phi (composition depth profile) | sld (SLD depth profile) | reflectivity (Q,R,dR)', 'phi')
+    .option('--sld <a,b,sub,med>', 'film: SLDs of A, B, the substrate and the medium, 10⁻⁶ Å⁻² (sld, reflectivity)')
+    .option('--dq-over-q <r>', 'film reflectivity: Gaussian Q resolution, FWHM relative to Q', '0.05')
+    .option('--q-range <lo,hi>', 'film reflectivity: Q range in Å⁻¹', '0.008,0.2')
+    .option('--wall-range <l>', "film: range of the walls' surface field, Rg", '0.25')
     .action(
-      action((flags: SynthFlags) => {
+      action(async (flags: SynthFlags) => {
+        if (flags.film !== undefined) {
+          const { synthFilmCommand } = await import('./synth-film.js');
+          return synthFilmCommand(flags);
+        }
         const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
         const chiN = need('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 500, 'a number in (0, 500]');
         const points = need('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
@@ -60,42 +83,44 @@ export function registerSynth(program: Command): void {
         const ns = need('--ns', numberFlag('--ns', flags.ns), Number.isInteger, 'an even integer');
         const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
         const chain = { type: 'diblock' as const, f, segmentLengths: { A: 1, B: 1 } };
-        let profile;
-        try {
-          profile = synthesize({ chain, chiN, points, noise, seed, periods, offset, period, resolution, nx, ns });
-        } catch (e) {
-          throw asInputError(e, 'flags');
-        }
-        const csv = synthCsv(profile, noise, rgNm ?? 1);
-        if (!flags.out) {
-          process.stdout.write(csv);
-          return;
-        }
-        const truth = {
-          kind: 'synth-truth',
-          version: 1,
-          provenance: provenance(),
-          chain,
-          f,
-          chiN,
-          period: profile.period,
-          periodMode: period === 'equilibrium' ? 'equilibrium' : 'given',
-          offset,
-          points,
-          periods,
-          noise,
-          seed,
-          resolution,
-          nx,
-          ns,
-          xUnits: rgNm ? 'nm' : 'Rg',
-          ...(rgNm ? { rgNm } : {}),
-          freeEnergy: profile.point.solution.freeEnergy,
-          note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
-        };
-        writeFileAtomic(`${flags.out}.truth.json`, `${JSON.stringify(truth, null, 1)}\n`);
-        writeFileAtomic(flags.out, csv);
-        process.stderr.write(`synth: wrote ${flags.out} and ${flags.out}.truth.json (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
+        const out = claimOut(flags, 'synth');
+        await withOutput(out, () => {
+          let profile;
+          try {
+            profile = synthesize({ chain, chiN, points, noise, seed, periods, offset, period, resolution, nx, ns });
+          } catch (e) {
+            throw asInputError(e, 'flags');
+          }
+          const csv = synthCsv(profile, noise, rgNm ?? 1);
+          if (!out) {
+            process.stdout.write(csv);
+            return;
+          }
+          const truth = {
+            kind: 'synth-truth',
+            version: 1,
+            provenance: provenance(),
+            chain,
+            f,
+            chiN,
+            period: profile.period,
+            periodMode: period === 'equilibrium' ? 'equilibrium' : 'given',
+            offset,
+            points,
+            periods,
+            noise,
+            seed,
+            resolution,
+            nx,
+            ns,
+            xUnits: rgNm ? 'nm' : 'Rg',
+            ...(rgNm ? { rgNm } : {}),
+            freeEnergy: profile.point.solution.freeEnergy,
+            note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
+          };
+          const written = out.write({ [SYNTH_PROFILE]: csv, [SYNTH_TRUTH]: `${JSON.stringify(truth, null, 1)}\n` });
+          if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
+        });
       }),
     );
 }

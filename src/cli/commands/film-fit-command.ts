@@ -1,0 +1,118 @@
+/**
+ * The film fit behind `invert --film` and `reflectivity DATA`: flags on top of a film-fit
+ * config (or of an empty one) through its schema, the data file read, the fit run, the files
+ * written. The library side is inverse/film/film-fit-run.ts.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
+import { filmFitConfigSchema } from '../../io/schemas/film-fit-config.js';
+import type { FilmFitConfig } from '../../io/schemas/film-fit-config.js';
+import { provenance } from '../../io/versions.js';
+import { readFilmData, runFilmFit } from '../../inverse/film/film-fit-run.js';
+import { Progress } from '../progress.js';
+import { claimOut, withOutput } from '../run-output.js';
+import { obj, readRawConfig } from '../raw-config.js';
+import { numberFlag } from '../run-command.js';
+import { numberList, sldFlag } from './film-flags.js';
+
+export interface FilmFitFlags {
+  f?: string;
+  film?: string;
+  thicknessStart?: string;
+  affinity?: string;
+  affinityRange?: string;
+  chiNRange?: string;
+  chiN?: string;
+  rgNm?: string;
+  sld?: string;
+  dqOverQ?: string;
+  background?: string;
+  resolution?: string;
+  wallRange?: string;
+  nx?: string;
+  ns?: string;
+  intervals?: string;
+  json?: boolean;
+  out?: string;
+  quiet?: boolean;
+  report?: boolean;
+  overwrite?: boolean;
+}
+
+export function buildFilmFitConfig(configPath: string | undefined, flags: FilmFitFlags): FilmFitConfig {
+  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 2, kind: 'film-fit', system: { chain: { type: 'diblock' } } };
+  const chain = obj(obj(raw, 'system'), 'chain');
+  if (chain.type === undefined) chain.type = 'diblock';
+  const f = numberFlag('--f', flags.f);
+  if (f !== undefined) chain.f = f;
+  if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
+  const cell = obj(raw, 'cell');
+  if (flags.film !== undefined) cell.thickness = flags.film === 'fit' ? 'fit' : numberFlag('--film', flags.film);
+  if (cell.thickness === undefined) throw new InputError('--film: missing; give the film thickness (in the units of the data: nm with --rg-nm, else Rg) or "fit"');
+  const ts = numberFlag('--thickness-start', flags.thicknessStart);
+  if (ts !== undefined) cell.thicknessStart = ts;
+  const wr = numberFlag('--wall-range', flags.wallRange);
+  if (wr !== undefined) obj(cell, 'walls').range = wr;
+  for (const k of ['nx', 'ns'] as const) {
+    const v = numberFlag(`--${k}`, flags[k]);
+    if (v !== undefined) cell[k] = v;
+  }
+  const rg = numberFlag('--rg-nm', flags.rgNm);
+  if (rg !== undefined) obj(raw, 'units').rgNm = rg;
+  const inst = obj(raw, 'instrument');
+  const sld = sldFlag(flags.sld);
+  if (sld) inst.sld = sld;
+  const dq = numberFlag('--dq-over-q', flags.dqOverQ);
+  if (dq !== undefined) inst.dQoverQ = dq;
+  const bg = numberFlag('--background', flags.background);
+  if (bg !== undefined) inst.background = bg;
+  const fit = obj(raw, 'fit');
+  const cr = numberList('--chiN-range', flags.chiNRange, 2, '8,40');
+  if (cr) fit.chiNRange = cr;
+  const ar = numberList('--affinity-range', flags.affinityRange, 2, '-5,5');
+  if (ar) fit.affinityRange = ar;
+  const start = obj(fit, 'start');
+  const aff = numberList('--affinity', flags.affinity, 2, '1,-0.5 (bottom, top)');
+  if (aff) [start.bottom, start.top] = aff;
+  const c0 = numberFlag('--chiN', flags.chiN);
+  if (c0 !== undefined) start.chiN = c0;
+  const w0 = numberFlag('--resolution', flags.resolution);
+  if (w0 !== undefined) start.resolution = w0;
+  if (flags.intervals !== undefined) fit.intervals = flags.intervals === 'none' ? [] : flags.intervals.split(',').map((s) => s.trim());
+  return parseOrThrow(filmFitConfigSchema, raw, configPath ?? 'flags');
+}
+
+/** Read, fit, write; prints the summary (or JSON) on stdout. */
+export async function runFilmFitCommand(command: string, dataPath: string, config: FilmFitConfig, flags: FilmFitFlags): Promise<void> {
+  if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
+  let text: string;
+  try {
+    text = readFileSync(dataPath, 'utf8');
+  } catch (e) {
+    throw new InputError(`${dataPath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+  }
+  const data = readFilmData(text, dataPath, config.units.rgNm);
+  if (command === 'reflectivity' && data.kind !== 'reflectivity') throw new InputError(`${dataPath}: the header is that of a depth profile (${data.kind}); reflectivity fits a Q,R,dR curve: fit depth profiles with invert --film`);
+  const out = claimOut(flags, command);
+  await withOutput(out, async () => {
+    const progress = new Progress(command, flags.quiet);
+    let run;
+    try {
+      run = runFilmFit(config, data, provenance(), (stage, detail) => progress.update(`${stage}: ${detail}`));
+    } catch (e) {
+      throw asInputError(e, 'flags');
+    }
+    progress.done(`χN = ${run.fit.params.chiN.toPrecision(5)} in ${run.fit.seconds.total.toFixed(1)} s`);
+    if (out) {
+      const written = out.write({ 'result.json': `${JSON.stringify(run.result, null, 1)}\n`, 'fit.csv': run.fitCsv, 'solution.json': `${JSON.stringify(run.solution, null, 1)}\n` });
+      if (!flags.quiet) process.stderr.write(`${command}: wrote ${written.join(', ')}\n`);
+    }
+    process.stdout.write(flags.json ? `${JSON.stringify(run.result, null, 2)}\n` : run.summary);
+    if (out && flags.report) {
+      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
+      const reported = reportRunDirectory(flags.out!, join(flags.out!, 'report'));
+      if (!flags.quiet) process.stderr.write(`${command}: wrote ${reported.join(', ')}\n`);
+    }
+  });
+}

@@ -1,0 +1,99 @@
+/** `synth --film`: a synthetic film measurement (φA or SLD depth profile, or R(Q)) and its truth. */
+import { InputError, asInputError } from '../../io/errors.js';
+import { provenance } from '../../io/versions.js';
+import { filmSynthFiles, synthesizeFilm } from '../../inverse/film/film-synth.js';
+import type { FilmSynthSettings } from '../../inverse/film/film-synth.js';
+import { numberFlag } from '../run-command.js';
+import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
+import { claimOut, withOutput } from '../run-output.js';
+import { numberList, sldFlag } from './film-flags.js';
+
+export interface SynthFilmFlags {
+  f?: string;
+  chiN?: string;
+  film?: string;
+  affinity?: string;
+  measure?: string;
+  sld?: string;
+  dqOverQ?: string;
+  qRange?: string;
+  wallRange?: string;
+  points: string;
+  noise: string;
+  seed: string;
+  offset: string;
+  resolution: string;
+  nx: string;
+  ns: string;
+  rgNm?: string;
+  out?: string;
+  overwrite?: boolean;
+  quiet?: boolean;
+}
+
+function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
+  if (v === undefined) throw new InputError(`${name}: missing; allowed: ${allowed}`);
+  if (!ok(v)) throw new InputError(`${name}: got ${v}; allowed: ${allowed}`);
+  return v;
+}
+
+export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
+  const kinds = ['phi', 'sld', 'reflectivity'] as const;
+  const kind = kinds.find((k) => k === flags.measure);
+  if (!kind) throw new InputError(`--measure: got ${JSON.stringify(flags.measure)}; allowed: phi, sld, reflectivity`);
+  const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
+  const chiN = need('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 200, 'a number in (0, 200]');
+  const thickness = need('--film', numberFlag('--film', flags.film), (v) => v > 0 && v <= 500, 'a thickness in Rg, in (0, 500]');
+  const [bottom, top] = numberList('--affinity', flags.affinity, 2, '1,-0.5 (bottom, top)')!;
+  const points = need('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
+  const noise = need('--noise', numberFlag('--noise', flags.noise), (v) => v >= 0 && v < 1, kind === 'reflectivity' ? 'the relative error of R, in (0, 1)' : kind === 'sld' ? 'the SLD noise in 10⁻⁶ Å⁻², in [0, 1)' : 'a standard deviation of φA in [0, 1)');
+  if (kind === 'reflectivity' && !(noise > 0)) throw new InputError('--noise: got 0; a reflectivity curve needs its relative error dR/R > 0 (e.g. 0.05): a fit weighs each point by dR');
+  const seed = need('--seed', numberFlag('--seed', flags.seed), (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'an integer in [0, 4294967295]');
+  const offset = need('--offset', numberFlag('--offset', flags.offset), Number.isFinite, 'a position in Rg');
+  const width = need('--resolution', numberFlag('--resolution', flags.resolution), (v) => v >= 0 && v < thickness / 4, 'an interface width in Rg, ≥ 0 and below a quarter of the thickness');
+  const nx = need('--nx', numberFlag('--nx', flags.nx), (v) => Number.isInteger(v) && v >= 8 && (v & (v - 1)) === 0, 'a power of two ≥ 8');
+  const ns = need('--ns', numberFlag('--ns', flags.ns), (v) => Number.isInteger(v) && v >= 4, 'an integer ≥ 4');
+  const wallRange = need('--wall-range', numberFlag('--wall-range', flags.wallRange), (v) => v > 0 && v <= 5, 'a range in Rg, in (0, 5]');
+  const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
+  const sld = sldFlag(flags.sld);
+  if (kind !== 'phi' && !sld) throw new InputError(`--sld: missing; --measure ${kind} needs the SLDs of A, B, the substrate and the medium in 10⁻⁶ Å⁻² (e.g. 6.0,1.0,2.07,0)`);
+  if (kind === 'reflectivity' && rgNm === undefined) throw new InputError('--rg-nm: missing; --measure reflectivity needs Rg in nm (Q is in Å⁻¹)');
+  const dq = need('--dq-over-q', numberFlag('--dq-over-q', flags.dqOverQ), (v) => v >= 0 && v <= 0.5, 'the FWHM of the Q resolution relative to Q, in [0, 0.5]');
+  const qRange = numberList('--q-range', flags.qRange, 2, '0.008,0.2 (Å⁻¹)') as [number, number];
+  if (!(qRange[0] > 0 && qRange[1] > qRange[0])) throw new InputError(`--q-range: got ${flags.qRange}; allowed: 0 < lo < hi, in Å⁻¹`);
+  const S = 1e-6;
+  const settings: FilmSynthSettings = {
+    kind,
+    chain: { type: 'diblock', f, segmentLengths: { A: 1, B: 1 } },
+    chiN,
+    bottom,
+    top,
+    thickness,
+    wallRange,
+    width,
+    offset,
+    points,
+    noise: kind === 'sld' ? noise * S : noise,
+    seed,
+    qRange,
+    instrument: { slds: sld && { A: sld.A * S, B: sld.B * S, substrate: sld.substrate * S, medium: sld.medium * S }, rgNm, dQoverQ: dq },
+    nx,
+    ns,
+  };
+  const out = claimOut(flags, 'synth');
+  await withOutput(out, () => {
+    let files;
+    try {
+      const d = synthesizeFilm(settings);
+      files = filmSynthFiles(settings, d, rgNm);
+    } catch (e) {
+      throw asInputError(e, 'flags');
+    }
+    if (!out) {
+      process.stdout.write(files.csv);
+      return;
+    }
+    const written = out.write({ [SYNTH_PROFILE]: files.csv, [SYNTH_TRUTH]: `${JSON.stringify({ ...files.truth, provenance: provenance() }, null, 1)}\n` });
+    if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (film ${thickness} Rg, χN = ${chiN}, layers ${files.truth.layers})\n`);
+  });
+}
