@@ -4,9 +4,10 @@
  * side by side with PyTorch; independent runs and one run split across worker threads),
  * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
  * estimators), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
- * line against bare node).
+ * line against bare node), `--recipes` (Adam + L-BFGS against the second-order phase on five
+ * systems; only when asked, it is long: see recipe-bench.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -28,6 +29,11 @@ if (want('--trainer')) {
 if (want('--inverse')) {
   const { runInverseBench } = await import('./inverse-bench.js');
   await runInverseBench();
+}
+// Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
+if (parts.includes('--recipes')) {
+  const { runRecipeBench } = await import('./recipe-bench.js');
+  await runRecipeBench();
 }
 if (want('--surrogate')) {
   const { runSurrogateBench } = await import('./surrogate-bench.js');

@@ -25,7 +25,8 @@ const factorRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.num
 
 export const historyEntrySchema = z.object({
   step: z.number().int(),
-  stage: z.enum(['warm-start', 'adam', 'lbfgs']),
+  stage: z.enum(['warm-start', 'adam', 'lbfgs', 'second-order']),
+  /** The loss of the stage's own objective (second-order: Σ r², the weighted terms of the whole system). */
   total: z.number(),
   terms: lossRecord.partial(),
   learningRate: z.number(),
@@ -33,8 +34,22 @@ export const historyEntrySchema = z.object({
   phiError: z.number().optional(),
   /** L-BFGS entries: polish iterations done so far (the Adam step count stays in `step`). */
   lbfgsIterations: z.number().int().min(0).optional(),
+  /** Second-order entries: Levenberg–Marquardt iterations done so far, and the damping μ after the iteration. */
+  secondOrderIterations: z.number().int().min(0).optional(),
+  damping: z.number().optional(),
   /** Seconds since the run started (reference solve and warm start included): the report's wall-time axis over every phase. */
   wallSeconds: z.number().optional(),
+});
+
+/** Which state the saved weights hold: where in the run, and its reference error when measured. */
+export const heldStateSchema = z.object({
+  stage: z.enum(['warm-start', 'adam', 'lbfgs', 'second-order']),
+  step: z.number().int().min(0),
+  lbfgsIterations: z.number().int().min(0).optional(),
+  secondOrderIterations: z.number().int().min(0).optional(),
+  phiError: z.number().optional(),
+  /** Why this state: the lowest reference error measured, or the last state when none was measured. */
+  chosenBy: z.enum(['lowest-reference-error', 'last']),
 });
 
 export const checkpointFileSchema = z.object({
@@ -46,7 +61,9 @@ export const checkpointFileSchema = z.object({
   length: z.number().gt(0),
   periods: z.number().int().min(1),
   step: z.number().int().min(0),
-  stage: z.enum(['warm-start', 'adam', 'lbfgs', 'done']),
+  stage: z.enum(['warm-start', 'adam', 'lbfgs', 'second-order', 'done']),
+  /** The state the weights hold (final checkpoints): the best one kept, not necessarily the last. */
+  holds: heldStateSchema.optional(),
   lossWeights: factorRecord,
   history: z.array(historyEntrySchema),
   metrics: z.record(z.string(), z.unknown()).optional(),
@@ -61,6 +78,7 @@ export const checkpointFileSchema = z.object({
 
 export type CheckpointFile = z.infer<typeof checkpointFileSchema>;
 export type HistoryEntry = z.infer<typeof historyEntrySchema>;
+export type HeldState = z.infer<typeof heldStateSchema>;
 
 export interface LoadedCheckpoint {
   file: CheckpointFile;

@@ -17,7 +17,11 @@ import { Adam } from '../autodiff/adam.js';
 import { selectBackend } from '../autodiff/backend.js';
 import type { BackendHandle, Tf } from '../autodiff/backend.js';
 import { loadCheckpoint, saveCheckpoint, splitWeights } from './checkpoint.js';
-import type { CheckpointFile, LoadedCheckpoint } from './checkpoint.js';
+import type { CheckpointFile, HeldState, LoadedCheckpoint } from './checkpoint.js';
+import { runSecondOrder } from './second-order-phase.js';
+import type { SecondOrderProgress, SecondOrderResult } from './second-order-phase.js';
+import { runVerdict } from './run-verdict.js';
+import type { RunVerdict } from './run-verdict.js';
 import { networkSolution } from '../network/network-solution.js';
 import { buildScftNetworks } from '../network/scft-networks.js';
 import type { ScftNetworks } from '../network/scft-networks.js';
@@ -40,13 +44,19 @@ export interface TrainRunOptions {
   backend?: TrainConfig['backend'];
   onProgress?: LoopHooks['onProgress'];
   onStage?: (message: string) => void;
+  /** Progress of the second-order phase (iteration, loss, μ, rate, time left). */
+  onSecondOrder?: (p: SecondOrderProgress) => void;
   shouldStop?: () => boolean;
 }
 
 export interface TrainMetrics {
   backend: string;
   tfjs: string;
+  /** The network's phase when the verdict is ok; 'unconfirmed' otherwise (never a phase on the network's behalf). */
   phase: string;
+  /** The phase the network's own φ_A spread gives (physics/solution-record.ts), whatever the verdict. */
+  networkPhase: string;
+  verdict: RunVerdict;
   collapsed: boolean;
   sharedPropagator: boolean;
   errors: SolutionMetrics;
@@ -60,8 +70,11 @@ export interface TrainMetrics {
     seconds: number;
     warmStart?: { steps: number; seconds: number; finalLoss: number };
     lbfgs?: { iterations: number; finalLoss: number; reason: string };
-    /** Adam step (and L-BFGS iterations, when reached in the polish) and training seconds at which φ_A error first fell below the target. */
-    reachedTarget?: { step: number; seconds: number; lbfgsIterations?: number };
+    secondOrder?: { iterations: number; finalLoss: number; reason: SecondOrderResult['reason']; seconds: number; best: SecondOrderResult['best'] };
+    /** Which state the saved networks hold (the best measured, or the last). */
+    holds: HeldState;
+    /** Adam step (and L-BFGS or second-order iterations, when reached there) and training seconds at which φ_A error first fell below the target. */
+    reachedTarget?: { step: number; seconds: number; lbfgsIterations?: number; secondOrderIterations?: number };
     transferredFrom?: { checkpoint: string; chiN: number; f: number };
     transfer?: TransferReport;
     resumedFrom?: { checkpoint: string; step: number };
@@ -226,9 +239,10 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
 
   const refFile = `${JSON.stringify(solutionToFile(reference, provenance(), config), null, 1)}\n`;
   const prov = () => ({ ...provenance({ backend: handle.backend, tfjs: handle.tfjsVersion }), backend: handle.backend, tfjs: handle.tfjsVersion });
-  const save = async (st: LoopState, stageName: CheckpointFile['stage'], extraFiles: Record<string, string> = {}, metrics?: Record<string, unknown>) => {
+  const save = async (st: LoopState, stageName: CheckpointFile['stage'], extraFiles: Record<string, string> = {}, metrics?: Record<string, unknown>, holds?: HeldState) => {
     if (!opts.outDir) return;
     const meta = {
+      ...(holds ? { holds } : {}),
       provenance: prov(),
       config,
       length,
@@ -257,6 +271,16 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   training.message = loop.message;
   training.adamSteps = loop.state.step;
   training.reachedTarget = loop.reachedTarget;
+  const trainingSeconds = () => loop.state.secondsBefore + (performance.now() - tLoop) / 1000;
+  // The best state measured against the reference over every phase (issue 16: the last is not always the best).
+  let best: { held: HeldState; x: Float64Array } | null = null;
+  let last: Omit<HeldState, 'chosenBy' | 'phiError'> = { stage: 'adam', step: loop.state.step };
+  const offer = (held: Omit<HeldState, 'chosenBy'>) => {
+    if (held.phiError === undefined || !Number.isFinite(held.phiError)) return;
+    if (!best || held.phiError < best.held.phiError!) best = { held: { ...held, chosenBy: 'lowest-reference-error' }, x: nets.parameters.flatten() };
+  };
+  const lastAdam = loop.state.history[loop.state.history.length - 1];
+  if (lastAdam?.stage === 'adam' && lastAdam.step === loop.state.step) offer({ stage: 'adam', step: loop.state.step, phiError: lastAdam.phiError });
 
   if (loop.reason === 'diverged' || loop.reason === 'interrupted') {
     problem.dispose();
@@ -279,7 +303,6 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const cycles = tr.strategy === 'alternating' && nets.field ? tr.lbfgsCycles : 1;
     let r = { iterations: 0, f: Number.NaN, reason: 'none' };
     let iterations = 0;
-    const trainingSeconds = () => loop.state.secondsBefore + (performance.now() - tLoop) / 1000;
     for (let c = 0; c < cycles; c++) {
       // A stop asked during the polish lands between cycles (each cycle is one synchronous L-BFGS run).
       await yieldToEvents();
@@ -299,6 +322,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       const phiError = tr.evaluateEvery > 0 ? evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2 : undefined;
       loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
       stage(`L-BFGS cycle ${c + 1}/${cycles}: ${iterations} iterations, loss ${r.f.toExponential(3)}${phiError !== undefined ? `, φA error ${phiError.toExponential(3)}` : ''}`);
+      last = { stage: 'lbfgs', step: loop.state.step, lbfgsIterations: iterations };
+      offer({ ...last, phiError });
       if (phiError !== undefined && tr.targetPhiError !== undefined && phiError < tr.targetPhiError) {
         training.reachedTarget = { step: loop.state.step, seconds: trainingSeconds(), lbfgsIterations: iterations };
         r = { ...r, reason: 'target-reached' };
@@ -307,6 +332,64 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     }
     training.lbfgs = { iterations, finalLoss: r.f, reason: r.reason };
   }
+
+  const tr = config.training;
+  if (tr.secondOrderIterations > 0 && !training.reachedTarget) {
+    stage(`second-order phase (Levenberg–Marquardt, up to ${tr.secondOrderIterations} iterations)`);
+    const so = runSecondOrder(
+      nets,
+      config.system,
+      config.losses.weights,
+      {
+        iterations: tr.secondOrderIterations,
+        nx: tr.secondOrder.nx ?? config.collocation.nx,
+        nodesPerBlock: tr.secondOrder.nodesPerBlock ?? config.collocation.nodesPerBlock,
+        damping: tr.secondOrder.damping,
+        evaluateEvery: tr.secondOrder.evaluateEvery,
+        targetPhiError: tr.targetPhiError,
+        lossTolerance: tr.secondOrder.lossTolerance,
+        strategy: tr.secondOrder.strategy,
+        cycles: tr.secondOrder.cycles,
+        jointIterations: tr.secondOrder.jointIterations,
+        fieldMixing: tr.fieldMixing,
+        periods: reference.periods,
+      },
+      {
+        evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
+        shouldStop: opts.shouldStop,
+        onProgress: opts.onSecondOrder ?? ((p) => stage(`second-order ${p.iteration}/${p.iterations}: loss ${p.loss.toExponential(3)}, μ ${p.mu.toExponential(2)}${p.phiError !== undefined ? `, φA error ${p.phiError.toExponential(3)}` : ''}`)),
+        onRecord: (rec) =>
+          loop.state.history.push({
+            step: loop.state.step,
+            stage: 'second-order',
+            total: rec.loss,
+            terms: rec.terms,
+            learningRate: 0,
+            seconds: trainingSeconds(),
+            wallSeconds: (performance.now() - t0) / 1000,
+            secondOrderIterations: rec.iteration,
+            damping: rec.mu,
+            ...(rec.phiError !== undefined ? { phiError: rec.phiError } : {}),
+          }),
+      },
+    );
+    training.secondOrder = { iterations: so.iterations, finalLoss: so.loss, reason: so.reason, seconds: so.seconds, best: so.best };
+    last = { stage: 'second-order', step: loop.state.step, secondOrderIterations: so.best.iteration };
+    offer({ ...last, phiError: so.best.phiError });
+    if (so.reachedTarget) training.reachedTarget = { step: loop.state.step, seconds: trainingSeconds() - so.seconds + so.reachedTarget.seconds, secondOrderIterations: so.reachedTarget.iteration };
+    if (so.reason === 'interrupted') {
+      const held: HeldState = best ? (best as { held: HeldState }).held : { ...last, chosenBy: 'last' };
+      if (best) nets.parameters.unflatten((best as { x: Float64Array }).x);
+      await save(loop.state, 'second-order', {}, undefined, held);
+      problem.dispose();
+      adam.dispose();
+      nets.dispose();
+      throw new TrainingStopped('interrupted', `interrupted in the second-order phase at iteration ${so.iterations}; checkpoint saved`, opts.outDir, loop.state.step);
+    }
+  }
+  const kept = best as { held: HeldState; x: Float64Array } | null;
+  if (kept) nets.parameters.unflatten(kept.x);
+  training.holds = kept ? kept.held : { ...last, chosenBy: 'last' };
   training.seconds = (performance.now() - t0) / 1000;
 
   stage('evaluating against the reference');
@@ -324,10 +407,13 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     }
     training.transfer = report;
   }
+  const verdict = runVerdict(network, reference, errors, config.training.targetPhiError);
   const metrics: TrainMetrics = {
     backend: handle.backend,
     tfjs: handle.tfjsVersion,
-    phase: network.phase,
+    phase: verdict.ok ? network.phase : 'unconfirmed',
+    networkPhase: network.phase,
+    verdict,
     collapsed: network.phase === 'disordered',
     sharedPropagator: nets.shared,
     errors,
@@ -338,8 +424,10 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     runSeconds: (performance.now() - t0) / 1000,
   };
   if (opts.outDir) {
-    const networkFile = `${JSON.stringify(solutionToFile(network, prov(), config), null, 1)}\n`;
-    await save(loop.state, 'done', { 'metrics.json': `${JSON.stringify(metrics, null, 2)}\n`, 'network.json': networkFile }, metrics as unknown as Record<string, unknown>);
+    // The network's own phase stays in its solution file, with the verdict beside it when it is not ok.
+    const judged = verdict.ok ? network : { ...network, notes: [...network.notes, `not confirmed against the reference: ${verdict.warnings.join('; ')}`] };
+    const networkFile = `${JSON.stringify(solutionToFile(judged, prov(), config), null, 1)}\n`;
+    await save(loop.state, 'done', { 'metrics.json': `${JSON.stringify(metrics, null, 2)}\n`, 'network.json': networkFile }, metrics as unknown as Record<string, unknown>, training.holds);
   }
   problem.dispose();
   adam.dispose();

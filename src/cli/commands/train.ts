@@ -79,6 +79,11 @@ export function registerTrain(program: Command): void {
             backend,
             onStage: (m) => progress.update(m, true),
             shouldStop: stopRequested,
+            onSecondOrder: (p) =>
+              progress.update(
+                `second-order ${p.iteration}/${p.iterations} | loss ${fmt(p.loss)} | μ ${fmt(p.mu)}${p.phiError !== undefined ? ` | φA error ${fmt(p.phiError)}` : ''} | ${p.rate.toFixed(2)} it/s | ${formatDuration(p.secondsLeft)} left`,
+                p.iteration === p.iterations,
+              ),
             onProgress: (p) =>
               progress.update(
                 `step ${p.step}/${p.steps} | loss ${fmt(p.total)} (mde ${fmt(p.terms.mde)}${soft(p.terms)}, incomp ${fmt(p.terms.incompressibility)}, sc ${fmt(p.terms.selfConsistency)}, gauge ${fmt(p.terms.gauge)}) | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`,
@@ -86,7 +91,10 @@ export function registerTrain(program: Command): void {
               ),
           });
           const m = r.metrics;
-          const polish = m.training.lbfgs ? ` and ${m.training.lbfgs.iterations} L-BFGS iterations` : '';
+          const so = m.training.secondOrder;
+          const polish = `${m.training.lbfgs ? ` and ${m.training.lbfgs.iterations} L-BFGS iterations` : ''}${so ? ` and ${so.iterations} second-order iterations` : ''}`;
+          const h = m.training.holds;
+          const holds = `the networks hold the ${h.stage} state at step ${h.step}${h.lbfgsIterations !== undefined ? `, L-BFGS iteration ${h.lbfgsIterations}` : ''}${h.secondOrderIterations !== undefined ? `, second-order iteration ${h.secondOrderIterations}` : ''} (${h.chosenBy === 'last' ? 'the last state: no reference error was measured during training' : 'the lowest reference error measured'})`;
           progress.done(`${m.training.message}${polish} in ${formatDuration(m.training.seconds)} on ${m.backend}; checkpoint in ${outDir}`);
           if (flags.json) process.stdout.write(`${JSON.stringify({ checkpoint: outDir, ...m }, null, 2)}\n`);
           else {
@@ -96,6 +104,9 @@ export function registerTrain(program: Command): void {
                 `φA relative L2 error ${fmt(m.errors.phiA.relativeL2)} (max ${fmt(m.errors.phiA.maxError)}), wA − wB relative L2 ${fmt(m.errors.exchangeField.relativeL2)}`,
                 `Q relative error ${fmt(m.errors.QRelativeError)}, F error ${fmt(m.errors.freeEnergyError)} kT/chain (network ${m.network.freeEnergy.toFixed(6)}, reference ${m.reference.freeEnergy.toFixed(6)})`,
                 ...(m.training.transfer ? transferLines(m.training.transfer, m.training.transferredFrom!.checkpoint) : []),
+                holds,
+                ...m.verdict.warnings.map((w) => `warning: ${w}`),
+                `phase: ${m.phase}${m.verdict.ok ? '' : ` (the network's own φA would say ${m.networkPhase}; not confirmed against the reference)`}`,
                 `checkpoint ${outDir} (metrics.json, network.json, reference.json)`,
               ].join('\n') + '\n',
             );
@@ -106,6 +117,8 @@ export function registerTrain(program: Command): void {
             if (!flags.quiet) process.stderr.write(`train: wrote ${written.join(', ')}\n`);
           }
           out?.finish();
+          if (flags.json) for (const w of m.verdict.warnings) process.stderr.write(`train: warning: ${w}\n`);
+          if (m.verdict.aboveTarget) throw new RunFailure(`the run ended above its target: ${m.verdict.warnings[0]} (checkpoint ${outDir} holds it)`);
           if (m.collapsed) throw new RunFailure('the network collapsed to the disordered state (φA is flat); start from the spectral solution (warmStart.type "reference")');
         } catch (e) {
           // A stopped run keeps what it wrote (the last good checkpoint) as its output; anything else only drops the lock.

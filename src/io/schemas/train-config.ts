@@ -139,9 +139,55 @@ export const trainConfigSchema = z
         checkpointEvery: z.number().int().min(1).default(250),
         /** Stop as diverged when the loss exceeds this multiple of the best loss so far. */
         divergenceFactor: z.number().gt(1).default(1e4),
+        /**
+         * Second-order phase after Adam and L-BFGS: Levenberg–Marquardt iterations on the whole
+         * SCFT residual system in float64 (the MDE of every propagator, incompressibility,
+         * self-consistency and gauge; the field network trains jointly). 0: none.
+         */
+        secondOrderIterations: z.number().int().min(0).max(100000).default(0),
+        secondOrder: z
+          .object({
+            /** Cell grid points of the phase's residuals (default: collocation.nx). */
+            nx: z
+              .number()
+              .int()
+              .min(8)
+              .max(256)
+              .refine((n) => n % 2 === 0, { message: 'must be even (the grid of the periodic cell)' })
+              .optional(),
+            /** Contour steps per block of the phase's residuals (default: collocation.nodesPerBlock). */
+            nodesPerBlock: z
+              .number()
+              .int()
+              .min(4)
+              .max(256)
+              .refine((n) => n % 2 === 0, { message: "must be even (Simpson's rule for φ)" })
+              .optional(),
+            /**
+             * 'alternating': cycles of (field-network refit to the SCFT update, then LM on each
+             * propagator's MDE in those fields, one normal matrix per propagator); 'joint': LM on
+             * the whole system with the field network's parameters among the unknowns.
+             */
+            strategy: z.enum(['alternating', 'joint']).default('alternating'),
+            /** Alternating: the iterations are split over this many cycles. */
+            cycles: z.number().int().min(1).max(100).default(4),
+            /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
+            jointIterations: z.number().int().min(0).max(100000).default(0),
+            /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */
+            damping: z.enum(['marquardt', 'identity']).default('marquardt'),
+            /** Measure φ_A against the reference every this many iterations (0: at the end only); the best state is kept. */
+            evaluateEvery: z.number().int().min(0).default(5),
+            /** Stop once the loss (Σ r², the weighted terms) is below this. */
+            lossTolerance: z.number().min(0).default(0),
+          })
+          .strict()
+          .prefault({}),
         /** Evaluate φ_A error against the reference every this many steps (0: only at the end). */
         evaluateEvery: z.number().int().min(0).default(0),
-        /** Stop early once φ_A relative L2 error is below this (needs evaluateEvery > 0). */
+        /**
+         * Stop early once φ_A relative L2 error is below this (needs evaluateEvery > 0). It is also
+         * the run's verdict: a run that ends above it is reported as such, and `train` exits 3.
+         */
         targetPhiError: z.number().gt(0).optional(),
         /**
          * With initFrom: 'warm-start' also trains this config from a warm start on the

@@ -1,0 +1,108 @@
+/**
+ * `npm run bench -- --recipes`: the training recipes side by side (issue 16). For each
+ * system and network seed, today's recipe (warm start, Adam, L-BFGS cycles with field
+ * updates) and the second-order recipe (warm start, then Levenberg–Marquardt cycles on each
+ * propagator with field refits between them, training/second-order-phase.ts) are run; the
+ * table gives the training time (s, after the reference solve and the warm start) and the
+ * steps (Adam steps + L-BFGS iterations, or LM iterations) at which the φA relative L2 error
+ * against the spectral reference first fell below 1e-3, 1e-4 and 1e-5: min / median / max
+ * over the seeds that reached it, and how many did. Errors are measured every 100 Adam
+ * steps, after every L-BFGS cycle, and every 5 LM iterations (so the times are upper bounds
+ * at that resolution). Options: --seeds=N (default 5), --systems=name,name (default all),
+ * --budget=quick (shorter runs).
+ * The machine is shared while it runs: timings are wall-clock on whatever load there is.
+ */
+import { trainConfigSchema } from '../io/schemas/train-config.js';
+import type { TrainConfigInput } from '../io/schemas/train-config.js';
+import { trainRun } from '../training/train-run.js';
+
+const LEVELS = [1e-3, 1e-4, 1e-5];
+
+interface BenchSystem {
+  name: string;
+  system: TrainConfigInput['system'];
+  cell: TrainConfigInput['cell'];
+  /** Cold start (no reference fit): a chain in a prescribed field. */
+  cold?: boolean;
+}
+
+export const RECIPE_SYSTEMS: BenchSystem[] = [
+  { name: 'diblock-f0.5-chiN15', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 'optimize', nx: 64, ns: 100 } },
+  { name: 'diblock-f0.35-chiN22', system: { chain: { type: 'diblock', f: 0.35 }, chiN: 22 }, cell: { period: 'optimize', nx: 64, ns: 120 } },
+  { name: 'triblock-ABA-chiN20', system: { chain: { type: 'triblock', f: 0.5 }, chiN: 20 }, cell: { period: 'optimize', nx: 64, ns: 120 } },
+  { name: 'diblock-bA/bB1.5-chiN15', system: { chain: { type: 'diblock', f: 0.5, segmentLengths: { A: 1.5, B: 1 } }, chiN: 15 }, cell: { period: 'optimize', nx: 64, ns: 100 } },
+  {
+    name: 'homopolymer-external-field',
+    system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2, mode: 1, offset: 0 } } },
+    cell: { period: 4, nx: 64, ns: 100 },
+    cold: true,
+  },
+];
+
+type Recipe = 'adam+lbfgs' | 'second-order';
+
+/** The train config of a recipe (the second-order one is the shipped configs' recipe). */
+export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick: boolean): TrainConfigInput {
+  const warmStart = b.cold ? { type: 'none' as const } : { type: 'reference' as const, steps: 400, learningRate: 0.01 };
+  const base = { version: 1 as const, kind: 'train' as const, system: b.system, cell: b.cell, backend: 'wasm' as const, warmStart };
+  if (recipe === 'adam+lbfgs') {
+    return {
+      ...base,
+      networks: { field: { seed }, propagator: { seed } },
+      training: { steps: b.cold ? 600 : 300, learningRate: b.cold ? 0.002 : 0.001, evaluateEvery: 100, lbfgsIterations: quick ? 600 : 1500, lbfgsCycles: quick ? 2 : 5 },
+    };
+  }
+  return {
+    ...base,
+    networks: { field: { hidden: [16], seed }, propagator: { hidden: [12, 12], seed } },
+    collocation: { nx: 32, nodesPerBlock: 32, random: 0 },
+    training: { steps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 120, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6 } },
+  };
+}
+
+interface Reach {
+  seconds: number;
+  steps: number;
+}
+
+function median(v: number[]): number {
+  const s = [...v].sort((a, b) => a - b);
+  return s.length % 2 ? s[(s.length - 1) / 2] : 0.5 * (s[s.length / 2 - 1] + s[s.length / 2]);
+}
+
+function stats(v: number[]): string {
+  if (v.length === 0) return '—';
+  const s = [...v].sort((a, b) => a - b);
+  const med = median(s);
+  const f = (x: number) => (Number.isInteger(x) ? String(x) : x.toFixed(1));
+  return `${f(s[0])} / ${f(med)} / ${f(s[s.length - 1])}`;
+}
+
+export async function runRecipeBench(): Promise<void> {
+  const arg = (k: string) => process.argv.find((a) => a.startsWith(`--${k}=`))?.slice(k.length + 3);
+  const seeds = Number(arg('seeds') ?? 5);
+  const names = arg('systems')?.split(',');
+  const quick = arg('budget') === 'quick';
+  const systems = RECIPE_SYSTEMS.filter((s) => !names || names.includes(s.name));
+  console.log(`\ntraining recipes: time (s of training, after reference and warm start) and steps to φA relative L2 < 1e-3, 1e-4, 1e-5; ${seeds} seed(s)${quick ? ', quick budget' : ''}`);
+  const rows: string[] = ['| system | recipe | level | reached | seconds min / median / max | steps min / median / max | final φA error (median) |', '|---|---|---|---|---|---|---|'];
+  for (const b of systems) {
+    for (const recipe of ['adam+lbfgs', 'second-order'] as Recipe[]) {
+      const reach: Reach[][] = LEVELS.map(() => []);
+      const finals: number[] = [];
+      for (let seed = 1; seed <= seeds; seed++) {
+        const r = await trainRun({ config: trainConfigSchema.parse(recipeConfig(b, recipe, seed, quick)), backend: 'wasm' });
+        finals.push(r.metrics.errors.phiA.relativeL2);
+        LEVELS.forEach((level, li) => {
+          const hit = r.history.find((h) => h.phiError !== undefined && h.phiError < level);
+          if (hit) reach[li].push({ seconds: hit.seconds, steps: hit.step + (hit.lbfgsIterations ?? 0) + (hit.secondOrderIterations ?? 0) });
+        });
+        process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, ${r.metrics.training.seconds.toFixed(1)} s\n`);
+      }
+      LEVELS.forEach((level, li) => {
+        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seeds} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} |`);
+      });
+    }
+  }
+  console.log(rows.join('\n'));
+}

@@ -1,0 +1,221 @@
+/**
+ * The second-order phase of a train run: Levenberg–Marquardt (numerics/levenberg-marquardt.ts,
+ * Nielsen's damping update) on the whole SCFT residual system in float64
+ * (network/least-squares/scft-residual-system.ts): the MDE of every propagator, the
+ * incompressibility, self-consistency and gauge equations, with the field network trained
+ * jointly with the propagators. The normal matrix is assembled from the row groups of the
+ * Jacobian (numerics/grouped-normal-equations.ts) and factorised by Cholesky.
+ *
+ * Strategy 'alternating' (like the L-BFGS cycles of the train loop): LM on each propagator's
+ * MDE in the current fields (q and q† independent, so one normal matrix each), then the
+ * field network fitted by LM to the simple-mixing SCFT update of the networks' own φ
+ * (physics/scft-equations.ts), in float64, repeated;
+ * 'joint': LM on everything at once (one normal matrix over all parameters).
+ * The networks' tfjs variables (float32) are written only when the state is evaluated,
+ * refitted or kept; the iteration itself runs on its float64 copy of the parameters.
+ * Loss = Σ r² = the weighted total of losses/terms.ts on the phase's grid (the junction nodes
+ * count once per block they bound).
+ */
+import type { SystemSpec } from '../physics/chain-schema.js';
+import type { ScftNetworks } from '../network/scft-networks.js';
+import type { LossValues } from '../network/losses/terms.js';
+import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
+import type { ResidualPart } from '../network/least-squares/scft-residual-system.js';
+import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
+import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
+import type { LmStop } from '../numerics/levenberg-marquardt.js';
+import { mixedFieldUpdate } from '../physics/scft-equations.js';
+import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+
+/** LM iterations of each field-network fit (a small least-squares problem over the field network alone). */
+const FIELD_FIT_ITERATIONS = 20;
+
+export interface SecondOrderSettings {
+  iterations: number;
+  nx: number;
+  nodesPerBlock: number;
+  damping: 'marquardt' | 'identity';
+  /** Evaluate against the reference every this many iterations (0: at the end only). */
+  evaluateEvery: number;
+  /** Stop once the reference error is below this. */
+  targetPhiError?: number;
+  /** Stop once the loss is below this. */
+  lossTolerance: number;
+  /**
+   * 'alternating': cycles of (field step, then LM on each propagator's MDE in the current
+   * fields: per-propagator normal matrices, the Jacobian being block-diagonal between them);
+   * 'joint': LM on the whole system with the field network among the parameters.
+   */
+  strategy: 'alternating' | 'joint';
+  cycles: number;
+  /** Joint iterations after the alternating cycles (on top of `iterations`). */
+  jointIterations: number;
+  /** λ of the field step's simple-mixing update w + λ d (physics/scft-equations.ts). */
+  fieldMixing: number;
+  /** Lamellar periods in the cell (the harmonic whose phase the field step pins). */
+  periods: number;
+}
+
+export interface SecondOrderProgress {
+  iteration: number;
+  iterations: number;
+  loss: number;
+  mu: number;
+  /** Iterations per second so far. */
+  rate: number;
+  secondsLeft: number;
+  phiError?: number;
+}
+
+export interface SecondOrderRecord {
+  iteration: number;
+  loss: number;
+  terms: LossValues;
+  mu: number;
+  seconds: number;
+  phiError?: number;
+}
+
+export interface SecondOrderHooks {
+  /** φ_A relative L2 error of the networks as they are now (their tfjs variables). */
+  evaluate?: () => number;
+  shouldStop?: () => boolean;
+  onProgress?: (p: SecondOrderProgress) => void;
+  /** Every iteration, in order (for the run's history). */
+  onRecord?: (r: SecondOrderRecord) => void;
+}
+
+export interface SecondOrderResult {
+  iterations: number;
+  loss: number;
+  reason: LmStop | 'target-reached' | 'interrupted';
+  seconds: number;
+  /** The kept state: lowest reference error when evaluated, else lowest loss. */
+  best: { iteration: number; loss: number; phiError?: number };
+  /** First iteration (and seconds) at which the reference error fell below the target. */
+  reachedTarget?: { iteration: number; seconds: number };
+}
+
+export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: LossValues, settings: SecondOrderSettings, hooks: SecondOrderHooks = {}): SecondOrderResult {
+  const t0 = performance.now();
+  const seconds = () => (performance.now() - t0) / 1000;
+  const sys = new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.nodesPerBlock }, weights);
+  let theta = nets.parameters.flatten();
+  const lossOf = (x: Float64Array) => sys.evaluate(x, false);
+  const evaluated = Boolean(hooks.evaluate);
+  const target = settings.targetPhiError;
+  let best = { iteration: 0, loss: 2 * lossOf(theta).cost, phiError: evaluated ? hooks.evaluate!() : undefined, x: theta };
+  let stopped: SecondOrderResult['reason'] | null = null;
+  let reachedTarget: SecondOrderResult['reachedTarget'];
+  if (best.phiError !== undefined && target !== undefined && best.phiError < target) {
+    reachedTarget = { iteration: 0, seconds: 0 };
+    stopped = 'target-reached';
+  }
+  let done = 0;
+  const total = settings.iterations + (settings.strategy === 'alternating' ? settings.jointIterations : 0);
+  let lastLoss = best.loss;
+  let lastReason: LmStop = 'maxIterations';
+
+  /** The common bookkeeping of every LM iteration (any part): history, evaluation, best state, stop. */
+  const record = (mu: number, full: Float64Array): boolean => {
+    done++;
+    const last = done === total;
+    let phiError: number | undefined;
+    if (evaluated && (last || (settings.evaluateEvery > 0 && done % settings.evaluateEvery === 0))) {
+      nets.parameters.unflatten(full);
+      phiError = hooks.evaluate!();
+    }
+    const e = lossOf(full);
+    const loss = 2 * e.cost;
+    lastLoss = loss;
+    const better = evaluated ? phiError !== undefined && !(phiError >= (best.phiError ?? Infinity)) : loss < best.loss;
+    if (better) best = { iteration: done, loss, phiError, x: Float64Array.from(full) };
+    const t = seconds();
+    hooks.onRecord?.({ iteration: done, loss, terms: e.terms, mu, seconds: t, ...(phiError !== undefined ? { phiError } : {}) });
+    const rate = done / Math.max(1e-9, t);
+    hooks.onProgress?.({ iteration: done, iterations: total, loss, mu, rate, secondsLeft: (total - done) / rate, ...(phiError !== undefined ? { phiError } : {}) });
+    if (phiError !== undefined && target !== undefined && phiError < target) {
+      reachedTarget = { iteration: done, seconds: t };
+      stopped = 'target-reached';
+      return false;
+    }
+    if (hooks.shouldStop?.()) {
+      stopped = 'interrupted';
+      return false;
+    }
+    return loss > settings.lossTolerance;
+  };
+
+  /** LM on one part: the whole system, or one propagator's columns in the current fields. */
+  const solvePart = (part: ResidualPart, iterations: number) => {
+    const { first, count } = part === 'all' ? { first: 0, count: sys.size } : sys.columnsOf(part);
+    const embed = (xs: Float64Array) => {
+      if (part === 'all') return xs;
+      const full = Float64Array.from(theta);
+      full.set(xs, first);
+      return full;
+    };
+    const r = levenbergMarquardt(
+      {
+        size: count,
+        cost: (xs) => sys.evaluate(embed(xs), false, part).cost,
+        linearise: (xs) => {
+          const e = sys.evaluate(embed(xs), true, part);
+          const groups = first === 0 ? e.groups! : e.groups!.map((g) => ({ ...g, columns: g.columns.map((c) => c - first) }));
+          const { A, g } = groupedNormalEquations(count, groups);
+          return { kind: 'normal', cost: e.cost, A, g };
+        },
+      },
+      theta.slice(first, first + count),
+      { maxIterations: iterations, damping: settings.damping, onIteration: (it, xs) => record(it.mu, embed(xs)) },
+    );
+    theta = embed(r.x);
+    lastReason = r.reason;
+  };
+
+  // The field step of the alternating strategy, all in float64: the SCFT update of the networks'
+  // own φ, the lamella's phase pinned where it started (physics/translation.ts: the translation
+  // mode is a zero mode of the iteration), and the field network fitted to it by LM.
+  const twoSpecies = nets.chain.species.length === 2;
+  const pinPhase = nets.field && twoSpecies ? lamellarPhase(sys.state(theta).w, settings.periods).phase : null;
+  const fieldStep = () => {
+    const { phi, w } = sys.state(theta);
+    const { w: target } = mixedFieldUpdate(nets.chain, system.chiN, w, phi, settings.fieldMixing);
+    if (pinPhase !== null) pinLamellarPhase(target, new PeriodicCell(nets.length, sys.nx, settings.periods), pinPhase);
+    const fit = sys.fieldFit(theta, target);
+    const r = levenbergMarquardt(fit, theta.slice(fit.first, fit.first + fit.size), { maxIterations: FIELD_FIT_ITERATIONS, damping: settings.damping });
+    theta = Float64Array.from(theta);
+    theta.set(r.x, fit.first);
+  };
+
+  if (!stopped) {
+    if (settings.strategy === 'joint') solvePart('all', settings.iterations);
+    else {
+      const sides: ResidualPart[] = nets.shared ? ['q'] : ['q', 'qDagger'];
+      const perCycle = Math.max(1, Math.ceil(settings.iterations / (settings.cycles * sides.length)));
+      for (let c = 0; c < settings.cycles && !stopped && done < settings.iterations; c++) {
+        if (c > 0 && nets.field) fieldStep();
+        for (const side of sides) {
+          if (stopped || done >= settings.iterations) break;
+          solvePart(side, Math.min(perCycle, settings.iterations - done));
+        }
+      }
+      if (!stopped && settings.jointIterations > 0) {
+        if (nets.field) fieldStep();
+        solvePart('all', settings.jointIterations);
+      }
+    }
+  }
+  // The kept state: the lowest reference error measured, or with no evaluation the last iterate.
+  if (!evaluated) best = { iteration: done, loss: lastLoss, phiError: undefined, x: theta };
+  nets.parameters.unflatten(best.x);
+  return {
+    iterations: done,
+    loss: lastLoss,
+    reason: stopped ?? lastReason,
+    seconds: seconds(),
+    best: { iteration: best.iteration, loss: best.loss, ...(best.phiError !== undefined ? { phiError: best.phiError } : {}) },
+    ...(reachedTarget ? { reachedTarget } : {}),
+  };
+}

@@ -1,0 +1,102 @@
+import { describe, expect, it } from 'vitest';
+import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
+import { selectBackend } from '../../src/autodiff/backend.js';
+import { buildScftNetworks } from '../../src/network/scft-networks.js';
+import { ScftProblem } from '../../src/network/problem/scft-problem.js';
+import { ScftResidualSystem } from '../../src/network/least-squares/scft-residual-system.js';
+import { buildChain } from '../../src/physics/chain.js';
+import type { ResidualGroup } from '../../src/numerics/grouped-normal-equations.js';
+
+const unit = { mde: 1, periodicity: 1, initial: 1, incompressibility: 1, selfConsistency: 1, gauge: 1 };
+
+/** Every residual of the groups as one vector (groups in order, rows in order). */
+function residualVector(groups: ResidualGroup[]): Float64Array {
+  return Float64Array.from(groups.flatMap((g) => Array.from(g.r)));
+}
+
+async function setup(chainSpec: object, chiN: number, withField: boolean, extra: object = {}) {
+  const { tf } = await selectBackend('cpu');
+  const config = trainConfigSchema.parse({
+    version: 1,
+    kind: 'train',
+    system: { chain: chainSpec, chiN, ...extra },
+    networks: { field: { hidden: [5] }, propagator: { hidden: [5, 4], fourierModes: 2 } },
+    collocation: { nx: 8, nodesPerBlock: 4, random: 0 },
+  });
+  const chain = buildChain(config.system.chain);
+  const nets = buildScftNetworks(tf, config, chain, 3.7, withField);
+  // Move the parameters off Glorot's draw so every term is well away from 0.
+  const x0 = nets.parameters.flatten().map((v, i) => v + 0.05 * Math.sin(1.7 * i));
+  nets.parameters.unflatten(x0);
+  return { tf, config, nets, x0: nets.parameters.flatten() };
+}
+
+describe('ScftResidualSystem (float64 residuals and Jacobian of the SCFT equations)', () => {
+  for (const [label, spec, chiN] of [
+    ['asymmetric diblock', { type: 'diblock', f: 0.4, segmentLengths: { A: 1.3, B: 1 } }, 14],
+    ['symmetric ABA triblock (one shared propagator network)', { type: 'triblock', f: 0.5 }, 18],
+  ] as const) {
+    it(`${label}: Jacobian columns match central differences of the residuals`, async () => {
+      const { nets, config, x0 } = await setup(spec, chiN, true);
+      const sys = new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit);
+      const at = sys.evaluate(x0, true);
+      const groups = at.groups!;
+      // Central differences of the residual vector (common practice, no source).
+      const probes = [0, 3, 40, Math.floor(x0.length / 2), x0.length - 30, x0.length - 1];
+      for (const k of probes) {
+        const h = 1e-6;
+        const xp = Float64Array.from(x0);
+        xp[k] += h;
+        const xm = Float64Array.from(x0);
+        xm[k] -= h;
+        const rp = residualVector(sys.evaluate(xp, true).groups!);
+        const rm = residualVector(sys.evaluate(xm, true).groups!);
+        let row = 0;
+        let worst = 0;
+        let scale = 0;
+        for (const g of groups) {
+          const kc = g.columns.indexOf(k);
+          for (let i = 0; i < g.r.length; i++, row++) {
+            const fd = (rp[row] - rm[row]) / (2 * h);
+            const an = kc < 0 ? 0 : g.J[i * g.columns.length + kc];
+            worst = Math.max(worst, Math.abs(fd - an));
+            scale = Math.max(scale, Math.abs(fd));
+          }
+        }
+        expect(scale).toBeGreaterThan(0);
+        expect(worst).toBeLessThan(1e-6 * Math.max(1, scale));
+      }
+      // ½ Σ r² of the groups is the cost the system reports.
+      const r = residualVector(groups);
+      expect(0.5 * r.reduce((s, v) => s + v * v, 0)).toBeCloseTo(at.cost, 12);
+    });
+  }
+
+  it('field-equation terms equal the tfjs loss terms of ScftProblem (an independent float32 implementation)', async () => {
+    const { tf, nets, config, x0 } = await setup({ type: 'diblock', f: 0.4 }, 14, true);
+    const sys = new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit);
+    const mine = sys.evaluate(x0, false).terms;
+    const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
+    const theirs = tf.tidy(() => {
+      const t = problem.terms();
+      return { incompressibility: t.incompressibility.dataSync()[0], selfConsistency: t.selfConsistency.dataSync()[0], gauge: t.gauge.dataSync()[0] };
+    });
+    problem.dispose();
+    for (const k of ['incompressibility', 'selfConsistency', 'gauge'] as const) {
+      expect(mine[k]).toBeGreaterThan(1e-6);
+      expect(Math.abs(mine[k] - theirs[k])).toBeLessThan(1e-4 * mine[k]);
+    }
+  });
+
+  it('one-block chain in an external field: the MDE term equals the tfjs one (same points: no junctions)', async () => {
+    const ext = { externalField: { A: { type: 'cosine', amplitude: 2, mode: 1, offset: 0 } } };
+    const { tf, nets, config, x0 } = await setup({ type: 'homopolymer', species: 'A' }, 0, false, ext);
+    const sys = new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit);
+    const mine = sys.evaluate(x0, false).terms;
+    const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
+    const theirs = tf.tidy(() => problem.terms().mde.dataSync()[0]);
+    problem.dispose();
+    expect(mine.mde).toBeGreaterThan(1e-4);
+    expect(Math.abs(mine.mde - theirs)).toBeLessThan(1e-4 * mine.mde);
+  });
+});
