@@ -36,7 +36,7 @@ const surrogateFileSchema = z.object({
     .passthrough(),
 });
 
-const SYMBOLS: Record<string, string> = { chiN: 'χN', f: 'f', segmentLengthRatio: 'b_A/b_B' };
+const SYMBOLS: Record<string, string> = { chiN: 'χN', f: 'f', segmentRatio: 'b_A/b_B' };
 
 export function surrogateInput(raw: unknown, path: string): SurrogateInput {
   const file = parseOrThrow(surrogateFileSchema, raw, path);

@@ -2,7 +2,7 @@
  * The parameter box of a surrogate: which of χN, f, b_A/b_B vary, their ranges, the anchor
  * grid (reference solves), held-out points, uniform draws, and the networks' normalised
  * inputs θ̂ = (θ − mid)/half-range ∈ [−1, 1] per varying parameter.
- * χN and f as in SCFT-NOTES.md; a ratio r = b_A/b_B sets segment lengths { A: r, B: 1 }.
+ * χN and f as in SCFT-NOTES.md; a ratio r = b_A/b_B is the chain's segmentRatio (segment lengths { A: r, B: 1 }).
  */
 import { InputError } from '../io/errors.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
@@ -12,7 +12,7 @@ import type { Chain } from '../physics/chain.js';
 import { Xorshift128 } from '../numerics/random.js';
 import { pointSystem } from '../sweep/grid.js';
 
-export const PARAMETER_NAMES = ['chiN', 'f', 'segmentLengthRatio'] as const;
+export const PARAMETER_NAMES = ['chiN', 'f', 'segmentRatio'] as const;
 export type ParameterName = (typeof PARAMETER_NAMES)[number];
 export type ParameterPoint = Record<ParameterName, number>;
 
@@ -20,7 +20,7 @@ export type ParameterPoint = Record<ParameterName, number>;
 export const PARAMETER_LABELS: Record<ParameterName, { flag: string; symbol: string }> = {
   chiN: { flag: '--chiN', symbol: 'χN' },
   f: { flag: '--f', symbol: 'f' },
-  segmentLengthRatio: { flag: '--ratio', symbol: 'b_A/b_B' },
+  segmentRatio: { flag: '--segment-ratio', symbol: 'b_A/b_B' },
 };
 
 export interface Axis {
@@ -31,12 +31,12 @@ export interface Axis {
 }
 
 export class ParameterSpace {
-  /** The varying parameters, in the order chiN, f, segmentLengthRatio. */
+  /** The varying parameters, in the order chiN, f, segmentRatio. */
   readonly axes: Axis[];
   /** Values of the parameters that do not vary. */
   readonly fixed: Partial<ParameterPoint>;
 
-  constructor(readonly config: Pick<SurrogateConfig, 'chain' | 'parameters'>) {
+  constructor(readonly config: Pick<SurrogateConfig, 'system' | 'parameters'>) {
     const axes: Axis[] = [];
     const fixed: Partial<ParameterPoint> = {};
     for (const name of PARAMETER_NAMES) {

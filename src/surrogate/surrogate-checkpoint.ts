@@ -16,7 +16,7 @@ import { readWeightsDirectory, writeWeightsDirectory } from '../training/checkpo
 import { InputError } from '../io/errors.js';
 import { SurrogateModel } from './surrogate-model.js';
 
-const pointSchema = z.object({ chiN: z.number(), f: z.number(), segmentLengthRatio: z.number() });
+const pointSchema = z.object({ chiN: z.number(), f: z.number(), segmentRatio: z.number() });
 
 export const surrogateHistorySchema = z.object({
   /** 0: the fit to the reference data; k ≥ 1: physics round k. */

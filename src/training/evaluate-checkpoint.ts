@@ -57,7 +57,7 @@ export async function evaluateCheckpoint(dir: string, backend: BackendKind = 'au
     return { A: Float64Array.from(f.grid.wA), B: Float64Array.from(f.grid.wB) };
   })() : undefined;
   const ref = solveFromConfig(
-    { system: config.system, cell: { kind: 'periodic', period: file.length / file.periods, periods: file.periods, nx: config.cell.nx, ns: config.cell.ns }, solver: config.reference, output: { propagators: true } },
+    { system: config.system, cell: { kind: 'periodic', period: file.length / file.periods, periods: file.periods, nx: config.cell.nx, ns: config.cell.ns }, solver: config.solver, output: { propagators: true } },
     { initial },
   );
   const { network, errors } = evaluateNetworks(tf, nets, config, ref.solution, true);

@@ -146,7 +146,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       throw new InputError(`--resume ${opts.resumeDir}: checkpoint was trained for another system (${JSON.stringify(resumed.file.config.system)}); use initFrom for transfer`);
     }
     // The resumed run continues the checkpoint's own schedule, with the new step budget.
-    config = { ...resumed.file.config, training: { ...resumed.file.config.training, steps: Math.max(config.training.steps, resumed.file.step) } };
+    config = { ...resumed.file.config, training: { ...resumed.file.config.training, adamSteps: Math.max(config.training.adamSteps, resumed.file.step) } };
   }
   const handle = await selectBackend(opts.backend ?? config.backend);
   const tf = handle.tf;
@@ -155,7 +155,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
 
   stage('reference solve');
   const cell = resumed ? { ...config.cell, period: resumed.file.length / resumed.file.periods } : config.cell;
-  const ref = solveFromConfig({ system: config.system, cell, solver: config.reference, output: { propagators: true } });
+  const ref = solveFromConfig({ system: config.system, cell, solver: config.solver, output: { propagators: true } });
   const reference = ref.solution;
   if (!reference.converged) throw new InputError(`reference: the spectral solve did not converge (${reference.notes.join('; ')})`);
   if (reference.phase === 'disordered') {
@@ -190,12 +190,12 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     nets.parameters.loadNamedWeights(splitWeights(src.weights).params);
     training.transferredFrom = { checkpoint: config.initFrom, chiN: src.file.config.system.chiN, f: srcChain.speciesFraction.A };
     stage(`transfer from ${config.initFrom} (χN = ${src.file.config.system.chiN})`);
-  } else if (config.warmStart.type !== 'none' && config.warmStart.steps > 0) {
+  } else if (config.warmStart.type !== 'none' && config.warmStart.adamSteps > 0) {
     const ws = config.warmStart;
     const fromReference = ws.type === 'reference';
     const w = fromReference ? reference.w : cosineStart(chain, config.system.chiN, reference.cell, 0.3);
     stage(fromReference ? 'warm start: fitting the networks to the spectral solution' : 'cold start: fitting the field network to a cosine guess');
-    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.steps, ws.learningRate);
+    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.adamSteps, ws.learningRate);
     training.warmStart = r;
   }
 

@@ -107,7 +107,7 @@ describe('mesofield invert', () => {
     const a = JSON.parse(runCli(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--json', '--quiet']).stdout).estimators.classical;
     expect(Math.abs(a.chiN / 15 - 1)).toBeLessThan(1e-4);
     expect(a.periodNm).toBeCloseTo(a.period * 2.8, 10);
-    const cfg = write(dir, 'cfg.json', JSON.stringify({ version: 1, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, grid: { nx: 32, ns: 60 }, units: { segments: 96, segmentLengthNm: 0.7 }, chiNRange: [11, 30] }));
+    const cfg = write(dir, 'cfg.json', JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, cell: { nx: 32, ns: 60 }, units: { segments: 96, segmentLengthNm: 0.7 }, chiNRange: [11, 30] }));
     const r = runCli(['invert', p, cfg, '--json', '--quiet']);
     expect(r.code).toBe(0);
     const b = JSON.parse(r.stdout);
@@ -177,7 +177,7 @@ describe('mesofield invert', () => {
       ['non-numeric chiN range', [one, '--f', '0.5', '--chiN-range', 'a,b'], /--chiN-range: got "a,b"; allowed: two numbers lo,hi/],
       ['range that excludes the fit', [one, '--f', '0.5', '--chiN-range', '20,40'], /--chiN-range: the best fit runs to the lower bound χN = 20/],
       ['bad period word', [one, '--f', '0.5', '--period', 'stressfree'], /--period: got "stressfree"; allowed: a number/],
-      ['bad nx', [one, '--f', '0.5', '--nx', '48'], /flags: grid\.nx: got 48;.*power of two/],
+      ['bad nx', [one, '--f', '0.5', '--nx', '48'], /flags: cell\.nx: got 48;.*power of two/],
       ['Rg given twice', [one, '--f', '0.5', '--rg-nm', '2', '--segments', '100'], /--rg-nm: give either --rg-nm or --segments/],
       ['segments without a length', [one, '--f', '0.5', '--segments', '100'], /--segment-length-nm: missing/],
       ['missing profile', [join(dir, 'nope.csv'), '--f', '0.5'], /nope\.csv: cannot read the file \(ENOENT\)/],
@@ -195,7 +195,7 @@ describe('mesofield invert', () => {
   it('bad config files: unknown field, wrong kind, bad JSON', () => {
     const dir = tmp();
     const p = synth(dir);
-    const base = { version: 1, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } } };
+    const base = { version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } } };
     const unknown = runCli(['invert', p, write(dir, 'u.json', JSON.stringify({ ...base, colour: 'red' }))]);
     expect(unknown.code).toBe(2);
     expect(unknown.stderr).toMatch(/u\.json: \(top level\): unknown field\(s\) "colour"/);
@@ -205,6 +205,6 @@ describe('mesofield invert', () => {
     expect(chiN.stderr).toMatch(/c\.json: system: unknown field\(s\) "chiN"/);
     const method = runCli(['invert', p, write(dir, 'm.json', JSON.stringify({ ...base, method: 'neural' }))]);
     expect(method.stderr).toMatch(/m\.json: method: got "neural"/);
-    expect(runCli(['invert', p, write(dir, 'b.json', '{ "version": 1,')]).stderr).toMatch(/b\.json: not valid JSON/);
+    expect(runCli(['invert', p, write(dir, 'b.json', '{ "version": 2,')]).stderr).toMatch(/b\.json: not valid JSON/);
   });
 });

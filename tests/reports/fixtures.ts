@@ -8,7 +8,7 @@ import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import type { ScftSolution } from '../../src/physics/result.js';
 import type { InversionInput, ReportInput, RunInfo, TrainingInput } from '../../src/reports/report-inputs.js';
 
-export const SYSTEM = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+export const SYSTEM = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
 export const LENGTH = 3.7;
 export const NX = 32;
 export const NS = 40;

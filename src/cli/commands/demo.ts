@@ -28,21 +28,21 @@ import { action } from '../run-command.js';
 export const DEMO_SYSTEM = { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } as const;
 
 export const DEMO_SOLVE_CONFIG = {
-  version: 1,
+  version: 2,
   kind: 'solve',
   system: DEMO_SYSTEM,
-  cell: { period: 'optimize', periods: 1, nx: 64, ns: 100 },
+  cell: { period: 'equilibrium', periods: 1, nx: 64, ns: 100 },
   output: { propagators: true },
 } as const;
 
 export const DEMO_TRAIN_CONFIG = {
-  version: 1,
+  version: 2,
   kind: 'train',
   system: DEMO_SYSTEM,
-  cell: { period: 'optimize', nx: 64, ns: 100 },
-  warmStart: { type: 'reference', steps: 400, learningRate: 0.01 },
+  cell: { period: 'equilibrium', nx: 64, ns: 100 },
+  warmStart: { type: 'reference', adamSteps: 400, learningRate: 0.01 },
   // Adam, then L-BFGS cycles with field updates between them (the measured-best recipe, on a short budget).
-  training: { steps: 300, learningRate: 0.001, evaluateEvery: 100, lbfgsIterations: 900, lbfgsCycles: 3 },
+  training: { adamSteps: 300, learningRate: 0.001, evaluateEvery: 100, lbfgsIterations: 900, lbfgsCycles: 3 },
 } as const;
 
 const report = (runDir: string, outDir: string) => reportRunDirectory(runDir, outDir);

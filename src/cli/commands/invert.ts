@@ -35,8 +35,8 @@ interface InvertFlags {
   profilePoints?: string;
   seeds?: string;
   workers?: string;
-  networkSteps?: string;
-  networkLbfgs?: string;
+  adamSteps?: string;
+  lbfgsIterations?: string;
   backend?: string;
   report?: boolean;
   quiet?: boolean;
@@ -55,10 +55,15 @@ function chiNRangeFlag(value: string | undefined): [number, number] | undefined 
 
 /** Flags on top of the config file (or of an empty diblock config). */
 export function buildInvertConfig(configPath: string | undefined, flags: InvertFlags): { config: InvertConfig; sources: Record<string, string> } {
-  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 1, kind: 'invert', system: { chain: { type: 'diblock' } } };
+  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 2, kind: 'invert', system: { chain: { type: 'diblock' } } };
   const src = configPath ?? 'flags';
-  const fromFile = (key: string, flag: string) => (configPath && raw[key] !== undefined ? `${configPath}: ${key}` : flag);
-  const sources: Record<string, string> = { method: fromFile('method', '--method'), period: fromFile('period', '--period'), chiNRange: fromFile('chiNRange', '--chiN-range') };
+  const cell = obj(raw, 'cell');
+  const fromFile = (block: Record<string, unknown>, key: string, path: string, flag: string) => (configPath && block[key] !== undefined ? `${configPath}: ${path}` : flag);
+  const sources: Record<string, string> = {
+    method: fromFile(raw, 'method', 'method', '--method'),
+    period: fromFile(cell, 'period', 'cell.period', '--period'),
+    chiNRange: fromFile(raw, 'chiNRange', 'chiNRange', '--chiN-range'),
+  };
   const chain = obj(obj(raw, 'system'), 'chain');
   if (chain.type === undefined) chain.type = 'diblock';
   const f = numberFlag('--f', flags.f);
@@ -67,9 +72,9 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
   const network = obj(raw, 'network');
   const seeds = numberFlag('--seeds', flags.seeds);
   if (seeds !== undefined) network.seeds = seeds;
-  const nsteps = numberFlag('--network-steps', flags.networkSteps);
-  if (nsteps !== undefined) network.steps = nsteps;
-  const nlbfgs = numberFlag('--network-lbfgs', flags.networkLbfgs);
+  const nsteps = numberFlag('--adam-steps', flags.adamSteps);
+  if (nsteps !== undefined) network.adamSteps = nsteps;
+  const nlbfgs = numberFlag('--lbfgs-iterations', flags.lbfgsIterations);
   if (nlbfgs !== undefined) network.lbfgsIterations = nlbfgs;
   if (flags.backend !== undefined) network.backend = flags.backend;
   if (flags.method !== undefined) {
@@ -77,7 +82,7 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
     sources.method = '--method';
   }
   if (flags.period !== undefined) {
-    raw.period = flags.period === 'equilibrium' || flags.period === 'free' ? flags.period : numberFlag('--period', flags.period);
+    cell.period = flags.period === 'equilibrium' || flags.period === 'free' ? flags.period : numberFlag('--period', flags.period);
     sources.period = '--period';
   }
   const range = chiNRangeFlag(flags.chiNRange);
@@ -87,11 +92,10 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
   }
   const res = numberFlag('--resolution', flags.resolution);
   if (res !== undefined) raw.resolution = res;
-  const grid = obj(raw, 'grid');
   const nx = numberFlag('--nx', flags.nx);
-  if (nx !== undefined) grid.nx = nx;
+  if (nx !== undefined) cell.nx = nx;
   const ns = numberFlag('--ns', flags.ns);
-  if (ns !== undefined) grid.ns = ns;
+  if (ns !== undefined) cell.ns = ns;
   const pp = numberFlag('--profile-points', flags.profilePoints);
   if (pp !== undefined) raw.profilePoints = pp;
   const unitFlags = { rgNm: numberFlag('--rg-nm', flags.rgNm), segments: numberFlag('--segments', flags.segments), segmentLengthNm: numberFlag('--segment-length-nm', flags.segmentLengthNm) };
@@ -111,8 +115,8 @@ export function registerInvert(program: Command): void {
     .option('--method <m>', 'classical | network | both')
     .option('--seeds <n>', 'network: independent seeded trainings (their spread is reported)')
     .option('--workers <k>', 'network: worker threads training seeds at once (default: min(2, cores))')
-    .option('--network-steps <n>', 'network: Adam steps per seed')
-    .option('--network-lbfgs <n>', 'network: L-BFGS iterations per seed after the Adam steps')
+    .option('--adam-steps <n>', 'network: Adam steps per seed (network.adamSteps)')
+    .option('--lbfgs-iterations <n>', 'network: L-BFGS iterations per seed after the Adam steps (network.lbfgsIterations)')
     .option('--backend <b>', 'network: tfjs backend auto | native | wasm | cpu')
     .option('--period <mode>', 'equilibrium (stress-free at each χN, default) | free (fitted) | L (given, in the units of x)')
     .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')
@@ -140,14 +144,14 @@ export function registerInvert(program: Command): void {
         }
         const data = parseProfileCsv(text, profilePath, units);
         const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
-        const period: PeriodMode = typeof config.period === 'number' ? { mode: 'given', value: toRg(config.period) } : { mode: config.period };
+        const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
         const progress = new Progress('invert', flags.quiet);
         let estimate;
         try {
           estimate = estimateClassical(data, {
             chain: config.system.chain,
-            nx: config.grid.nx,
-            ns: config.grid.ns,
+            nx: config.cell.nx,
+            ns: config.cell.ns,
             solver: config.solver,
             period,
             chiNRange: config.chiNRange as [number, number] | undefined,
@@ -171,7 +175,7 @@ export function registerInvert(program: Command): void {
           ne = await estimateNetwork(data, estimate, {
             chain: config.system.chain,
             seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
-            steps: net.steps,
+            steps: net.adamSteps,
             fieldUpdateEvery: net.fieldUpdateEvery,
             lbfgsIterations: net.lbfgsIterations,
             lbfgsPerUpdate: net.lbfgsPerUpdate,

@@ -14,7 +14,7 @@ import { backendFlag } from './train.js';
 interface PredictFlags {
   chiN?: string;
   f?: string;
-  ratio?: string;
+  segmentRatio?: string;
   points?: string;
   json?: boolean;
   out?: string;
@@ -38,7 +38,7 @@ export function registerPredict(program: Command): void {
     .argument('<checkpoint>', 'surrogate checkpoint directory written by train (kind "surrogate")')
     .option('--chiN <x>', 'χN of the point')
     .option('--f <f>', 'A fraction (needed when the surrogate varies f)')
-    .option('--ratio <r>', 'b_A/b_B (needed when the surrogate varies it)')
+    .option('--segment-ratio <r>', 'b_A/b_B (needed when the surrogate varies it)')
     .option('--points <n>', 'x points over one period (default: the training grid)')
     .option('--json', 'print the prediction as JSON on stdout')
     .option('--out <file>', 'write the prediction to FILE (.csv: the profile table; otherwise JSON)')
@@ -64,7 +64,7 @@ export function registerPredict(program: Command): void {
         const { file, model } = loadSurrogate(handle.tf, dir);
         const loadSeconds = (performance.now() - t0) / 1000;
         try {
-          const given: Record<string, string | undefined> = { chiN: flags.chiN, f: flags.f, segmentLengthRatio: flags.ratio };
+          const given: Record<string, string | undefined> = { chiN: flags.chiN, f: flags.f, segmentRatio: flags.segmentRatio };
           const point = {} as ParameterPoint;
           for (const name of PARAMETER_NAMES) {
             const { flag, symbol } = PARAMETER_LABELS[name];

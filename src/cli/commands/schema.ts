@@ -5,15 +5,9 @@
 import type { Command } from 'commander';
 import { z } from 'zod';
 import { InputError } from '../../io/errors.js';
-import { invertConfigSchema } from '../../io/schemas/invert-config.js';
-import { solveConfigSchema } from '../../io/schemas/solve-config.js';
-import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
-import { sweepConfigSchema } from '../../io/schemas/sweep-config.js';
-import { trainConfigSchema } from '../../io/schemas/train-config.js';
+import { CONFIG_SCHEMAS } from '../../io/schemas/config-schemas.js';
 import { action } from '../run-command.js';
 import { configReferenceMarkdown } from '../../io/config-reference.js';
-
-export const CONFIG_SCHEMAS: Record<string, z.ZodType> = { solve: solveConfigSchema, train: trainConfigSchema, invert: invertConfigSchema, sweep: sweepConfigSchema, surrogate: surrogateConfigSchema };
 
 export function registerSchema(program: Command): void {
   const all = CONFIG_SCHEMAS;

@@ -14,8 +14,10 @@ import { Progress } from '../progress.js';
 import { loadJsonFile } from '../../io/load-json.js';
 
 interface SolveFlags {
-  preset?: string;
+  chain?: string;
   f?: string;
+  segmentRatio?: string;
+  firstBlockShare?: string;
   chiN?: string;
   period?: string;
   periods?: string;
@@ -31,21 +33,25 @@ interface SolveFlags {
 
 /** Flags are applied on top of the config file (or of an empty diblock config). */
 export function buildSolveConfig(configPath: string | undefined, flags: SolveFlags): SolveConfig {
-  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 1, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } };
+  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 2, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } };
   const system = obj(raw, 'system');
-  if (flags.preset !== undefined) {
-    const chain: Record<string, unknown> = { type: flags.preset };
+  if (flags.chain !== undefined) {
+    const chain: Record<string, unknown> = { type: flags.chain };
     system.chain = chain;
   }
   const chain = obj(system, 'chain');
   const f = numberFlag('--f', flags.f);
   if (f !== undefined) chain.f = f;
+  const ratio = numberFlag('--segment-ratio', flags.segmentRatio);
+  if (ratio !== undefined) chain.segmentRatio = ratio;
+  const share = numberFlag('--first-block-share', flags.firstBlockShare);
+  if (share !== undefined) chain.firstBlockShare = share;
   if (chain.type === undefined) chain.type = 'diblock';
   if (chain.type !== 'homopolymer' && chain.type !== 'blocks' && chain.f === undefined) chain.f = 0.5;
   const chiN = numberFlag('--chiN', flags.chiN);
   if (chiN !== undefined) system.chiN = chiN;
   const cell = obj(raw, 'cell');
-  if (flags.period !== undefined) cell.period = flags.period === 'optimize' ? 'optimize' : numberFlag('--period', flags.period);
+  if (flags.period !== undefined) cell.period = flags.period === 'equilibrium' ? 'equilibrium' : numberFlag('--period', flags.period);
   const periods = numberFlag('--periods', flags.periods);
   if (periods !== undefined) cell.periods = periods;
   const nx = numberFlag('--nx', flags.nx);
@@ -65,10 +71,12 @@ export function registerSolve(program: Command): void {
     .command('solve')
     .description('spectral SCFT reference solve of a 1D lamellar cell (config file and/or flags; flags override the file)')
     .argument('[config]', 'solve config JSON (kind "solve")')
-    .option('--preset <chain>', 'chain preset: diblock | triblock | homopolymer')
-    .option('--f <f>', 'A fraction of the chain')
+    .option('--chain <type>', 'chain architecture: diblock | triblock | homopolymer')
+    .option('--f <f>', 'A fraction of the chain, > 0 and < 1')
+    .option('--segment-ratio <r>', 'conformational asymmetry b_A/b_B (lengths in Rg of a chain of segment length b_B)')
+    .option('--first-block-share <t>', 'triblock: share of A in the first A block, > 0 and < 1')
     .option('--chiN <x>', 'χN')
-    .option('--period <L|optimize>', 'lamellar period in Rg, or "optimize" for the stress-free period')
+    .option('--period <L|equilibrium>', 'lamellar period in Rg, or "equilibrium" for the stress-free period')
     .option('--periods <n>', 'lamellar periods in the cell')
     .option('--nx <n>', 'grid points (power of two)')
     .option('--ns <n>', 'contour steps over the chain (even per block)')

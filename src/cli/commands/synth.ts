@@ -59,7 +59,7 @@ export function registerSynth(program: Command): void {
         const nx = need('--nx', numberFlag('--nx', flags.nx), Number.isInteger, 'a power of two');
         const ns = need('--ns', numberFlag('--ns', flags.ns), Number.isInteger, 'an even integer');
         const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
-        const chain = { type: 'diblock' as const, f, segmentLengths: { A: 1, B: 1 } };
+        const chain = { type: 'diblock' as const, f, segmentRatio: 1 };
         let profile;
         try {
           profile = synthesize({ chain, chiN, points, noise, seed, periods, offset, period, resolution, nx, ns });

@@ -2,6 +2,7 @@
 import type { Command } from 'commander';
 import { basename, join } from 'node:path';
 import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
+import { formatNumber } from '../../io/number-format.js';
 import { readJsonFile } from '../../io/load-json.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { formatDuration, Progress } from '../progress.js';
@@ -14,7 +15,8 @@ export interface TrainFlags {
   resume?: string;
   json?: boolean;
   backend?: string;
-  steps?: string;
+  adamSteps?: string;
+  lbfgsIterations?: string;
   report?: boolean;
   quiet?: boolean;
 }
@@ -54,7 +56,8 @@ export function registerTrain(program: Command): void {
     .option('--out <dir>', 'checkpoint directory (default checkpoints/<config name>)')
     .option('--resume <dir>', 'continue the run saved in this checkpoint directory')
     .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
-    .option('--steps <n>', 'override training.steps')
+    .option('--adam-steps <n>', 'Adam steps of physics training (training.adamSteps)')
+    .option('--lbfgs-iterations <n>', 'L-BFGS iterations after the Adam steps (training.lbfgsIterations)')
     .option('--json', 'print the metrics as JSON on stdout')
     .option('--report', 'also write a PDF/PNG report of the run into <out>/report')
     .option('--quiet', 'no progress on stderr')
@@ -66,10 +69,11 @@ export function registerTrain(program: Command): void {
           return trainSurrogate(configPath, raw, flags);
         }
         let config = parseOrThrow(trainConfigSchema, raw, configPath);
-        const steps = numberFlag('--steps', flags.steps);
-        if (steps !== undefined) {
-          if (!Number.isInteger(steps) || steps < 0) throw new InputError(`--steps: got ${steps}; allowed: a whole number ≥ 0`);
-          config = { ...config, training: { ...config.training, steps } };
+        for (const [flag, key, value] of [['--adam-steps', 'adamSteps', flags.adamSteps], ['--lbfgs-iterations', 'lbfgsIterations', flags.lbfgsIterations]] as const) {
+          const n = numberFlag(flag, value);
+          if (n === undefined) continue;
+          if (!Number.isInteger(n) || n < 0) throw new InputError(`${flag}: got ${formatNumber(n)}; allowed: a whole number ≥ 0`);
+          config = { ...config, training: { ...config.training, [key]: n } };
         }
         const backend = backendFlag(flags.backend);
         const outDir = flags.out ?? flags.resume ?? join('checkpoints', basename(configPath).replace(/(\.train)?\.json$/, ''));
