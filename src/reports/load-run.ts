@@ -13,30 +13,14 @@ import { join } from 'node:path';
 import { z } from 'zod';
 import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
 import { readJsonFile } from '../io/load-json.js';
-import { solutionFileSchema } from '../io/solution-file.js';
-import type { SolutionFile } from '../io/solution-file.js';
+import { solutionFileSchema } from '../io/formats/solution.js';
+import type { SolutionFile } from '../io/formats/solution.js';
 import { buildChain } from '../physics/chain.js';
-import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import { makeCell } from '../physics/cell/make-cell.js';
 import { contourWithTotal } from '../physics/contour.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { MetricRow, ReportInput } from './report-inputs.js';
 import { surrogateInput } from './surrogate-input.js';
-
-const summaryNumbers = z.object({
-  solver: z.enum(['spectral', 'network', 'surrogate']),
-  period: z.number().nullable(),
-  periodTolerance: z.number().optional(),
-  Q: z.number(),
-  QDagger: z.number(),
-  freeEnergy: z.number(),
-  freeEnergyDisordered: z.number().nullable(),
-  amplitude: z.number(),
-  iterations: z.number(),
-  residual: z.number(),
-  converged: z.boolean(),
-  seconds: z.number(),
-  notes: z.array(z.string()).default([]),
-});
 
 /** The part of a training checkpoint the report reads (the full schema lives with the trainer, which loads tfjs types only). */
 const checkpointHistorySchema = z.object({
@@ -75,42 +59,24 @@ function inversionInput(file: z.infer<typeof inversionFileSchema>): ReportInput[
   };
 }
 
-const traceSchema = z.array(z.object({ period: z.number(), freeEnergy: z.number(), phase: z.string(), iterations: z.number() }));
-
-const provenanceSchema = z.object({ version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string().optional(), tfjs: z.string().optional() }).passthrough();
-
 interface LoadedSolution {
   file: string;
   data: SolutionFile;
   solution: ScftSolution;
-  trace?: z.infer<typeof traceSchema>;
-  provenance: z.infer<typeof provenanceSchema>;
+  trace?: SolutionFile['periodSearch'];
+  provenance: SolutionFile['provenance'];
 }
 
 const readJson = readJsonFile;
 
-function checkPropagators(path: string, d: SolutionFile): void {
-  const p = d.propagators;
-  if (!p) return;
-  const ns = d.summary.ns;
-  if (p.s.length !== ns + 1) throw new InputError(`${path}: propagators.s: got ${p.s.length} contour points; must hold summary.ns + 1 = ${ns + 1}`);
-  for (const k of ['q', 'qDagger'] as const) {
-    if (p[k].length !== ns + 1) throw new InputError(`${path}: propagators.${k}: got ${p[k].length} rows; must hold summary.ns + 1 = ${ns + 1} (one per contour point)`);
-    const bad = p[k].findIndex((r) => r.length !== d.summary.nx);
-    if (bad >= 0) throw new InputError(`${path}: propagators.${k}[${bad}]: got ${p[k][bad].length} values; must hold summary.nx = ${d.summary.nx}`);
-  }
-}
-
 function loadSolution(path: string, raw: unknown): LoadedSolution {
   const data = parseOrThrow(solutionFileSchema, raw, path);
-  const s = parseOrThrow(summaryNumbers, data.summary, `${path}: summary`);
-  const provenance = parseOrThrow(provenanceSchema, data.provenance, `${path}: provenance`);
-  checkPropagators(path, data);
-  const rawTrace = (raw as Record<string, unknown>).periodSearch;
-  const trace = rawTrace === undefined ? undefined : parseOrThrow(traceSchema, rawTrace, `${path}: periodSearch`);
+  const s = data.summary;
   let chain;
+  let cell;
   try {
     chain = buildChain(data.system.chain);
+    cell = makeCell(data.cell, `${path}: cell`);
   } catch (e) {
     throw asInputError(e, path);
   }
@@ -118,13 +84,13 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
   const solution: ScftSolution = {
     solver: s.solver,
     system: data.system,
-    cell: new PeriodicCell(data.summary.length, data.summary.nx, data.summary.periods),
-    contour: contourWithTotal(chain, data.summary.ns),
-    length: data.summary.length,
-    periods: data.summary.periods,
+    cell,
+    contour: contourWithTotal(chain, s.ns),
+    length: s.length,
+    periods: s.periods,
     period: s.period ?? Number.NaN,
-    nx: data.summary.nx,
-    ns: data.summary.ns,
+    nx: s.nx,
+    ns: s.ns,
     x: f64(data.grid.x),
     phi: { A: f64(data.grid.phiA), B: f64(data.grid.phiB) },
     w: { A: f64(data.grid.wA), B: f64(data.grid.wB) },
@@ -132,7 +98,7 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
     QDagger: s.QDagger,
     freeEnergy: s.freeEnergy,
     freeEnergyDisordered: s.freeEnergyDisordered ?? Number.NaN,
-    phase: data.summary.phase as ScftSolution['phase'],
+    phase: s.phase,
     amplitude: s.amplitude,
     iterations: s.iterations,
     residual: s.residual,
@@ -141,7 +107,7 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
     notes: s.notes,
     ...(data.propagators ? { propagators: { s: f64(data.propagators.s), q: data.propagators.q.map(f64), qDagger: data.propagators.qDagger.map(f64) } } : {}),
   };
-  return { file: path, data, solution, trace, provenance };
+  return { file: path, data, solution, trace: data.periodSearch, provenance: data.provenance };
 }
 
 /** Flatten a JSON object to "a.b.c: value" rows (numbers, strings, booleans; arrays are summarised). */
@@ -252,7 +218,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     training,
     inversion,
     surrogate,
-    periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
+    periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: main.data.summary.periodTolerance } : undefined,
     metrics,
   };
   if (!shown.solution.propagators) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);

@@ -6,7 +6,7 @@
  */
 import { RunFailure } from '../io/errors.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
-import { solutionToFile } from '../io/solution-file.js';
+import { solutionToFile } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
 import { selectBackend } from '../autodiff/backend.js';
 import { childSeed, Xorshift128 } from '../numerics/random.js';

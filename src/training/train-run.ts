@@ -5,7 +5,7 @@
  */
 import { InputError } from '../io/errors.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
-import { solutionToFile, summarize } from '../io/solution-file.js';
+import { solutionToFile, summarize } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
 import { buildChain } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';

@@ -27,7 +27,7 @@ describe('mesofield synth', () => {
     const a = synth(dir, ['--noise', '0.02', '--seed', '4', '--points', '48']);
     const first = readFileSync(a, 'utf8');
     const truth = JSON.parse(readFileSync(`${a}.truth.json`, 'utf8'));
-    expect(truth).toMatchObject({ kind: 'synth-truth', version: 1, chiN: 15, f: 0.5, noise: 0.02, seed: 4, points: 48, offset: 0.6 });
+    expect(truth).toMatchObject({ kind: 'synth-truth', version: 2, chiN: 15, f: 0.5, noise: 0.02, seed: 4, points: 48, offset: 0.6 });
     expect(truth.period).toBeGreaterThan(3.6);
     const rows = first.trim().split('\n');
     expect(rows[0]).toBe('x,phiA,sigma');

@@ -13,7 +13,11 @@ import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
-import { solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
+import { solutionGridCsv, solutionText, solutionToFile, summarize } from '../../io/formats/solution.js';
+import { formatNumber } from '../../io/number-format.js';
+import { formatText } from '../../io/formats/file-format.js';
+import { SYNTH_TRUTH_VERSION, synthTruthSchema } from '../../io/formats/synth-truth.js';
+import { phaseLabel } from '../../physics/lamellar-window.js';
 import { provenance } from '../../io/versions.js';
 import { reportRunDirectory } from '../../reports/report-run-directory.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
@@ -64,9 +68,9 @@ export function registerDemo(program: Command): void {
           onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(5)} Rg, F = ${e.freeEnergy.toFixed(8)}`),
         });
         const refDir = join(flags.out, 'reference');
-        const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
+        const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance, periodSearch: ref.search?.trace });
         writeDirectoryAtomic(refDir, {
-          'solution.json': `${JSON.stringify({ ...file, periodSearch: ref.search?.trace }, null, 1)}\n`,
+          'solution.json': solutionText(file),
           'profile.csv': solutionGridCsv(ref.solution),
         });
         const refReport = report(refDir, join(refDir, 'report'));
@@ -112,7 +116,22 @@ export function registerDemo(program: Command): void {
         const result = inversionResult(data, { kind: 'invert', demo: true, truth }, provenance(), { classical: classicalBlock(est, data), network: networkBlock(ne, est, data) }, vsTruth);
         writeDirectoryAtomic(invDir, {
           'profile.csv': csv,
-          'truth.json': `${JSON.stringify(truth, null, 1)}\n`,
+          'truth.json': formatText(synthTruthSchema, {
+            kind: 'synth-truth',
+            version: SYNTH_TRUTH_VERSION,
+            provenance: provenance(),
+            chain: chainSpec,
+            f: DEMO_SYSTEM.chain.f,
+            ...truth,
+            period: synth.period,
+            periodMode: 'equilibrium',
+            resolution: 0,
+            nx: 64,
+            ns: 100,
+            xUnits: 'Rg',
+            freeEnergy: synth.point.solution.freeEnergy,
+            note: 'the demo scenario; lengths (period, offset) in Rg; offset is the data position of the centre of an A-rich domain',
+          }),
           'result.json': `${JSON.stringify(result, null, 1)}\n`,
           'fit.csv': fitCsv(data, est),
           'solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
@@ -123,7 +142,7 @@ export function registerDemo(program: Command): void {
         process.stdout.write(
           [
             `demo: symmetric diblock, χN = ${s.chiN}`,
-            `  reference: ${s.phase}, period ${s.period.toFixed(5)} Rg, F = ${s.freeEnergy.toFixed(8)} kT/chain (disordered ${s.freeEnergyDisordered})`,
+            `  reference: ${phaseLabel(s.phase)}, period ${formatNumber(s.period, 6)} Rg, F = ${formatNumber(s.freeEnergy, 9)} kT/chain (disordered ${formatNumber(s.freeEnergyDisordered, 9)})`,
             `  network (${m.backend}, ${m.training.adamSteps} Adam steps${m.training.lbfgs ? ` + ${m.training.lbfgs.iterations} L-BFGS iterations` : ''} after a ${m.training.warmStart?.steps ?? 0}-step warm start, ${formatDuration(m.training.seconds)}): φA relative L2 error ${m.errors.phiA.relativeL2.toExponential(2)}, F error ${m.errors.freeEnergyError.toExponential(2)} kT/chain`,
             `  wrote ${refDir}/ (solution.json, profile.csv, report/) and ${netDir}/ (checkpoint, metrics.json, report/)`,
             `  inversion of a synthetic 2 % noise profile (true χN = ${truth.chiN}): classical χN = ${est.chiN.toFixed(3)}, 68.3 % interval [${est.interval[0].toFixed(3)}, ${est.interval[1].toFixed(3)}], 95 % [${est.interval95[0].toFixed(3)}, ${est.interval95[1].toFixed(3)}]; network χN = ${ne.chiN.toFixed(3)} (one seed, ${ne.seconds.toFixed(0)} s; discovered wA − wB within ${vsTruth.estimators.network.exchangeFieldRelativeL2!.toExponential(1)} of the truth) → ${invDir}/`,

@@ -6,7 +6,7 @@ import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
 import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
-import { solutionToFile } from '../../io/solution-file.js';
+import { solutionToFile } from '../../io/formats/solution.js';
 import { provenance } from '../../io/versions.js';
 import { estimateClassical } from '../../inverse/classical.js';
 import type { PeriodMode } from '../../inverse/objective.js';

@@ -4,7 +4,8 @@ import { join } from 'node:path';
 import { RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
-import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
+import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionText, solutionToFile, summarize } from '../../io/formats/solution.js';
+import { solutionSummaryLines } from '../../io/solution-text.js';
 import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { provenance } from '../../io/versions.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
@@ -108,9 +109,9 @@ export function registerSolve(program: Command): void {
         progress.done(`${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`);
         const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
         if (flags.out) {
-          const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
+          const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance, periodSearch: ref.search?.trace });
           const files: Record<string, string> = {
-            'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}) }, null, 1)}\n`,
+            'solution.json': solutionText(file),
             'profile.csv': solutionGridCsv(sol),
           };
           const prop = propagatorCsv(sol);
@@ -119,16 +120,7 @@ export function registerSolve(program: Command): void {
           if (!flags.quiet) process.stderr.write(`solve: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
         }
         if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
-        else {
-          const lines = [
-            `chain ${summary.chain}, χN = ${summary.chiN}, phase: ${summary.phase}${summary.converged ? '' : ' (NOT CONVERGED)'}`,
-            `period ${summary.period.toFixed(6)} Rg${summary.periodTolerance ? ` ± ${summary.periodTolerance.toExponential(1)}` : ''} (${summary.periods} in a cell of ${summary.length.toFixed(6)} Rg)`,
-            `F = ${summary.freeEnergy.toFixed(10)} kT/chain, F_disordered = ${summary.freeEnergyDisordered ?? 'n/a'}, ΔF = ${summary.freeEnergyExcess === null ? 'n/a' : summary.freeEnergyExcess.toExponential(6)}`,
-            `Q = ${summary.Q.toPrecision(12)} (from q†: ${summary.QDagger.toPrecision(12)}), ${summary.iterations} iterations, residual ${summary.residual.toExponential(2)}`,
-            ...summary.notes.map((n) => `note: ${n}`),
-          ];
-          process.stdout.write(`${lines.join('\n')}\n`);
-        }
+        else process.stdout.write(`${solutionSummaryLines(summary).join('\n')}\n`);
         if (!sol.converged) throw new RunFailure(`solve did not converge: ${sol.notes.join('; ')}`);
       }),
     );

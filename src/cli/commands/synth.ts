@@ -1,4 +1,7 @@
 /** `mesofield synth`: a synthetic noisy composition profile from the reference lamella, with its truth. */
+import { formatText } from '../../io/formats/file-format.js';
+import { SYNTH_TRUTH_VERSION, synthTruthSchema } from '../../io/formats/synth-truth.js';
+import type { SynthTruth } from '../../io/formats/synth-truth.js';
 import type { Command } from 'commander';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { InputError, asInputError } from '../../io/errors.js';
@@ -71,9 +74,9 @@ export function registerSynth(program: Command): void {
           process.stdout.write(csv);
           return;
         }
-        const truth = {
+        const truth: SynthTruth = {
           kind: 'synth-truth',
-          version: 1,
+          version: SYNTH_TRUTH_VERSION,
           provenance: provenance(),
           chain,
           f,
@@ -93,7 +96,7 @@ export function registerSynth(program: Command): void {
           freeEnergy: profile.point.solution.freeEnergy,
           note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
         };
-        writeFileAtomic(`${flags.out}.truth.json`, `${JSON.stringify(truth, null, 1)}\n`);
+        writeFileAtomic(`${flags.out}.truth.json`, formatText(synthTruthSchema, truth));
         writeFileAtomic(flags.out, csv);
         process.stderr.write(`synth: wrote ${flags.out} and ${flags.out}.truth.json (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
       }),
