@@ -49,7 +49,7 @@ async function transferBench(): Promise<void> {
   const ws = await trainRun({ config: trainConfigSchema.parse({ ...base, system: to17, warmStart: { adamSteps: 400, learningRate: 0.01 }, training: target }), backend: 'wasm' });
   const warmWall = (performance.now() - t2) / 1000;
   const say = (r: typeof tr) => (r.metrics.training.reachedTarget ? `step ${r.metrics.training.reachedTarget.step}` : 'not reached');
-  console.log(`\ntransfer χN 15 → 17 (to φA error 1e-2): from the checkpoint ${say(tr)}, ${transferWall.toFixed(1)} s wall; warm start from the χN = 17 reference ${say(ws)} after ${ws.metrics.training.warmStart?.steps} fitting steps, ${warmWall.toFixed(1)} s wall`);
+  console.log(`\ntransfer χN 15 → 17 (to φA error 1e-2): from the checkpoint ${say(tr)}, ${transferWall.toFixed(1)} s wall; warm start from the χN = 17 reference ${say(ws)} after ${ws.metrics.training.warmStart?.adamSteps} fitting steps, ${warmWall.toFixed(1)} s wall`);
 }
 
 export async function runTrainerBench(): Promise<void> {
@@ -89,7 +89,7 @@ export async function runTrainerBench(): Promise<void> {
     const ws = r.metrics.training.warmStart;
     console.log(
       `  target ${target}: ${hit ? `reached at Adam step ${hit.step}${hit.lbfgsIterations !== undefined ? ` + ${hit.lbfgsIterations} L-BFGS iterations` : ''}, ${hit.seconds.toFixed(1)} s of training` : 'not reached in 300 Adam steps + 2400 L-BFGS iterations'} ` +
-        `(+ warm start ${ws?.steps} steps, ${ws?.seconds.toFixed(1)} s; wall ${wall.toFixed(1)} s incl. reference solve); ` +
+        `(+ warm start ${ws?.adamSteps} steps, ${ws?.seconds.toFixed(1)} s; wall ${wall.toFixed(1)} s incl. reference solve); ` +
         `final φA rel L2 ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, wA − wB rel L2 ${r.metrics.errors.exchangeField.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT`,
     );
   }

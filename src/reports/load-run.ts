@@ -14,6 +14,7 @@ import { z } from 'zod';
 import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
 import { readJsonFile } from '../io/load-json.js';
 import { solutionFileSchema } from '../io/formats/solution.js';
+import { checkpointFileSchema } from '../io/formats/training.js';
 import type { SolutionFile } from '../io/formats/solution.js';
 import { buildChain } from '../physics/chain.js';
 import { makeCell } from '../physics/cell/make-cell.js';
@@ -21,11 +22,7 @@ import { contourWithTotal } from '../physics/contour.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { MetricRow, ReportInput } from './report-inputs.js';
 import { surrogateInput } from './surrogate-input.js';
-
-/** The part of a training checkpoint the report reads (the full schema lives with the trainer, which loads tfjs types only). */
-const checkpointHistorySchema = z.object({
-  history: z.array(z.object({ step: z.number(), stage: z.string(), total: z.number(), terms: z.record(z.string(), z.number()), learningRate: z.number(), seconds: z.number().optional() })),
-});
+import { assertSameGrid } from './solution-differences.js';
 
 /** The parts of an inversion result (inverse/inversion-result.ts) that the report draws. */
 const estimatorFileSchema = z
@@ -171,9 +168,9 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       read.push(path);
     } else if (kind === 'checkpoint') {
       // A training checkpoint (training/checkpoint.ts): its loss history is the training page.
-      const hist = parseOrThrow(checkpointHistorySchema, raw, path).history.filter((h) => h.stage === 'adam');
+      const hist = parseOrThrow(checkpointFileSchema, raw, path).history.filter((h) => h.stage === 'adam');
       // Terms that are identically zero for this system (e.g. no field equations for a chain in a prescribed field) have no place on a log axis.
-      const positive = (t: Record<string, number>) => Object.fromEntries(Object.entries(t).filter(([, v]) => v > 0));
+      const positive = (t: Record<string, number | undefined>) => Object.fromEntries(Object.entries(t).filter((e): e is [string, number] => e[1] !== undefined && e[1] > 0));
       training = { history: hist.map((h) => ({ step: h.step, terms: positive({ total: h.total, ...h.terms }), lr: h.learningRate })) };
       trainingSeconds = hist.length ? (hist[hist.length - 1] as { seconds?: number }).seconds ?? Number.NaN : Number.NaN;
       read.push(path);
@@ -195,9 +192,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     const a = JSON.stringify(reference.data.system);
     const b = JSON.stringify(network.data.system);
     if (a !== b) throw new InputError(`${network.file}: system ${b} differs from the reference's (${reference.file}: ${a}); a report compares solutions of one system`);
-    if (reference.solution.nx !== network.solution.nx || Math.abs(reference.solution.length - network.solution.length) > 1e-9 * reference.solution.length) {
-      throw new InputError(`${network.file}: grid nx = ${network.solution.nx}, L = ${network.solution.length} Rg differs from the reference's (${reference.file}: nx = ${reference.solution.nx}, L = ${reference.solution.length} Rg); compare on the same grid`);
-    }
+    assertSameGrid(reference.solution, network.solution, `${network.file} against ${reference.file}`);
   }
   // Without a spectral reference a network solution is shown alone, as "reference" curves.
   const shown = reference ?? network!;

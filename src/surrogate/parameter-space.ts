@@ -5,6 +5,7 @@
  * χN and f as in SCFT-NOTES.md; a ratio r = b_A/b_B is the chain's segmentRatio (segment lengths { A: r, B: 1 }).
  */
 import { InputError } from '../io/errors.js';
+import { formatNumber } from '../io/number-format.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
 import { buildChain, ModelError } from '../physics/chain.js';
@@ -124,14 +125,23 @@ export class ParameterSpace {
   /** Why p lies outside the trained box (one message per parameter), or [] inside it. */
   outside(p: ParameterPoint): string[] {
     const out: string[] = [];
+    for (const a of this.axes) {
+      const { flag, symbol } = PARAMETER_LABELS[a.name];
+      if (!(p[a.name] >= a.min && p[a.name] <= a.max)) out.push(`${flag}: got ${formatNumber(p[a.name])}; the surrogate was trained for ${symbol} in [${formatNumber(a.min)}, ${formatNumber(a.max)}]`);
+    }
+    return out;
+  }
+
+  /**
+   * Parameters given away from the value the surrogate was trained at: its network has no
+   * input for them, so no answer exists there (refused even when extrapolation is allowed).
+   */
+  offFixed(p: ParameterPoint): string[] {
+    const out: string[] = [];
     for (const name of PARAMETER_NAMES) {
       const { flag, symbol } = PARAMETER_LABELS[name];
-      const a = this.axes.find((x) => x.name === name);
-      if (a) {
-        if (!(p[name] >= a.min && p[name] <= a.max)) out.push(`${flag}: got ${p[name]}; the surrogate was trained for ${symbol} in [${a.min}, ${a.max}]`);
-      } else if (p[name] !== this.fixed[name]) {
-        out.push(`${flag}: got ${p[name]}; the surrogate was trained at the fixed ${symbol} = ${this.fixed[name]} only`);
-      }
+      if (this.axes.some((x) => x.name === name)) continue;
+      if (p[name] !== this.fixed[name]) out.push(`${flag}: got ${formatNumber(p[name])}; the surrogate was trained at the fixed ${symbol} = ${formatNumber(this.fixed[name])} only (it has no input for ${symbol}; train a surrogate with a ${symbol} range)`);
     }
     return out;
   }

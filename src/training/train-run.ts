@@ -3,6 +3,9 @@
  * transfer, or resume), physics training, evaluation against the reference, checkpoints.
  * The CLI's `train` is a thin wrapper around trainRun; tests call it directly.
  */
+import { formatText } from '../io/formats/file-format.js';
+import { trainMetricsSchema } from '../io/formats/training.js';
+import type { TrainMetrics, TransferReport } from '../io/formats/training.js';
 import { InputError } from '../io/errors.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { solutionToFile, summarize } from '../io/formats/solution.js';
@@ -42,30 +45,7 @@ export interface TrainRunOptions {
   shouldStop?: () => boolean;
 }
 
-export interface TrainMetrics {
-  backend: string;
-  tfjs: string;
-  phase: string;
-  collapsed: boolean;
-  sharedPropagator: boolean;
-  errors: SolutionMetrics;
-  freshResiduals: LossValues;
-  reference: ReturnType<typeof summarize>;
-  network: ReturnType<typeof summarize>;
-  training: {
-    stopReason: StopReason;
-    message: string;
-    adamSteps: number;
-    seconds: number;
-    warmStart?: { steps: number; seconds: number; finalLoss: number };
-    lbfgs?: { iterations: number; finalLoss: number; reason: string };
-    /** Adam step (and L-BFGS iterations, when reached in the polish) and training seconds at which φ_A error first fell below the target. */
-    reachedTarget?: { step: number; seconds: number; lbfgsIterations?: number };
-    transferredFrom?: { checkpoint: string; chiN: number; f: number };
-    transfer?: TransferReport;
-    resumedFrom?: { checkpoint: string; step: number };
-  };
-}
+export type { TrainMetrics } from '../io/formats/training.js';
 
 export interface TrainRunResult {
   metrics: TrainMetrics;
@@ -91,13 +71,7 @@ function sameArchitecture(a: TrainConfig, b: TrainConfig): string | null {
  * target (nothing saved to report). A baseline that did not reach it (reached false) gives
  * its whole budget, so the saving is a lower bound (saved.lowerBound).
  */
-export interface TransferReport {
-  targetPhiError: number;
-  transfer: { steps: number; seconds: number } | null;
-  /** finalPhiError: the baseline's φ_A relative L2 error when it stopped (at the target or the budget). */
-  baseline?: { reached: boolean; steps: number; seconds: number; warmStartSteps: number; warmStartSeconds: number; finalPhiError: number };
-  saved?: { steps: number; seconds: number; lowerBound: boolean } | null;
-}
+export type { TransferReport } from '../io/formats/training.js';
 
 function checkTransferBaseline(config: TrainConfig): void {
   const tr = config.training;
@@ -117,9 +91,9 @@ async function transferBaseline(opts: TrainRunOptions, config: TrainConfig): Pro
     shouldStop: opts.shouldStop,
   });
   const t = r.metrics.training;
-  const ws = t.warmStart ?? { steps: 0, seconds: 0 };
+  const ws = t.warmStart ?? { adamSteps: 0, seconds: 0 };
   const end = t.reachedTarget ?? { step: t.adamSteps, seconds: r.history.filter((h) => h.stage === 'adam').pop()?.seconds ?? 0 };
-  return { reached: Boolean(t.reachedTarget), steps: end.step, seconds: ws.seconds + end.seconds, warmStartSteps: ws.steps, warmStartSeconds: ws.seconds, finalPhiError: r.metrics.errors.phiA.relativeL2 };
+  return { reached: Boolean(t.reachedTarget), steps: end.step, seconds: ws.seconds + end.seconds, warmStartSteps: ws.adamSteps, warmStartSeconds: ws.seconds, finalPhiError: r.metrics.errors.phiA.relativeL2 };
 }
 
 function unitWeights(): LossValues {
@@ -196,7 +170,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const w = fromReference ? reference.w : cosineStart(chain, config.system.chiN, reference.cell, 0.3);
     stage(fromReference ? 'warm start: fitting the networks to the spectral solution' : 'cold start: fitting the field network to a cosine guess');
     const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.adamSteps, ws.learningRate);
-    training.warmStart = r;
+    training.warmStart = { adamSteps: r.steps, seconds: r.seconds, finalLoss: r.finalLoss };
   }
 
   const problem = new ScftProblem(tf, nets, config.system, config.collocation, config.training.strategy === 'alternating' ? 'detached' : config.losses.fieldInMde);
@@ -302,11 +276,12 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     freshResiduals,
     reference: summarize(reference, { periodTolerance: ref.search?.periodTolerance }),
     network: summarize(network),
-    training: training as TrainMetrics['training'],
+    // Filled phase by phase above; checked complete here.
+    training: trainMetricsSchema.shape.training.parse(training),
   };
   if (opts.outDir) {
     const networkFile = `${JSON.stringify(solutionToFile(network, prov(), config), null, 1)}\n`;
-    await save(loop.state, 'done', { 'metrics.json': `${JSON.stringify(metrics, null, 2)}\n`, 'network.json': networkFile }, metrics as unknown as Record<string, unknown>);
+    await save(loop.state, 'done', { 'metrics.json': formatText(trainMetricsSchema, metrics, 2), 'network.json': networkFile }, metrics);
   }
   problem.dispose();
   adam.dispose();

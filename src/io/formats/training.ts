@@ -1,0 +1,132 @@
+/**
+ * The files of a training run (training/checkpoint.ts writes them, reports read them):
+ *   checkpoint.json  kind "checkpoint" (version 2): config, provenance, step, stage, loss
+ *                    weights, the loss history of every phase, the metrics, the weight manifest
+ *   metrics.json     the run's metrics (`trainMetricsSchema`): errors against the reference,
+ *                    the two solutions' summaries, what each training phase did
+ * Losses are dimensionless mean squares; seconds are wall time since the run started.
+ */
+import { z } from 'zod';
+import { trainConfigSchema } from '../schemas/train-config.js';
+import { formatHeader } from './file-format.js';
+import { solutionSummarySchema } from './solution.js';
+
+export const CHECKPOINT_VERSION = 2;
+
+/** The named loss terms of a network run (network/losses/terms.ts builds one per name). */
+export const LOSS_TERMS = ['mde', 'periodicity', 'initial', 'incompressibility', 'selfConsistency', 'gauge'] as const;
+export type LossTerm = (typeof LOSS_TERMS)[number];
+
+const lossRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number()])) as Record<LossTerm, z.ZodNumber>).strict();
+// Balancing factors: 1 is "unbalanced".
+const factorRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number().default(1)])) as Record<LossTerm, z.ZodDefault<z.ZodNumber>>).strict();
+
+export const historyEntrySchema = z
+  .object({
+    step: z.number().int(),
+    stage: z.enum(['warm-start', 'adam', 'lbfgs']),
+    total: z.number(),
+    terms: lossRecord.partial(),
+    learningRate: z.number(),
+    seconds: z.number(),
+    phiError: z.number().optional(),
+    /** L-BFGS entries: iterations done so far (the Adam step count stays in `step`). */
+    lbfgsIterations: z.number().int().min(0).optional(),
+  })
+  .strict();
+
+const errorPair = z.object({ relativeL2: z.number(), maxError: z.number() }).strict();
+
+/** A network solution against the reference on the same grid (physics/solution-metrics.ts). */
+export const solutionErrorsSchema = z
+  .object({
+    phiA: errorPair,
+    exchangeField: errorPair,
+    QRelativeError: z.number(),
+    freeEnergyError: z.number(),
+    /** max |φA + φB − 1|; absent for a chain in prescribed fields, where it is no constraint. */
+    incompressibilityMax: z.number().optional(),
+  })
+  .strict();
+
+const reachedSchema = z.object({ steps: z.number(), seconds: z.number() }).strict();
+
+export const transferReportSchema = z
+  .object({
+    targetPhiError: z.number(),
+    transfer: reachedSchema.nullable(),
+    baseline: z
+      .object({ reached: z.boolean(), steps: z.number(), seconds: z.number(), warmStartSteps: z.number(), warmStartSeconds: z.number(), finalPhiError: z.number() })
+      .strict()
+      .optional(),
+    saved: z.object({ steps: z.number(), seconds: z.number(), lowerBound: z.boolean() }).strict().nullable().optional(),
+  })
+  .strict();
+
+export const trainMetricsSchema = z
+  .object({
+    backend: z.string(),
+    tfjs: z.string(),
+    phase: z.string(),
+    collapsed: z.boolean(),
+    sharedPropagator: z.boolean(),
+    errors: solutionErrorsSchema,
+    /** Loss terms on 1024 fresh random points, after training. */
+    freshResiduals: lossRecord,
+    reference: solutionSummarySchema,
+    network: solutionSummarySchema,
+    /**
+     * What each phase did. Loose on purpose: a training phase added later records its own
+     * block here; the blocks below are checked.
+     */
+    training: z
+      .object({
+        stopReason: z.enum(['completed', 'target-reached', 'interrupted', 'diverged']),
+        message: z.string(),
+        adamSteps: z.number().int().min(0),
+        seconds: z.number(),
+        warmStart: z.object({ adamSteps: z.number().int().min(0), seconds: z.number(), finalLoss: z.number() }).strict().optional(),
+        lbfgs: z.object({ iterations: z.number().int().min(0), finalLoss: z.number(), reason: z.string() }).strict().optional(),
+        reachedTarget: z.object({ step: z.number(), seconds: z.number(), lbfgsIterations: z.number().optional() }).strict().optional(),
+        transferredFrom: z.object({ checkpoint: z.string(), chiN: z.number(), f: z.number() }).strict().optional(),
+        transfer: transferReportSchema.optional(),
+        resumedFrom: z.object({ checkpoint: z.string(), step: z.number() }).strict().optional(),
+      })
+      .loose(),
+  })
+  .strict();
+
+export type TrainMetrics = z.infer<typeof trainMetricsSchema>;
+export type TransferReport = z.infer<typeof transferReportSchema>;
+
+const weightSpecSchema = z.object({ name: z.string(), shape: z.array(z.number().int()), dtype: z.string() }).loose();
+const networkProvenanceSchema = z.object({ tool: z.literal('mesofield'), version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string(), tfjs: z.string() }).strict();
+
+export const checkpointFileSchema = z
+  .object({
+    ...formatHeader('checkpoint', CHECKPOINT_VERSION),
+    provenance: networkProvenanceSchema,
+    config: trainConfigSchema,
+    /** Cell length L in Rg the networks were built for (features depend on it). */
+    length: z.number().gt(0),
+    periods: z.number().int().min(1),
+    step: z.number().int().min(0),
+    stage: z.enum(['warm-start', 'adam', 'lbfgs', 'done']),
+    lossWeights: factorRecord,
+    history: z.array(historyEntrySchema),
+    metrics: trainMetricsSchema.optional(),
+    /** The resampled MDE points in use at this step, so that a resumed run is exact. */
+    extraPoints: z
+      .object({ q: z.object({ x: z.array(z.number()), s: z.array(z.number()) }).strict(), qDagger: z.object({ x: z.array(z.number()), s: z.array(z.number()) }).strict() })
+      .strict()
+      .nullable()
+      .optional(),
+    /** tfjs weight manifest of weights.bin (tf.io.encodeWeights). */
+    weightSpecs: z.array(weightSpecSchema),
+    weightBytes: z.number().int().min(0),
+  })
+  .strict();
+
+export type CheckpointFile = z.infer<typeof checkpointFileSchema>;
+export type HistoryEntry = z.infer<typeof historyEntrySchema>;
+export { weightSpecSchema, networkProvenanceSchema };
