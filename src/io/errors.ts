@@ -25,6 +25,8 @@ export class RunFailure extends Error {
 
 function describeValue(v: unknown): string {
   if (v === undefined) return 'nothing (missing)';
+  // A long list is described by its length (what a check on it is about), not its contents.
+  if (Array.isArray(v) && v.length > 8) return `${v.length} values`;
   const s = formatValue(v);
   return s.length > 80 ? `${s.slice(0, 77)}...` : s;
 }

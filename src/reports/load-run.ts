@@ -10,11 +10,12 @@
  */
 import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
-import { z } from 'zod';
 import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
 import { readJsonFile } from '../io/load-json.js';
 import { solutionFileSchema } from '../io/formats/solution.js';
 import { checkpointFileSchema } from '../io/formats/training.js';
+import { inversionResultSchema } from '../io/formats/inversion.js';
+import type { InversionResultFile } from '../io/formats/inversion.js';
 import type { SolutionFile } from '../io/formats/solution.js';
 import { buildChain } from '../physics/chain.js';
 import { makeCell } from '../physics/cell/make-cell.js';
@@ -24,22 +25,7 @@ import type { MetricRow, ReportInput } from './report-inputs.js';
 import { surrogateInput } from './surrogate-input.js';
 import { assertSameGrid } from './solution-differences.js';
 
-/** The parts of an inversion result (inverse/inversion-result.ts) that the report draws. */
-const estimatorFileSchema = z
-  .object({
-    chiN: z.number(),
-    interval: z.tuple([z.number(), z.number()]),
-    interval95: z.tuple([z.number(), z.number()]).optional(),
-    intervals: z.record(z.string(), z.object({ deltaChi2: z.number().nullable() }).passthrough()).optional(),
-    intervalMethod: z.string(),
-    profileLikelihood: z.array(z.object({ chiN: z.number(), deltaChi2: z.number() }).passthrough()).optional(),
-    fitCurve: z.object({ x: z.array(z.number()), phiA: z.array(z.number()) }).optional(),
-    points: z.object({ x: z.array(z.number()), phiA: z.array(z.number()), sigma: z.array(z.number()), fit: z.array(z.number()), residual: z.array(z.number()) }).optional(),
-  })
-  .passthrough();
-const inversionFileSchema = z.object({ kind: z.literal('inversion'), estimators: z.record(z.string(), estimatorFileSchema) }).passthrough();
-
-function inversionInput(file: z.infer<typeof inversionFileSchema>): ReportInput['inversion'] {
+function inversionInput(file: InversionResultFile): ReportInput['inversion'] {
   const main = file.estimators.classical ?? Object.values(file.estimators)[0];
   if (!main?.points || !main.fitCurve) return undefined;
   const p = main.points;
@@ -156,11 +142,11 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       solutions.push(loadSolution(path, raw));
       read.push(path);
     } else if (kind === 'inversion') {
-      const inv = parseOrThrow(inversionFileSchema, raw, path);
+      const inv = parseOrThrow(inversionResultSchema, raw, path);
       inversion = inversionInput(inv);
       // The network estimator's χN trajectory (first seed), against the classical estimate.
-      const runs = (inv.estimators.network as { runs?: { trajectory?: { step: number; chiN: number }[] }[] } | undefined)?.runs;
-      const traj = runs?.[0]?.trajectory?.filter((p) => Number.isFinite(p.chiN));
+      const runs = inv.estimators.network?.runs;
+      const traj = runs?.[0]?.trajectory?.filter((p): p is { step: number; chiN: number } => p.chiN !== null && Number.isFinite(p.chiN));
       if (traj && traj.length > 1 && !training) {
         const cl = inv.estimators.classical;
         training = { history: [], chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };

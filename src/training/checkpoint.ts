@@ -15,6 +15,7 @@ import { writeDirectoryAtomic } from '../io/atomic-write.js';
 import { InputError } from '../io/errors.js';
 import { formatZodError } from '../io/errors.js';
 import { CHECKPOINT_VERSION, checkpointFileSchema } from '../io/formats/training.js';
+import { throughSchema } from '../io/formats/file-format.js';
 import type { CheckpointFile } from '../io/formats/training.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { NamedWeight } from '../autodiff/parameters.js';
@@ -38,7 +39,7 @@ export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<z.input<typ
 export async function writeWeightsDirectory<S extends z.ZodType>(tf: Tf, dir: string, schema: S, meta: Omit<z.input<S>, 'weightSpecs' | 'weightBytes'>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
   const { data, specs } = await tf.io.encodeWeights(tensors.map((t) => ({ name: t.name, tensor: t.tensor })));
   // Built through the file's schema: what is written always reads back.
-  const file = schema.parse({ ...meta, weightSpecs: specs, weightBytes: data.byteLength });
+  const file = throughSchema(schema, { ...meta, weightSpecs: specs, weightBytes: data.byteLength });
   writeDirectoryAtomic(dir, {
     'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
     'weights.bin': new Uint8Array(data),

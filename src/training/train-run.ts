@@ -3,7 +3,7 @@
  * transfer, or resume), physics training, evaluation against the reference, checkpoints.
  * The CLI's `train` is a thin wrapper around trainRun; tests call it directly.
  */
-import { formatText } from '../io/formats/file-format.js';
+import { formatText, throughSchema } from '../io/formats/file-format.js';
 import { trainMetricsSchema } from '../io/formats/training.js';
 import type { TrainMetrics, TransferReport } from '../io/formats/training.js';
 import { InputError } from '../io/errors.js';
@@ -277,7 +277,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     reference: summarize(reference, { periodTolerance: ref.search?.periodTolerance }),
     network: summarize(network),
     // Filled phase by phase above; checked complete here.
-    training: trainMetricsSchema.shape.training.parse(training),
+    training: throughSchema(trainMetricsSchema.shape.training, training),
   };
   if (opts.outDir) {
     const networkFile = `${JSON.stringify(solutionToFile(network, prov(), config), null, 1)}\n`;

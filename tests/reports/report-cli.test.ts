@@ -72,7 +72,7 @@ describe('mesofield report: bad input exits 2 with a message naming the problem'
     writeFileSync(join(out, 'report.pdf'), 'previous report');
     const r = runCli(['report', bad, '--out', out]);
     expect(r.code).toBe(2);
-    expect(r.stderr).toContain(`${join(bad, 'solution.json')}: propagators.q: got 40 rows; must hold summary.ns + 1 = 41`);
+    expect(r.stderr).toContain(`${join(bad, 'solution.json')}: propagators.q: got 40 values; must hold summary.ns + 1 = 41 rows`);
     expect(readFileSync(join(out, 'report.pdf'), 'utf8')).toBe('previous report');
   });
 
@@ -96,10 +96,11 @@ describe('mesofield report: bad input exits 2 with a message naming the problem'
     const net = structuredClone(ref);
     net.summary.solver = 'network';
     net.summary.length = ref.summary.length * 1.1;
+    net.cell.length = net.summary.length;
     writeFileSync(join(mixed, 'network-solution.json'), JSON.stringify(net));
     const r = runCli(['report', mixed]);
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/network-solution\.json: grid nx = 32, L = .* differs from the reference's/);
+    expect(r.stderr).toMatch(/network-solution\.json against .*solution\.json: the network solution and the reference differ \(cell length [\d.]+ Rg against [\d.]+ Rg\)/);
   });
 
   it('bad --format and --dpi', () => {

@@ -58,7 +58,7 @@ describe('surrogate commands', () => {
   it('predict prints period, F, Q and the profile inside the range', () => {
     const r = runCli(['predict', ck, '--chiN', '15.5', '--points', '8']);
     expect(r.code, r.stderr).toBe(0);
-    expect(r.stdout).toMatch(/surrogate at χN = 15\.5: lamellar, period 3\.\d+ Rg/);
+    expect(r.stdout).toMatch(/surrogate at χN = 15\.5: lamellar \(compared with disorder only\), period 3\.\d+ Rg/);
     expect(r.stdout).toMatch(/F = 3\.\d+ kT\/chain/);
     const rows = r.stdout.trim().split('\n').filter((l) => /^\s+\d/.test(l));
     expect(rows.length).toBe(8);

@@ -121,8 +121,13 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
   it('refuses points outside the trained range unless extrapolation is allowed', () => {
     expect(() => predictAt(run.model, { chiN: 20.5, f: 0.5, segmentRatio: 1 })).toThrow(/--chiN: got 20.5; the surrogate was trained for χN in \[12, 20\]/);
     expect(() => predictAt(run.model, { chiN: 15, f: 0.45, segmentRatio: 1 })).toThrow(/--f: got 0.45; the surrogate was trained at the fixed f = 0.5 only/);
+    // A parameter the surrogate holds fixed has no network input: no answer exists there, even when extrapolation is allowed.
+    expect(() => predictAt(run.model, { chiN: 15, f: 0.45, segmentRatio: 1 }, { allowExtrapolation: true })).toThrow(/--f: got 0.45; .*fixed f = 0.5 only[\s\S]*--allow-extrapolation does not apply/);
+    expect(() => predictAt(run.model, { chiN: 15, f: 0.5, segmentRatio: 1.2 }, { allowExtrapolation: true })).toThrow(/--segment-ratio: got 1.2/);
     const p = predictAt(run.model, { chiN: 20.5, f: 0.5, segmentRatio: 1 }, { allowExtrapolation: true });
     expect(p.outside.length).toBe(1);
+    // Checked like any answer: φA + φB = 1 (docs/physics.md: incompressibility) to the surrogate's limit, or a warning says it failed.
+    expect(p.incompressibilityMax > 1e-3).toBe(p.warnings.some((w) => w.includes('φA + φB departs from 1')));
   });
 
   it('a saved checkpoint gives identical predictions when loaded', async () => {

@@ -22,7 +22,7 @@ import { provenance } from '../../io/versions.js';
 import { reportRunDirectory } from '../../reports/report-run-directory.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
 import { estimateClassical } from '../../inverse/classical.js';
-import { classicalBlock, fitCsv, inversionResult, networkBlock } from '../../inverse/inversion-result.js';
+import { classicalBlock, fitCsv, inversionResult, networkBlock, inversionResultText } from '../../inverse/inversion-result.js';
 import { compareWithTruth } from '../../inverse/truth-comparison.js';
 import { parseProfileCsv } from '../../inverse/profile-csv.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
@@ -132,7 +132,7 @@ export function registerDemo(program: Command): void {
             freeEnergy: synth.point.solution.freeEnergy,
             note: 'the demo scenario; lengths (period, offset) in Rg; offset is the data position of the centre of an A-rich domain',
           }),
-          'result.json': `${JSON.stringify(result, null, 1)}\n`,
+          'result.json': inversionResultText(result),
           'fit.csv': fitCsv(data, est),
           'solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
         });

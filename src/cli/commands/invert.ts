@@ -10,7 +10,7 @@ import { solutionToFile } from '../../io/formats/solution.js';
 import { provenance } from '../../io/versions.js';
 import { estimateClassical } from '../../inverse/classical.js';
 import type { PeriodMode } from '../../inverse/objective.js';
-import { fitCsv, classicalBlock, inversionResult, networkBlock, summaryText } from '../../inverse/inversion-result.js';
+import { fitCsv, classicalBlock, inversionResult, inversionResultText, networkBlock, summaryText } from '../../inverse/inversion-result.js';
 import type { EstimatorBlock } from '../../inverse/inversion-result.js';
 import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
 import type { NetworkEstimate } from '../../inverse/network-estimator.js';
@@ -194,7 +194,7 @@ export function registerInvert(program: Command): void {
         const result = inversionResult(data, config, provenance(), estimators, truth);
         if (flags.out) {
           const files = {
-            'result.json': `${JSON.stringify(result, null, 1)}\n`,
+            'result.json': inversionResultText(result),
             'fit.csv': fitCsv(data, estimate),
             'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
           };
@@ -206,7 +206,7 @@ export function registerInvert(program: Command): void {
             if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
           }
         }
-        process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : summaryText(result));
+        process.stdout.write(flags.json ? inversionResultText(result, 2) : summaryText(result));
       }),
     );
 }

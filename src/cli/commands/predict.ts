@@ -2,6 +2,10 @@
 import type { Command } from 'commander';
 import { writeFileAtomic } from '../../io/atomic-write.js';
 import { InputError } from '../../io/errors.js';
+import { formatNumber } from '../../io/number-format.js';
+import { PREDICTION_VERSION, predictionSchema } from '../../io/formats/surrogate.js';
+import { phaseLabel } from '../../physics/lamellar-window.js';
+import type { Phase } from '../../physics/result.js';
 import { provenance } from '../../io/versions.js';
 import { PARAMETER_LABELS, PARAMETER_NAMES } from '../../surrogate/parameter-space.js';
 import type { ParameterPoint } from '../../surrogate/parameter-space.js';
@@ -23,7 +27,7 @@ interface PredictFlags {
   quiet?: boolean;
 }
 
-const fmt = (v: number, d = 6) => (Number.isFinite(v) ? v.toPrecision(d) : String(v));
+const fmt = (v: number, d = 6) => formatNumber(v, d);
 
 function profileCsv(p: Prediction): string {
   const rows = ['x,t,phiA,phiB,wA,wB'];
@@ -37,7 +41,7 @@ export function registerPredict(program: Command): void {
     .description('the lamella a trained surrogate predicts at a parameter point: profile, fields, period, Q and F')
     .argument('<checkpoint>', 'surrogate checkpoint directory written by train (kind "surrogate")')
     .option('--chiN <x>', 'χN of the point')
-    .option('--f <f>', 'A fraction (needed when the surrogate varies f)')
+    .option('--f <f>', 'A fraction, > 0 and < 1 (needed when the surrogate varies f; otherwise only its fixed f is accepted)')
     .option('--segment-ratio <r>', 'b_A/b_B (needed when the surrogate varies it)')
     .option('--points <n>', 'x points over one period (default: the training grid)')
     .option('--json', 'print the prediction as JSON on stdout')
@@ -77,20 +81,23 @@ export function registerPredict(program: Command): void {
           const p = predictAt(model, point, { points, allowExtrapolation: flags.allowExtrapolation });
           for (const m of p.outside) say(`warning: extrapolating: ${m}; the error there is unknown`);
           say(`loaded in ${loadSeconds.toFixed(2)} s (tfjs ${handle.backend} start-up and weights); query ${(1000 * p.seconds).toFixed(2)} ms`);
-          const errors = (file.metrics as { errors?: { phiARelativeL2?: { max: number }; freeEnergyError?: { max: number } } } | undefined)?.errors;
-          const result = {
+          const errors = file.metrics?.errors;
+          const result = predictionSchema.parse({
             kind: 'prediction',
+            version: PREDICTION_VERSION,
             checkpoint: dir,
             provenance: { ...provenance({ backend: handle.backend, tfjs: handle.tfjsVersion }) },
             trainedRange: model.space.axes.map((a) => ({ name: a.name, min: a.min, max: a.max })),
             extrapolated: p.outside.length > 0,
-            heldOutErrors: errors ? { phiARelativeL2Max: errors.phiARelativeL2?.max, freeEnergyErrorMax: errors.freeEnergyError?.max } : undefined,
+            ...(errors ? { heldOutErrors: { phiARelativeL2Max: errors.phiARelativeL2.max, freeEnergyErrorMax: errors.freeEnergyError.max } } : {}),
             ...p,
-          };
+          });
+          for (const w of p.warnings) say(`warning: UNRELIABLE extrapolation: ${w}`);
           const summary = [
-            `surrogate at ${model.space.describe(point)}${p.outside.length ? ' (EXTRAPOLATED: outside the trained range)' : ''}: ${p.phase}, period ${fmt(p.period)} Rg (interpolated from the anchors)`,
+            ...p.warnings.map((w) => `UNRELIABLE (extrapolated answer failed a check): ${w}`),
+            `surrogate at ${model.space.describe(point)}${p.outside.length ? ' (EXTRAPOLATED: outside the trained range)' : ''}: ${phaseLabel(p.phase as Phase)}, period ${fmt(p.period)} Rg (interpolated from the anchors)`,
             `F = ${fmt(p.freeEnergy, 10)} kT/chain (disordered ${fmt(p.freeEnergyDisordered)}), Q = ${fmt(p.Q, 10)} (from q†: ${fmt(p.QDagger, 10)}); SCFT residual of the surrogate's fields ${p.residual.toExponential(2)} kT`,
-            ...(errors ? [`held-out check at training: φA relative L2 ≤ ${errors.phiARelativeL2?.max.toExponential(2)}, |F error| ≤ ${errors.freeEnergyError?.max.toExponential(2)} kT/chain`] : []),
+            ...(errors ? [`held-out check at training: φA relative L2 ≤ ${formatNumber(errors.phiARelativeL2.max, 3)}, |F error| ≤ ${formatNumber(errors.freeEnergyError.max, 3)} kT/chain`] : []),
           ];
           if (flags.out) {
             writeFileAtomic(flags.out, flags.out.endsWith('.csv') ? profileCsv(p) : `${JSON.stringify(result, null, 2)}\n`);

@@ -29,11 +29,19 @@ export const provenanceSchema = z
   .strict();
 
 /**
+ * A value as it will be written, checked by its schema: JSON has no NaN or Infinity (they
+ * become null), so the check runs on the JSON form, which is exactly what a reader will see.
+ */
+export function throughSchema<S extends z.ZodType>(schema: S, value: unknown): z.infer<S> {
+  return schema.parse(JSON.parse(JSON.stringify(value)));
+}
+
+/**
  * The JSON text of a file, built through its schema: the value is validated (and its
  * defaults filled) before it is written, so a file the tool writes always reads back.
  */
 export function formatText<S extends z.ZodType>(schema: S, value: z.input<S>, indent = 1): string {
-  return `${JSON.stringify(schema.parse(value), null, indent)}\n`;
+  return `${JSON.stringify(throughSchema(schema, value), null, indent)}\n`;
 }
 
 /** Read a file of a known kind through its schema (errors name the file and field). */

@@ -90,6 +90,7 @@ export const solutionFileSchema = z
       if (v.grid[k].length !== n) ctx.addIssue({ code: 'custom', path: ['grid', k], message: `must hold summary.nx = ${n} values` });
     }
     if (v.cell.n !== n) ctx.addIssue({ code: 'custom', path: ['cell', 'n'], message: `must equal summary.nx = ${n}` });
+    if (Math.abs(v.cell.length - v.summary.length) > 1e-12 * v.summary.length) ctx.addIssue({ code: 'custom', path: ['cell', 'length'], message: `must equal summary.length = ${v.summary.length} Rg` });
     const p = v.propagators;
     if (!p) return;
     const ns = v.summary.ns;
