@@ -5,7 +5,7 @@
  * The CLI's `train` hands surrogate configs here; tests call surrogateRun directly.
  */
 import { formatText } from '../io/formats/file-format.js';
-import { surrogateMetricsSchema } from '../io/formats/surrogate.js';
+import { SURROGATE_METRICS_VERSION, surrogateMetricsSchema } from '../io/formats/surrogate.js';
 import type { SurrogateMetrics } from '../io/formats/surrogate.js';
 import { RunFailure } from '../io/errors.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
@@ -138,7 +138,8 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     const querySeconds = median(queries);
     const buildSeconds = anchorSeconds + extraSeconds + fit.seconds + roundsSeconds;
     const metrics: SurrogateMetrics = {
-      kind: 'surrogate',
+      kind: 'surrogate-metrics',
+    version: SURROGATE_METRICS_VERSION,
       backend: handle.backend,
       tfjs: handle.tfjsVersion,
       parameters: space.axes.map((a) => ({ ...a })),

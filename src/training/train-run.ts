@@ -4,7 +4,7 @@
  * The CLI's `train` is a thin wrapper around trainRun; tests call it directly.
  */
 import { formatText, throughSchema } from '../io/formats/file-format.js';
-import { trainMetricsSchema } from '../io/formats/training.js';
+import { TRAIN_METRICS_VERSION, trainMetricsFileSchema, trainMetricsSchema } from '../io/formats/training.js';
 import type { TrainMetrics, TransferReport } from '../io/formats/training.js';
 import { InputError } from '../io/errors.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
@@ -281,7 +281,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   };
   if (opts.outDir) {
     const networkFile = `${JSON.stringify(solutionToFile(network, prov(), config), null, 1)}\n`;
-    await save(loop.state, 'done', { 'metrics.json': formatText(trainMetricsSchema, metrics, 2), 'network.json': networkFile }, metrics);
+    await save(loop.state, 'done', { 'metrics.json': formatText(trainMetricsFileSchema, { kind: 'train-metrics', version: TRAIN_METRICS_VERSION, ...metrics }, 2), 'network.json': networkFile }, metrics);
   }
   problem.dispose();
   adam.dispose();

@@ -48,9 +48,12 @@ export const heldOutErrorSchema = z
   })
   .strict();
 
+export const SURROGATE_METRICS_VERSION = 1;
+
 export const surrogateMetricsSchema = z
   .object({
-    kind: z.literal('surrogate'),
+    /** metrics.json of a surrogate run (also embedded in its checkpoint). */
+    ...formatHeader('surrogate-metrics', SURROGATE_METRICS_VERSION),
     backend: z.string(),
     tfjs: z.string(),
     parameters: z.array(z.object({ name: z.enum(['chiN', 'f', 'segmentRatio']), min: z.number(), max: z.number(), anchors: z.number().int() }).strict()).min(1),

@@ -97,6 +97,11 @@ export const trainMetricsSchema = z
   .strict();
 
 export type TrainMetrics = z.infer<typeof trainMetricsSchema>;
+
+export const TRAIN_METRICS_VERSION = 1;
+
+/** metrics.json of a training run: the metrics under a file header. */
+export const trainMetricsFileSchema = trainMetricsSchema.extend(formatHeader('train-metrics', TRAIN_METRICS_VERSION));
 export type TransferReport = z.infer<typeof transferReportSchema>;
 
 const weightSpecSchema = z.object({ name: z.string(), shape: z.array(z.number().int()), dtype: z.string() }).loose();
