@@ -93,7 +93,7 @@ async function transferBaseline(opts: TrainRunOptions, config: TrainConfig): Pro
   const t = r.metrics.training;
   const ws = t.warmStart ?? { adamSteps: 0, seconds: 0 };
   const end = t.reachedTarget ?? { step: t.adamSteps, seconds: r.history.filter((h) => h.stage === 'adam').pop()?.seconds ?? 0 };
-  return { reached: Boolean(t.reachedTarget), steps: end.step, seconds: ws.seconds + end.seconds, warmStartSteps: ws.adamSteps, warmStartSeconds: ws.seconds, finalPhiError: r.metrics.errors.phiA.relativeL2 };
+  return { reached: Boolean(t.reachedTarget), adamSteps: end.step, seconds: ws.seconds + end.seconds, warmStartAdamSteps: ws.adamSteps, warmStartSeconds: ws.seconds, finalPhiError: r.metrics.errors.phiA.relativeL2 };
 }
 
 function unitWeights(): LossValues {
@@ -257,12 +257,12 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const target = config.training.targetPhiError;
   if (training.transferredFrom && target !== undefined) {
     // Reached in the Adam phase or in an L-BFGS cycle (then its iterations are in training.reachedTarget).
-    const reached = training.reachedTarget ? { steps: training.reachedTarget.step, seconds: training.reachedTarget.seconds } : null;
+    const reached = training.reachedTarget ? { adamSteps: training.reachedTarget.step, seconds: training.reachedTarget.seconds } : null;
     const report: TransferReport = { targetPhiError: target, transfer: reached };
     if (config.training.transferBaseline === 'warm-start') {
       const b = await transferBaseline(opts, config);
       report.baseline = b;
-      report.saved = reached ? { steps: b.steps - reached.steps, seconds: b.seconds - reached.seconds, lowerBound: !b.reached } : null;
+      report.saved = reached ? { adamSteps: b.adamSteps - reached.adamSteps, seconds: b.seconds - reached.seconds, lowerBound: !b.reached } : null;
     }
     training.transfer = report;
   }

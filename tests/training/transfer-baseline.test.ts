@@ -56,20 +56,20 @@ describe('transfer report', () => {
     const t = m.training.transfer;
     expect(t.targetPhiError).toBe(5e-2);
     // Both runs reach the loose target within the budget (measured: transfer 50 steps, baseline 100).
-    expect(t.transfer.steps).toBe(m.training.reachedTarget.step);
-    expect(t.transfer.steps % 10).toBe(0); // evaluated every 10 steps
+    expect(t.transfer.adamSteps).toBe(m.training.reachedTarget.step);
+    expect(t.transfer.adamSteps % 10).toBe(0); // evaluated every 10 steps
     expect(t.baseline.reached).toBe(true);
     expect(t.saved.lowerBound).toBe(false);
-    expect(t.baseline.warmStartSteps).toBe(300);
+    expect(t.baseline.warmStartAdamSteps).toBe(300);
     expect(t.baseline.seconds).toBeGreaterThan(t.baseline.warmStartSeconds);
-    expect(t.saved.steps).toBe(t.baseline.steps - t.transfer.steps);
+    expect(t.saved.adamSteps).toBe(t.baseline.adamSteps - t.transfer.adamSteps);
     expect(t.saved.seconds).toBeCloseTo(t.baseline.seconds - t.transfer.seconds, 9);
     // The transferred run itself stopped at the target; its error is below it.
     expect(m.training.stopReason).toBe('target-reached');
     expect(m.errors.phiA.relativeL2).toBeLessThan(5e-2);
     // stdout repeats the figures.
-    expect(r.stdout).toContain(`transfer from ${source}: φA error < 0.05 at step ${t.transfer.steps} (`);
-    expect(r.stdout).toContain(`warm-start baseline: φA error < 0.05 at step ${t.baseline.steps} (`);
-    expect(r.stdout).toContain(`saved by the transfer: ${t.saved.steps} steps, ${t.saved.seconds.toFixed(1)} s`);
+    expect(r.stdout).toContain(`transfer from ${source}: φA error < 0.05 at step ${t.transfer.adamSteps} (`);
+    expect(r.stdout).toContain(`warm-start baseline: φA error < 0.05 at step ${t.baseline.adamSteps} (`);
+    expect(r.stdout).toContain(`saved by the transfer: ${t.saved.adamSteps} steps, ${t.saved.seconds.toFixed(1)} s`);
   }, 300_000);
 });

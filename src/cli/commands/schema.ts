@@ -16,10 +16,16 @@ export function registerSchema(program: Command): void {
     .description(`print the JSON Schema of a config file kind (${Object.keys(all).join(', ')}), with every field, default and bound`)
     .argument('[kind]', 'config kind')
     .option('--markdown', 'print the reference of every kind as Markdown tables (docs/config-reference.md)')
+    .option('--synopsis', "print every command with its arguments and flags (the README's synopsis)")
     .action(
-      action((kind: string | undefined, flags: { markdown?: boolean }) => {
+      action(async (kind: string | undefined, flags: { markdown?: boolean; synopsis?: boolean }, command: Command) => {
         if (flags.markdown) {
           process.stdout.write(configReferenceMarkdown(all));
+          return;
+        }
+        if (flags.synopsis) {
+          const { synopsis } = await import('../synopsis.js');
+          process.stdout.write(synopsis(command.parent!));
           return;
         }
         if (kind === undefined) throw new InputError(`kind: missing; allowed: ${Object.keys(all).join(', ')} (or --markdown)`);

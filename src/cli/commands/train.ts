@@ -35,15 +35,15 @@ function fmt(v: number): string {
 
 /** Steps and time a transfer took to its target, and what it saved against a warm start. */
 function transferLines(t: TransferReport, from: string): string[] {
-  const reach = (r: { steps: number; seconds: number } | null | undefined, what: string) =>
-    r ? `φA error < ${t.targetPhiError} at step ${r.steps} (${r.seconds.toFixed(1)} s ${what})` : `φA error < ${t.targetPhiError} not reached`;
+  const reach = (r: { adamSteps: number; seconds: number } | null | undefined, what: string) =>
+    r ? `φA error < ${t.targetPhiError} at step ${r.adamSteps} (${r.seconds.toFixed(1)} s ${what})` : `φA error < ${t.targetPhiError} not reached`;
   const lines = [`transfer from ${from}: ${reach(t.transfer, 'of training')}`];
   const b = t.baseline;
   if (b) {
-    const ws = `with its ${b.warmStartSteps}-step warm start, ${b.warmStartSeconds.toFixed(1)} s`;
-    lines.push(`warm-start baseline: ${b.reached ? reach(b, ws) : `φA error < ${t.targetPhiError} not reached in ${b.steps} steps (${b.seconds.toFixed(1)} s ${ws}; it ended at ${fmt(b.finalPhiError)})`}`);
+    const ws = `with its ${b.warmStartAdamSteps}-step warm start, ${b.warmStartSeconds.toFixed(1)} s`;
+    lines.push(`warm-start baseline: ${b.reached ? reach(b, ws) : `φA error < ${t.targetPhiError} not reached in ${b.adamSteps} steps (${b.seconds.toFixed(1)} s ${ws}; it ended at ${fmt(b.finalPhiError)})`}`);
     const s = t.saved;
-    lines.push(s ? `saved by the transfer: ${s.lowerBound ? 'at least ' : ''}${s.steps} steps, ${s.seconds.toFixed(1)} s` : 'saved by the transfer: not measured (the transfer did not reach the target)');
+    lines.push(s ? `saved by the transfer: ${s.lowerBound ? 'at least ' : ''}${s.adamSteps} steps, ${s.seconds.toFixed(1)} s` : 'saved by the transfer: not measured (the transfer did not reach the target)');
   }
   return lines;
 }

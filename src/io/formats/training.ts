@@ -49,17 +49,18 @@ export const solutionErrorsSchema = z
   })
   .strict();
 
-const reachedSchema = z.object({ steps: z.number(), seconds: z.number() }).strict();
+/** Adam steps and training seconds to reach the target φA error. */
+const reachedSchema = z.object({ adamSteps: z.number(), seconds: z.number() }).strict();
 
 export const transferReportSchema = z
   .object({
     targetPhiError: z.number(),
     transfer: reachedSchema.nullable(),
     baseline: z
-      .object({ reached: z.boolean(), steps: z.number(), seconds: z.number(), warmStartSteps: z.number(), warmStartSeconds: z.number(), finalPhiError: z.number() })
+      .object({ reached: z.boolean(), adamSteps: z.number(), seconds: z.number(), warmStartAdamSteps: z.number(), warmStartSeconds: z.number(), finalPhiError: z.number() })
       .strict()
       .optional(),
-    saved: z.object({ steps: z.number(), seconds: z.number(), lowerBound: z.boolean() }).strict().nullable().optional(),
+    saved: z.object({ adamSteps: z.number(), seconds: z.number(), lowerBound: z.boolean() }).strict().nullable().optional(),
   })
   .strict();
 

@@ -30,6 +30,7 @@ export const invertConfigSchema = z
     chiNRange: z
       .tuple([positive, positive])
       .refine((r) => r[0] < r[1], { message: 'must be [lo, hi] with lo < hi' })
+      .meta({ constraint: 'lo < hi' })
       .optional(),
     /** Gaussian instrument resolution (standard deviation); 0 for none. */
     resolution: z.number().min(0).default(0),

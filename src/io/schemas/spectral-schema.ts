@@ -9,7 +9,8 @@ const powerOfTwo = z
   .int()
   .min(8)
   .max(8192)
-  .refine((n) => (n & (n - 1)) === 0, { message: 'must be a power of two (8, 16, …, 8192): the FFT needs it' });
+  .refine((n) => (n & (n - 1)) === 0, { message: 'must be a power of two (8, 16, …, 8192): the FFT needs it' })
+  .meta({ constraint: 'a power of two' });
 
 /** Grid points: a power of two (the FFT needs it). */
 export const gridPointsSchema = powerOfTwo;
@@ -52,6 +53,7 @@ export type FilmCellSpec = { kind: 'film'; thickness: number; walls: z.infer<typ
 export type CellSpec = PeriodicCellSpec | FilmCellSpec;
 
 export const cellSchema = cellFields
+  .meta({ constraint: 'kind "film" needs thickness and takes walls, not period or periods; kind "periodic" takes period and periods, not thickness or walls' })
   .superRefine((c, ctx) => {
     const film = c.kind === 'film';
     if (film && c.thickness === undefined) ctx.addIssue({ code: 'custom', path: ['thickness'], message: 'a film (kind "film") needs its thickness in Rg' });

@@ -23,7 +23,8 @@ function range(value: z.ZodNumber) {
       anchors: z.number().int().min(2).max(33).default(5),
     })
     .strict()
-    .refine((r) => r.min < r.max, { message: 'must have min < max (a fixed value is given as a plain number)' });
+    .refine((r) => r.min < r.max, { message: 'must have min < max (a fixed value is given as a plain number)' })
+    .meta({ constraint: 'min < max' });
 }
 
 export const surrogateConfigSchema = z

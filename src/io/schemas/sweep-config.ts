@@ -45,7 +45,8 @@ function axis(value: z.ZodNumber) {
     z
       .object({ from: value, to: value, count: z.number().int().min(1).max(10000) })
       .strict()
-      .refine((r) => r.count > 1 || r.from === r.to, { message: 'count 1 needs from = to (one value)' }),
+      .refine((r) => r.count > 1 || r.from === r.to, { message: 'count 1 needs from = to (one value)' })
+      .meta({ constraint: 'count 1 needs from = to' }),
   ]);
 }
 
@@ -66,7 +67,8 @@ export const sweepConfigSchema = z
       .strict()
       .refine((g) => axisLength(g.chiN) * axisLength(g.f) * axisLength(g.segmentRatio) <= MAX_POINTS, {
         message: `at most ${MAX_POINTS} points (the product of the axis lengths): split the sweep into several configs`,
-      }),
+      })
+      .meta({ constraint: `at most ${MAX_POINTS} points (the product of the axis lengths)` }),
     cell: cellSchema.prefault({}),
     /**
      * Spectral solver settings of every point. Each point starts afresh from this start
@@ -75,7 +77,8 @@ export const sweepConfigSchema = z
      */
     solver: spectralSchema
       .prefault({})
-      .refine((s) => s.start.type !== 'file', { message: 'start "file" is not allowed in a sweep (one file cannot fit every point): use "cosine" or "rpa"', path: ['start', 'type'] }),
+      .refine((s) => s.start.type !== 'file', { message: 'start "file" is not allowed in a sweep (one file cannot fit every point): use "cosine" or "rpa"', path: ['start', 'type'] })
+      .meta({ constraint: 'start.type "cosine" or "rpa" (not "file")' }),
   })
   .strict();
 

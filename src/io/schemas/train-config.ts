@@ -59,6 +59,7 @@ export const trainConfigSchema = z
           .min(8)
           .max(512)
           .refine((n) => n % 2 === 0, { message: 'must be even (the grid of the periodic cell; its Fourier interpolant needs an even count)' })
+          .meta({ constraint: 'even' })
           .default(32),
         nodesPerBlock: z
           .number()
@@ -66,6 +67,7 @@ export const trainConfigSchema = z
           .min(4)
           .max(512)
           .refine((n) => n % 2 === 0, { message: 'must be even (Simpson intervals come in pairs)' })
+          .meta({ constraint: 'even' })
           .default(16),
         /** Extra MDE collocation points, redrawn every resampleEvery steps. */
         random: z.number().int().min(0).max(100000).default(256),
