@@ -141,7 +141,7 @@ export class ParameterSpace {
     for (const name of PARAMETER_NAMES) {
       const { flag, symbol } = PARAMETER_LABELS[name];
       if (this.axes.some((x) => x.name === name)) continue;
-      if (p[name] !== this.fixed[name]) out.push(`${flag}: got ${formatNumber(p[name])}; the surrogate was trained at the fixed ${symbol} = ${formatNumber(this.fixed[name])} only (it has no input for ${symbol}; train a surrogate with a ${symbol} range)`);
+      if (p[name] !== this.fixed[name]) out.push(`${flag}: got ${formatNumber(p[name])}; the surrogate was trained at the fixed ${symbol} = ${formatNumber(this.fixed[name])} only (it has no input for ${symbol}; train a surrogate over a range of ${symbol})`);
     }
     return out;
   }
