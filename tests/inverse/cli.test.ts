@@ -69,7 +69,7 @@ describe('mesofield invert', () => {
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);
     expect(res.kind).toBe('inversion');
-    expect(res.version).toBe(1);
+    expect(res.version).toBe(2); // inversion files are version 2 (io/formats/inversion.ts)
     expect(res.provenance.tool).toBe('mesofield');
     const c = res.estimators.classical;
     expect(Math.abs(c.chiN / 15 - 1)).toBeLessThan(0.02);
