@@ -3,9 +3,10 @@
  * One part only: `npm run bench -- --step-profile` (per-step timing and kernel breakdown,
  * side by side with PyTorch; independent runs and one run split across worker threads),
  * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
- * estimators), `--surrogate` (the parametric surrogate).
+ * estimators), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
+ * line against bare node).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -31,4 +32,8 @@ if (want('--inverse')) {
 if (want('--surrogate')) {
   const { runSurrogateBench } = await import('./surrogate-bench.js');
   await runSurrogateBench();
+}
+if (want('--startup')) {
+  const { runStartupBench } = await import('./startup-bench.js');
+  runStartupBench();
 }

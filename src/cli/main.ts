@@ -1,42 +1,18 @@
 #!/usr/bin/env node
 /**
- * mesofield command line. A thin layer: each command parses its inputs and calls library
- * functions. Commands that do not train never import tfjs (start-up time matters).
+ * mesofield command line: run-cli.ts does the work (commands load on demand); this file only
+ * hands it the arguments and exits with its code. The last-resort handlers turn anything that
+ * escapes (an error thrown from a callback) into the internal-error line, never a stack trace.
  */
-import { Command } from 'commander';
-import { mesofieldVersion } from '../io/versions.js';
-import { registerDemo } from './commands/demo.js';
-import { registerSolve } from './commands/solve.js';
-import { registerSchema } from './commands/schema.js';
-import { registerSpinodal } from './commands/spinodal.js';
-import { registerTrain } from './commands/train.js';
-import { registerSynth } from './commands/synth.js';
-import { registerInvert } from './commands/invert.js';
-import { registerReport } from './commands/report.js';
-import { registerSweep } from './commands/sweep.js';
-import { registerPredict } from './commands/predict.js';
+import { reportError } from './run-command.js';
+import { runCli } from './run-cli.js';
 
-const program = new Command();
-program
-  .name('mesofield')
-  .description('Physics-informed networks for 1D polymer SCFT, checked against a spectral reference solver')
-  .version(mesofieldVersion())
-  .showHelpAfterError()
-  .configureOutput({ writeErr: (s) => process.stderr.write(s) })
-  .exitOverride((err) => {
-    // commander's own usage errors (unknown option, missing argument) are bad input: exit 2.
-    process.exit(err.exitCode === 0 ? 0 : 2);
-  });
+const fatal = (e: unknown) => {
+  process.exitCode = reportError(e);
+  process.exit();
+};
+process.on('uncaughtException', fatal);
+process.on('unhandledRejection', fatal);
 
-registerSolve(program);
-registerDemo(program);
-registerSpinodal(program);
-registerTrain(program);
-registerSynth(program);
-registerInvert(program);
-registerReport(program);
-registerSweep(program);
-registerPredict(program);
-registerSchema(program);
-
-await program.parseAsync(process.argv);
+const { code } = await runCli(process.argv.slice(2));
+process.exitCode = code;

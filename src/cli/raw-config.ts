@@ -1,8 +1,8 @@
 /** A config file read as plain JSON, for commands that apply flags on top before validating. */
-import { readJsonFile } from '../io/load-json.js';
+import { readJsonObject } from '../io/load-json.js';
 
 export function readRawConfig(path: string): Record<string, unknown> {
-  return readJsonFile(path) as Record<string, unknown>;
+  return readJsonObject(path);
 }
 
 /** The object at parent[key], created empty when missing or not an object. */

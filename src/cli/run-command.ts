@@ -1,20 +1,39 @@
-/** Turns thrown errors into one clear message on stderr and a non-zero exit code. */
+/**
+ * Turns thrown errors into one clear message on stderr and the exit code of the contract
+ * (exit-codes.ts): input and environment 2, failed run 3, internal error 4. No stack trace
+ * reaches a user unless they ask with --debug.
+ */
 import { InputError, RunFailure } from '../io/errors.js';
+import { describeFsError, isFsError } from '../io/fs-errors.js';
 import { defaultWorkers } from '../io/worker-count.js';
 import { ModelError } from '../physics/chain.js';
+import { RunStopped, stopExitCode } from '../runtime/stop.js';
+import { invocation, reproduceLine } from './cli-context.js';
+import { EXIT } from './exit-codes.js';
 
 export function reportError(e: unknown): number {
   if (e instanceof InputError || e instanceof ModelError) {
     process.stderr.write(`mesofield: invalid input\n${e.message}\n`);
-    return 2;
+    return EXIT.input;
+  }
+  if (isFsError(e)) {
+    process.stderr.write(`mesofield: cannot use a path\n${describeFsError(e)}\n`);
+    return EXIT.input;
+  }
+  if (e instanceof RunStopped) {
+    process.stderr.write(`mesofield: ${e.message}\n`);
+    return stopExitCode();
   }
   if (e instanceof RunFailure) {
     process.stderr.write(`mesofield: ${e.message}\n`);
-    return 3;
+    return EXIT.runFailed;
   }
-  const err = e as Error;
-  process.stderr.write(`mesofield: unexpected error: ${err?.stack ?? String(e)}\n`);
-  return 1;
+  const err = e as Error | undefined;
+  const { debug } = invocation();
+  const what = err?.message ? `${err.name ?? 'Error'}: ${err.message.split('\n')[0]}` : String(e);
+  process.stderr.write(`mesofield: internal error (a bug, please report it): ${what}\n  to reproduce: ${reproduceLine()}${debug ? '' : ' --debug'}\n`);
+  if (debug && err?.stack) process.stderr.write(`${err.stack}\n`);
+  return EXIT.internal;
 }
 
 /** Wrap a command action so every failure exits with the right code. */
@@ -29,12 +48,30 @@ export function action<A extends unknown[]>(fn: (...args: A) => Promise<number |
   };
 }
 
+// A decimal number as people type it: no hex/octal/binary forms, no "Infinity", no blanks.
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/**
+ * Parse a decimal number as a user typed it, or say what is wrong with it. Strings that
+ * JavaScript would quietly turn into something else (0x10 → 16, "" → 0, 1e999 → Infinity,
+ * 1e-400 → 0) are refused. Returns the message for `name`, or the value.
+ */
+export function parseDecimal(name: string, value: string): number | string {
+  const t = value.trim();
+  if (t === '') return `${name}: got ${JSON.stringify(value)} (empty); allowed: a number`;
+  if (!DECIMAL.test(t)) return `${name}: got ${JSON.stringify(value)}; allowed: a number in decimal notation (e.g. 15, 0.5, 1e-6)`;
+  const v = Number(t);
+  if (!Number.isFinite(v)) return `${name}: got ${value}, which is beyond the range of a double (got Infinity); allowed: a finite number`;
+  if (v === 0 && /[1-9]/.test(t.replace(/[eE].*$/, ''))) return `${name}: got ${value}, which is too small to represent (it underflows to 0); allowed: a number ≥ 1e-300 in size, or 0`;
+  return v;
+}
+
 /** Parse a numeric flag, naming the flag on failure. */
 export function numberFlag(name: string, value: string | undefined): number | undefined {
   if (value === undefined) return undefined;
-  const v = Number(value);
-  if (value.trim() === '' || !Number.isFinite(v)) throw new InputError(`${name}: got ${JSON.stringify(value)}; allowed: a number`);
-  return v;
+  const r = parseDecimal(name, String(value));
+  if (typeof r === 'string') throw new InputError(r);
+  return r;
 }
 
 const MAX_WORKERS = 64;

@@ -13,6 +13,7 @@ import { buildChain } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';
 import { spinodal } from '../physics/rpa.js';
 import { deltaChi2Level, LEVELS } from './confidence.js';
+import { reducedChi2Warning } from './fit-quality.js';
 import { LamellaModel } from './lamella-model.js';
 import type { Evaluation, PeriodMode } from './objective.js';
 import { Objective, periodogramPeriod } from './objective.js';
@@ -110,6 +111,8 @@ export interface ClassicalEstimate {
   /** The best-fit φ_A as its band-limited interpolant (unblurred, origin at an A-domain centre). */
   model: FourierSeries;
   notes: string[];
+  /** Findings that could mislead a decision (a reduced χ² far above 1 with sigma given). */
+  warnings: string[];
 }
 
 export function estimateClassical(data: ProfileData, settings: ClassicalSettings, models: ModelSet = createModels(settings)): ClassicalEstimate {
@@ -222,6 +225,9 @@ export function estimateClassical(data: ProfileData, settings: ClassicalSettings
   for (const r of residual) rss += r * r;
   const chi2 = best.value / scale;
   if (!data.sigma) notes.push('χ² and reduced χ² are computed with the estimated sigma, so reduced χ² = 1 by construction (unless floored)');
+  const warnings: string[] = [];
+  const poorFit = data.sigma ? reducedChi2Warning(chi2 / dof, dof, 'this profile') : undefined;
+  if (poorFit) warnings.push(poorFit);
   const cost = {
     chiNEvaluations: full.evaluations.length + (coarse?.evaluations.length ?? 0),
     solves: models.full.counters.solves - before.solves,
@@ -256,6 +262,7 @@ export function estimateClassical(data: ProfileData, settings: ClassicalSettings
     solution: bestEval.point.solution,
     model,
     notes,
+    warnings,
   };
 }
 

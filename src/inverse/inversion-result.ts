@@ -13,15 +13,17 @@ import { formatText } from '../io/formats/file-format.js';
 import type { ClassicalEstimate } from './classical.js';
 import { fieldInDataFrame } from './classical.js';
 import type { ProfileData } from './profile-csv.js';
+import { modelAssumptions } from '../physics/model-assumptions.js';
+import type { AssumedInputsReport } from './assumed-inputs.js';
 
-/** What the fitted χN rests on: printed with every result. */
-export const ASSUMPTIONS: readonly string[] = [
-  'mean-field SCFT: no fluctuation corrections (at finite N these shift the order–disorder transition and the effective χN)',
-  'incompressible A/B melt (φ_A + φ_B = 1) with a Flory–Huggins χ',
-  'Gaussian chains with the given block fractions and segment lengths',
-  '1D lamellae in equilibrium, with the stress-free period unless a period is given or fitted',
-  'the fitted χN depends on these and on the assumed f and segment lengths: read a χN used for materials design with those limits',
-];
+/** The offset moved by whole periods to the first A-domain centre at or after the first data point (inside the data range). */
+export function offsetInData(offset: number, period: number, x0: number): number {
+  if (!(period > 0)) return offset;
+  return offset + Math.ceil((x0 - offset) / period - 1e-12) * period;
+}
+
+/** What the fitted χN rests on: printed with every result (the one list in physics/model-assumptions.ts). */
+export const ASSUMPTIONS: readonly string[] = modelAssumptions('periodic', true);
 
 /** One estimator's block: the fields every estimator reports (a network block adds its own extras). */
 export type EstimatorBlock = Pick<
@@ -81,8 +83,10 @@ export function agreement(estimators: Record<string, EstimatorBlock>): Agreement
   return { present: names, compared: true, pairs };
 }
 
-export function classicalBlock(est: ClassicalEstimate, data: ProfileData): EstimatorBlock {
+export function classicalBlock(est: ClassicalEstimate, data: ProfileData, assumed?: AssumedInputsReport): EstimatorBlock {
   const nm = data.units.x === 'nm' ? data.units.rgNm! : undefined;
+  const offset = offsetInData(est.offset, est.period, data.x[0]);
+  const withInputs = assumed?.intervals !== undefined;
   const x = new Float64Array(est.solution.nx);
   for (let j = 0; j < x.length; j++) x[j] = data.x[0] + (j * est.period) / x.length;
   const field = (v: Float64Array) => Array.from(fieldInDataFrame(est, v, x));
@@ -90,14 +94,16 @@ export function classicalBlock(est: ClassicalEstimate, data: ProfileData): Estim
   return {
     method: 'classical',
     status: 'ok',
-    chiN: est.chiN,
-    interval: est.interval,
-    interval95: est.interval95,
-    intervalMethod: `profile likelihood of χN (offset${free} minimised at each χN); the ends are where Δχ² reaches the level, found by Brent root finding; levels ${est.sigma.source === 'column' ? 'Δχ² = 1 and 3.841 (χ² with one degree of freedom)' : `t² with n − p = ${est.dof} degrees of freedom (sigma estimated)`}`,
-    intervals: est.intervals,
-    offset: est.offset,
+    chiN: withInputs ? assumed!.chiN! : est.chiN,
+    ...(withInputs ? { chiNDataOnly: est.chiN } : {}),
+    interval: withInputs ? assumed!.interval! : est.interval,
+    interval95: withInputs ? assumed!.interval95! : est.interval95,
+    intervalMethod: `profile likelihood of χN (offset${free} minimised at each χN); the ends are where Δχ² reaches the level, found by Brent root finding; levels ${est.sigma.source === 'column' ? 'Δχ² = 1 and 3.841 (χ² with one degree of freedom)' : `t² with n − p = ${est.dof} degrees of freedom (sigma estimated)`}${withInputs ? `; uncertain inputs (${[...(assumed!.rgProfile ? ['rgNm'] : []), ...assumed!.effects.map((e) => e.key)].join(', ')}) included by ${assumed!.method}` : ''}`,
+    intervals: withInputs ? assumed!.intervals! : est.intervals,
+    ...(assumed ? { assumedInputs: assumed } : {}),
+    offset,
     period: est.period,
-    ...(nm ? { offsetNm: est.offset * nm, periodNm: est.period * nm } : {}),
+    ...(nm ? { offsetNm: offset * nm, periodNm: est.period * nm } : {}),
     periodMode: est.periodMode,
     chi2: est.chi2,
     reducedChi2: est.reducedChi2,
@@ -131,6 +137,7 @@ export function classicalBlock(est: ClassicalEstimate, data: ProfileData): Estim
       wB: field(est.solution.w.B),
     },
     notes: est.notes,
+    warnings: est.warnings,
   };
 }
 
@@ -161,6 +168,8 @@ export interface InversionResult {
   agreement: Agreement;
   /** Synthetic profiles only: the estimates against the truth that made the data. */
   truth?: TruthComparison;
+  /** Wall time (s) of the whole inversion (every estimator), when the command recorded it. */
+  runSeconds?: number;
 }
 
 export function inversionResult(data: ProfileData, config: Record<string, unknown>, provenance: Provenance, estimators: Record<string, EstimatorBlock>, truth?: TruthComparison): InversionResult {
@@ -201,29 +210,57 @@ export function fitCsv(data: ProfileData, est: ClassicalEstimate): string {
   return `${rows.join('\n')}\n`;
 }
 
-/** The human summary printed on stdout. */
+/** The human summary printed on stdout. Lengths in the data's units first, Rg second. */
 export function summaryText(result: InversionResult): string {
   const lines: string[] = [];
   const u = result.input.units;
+  const len = (rg: number, nmValue: number | undefined) => (nmValue !== undefined ? `${nmValue.toPrecision(6)} nm (${rg.toPrecision(6)} Rg)` : `${rg.toPrecision(6)} Rg`);
   for (const [name, e] of Object.entries(result.estimators)) {
     const f = (v: number) => v.toPrecision(6);
-    const nm = (v: number | undefined) => (v !== undefined ? ` (${v.toPrecision(6)} nm)` : '');
     lines.push(`${name} estimate: χN = ${f(e.chiN)}`);
-    const how = e.method === 'network' ? `seed spread, ${(e.runs as unknown[]).length} seeds: an optimisation spread, not a statistical interval` : 'profile likelihood';
-    lines.push(`  68.3% interval [${f(e.interval[0])}, ${f(e.interval[1])}], 95% interval [${f(e.interval95[0])}, ${f(e.interval95[1])}] (${how})`);
-    lines.push(`  period ${e.period.toPrecision(6)} Rg${nm(e.periodNm)} (${e.periodMode}), offset ${e.offset.toPrecision(6)} Rg${nm(e.offsetNm)} (centre of an A-rich domain)`);
+    const oneSeed = e.method === 'network' && !(e.interval[1] > e.interval[0]);
+    if (oneSeed) lines.push('  no interval: one seed has no spread (run --seeds 3 or more for a seed spread)');
+    else {
+      const assumed = e.assumedInputs as AssumedInputsReport | undefined;
+      const how = e.method === 'network' ? `seed spread, ${(e.runs as unknown[]).length} seeds: an optimisation spread, not a statistical interval` : assumed?.intervals ? `profile likelihood, including ${[...(assumed.rgProfile ? [`Rg ${assumed.rgProfile.value} ± ${assumed.rgProfile.sd} nm (${assumed.rgProfile.source}), profiled exactly`] : []), ...assumed.effects.map((x) => `${x.key} ± ${x.sd} (${x.source})`)].join(', ')}` : 'profile likelihood';
+      lines.push(`  68.3% interval [${f(e.interval[0])}, ${f(e.interval[1])}], 95% interval [${f(e.interval95[0])}, ${f(e.interval95[1])}] (${how})`);
+      if (assumed?.intervals) {
+        lines.push(`  from the data alone (inputs fixed at their values): χN = ${f(e.chiNDataOnly as number)}, 68.3% [${f(assumed.statisticalInterval[0])}, ${f(assumed.statisticalInterval[1])}], 95% [${f(assumed.statisticalInterval95[0])}, ${f(assumed.statisticalInterval95[1])}]`);
+        if (assumed.rgProfile) lines.push(`  Rg profiled out: best Rg ${assumed.rgProfile.rgNmAtBest.toPrecision(5)} nm within its constraint ${assumed.rgProfile.value} ± ${assumed.rgProfile.sd} nm`);
+        for (const x of assumed.effects) {
+          lines.push(`  ${x.key} = ${x.value} ± ${x.sd}: χN = ${f(x.chiNAtMinus)} at −1 sd, ${f(x.chiNAtPlus)} at +1 sd; adds sd ${x.chiNSd.toPrecision(3)} to χN; the data pull ${x.key} by ${x.valueShift.toPrecision(3)}, moving χN by ${x.chiNShift.toPrecision(3)}`);
+        }
+      }
+      if (assumed?.sensitivity) lines.push(`  SENSITIVITY: ${assumed.sensitivity.note}`);
+    }
+    lines.push(`  period ${len(e.period, e.periodNm)} (${e.periodMode}), offset ${len(e.offset, e.offsetNm)} (centre of an A-rich domain, inside the data range)`);
     if (e.method === 'network') lines.push(`  rms residual ${e.rmsResidual.toExponential(3)} against the data; offset and period from the classical fit`);
     else lines.push(
       `  χ² = ${e.chi2.toPrecision(5)} for n − p = ${e.dof} (n = ${e.n}, p = ${e.p}), reduced χ² = ${e.reducedChi2.toPrecision(4)}, rms residual ${e.rmsResidual.toExponential(3)}, sigma ${e.sigma.source === 'column' ? 'from the column' : `estimated ${e.sigma.value!.toExponential(3)}`}`,
     );
-    lines.push(`  ${e.seconds.toFixed(2)} s`);
+    const extraSeconds = (e.assumedInputs as AssumedInputsReport | undefined)?.seconds;
+    lines.push(`  ${e.seconds.toFixed(2)} s${extraSeconds ? ` for the fit, + ${extraSeconds.toFixed(2)} s for the assumed inputs (refits, Rg profile)` : ''}`);
+    for (const w of (e.warnings as string[] | undefined) ?? []) lines.push(`  WARNING: ${w}`);
     for (const n of (e.notes as string[]) ?? []) lines.push(`  note: ${n}`);
   }
+  for (const p of result.agreement.pairs ?? []) lines.push(agreementText(p));
   if (u.x === 'nm') lines.push(`x in nm, Rg = ${u.rgNm!.toPrecision(6)} nm (${u.rgFrom})`);
   if (result.truth) lines.push(truthText(result.truth).trimEnd());
   lines.push('assumptions (the fitted χN holds only within them):');
   for (const a of result.assumptions) lines.push(`  - ${a}`);
   return `${lines.join('\n')}\n`;
+}
+
+/** Whether two estimates agree, in words: the difference in units of the combined one-sigma half-widths, and the overlap. */
+export function agreementText(p: NonNullable<Agreement['pairs']>[number]): string {
+  const verdict = !Number.isFinite(p.z)
+    ? 'cannot be judged (an estimate without an interval)'
+    : Math.abs(p.z) > 2 || !p.intervalsOverlap
+      ? 'DISAGREE'
+      : Math.abs(p.z) > 1
+        ? 'differ by more than their combined one-sigma uncertainty'
+        : 'agree within their combined one-sigma uncertainty';
+  return `${p.a} vs ${p.b}: difference ${p.difference.toPrecision(4)} (${(100 * p.relativeDifference).toPrecision(3)} %), ${Number.isFinite(p.z) ? `${Math.abs(p.z).toPrecision(3)} × the combined sd` : 'no combined sd'}, ${Number.isFinite(p.z) ? `68.3% intervals ${p.intervalsOverlap ? 'overlap' : 'do not overlap'}: ` : ''}the estimates ${verdict}`;
 }
 
 /**
@@ -235,7 +272,8 @@ export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: P
   const nm = data.units.x === 'nm' ? data.units.rgNm! : undefined;
   const rms = Math.sqrt(ne.runs.reduce((a, r) => a + r.rmsResidual ** 2, 0) / ne.runs.length);
   const n = data.x.length;
-  const sd = ne.spread;
+  // One seed has no spread: no interval at all rather than a zero-width one (NaN, written as null).
+  const sd = ne.runs.length > 1 ? ne.spread : Number.NaN;
   const open = { lo: false, hi: false };
   return {
     method: 'network',
@@ -247,10 +285,11 @@ export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: P
       '68.3%': { lo: ne.chiN - sd, hi: ne.chiN + sd, probability: 0.683, deltaChi2: Number.NaN, limitedByRange: open },
       '95%': { lo: ne.chiN - 1.96 * sd, hi: ne.chiN + 1.96 * sd, probability: 0.95, deltaChi2: Number.NaN, limitedByRange: open },
     },
-    intervalMethod: `spread of ${ne.runs.length} seeded trainings (mean ± sd, ± 1.96 sd): an optimisation spread, not a statistical interval`,
-    offset: cl.offset,
+    intervalMethod:
+      ne.runs.length > 1 ? `spread of ${ne.runs.length} seeded trainings (mean ± sd, ± 1.96 sd): an optimisation spread, not a statistical interval` : 'none: one seeded training has no spread (run 3 or more seeds)',
+    offset: offsetInData(cl.offset, cl.period, data.x[0]),
     period: cl.period,
-    ...(nm ? { offsetNm: cl.offset * nm, periodNm: cl.period * nm } : {}),
+    ...(nm ? { offsetNm: offsetInData(cl.offset, cl.period, data.x[0]) * nm, periodNm: cl.period * nm } : {}),
     periodMode: cl.periodMode,
     chi2: Number.NaN,
     reducedChi2: Number.NaN,

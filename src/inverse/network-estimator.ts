@@ -39,6 +39,9 @@ import { LOSS_TERMS } from '../network/losses/terms.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftProblem } from '../network/problem/scft-problem.js';
 import { polishCycle, propagatorWeights, runTraining } from '../training/train-loop.js';
+import { RunStopped, stopAbortSignal, stopRequested } from '../runtime/stop.js';
+import { PoolStopped } from '../threads/worker-pool.js';
+import { RunFailure } from '../io/errors.js';
 import { refitFieldsToUpdate } from '../network/field-update.js';
 import { warmStart } from '../network/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
@@ -132,7 +135,13 @@ async function estimateInSeedWorkers(data: ProfileData, classical: ClassicalStar
     classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, solution: portable(classical.solution) },
     settings,
   };
-  return runInWorkers<number, NetworkEstimate, SeedProgress>(seeds, { entry: 'inverse/seed-worker.js', workerData, workers: workers ?? 1, onProgress: (p) => onProgress?.(...p) });
+  try {
+    return await runInWorkers<number, NetworkEstimate, SeedProgress>(seeds, { entry: 'inverse/seed-worker.js', workerData, workers: workers ?? 1, onProgress: (p) => onProgress?.(...p), signal: stopAbortSignal() });
+  } catch (e) {
+    // Ctrl-C/SIGTERM: the workers are terminated; the seeds' work is not kept (an inversion has no checkpoint).
+    if (e instanceof PoolStopped) throw new RunStopped('network estimator stopped by a signal (its worker threads were ended); no network result was written');
+    throw e;
+  }
 }
 
 export async function estimateNetwork(data: ProfileData, classical: ClassicalStart, s: NetworkEstimatorSettings): Promise<NetworkEstimate> {
@@ -208,7 +217,13 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
     const adam = new Adam(tf, nets.parameters);
     let adamUpdates = 0;
     const unit = Object.fromEntries(LOSS_TERMS.map((k) => [k, 1])) as LossValues;
-    const loop = await runTraining(tf, problem, nets.parameters, adam, config, { step: 0, lossWeights: unit, history: [], bestTotal: Infinity, secondsBefore: 0 }, { fieldUpdate: () => fieldUpdateAt((adamUpdates += updateEvery)) });
+    const loop = await runTraining(tf, problem, nets.parameters, adam, config, { step: 0, lossWeights: unit, history: [], bestTotal: Infinity, secondsBefore: 0 }, { fieldUpdate: () => fieldUpdateAt((adamUpdates += updateEvery)), shouldStop: stopRequested });
+    if (loop.reason === 'interrupted') {
+      adam.dispose();
+      problem.dispose();
+      nets.dispose();
+      throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, Adam step ${loop.state.step}; no network result was written`);
+    }
     // Quasi-Newton cycles: each a field/χN update, then L-BFGS on the MDE in the new fields
     // (measured in the forward problem: several times the MDE reduction of Adam per second).
     const perUpdate = s.lbfgsPerUpdate ?? 100;
@@ -227,7 +242,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
     adam.dispose();
     problem.dispose();
     nets.dispose();
-    if (loop.reason === 'diverged') throw new Error(`network estimator: seed ${seed}: ${loop.message}`);
+    if (loop.reason === 'diverged') throw new RunFailure(`network estimator: seed ${seed}: ${loop.message}`);
   }
   return summarise(runs, { chiNStart, backend: handle.backend, tfjs: handle.tfjsVersion, x: start.x }, t0);
 }

@@ -2,7 +2,8 @@
  * The measured-profile input: a CSV of x, phiA and an optional per-point sigma, with a
  * header row. Hand-parsed (not zod) so every error names the file, line and column.
  *
- * Accepted: columns in any order, named x, phiA, sigma (case-insensitive); blank lines and
+ * Accepted: columns in any order, named x (or x_nm, x_Rg: x with its unit), phiA, sigma
+ * (case-insensitive); blank lines and
  * lines starting with # are skipped; CRLF line ends; a UTF-8 byte-order mark. Positions in
  * Rg, or in nm when an Rg in nm is given (then every length is divided by it).
  */
@@ -35,6 +36,8 @@ const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const COLUMNS = ['x', 'phia', 'sigma'] as const;
 type Column = (typeof COLUMNS)[number];
 const DISPLAY: Record<Column, string> = { x: 'x', phia: 'phiA', sigma: 'sigma' };
+/** Header names of x that carry their unit: x_nm is in nm, x_rg in Rg. */
+const X_WITH_UNIT: Record<string, 'nm' | 'Rg'> = { x_nm: 'nm', x_rg: 'Rg' };
 
 /** Rg in nm from the flags: --rg-nm, or --segments N with --segment-length-nm b (Rg = b·sqrt(N/6)). */
 export function lengthUnits(opts: { rgNm?: number; segments?: number; segmentLengthNm?: number }): LengthUnits {
@@ -82,6 +85,7 @@ export function parseProfileCsv(text: string, source: string, units: LengthUnits
   const rows = text.replace(/^\uFEFF/, '').split(/\r?\n/);
   let headerLine = -1;
   let header: Column[] = [];
+  let headerUnit: 'nm' | 'Rg' | undefined;
   const xs: number[] = [];
   const phis: number[] = [];
   const sigmas: number[] = [];
@@ -95,11 +99,15 @@ export function parseProfileCsv(text: string, source: string, units: LengthUnits
       headerLine = lineNo;
       const seen = new Set<Column>();
       cells.forEach((c, i) => {
-        const name = c.replace(/^"|"$/g, '').toLowerCase() as Column;
+        let name = c.replace(/^"|"$/g, '').toLowerCase() as Column;
+        if (X_WITH_UNIT[name] !== undefined) {
+          headerUnit = X_WITH_UNIT[name];
+          name = 'x';
+        }
         if (!COLUMNS.includes(name)) {
           const looksNumeric = NUMBER.test(c);
           throw new InputError(
-            `${at(source, lineNo, i + 1, JSON.stringify(c))}: ${looksNumeric ? 'the first line must be a header row' : 'unknown column'}; allowed columns: x, phiA, and optionally sigma (a header row naming them is required)`,
+            `${at(source, lineNo, i + 1, JSON.stringify(c))}: ${looksNumeric ? 'the first line must be a header row' : 'unknown column'}; allowed columns: x, phiA, and optionally sigma (a header row naming them is required; x_nm or x_Rg name x with its unit)`,
           );
         }
         if (seen.has(name)) throw new InputError(`${at(source, lineNo, i + 1, DISPLAY[name])}: column named twice in the header`);
@@ -107,7 +115,13 @@ export function parseProfileCsv(text: string, source: string, units: LengthUnits
         header.push(name);
       });
       for (const need of ['x', 'phia'] as const) {
-        if (!seen.has(need)) throw new InputError(`${source}: line ${lineNo}: the header has no ${DISPLAY[need]} column; allowed columns: x, phiA, and optionally sigma`);
+        if (!seen.has(need)) throw new InputError(`${source}: line ${lineNo}: the header has no ${DISPLAY[need]} column; allowed columns: x, phiA, and optionally sigma (x_nm or x_Rg name x with its unit)`);
+      }
+      if (headerUnit === 'nm' && units.x !== 'nm') {
+        throw new InputError(`${source}: line ${lineNo}: the header says x is in nm (x_nm), but no Rg in nm was given; give --rg-nm R (or --segments N --segment-length-nm b) so x can be read in Rg`);
+      }
+      if (headerUnit === 'Rg' && units.x === 'nm') {
+        throw new InputError(`${source}: line ${lineNo}: the header says x is in Rg (x_Rg), but ${units.rgFrom} says x is in nm; drop the nm flags or give x in nm`);
       }
       continue;
     }

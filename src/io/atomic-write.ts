@@ -2,7 +2,7 @@
  * Files are written to a temporary sibling and renamed into place, so a reader never
  * sees half a file and an interrupted run never destroys the previous good one.
  */
-import { mkdirSync, renameSync, rmSync, writeFileSync, existsSync } from 'node:fs';
+import { mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { dirname, join, basename } from 'node:path';
 
 export function writeFileAtomic(path: string, data: string | Uint8Array): void {
@@ -18,26 +18,24 @@ export function writeFileAtomic(path: string, data: string | Uint8Array): void {
 }
 
 /**
- * Write a whole directory of files at once: build it under a temporary name, then swap it
- * in. The previous directory (if any) survives until the new one is complete.
+ * Write a set of files into a directory: all of them are written in full to temporary
+ * siblings first, then renamed into place one after another (in the order given, so put the
+ * file that makes the set valid — a checkpoint's meta — last). Nothing else in the directory
+ * is touched: the folder is never removed or replaced, so files the tool did not write survive.
  */
 export function writeDirectoryAtomic(dir: string, files: Record<string, string | Uint8Array>): void {
-  const parent = dirname(dir);
-  mkdirSync(parent, { recursive: true });
-  const tmp = join(parent, `.${basename(dir)}.${process.pid}.${Date.now()}.tmp`);
-  const old = join(parent, `.${basename(dir)}.${process.pid}.${Date.now()}.old`);
-  mkdirSync(tmp, { recursive: true });
+  const staged: [string, string][] = [];
   try {
     for (const [name, data] of Object.entries(files)) {
-      mkdirSync(dirname(join(tmp, name)), { recursive: true });
-      writeFileSync(join(tmp, name), data);
+      const path = join(dir, name);
+      mkdirSync(dirname(path), { recursive: true });
+      const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.${Date.now()}.tmp`);
+      writeFileSync(tmp, data);
+      staged.push([tmp, path]);
     }
-    if (existsSync(dir)) renameSync(dir, old);
-    renameSync(tmp, dir);
-    rmSync(old, { recursive: true, force: true });
+    for (const [tmp, path] of staged) renameSync(tmp, path);
   } catch (e) {
-    rmSync(tmp, { recursive: true, force: true });
-    if (!existsSync(dir) && existsSync(old)) renameSync(old, dir);
+    for (const [tmp] of staged) rmSync(tmp, { force: true });
     throw e;
   }
 }

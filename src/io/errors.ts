@@ -23,7 +23,8 @@ export class RunFailure extends Error {
   }
 }
 
-function describeValue(v: unknown): string {
+/** A value as a message shows it (non-finite numbers by name: JSON would print them as null). */
+export function describeValue(v: unknown): string {
   if (v === undefined) return 'nothing (missing)';
   // A long list is described by its length (what a check on it is about), not its contents.
   if (Array.isArray(v) && v.length > 8) return `${v.length} values`;
@@ -40,6 +41,22 @@ function valueAt(root: unknown, path: PropertyKey[]): unknown {
   return cur;
 }
 
+/**
+ * What an issue allows, in words. A union's own message is only "Invalid input": spell out
+ * each alternative and where it failed (e.g. `a number (got a string), or "optimize"`).
+ */
+export function issueMessage(issue: z.core.$ZodIssue): string {
+  if (issue.code !== 'invalid_union' || !('errors' in issue) || !Array.isArray(issue.errors) || issue.errors.length === 0) return issue.message;
+  const alternative = (i: z.core.$ZodIssue): string => {
+    const where = i.path.length ? `${i.path.map((k) => (typeof k === 'number' ? `item ${k}` : String(k))).join('.')}: ` : '';
+    if (i.code === 'invalid_type') return `${where}${i.expected === 'int' ? 'a whole number' : `${/^[aeiou]/.test(i.expected) ? 'an' : 'a'} ${i.expected}`}`;
+    if (i.code === 'invalid_value') return `${where}${i.values.map((v) => JSON.stringify(v)).join(' or ')}`;
+    return `${where}${i.message.replace(/^Invalid (input|option): (expected )?/, '')}`;
+  };
+  const branches = (issue.errors as z.core.$ZodIssue[][]).map((branch) => branch.map(alternative).join(' and '));
+  return `allowed: ${branches.join(', or ')}`;
+}
+
 /** One line per zod issue: "<file>: <path>: got <value>; <what is allowed>". */
 export function formatZodError(error: z.ZodError, input: unknown, source: string): string {
   const lines = error.issues.map((issue) => {
@@ -47,7 +64,7 @@ export function formatZodError(error: z.ZodError, input: unknown, source: string
     if (issue.code === 'unrecognized_keys') {
       return `${source}: ${path}: unknown field(s) ${issue.keys.map((k) => JSON.stringify(k)).join(', ')}; remove them (check the spelling)`;
     }
-    return `${source}: ${path}: got ${describeValue(valueAt(input, issue.path))}; ${issue.message}`;
+    return `${source}: ${path}: got ${describeValue(valueAt(input, issue.path))}; ${issueMessage(issue)}`;
   });
   return lines.join('\n');
 }

@@ -65,6 +65,24 @@ export function inverseStructureFactor(chain: Chain, chiN: number, x: number): n
   return (c.AA + c.BB + 2 * c.AB) / (c.AA * c.BB - c.AB * c.AB) - 2 * chiN;
 }
 
+/**
+ * S(q)/N of the disordered melt at x = (q Rg)²: the scattering function per chain in units of
+ * the chain's own volume (the quantity the scattering fits scale by a contrast factor).
+ * Defined only below the spinodal, where N/S(q) > 0 for every q.
+ */
+export function structureFactorPerChain(chain: Chain, chiN: number, x: number): number {
+  return 1 / inverseStructureFactor(chain, chiN, x);
+}
+
+/**
+ * N/S(q) at χN = 0: the χN-independent part G(x) of N/S = G(x) − 2χN (Leibler 1980). Its
+ * minimum fixes the peak position q*Rg for every χN, and a fit that varies only χN can
+ * reuse it.
+ */
+export function inverseStructureFactorAtZeroChi(chain: Chain, x: number): number {
+  return inverseStructureFactor(chain, 0, x);
+}
+
 export interface Spinodal {
   /** (χN)_s: where the minimum over q of N/S(q) reaches zero. */
   chiN: number;

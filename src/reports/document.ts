@@ -38,6 +38,8 @@ export type Block = FigureBlock | TextBlock | TableBlock;
 export interface ReportPage {
   heading: string;
   blocks: Block[];
+  /** Continue on the previous page (under this heading) when it has room, rather than start a new one: short pages of numbers. */
+  flow?: boolean;
 }
 
 export interface ReportDocument {

@@ -55,7 +55,7 @@ export function blockHeight(ctx: CanvasRenderingContext2D, b: Block, width: numb
     case 'text':
       return textLines(ctx, b, width).length * FONTS[b.style ?? 'body'].lead;
     case 'table':
-      return (b.rows.length + 1) * TABLE_ROW + 2;
+      return tableRowHeights(ctx, b, width).reduce((a, h) => a + h, 0) + 2;
     case 'figure':
       return b.height + 3 + captionLines(ctx, b.caption, width).length * CAPTION_LEAD;
   }
@@ -82,42 +82,69 @@ export function drawCaption(ctx: CanvasRenderingContext2D, caption: string, x: n
   ctx.restore();
 }
 
-export function drawTable(ctx: CanvasRenderingContext2D, b: TableBlock, x: number, y: number, width: number): void {
+const CELL_LEAD = TEXT.small * 1.25;
+
+function columnWidths(b: TableBlock, width: number): number[] {
   const rel = b.widths ?? b.header.map(() => 1);
   const total = rel.reduce((a, c) => a + c, 0);
-  const cols = rel.map((r) => (r / total) * width);
+  return rel.map((r) => (r / total) * width);
+}
+
+/** Each cell's lines: long text wraps inside its column (nothing is cut off); a single word too long for it is shortened with an ellipsis. */
+function cellLines(ctx: CanvasRenderingContext2D, text: string, w: number, bold: boolean): string[] {
+  ctx.save();
+  ctx.font = `${bold ? 'bold ' : ''}${TEXT.small}px "${FONT_FAMILY}"`;
+  const lines = wrapText(ctx, text, w - 6).map((l) => {
+    let t = l;
+    while (t.length > 1 && ctx.measureText(t).width > w - 6) t = `${t.slice(0, -2)}…`;
+    return t;
+  });
+  ctx.restore();
+  return lines;
+}
+
+/** Header first, then one height per row: one line's row, plus a line's lead per extra wrapped line. */
+export function tableRowHeights(ctx: CanvasRenderingContext2D, b: TableBlock, width: number): number[] {
+  const cols = columnWidths(b, width);
+  return [b.header, ...b.rows].map((cells, r) => TABLE_ROW + (Math.max(1, ...cells.map((c, i) => cellLines(ctx, c, cols[i] ?? 0, r === 0).length)) - 1) * CELL_LEAD);
+}
+
+export function drawTable(ctx: CanvasRenderingContext2D, b: TableBlock, x: number, y: number, width: number): void {
+  const cols = columnWidths(b, width);
+  const heights = tableRowHeights(ctx, b, width);
   const right = new Set(b.alignRight ?? []);
   ctx.save();
   ctx.fillStyle = '#000000';
   ctx.strokeStyle = '#000000';
   ctx.textBaseline = 'middle';
   const row = (cells: string[], yy: number, bold: boolean): void => {
-    ctx.font = `${bold ? 'bold ' : ''}${TEXT.small}px "${FONT_FAMILY}"`;
     let cx = x;
     cells.forEach((c, i) => {
       const w = cols[i] ?? 0;
-      let text = c;
-      // Keep every cell inside its column: shorten with an ellipsis rather than overlap.
-      while (text.length > 1 && ctx.measureText(text).width > w - 6) text = `${text.slice(0, -2)}…`;
+      const lines = cellLines(ctx, c, w, bold);
+      ctx.font = `${bold ? 'bold ' : ''}${TEXT.small}px "${FONT_FAMILY}"`;
       ctx.textAlign = right.has(i) ? 'right' : 'left';
-      ctx.fillText(text, right.has(i) ? cx + w - 3 : cx + 3, yy + TABLE_ROW / 2);
+      lines.forEach((l, k) => ctx.fillText(l, right.has(i) ? cx + w - 3 : cx + 3, yy + TABLE_ROW / 2 + k * CELL_LEAD));
       cx += w;
     });
   };
-  row(b.header, y, true);
+  let yy = y;
+  row(b.header, yy, true);
   ctx.lineWidth = 0.8;
   ctx.beginPath();
   ctx.moveTo(x, y);
   ctx.lineTo(x + width, y);
-  ctx.moveTo(x, y + TABLE_ROW);
-  ctx.lineTo(x + width, y + TABLE_ROW);
+  ctx.moveTo(x, y + heights[0]);
+  ctx.lineTo(x + width, y + heights[0]);
   ctx.stroke();
+  yy += heights[0];
   b.rows.forEach((r, i) => {
-    row(r, y + (i + 1) * TABLE_ROW, false);
+    row(r, yy, false);
+    yy += heights[i + 1];
   });
   ctx.beginPath();
-  ctx.moveTo(x, y + (b.rows.length + 1) * TABLE_ROW);
-  ctx.lineTo(x + width, y + (b.rows.length + 1) * TABLE_ROW);
+  ctx.moveTo(x, yy);
+  ctx.lineTo(x + width, yy);
   ctx.stroke();
   ctx.restore();
 }

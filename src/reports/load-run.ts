@@ -2,11 +2,17 @@
  * A run directory → ReportInput. Reads what the directory holds:
  *  - solution files (kind "solution", as written by `mesofield solve --out`; any *.json):
  *    the one with solver "spectral" is the reference, one with solver "network" the
- *    network; an optional `periodSearch` trace in the reference gives F(L);
- *  - metrics.json: every number, string or boolean in it becomes a metrics-table row;
+ *    network; an optional `periodSearch` trace in the reference gives F(L); a film's
+ *    solution (cell.kind "film") gives the film pages, with F(H) when it holds a
+ *    `thicknessScan`;
+ *  - a training checkpoint (kind "checkpoint") and its metrics.json: the loss over every
+ *    phase and the network's errors (readers/training-history.ts, readers/train-metrics.ts);
+ *  - an inversion result (kind "inversion", readers/inversion-file.ts);
+ *  - a sweep table (kind "sweep-table" or "sweep-shard", readers/sweep-file.ts);
  *  - a surrogate checkpoint (checkpoint.json of kind "surrogate-checkpoint"): the error map
  *    and the training rounds (surrogate-input.ts).
- * Anything missing or inconsistent is an InputError naming the file and field.
+ * The file formats are read in the readers/ files only. Anything missing or inconsistent is
+ * an InputError naming the file and field.
  */
 import { readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
@@ -15,32 +21,24 @@ import { readJsonFile } from '../io/load-json.js';
 import { solutionFileSchema } from '../io/formats/solution.js';
 import { checkpointFileSchema } from '../io/formats/training.js';
 import { inversionResultSchema } from '../io/formats/inversion.js';
+import { shardFileSchema, sweepTableSchema } from '../io/formats/sweep.js';
 import type { InversionResultFile } from '../io/formats/inversion.js';
 import type { SolutionFile } from '../io/formats/solution.js';
 import { buildChain } from '../physics/chain.js';
 import { makeCell } from '../physics/cell/make-cell.js';
 import { contourWithTotal } from '../physics/contour.js';
 import type { ScftSolution } from '../physics/result.js';
-import type { MetricRow, ReportInput } from './report-inputs.js';
+import type { FilmInput, ReportInput, RunInfo } from './report-inputs.js';
 import { surrogateInput } from './surrogate-input.js';
+import { readInversion } from './readers/inversion-file.js';
+import type { InversionRead } from './readers/inversion-file.js';
+import { settingRows } from './readers/settings-rows.js';
+import { readSweep } from './readers/sweep-file.js';
+import { readTrainMetrics } from './readers/train-metrics.js';
+import { trainingRecords } from './readers/training-history.js';
+import { countLayers } from '../spectral/film-solve.js';
 import { assertSameGrid } from './solution-differences.js';
 
-function inversionInput(file: InversionResultFile): ReportInput['inversion'] {
-  const main = file.estimators.classical ?? Object.values(file.estimators)[0];
-  if (!main?.points || !main.fitCurve) return undefined;
-  const p = main.points;
-  const threshold = main.intervals?.['68.3%']?.deltaChi2 ?? 1;
-  return {
-    quantity: 'φA',
-    data: p.x.map((x, i) => ({ x, value: p.phiA[i], sigma: p.sigma[i] })),
-    fitted: main.fitCurve.x.map((x, i) => ({ x, value: main.fitCurve!.phiA[i] })),
-    residuals: p.x.map((x, i) => ({ x, normalized: p.residual[i] / p.sigma[i] })),
-    profileLikelihood: (main.profileLikelihood ?? []).map((q) => ({ chiN: q.chiN, deltaChi2: q.deltaChi2 })),
-    interval: { lower: main.interval[0], upper: main.interval[1], level: 0.683, threshold },
-    bestChiN: main.chiN,
-    estimators: Object.entries(file.estimators).map(([name, e]) => ({ name, chiN: e.chiN, lower: e.interval[0], upper: e.interval[1], note: e.intervalMethod.slice(0, 60) })),
-  };
-}
 
 interface LoadedSolution {
   file: string;
@@ -48,9 +46,9 @@ interface LoadedSolution {
   solution: ScftSolution;
   trace?: SolutionFile['periodSearch'];
   provenance: SolutionFile['provenance'];
+  film?: FilmInput;
+  runSeconds?: number;
 }
-
-const readJson = readJsonFile;
 
 function loadSolution(path: string, raw: unknown): LoadedSolution {
   const data = parseOrThrow(solutionFileSchema, raw, path);
@@ -90,17 +88,18 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
     notes: s.notes,
     ...(data.propagators ? { propagators: { s: f64(data.propagators.s), q: data.propagators.q.map(f64), qDagger: data.propagators.qDagger.map(f64) } } : {}),
   };
-  return { file: path, data, solution, trace: data.periodSearch, provenance: data.provenance };
-}
-
-/** Flatten a JSON object to "a.b.c: value" rows (numbers, strings, booleans; arrays are summarised). */
-export function flattenRows(value: unknown, prefix: string, out: MetricRow[] = [], depth = 0): MetricRow[] {
-  if (value === null || value === undefined) return out;
-  if (typeof value === 'number') out.push({ name: prefix, value: String(value) });
-  else if (typeof value === 'string' || typeof value === 'boolean') out.push({ name: prefix, value: String(value) });
-  else if (Array.isArray(value)) out.push({ name: prefix, value: `[${value.length} values]` });
-  else if (typeof value === 'object' && depth < 4) for (const [k, v] of Object.entries(value)) flattenRows(v, prefix ? `${prefix}.${k}` : k, out, depth + 1);
-  return out;
+  const walls = data.cell.kind === 'film' ? data.cell.walls : undefined;
+  const film: FilmInput | undefined = walls
+    ? {
+        solution,
+        thickness: s.length,
+        walls: { bottom: walls.bottom.affinity, top: walls.top.affinity, range: walls.range },
+        layers: data.film?.layers ?? countLayers(solution.phi),
+        ...(data.film ? { freeEnergyPerArea: data.film.freeEnergyPerArea } : {}),
+        ...(data.thicknessScan ? { scan: data.thicknessScan } : {}),
+      }
+    : undefined;
+  return { file: path, data, solution, trace: data.periodSearch, provenance: data.provenance, film, runSeconds: data.runSeconds };
 }
 
 function pickOne(list: LoadedSolution[], solver: string, dir: string): LoadedSolution | undefined {
@@ -117,59 +116,78 @@ export interface LoadedRun {
   notes: string[];
 }
 
-export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
+function checkDirectory(dir: string): void {
   let st;
   try {
     st = statSync(dir);
   } catch {
-    throw new InputError(`${dir}: run directory not found; give the --out directory of a mesofield solve, train, evaluate or invert run`);
+    throw new InputError(`${dir}: run directory not found; give the --out directory of a mesofield solve, train, evaluate, invert or sweep run`);
   }
   if (!st.isDirectory()) throw new InputError(`${dir}: not a directory; give the run directory (the --out directory of a run), not a file in it`);
+}
+
+const configKind = (config: unknown): string | undefined => {
+  const k = (config as Record<string, unknown> | undefined)?.kind;
+  return typeof k === 'string' ? k : undefined;
+};
+
+export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
+  checkDirectory(dir);
   const names = readdirSync(dir).filter((n) => n.endsWith('.json')).sort();
   const solutions: LoadedSolution[] = [];
   const read: string[] = [];
   const notes: string[] = [];
-  let metrics: MetricRow[] | undefined;
   let training: ReportInput['training'];
-  let trainingSeconds = Number.NaN;
-  let inversion: ReportInput['inversion'];
+  let networkMetrics: ReportInput['networkMetrics'];
+  let trainSeconds: { runSeconds?: number; runSecondsNote?: string } = {};
+  let inv: InversionRead | undefined;
+  let invConfig: unknown;
+  let sweep: ReturnType<typeof readSweep> | undefined;
+  let sweepProvenance: SolutionFile['provenance'] | undefined;
   let surrogate: ReportInput['surrogate'];
   for (const name of names) {
     const path = join(dir, name);
-    const raw = readJson(path);
+    const raw = readJsonFile(path);
     const kind = raw && typeof raw === 'object' ? (raw as Record<string, unknown>).kind : undefined;
     if (kind === 'solution') {
       solutions.push(loadSolution(path, raw));
-      read.push(path);
     } else if (kind === 'inversion') {
-      const inv = parseOrThrow(inversionResultSchema, raw, path);
-      inversion = inversionInput(inv);
+      const file = parseOrThrow(inversionResultSchema, raw, path);
+      inv = readInversion(file);
+      invConfig = file.config;
       // The network estimator's χN trajectory (first seed), against the classical estimate.
-      const runs = inv.estimators.network?.runs;
-      const traj = runs?.[0]?.trajectory?.filter((p): p is { step: number; chiN: number } => p.chiN !== null && Number.isFinite(p.chiN));
+      const ests = file.estimators;
+      const traj = ests.network?.runs?.[0]?.trajectory?.filter((p): p is { step: number; chiN: number } => p.chiN !== null && Number.isFinite(p.chiN));
       if (traj && traj.length > 1 && !training) {
-        const cl = inv.estimators.classical;
-        training = { history: [], chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };
+        const cl = ests.classical;
+        training = { records: [], phases: [], wallClock: false, chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };
       }
-      read.push(path);
     } else if (kind === 'checkpoint') {
-      // A training checkpoint (training/checkpoint.ts): its loss history is the training page.
-      const hist = parseOrThrow(checkpointFileSchema, raw, path).history.filter((h) => h.stage === 'adam');
-      // Terms that are identically zero for this system (e.g. no field equations for a chain in a prescribed field) have no place on a log axis.
-      const positive = (t: Record<string, number | undefined>) => Object.fromEntries(Object.entries(t).filter((e): e is [string, number] => e[1] !== undefined && e[1] > 0));
-      training = { history: hist.map((h) => ({ step: h.step, terms: positive({ total: h.total, ...h.terms }), lr: h.learningRate })) };
-      trainingSeconds = hist.length ? (hist[hist.length - 1] as { seconds?: number }).seconds ?? Number.NaN : Number.NaN;
-      read.push(path);
+      // A training checkpoint (training/checkpoint.ts), read through its schema: its history is the training page.
+      training = trainingRecords(parseOrThrow(checkpointFileSchema, raw, path).history, path);
+    } else if (kind === 'sweep-table' || kind === 'sweep-shard') {
+      // A merged table wins over its shards.
+      if (!sweep || kind === 'sweep-table') {
+        const file = kind === 'sweep-table' ? parseOrThrow(sweepTableSchema, raw, path) : parseOrThrow(shardFileSchema, raw, path);
+        sweep = readSweep(file, path);
+        sweepProvenance = file.provenance;
+      }
     } else if (kind === 'surrogate-checkpoint') {
       surrogate = surrogateInput(raw, path);
-      read.push(path);
-    } else if (name === 'metrics.json') {
-      metrics = flattenRows(raw, '').map((r) => ({ ...r, name: `metrics.json: ${r.name}` }));
-      read.push(path);
-    } else notes.push(`${path}: not read (kind ${JSON.stringify(kind)} has no report section in this version)`);
+    } else if (name === 'metrics.json' && (raw as { errors?: { phiA?: unknown } } | null)?.errors?.phiA !== undefined) {
+      // A train run's metrics (a surrogate's metrics.json is read with its checkpoint).
+      const m = readTrainMetrics(raw, path);
+      networkMetrics = m.metrics;
+      trainSeconds = { runSeconds: m.runSeconds, runSecondsNote: m.runSecondsNote };
+    } else {
+      notes.push(`${path}: not read (kind ${JSON.stringify(kind)} has no report section in this version)`);
+      continue;
+    }
+    read.push(path);
   }
+  if (solutions.length === 0 && sweep) return { input: sweepRun(dir, sweep, sweepProvenance!), read, notes };
   if (solutions.length === 0) {
-    throw new InputError(`${dir}: no solution file found (a *.json with "kind": "solution", such as solution.json from mesofield solve --out); files here: ${readdirSync(dir).sort().join(', ') || 'none'}`);
+    throw new InputError(`${dir}: no solution file found (a *.json with "kind": "solution", such as solution.json from mesofield solve --out) and no sweep table; files here: ${readdirSync(dir).sort().join(', ') || 'none'}`);
   }
   const reference = pickOne(solutions.filter((s) => s.solution.solver === 'spectral'), 'spectral', dir);
   const network = pickOne(solutions.filter((s) => s.solution.solver === 'network'), 'network', dir);
@@ -182,26 +200,47 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   }
   // Without a spectral reference a network solution is shown alone, as "reference" curves.
   const shown = reference ?? network!;
+  const kind = configKind(main.data.config) ?? (network ? 'evaluate' : 'solve');
+  const config = inv ? invConfig : (network ?? main).data.config;
+  const classicalOnly = inv !== undefined && !inv.estimatorNames.includes('network');
+  const time = surrogate
+    ? { runSeconds: surrogate.buildSeconds, runSecondsNote: 'building the surrogate: reference solves, fit and physics rounds' }
+    : inv
+      ? { runSeconds: inv.runSeconds, runSecondsNote: inv.runSecondsNote }
+      : training || networkMetrics
+        ? trainSeconds
+        : main.runSeconds !== undefined
+          ? { runSeconds: main.runSeconds }
+          : { runSeconds: main.solution.seconds, runSecondsNote: main.trace ? `the final solve only; this run did not record the ${main.trace.length} period-search evaluations' time` : undefined };
+  const info: RunInfo = {
+    kind,
+    source: dir,
+    system: main.data.system,
+    period: main.solution.period,
+    rgNm: opts.rgNm ?? inv?.rgNm,
+    settings: settingRows(config, (p) => classicalOnly && p === 'network'),
+    provenance: (network ?? main).provenance,
+    ...time,
+  };
+  const film = shown.film;
   const input: ReportInput = {
-    info: {
-      kind: typeof (main.data.config as Record<string, unknown> | undefined)?.kind === 'string' ? String((main.data.config as Record<string, unknown>).kind) : network ? 'evaluate' : 'solve',
-      source: dir,
-      system: main.data.system,
-      period: main.solution.period,
-      rgNm: opts.rgNm,
-      config: flattenRows(main.data.config, '').map((r) => `${r.name}: ${r.value}`),
-      provenance: (network ?? main).provenance,
-      runSeconds: surrogate ? surrogate.buildSeconds : training ? (training.history.length ? trainingSeconds : main.solution.seconds) : main.solution.seconds,
-      runSecondsNote: surrogate ? 'building the surrogate: reference solves, fit and physics rounds' : training ? 'training, from the checkpoint history' : main.trace ? `final solve only; the ${main.trace.length} period-search evaluations took ${main.trace.reduce((a, t) => a + t.iterations, 0)} iterations in all` : undefined,
-    },
-    profiles: { reference: shown.solution, network: reference ? network?.solution : undefined },
+    info,
+    profiles: film ? undefined : { reference: shown.solution, network: reference ? network?.solution : undefined, ...(inv?.rgNm !== undefined ? { rgNm: inv.rgNm } : {}) },
     propagators: shown.solution.propagators ? { reference: shown.solution, network: reference && network?.solution.propagators ? network.solution : undefined } : undefined,
     training,
-    inversion,
+    networkMetrics,
+    inversion: inv?.inversion,
     surrogate,
+    film,
     periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: main.data.summary.periodTolerance } : undefined,
-    metrics,
   };
-  if (!shown.solution.propagators) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);
+  if (!shown.solution.propagators && !film && !inv && !training) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);
   return { input, read, notes };
+}
+
+function sweepRun(dir: string, s: ReturnType<typeof readSweep>, provenance: SolutionFile['provenance']): ReportInput {
+  return {
+    info: { kind: 'sweep', source: dir, system: s.system, period: Number.NaN, settings: settingRows(s.config), provenance, runSeconds: s.solverSeconds, runSecondsNote: 'solver time summed over the points (points on several workers run at once)' },
+    sweep: s.sweep,
+  };
 }

@@ -63,24 +63,48 @@ export function splitTallTables(ctx: CanvasRenderingContext2D, blocks: ReportPag
   return out;
 }
 
+const isHeading = (b: ReportPage['blocks'][number] | undefined): boolean => b?.type === 'text' && b.style === 'heading';
+
+/** Height of block i and, when it is a heading, of everything it must stay with (the next headings and the first block after them). */
+function keptHeight(ctx: CanvasRenderingContext2D, blocks: ReportPage['blocks'], i: number): number {
+  let h = blockHeight(ctx, blocks[i], CONTENT_WIDTH);
+  for (let k = i; isHeading(blocks[k]) && blocks[k + 1]; k++) h += BLOCK_GAP + blockHeight(ctx, blocks[k + 1], CONTENT_WIDTH);
+  return h;
+}
+
 /** Stack blocks top to bottom; a block that does not fit starts a continuation page. */
 function paginate(ctx: CanvasRenderingContext2D, doc: ReportDocument): { heading: string; placed: PlacedBlock[] }[] {
   const out: { heading: string; placed: PlacedBlock[] }[] = [];
   const bottom = A4.height - MARGIN - FOOTER + 10;
+  let y = 0;
   for (const page of doc.pages) {
-    let current = { heading: page.heading, placed: [] as PlacedBlock[] };
-    out.push(current);
-    let y = MARGIN + HEADING;
-    for (const block of splitTallTables(ctx, page.blocks, bottom - (MARGIN + HEADING))) {
+    let current: { heading: string; placed: PlacedBlock[] };
+    let blocks = splitTallTables(ctx, page.blocks, bottom - (MARGIN + HEADING));
+    const prev = out[out.length - 1];
+    const first = blocks[0] ? keptHeight(ctx, blocks, 0) : 0;
+    if (page.flow && prev && y + HEADING + first <= bottom) {
+      // Continue on the previous page: the page heading becomes a heading block there.
+      current = prev;
+      blocks = [{ type: 'text', lines: [page.heading], style: 'heading' }, ...blocks];
+      y += BLOCK_GAP;
+    } else {
+      current = { heading: page.heading, placed: [] as PlacedBlock[] };
+      out.push(current);
+      y = MARGIN + HEADING;
+    }
+    blocks.forEach((block, i) => {
       const h = blockHeight(ctx, block, CONTENT_WIDTH);
-      if (y + h > bottom && current.placed.length > 0) {
+      // A heading stays with what it heads: it moves to the next page when that block does
+      // (a block that does not fit starts a new page whole, so the heading goes with it).
+      const needed = keptHeight(ctx, blocks, i);
+      if (y + needed > bottom && current.placed.length > 0) {
         current = { heading: `${page.heading} (continued)`, placed: [] };
         out.push(current);
         y = MARGIN + HEADING;
       }
       current.placed.push({ block, y });
       y += h + BLOCK_GAP;
-    }
+    });
   }
   return out;
 }

@@ -7,6 +7,8 @@
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { ScftSolution } from '../physics/result.js';
+import type { ScatteringReportInput } from './scattering-input.js';
+import type { BraggReportInput } from './bragg-input.js';
 
 /** The title block: what was run, with what, when (from the run's provenance) and how long. */
 export interface RunInfo {
@@ -19,8 +21,8 @@ export interface RunInfo {
   period: number;
   /** Rg in nm, when the user gives it: the period is then also printed in nm. */
   rgNm?: number;
-  /** One "name: value" line each: the config as run. */
-  config: string[];
+  /** The settings as run, one row per setting (the appendix's compact table). */
+  settings: SettingRow[];
   provenance: { version: string; node: string; createdAt: string; backend?: string; tfjs?: string; [k: string]: unknown };
   /** Wall time of the run in seconds, and what it covers. */
   runSeconds?: number;
@@ -33,6 +35,8 @@ export interface ProfileInput {
   network?: ScftSolution;
   /** Legend name of the network curve (default "network"). */
   networkLabel?: string;
+  /** Rg in nm when the run's data were in nm: x is then drawn in nm with Rg on a top axis. */
+  rgNm?: number;
 }
 
 /** q(x, s) heat maps: needs `propagators` on the reference (and on the network, if given). */
@@ -56,16 +60,44 @@ export interface PeriodSearchInput {
   periodTolerance?: number;
 }
 
-export interface LossHistoryEntry {
-  step: number;
-  /** Each loss term by name (unweighted or weighted, as the trainer logged it); > 0. */
-  terms: Record<string, number>;
-  lr: number;
+export interface SettingRow {
+  name: string;
+  value: string;
+}
+
+/** One optimiser iteration of a training run, on one axis over every phase. */
+export interface TrainingRecord {
+  /** 'warm start', 'Adam', 'L-BFGS', 'second order', … in the order the run went through them. */
+  phase: string;
+  /** Iterations over all phases so far (warm-start steps, then Adam steps, then L-BFGS iterations, …). */
+  iteration: number;
+  /** Seconds since the run started (reference solve included), when the run recorded it. */
+  wallSeconds?: number;
+  /** The loss the phase minimises (> 0); phases minimise different objectives. */
+  loss: number;
+  /** φA relative L2 error against the reference, where measured. */
+  referenceError?: number;
+}
+
+export interface TrainingPhase {
+  name: string;
+  /** First and last iteration of the phase on the all-phase axis. */
+  from: number;
+  to: number;
+  iterations: number;
+  /** Wall time at the phase's first and last record, s. */
+  wallFrom?: number;
+  wallTo?: number;
+  finalLoss: number;
+  finalReferenceError?: number;
 }
 
 /** Training curves; inverse runs add the trajectory of the trainable χN. */
 export interface TrainingInput {
-  history: LossHistoryEntry[];
+  records: TrainingRecord[];
+  phases: TrainingPhase[];
+  /** False when the run recorded training seconds only (older runs): the time axis then starts at the Adam phase. */
+  wallClock: boolean;
   chiNTrajectory?: { step: number; chiN: number }[];
   /** A reference χN (true or estimated) drawn as a line against the trajectory. */
   chiNReference?: { value: number; label: string };
@@ -99,6 +131,13 @@ export interface InversionInput {
   profileLikelihood: { chiN: number; deltaChi2: number }[];
   /** The confidence interval read from the profile, with the Δχ² threshold that defines it. */
   interval: { lower: number; upper: number; level: number; threshold: number };
+  /** The wider (95 %) interval, when the run computed it. */
+  interval95?: { lower: number; upper: number; threshold: number };
+  /** Units of x as the data gave them; with nm, Rg in nm for the second (Rg) axis. */
+  xUnit?: 'Rg' | 'nm';
+  rgNm?: number;
+  /** Fit quality and fitted nuisance parameters (reduced χ², period, offset), for the metrics table. */
+  fitRows?: MetricRow[];
   bestChiN: number;
   estimators: EstimatorRow[];
 }
@@ -132,6 +171,69 @@ export interface SurrogateInput {
   buildSeconds: number;
 }
 
+/** A network's errors against the reference (from a train run's metrics). */
+export interface NetworkMetricsInput {
+  phiA: { relativeL2: number; maxError: number };
+  exchangeField: { relativeL2: number; maxError: number };
+  QRelativeError: number;
+  freeEnergyError: number;
+  /** Mean squared residual of each loss term at fresh random points (only the non-zero ones). */
+  freshResiduals: Record<string, number>;
+  /** The network density's phase verdict. */
+  phase: string;
+}
+
+/** One point of a parameter sweep (sweep table file): lengths in Rg, F in kT per chain. */
+export interface SweepPointInput {
+  chiN: number;
+  f: number;
+  segmentRatio: number;
+  phase: string;
+  period: number | null;
+  freeEnergy: number | null;
+  freeEnergyDisordered: number | null;
+  Q: number | null;
+  converged: boolean;
+  /** RPA spinodal (χN)_s of the disordered melt for this point's chain (Leibler 1980). */
+  spinodalChiN: number;
+}
+
+export interface SweepInput {
+  points: SweepPointInput[];
+  chainLabel: string;
+}
+
+/** F(H) of a film: a thickness scan (spectral/thickness-scan.ts). */
+export interface ThicknessScanInput {
+  points: { thickness: number; freeEnergy: number; freeEnergyPerArea: number; phase: string; layers: string; converged: boolean }[];
+  minima: { thickness: number; freeEnergy: number; layers: string }[];
+  stable: number[];
+}
+
+/**
+ * Specular reflectivity against data, for a film: the hook a reflectivity fit fills
+ * ({q, r, dr?} measured, model R at the same q). qUnit names Q's unit (e.g. "1/Å").
+ */
+export interface ReflectivityInput {
+  q: number[];
+  r: number[];
+  dr?: number[];
+  model: number[];
+  qUnit: string;
+  label?: string;
+}
+
+/** A film between walls: the solution's walls, thickness and layers, and F(H) when scanned. */
+export interface FilmInput {
+  solution: ScftSolution;
+  thickness: number;
+  walls: { bottom: number; top: number; range: number };
+  layers: { A: number; B: number; sequence: string };
+  freeEnergyPerArea?: number;
+  scan?: ThicknessScanInput;
+  reflectivity?: ReflectivityInput;
+}
+
 export interface MetricRow {
   name: string;
   value: string;
@@ -147,6 +249,13 @@ export interface ReportInput {
   training?: TrainingInput;
   inversion?: InversionInput;
   surrogate?: SurrogateInput;
+  networkMetrics?: NetworkMetricsInput;
+  sweep?: SweepInput;
+  film?: FilmInput;
+  /** Disordered-melt scattering fits (fit-scattering). */
+  scattering?: ScatteringReportInput;
+  /** A predicted Bragg pattern (bragg-pattern). */
+  bragg?: BraggReportInput;
   /** Rows appended to the metrics table (e.g. from metrics.json). */
   metrics?: MetricRow[];
 }

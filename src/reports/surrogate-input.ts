@@ -5,10 +5,10 @@
 import { InputError, parseOrThrow } from '../io/errors.js';
 import { surrogateCheckpointSchema } from '../io/formats/surrogate.js';
 import { periodAt } from '../surrogate/period-model.js';
+import { PARAMETER_LABELS } from '../surrogate/parameter-space.js';
 import { sig } from './format.js';
 import type { SurrogateInput } from './report-inputs.js';
 
-const SYMBOLS: Record<string, string> = { chiN: 'χN', f: 'f', segmentRatio: 'b_A/b_B' };
 
 export function surrogateInput(raw: unknown, path: string): SurrogateInput {
   const file = parseOrThrow(surrogateCheckpointSchema, raw, path);
@@ -18,7 +18,7 @@ export function surrogateInput(raw: unknown, path: string): SurrogateInput {
   const values = (p: Record<string, number>) => names.map((n) => p[n]);
   const t = m.timing;
   return {
-    parameters: m.parameters.map((p) => ({ ...p, symbol: SYMBOLS[p.name] ?? p.name })),
+    parameters: m.parameters.map((p) => ({ ...p, symbol: (PARAMETER_LABELS as Record<string, { symbol: string }>)[p.name]?.symbol ?? p.name })),
     anchors: file.anchors.map((a) => ({ values: values(a.point), period: a.period })),
     periodAt: (v) => periodAt(file.periodModel, v),
     heldOut: m.heldOut.map((h) => ({

@@ -8,6 +8,7 @@ import { formatText } from '../io/formats/file-format.js';
 import { SURROGATE_METRICS_VERSION, surrogateMetricsSchema } from '../io/formats/surrogate.js';
 import type { SurrogateMetrics } from '../io/formats/surrogate.js';
 import { RunFailure } from '../io/errors.js';
+import { RunStopped, stopRequested, yieldToEvents } from '../runtime/stop.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import { solutionToFile } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
@@ -119,6 +120,9 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     const roundsStart = performance.now();
     let lastResidual: number | null = null;
     for (let k = 1; k <= tr.rounds; k++) {
+      // A signal lands between rounds (each is synchronous); a surrogate run is short and not resumable.
+      await yieldToEvents();
+      if (stopRequested()) throw new RunStopped(`surrogate training stopped by a signal after round ${k - 1} of ${tr.rounds}; nothing was saved (a surrogate run is not resumable: run it again)`);
       const r = trainer.round(k, anchorPoints);
       lastResidual = r.residual;
       const evaluateNow = (tr.evaluateEvery > 0 && k % tr.evaluateEvery === 0) || k === tr.rounds;

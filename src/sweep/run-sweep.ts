@@ -12,6 +12,8 @@ import { InputError } from '../io/errors.js';
 import { loadJsonFile } from '../io/load-json.js';
 import type { SweepConfig } from '../io/schemas/sweep-config.js';
 import { provenance } from '../io/versions.js';
+import { RunStopped } from '../runtime/stop.js';
+import { PoolStopped } from '../threads/worker-pool.js';
 import { configHash } from './config-hash.js';
 import { sweepPoints } from './grid.js';
 import { mergeShardFiles } from './merge.js';
@@ -99,12 +101,18 @@ export async function runSweep(req: SweepRunRequest): Promise<SweepRunResult> {
     else save(false);
     const t0 = performance.now();
     let solved = 0;
-    await solvePoints(config, todo, workers, (r) => {
-      saved.push(r);
-      solved++;
-      save(false);
-      req.onPoint?.(r, { done: saved.length, total: indices.length, solved, seconds: (performance.now() - t0) / 1000 });
-    });
+    try {
+      await solvePoints(config, todo, workers, (r) => {
+        saved.push(r);
+        solved++;
+        save(false);
+        req.onPoint?.(r, { done: saved.length, total: indices.length, solved, seconds: (performance.now() - t0) / 1000 });
+      });
+    } catch (e) {
+      // Every solved point is already in the shard file (saved as it arrived): say so and how to go on.
+      if (e instanceof PoolStopped) throw new RunStopped(`stopped after ${saved.length} of ${indices.length} points; they are saved in ${jsonPath}; run the same command again to solve the rest`);
+      throw e;
+    }
     file = save(true);
   }
 

@@ -9,7 +9,8 @@ import type { SweepConfig } from '../io/schemas/sweep-config.js';
 import type { SweepPoint } from './grid.js';
 import type { SweepPointResult } from './solve-point.js';
 import { solveSweepPoint } from './solve-point.js';
-import { runInWorkers } from '../threads/worker-pool.js';
+import { PoolStopped, runInWorkers } from '../threads/worker-pool.js';
+import { stopAbortSignal, stopRequested, yieldToEvents } from '../runtime/stop.js';
 
 /** What a point worker is sent once. */
 export interface PointWorkerData {
@@ -21,11 +22,16 @@ function pointError(e: { name: string; message: string }, point: SweepPoint): Er
   return e.name === 'InputError' || e.name === 'ModelError' ? new InputError(message) : new Error(message);
 }
 
+/** Solve the points; a stop (runtime/stop.ts) ends it between points, with the workers terminated (PoolStopped). */
 export async function solvePoints(config: SweepConfig, points: SweepPoint[], workers: number, onResult: (r: SweepPointResult) => void): Promise<void> {
   if (workers <= 1 || points.length <= 1) {
-    for (const p of points) onResult(solveSweepPoint(config, p));
+    for (const p of points) {
+      await yieldToEvents();
+      if (stopRequested()) throw new PoolStopped();
+      onResult(solveSweepPoint(config, p));
+    }
     return;
   }
   const workerData: PointWorkerData = { config };
-  await runInWorkers<SweepPoint, SweepPointResult>(points, { entry: 'sweep/point-worker.js', workerData, workers, onResult, toError: pointError });
+  await runInWorkers<SweepPoint, SweepPointResult>(points, { entry: 'sweep/point-worker.js', workerData, workers, onResult, toError: pointError, signal: stopAbortSignal() });
 }

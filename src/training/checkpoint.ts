@@ -41,9 +41,9 @@ export async function writeWeightsDirectory<S extends z.ZodType>(tf: Tf, dir: st
   // Built through the file's schema: what is written always reads back.
   const file = throughSchema(schema, { ...meta, weightSpecs: specs, weightBytes: data.byteLength });
   writeDirectoryAtomic(dir, {
-    'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
     'weights.bin': new Uint8Array(data),
     ...extraFiles,
+    'checkpoint.json': `${JSON.stringify(file, null, 1)}\n`,
   });
 }
 

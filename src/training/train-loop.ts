@@ -10,6 +10,7 @@
  */
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { lbfgs } from '../numerics/lbfgs.js';
+import { yieldToEvents } from '../runtime/stop.js';
 import type { Adam } from '../autodiff/adam.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { HistoryEntry } from './checkpoint.js';
@@ -41,6 +42,8 @@ export interface LoopHooks {
   shouldStop?: () => boolean;
   /** The field step of the alternating strategy: a FieldUpdater's, or the inverse estimator's own. */
   fieldUpdate?: () => void;
+  /** Seconds since the whole run started, recorded in the history beside each step (wall-time axis of the report). */
+  wallSeconds?: () => number;
 }
 
 export interface LoopResult {
@@ -113,6 +116,8 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
   const effective = (): LossValues => Object.fromEntries(LOSS_TERMS.map((k) => [k, baseWeights[k] * factors[k]])) as LossValues;
 
   while (state.step < tr.adamSteps) {
+    // One event-loop turn per step (a few µs): without it a signal handler never runs during training.
+    await yieldToEvents();
     if (hooks.shouldStop?.()) {
       if (hooks.checkpoint) {
         await hooks.checkpoint({ ...state, lossWeights: { ...factors } });
@@ -175,8 +180,12 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
       phiError = hooks.evaluate();
       if (tr.targetPhiError !== undefined && phiError < tr.targetPhiError && !reachedTarget) reachedTarget = { step: state.step, seconds: elapsed() };
     }
+    const wall = hooks.wallSeconds ? { wallSeconds: hooks.wallSeconds() } : {};
     if (state.step % tr.logEvery === 0 || last || phiError !== undefined) {
-      state.history.push({ step: state.step, stage: 'adam', total, terms, learningRate: lr, seconds: elapsed(), ...(phiError !== undefined ? { phiError } : {}) });
+      state.history.push({ step: state.step, stage: 'adam', total, terms, learningRate: lr, seconds: elapsed(), ...wall, ...(phiError !== undefined ? { phiError } : {}) });
+    } else {
+      // Between logged steps, the total alone (its terms are not all evaluated every step): the report's loss curve needs every step.
+      state.history.push({ step: state.step, stage: 'adam', total, terms: {}, learningRate: lr, seconds: elapsed(), ...wall });
     }
     hooks.onProgress?.({ step: state.step, steps: tr.adamSteps, total, terms, stepsPerSecond: rate, secondsLeft: (tr.adamSteps - state.step) / rate, learningRate: lr });
     if (hooks.checkpoint && (state.step % tr.checkpointEvery === 0 || last)) {
@@ -198,12 +207,12 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
  * One polish cycle: the field step when given (alternating strategy: a field update, after
  * which the frozen field values are stale), then L-BFGS in the fields as they now are.
  */
-export function polishCycle(tf: Tf, problem: ScftProblem, params: ParameterSet, weights: LossValues, iterations: number, fieldStep?: () => void): { iterations: number; f: number; reason: string } {
+export function polishCycle(tf: Tf, problem: ScftProblem, params: ParameterSet, weights: LossValues, iterations: number, fieldStep?: () => void, onIteration?: (it: number, f: number) => void): { iterations: number; f: number; reason: string } {
   if (fieldStep) {
     fieldStep();
     problem.invalidateFields();
   }
-  return polishWithLbfgs(tf, problem, params, weights, iterations);
+  return polishWithLbfgs(tf, problem, params, weights, iterations, onIteration);
 }
 
 /** L-BFGS polish of all parameters on the same weighted loss (fixed collocation points). */

@@ -6,7 +6,7 @@
 import { formatText, throughSchema } from '../io/formats/file-format.js';
 import { TRAIN_METRICS_VERSION, trainMetricsFileSchema, trainMetricsSchema } from '../io/formats/training.js';
 import type { TrainMetrics, TransferReport } from '../io/formats/training.js';
-import { InputError } from '../io/errors.js';
+import { InputError, RunFailure } from '../io/errors.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
 import { solutionToFile, summarize } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
@@ -27,6 +27,7 @@ import type { ScftNetworks } from '../network/scft-networks.js';
 import { LOSS_TERMS } from '../network/losses/terms.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftProblem } from '../network/problem/scft-problem.js';
+import { yieldToEvents } from '../runtime/stop.js';
 import { polishCycle, propagatorWeights, runTraining } from './train-loop.js';
 import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
 import { warmStart } from '../network/warm-start.js';
@@ -119,6 +120,12 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     if (JSON.stringify(resumed.file.config.system) !== JSON.stringify(config.system)) {
       throw new InputError(`--resume ${opts.resumeDir}: checkpoint was trained for another system (${JSON.stringify(resumed.file.config.system)}); use initFrom for transfer`);
     }
+    const changed = changedSettings(resumed.file.config, config);
+    if (changed.length > 0) {
+      throw new InputError(
+        `--resume ${opts.resumeDir}: the config differs from the one the checkpoint was trained with, and a resumed run continues that one exactly:\n${changed.map((c) => `  ${c}`).join('\n')}\nresume with the checkpoint's settings (only training.adamSteps may grow), or start a new run from it with initFrom`,
+      );
+    }
     // The resumed run continues the checkpoint's own schedule, with the new step budget.
     config = { ...resumed.file.config, training: { ...resumed.file.config.training, adamSteps: Math.max(config.training.adamSteps, resumed.file.step) } };
   }
@@ -131,7 +138,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const cell = resumed ? { ...config.cell, period: resumed.file.length / resumed.file.periods } : config.cell;
   const ref = solveFromConfig({ system: config.system, cell, solver: config.solver, output: { propagators: true } });
   const reference = ref.solution;
-  if (!reference.converged) throw new InputError(`reference: the spectral solve did not converge (${reference.notes.join('; ')})`);
+  if (!reference.converged) throw new RunFailure(`reference: the spectral solve did not converge (${reference.notes.join('; ')})`);
   if (reference.phase === 'disordered') {
     throw new InputError(`system: the reference is disordered at χN = ${config.system.chiN} (below the order–disorder transition): there is no lamella to learn`);
   }
@@ -156,7 +163,14 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     training.resumedFrom = { checkpoint: opts.resumeDir!, step: resumed.file.step };
     stage(`resumed from ${opts.resumeDir} at step ${resumed.file.step}`);
   } else if (config.initFrom) {
-    const src = loadCheckpoint(tf, config.initFrom);
+    let src: LoadedCheckpoint;
+    try {
+      src = loadCheckpoint(tf, config.initFrom);
+    } catch (e) {
+      // Name the config key, so the user knows which setting pointed there.
+      if (e instanceof InputError) throw new InputError(`initFrom: ${e.message}`);
+      throw e;
+    }
     const mismatch = sameArchitecture(config, src.file.config);
     if (mismatch) throw new InputError(`initFrom ${config.initFrom}: cannot transfer: ${mismatch}`);
     const srcChain = buildChain(src.file.config.system.chain);
@@ -169,7 +183,10 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const fromReference = ws.type === 'reference';
     const w = fromReference ? reference.w : cosineStart(chain, config.system.chiN, reference.cell, 0.3);
     stage(fromReference ? 'warm start: fitting the networks to the spectral solution' : 'cold start: fitting the field network to a cosine guess');
-    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.adamSteps, ws.learningRate);
+    const wsStart = performance.now();
+    // Every warm-start step in the history: the report draws the loss over every phase.
+    const onStep = (step: number, loss: number) => state.history.push({ step, stage: 'warm-start', total: loss, terms: {}, learningRate: ws.learningRate, seconds: (performance.now() - wsStart) / 1000, wallSeconds: (performance.now() - t0) / 1000 });
+    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.adamSteps, ws.learningRate, onStep);
     training.warmStart = { adamSteps: r.steps, seconds: r.seconds, finalLoss: r.finalLoss };
   }
 
@@ -206,6 +223,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     checkpoint: (st) => save(st, 'adam'),
     evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
     shouldStop: opts.shouldStop,
+    wallSeconds: () => (performance.now() - t0) / 1000,
   });
   training.stopReason = loop.reason;
   training.message = loop.message;
@@ -235,11 +253,23 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     let iterations = 0;
     const trainingSeconds = () => loop.state.secondsBefore + (performance.now() - tLoop) / 1000;
     for (let c = 0; c < cycles; c++) {
-      r = polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined);
+      // A stop asked during the polish lands between cycles (each cycle is one synchronous L-BFGS run).
+      await yieldToEvents();
+      if (opts.shouldStop?.()) {
+        await save(loop.state, 'adam');
+        problem.dispose();
+        adam.dispose();
+        nets.dispose();
+        throw new TrainingStopped('interrupted', `interrupted in the L-BFGS polish after ${iterations} iterations (cycle ${c + 1} of ${cycles}); checkpoint saved at step ${loop.state.step}`, opts.outDir, opts.outDir ? loop.state.step : null);
+      }
+      const before = iterations;
+      // Every L-BFGS iteration in the history (loss only); the cycle's end entry below adds the φA error.
+      const onIteration = (it: number, f: number) => loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: before + it });
+      r = polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined, onIteration);
       iterations += r.iterations;
       // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.
       const phiError = tr.evaluateEvery > 0 ? evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2 : undefined;
-      loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
+      loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
       stage(`L-BFGS cycle ${c + 1}/${cycles}: ${iterations} iterations, loss ${r.f.toExponential(3)}${phiError !== undefined ? `, φA error ${phiError.toExponential(3)}` : ''}`);
       if (phiError !== undefined && tr.targetPhiError !== undefined && phiError < tr.targetPhiError) {
         training.reachedTarget = { step: loop.state.step, seconds: trainingSeconds(), lbfgsIterations: iterations };
@@ -278,6 +308,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     network: summarize(network),
     // Filled phase by phase above; checked complete here.
     training: throughSchema(trainMetricsSchema.shape.training, training),
+    runSeconds: (performance.now() - t0) / 1000,
   };
   if (opts.outDir) {
     const networkFile = `${JSON.stringify(solutionToFile(network, prov(), config), null, 1)}\n`;
@@ -287,6 +318,21 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   adam.dispose();
   nets.dispose();
   return { metrics, reference, network, handle, outDir: opts.outDir, history: loop.state.history };
+}
+
+/**
+ * Settings that differ between a checkpoint's config and the config of a resume, as
+ * "path: checkpoint A, config B" lines. The step budget may grow and the backend may change
+ * (neither changes the curve the run follows); anything else would be silently ignored.
+ */
+export function changedSettings(saved: unknown, now: unknown, path = ''): string[] {
+  if (path === 'training.adamSteps' || path === 'backend') return [];
+  const isObj = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
+  if (isObj(saved) && isObj(now)) {
+    const keys = [...new Set([...Object.keys(saved), ...Object.keys(now)])];
+    return keys.flatMap((k) => changedSettings(saved[k], now[k], path ? `${path}.${k}` : k));
+  }
+  return JSON.stringify(saved) === JSON.stringify(now) ? [] : [`${path}: checkpoint ${JSON.stringify(saved)}, config ${JSON.stringify(now)}`];
 }
 
 /** A run that stopped before the end (diverged or interrupted): the checkpoint on disk is the last good one. */

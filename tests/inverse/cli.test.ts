@@ -1,6 +1,6 @@
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { runCli } from '../helpers/run-cli.js';
 
@@ -15,10 +15,10 @@ function write(dir: string, name: string, text: string): string {
 
 /** A clean synthetic profile over one period, from the CLI itself. */
 function synth(dir: string, extra: string[] = []): string {
-  const out = join(dir, 'profile.csv');
+  const out = join(dir, 'synth');
   const r = runCli(['synth', '--f', '0.5', '--chiN', '15', '--offset', '0.6', ...grid, ...extra, '--out', out]);
   expect(r.code).toBe(0);
-  return out;
+  return join(out, 'profile.csv');
 }
 
 describe('mesofield synth', () => {
@@ -26,7 +26,7 @@ describe('mesofield synth', () => {
     const dir = tmp();
     const a = synth(dir, ['--noise', '0.02', '--seed', '4', '--points', '48']);
     const first = readFileSync(a, 'utf8');
-    const truth = JSON.parse(readFileSync(`${a}.truth.json`, 'utf8'));
+    const truth = JSON.parse(readFileSync(join(dirname(a), 'truth.json'), 'utf8'));
     expect(truth).toMatchObject({ kind: 'synth-truth', version: 2, chiN: 15, f: 0.5, noise: 0.02, seed: 4, points: 48, offset: 0.6 });
     expect(truth.period).toBeGreaterThan(3.6);
     const rows = first.trim().split('\n');
@@ -50,12 +50,11 @@ describe('mesofield synth', () => {
   for (const [name, args, msg] of bad) {
     it(`bad flag (${name}) exits 2 and writes nothing`, () => {
       const dir = tmp();
-      const out = join(dir, 'p.csv');
+      const out = join(dir, 'p');
       const r = runCli(['synth', ...args, '--out', out]);
       expect(r.code).toBe(2);
       expect(r.stderr).toMatch(msg);
       expect(existsSync(out)).toBe(false);
-      expect(existsSync(`${out}.truth.json`)).toBe(false);
     });
   }
 });
@@ -102,8 +101,8 @@ describe('mesofield invert', () => {
   it('reads x in nm with --rg-nm or --segments/--segment-length-nm, and a config file with flags on top', () => {
     const dir = tmp();
     // Rg = 0.7·sqrt(96/6) = 2.8 nm.
-    const p = join(dir, 'nm.csv');
-    expect(runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--rg-nm', '2.8', '--out', p]).code).toBe(0);
+    const p = join(dir, 'nm', 'profile.csv');
+    expect(runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--rg-nm', '2.8', '--out', dirname(p)]).code).toBe(0);
     const a = JSON.parse(runCli(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--json', '--quiet']).stdout).estimators.classical;
     expect(Math.abs(a.chiN / 15 - 1)).toBeLessThan(1e-4);
     expect(a.periodNm).toBeCloseTo(a.period * 2.8, 10);
@@ -163,21 +162,21 @@ describe('mesofield invert', () => {
   it('bad flags and periods that do not fit the x range exit 2 and write nothing', () => {
     const dir = tmp();
     const one = synth(dir);
-    const shortProfile = join(dir, 'short.csv');
+    const shortProfile = join(dir, 'short', 'profile.csv');
     // 0.4 of a period: no period can be fixed from it, and the equilibrium one is over twice its span.
-    expect(runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '0.4', '--points', '30', '--noise', '0.01', '--out', shortProfile]).code).toBe(0);
+    expect(runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '0.4', '--points', '30', '--noise', '0.01', '--out', dirname(shortProfile)]).code).toBe(0);
     const cases: [string, string[], RegExp][] = [
       ['given period longer than twice the span', [one, '--period', '9'], /--period: got 9 Rg, more than twice the data span .*less than half a period/],
       ['given period in nm', [one, '--period', '30', '--rg-nm', '2'], /--period: got 30 nm, more than twice the data span/],
       ['free period runs to its bound', [shortProfile, '--period', 'free'], /--period: got "free", and the best period runs to the bound of its search/],
       ['equilibrium period over twice the span', [shortProfile], /--period: the fitted equilibrium period .* more than twice the data span/],
       ['missing f', [one, '--nx', '32'], /--f: missing; the A fraction f/],
-      ['f out of range', [one, '--f', '1.5'], /flags: system\.chain\.f: got 1\.5;/],
+      ['f out of range', [one, '--f', '1.5'], /--f → system\.chain\.f: got 1\.5;/],
       ['bad chiN range', [one, '--f', '0.5', '--chiN-range', '20,10'], /--chiN-range: got "20,10"; allowed: 0 < lo < hi/],
       ['non-numeric chiN range', [one, '--f', '0.5', '--chiN-range', 'a,b'], /--chiN-range: got "a,b"; allowed: two numbers lo,hi/],
       ['range that excludes the fit', [one, '--f', '0.5', '--chiN-range', '20,40'], /--chiN-range: the best fit runs to the lower bound χN = 20/],
-      ['bad period word', [one, '--f', '0.5', '--period', 'stressfree'], /--period: got "stressfree"; allowed: a number/],
-      ['bad nx', [one, '--f', '0.5', '--nx', '48'], /flags: cell\.nx: got 48;.*power of two/],
+      ['bad period word', [one, '--f', '0.5', '--period', 'stressfree'], /--period: got "stressfree"; allowed: a period in Rg \(a number > 0\), or "equilibrium", "free"/],
+      ['bad nx', [one, '--f', '0.5', '--nx', '48'], /--nx → cell\.nx: got 48;.*power of two/],
       ['Rg given twice', [one, '--f', '0.5', '--rg-nm', '2', '--segments', '100'], /--rg-nm: give either --rg-nm or --segments/],
       ['segments without a length', [one, '--f', '0.5', '--segments', '100'], /--segment-length-nm: missing/],
       ['missing profile', [join(dir, 'nope.csv'), '--f', '0.5'], /nope\.csv: cannot read the file \(ENOENT\)/],

@@ -7,6 +7,7 @@ import { solveFixedCell } from '../../src/spectral/scft-solver.js';
 import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import type { ScftSolution } from '../../src/physics/result.js';
 import type { InversionInput, ReportInput, RunInfo, TrainingInput } from '../../src/reports/report-inputs.js';
+import { trainingRecords } from '../../src/reports/readers/training-history.js';
 
 export const SYSTEM = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
 export const LENGTH = 3.7;
@@ -24,7 +25,13 @@ export function runInfo(kind: string): RunInfo {
     system: SYSTEM,
     period: LENGTH,
     rgNm: 4.5,
-    config: ['system.chiN: 15', `cell.period: ${LENGTH}`, `cell.nx: ${NX}`, `cell.ns: ${NS}`],
+    settings: [
+      { name: 'system.chiN', value: '15' },
+      { name: 'cell.period', value: String(LENGTH) },
+      { name: 'cell.nx', value: String(NX) },
+      { name: 'cell.ns', value: String(NS) },
+      { name: 'networks.field.hidden', value: '32, 32, 32' },
+    ],
     provenance: { version: '0.0.0-fixture', node: 'v20.0.0', createdAt: '2024-05-06T07:08:09.000Z' },
     runSeconds: 1.25,
   };
@@ -53,13 +60,22 @@ export function networkInput(reference: ScftSolution, fixtureNetwork: ScftSoluti
   };
 }
 
-/** A synthetic loss history (exponential decays with a step-wise learning rate): it only drives the plots. */
+/**
+ * A synthetic training history in the checkpoint's format (warm start 50 steps, Adam 100
+ * steps, L-BFGS 80 iterations, exponential decays): it only drives the plots and the reader.
+ */
+export function checkpointHistoryFixture(): Record<string, unknown>[] {
+  const h: Record<string, unknown>[] = [];
+  for (let step = 1; step <= 50; step++) h.push({ stage: 'warm-start', step, total: 0.5 * Math.exp(-step / 20), terms: {}, learningRate: 0.01, seconds: 0.02 * step, wallSeconds: 0.3 + 0.02 * step });
+  for (let step = 1; step <= 100; step++) h.push({ stage: 'adam', step, total: 2 * Math.exp(-step / 60), terms: {}, learningRate: 1e-3, seconds: 0.05 * step, wallSeconds: 1.3 + 0.05 * step, ...(step % 50 === 0 ? { phiError: 0.2 * Math.exp(-step / 80) } : {}) });
+  for (let it = 1; it <= 80; it++) h.push({ stage: 'lbfgs', step: 100, total: 0.3 * Math.exp(-it / 20), terms: {}, learningRate: 0, seconds: 5 + 0.04 * it, wallSeconds: 6.3 + 0.04 * it, lbfgsIterations: it, ...(it % 40 === 0 ? { phiError: 0.05 * Math.exp(-it / 30) } : {}) });
+  return h;
+}
+
 export function trainingFixture(): TrainingInput {
-  const history = Array.from({ length: 60 }, (_, i) => {
-    const step = 10 * i;
-    return { step, terms: { mde: 2 * Math.exp(-step / 120), periodicity: 0.05 * Math.exp(-step / 300), incompressibility: 0.3 * Math.exp(-step / 80) + 1e-5 }, lr: step < 300 ? 1e-3 : 3e-4 };
-  });
-  return { history, chiNTrajectory: history.map((h) => ({ step: h.step, chiN: 15 + 3 * Math.exp(-h.step / 150) })), chiNReference: { value: 15, label: 'true χN' } };
+  const t = trainingRecords(checkpointHistoryFixture(), 'fixture');
+  const steps = Array.from({ length: 60 }, (_, i) => 10 * i);
+  return { ...t, chiNTrajectory: steps.map((step) => ({ step, chiN: 15 + 3 * Math.exp(-step / 150) })), chiNReference: { value: 15, label: 'true χN' } };
 }
 
 /** Deterministic pseudo-random normals (LCG + Box–Muller): fixed fixture noise. */

@@ -56,30 +56,40 @@ describe('solve report', () => {
   });
 
   it('has title, profiles, propagators, period search and metrics pages, nothing overflowing', () => {
-    expect(r.doc.pages.map((p) => p.heading)).toEqual(['mesofield solve report', 'Density and field profiles', 'Chain propagators', 'Equilibrium period search', 'Metrics and model assumptions']);
-    expect(pdfPageCount(r.doc)).toBe(r.doc.pages.length);
-    expect(pdfInfo(r.path).Pages).toBe('5');
+    expect(r.doc.pages.map((p) => p.heading)).toEqual(['mesofield solve report', 'Density and field profiles', 'Chain propagators', 'Equilibrium period search', 'Metrics', 'Appendix: assumptions and settings']);
+    // Metrics and the appendix flow onto the period-search page when it has room.
+    expect(pdfPageCount(r.doc)).toBe(pdfInfo(r.path).Pages === '4' ? 4 : 5);
+    expect(Number(pdfInfo(r.path).Pages)).toBeLessThanOrEqual(5);
   });
 
   it('carries the run date, not the clock, as the PDF creation date', () => {
     expect(pdfInfo(r.path).CreationDate).toMatch(/^2024-05-06T07:08:09/);
   });
 
-  it('prints the system, units, axis labels and assumptions as extractable text', () => {
+  it('prints the system, the headline results with units, axis labels and assumptions as extractable text', () => {
     const title = pdfText(r.path, 1);
     expect(title).toContain('A0.500-B0.500');
     expect(title).toContain('χN = 15');
-    // 3.7 Rg × 4.5 nm per Rg = 16.65 nm
-    expect(title).toContain('L = 3.7 Rg = 16.65 nm');
+    // 3.7 Rg × 4.5 nm per Rg = 16.65 nm: the period in nm first, Rg second, on page 1.
+    expect(title).toContain('16.65 nm (3.7 Rg)');
+    expect(title).toMatch(new RegExp(`free energy F\\s+${reference.freeEnergy.toPrecision(7).replace('.', '\\.')}\\s+kT per chain`));
     expect(title).toContain('2024-05-06T07:08:09.000Z');
     expect(title).toContain('mesofield 0.0.0-fixture');
+    expect(title).toContain('Run time: 1.25 s');
+    expect(title).not.toContain('give --rg-nm');
     expect(pdfText(r.path, 2)).toMatch(/x \/ Rg[\s\S]*wA − wB \(kT\)/);
     const period = pdfText(r.path, 4);
     expect(period).toContain('F (kT per chain)');
     expect(period).toContain('L* = 3.7 Rg');
-    const last = pdfText(r.path, 5);
-    for (const s of ['Mean-field', 'Incompressible', 'Gaussian', 'One-dimensional lamellae', 'a χN fitted to data inherits these assumptions']) expect(last).toContain(s);
-    expect(last).toContain(reference.freeEnergy.toPrecision(10).replace(/0+$/, ''));
+    const all = pdfText(r.path);
+    for (const s of ['Mean-field', 'Incompressible', 'Gaussian', 'One-dimensional lamellae', '32, 32, 32']) expect(all).toContain(s);
+    // A solve fits no χN: no caution about fitting one; an iteration count carries no unit.
+    expect(all).not.toContain('χN fitted to data');
+    expect(all).toMatch(/iterations of the final solve\s+\d+\s*\n/);
+    expect(all).not.toContain('values]');
+    // Each heading once (continued pages say so).
+    const headings = r.doc.pages.map((p) => p.heading);
+    expect(new Set(headings).size).toBe(headings.length);
   });
 
   it('is byte-identical when rendered twice', () => {
@@ -136,16 +146,17 @@ describe('axes', () => {
 describe('network-vs-reference report (fixture network)', () => {
   it('overlays both solutions and draws their differences', () => {
     const r = render(networkInput(reference, fixtureNetwork));
-    expect(pdfInfo(r.path).Pages).toBe('4');
-    expect(pdfPageCount(r.doc)).toBe(4);
+    expect(pdfPageCount(r.doc)).toBe(Number(pdfInfo(r.path).Pages));
     const profiles = pdfText(r.path, 2);
     expect(profiles).toContain('φA fixture χN 15.6');
     expect(profiles).toContain('φA: fixture χN 15.6 − reference');
     expect(profiles).toContain('Δφ (–)');
     const prop = pdfText(r.path, 3);
+    // Four panels, none empty: q of both, and the differences of q and q†.
     expect(prop).toContain('q difference, fixture χN 15.6 − reference');
-    const metrics = pdfText(r.path, 4);
-    expect(metrics).toContain('relative L2 error of φA');
+    expect(prop).toContain('q† difference, fixture χN 15.6 − reference');
+    const metrics = pdfText(r.path);
+    expect(metrics).toContain('φA relative L2 error');
     expect(metrics).toContain('fixture metric');
     expect(pdfText(r.path, 1)).toContain('network backend wasm (fixture), tfjs 4.22.0');
   });
@@ -165,21 +176,27 @@ describe('network-vs-reference report (fixture network)', () => {
 });
 
 describe('training report', () => {
-  it('plots loss terms on a log axis, the learning rate and the χN trajectory', async () => {
-    const r = render({ info: runInfo('train'), training: trainingFixture() });
-    expect(pdfInfo(r.path).Pages).toBe('3');
-    const t = pdfText(r.path, 2);
-    for (const s of ['mde', 'periodicity', 'incompressibility', 'learning rate', 'true χN = 15', '1e-3']) expect(t).toContain(s);
-    const figs = figuresOf(r.doc);
-    expect(figs.map((f) => f.id)).toEqual(['training-loss', 'training-lr', 'training-chiN']);
-    for (const f of figs) expect(await inkFraction(renderFigurePng(f, 60))).toBeGreaterThan(0.02);
+  it('reads every phase of the history onto one iteration axis, with the wall time', () => {
+    const t = trainingFixture();
+    // 50 warm-start steps, then Adam steps 1..100 at 51..150, then L-BFGS iterations 1..80 at 151..230.
+    expect(t.phases.map((p) => [p.name, p.from, p.to, p.iterations])).toEqual([
+      ['warm start', 1, 50, 50],
+      ['Adam', 51, 150, 100],
+      ['L-BFGS', 151, 230, 80],
+    ]);
+    expect(t.wallClock).toBe(true);
+    expect(t.records.filter((r) => r.referenceError !== undefined).map((r) => r.iteration)).toEqual([100, 150, 190, 230]);
   });
 
-  it('says how many non-positive loss values a log axis cannot show', () => {
-    const tr = trainingFixture();
-    tr.history[3].terms.mde = 0;
-    const r = render({ info: runInfo('train'), training: tr });
-    expect(pdfText(r.path, 2)).toContain('1 non-positive values are not drawn');
+  it('draws the loss over every phase against iterations and wall time, phase boundaries marked, no learning-rate panel', async () => {
+    const r = render({ info: runInfo('train'), training: trainingFixture() });
+    const t = pdfText(r.path, 2);
+    for (const s of ['loss, warm start', 'loss, Adam', 'loss, L-BFGS', 'φA relative L2 error vs reference', 'iteration (all phases)', 'wall time since the run started (s)', 'true χN = 15']) expect(t).toContain(s);
+    expect(t).toContain('warm start (50 iterations');
+    expect(t).not.toContain('learning rate');
+    const figs = figuresOf(r.doc);
+    expect(figs.map((f) => f.id)).toEqual(['training-loss', 'training-chiN']);
+    for (const f of figs) expect(await inkFraction(renderFigurePng(f, 60))).toBeGreaterThan(0.02);
   });
 });
 
@@ -192,10 +209,14 @@ describe('inversion report', () => {
     expect(exact.interval.lower).toBeLessThan(15);
     expect(exact.interval.upper).toBeGreaterThan(15);
     const inv = inversionFixture(reference);
-    const r = render({ info: runInfo('invert'), inversion: inv });
-    expect(pdfInfo(r.path).Pages).toBe('3');
+    const r = render({ info: runInfo('invert'), inversion: { ...inv, interval95: { lower: inv.interval.lower - 0.1, upper: inv.interval.upper + 0.1, threshold: 3.841 } } });
     const t = pdfText(r.path, 2);
-    for (const s of ['φA data ± σ', 'residual / σ', 'Δχ² (–)', 'profile-likelihood grid minimum', 'true χN of the fixture data', '68 % interval']) expect(t).toContain(s);
+    for (const s of ['φA data ± σ', 'residual / σ', 'Δχ² (–)', '68 % interval', '95 % interval', 'Δχ² = 3.84 (95 %)']) expect(t).toContain(s);
+    // Table cells wrap rather than being cut off: every word of the estimator names and notes is there.
+    for (const w of ['profile-likelihood', 'grid', 'minimum', 'true', 'fixture', 'data made at this χN']) expect(t).toContain(w);
+    // χN with its interval on page 1; the caution about a fitted χN in the appendix.
+    expect(pdfText(r.path, 1)).toMatch(/fitted χN[^\n]*68 %: [\d.]+ – [\d.]+; 95 %/);
+    expect(pdfText(r.path)).toContain('χN fitted to data');
     for (const f of figuresOf(r.doc)) expect(await inkFraction(renderFigurePng(f, 60))).toBeGreaterThan(0.02);
   });
 

@@ -79,14 +79,14 @@ describe('surrogate commands', () => {
     expect(j.phiA.length).toBe(32);
   });
 
-  it('predict writes JSON or CSV with --out and checks its flags', () => {
-    const json = join(work, 'p.json');
-    const csv = join(work, 'p.csv');
-    expect(runCli(['predict', ck, '--chiN', '14', '--out', json]).code).toBe(0);
+  it('predict writes prediction.json and profile.csv into --out DIR and checks its flags', () => {
+    const json = join(work, 'p', 'prediction.json');
+    const csv = join(work, 'p5', 'profile.csv');
+    expect(runCli(['predict', ck, '--chiN', '14', '--out', join(work, 'p')]).code).toBe(0);
     const j = JSON.parse(readFileSync(json, 'utf8'));
     expect(j.point.chiN).toBe(14);
     expect(j.trainedRange).toEqual([{ name: 'chiN', min: 13, max: 17 }]);
-    expect(runCli(['predict', ck, '--chiN', '14', '--points', '5', '--out', csv]).code).toBe(0);
+    expect(runCli(['predict', ck, '--chiN', '14', '--points', '5', '--out', join(work, 'p5')]).code).toBe(0);
     const lines = readFileSync(csv, 'utf8').trim().split('\n');
     expect(lines[0]).toBe('x,t,phiA,phiB,wA,wB');
     expect(lines.length).toBe(6);

@@ -28,6 +28,7 @@ import { parseProfileCsv } from '../../inverse/profile-csv.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action } from '../run-command.js';
+import { claimOut, withOutput } from '../run-output.js';
 
 export const DEMO_SYSTEM = { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } as const;
 
@@ -57,98 +58,104 @@ export function registerDemo(program: Command): void {
     .description('run the whole chain on the demo system (symmetric diblock, χN = 15) into a directory')
     .option('--out <dir>', 'output directory', 'reports/demo')
     .option('--backend <b>', 'tfjs backend for the network: auto | native | wasm | cpu', 'auto')
+    .option('--overwrite', 'replace a previous demo output in --out (only the files mesofield wrote there)')
     .option('--quiet', 'no progress on stderr')
     .action(
-      action(async (flags: { out: string; backend: string; quiet?: boolean }) => {
-        const t0 = performance.now();
-        const progress = new Progress('demo', flags.quiet);
-        const config = parseOrThrow(solveConfigSchema, DEMO_SOLVE_CONFIG, 'demo solve config');
-        progress.update('1/3 reference solve with period optimisation', true);
-        const ref = solveFromConfig(config, {
-          onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(5)} Rg, F = ${e.freeEnergy.toFixed(8)}`),
-        });
-        const refDir = join(flags.out, 'reference');
-        const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance, periodSearch: ref.search?.trace });
-        writeDirectoryAtomic(refDir, {
-          'solution.json': solutionText(file),
-          'profile.csv': solutionGridCsv(ref.solution),
-        });
-        const refReport = report(refDir, join(refDir, 'report'));
-        const s = summarize(ref.solution, { periodTolerance: ref.search?.periodTolerance });
-
-        progress.update('2/3 training a warm-started network (short budget)', true);
-        const trainConfig = parseOrThrow(trainConfigSchema, { ...DEMO_TRAIN_CONFIG, backend: flags.backend }, 'demo train config');
-        const netDir = join(flags.out, 'network');
-        const { trainRun } = await import('../../training/train-run.js');
-        const tr = await trainRun({
-          config: trainConfig,
-          outDir: netDir,
-          onStage: (m) => progress.update(m, true),
-          onProgress: (p) => progress.update(`step ${p.step}/${p.steps} | loss ${p.total.toExponential(2)} | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`),
-        });
-        progress.update('3/4 report of the network', true);
-        const netReport = report(netDir, join(netDir, 'report'));
-
-        // A "measured" profile: the reference at χN = 15 sampled at 64 points over two
-        // periods, from an arbitrary origin, with 2 % Gaussian noise (seeded).
-        progress.update('4/4 synthetic noisy profile and inversion for χN', true);
-        const invDir = join(flags.out, 'inversion');
-        const truth = { chiN: DEMO_SYSTEM.chiN, noise: 0.02, points: 64, periods: 2, offset: 1.3, seed: 2026 };
-        const chainSpec = config.system.chain;
-        const synth = synthesize({ chain: chainSpec, chiN: truth.chiN, points: truth.points, noise: truth.noise, seed: truth.seed, periods: truth.periods, offset: truth.offset, period: 'equilibrium', resolution: 0, nx: 64, ns: 100 });
-        const csv = synthCsv(synth, truth.noise);
-        const data = parseProfileCsv(csv, join(invDir, 'profile.csv'));
-        const est = estimateClassical(data, { chain: chainSpec, nx: 64, ns: 100, period: { mode: 'equilibrium' }, resolution: 0, profilePoints: 12 });
-        // The network estimator beside it: one seed, half the default L-BFGS budget, started from the classical estimate.
-        const { estimateNetwork } = await import('../../inverse/network-estimator.js');
-        const ne = await estimateNetwork(data, est, {
-          chain: chainSpec,
-          seeds: [1],
-          steps: 200,
-          fieldUpdateEvery: 50,
-          lbfgsIterations: 600,
-          lbfgsPerUpdate: 100,
-          resolution: 0,
-          backend: trainConfig.backend,
-          onProgress: (_seed, step, steps, chiN) => progress.update(`network estimator: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
-        });
-        const vsTruth = compareWithTruth('the demo scenario', truth.chiN, chainSpec, est, ne);
-        const result = inversionResult(data, { kind: 'invert', demo: true, truth }, provenance(), { classical: classicalBlock(est, data), network: networkBlock(ne, est, data) }, vsTruth);
-        writeDirectoryAtomic(invDir, {
-          'profile.csv': csv,
-          'truth.json': formatText(synthTruthSchema, {
-            kind: 'synth-truth',
-            version: SYNTH_TRUTH_VERSION,
-            provenance: provenance(),
-            chain: chainSpec,
-            f: DEMO_SYSTEM.chain.f,
-            ...truth,
-            period: synth.period,
-            periodMode: 'equilibrium',
-            resolution: 0,
-            nx: 64,
-            ns: 100,
-            xUnits: 'Rg',
-            freeEnergy: synth.point.solution.freeEnergy,
-            note: 'the demo scenario; lengths (period, offset) in Rg; offset is the data position of the centre of an A-rich domain',
-          }),
-          'result.json': inversionResultText(result),
-          'fit.csv': fitCsv(data, est),
-          'solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
-        });
-        const invReport = report(invDir, join(invDir, 'report'));
-        const m = tr.metrics;
-        progress.done(`finished in ${formatDuration((performance.now() - t0) / 1000)}`);
-        process.stdout.write(
-          [
-            `demo: symmetric diblock, χN = ${s.chiN}`,
-            `  reference: ${phaseLabel(s.phase)}, period ${formatNumber(s.period, 6)} Rg, F = ${formatNumber(s.freeEnergy, 9)} kT/chain (disordered ${formatNumber(s.freeEnergyDisordered, 9)})`,
-            `  network (${m.backend}, ${m.training.adamSteps} Adam steps${m.training.lbfgs ? ` + ${m.training.lbfgs.iterations} L-BFGS iterations` : ''} after a ${m.training.warmStart?.adamSteps ?? 0}-step warm start, ${formatDuration(m.training.seconds)}): φA relative L2 error ${m.errors.phiA.relativeL2.toExponential(2)}, F error ${m.errors.freeEnergyError.toExponential(2)} kT/chain`,
-            `  wrote ${refDir}/ (solution.json, profile.csv, report/) and ${netDir}/ (checkpoint, metrics.json, report/)`,
-            `  inversion of a synthetic 2 % noise profile (true χN = ${truth.chiN}): classical χN = ${est.chiN.toFixed(3)}, 68.3 % interval [${est.interval[0].toFixed(3)}, ${est.interval[1].toFixed(3)}], 95 % [${est.interval95[0].toFixed(3)}, ${est.interval95[1].toFixed(3)}]; network χN = ${ne.chiN.toFixed(3)} (one seed, ${ne.seconds.toFixed(0)} s; discovered wA − wB within ${vsTruth.estimators.network.exchangeFieldRelativeL2!.toExponential(1)} of the truth) → ${invDir}/`,
-            `  reports: ${[...refReport, ...netReport, ...invReport].filter((p) => p.endsWith('.pdf')).join(', ')}`,
-          ].join('\n') + '\n',
-        );
+      action(async (flags: { out: string; backend: string; overwrite?: boolean; quiet?: boolean }) => {
+        const out = claimOut(flags, 'demo');
+        return withOutput(out, () => runDemo(flags));
       }),
     );
+}
+
+async function runDemo(flags: { out: string; backend: string; quiet?: boolean }): Promise<void> {
+  const t0 = performance.now();
+  const progress = new Progress('demo', flags.quiet);
+  const config = parseOrThrow(solveConfigSchema, DEMO_SOLVE_CONFIG, 'demo solve config');
+  progress.update('1/3 reference solve with period optimisation', true);
+  const ref = solveFromConfig(config, {
+    onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(5)} Rg, F = ${e.freeEnergy.toFixed(8)}`),
+  });
+  const refDir = join(flags.out, 'reference');
+  const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance, periodSearch: ref.search?.trace });
+  writeDirectoryAtomic(refDir, {
+    'solution.json': solutionText(file),
+    'profile.csv': solutionGridCsv(ref.solution),
+  });
+  const refReport = report(refDir, join(refDir, 'report'));
+  const s = summarize(ref.solution, { periodTolerance: ref.search?.periodTolerance });
+
+  progress.update('2/3 training a warm-started network (short budget)', true);
+  const trainConfig = parseOrThrow(trainConfigSchema, { ...DEMO_TRAIN_CONFIG, backend: flags.backend }, 'demo train config');
+  const netDir = join(flags.out, 'network');
+  const { trainRun } = await import('../../training/train-run.js');
+  const tr = await trainRun({
+    config: trainConfig,
+    outDir: netDir,
+    onStage: (m) => progress.update(m, true),
+    onProgress: (p) => progress.update(`step ${p.step}/${p.steps} | loss ${p.total.toExponential(2)} | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`),
+  });
+  progress.update('3/4 report of the network', true);
+  const netReport = report(netDir, join(netDir, 'report'));
+
+  // A "measured" profile: the reference at χN = 15 sampled at 64 points over two
+  // periods, from an arbitrary origin, with 2 % Gaussian noise (seeded).
+  progress.update('4/4 synthetic noisy profile and inversion for χN', true);
+  const invDir = join(flags.out, 'inversion');
+  const truth = { chiN: DEMO_SYSTEM.chiN, noise: 0.02, points: 64, periods: 2, offset: 1.3, seed: 2026 };
+  const chainSpec = config.system.chain;
+  const synth = synthesize({ chain: chainSpec, chiN: truth.chiN, points: truth.points, noise: truth.noise, seed: truth.seed, periods: truth.periods, offset: truth.offset, period: 'equilibrium', resolution: 0, nx: 64, ns: 100 });
+  const csv = synthCsv(synth, truth.noise);
+  const data = parseProfileCsv(csv, join(invDir, 'profile.csv'));
+  const est = estimateClassical(data, { chain: chainSpec, nx: 64, ns: 100, period: { mode: 'equilibrium' }, resolution: 0, profilePoints: 12 });
+  // The network estimator beside it: one seed, half the default L-BFGS budget, started from the classical estimate.
+  const { estimateNetwork } = await import('../../inverse/network-estimator.js');
+  const ne = await estimateNetwork(data, est, {
+    chain: chainSpec,
+    seeds: [1],
+    steps: 200,
+    fieldUpdateEvery: 50,
+    lbfgsIterations: 600,
+    lbfgsPerUpdate: 100,
+    resolution: 0,
+    backend: trainConfig.backend,
+    onProgress: (_seed, step, steps, chiN) => progress.update(`network estimator: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
+  });
+  const vsTruth = compareWithTruth('the demo scenario', truth.chiN, chainSpec, est, ne);
+  const result = inversionResult(data, { kind: 'invert', demo: true, truth }, provenance(), { classical: classicalBlock(est, data), network: networkBlock(ne, est, data) }, vsTruth);
+  writeDirectoryAtomic(invDir, {
+    'profile.csv': csv,
+    'truth.json': formatText(synthTruthSchema, {
+      kind: 'synth-truth',
+      version: SYNTH_TRUTH_VERSION,
+      provenance: provenance(),
+      chain: chainSpec,
+      f: DEMO_SYSTEM.chain.f,
+      ...truth,
+      period: synth.period,
+      periodMode: 'equilibrium',
+      resolution: 0,
+      nx: 64,
+      ns: 100,
+      xUnits: 'Rg',
+      freeEnergy: synth.point.solution.freeEnergy,
+      note: 'the demo scenario; lengths (period, offset) in Rg; offset is the data position of the centre of an A-rich domain',
+    }),
+    'result.json': inversionResultText(result),
+    'fit.csv': fitCsv(data, est),
+    'solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
+  });
+  const invReport = report(invDir, join(invDir, 'report'));
+  const m = tr.metrics;
+  progress.done(`finished in ${formatDuration((performance.now() - t0) / 1000)}`);
+  process.stdout.write(
+    [
+      `demo: symmetric diblock, χN = ${s.chiN}`,
+      `  reference: ${phaseLabel(s.phase)}, period ${formatNumber(s.period, 6)} Rg, F = ${formatNumber(s.freeEnergy, 9)} kT/chain (disordered ${formatNumber(s.freeEnergyDisordered, 9)})`,
+      `  network (${m.backend}, ${m.training.adamSteps} Adam steps${m.training.lbfgs ? ` + ${m.training.lbfgs.iterations} L-BFGS iterations` : ''} after a ${m.training.warmStart?.adamSteps ?? 0}-step warm start, ${formatDuration(m.training.seconds)}): φA relative L2 error ${m.errors.phiA.relativeL2.toExponential(2)}, F error ${m.errors.freeEnergyError.toExponential(2)} kT/chain`,
+      `  wrote ${refDir}/ (solution.json, profile.csv, report/) and ${netDir}/ (checkpoint, metrics.json, report/)`,
+      `  inversion of a synthetic 2 % noise profile (true χN = ${truth.chiN}): classical χN = ${est.chiN.toFixed(3)}, 68.3 % interval [${est.interval[0].toFixed(3)}, ${est.interval[1].toFixed(3)}], 95 % [${est.interval95[0].toFixed(3)}, ${est.interval95[1].toFixed(3)}]; network χN = ${ne.chiN.toFixed(3)} (one seed, ${ne.seconds.toFixed(0)} s; discovered wA − wB within ${vsTruth.estimators.network.exchangeFieldRelativeL2!.toExponential(1)} of the truth) → ${invDir}/`,
+      `  reports: ${[...refReport, ...netReport, ...invReport].filter((p) => p.endsWith('.pdf')).join(', ')}`,
+    ].join('\n') + '\n',
+  );
 }

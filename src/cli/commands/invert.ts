@@ -1,22 +1,26 @@
 /** `mesofield invert`: recover χN (and the fields) from a measured composition profile. */
 import type { Command } from 'commander';
-import { existsSync, readFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeDirectoryAtomic } from '../../io/atomic-write.js';
-import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
+import type { OutputDirectory } from '../../io/output-directory.js';
+import { synthTruthPath } from '../../io/synth-output.js';
+import { claimOut, withOutput } from '../run-output.js';
+import { InputError, asInputError } from '../../io/errors.js';
 import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
 import { solutionToFile } from '../../io/formats/solution.js';
 import { provenance } from '../../io/versions.js';
-import { estimateClassical } from '../../inverse/classical.js';
+import { estimateWithAssumedInputs } from '../../inverse/classical-with-inputs.js';
+import { assumedInputs } from '../../inverse/assumed-inputs.js';
 import type { PeriodMode } from '../../inverse/objective.js';
 import { fitCsv, classicalBlock, inversionResult, inversionResultText, networkBlock, summaryText } from '../../inverse/inversion-result.js';
 import type { EstimatorBlock } from '../../inverse/inversion-result.js';
 import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
 import type { NetworkEstimate } from '../../inverse/network-estimator.js';
 import { compareWithTruth, readTruthSidecar } from '../../inverse/truth-comparison.js';
-import { action, numberFlag, workersFlag } from '../run-command.js';
-import { obj, readRawConfig } from '../raw-config.js';
+import { action, parseDecimal, workersFlag } from '../run-command.js';
+import { ConfigInput } from '../config-input.js';
+import { installStopHandlers } from '../../runtime/stop.js';
 import { Progress } from '../progress.js';
 
 interface InvertFlags {
@@ -26,7 +30,11 @@ interface InvertFlags {
   chiNRange?: string;
   json?: boolean;
   out?: string;
+  overwrite?: boolean;
   rgNm?: string;
+  rgNmSd?: string;
+  fSd?: string;
+  segmentRatioSd?: string;
   segments?: string;
   segmentLengthNm?: string;
   resolution?: string;
@@ -45,64 +53,57 @@ interface InvertFlags {
 function chiNRangeFlag(value: string | undefined): [number, number] | undefined {
   if (value === undefined) return undefined;
   const parts = value.split(',').map((s) => s.trim());
-  const nums = parts.map(Number);
-  if (parts.length !== 2 || parts.some((p) => p === '') || nums.some((v) => !Number.isFinite(v))) {
+  const nums = parts.map((p) => parseDecimal('--chiN-range', p));
+  if (parts.length !== 2 || nums.some((v) => typeof v === 'string')) {
     throw new InputError(`--chiN-range: got ${JSON.stringify(value)}; allowed: two numbers lo,hi (e.g. 11,40)`);
   }
-  if (!(nums[0] > 0 && nums[0] < nums[1])) throw new InputError(`--chiN-range: got ${JSON.stringify(value)}; allowed: 0 < lo < hi`);
-  return [nums[0], nums[1]];
+  if (!((nums[0] as number) > 0 && (nums[0] as number) < (nums[1] as number))) throw new InputError(`--chiN-range: got ${JSON.stringify(value)}; allowed: 0 < lo < hi`);
+  return [nums[0] as number, nums[1] as number];
 }
 
-/** Flags on top of the config file (or of an empty diblock config). */
+/** Flags on top of the config file (or of an empty diblock config); messages name the flag or the file's key. */
 export function buildInvertConfig(configPath: string | undefined, flags: InvertFlags): { config: InvertConfig; sources: Record<string, string> } {
-  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 2, kind: 'invert', system: { chain: { type: 'diblock' } } };
-  const src = configPath ?? 'flags';
-  const cell = obj(raw, 'cell');
-  const fromFile = (block: Record<string, unknown>, key: string, path: string, flag: string) => (configPath && block[key] !== undefined ? `${configPath}: ${path}` : flag);
-  const sources: Record<string, string> = {
-    method: fromFile(raw, 'method', 'method', '--method'),
-    period: fromFile(cell, 'period', 'cell.period', '--period'),
-    chiNRange: fromFile(raw, 'chiNRange', 'chiNRange', '--chiN-range'),
-  };
-  const chain = obj(obj(raw, 'system'), 'chain');
-  if (chain.type === undefined) chain.type = 'diblock';
-  const f = numberFlag('--f', flags.f);
-  if (f !== undefined) chain.f = f;
+  const input = new ConfigInput('invert', configPath, { version: 2, kind: 'invert', system: { chain: { type: 'diblock' } } });
+  const fromFile = (key: string, flag: string) => (configPath && input.get(key) !== undefined ? `${configPath}: ${key}` : flag);
+  const sources: Record<string, string> = { method: fromFile('method', '--method'), period: fromFile('cell.period', '--period'), chiNRange: fromFile('chiNRange', '--chiN-range') };
+  const chain = input.get('system.chain');
+  if (chain && typeof chain === 'object' && (chain as Record<string, unknown>).type === undefined) (chain as Record<string, unknown>).type = 'diblock';
+  const f = input.number('--f', flags.f);
   if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
-  const network = obj(raw, 'network');
-  const seeds = numberFlag('--seeds', flags.seeds);
-  if (seeds !== undefined) network.seeds = seeds;
-  const nsteps = numberFlag('--adam-steps', flags.adamSteps);
-  if (nsteps !== undefined) network.adamSteps = nsteps;
-  const nlbfgs = numberFlag('--lbfgs-iterations', flags.lbfgsIterations);
-  if (nlbfgs !== undefined) network.lbfgsIterations = nlbfgs;
-  if (flags.backend !== undefined) network.backend = flags.backend;
+  input.number('--seeds', flags.seeds);
+  input.number('--adam-steps', flags.adamSteps);
+  input.number('--lbfgs-iterations', flags.lbfgsIterations);
+  if (flags.backend !== undefined) input.set('--backend', flags.backend);
   if (flags.method !== undefined) {
-    raw.method = flags.method;
+    input.set('--method', flags.method);
     sources.method = '--method';
   }
   if (flags.period !== undefined) {
-    cell.period = flags.period === 'equilibrium' || flags.period === 'free' ? flags.period : numberFlag('--period', flags.period);
+    input.period('--period', flags.period, ['free']);
     sources.period = '--period';
   }
   const range = chiNRangeFlag(flags.chiNRange);
   if (range) {
-    raw.chiNRange = range;
+    input.set('--chiN-range', range);
     sources.chiNRange = '--chiN-range';
   }
-  const res = numberFlag('--resolution', flags.resolution);
-  if (res !== undefined) raw.resolution = res;
-  const nx = numberFlag('--nx', flags.nx);
-  if (nx !== undefined) cell.nx = nx;
-  const ns = numberFlag('--ns', flags.ns);
-  if (ns !== undefined) cell.ns = ns;
-  const pp = numberFlag('--profile-points', flags.profilePoints);
-  if (pp !== undefined) raw.profilePoints = pp;
-  const unitFlags = { rgNm: numberFlag('--rg-nm', flags.rgNm), segments: numberFlag('--segments', flags.segments), segmentLengthNm: numberFlag('--segment-length-nm', flags.segmentLengthNm) };
-  if (Object.values(unitFlags).some((v) => v !== undefined)) {
-    raw.units = Object.fromEntries(Object.entries(unitFlags).filter(([, v]) => v !== undefined));
-  }
-  return { config: parseOrThrow(invertConfigSchema, raw, src), sources };
+  input.number('--resolution', flags.resolution);
+  input.number('--nx', flags.nx);
+  input.number('--ns', flags.ns);
+  input.number('--profile-points', flags.profilePoints);
+  // Unit flags replace the config's units block as a whole (one way to say what x is in).
+  if (flags.rgNm !== undefined || flags.rgNmSd !== undefined || flags.segments !== undefined || flags.segmentLengthNm !== undefined) input.reset('units');
+  input.number('--rg-nm', flags.rgNm);
+  input.number('--segments', flags.segments);
+  input.number('--segment-length-nm', flags.segmentLengthNm);
+  input.number('--rg-nm-sd', flags.rgNmSd);
+  input.number('--f-sd', flags.fSd);
+  input.number('--segment-ratio-sd', flags.segmentRatioSd);
+  // Where each assumed input's uncertainty came from (named in messages about it).
+  sources['sd.rgNm'] = flags.rgNmSd !== undefined ? '--rg-nm-sd' : `${configPath ?? 'flags'}: units.rgNmSd`;
+  sources['sd.f'] = flags.fSd !== undefined ? '--f-sd' : `${configPath ?? 'flags'}: uncertainty.f`;
+  sources['sd.segmentRatio'] = flags.segmentRatioSd !== undefined ? '--segment-ratio-sd' : `${configPath ?? 'flags'}: uncertainty.segmentRatio`;
+  return { config: input.parse(invertConfigSchema), sources };
 }
 
 export function registerInvert(program: Command): void {
@@ -122,6 +123,9 @@ export function registerInvert(program: Command): void {
     .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')
     .option('--resolution <W>', 'Gaussian instrument resolution (standard deviation, units of x)')
     .option('--rg-nm <R>', 'x is in nm and Rg = R nm')
+    .option('--rg-nm-sd <S>', 'standard deviation of Rg in nm: profiled into the χN interval')
+    .option('--f-sd <S>', 'standard deviation of f: profiled into the χN interval (two extra fits at f ± S)')
+    .option('--segment-ratio-sd <S>', 'standard deviation of b_A/b_B: profiled into the χN interval (two extra fits)')
     .option('--segments <N>', 'x is in nm; with --segment-length-nm, Rg = b·sqrt(N/6)')
     .option('--segment-length-nm <b>', 'statistical segment length in nm (with --segments)')
     .option('--nx <n>', 'model grid points per period (power of two; default 64)')
@@ -129,84 +133,106 @@ export function registerInvert(program: Command): void {
     .option('--profile-points <k>', 'extra points on the profile-likelihood curve (default 9)')
     .option('--json', 'print the result JSON on stdout')
     .option('--out <dir>', 'write result.json, fit.csv and solution.json into this directory')
+    .option('--overwrite', 'replace a previous invert output in --out (only the files mesofield wrote there)')
     .option('--report', 'also write a PDF/PNG report into <out>/report (needs --out)')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (profilePath: string, configPath: string | undefined, flags: InvertFlags) => {
         if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const { config, sources } = buildInvertConfig(configPath, flags);
-        const units = lengthUnits(config.units ?? {});
-        let text: string;
-        try {
-          text = readFileSync(profilePath, 'utf8');
-        } catch (e) {
-          throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-        }
-        const data = parseProfileCsv(text, profilePath, units);
-        const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
-        const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
-        const progress = new Progress('invert', flags.quiet);
-        let estimate;
-        try {
-          estimate = estimateClassical(data, {
-            chain: config.system.chain,
-            nx: config.cell.nx,
-            ns: config.cell.ns,
-            solver: config.solver,
-            period,
-            chiNRange: config.chiNRange as [number, number] | undefined,
-            resolution: toRg(config.resolution),
-            profilePoints: config.profilePoints,
-            periodSource: sources.period,
-            rangeSource: sources.chiNRange,
-            onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
-          });
-        } catch (e) {
-          throw asInputError(e, configPath ?? 'flags');
-        }
-        progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
-        const estimators: Record<string, EstimatorBlock> = {};
-        let ne: NetworkEstimate | undefined;
-        if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data);
-        if (config.method !== 'classical') {
-          // The network fits χN and the fields; the phase offset and period come from the classical fit.
-          const { estimateNetwork } = await import('../../inverse/network-estimator.js');
-          const net = config.network;
-          ne = await estimateNetwork(data, estimate, {
-            chain: config.system.chain,
-            seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
-            steps: net.adamSteps,
-            fieldUpdateEvery: net.fieldUpdateEvery,
-            lbfgsIterations: net.lbfgsIterations,
-            lbfgsPerUpdate: net.lbfgsPerUpdate,
-            chiNStart: net.chiNStart,
-            resolution: toRg(config.resolution),
-            backend: net.backend,
-            workers: workersFlag(flags.workers),
-            onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
-          });
-          progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
-          estimators.network = networkBlock(ne, estimate, data);
-        }
-        // A synthetic profile (synth --out) has its truth beside it: measure the estimates against it.
-        const truthPath = `${profilePath}.truth.json`;
-        const truth = existsSync(truthPath) ? compareWithTruth(truthPath, readTruthSidecar(truthPath).chiN, config.system.chain, estimate, ne) : undefined;
-        const result = inversionResult(data, config, provenance(), estimators, truth);
-        if (flags.out) {
-          const files = {
-            'result.json': inversionResultText(result),
-            'fit.csv': fitCsv(data, estimate),
-            'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
-          };
-          writeDirectoryAtomic(flags.out, files);
-          if (!flags.quiet) process.stderr.write(`invert: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
-          if (flags.report) {
-            const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
-            const written = reportRunDirectory(flags.out, join(flags.out, 'report'));
-            if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
-          }
-        }
-        process.stdout.write(flags.json ? inversionResultText(result, 2) : summaryText(result));
+        // Checked now, not when the network estimator starts: a typo must not wait for (or hide behind) a classical fit.
+        const workers = workersFlag(flags.workers);
+        const out = claimOut(flags, 'invert');
+        return withOutput(out, () => invertCommand(profilePath, configPath, flags, config, sources, workers, out));
       }),
     );
+}
+
+async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<void> {
+  const t0 = performance.now();
+  const units = lengthUnits(config.units ?? {});
+  let text: string;
+  try {
+    text = readFileSync(profilePath, 'utf8');
+  } catch (e) {
+    throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+  }
+  const data = parseProfileCsv(text, profilePath, units);
+  const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
+  const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
+  const progress = new Progress('invert', flags.quiet);
+  let estimate;
+  let assumed;
+  try {
+    const inputs = assumedInputs(config, units, sources);
+    ({ estimate, assumed } = estimateWithAssumedInputs(
+      data,
+      {
+        chain: config.system.chain,
+        nx: config.cell.nx,
+        ns: config.cell.ns,
+        solver: config.solver,
+        period,
+        chiNRange: config.chiNRange as [number, number] | undefined,
+        resolution: toRg(config.resolution),
+        profilePoints: config.profilePoints,
+        periodSource: sources.period,
+        rangeSource: sources.chiNRange,
+        onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
+      },
+      inputs,
+      (label) => progress.update(`refit with ${label}`, true),
+    ));
+  } catch (e) {
+    throw asInputError(e, configPath ?? 'flags');
+  }
+  progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
+  const estimators: Record<string, EstimatorBlock> = {};
+  let ne: NetworkEstimate | undefined;
+  if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data, assumed);
+  if (config.method !== 'classical') {
+    // The network fits χN and the fields; the phase offset and period come from the classical fit.
+    const { estimateNetwork } = await import('../../inverse/network-estimator.js');
+    const net = config.network;
+    const uninstall = installStopHandlers('invert');
+    try {
+      ne = await estimateNetwork(data, estimate, {
+        chain: config.system.chain,
+        seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
+        steps: net.adamSteps,
+        fieldUpdateEvery: net.fieldUpdateEvery,
+        lbfgsIterations: net.lbfgsIterations,
+        lbfgsPerUpdate: net.lbfgsPerUpdate,
+        chiNStart: net.chiNStart,
+        resolution: toRg(config.resolution),
+        backend: net.backend,
+        workers,
+        onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
+      });
+    } finally {
+      uninstall();
+    }
+    progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
+    estimators.network = networkBlock(ne, estimate, data);
+  }
+  // A synthetic profile (synth --out DIR) has its truth beside it: measure the estimates against it.
+  const truthPath = synthTruthPath(profilePath);
+  const truth = truthPath ? compareWithTruth(truthPath, readTruthSidecar(truthPath).chiN, config.system.chain, estimate, ne) : undefined;
+  const result = inversionResult(data, config, provenance(), estimators, truth);
+  if (flags.out) {
+    const files = {
+      // runSeconds: the wall time of the whole inversion (every estimator), for the report's title page.
+      'result.json': inversionResultText({ ...result, runSeconds: (performance.now() - t0) / 1000 }),
+      'fit.csv': fitCsv(data, estimate),
+      'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
+    };
+    const written = out!.write(files);
+    if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
+    if (flags.report) {
+      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
+      const written = reportRunDirectory(flags.out, join(flags.out, 'report'));
+      if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
+    }
+  }
+  process.stdout.write(flags.json ? inversionResultText(result, 2) : summaryText(result));
 }

@@ -1,16 +1,17 @@
 /** `mesofield solve`: one spectral reference solve, from a config file and/or flags. */
 import type { Command } from 'commander';
 import { join } from 'node:path';
-import { RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
+import { RunFailure, asInputError } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
 import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionText, solutionToFile, summarize } from '../../io/formats/solution.js';
 import { solutionSummaryLines } from '../../io/solution-text.js';
-import { writeDirectoryAtomic } from '../../io/atomic-write.js';
+import type { OutputDirectory } from '../../io/output-directory.js';
+import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { provenance } from '../../io/versions.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
-import { action, numberFlag } from '../run-command.js';
-import { obj, readRawConfig } from '../raw-config.js';
+import { action } from '../run-command.js';
+import { ConfigInput } from '../config-input.js';
 import { Progress } from '../progress.js';
 import { loadJsonFile } from '../../io/load-json.js';
 
@@ -28,43 +29,34 @@ interface SolveFlags {
   start?: string;
   json?: boolean;
   out?: string;
+  overwrite?: boolean;
   propagators?: boolean;
   quiet?: boolean;
 }
 
-/** Flags are applied on top of the config file (or of an empty diblock config). */
+/** Flags are applied on top of the config file (or of a symmetric diblock at χN = 15); messages name the flag or the file's key. */
 export function buildSolveConfig(configPath: string | undefined, flags: SolveFlags): SolveConfig {
-  const raw: Record<string, unknown> = configPath ? readRawConfig(configPath) : { version: 2, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } };
-  const system = obj(raw, 'system');
+  const input = new ConfigInput('solve', configPath, { version: 2, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } });
   if (flags.chain !== undefined) {
-    const chain: Record<string, unknown> = { type: flags.chain };
-    system.chain = chain;
+    input.reset('system.chain');
+    input.set('--chain', flags.chain);
   }
-  const chain = obj(system, 'chain');
-  const f = numberFlag('--f', flags.f);
-  if (f !== undefined) chain.f = f;
-  const ratio = numberFlag('--segment-ratio', flags.segmentRatio);
-  if (ratio !== undefined) chain.segmentRatio = ratio;
-  const share = numberFlag('--first-block-share', flags.firstBlockShare);
-  if (share !== undefined) chain.firstBlockShare = share;
-  if (chain.type === undefined) chain.type = 'diblock';
-  if (chain.type !== 'homopolymer' && chain.type !== 'blocks' && chain.f === undefined) chain.f = 0.5;
-  const chiN = numberFlag('--chiN', flags.chiN);
-  if (chiN !== undefined) system.chiN = chiN;
-  const cell = obj(raw, 'cell');
-  if (flags.period !== undefined) cell.period = flags.period === 'equilibrium' ? 'equilibrium' : numberFlag('--period', flags.period);
-  const periods = numberFlag('--periods', flags.periods);
-  if (periods !== undefined) cell.periods = periods;
-  const nx = numberFlag('--nx', flags.nx);
-  if (nx !== undefined) cell.nx = nx;
-  const ns = numberFlag('--ns', flags.ns);
-  if (ns !== undefined) cell.ns = ns;
-  const solver = obj(raw, 'solver');
-  const tol = numberFlag('--tolerance', flags.tolerance);
-  if (tol !== undefined) solver.tolerance = tol;
-  if (flags.start !== undefined) solver.start = flags.start === 'rpa' ? { type: 'rpa' } : flags.start === 'cosine' ? { type: 'cosine' } : { type: 'file', path: flags.start };
-  if (flags.propagators) obj(raw, 'output').propagators = true;
-  return parseOrThrow(solveConfigSchema, raw, configPath ?? 'flags');
+  input.number('--f', flags.f);
+  input.number('--segment-ratio', flags.segmentRatio);
+  input.number('--first-block-share', flags.firstBlockShare);
+  const chain = input.get('system.chain') as Record<string, unknown> | undefined;
+  if (chain && typeof chain === 'object' && chain.type === undefined) chain.type = 'diblock';
+  // A two-block chain named by --chain without --f is the symmetric one (a config file must say f).
+  if (!configPath && chain && chain.type !== 'homopolymer' && chain.type !== 'blocks' && chain.f === undefined) chain.f = 0.5;
+  input.number('--chiN', flags.chiN);
+  input.period('--period', flags.period);
+  input.number('--periods', flags.periods);
+  input.number('--nx', flags.nx);
+  input.number('--ns', flags.ns);
+  input.number('--tolerance', flags.tolerance);
+  if (flags.start !== undefined) input.set('--start', flags.start === 'rpa' ? { type: 'rpa' } : flags.start === 'cosine' ? { type: 'cosine' } : { type: 'file', path: flags.start });
+  if (flags.propagators) input.set('--propagators', true);
+  return input.parse(solveConfigSchema);
 }
 
 export function registerSolve(program: Command): void {
@@ -86,42 +78,59 @@ export function registerSolve(program: Command): void {
     .option('--propagators', 'also write q(x, s) and q†(x, s)')
     .option('--json', 'print the result summary as JSON on stdout')
     .option('--out <dir>', 'write solution.json and profile.csv into this directory')
+    .option('--overwrite', 'replace a previous solve output in --out (only the files mesofield wrote there)')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (configPath: string | undefined, flags: SolveFlags) => {
         const config = buildSolveConfig(configPath, flags);
-        let initial;
-        if (config.solver.start.type === 'file') {
-          const file = loadJsonFile(config.solver.start.path, solutionFileSchema);
-          initial = { A: Float64Array.from(file.grid.wA), B: Float64Array.from(file.grid.wB) };
-        }
-        const progress = new Progress('solve', flags.quiet);
-        let ref;
-        try {
-          ref = solveFromConfig(config, {
-            initial,
-            onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(6)} Rg, F = ${e.freeEnergy.toFixed(9)} kT (${e.phase})`),
-          });
-        } catch (e) {
-          throw asInputError(e, configPath ?? 'flags');
-        }
-        const sol = ref.solution;
-        progress.done(`${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`);
-        const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
-        if (flags.out) {
-          const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance, periodSearch: ref.search?.trace });
-          const files: Record<string, string> = {
-            'solution.json': solutionText(file),
-            'profile.csv': solutionGridCsv(sol),
-          };
-          const prop = propagatorCsv(sol);
-          if (prop) files['propagators.csv'] = prop;
-          writeDirectoryAtomic(flags.out, files);
-          if (!flags.quiet) process.stderr.write(`solve: wrote ${Object.keys(files).map((n) => join(flags.out!, n)).join(', ')}\n`);
-        }
-        if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
-        else process.stdout.write(`${solutionSummaryLines(summary).join('\n')}\n`);
-        if (!sol.converged) throw new RunFailure(`solve did not converge: ${sol.notes.join('; ')}`);
+        const out = claimOut(flags, 'solve');
+        return withOutput(out, () => solveCommand(config, configPath, flags, out));
       }),
     );
+}
+
+async function solveCommand(config: SolveConfig, configPath: string | undefined, flags: SolveFlags, out: OutputDirectory | undefined): Promise<void> {
+  const t0 = performance.now();
+  let initial;
+  if (config.solver.start.type === 'file') {
+    const file = loadJsonFile(config.solver.start.path, solutionFileSchema);
+    initial = { A: Float64Array.from(file.grid.wA), B: Float64Array.from(file.grid.wB) };
+  }
+  const progress = new Progress('solve', flags.quiet);
+  let ref;
+  try {
+    ref = solveFromConfig(config, {
+      initial,
+      onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(6)} Rg, F = ${e.freeEnergy.toFixed(9)} kT (${e.phase})`),
+    });
+  } catch (e) {
+    throw asInputError(e, configPath ?? 'flags');
+  }
+  const sol = ref.solution;
+  progress.done(`${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`);
+  let failedWhere = '';
+  const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
+  if (flags.out) {
+    // runSeconds: the wall time of the whole solve (period search included), for the report's title page.
+    const file = solutionToFile(sol, provenance(), config, {
+      periodTolerance: ref.search?.periodTolerance,
+      periodSearch: ref.search?.trace,
+      ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}),
+      runSeconds: (performance.now() - t0) / 1000,
+    });
+    const files: Record<string, string> = {
+      'solution.json': solutionText(file),
+      'profile.csv': solutionGridCsv(sol),
+    };
+    const prop = propagatorCsv(sol);
+    if (prop) files['propagators.csv'] = prop;
+    if (!sol.converged) failedWhere = writeFailedOutput(flags.out, 'solve', files);
+    else {
+      const written = out!.write(files);
+      if (!flags.quiet) process.stderr.write(`solve: wrote ${written.join(', ')}\n`);
+    }
+  }
+  if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
+  else process.stdout.write(`${solutionSummaryLines(summary).join('\n')}\n`);
+  if (!sol.converged) throw new RunFailure(`solve did not converge: ${sol.notes.join('; ')}${failedWhere ? `; ${failedWhere}` : ''}`);
 }

@@ -15,6 +15,7 @@ export function registerSpinodal(program: Command): void {
     .option('--first-block-share <t>', 'triblock: share of A in the first A block', '0.5')
     .option('--segment-ratio <r>', 'conformational asymmetry b_A/b_B (lengths in Rg of a chain of segment length b_B)', '1')
     .option('--json', 'print JSON on stdout')
+    .option('--quiet', 'no messages on stderr (spinodal prints none; accepted like on every command)')
     .action(
       action((flags: { chain: string; f: string; firstBlockShare: string; segmentRatio: string; json?: boolean }) => {
         const raw: Record<string, unknown> = {

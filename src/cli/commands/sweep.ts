@@ -11,11 +11,14 @@ import type { SweepPointResult } from '../../sweep/solve-point.js';
 import { writeTable } from '../../sweep/sweep-file.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action, workersFlag } from '../run-command.js';
+import { claimOut, withOutput } from '../run-output.js';
+import { installStopHandlers } from '../../runtime/stop.js';
 
 interface SweepFlags {
   shard?: string;
   workers?: string;
   out?: string;
+  overwrite?: boolean;
   merge?: string[];
   json?: boolean;
   quiet?: boolean;
@@ -68,7 +71,10 @@ export function registerSweep(program: Command): void {
         const workers = workersFlag(flags.workers);
         const outDir = flags.out ?? join('sweeps', basename(configPath).replace(/(\.sweep)?\.json$/, ''));
         const progress = new Progress('sweep', flags.quiet);
-        const r = await runSweep({
+        // A sweep's directory is continued, not replaced: solved points are kept and a rerun resumes.
+        const claimed = claimOut({ out: outDir, overwrite: flags.overwrite }, 'sweep', { continuePrevious: true });
+        const uninstall = installStopHandlers('sweep');
+        const r = await withOutput(claimed, () => runSweep({
           config,
           outDir,
           shard,
@@ -81,7 +87,7 @@ export function registerSweep(program: Command): void {
               s.done === s.total,
             );
           },
-        });
+        })).finally(uninstall);
         if (r.status !== 'skipped') progress.done(`shard ${shard.index}/${shard.count}: ${r.shard.points.length} points on ${workers} worker${workers > 1 ? 's' : ''}; wrote ${r.written.join(', ')}`);
         const out = r.table ?? r.shard;
         process.stdout.write(flags.json ? `${JSON.stringify(out, null, 2)}\n` : tableText(out.points));

@@ -3,7 +3,8 @@ import { formatText } from '../../io/formats/file-format.js';
 import { SYNTH_TRUTH_VERSION, synthTruthSchema } from '../../io/formats/synth-truth.js';
 import type { SynthTruth } from '../../io/formats/synth-truth.js';
 import type { Command } from 'commander';
-import { writeFileAtomic } from '../../io/atomic-write.js';
+import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
+import { claimOut, withOutput } from '../run-output.js';
 import { InputError, asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
@@ -23,6 +24,8 @@ interface SynthFlags {
   ns: string;
   rgNm?: string;
   out?: string;
+  overwrite?: boolean;
+  quiet?: boolean;
 }
 
 function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
@@ -47,9 +50,11 @@ export function registerSynth(program: Command): void {
     .option('--nx <n>', 'model grid points per period (power of two)', '64')
     .option('--ns <n>', 'model contour steps', '100')
     .option('--rg-nm <R>', 'write x in nm with Rg = R nm (the other length flags stay in Rg)')
-    .option('--out <file>', 'write the CSV here and the truth to FILE.truth.json (default: CSV on stdout)')
+    .option('--out <dir>', `write ${SYNTH_PROFILE} and its truth ${SYNTH_TRUTH} into this directory (default: CSV on stdout)`)
+    .option('--overwrite', 'replace a previous synth output in --out (only the files mesofield wrote there)')
+    .option('--quiet', 'no messages on stderr')
     .action(
-      action((flags: SynthFlags) => {
+      action(async (flags: SynthFlags) => {
         const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
         const chiN = need('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 500, 'a number in (0, 500]');
         const points = need('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
@@ -63,42 +68,44 @@ export function registerSynth(program: Command): void {
         const ns = need('--ns', numberFlag('--ns', flags.ns), Number.isInteger, 'an even integer');
         const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
         const chain = { type: 'diblock' as const, f, segmentRatio: 1 };
-        let profile;
-        try {
-          profile = synthesize({ chain, chiN, points, noise, seed, periods, offset, period, resolution, nx, ns });
-        } catch (e) {
-          throw asInputError(e, 'flags');
-        }
-        const csv = synthCsv(profile, noise, rgNm ?? 1);
-        if (!flags.out) {
-          process.stdout.write(csv);
-          return;
-        }
-        const truth: SynthTruth = {
-          kind: 'synth-truth',
-          version: SYNTH_TRUTH_VERSION,
-          provenance: provenance(),
-          chain,
-          f,
-          chiN,
-          period: profile.period,
-          periodMode: period === 'equilibrium' ? 'equilibrium' : 'given',
-          offset,
-          points,
-          periods,
-          noise,
-          seed,
-          resolution,
-          nx,
-          ns,
-          xUnits: rgNm ? 'nm' : 'Rg',
-          ...(rgNm ? { rgNm } : {}),
-          freeEnergy: profile.point.solution.freeEnergy,
-          note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
-        };
-        writeFileAtomic(`${flags.out}.truth.json`, formatText(synthTruthSchema, truth));
-        writeFileAtomic(flags.out, csv);
-        process.stderr.write(`synth: wrote ${flags.out} and ${flags.out}.truth.json (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
+        const out = claimOut(flags, 'synth');
+        await withOutput(out, () => {
+          let profile;
+          try {
+            profile = synthesize({ chain, chiN, points, noise, seed, periods, offset, period, resolution, nx, ns });
+          } catch (e) {
+            throw asInputError(e, 'flags');
+          }
+          const csv = synthCsv(profile, noise, rgNm ?? 1);
+          if (!out) {
+            process.stdout.write(csv);
+            return;
+          }
+          const truth: SynthTruth = {
+            kind: 'synth-truth',
+            version: SYNTH_TRUTH_VERSION,
+            provenance: provenance(),
+            chain,
+            f,
+            chiN,
+            period: profile.period,
+            periodMode: period === 'equilibrium' ? 'equilibrium' : 'given',
+            offset,
+            points,
+            periods,
+            noise,
+            seed,
+            resolution,
+            nx,
+            ns,
+            xUnits: rgNm ? 'nm' : 'Rg',
+            ...(rgNm ? { rgNm } : {}),
+            freeEnergy: profile.point.solution.freeEnergy,
+            note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
+          };
+          const written = out.write({ [SYNTH_PROFILE]: csv, [SYNTH_TRUTH]: formatText(synthTruthSchema, truth) });
+          if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
+        });
       }),
     );
 }

@@ -4,8 +4,9 @@ import { InputError, parseOrThrow } from '../../io/errors.js';
 import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
 import type { SurrogateMetrics } from '../../surrogate/surrogate-run.js';
 import { formatDuration, Progress } from '../progress.js';
-import type { TrainFlags } from './train.js';
-import { backendFlag } from './train.js';
+import { installStopHandlers } from '../../runtime/stop.js';
+import type { TrainFlags } from './train-flags.js';
+import { backendFlag } from './train-flags.js';
 
 const sci = (v: number) => (Number.isFinite(v) ? v.toExponential(2) : String(v));
 
@@ -37,6 +38,7 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
   const outDir = flags.out ?? join('checkpoints', basename(configPath).replace(/(\.surrogate)?\.json$/, ''));
   const progress = new Progress('train', flags.quiet);
   const { surrogateRun } = await import('../../surrogate/surrogate-run.js');
+  const uninstall = installStopHandlers('train');
   const r = await surrogateRun({
     config,
     outDir,
@@ -47,7 +49,7 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
         `${h.round === 0 ? 'fit' : `round ${h.round}/${h.rounds}`} | ${h.residual === null ? '' : `SCFT residual ${sci(h.residual)} kT | `}fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''} | ${formatDuration(h.seconds)}`,
         h.round === h.rounds || h.phiError !== undefined,
       ),
-  });
+  }).finally(uninstall);
   try {
     const m = r.metrics;
     progress.done(`surrogate trained in ${formatDuration(m.timing.buildSeconds)} on ${m.backend}; checkpoint in ${outDir}`);

@@ -1,33 +1,19 @@
 /** `mesofield train` and `mesofield evaluate`: thin wrappers over training/train-run.ts. */
 import type { Command } from 'commander';
-import { basename, join } from 'node:path';
+import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
 import { formatNumber } from '../../io/number-format.js';
-import { readJsonFile } from '../../io/load-json.js';
+import { readJsonObject } from '../../io/load-json.js';
+import { installStopHandlers, stopExitCode, stopRequested } from '../../runtime/stop.js';
+import { EXIT } from '../exit-codes.js';
+import { claimOut } from '../run-output.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
 import { formatDuration, Progress } from '../progress.js';
+import { backendFlag } from './train-flags.js';
+import type { TrainFlags } from './train-flags.js';
 import { action, numberFlag } from '../run-command.js';
 import type { TransferReport } from '../../training/train-run.js';
 import { checkpointKind } from '../../io/checkpoint-kind.js';
-
-export interface TrainFlags {
-  out?: string;
-  resume?: string;
-  json?: boolean;
-  backend?: string;
-  adamSteps?: string;
-  lbfgsIterations?: string;
-  report?: boolean;
-  quiet?: boolean;
-}
-
-const BACKENDS = ['auto', 'native', 'wasm', 'cpu'] as const;
-
-export function backendFlag(v: string | undefined): (typeof BACKENDS)[number] | undefined {
-  if (v === undefined) return undefined;
-  if (!(BACKENDS as readonly string[]).includes(v)) throw new InputError(`--backend: got ${JSON.stringify(v)}; allowed: ${BACKENDS.join(', ')}`);
-  return v as (typeof BACKENDS)[number];
-}
 
 function fmt(v: number): string {
   return Number.isFinite(v) ? v.toExponential(2) : String(v);
@@ -55,6 +41,7 @@ export function registerTrain(program: Command): void {
     .argument('<config>', 'train config JSON (kind "train", or "surrogate" for a network over a parameter range)')
     .option('--out <dir>', 'checkpoint directory (default checkpoints/<config name>)')
     .option('--resume <dir>', 'continue the run saved in this checkpoint directory')
+    .option('--overwrite', 'replace a previous train output in --out (only the files mesofield wrote there)')
     .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
     .option('--adam-steps <n>', 'Adam steps of physics training (training.adamSteps)')
     .option('--lbfgs-iterations <n>', 'L-BFGS iterations after the Adam steps (training.lbfgsIterations)')
@@ -63,7 +50,9 @@ export function registerTrain(program: Command): void {
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (configPath: string, flags: TrainFlags) => {
-        const raw = readJsonFile(configPath);
+        const raw = readJsonObject(configPath);
+        // Paths in a config are read relative to the config file's folder (it works from any working directory).
+        if (typeof raw.initFrom === 'string' && raw.initFrom !== '' && !isAbsolute(raw.initFrom)) raw.initFrom = resolve(dirname(configPath), raw.initFrom);
         if ((raw as { kind?: unknown } | null)?.kind === 'surrogate') {
           const { trainSurrogate } = await import('./train-surrogate.js');
           return trainSurrogate(configPath, raw, flags);
@@ -77,18 +66,13 @@ export function registerTrain(program: Command): void {
         }
         const backend = backendFlag(flags.backend);
         const outDir = flags.out ?? flags.resume ?? join('checkpoints', basename(configPath).replace(/(\.train)?\.json$/, ''));
+        const out = claimOut({ out: outDir, overwrite: flags.overwrite }, 'train', { continuePrevious: flags.resume !== undefined && resolve(flags.resume) === resolve(outDir) });
         const progress = new Progress('train', flags.quiet);
         const prop = config.networks.propagator;
         // Soft constraints are shown only when chosen (they are an exact 0 otherwise).
         const soft = (t: { periodicity: number; initial: number }) =>
           `${prop.periodicity === 'soft' ? `, per ${fmt(t.periodicity)}` : ''}${prop.initialCondition === 'soft' ? `, ic ${fmt(t.initial)}` : ''}`;
-        let stop = false;
-        const onSigint = () => {
-          if (stop) process.exit(130);
-          stop = true;
-          process.stderr.write('\ntrain: stopping after this step and saving a checkpoint (Ctrl-C again to quit at once)\n');
-        };
-        process.on('SIGINT', onSigint);
+        const uninstall = installStopHandlers('train');
         const { trainRun, TrainingStopped } = await import('../../training/train-run.js');
         try {
           const r = await trainRun({
@@ -97,7 +81,7 @@ export function registerTrain(program: Command): void {
             resumeDir: flags.resume,
             backend,
             onStage: (m) => progress.update(m, true),
-            shouldStop: () => stop,
+            shouldStop: stopRequested,
             onProgress: (p) =>
               progress.update(
                 `step ${p.step}/${p.steps} | loss ${fmt(p.total)} (mde ${fmt(p.terms.mde)}${soft(p.terms)}, incomp ${fmt(p.terms.incompressibility)}, sc ${fmt(p.terms.selfConsistency)}, gauge ${fmt(p.terms.gauge)}) | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`,
@@ -124,16 +108,19 @@ export function registerTrain(program: Command): void {
             const written = reportRunDirectory(outDir, join(outDir, 'report'));
             if (!flags.quiet) process.stderr.write(`train: wrote ${written.join(', ')}\n`);
           }
+          out?.finish();
           if (m.collapsed) throw new RunFailure('the network collapsed to the disordered state (φA is flat); start from the spectral solution (warmStart.type "reference")');
         } catch (e) {
+          // A stopped run keeps what it wrote (the last good checkpoint) as its output; anything else only drops the lock.
+          if (e instanceof TrainingStopped) out?.finish(false);
+          else out?.abandon();
           if (e instanceof TrainingStopped) {
             process.stderr.write(`train: ${e.message}\n`);
-            process.exitCode = e.reason === 'interrupted' ? 130 : 3;
-            return process.exitCode;
+            return e.reason === 'interrupted' ? stopExitCode() : EXIT.runFailed;
           }
           throw asInputError(e, configPath);
         } finally {
-          process.off('SIGINT', onSigint);
+          uninstall();
         }
       }),
     );
@@ -144,8 +131,9 @@ export function registerTrain(program: Command): void {
     .argument('<checkpoint>', 'checkpoint directory written by train')
     .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
     .option('--json', 'print the metrics as JSON on stdout')
+    .option('--quiet', 'no messages on stderr')
     .action(
-      action(async (dir: string, flags: { backend?: string; json?: boolean }) => {
+      action(async (dir: string, flags: { backend?: string; json?: boolean; quiet?: boolean }) => {
         if (checkpointKind(dir) === 'surrogate-checkpoint') {
           throw new InputError(`${dir}: a surrogate checkpoint; its error map against fresh reference solves is in ${join(dir, 'metrics.json')} (mesofield report ${dir} draws it); mesofield predict ${dir} --chiN X answers at a point`);
         }

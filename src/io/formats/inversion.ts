@@ -109,6 +109,8 @@ export const inversionResultSchema = z
     estimators: z.record(z.string(), estimatorBlockSchema),
     agreement: agreementSchema,
     truth: truthComparisonSchema.optional(),
+    /** Wall time (s) of the whole inversion (every estimator), for the report's title page. */
+    runSeconds: z.number().min(0).optional(),
   })
   .strict();
 

@@ -69,6 +69,20 @@ export type SolutionSummary = z.infer<typeof solutionSummarySchema>;
 /** One F(L) evaluation of the stress-free period search (spectral/period-search.ts). */
 export const periodTrialSchema = z.object({ period: z.number(), freeEnergy: z.number(), phase: z.string(), iterations: z.number() }).strict();
 
+/** What a film solve adds: the layers (bottom first) and the free energy per area. */
+export const filmSummarySchema = z.object({ layers: z.object({ A: z.number().int().min(0), B: z.number().int().min(0), sequence: z.string() }).strict(), freeEnergyPerArea: z.number() }).strict();
+
+/** F(H) of a film over thicknesses (spectral/thickness-scan.ts ThicknessScan); H in Rg. */
+export const thicknessScanSchema = z
+  .object({
+    points: z.array(
+      z.object({ thickness: z.number(), freeEnergy: z.number(), freeEnergyPerArea: z.number(), freeEnergyDisordered: z.number().nullable(), phase: z.string(), layers: z.string(), converged: z.boolean() }).strict(),
+    ),
+    minima: z.array(z.object({ thickness: z.number(), freeEnergy: z.number(), layers: z.string() }).strict()),
+    stable: z.array(z.number()),
+  })
+  .strict();
+
 export const solutionFileSchema = z
   .object({
     ...formatHeader('solution', SOLUTION_VERSION),
@@ -80,6 +94,12 @@ export const solutionFileSchema = z
     summary: solutionSummarySchema,
     /** The period search's F(L) evaluations, when one ran. */
     periodSearch: z.array(periodTrialSchema).optional(),
+    /** A film solve: the A/B layers counted from the bottom wall, and F per unit area (kT ρ₀Rg/N, docs/physics.md). */
+    film: filmSummarySchema.optional(),
+    /** A film's F(H) scan (spectral/thickness-scan.ts), when the run made one: the report draws it. */
+    thicknessScan: thicknessScanSchema.optional(),
+    /** Wall time (s) of the whole run that made the file (a solve's period search included), when it recorded one. */
+    runSeconds: z.number().min(0).optional(),
     grid: z.object({ x: numArray, phiA: numArray, phiB: numArray, wA: numArray, wB: numArray }).strict(),
     propagators: z.object({ s: numArray, q: z.array(numArray), qDagger: z.array(numArray) }).strict().optional(),
   })
@@ -139,6 +159,8 @@ export function summarize(sol: ScftSolution, extra: { periodTolerance?: number }
 export interface SolutionFileExtras {
   periodTolerance?: number;
   periodSearch?: z.input<typeof periodTrialSchema>[];
+  film?: z.input<typeof filmSummarySchema>;
+  runSeconds?: number;
 }
 
 /** The solution file of a solution, built through the schema (validated before it is written). */
@@ -152,6 +174,8 @@ export function solutionToFile(sol: ScftSolution, provenance: Provenance, config
     cell: sol.cell.describe(),
     summary: summarize(sol, extra),
     ...(extra.periodSearch ? { periodSearch: extra.periodSearch } : {}),
+    ...(extra.film ? { film: extra.film } : {}),
+    ...(extra.runSeconds !== undefined ? { runSeconds: extra.runSeconds } : {}),
     grid: { x: Array.from(sol.x), phiA: Array.from(sol.phi.A), phiB: Array.from(sol.phi.B), wA: Array.from(sol.w.A), wB: Array.from(sol.w.B) },
     ...(sol.propagators
       ? { propagators: { s: Array.from(sol.propagators.s), q: sol.propagators.q.map((r) => Array.from(r)), qDagger: sol.propagators.qDagger.map((r) => Array.from(r)) } }

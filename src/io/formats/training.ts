@@ -32,6 +32,8 @@ export const historyEntrySchema = z
     phiError: z.number().optional(),
     /** L-BFGS entries: iterations done so far (the Adam step count stays in `step`). */
     lbfgsIterations: z.number().int().min(0).optional(),
+    /** Seconds since the run started (reference solve and warm start included): the report's wall-time axis over every phase. */
+    wallSeconds: z.number().optional(),
   })
   .strict();
 
@@ -94,6 +96,8 @@ export const trainMetricsSchema = z
         resumedFrom: z.object({ checkpoint: z.string(), step: z.number() }).strict().optional(),
       })
       .loose(),
+    /** Wall time of the whole run in seconds: reference solve, warm start, training and the final evaluation (absent in a checkpoint written mid-run). */
+    runSeconds: z.number().min(0).optional(),
   })
   .strict();
 

@@ -37,9 +37,14 @@ export const invertConfigSchema = z
     method: z.enum(['classical', 'network', 'both']).default('classical'),
     /** x in nm: Rg in nm directly, or from N segments of length b (Rg = b·sqrt(N/6)). */
     units: z
-      .object({ rgNm: positive.optional(), segments: positive.optional(), segmentLengthNm: positive.optional() })
+      .object({ rgNm: positive.optional(), rgNmSd: positive.optional(), segments: positive.optional(), segmentLengthNm: positive.optional() })
       .strict()
       .optional(),
+    /**
+     * Standard deviations of assumed model inputs (units.rgNmSd is the one of Rg): each is
+     * profiled into the χN interval as a nuisance parameter under a Gaussian constraint.
+     */
+    uncertainty: z.object({ f: positive.optional(), segmentRatio: positive.optional() }).strict().optional(),
     solver: spectralSchema.pick({ tolerance: true, maxIterations: true, andersonHistory: true, andersonMixing: true }).prefault({}),
     /** The network estimator (method "network" or "both"). */
     network: z

@@ -8,27 +8,33 @@ import { fieldNetworkSchema, propagatorNetworkSchema } from './network-schema.js
 import { configVersionSchema } from './config-version.js';
 import { cellSchema, spectralSchema } from './spectral-schema.js';
 
+/**
+ * A loss weight: ≥ 0 and at most 1e6. A larger one swamps every other term and overflows
+ * float32 once multiplied by a loss of order one (1e308 was accepted and trained on NaN).
+ */
+const lossWeight = (d: number) => z.number().min(0).max(1e6).default(d);
+
 export const lossWeightsSchema = z
   .object({
     /** MDE residual of q and of q† (in ln q form), mean square over collocation points. */
-    mde: z.number().min(0).default(1),
+    mde: lossWeight(1),
     /**
      * Soft periodicity only: (Δu)² + (Δ∂x u)² between x = 0 and x = L, u = ln q, mean over
      * the contour nodes. The alternating strategy trains the propagators on the MDE (weight 1)
      * plus this and `initial` at the weights given here.
      */
-    periodicity: z.number().min(0).default(1),
+    periodicity: lossWeight(1),
     /**
      * Soft initial condition only: (ln q(x, 0))², mean over the x grid, both propagators.
      * Default 100: measured best of 1, 10, 100 on configs/diblock-symmetric-chiN15 (README).
      */
-    initial: z.number().min(0).default(100),
+    initial: lossWeight(100),
     /** (φ_A + φ_B − 1)², mean over the x grid. */
-    incompressibility: z.number().min(0).default(1),
+    incompressibility: lossWeight(1),
     /** (w_A − w_B − χN(φ_B − φ_A))², mean over the x grid. */
-    selfConsistency: z.number().min(0).default(1),
+    selfConsistency: lossWeight(1),
     /** (mean of (w_A + w_B)/2)²: pins the pressure gauge. */
-    gauge: z.number().min(0).default(1),
+    gauge: lossWeight(1),
   })
   .strict();
 

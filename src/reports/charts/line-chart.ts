@@ -32,6 +32,8 @@ export interface GuideLine {
   style?: number | SeriesStyle;
   /** Where the label of a horizontal guide sits (default left). */
   labelAt?: 'left' | 'right';
+  /** Vertical guides: the label's row from the top (0 default), so labels of close guides do not overlap. */
+  labelRow?: number;
 }
 
 export interface LineChartSpec {
@@ -47,6 +49,10 @@ export interface LineChartSpec {
   guides?: GuideLine[];
   /** A shaded x interval (e.g. a confidence interval). */
   band?: { from: number; to: number };
+  /** A second, lighter shaded x interval drawn under the first (e.g. the wider 95 % interval). */
+  outerBand?: { from: number; to: number };
+  /** A second x axis along the top: value = x × scale (e.g. Rg when x is in nm), with its own title. */
+  topAxis?: { label: string; scale: number };
   legend?: boolean;
 }
 
@@ -59,13 +65,44 @@ function overlayPlugin(spec: LineChartSpec): Plugin<'line'> {
   return {
     id: 'mesofieldOverlay',
     beforeDatasetsDraw(chart: ChartType) {
-      if (!spec.band) return;
       const { ctx, chartArea, scales } = chart;
-      const x0 = scales.x.getPixelForValue(spec.band.from);
-      const x1 = scales.x.getPixelForValue(spec.band.to);
+      const shade = (b: { from: number; to: number }, fill: string) => {
+        const x0 = scales.x.getPixelForValue(b.from);
+        const x1 = scales.x.getPixelForValue(b.to);
+        ctx.save();
+        ctx.fillStyle = fill;
+        ctx.fillRect(Math.max(chartArea.left, Math.min(x0, x1)), chartArea.top, Math.min(chartArea.right, Math.max(x0, x1)) - Math.max(chartArea.left, Math.min(x0, x1)), chartArea.bottom - chartArea.top);
+        ctx.restore();
+      };
+      if (spec.outerBand) shade(spec.outerBand, 'rgba(0, 114, 178, 0.08)');
+      if (spec.band) shade(spec.band, 'rgba(0, 114, 178, 0.18)');
+    },
+    afterDraw(chart: ChartType) {
+      if (!spec.topAxis) return;
+      // The top axis: the same positions as x, labelled in the second unit at its own round values.
+      const { ctx, chartArea, scales } = chart;
+      const k = spec.topAxis.scale;
+      const lo = scales.x.min * k;
+      const hi = scales.x.max * k;
+      const ticks = niceTicks(Math.min(lo, hi), Math.max(lo, hi), 6);
       ctx.save();
-      ctx.fillStyle = 'rgba(0, 114, 178, 0.13)';
-      ctx.fillRect(Math.max(chartArea.left, Math.min(x0, x1)), chartArea.top, Math.min(chartArea.right, Math.max(x0, x1)) - Math.max(chartArea.left, Math.min(x0, x1)), chartArea.bottom - chartArea.top);
+      ctx.strokeStyle = '#000000';
+      ctx.fillStyle = '#000000';
+      ctx.lineWidth = 0.8;
+      ctx.font = `${TEXT.tick}px "${FONT_FAMILY}"`;
+      ctx.textAlign = 'center';
+      ctx.textBaseline = 'bottom';
+      for (const t of ticks) {
+        const px = scales.x.getPixelForValue(t / k);
+        ctx.beginPath();
+        ctx.moveTo(px, chartArea.top);
+        ctx.lineTo(px, chartArea.top - 3);
+        ctx.stroke();
+        ctx.fillText(formatTick(t, ticks), px, chartArea.top - 4);
+      }
+      ctx.font = `${TEXT.axis}px "${FONT_FAMILY}"`;
+      ctx.textAlign = 'right';
+      ctx.fillText(spec.topAxis.label, chartArea.right, chartArea.top - 4 - TEXT.tick - 2);
       ctx.restore();
     },
     afterDatasetsDraw(chart: ChartType) {
@@ -121,7 +158,7 @@ function overlayPlugin(spec: LineChartSpec): Plugin<'line'> {
             const w = ctx.measureText(g.label).width;
             const right = px + 3 + w < chartArea.right;
             ctx.textAlign = right ? 'left' : 'right';
-            ctx.fillText(g.label, right ? px + 3 : px - 3, chartArea.top + 3);
+            ctx.fillText(g.label, right ? px + 3 : px - 3, chartArea.top + 3 + (g.labelRow ?? 0) * (TEXT.small + 3));
           } else {
             const atRight = g.labelAt === 'right';
             ctx.textAlign = atRight ? 'right' : 'left';
@@ -147,7 +184,7 @@ export function drawLineChart(region: Region, spec: LineChartSpec): void {
   if (showLegend) {
     legendHeight = drawLegend(ctx, entries, 0, 0, region.width - 50, true);
   }
-  const padTop = top + legendHeight + 2;
+  const padTop = top + legendHeight + 2 + (spec.topAxis ? TEXT.tick + TEXT.axis + 10 : 0);
 
   const config: ChartConfiguration<'line'> = {
     type: 'line',
@@ -198,10 +235,15 @@ export function drawLineChart(region: Region, spec: LineChartSpec): void {
           min: spec.yMin,
           max: spec.yMax,
           title: { display: true, text: spec.yLabel, font: { size: TEXT.axis } },
-          ticks: { font: { size: TEXT.tick }, ...(spec.yLog ? { callback: (v: number | string) => formatLogTick(Number(v)), autoSkip: false } : {}) },
+          ticks: {
+            font: { size: TEXT.tick },
+            autoSkip: false,
+            callback: spec.yLog ? (v: number | string) => formatLogTick(Number(v)) : (v: number | string, _i: number, all: { value: number }[]) => formatTick(Number(v), all.map((t) => t.value)),
+          },
           grid: { color: '#e4e4e4' },
           // chart.js's own log ticks label every mantissa and crowd the axis: use decades (or 1-2-5).
-          ...(spec.yLog ? { afterBuildTicks: (scale: Scale) => void (scale.ticks = logTicks(scale.min, scale.max).map((value) => ({ value }))) } : {}),
+          // Linear axes: round values only, so 0 is a tick whenever the range spans it.
+          afterBuildTicks: spec.yLog ? (scale: Scale) => void (scale.ticks = logTicks(scale.min, scale.max).map((value) => ({ value }))) : (scale: Scale) => void (scale.ticks = niceTicks(scale.min, scale.max, 6).map((value) => ({ value }))),
           afterFit: (scale: { width: number }) => void (scale.width = Y_AXIS_WIDTH),
         },
       },

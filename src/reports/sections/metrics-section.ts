@@ -1,63 +1,79 @@
-/** Last page: the numbers behind the figures, and the model's assumptions with their caution. */
-import { buildChain } from '../../physics/chain.js';
+/**
+ * The numbers behind the figures, each with its unit and a sensible number of digits: the
+ * reference solution (spectral solver's own convergence figures only), the network's errors
+ * against it, and the fit's quality for inverse runs.
+ */
 import type { ScftSolution } from '../../physics/result.js';
 import type { ReportPage } from '../document.js';
 import { sci, sig } from '../format.js';
-import type { MetricRow, ReportInput } from '../report-inputs.js';
+import type { MetricRow, NetworkMetricsInput, ReportInput } from '../report-inputs.js';
 import { difference, exchangeField, maxAbs, relativeL2 } from '../solution-differences.js';
+import { periodText, phaseText } from './key-results.js';
 import type { ReportSection } from './section.js';
 
-function solutionRows(sol: ScftSolution, who: string): MetricRow[] {
-  const excess = Number.isFinite(sol.freeEnergyDisordered) ? sol.freeEnergy - sol.freeEnergyDisordered : undefined;
-  return [
-    { name: `${who}: phase`, value: sol.phase },
-    { name: `${who}: free energy F`, value: sig(sol.freeEnergy, 10), unit: 'kT per chain' },
-    { name: `${who}: F − F_disordered`, value: excess === undefined ? 'n/a' : sci(excess, 6), unit: 'kT per chain' },
-    { name: `${who}: Q (from q) / Q (from q†)`, value: `${sig(sol.Q, 10)} / ${sig(sol.QDagger, 10)}` },
-    { name: `${who}: order parameter max φA − min φA`, value: sig(sol.amplitude, 6) },
-    { name: `${who}: iterations, final residual`, value: `${sol.iterations}, ${sci(sol.residual)}`, unit: 'kT' },
-    { name: `${who}: converged`, value: sol.converged ? 'yes' : 'NO' },
-    { name: `${who}: grid nx × contour ns`, value: `${sol.nx} × ${sol.ns}` },
-  ];
+function solutionRows(sol: ScftSolution, who: string, rgNm: number | undefined, periodTolerance?: number): MetricRow[] {
+  const rows: MetricRow[] = [{ name: `${who}: phase`, value: phaseText(sol.phase) }];
+  if (Number.isFinite(sol.period)) rows.push({ name: `${who}: period L`, value: `${periodText(sol.period, rgNm, 6)}${periodTolerance !== undefined ? ` ± ${sci(periodTolerance, 1)} Rg` : ''}` });
+  rows.push({ name: `${who}: free energy F`, value: sig(sol.freeEnergy, 8), unit: 'kT per chain' });
+  if (Number.isFinite(sol.freeEnergyDisordered) && sol.phase !== 'disordered') {
+    rows.push({ name: `${who}: F of the disordered melt`, value: sig(sol.freeEnergyDisordered, 8), unit: 'kT per chain' });
+    rows.push({ name: `${who}: F − F_disordered`, value: sig(sol.freeEnergy - sol.freeEnergyDisordered, 6), unit: 'kT per chain' });
+  }
+  rows.push({ name: `${who}: Q from q, from q†`, value: `${sig(sol.Q, 8)}, ${sig(sol.QDagger, 8)}`, unit: '–' });
+  rows.push({ name: `${who}: order parameter max φA − min φA`, value: sig(sol.amplitude, 5), unit: '–' });
+  if (sol.solver === 'spectral') {
+    rows.push({ name: `${who}: iterations of the final solve`, value: String(sol.iterations) });
+    rows.push({ name: `${who}: largest field change in the last iteration`, value: sci(sol.residual), unit: 'kT' });
+    rows.push({ name: `${who}: converged`, value: sol.converged ? 'yes' : 'NO' });
+  }
+  rows.push({ name: `${who}: grid points × contour steps`, value: `${sol.nx} × ${sol.ns}` });
+  return rows;
 }
 
 function comparisonRows(ref: ScftSolution, net: ScftSolution, label: string): MetricRow[] {
   return [
-    { name: `${label} vs reference: relative L2 error of φA`, value: sci(relativeL2(net.phi.A, ref.phi.A)) },
-    { name: `${label} vs reference: max |ΔφA|`, value: sci(maxAbs(difference(net.phi.A, ref.phi.A))) },
+    { name: `${label} vs reference: φA relative L2 error`, value: sci(relativeL2(net.phi.A, ref.phi.A)), unit: '–' },
+    { name: `${label} vs reference: max |ΔφA|`, value: sci(maxAbs(difference(net.phi.A, ref.phi.A))), unit: '–' },
     { name: `${label} vs reference: max |Δ(wA − wB)|`, value: sci(maxAbs(difference(exchangeField(net), exchangeField(ref)))), unit: 'kT' },
     { name: `${label} vs reference: F difference`, value: sci(net.freeEnergy - ref.freeEnergy), unit: 'kT per chain' },
   ];
 }
 
-export const ASSUMPTIONS = [
-  'Mean-field theory: composition fluctuations are neglected, so the order–disorder transition and the behaviour near it are the mean-field ones.',
-  'Incompressible melt: φA + φB = 1 at every point; the pressure-like field only enforces this.',
-  'Gaussian (continuous, flexible) chains with one statistical segment length per species; no finite extensibility, no chain stiffness.',
-  'One-dimensional lamellae in a periodic cell: other morphologies (cylinders, gyroid, spheres) are not considered and may be more stable.',
-  'Caution: a χN fitted to data inherits these assumptions. It is the value that makes this model reproduce the data, not a model-free measurement of χ; fluctuation corrections in particular shift the apparent χN near the transition.',
-];
+/** A train run's own measurements (its metrics file), at the evaluation grid of the run. */
+function networkRows(m: NetworkMetricsInput): MetricRow[] {
+  return [
+    { name: 'network: density verdict', value: phaseText(m.phase) },
+    { name: 'network vs reference: φA relative L2 error (max)', value: `${sci(m.phiA.relativeL2)} (${sci(m.phiA.maxError)})`, unit: '–' },
+    { name: 'network vs reference: wA − wB relative L2 error (max)', value: `${sci(m.exchangeField.relativeL2)} (${sci(m.exchangeField.maxError)} kT)`, unit: '–' },
+    { name: 'network vs reference: Q relative error', value: sci(m.QRelativeError), unit: '–' },
+    { name: 'network vs reference: F difference', value: sci(m.freeEnergyError), unit: 'kT per chain' },
+    ...Object.entries(m.freshResiduals).map(([k, v]) => ({ name: `network: mean squared ${k} residual at 1024 fresh points`, value: sci(v), unit: '–' })),
+  ];
+}
 
-function metricsPage(input: ReportInput): ReportPage {
+function metricsPage(input: ReportInput): ReportPage | null {
   const rows: MetricRow[] = [];
-  const ref = input.profiles?.reference ?? input.propagators?.reference;
-  if (ref) rows.push(...solutionRows(ref, 'reference'));
+  const rgNm = input.info.rgNm;
+  const ref = input.film?.solution ?? input.profiles?.reference ?? input.propagators?.reference;
+  if (ref) rows.push(...solutionRows(ref, 'reference', rgNm, input.periodSearch?.periodTolerance));
   const net = input.profiles?.network;
   const label = input.profiles?.networkLabel ?? 'network';
-  if (ref && net) rows.push(...solutionRows(net, label), ...comparisonRows(ref, net, label));
-  if (input.info.system) {
-    const chain = buildChain(input.info.system.chain);
-    rows.unshift({ name: 'chain, f, χN', value: `${chain.label}, ${sig(chain.speciesFraction.A, 4)}, ${sig(input.info.system.chiN, 6)}` });
-  }
+  if (input.networkMetrics) rows.push(...networkRows(input.networkMetrics));
+  else if (ref && net) rows.push(...solutionRows(net, label, rgNm), ...comparisonRows(ref, net, label));
+  if (input.inversion?.fitRows) rows.push(...input.inversion.fitRows.map((r) => ({ ...r, name: `fit: ${r.name}` })));
   rows.push(...(input.metrics ?? []));
+  if (!rows.length) return null;
   return {
-    heading: 'Metrics and model assumptions',
-    blocks: [
-      { type: 'table', header: ['quantity', 'value', 'unit'], widths: [4.2, 3.2, 1.4], rows: rows.map((r) => [r.name, r.value, r.unit ?? '']) },
-      { type: 'text', lines: ['Model assumptions'], style: 'heading' },
-      { type: 'text', lines: ASSUMPTIONS.map((a) => `• ${a}`) },
-    ],
+    heading: 'Metrics',
+    flow: true,
+    blocks: [{ type: 'table', header: ['quantity', 'value', 'unit'], widths: [4.4, 3.6, 1.3], rows: rows.map((r) => [r.name, r.value, r.unit ?? '']) }],
   };
 }
 
-export const metricsSection: ReportSection = { id: 'metrics', pages: (input: ReportInput) => [metricsPage(input)] };
+export const metricsSection: ReportSection = {
+  id: 'metrics',
+  pages: (input: ReportInput) => {
+    const p = metricsPage(input);
+    return p ? [p] : [];
+  },
+};

@@ -9,7 +9,7 @@ import { drawInSubRegion } from '../region.js';
 import type { ProfileInput, ReportInput } from '../report-inputs.js';
 import { CONTENT_WIDTH, seriesStyle } from '../style.js';
 import { assertSameGrid, difference, exchangeField, maxAbs, periodicPoints } from '../solution-differences.js';
-import { sci } from '../format.js';
+import { sci, sig } from '../format.js';
 import type { ReportSection } from './section.js';
 
 const HEIGHT = 300;
@@ -21,8 +21,12 @@ interface Quantity {
   net?: ArrayLike<number>;
 }
 
-function overlayFigure(id: string, caption: string, yLabel: string, errorLabel: string, x: ArrayLike<number>, length: number, quantities: Quantity[], networkLabel: string): FigureBlock {
-  const points = (xs: ArrayLike<number>, ys: ArrayLike<number>) => periodicPoints(xs, ys, length);
+function overlayFigure(id: string, caption: string, yLabel: string, errorLabel: string, x: ArrayLike<number>, length: number, quantities: Quantity[], networkLabel: string, rgNm?: number): FigureBlock {
+  // With Rg in nm (data given in nm), x is drawn in nm and Rg goes on a top axis.
+  const k = rgNm ?? 1;
+  const points = (xs: ArrayLike<number>, ys: ArrayLike<number>) => periodicPoints(xs, ys, length).map((p) => ({ x: p.x * k, y: p.y }));
+  const xLabel = rgNm ? 'x / nm' : 'x / Rg';
+  const topAxis = rgNm ? { label: 'x / Rg', scale: 1 / rgNm } : undefined;
   const hasNet = quantities.some((q) => q.net);
   return {
     type: 'figure',
@@ -38,13 +42,13 @@ function overlayFigure(id: string, caption: string, yLabel: string, errorLabel: 
         if (q.net) series.push({ label: `${q.label} ${networkLabel}`, points: points(x, q.net), style: seriesStyle(k === 0 ? 1 : 3), line: false, markers: true });
       });
       const topH = hasNet ? region.height * SPLIT : region.height;
-      drawInSubRegion(region, 0, 0, region.width, topH, (r) => drawLineChart(r, { series, xLabel: 'x / Rg', yLabel, legend: true, xMin: 0, xMax: length }));
+      drawInSubRegion(region, 0, 0, region.width, topH, (r) => drawLineChart(r, { series, xLabel, yLabel, legend: true, xMin: 0, xMax: length * k, topAxis }));
       if (!hasNet) return;
       const errors: LineSeries[] = quantities
         .filter((q) => q.net)
         .map((q, k) => ({ label: `${q.label}: ${networkLabel} − reference`, points: points(x, difference(q.net!, q.ref)), style: seriesStyle(k === 0 ? 1 : 3), markers: true }));
       drawInSubRegion(region, 0, topH, region.width, region.height - topH, (r) =>
-        drawLineChart(r, { series: errors, xLabel: 'x / Rg', yLabel: errorLabel, legend: true, xMin: 0, xMax: length, guides: [{ axis: 'y', value: 0, style: 0 }] }),
+        drawLineChart(r, { series: errors, xLabel, yLabel: errorLabel, legend: true, xMin: 0, xMax: length * k, guides: [{ axis: 'y', value: 0, style: 0 }] }),
       );
     },
   };
@@ -62,7 +66,7 @@ function profilesPage(p: ProfileInput): ReportPage {
     blocks: [
       overlayFigure(
         'profiles-phi',
-        `Figure: volume fractions φA(x), φB(x) over the cell (length ${ref.length.toFixed(4)} Rg, ${ref.nx} grid points). ${errPhi}`,
+        `Figure: volume fractions φA(x), φB(x) over the cell (length ${p.rgNm ? `${sig(ref.length * p.rgNm, 4)} nm = ` : ''}${sig(ref.length, 5)} Rg, ${ref.nx} grid points). ${errPhi}`,
         'volume fraction φ (–)',
         'Δφ (–)',
         ref.x,
@@ -72,6 +76,7 @@ function profilesPage(p: ProfileInput): ReportPage {
           { label: 'φB', ref: ref.phi.B, net: net?.phi.B },
         ],
         label,
+        p.rgNm,
       ),
       overlayFigure(
         'profiles-exchange-field',
@@ -82,6 +87,7 @@ function profilesPage(p: ProfileInput): ReportPage {
         ref.length,
         [{ label: 'wA − wB', ref: exchangeField(ref), net: net ? exchangeField(net) : undefined }],
         label,
+        p.rgNm,
       ),
     ],
   };

@@ -23,8 +23,14 @@ function propagatorsOf(sol: ScftSolution, who: string): NonNullable<ScftSolution
   return p;
 }
 
+/** A film's grid points are cell centres between walls: its map fills [0, H] exactly, with no periodic repeat. */
+function filmBox(sol: ScftSolution): Partial<HeatMapSpec> {
+  return sol.cell.kind === 'film' ? { box: { x: [0, sol.length], y: [0, 1] }, xLabel: 'z / Rg' } : {};
+}
+
 function gridFigure(id: string, caption: string, panels: HeatMapSpec[]): FigureBlock {
-  const cols = 2;
+  // Three panels sit in one row: a 2 × 2 grid would leave one slot empty.
+  const cols = panels.length === 3 ? 3 : 2;
   const rows = Math.ceil(panels.length / cols);
   return {
     type: 'figure',
@@ -50,8 +56,8 @@ function propagatorPage(p: PropagatorInput): ReportPage {
       heading: 'Chain propagators',
       blocks: [
         gridFigure('propagators', `Figure: reference propagators q(x, s) (from the s = 0 end) and q†(x, s) (from the s = 1 end), on one colour scale; ${rq.s.length - 1} contour steps, ${ref.nx} grid points.`, [
-          { title: 'q(x, s), reference', rows: rq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)' },
-          { title: 'q†(x, s), reference', rows: rq.qDagger, length: ref.length, map: 'sequential', range, colourBarLabel: 'q† (–)' },
+          { title: 'q(x, s), reference', rows: rq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)', ...filmBox(ref) },
+          { title: 'q†(x, s), reference', rows: rq.qDagger, length: ref.length, map: 'sequential', range, colourBarLabel: 'q† (–)', ...filmBox(ref) },
         ]),
       ],
     };
@@ -68,13 +74,16 @@ function propagatorPage(p: PropagatorInput): ReportPage {
   const range: [number, number] = [Math.min(lo1, lo2), Math.max(hi1, hi2)];
   const diff = nq.q.map((row, i) => difference(row, rq.q[i]));
   const worst = Math.max(...diff.map(maxAbs));
+  // The fourth panel (no empty slot in the 2 × 2 grid): the q† difference, when the network has q†.
+  const diffDagger = nq.qDagger.length === rq.qDagger.length ? nq.qDagger.map((row, i) => difference(row, rq.qDagger[i])) : null;
   return {
     heading: 'Chain propagators',
     blocks: [
-      gridFigure('propagators', `Figure: forward propagator q(x, s), reference and ${label} on one colour scale, and their difference (${label} − reference, diverging scale centred on 0); max |Δq| = ${sci(worst)}.`, [
+      gridFigure('propagators', `Figure: forward propagator q(x, s), reference and ${label} on one colour scale, and their differences (${label} − reference, diverging scale centred on 0)${diffDagger ? ' for q and q†' : ''}; max |Δq| = ${sci(worst)}.`, [
         { title: 'q(x, s), reference', rows: rq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)' },
         { title: `q(x, s), ${label}`, rows: nq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)' },
         { title: `q difference, ${label} − reference`, rows: diff, length: ref.length, map: 'diverging', colourBarLabel: 'Δq (–)' },
+        ...(diffDagger ? [{ title: `q† difference, ${label} − reference`, rows: diffDagger, length: ref.length, map: 'diverging' as const, colourBarLabel: 'Δq† (–)' }] : []),
       ]),
     ],
   };

@@ -1,57 +1,74 @@
-/** Training curves: every loss term against step (log axis), the learning rate, and for inverse runs the χN trajectory. */
+/**
+ * Training: the loss (and the φA error against the reference, where measured) over every
+ * phase of the run — warm start, Adam, L-BFGS, and any later phase — against iterations and
+ * against wall time, with the phase boundaries marked; for inverse runs, the χN trajectory.
+ */
 import { InputError } from '../../io/errors.js';
 import type { Block, ReportPage } from '../document.js';
 import { drawLineChart } from '../charts/line-chart.js';
-import type { LineSeries } from '../charts/line-chart.js';
-import type { ReportInput, TrainingInput } from '../report-inputs.js';
+import type { GuideLine, LineSeries } from '../charts/line-chart.js';
+import { drawInSubRegion } from '../region.js';
+import type { ReportInput, TrainingInput, TrainingRecord } from '../report-inputs.js';
 import { CONTENT_WIDTH } from '../style.js';
-import { sig, sci } from '../format.js';
+import { duration, sci, sig } from '../format.js';
 import type { ReportSection } from './section.js';
 
-function lossTerms(t: TrainingInput): string[] {
-  const names = new Set<string>();
-  for (const h of t.history) for (const k of Object.keys(h.terms)) names.add(k);
-  return [...names];
+const PHASE_STYLE: Record<string, number> = { 'warm start': 4, Adam: 1, 'L-BFGS': 2 };
+const styleOf = (phase: string, k: number): number => PHASE_STYLE[phase] ?? 3 + (k % 3);
+
+function curves(t: TrainingInput, x: (r: TrainingRecord) => number | undefined): LineSeries[] {
+  const series: LineSeries[] = t.phases.map((p, k) => ({
+    label: `loss, ${p.name}`,
+    style: styleOf(p.name, k),
+    points: t.records.filter((r) => r.phase === p.name && r.loss > 0 && x(r) !== undefined).map((r) => ({ x: x(r)!, y: r.loss })),
+  }));
+  const err = t.records.filter((r) => r.referenceError !== undefined && r.referenceError > 0 && x(r) !== undefined);
+  if (err.length) series.push({ label: 'φA relative L2 error vs reference', style: 0, markers: true, points: err.map((r) => ({ x: x(r)!, y: r.referenceError! })) });
+  return series;
+}
+
+/** Dotted lines where a phase starts (not the first). */
+function boundaries(t: TrainingInput, at: (p: TrainingInput['phases'][number], i: number) => number | undefined): GuideLine[] {
+  return t.phases.slice(1).flatMap((p, i) => {
+    const v = at(p, i + 1);
+    return v === undefined ? [] : [{ axis: 'x' as const, value: v, label: p.name, style: 6 }];
+  });
+}
+
+function lossFigure(t: TrainingInput): Block {
+  const hasWall = t.records.some((r) => r.wallSeconds !== undefined);
+  const last = t.records[t.records.length - 1];
+  const errs = t.records.filter((r) => r.referenceError !== undefined);
+  const lastErr = errs[errs.length - 1];
+  const summary = t.phases.map((p) => `${p.name}: ${p.iterations} iterations, final loss ${sci(p.finalLoss)}${p.finalReferenceError !== undefined ? `, φA error ${sci(p.finalReferenceError)}` : ''}`).join('; ');
+  const timeNote = !hasWall ? '' : t.wallClock ? ' Wall time counts from the start of the run (the reference solve included).' : ' This run recorded training time only: the time axis starts at the Adam phase and the warm start is not on it.';
+  return {
+    type: 'figure',
+    id: 'training-loss',
+    width: CONTENT_WIDTH,
+    height: hasWall ? 400 : 230,
+    caption: `Figure: the loss each phase minimises against iterations over all phases (top)${hasWall ? ' and against wall time (bottom)' : ''}, log axis; dotted lines mark where a phase starts. The phases minimise different objectives (the warm start fits the reference solution; Adam and L-BFGS the SCFT residual loss), so the curve may jump at a boundary. ${summary}. Last iteration: ${last.iteration}${lastErr ? `; last φA error ${sci(lastErr.referenceError)} at iteration ${lastErr.iteration}` : ''}.${timeNote}`,
+    draw(region) {
+      const h = hasWall ? region.height / 2 : region.height;
+      drawInSubRegion(region, 0, 0, region.width, h, (r) =>
+        drawLineChart(r, { series: curves(t, (rec) => rec.iteration), xLabel: 'iteration (all phases)', yLabel: 'loss, error (–)', yLog: true, legend: true, guides: boundaries(t, (p, i) => t.phases[i - 1].to) }),
+      );
+      if (hasWall)
+        drawInSubRegion(region, 0, h, region.width, h, (r) =>
+          drawLineChart(r, { series: curves(t, (rec) => rec.wallSeconds), xLabel: t.wallClock ? 'wall time since the run started (s)' : 'training time (s)', yLabel: 'loss, error (–)', yLog: true, legend: false, guides: boundaries(t, (p, i) => t.phases[i - 1].wallTo) }),
+        );
+    },
+  };
 }
 
 function trainingPage(t: TrainingInput): ReportPage {
-  if (t.history.length === 0 && !t.chiNTrajectory?.length) throw new InputError('training.history: got an empty loss history; a training report needs at least one logged step');
-  const terms = lossTerms(t);
-  // A log axis cannot show zero or negative values: drop them from the curve and say so.
-  let dropped = 0;
-  const lossSeries: LineSeries[] = terms.map((name, k) => ({
-    label: name,
-    style: k,
-    points: t.history.flatMap((h) => {
-      const v = h.terms[name];
-      if (v === undefined) return [];
-      if (!(v > 0)) {
-        dropped++;
-        return [];
-      }
-      return [{ x: h.step, y: v }];
-    }),
-  }));
-  const last = t.history[t.history.length - 1];
-  // Inverse runs may carry only the χN trajectory (no loss history): then only that figure.
-  const blocks: Block[] = !last ? [] : [
-    {
-      type: 'figure',
-      id: 'training-loss',
-      width: CONTENT_WIDTH,
-      height: 250,
-      caption: `Figure: each loss term against optimisation step (log axis), ${t.history.length} logged steps; at step ${last.step}: ${terms.map((n) => `${n} = ${sci(last.terms[n])}`).join(', ')}.${dropped ? ` ${dropped} non-positive values are not drawn on the log axis.` : ''}`,
-      draw: (r) => drawLineChart(r, { series: lossSeries, xLabel: 'step', yLabel: 'loss term (–)', yLog: true, legend: true }),
-    },
-    {
-      type: 'figure',
-      id: 'training-lr',
-      width: CONTENT_WIDTH,
-      height: t.chiNTrajectory ? 150 : 190,
-      caption: 'Figure: learning rate against step (log axis).',
-      draw: (r) => drawLineChart(r, { series: [{ label: 'learning rate', style: 2, points: t.history.filter((h) => h.lr > 0).map((h) => ({ x: h.step, y: h.lr })) }], xLabel: 'step', yLabel: 'learning rate', yLog: true, legend: false }),
-    },
-  ];
+  if (t.records.length === 0 && !t.chiNTrajectory?.length) throw new InputError('training.history: got an empty history; a training report needs at least one recorded iteration');
+  const blocks: Block[] = [];
+  if (t.records.length) {
+    const total = t.phases.map((p) => `${p.name} (${p.iterations} iterations${p.wallFrom !== undefined && p.wallTo !== undefined ? `, ${duration(p.wallTo - p.wallFrom)}` : ''})`).join(', then ');
+    blocks.push({ type: 'text', lines: [`Phases of this run: ${total}.`] });
+    blocks.push(lossFigure(t));
+  }
   if (t.chiNTrajectory?.length) {
     const traj = t.chiNTrajectory;
     const ref = t.chiNReference;
@@ -71,7 +88,7 @@ function trainingPage(t: TrainingInput): ReportPage {
         }),
     });
   }
-  return { heading: 'Training', blocks };
+  return { heading: 'Training: loss over every phase', blocks };
 }
 
 export const trainingSection: ReportSection = {

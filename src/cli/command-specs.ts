@@ -1,0 +1,38 @@
+/**
+ * Every command once: its name and the module that declares its flags and action, loaded
+ * only when that command runs (start-up matters: `--version`, `spinodal` and `schema` must
+ * not load the solvers, the reports or chart.js). `mesofield --help` loads them all.
+ */
+import type { Command } from 'commander';
+
+type Register = (program: Command) => void;
+
+export const COMMAND_SPECS: Record<string, () => Promise<Register>> = {
+  solve: async () => (await import('./commands/solve.js')).registerSolve,
+  demo: async () => (await import('./commands/demo.js')).registerDemo,
+  spinodal: async () => (await import('./commands/spinodal.js')).registerSpinodal,
+  // train.ts declares both train and evaluate.
+  train: async () => (await import('./commands/train.js')).registerTrain,
+  evaluate: async () => (await import('./commands/train.js')).registerTrain,
+  synth: async () => (await import('./commands/synth.js')).registerSynth,
+  invert: async () => (await import('./commands/invert.js')).registerInvert,
+  report: async () => (await import('./commands/report.js')).registerReport,
+  sweep: async () => (await import('./commands/sweep.js')).registerSweep,
+  predict: async () => (await import('./commands/predict.js')).registerPredict,
+  'fit-scattering': async () => (await import('./commands/fit-scattering.js')).registerFitScattering,
+  // bragg.ts declares both bragg-pattern and fit-bragg.
+  'bragg-pattern': async () => (await import('./commands/bragg.js')).registerBragg,
+  'fit-bragg': async () => (await import('./commands/bragg.js')).registerBragg,
+  'fit-spacing': async () => (await import('./commands/fit-spacing.js')).registerFitSpacing,
+  schema: async () => (await import('./commands/schema.js')).registerSchema,
+};
+
+/** The registration functions needed for these arguments: the named command's, or all (help, unknown). */
+export async function registrations(args: readonly string[]): Promise<Register[]> {
+  const name = args.find((a) => !a.startsWith('-'));
+  const wantsRootOnly = name === undefined && args.some((a) => a === '--version' || a === '-V');
+  if (wantsRootOnly) return [];
+  if (name !== undefined && name in COMMAND_SPECS && name !== 'help') return [await COMMAND_SPECS[name]()];
+  const all = await Promise.all(Object.values(COMMAND_SPECS).map((load) => load()));
+  return [...new Set(all)];
+}

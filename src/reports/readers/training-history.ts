@@ -1,0 +1,74 @@
+/**
+ * A training run's history (the checkpoint's `history`, training/checkpoint.ts) → the records
+ * the loss figure draws: one axis of iterations over every phase (warm start, Adam, L-BFGS,
+ * and any later phase such as a second-order one), the run's wall time, the loss and the
+ * φA error where measured.
+ *
+ * Accepts two entry shapes, so a run written before or after the second-order trainer reads:
+ *  - {stage, step, total, seconds, wallSeconds?, phiError?, lbfgsIterations?} (stage 'warm-start' | 'adam' | 'lbfgs');
+ *  - {phase, step, loss, wallSeconds, referenceError?} (any phase name; step counted within the run or the phase).
+ */
+import { z } from 'zod';
+import { parseOrThrow } from '../../io/errors.js';
+import type { TrainingInput, TrainingPhase, TrainingRecord } from '../report-inputs.js';
+
+const stageEntry = z
+  .object({ stage: z.string(), step: z.number(), total: z.number(), seconds: z.number().optional(), wallSeconds: z.number().optional(), phiError: z.number().optional(), lbfgsIterations: z.number().optional() })
+  .passthrough();
+const phaseEntry = z.object({ phase: z.string(), step: z.number(), loss: z.number(), wallSeconds: z.number().optional(), referenceError: z.number().optional() }).passthrough();
+const historySchema = z.array(z.union([phaseEntry, stageEntry]));
+
+const PHASE_NAMES: Record<string, string> = { 'warm-start': 'warm start', adam: 'Adam', lbfgs: 'L-BFGS', 'second-order': 'second order', 'gauss-newton': 'Gauss–Newton', lm: 'Levenberg–Marquardt' };
+
+interface Raw {
+  phase: string;
+  /** Iteration within the phase (or within the run, for entries that count so). */
+  local: number;
+  wallSeconds?: number;
+  seconds?: number;
+  loss: number;
+  referenceError?: number;
+}
+
+function toRaw(e: z.infer<typeof historySchema>[number]): Raw {
+  if ('phase' in e && typeof e.phase === 'string') {
+    const p = e as z.infer<typeof phaseEntry>;
+    return { phase: PHASE_NAMES[p.phase] ?? p.phase, local: p.step, wallSeconds: p.wallSeconds, loss: p.loss, referenceError: p.referenceError };
+  }
+  const s = e as z.infer<typeof stageEntry>;
+  // L-BFGS entries keep the Adam step count in `step`; their own count is lbfgsIterations.
+  const local = s.stage === 'lbfgs' ? (s.lbfgsIterations ?? s.step) : s.step;
+  return { phase: PHASE_NAMES[s.stage] ?? s.stage, local, wallSeconds: s.wallSeconds, seconds: s.seconds, loss: s.total, referenceError: s.phiError };
+}
+
+/** Records on one iteration axis: each phase starts where the previous one ended. */
+export function trainingRecords(history: unknown, path: string): Pick<TrainingInput, 'records' | 'phases' | 'wallClock'> {
+  const raw = parseOrThrow(historySchema, history, `${path}: history`).map(toRaw);
+  const wallClock = raw.length > 0 && raw.every((r) => r.wallSeconds !== undefined);
+  const records: TrainingRecord[] = [];
+  const phases: TrainingPhase[] = [];
+  let offset = 0;
+  let current: { name: string; start: number; first: number } | null = null;
+  for (const r of raw) {
+    if (!current || current.name !== r.phase) {
+      if (current && records.length) offset = records[records.length - 1].iteration;
+      // A phase whose steps continue the run's count (Adam after a resume) keeps them; one that restarts at 0 or 1 is shifted.
+      current = { name: r.phase, start: offset, first: r.local };
+    }
+    const iteration = current.first > current.start ? r.local : current.start + r.local;
+    records.push({ phase: r.phase, iteration, loss: r.loss, ...(wallClock ? { wallSeconds: r.wallSeconds } : r.seconds !== undefined ? { wallSeconds: r.seconds } : {}), ...(r.referenceError !== undefined ? { referenceError: r.referenceError } : {}) });
+  }
+  for (const r of records) {
+    const last = phases[phases.length - 1];
+    if (!last || last.name !== r.phase) {
+      phases.push({ name: r.phase, from: r.iteration, to: r.iteration, iterations: 0, wallFrom: r.wallSeconds, wallTo: r.wallSeconds, finalLoss: r.loss, finalReferenceError: r.referenceError });
+    }
+    const p = phases[phases.length - 1];
+    p.to = r.iteration;
+    p.wallTo = r.wallSeconds;
+    p.finalLoss = r.loss;
+    if (r.referenceError !== undefined) p.finalReferenceError = r.referenceError;
+  }
+  phases.forEach((p, i) => (p.iterations = p.to - (i === 0 ? 0 : phases[i - 1].to)));
+  return { records, phases, wallClock };
+}

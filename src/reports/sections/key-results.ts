@@ -1,0 +1,75 @@
+/**
+ * The headline numbers of a run for the title page, each with its unit and a sensible number
+ * of digits: what a reader should take away before turning the page.
+ */
+import { buildChain } from '../../physics/chain.js';
+import type { ScftSolution } from '../../physics/result.js';
+import { sci, sig } from '../format.js';
+import type { MetricRow, ReportInput } from '../report-inputs.js';
+import { sweepSeries } from './sweep-analysis.js';
+
+/** "lamellar" says more than a 1D cell knows: it compared lamellae with disorder only. */
+export function phaseText(phase: string): string {
+  return phase === 'lamellar' ? 'lamellar (compared with the disordered melt only)' : phase;
+}
+
+export function periodText(period: number, rgNm: number | undefined, digits = 5): string {
+  return rgNm !== undefined ? `${sig(period * rgNm, digits)} nm (${sig(period, digits)} Rg)` : `${sig(period, digits)} Rg`;
+}
+
+function solutionRows(sol: ScftSolution, rgNm: number | undefined, periodTolerance?: number): MetricRow[] {
+  const rows: MetricRow[] = [{ name: 'phase', value: phaseText(sol.phase) }];
+  if (Number.isFinite(sol.period)) rows.push({ name: 'lamellar period L', value: `${periodText(sol.period, rgNm, 5)}${periodTolerance !== undefined ? ` ± ${sci(periodTolerance, 1)} Rg` : ''}` });
+  rows.push({ name: 'free energy F', value: sig(sol.freeEnergy, 7), unit: 'kT per chain' });
+  if (Number.isFinite(sol.freeEnergyDisordered) && sol.phase !== 'disordered') rows.push({ name: 'F − F of the disordered melt', value: sig(sol.freeEnergy - sol.freeEnergyDisordered, 5), unit: 'kT per chain' });
+  return rows;
+}
+
+export function keyResults(input: ReportInput): MetricRow[] {
+  const rgNm = input.info.rgNm;
+  const rows: MetricRow[] = [];
+  const inv = input.inversion;
+  if (inv) {
+    const i95 = inv.interval95 ? `; 95 %: ${sig(inv.interval95.lower, 5)} – ${sig(inv.interval95.upper, 5)}` : '';
+    rows.push({ name: 'fitted χN (profile-likelihood intervals)', value: `${sig(inv.bestChiN, 5)}; ${Math.round(inv.interval.level * 100)} %: ${sig(inv.interval.lower, 5)} – ${sig(inv.interval.upper, 5)}${i95}`, unit: '–' });
+    rows.push(...(inv.fitRows ?? []));
+    return rows;
+  }
+  if (input.sweep) {
+    const series = sweepSeries(input.sweep);
+    rows.push({ name: 'points solved', value: `${input.sweep.points.length} (${input.sweep.points.filter((p) => p.converged).length} converged)` });
+    for (const s of series) {
+      const tag = series.length > 1 ? ` (f = ${sig(s.f, 3)}, b_A/b_B = ${sig(s.ratio, 3)})` : '';
+      rows.push({ name: `RPA spinodal χN${tag}`, value: sig(s.spinodalChiN, 5) });
+      if (s.odt) rows.push({ name: `order–disorder estimate χN${tag}`, value: `${sig(s.odt.estimate, 4)} (between grid points ${sig(s.odt.bracket[0], 4)} and ${sig(s.odt.bracket[1], 4)})` });
+      if (s.exponent) rows.push({ name: `D ∝ χN^a, fitted a${tag}`, value: `${sig(s.exponent.value, 3)} ± ${sig(s.exponent.standardError, 2)} (χN ${sig(s.exponent.chiNRange[0], 3)}–${sig(s.exponent.chiNRange[1], 3)}; 1/6 in the strong-segregation limit)` });
+    }
+    return rows;
+  }
+  if (input.film) {
+    const f = input.film;
+    rows.push({ name: 'film thickness H', value: periodText(f.thickness, rgNm, 5) });
+    rows.push({ name: 'wall affinities for A, bottom / top', value: `${sig(f.walls.bottom, 4)} / ${sig(f.walls.top, 4)}`, unit: 'kT per chain' });
+    rows.push({ name: 'layers (bottom first)', value: `${f.layers.A + f.layers.B}: ${[...f.layers.sequence].join(' ')} (${f.layers.A} A-rich, ${f.layers.B} B-rich)` });
+    rows.push({ name: 'phase', value: phaseText(f.solution.phase) });
+    rows.push({ name: 'free energy F', value: sig(f.solution.freeEnergy, 7), unit: 'kT per chain' });
+    if (f.freeEnergyPerArea !== undefined) rows.push({ name: 'F per area F·H', value: sig(f.freeEnergyPerArea, 6), unit: 'kT ρ₀Rg/N' });
+    if (f.scan?.minima.length) rows.push({ name: 'F(H) minima', value: f.scan.minima.map((m) => `${sig(m.thickness, 4)} Rg (${m.layers})`).join(', ') });
+    return rows;
+  }
+  const net = input.networkMetrics;
+  const ref = input.profiles?.reference ?? input.propagators?.reference;
+  if (net) {
+    rows.push({ name: 'network φA error, relative L2 (max)', value: `${sci(net.phiA.relativeL2)} (${sci(net.phiA.maxError)})`, unit: '–' });
+    rows.push({ name: 'network F − reference F', value: sci(net.freeEnergyError), unit: 'kT per chain' });
+    rows.push({ name: 'network density', value: phaseText(net.phase) });
+  }
+  if (input.training?.phases.length) rows.push({ name: 'training phases', value: input.training.phases.map((p) => `${p.name} ${p.iterations}`).join(', ') + ' iterations' });
+  if (ref) rows.push(...solutionRows(ref, rgNm, input.periodSearch?.periodTolerance).map((r) => (net ? { ...r, name: `reference ${r.name}` } : r)));
+  return rows;
+}
+
+export function chainLine(input: ReportInput): string {
+  const chain = buildChain(input.info.system.chain);
+  return `${chain.label} (${input.info.system.chain.type}), A fraction f = ${sig(chain.speciesFraction.A, 4)}${input.sweep ? '' : `, χN = ${sig(input.info.system.chiN, 6)}`}`;
+}

@@ -1,0 +1,161 @@
+/**
+ * Output paths: a run writes only into a new or empty directory or a previous output of the
+ * same command (with --overwrite), never deletes what it did not write, refuses a second
+ * writer, and a failed run leaves a good result in place. Root can write anywhere, so
+ * "read-only" is made with a path under a file (ENOTDIR), which fails for root too.
+ */
+import { existsSync, readFileSync, symlinkSync } from 'node:fs';
+import { hostname } from 'node:os';
+import { expect } from 'vitest';
+import { runCli } from '../../src/cli/run-cli.js';
+import type { FaultCase, Sandbox } from './harness.js';
+import { smallSolveConfig } from './config-cases.js';
+
+const SOLVE = ['solve', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--quiet'];
+const SYNTH = ['synth', '--f', '0.5', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--points', '8'];
+
+async function previous(s: Sandbox, argv: string[], dir: string): Promise<void> {
+  const r = await runCli([...argv, '--out', s.path(dir)], { capture: true });
+  expect(r.code, r.stderr).toBe(0);
+}
+
+const refused = (name: string, setup: FaultCase['setup'], argv: (s: Sandbox) => string[], message: RegExp): FaultCase => ({ group: 'output paths', name, setup, argv, code: 2, message });
+
+/** Each command that writes a directory, refusing a folder that holds someone's notes. */
+const perCommand: [string, (s: Sandbox) => string[]][] = [
+  ['solve', () => SOLVE],
+  ['synth', () => SYNTH],
+  ['invert', (s) => ['invert', s.write('p.csv', 'x,phiA\n0,0.9\n1,0.5\n2,0.1\n3,0.5\n'), '--f', '0.5', '--quiet']],
+  ['train', (s) => ['train', s.json('t.json', { version: 1, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--quiet']],
+  ['sweep', (s) => ['sweep', s.json('sw.json', { version: 1, kind: 'sweep', chain: { type: 'diblock' }, grid: { chiN: [14], f: [0.5], segmentLengthRatio: [1] }, cell: { period: 3.7, nx: 16, ns: 20 } }), '--workers', '1', '--quiet']],
+  ['predict', (s) => ['predict', s.mkdir('ck'), '--chiN', '15', '--quiet']],
+  ['demo', () => ['demo', '--quiet']],
+];
+
+const notes = (s: Sandbox) => {
+  s.mkdir('D/sub');
+  s.write('D/notes.txt', 'my notes\n');
+  s.write('D/sub/data.csv', '1,2\n');
+};
+
+export const OUTPUT_CASES: FaultCase[] = [
+  ...perCommand.map(([cmd, argv]) => refused(`${cmd} --out a folder with other files`, notes, (s) => [...argv(s), '--out', s.path('D')], /--out .*D: is not empty and was not written by mesofield \(it holds notes\.txt, sub\)/)),
+  ...perCommand.map(([cmd, argv]) =>
+    refused(`${cmd} --out an existing file`, (s) => void s.write('F', 'precious\n'), (s) => [...argv(s), '--out', s.path('F')], /--out .*F: is a file, not a directory/),
+  ),
+  ...perCommand.map(([cmd, argv]) =>
+    refused(`${cmd} --out a path under a file (no write possible, even for root)`, (s) => void s.write('F', 'precious\n'), (s) => [...argv(s), '--out', s.path('F/sub')], /--out: cannot use .*F\/sub: a part of the path is a file, not a folder \(ENOTDIR\)/),
+  ),
+  refused('solve --out "" (empty)', undefined, () => [...SOLVE, '--out', ''], /--out: got "" \(empty\)/),
+  refused('solve --out . (the working directory)', undefined, () => [...SOLVE, '--out', '.'], /--out: got "\.", the current directory or one above it/),
+  refused('solve --out .. (above the working directory)', undefined, () => [...SOLVE, '--out', '..'], /--out: got "\.\.", the current directory or one above it/),
+  refused('solve --out /', undefined, () => [...SOLVE, '--out', '/'], /--out: got "\/", the current directory or one above it/),
+  refused(
+    'solve --out a symbolic link to a folder',
+    (s) => {
+      s.mkdir('real');
+      symlinkSync(s.path('real'), s.path('link'));
+    },
+    (s) => [...SOLVE, '--out', s.path('link')],
+    /link: is a symbolic link; allowed: a real directory \(give its target, .*real, if that is meant\)/,
+  ),
+  refused(
+    'solve --out a dangling symbolic link',
+    (s) => symlinkSync(s.path('nowhere'), s.path('link')),
+    (s) => [...SOLVE, '--out', s.path('link')],
+    /link: is a symbolic link/,
+  ),
+  refused('solve --out a previous solve output without --overwrite', (s) => previous(s, SOLVE, 'D'), (s) => [...SOLVE, '--out', s.path('D')], /D: holds a previous solve output; give --overwrite to replace it/),
+  refused('solve --out a previous synth output, even with --overwrite', (s) => previous(s, SYNTH, 'D'), (s) => [...SOLVE, '--out', s.path('D'), '--overwrite'], /D: holds the output of mesofield synth/),
+  refused('synth --out a previous synth output without --overwrite', (s) => previous(s, SYNTH, 'D'), (s) => [...SYNTH, '--out', s.path('D')], /D: holds a previous synth output/),
+  refused(
+    'train --out a previous training without --resume or --overwrite',
+    (s) => {
+      // A checkpoint folder as older versions wrote it (no marker): still recognised as train's.
+      s.mkdir('ck');
+      s.write('ck/checkpoint.json', '{"kind":"checkpoint"}');
+      s.write('ck/weights.bin', 'w');
+    },
+    (s) => ['train', s.json('t.json', { version: 1, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--out', s.path('ck'), '--quiet'],
+    /ck: holds a previous train output; give --overwrite/,
+  ),
+  refused(
+    'a second writer while another run holds the folder',
+    (s) => {
+      s.mkdir('D');
+      // The lock of a live run (this test process itself stands in for it).
+      s.write('D/.mesofield-lock', JSON.stringify({ pid: process.pid, host: hostname(), command: 'solve', startedAt: new Date().toISOString() }));
+    },
+    (s) => [...SOLVE, '--out', s.path('D')],
+    /D: in use by another mesofield run \(solve, pid \d+/,
+  ),
+  {
+    group: 'output paths',
+    name: 'a stale lock (its process is gone) is taken over and the run succeeds',
+    setup: (s) => {
+      s.mkdir('D');
+      s.write('D/.mesofield-lock', JSON.stringify({ pid: 2 ** 22 + 12345, host: hostname(), command: 'solve', startedAt: '2020-01-01T00:00:00Z' }));
+    },
+    argv: (s) => [...SOLVE, '--out', s.path('D'), '--json'],
+    code: 0,
+    mayChange: ['D/.mesofield-lock'],
+    check: (_r, s) => {
+      expect(existsSync(s.path('D/solution.json'))).toBe(true);
+      expect(existsSync(s.path('D/.mesofield-lock'))).toBe(false);
+    },
+  },
+  {
+    group: 'output paths',
+    name: '--overwrite replaces a previous output and keeps files mesofield did not write',
+    setup: async (s) => {
+      await previous(s, [...SOLVE, '--propagators'], 'D');
+      s.write('D/notes.txt', 'mine\n');
+    },
+    argv: (s) => [...SOLVE.map((a) => (a === '15' ? '16' : a)), '--out', s.path('D'), '--overwrite'],
+    code: 0,
+    mayChange: ['D/solution.json', 'D/profile.csv', 'D/propagators.csv', 'D/.mesofield-output.json'],
+    check: (_r, s) => {
+      expect(readFileSync(s.path('D/notes.txt'), 'utf8')).toBe('mine\n');
+      expect(JSON.parse(readFileSync(s.path('D/solution.json'), 'utf8')).system.chiN).toBe(16);
+      // The previous run's propagators belong to χN = 15: a stale file of ours is removed, not left to mislead.
+      expect(existsSync(s.path('D/propagators.csv'))).toBe(false);
+    },
+  },
+  {
+    group: 'output paths',
+    name: 'a failed solve leaves the good result in place and puts its files in DIR.failed',
+    setup: (s) => previous(s, SOLVE, 'D'),
+    argv: (s) => {
+      const c = smallSolveConfig() as Record<string, any>;
+      c.solver = { ...c.solver, maxIterations: 3 };
+      return ['solve', s.json('c.json', c), '--out', s.path('D'), '--overwrite', '--quiet'];
+    },
+    code: 3,
+    message: /solve did not converge: .*the failed run's files are in .*D\.failed \(.*D was left as it was\)/,
+    check: (_r, s) => {
+      expect(JSON.parse(readFileSync(s.path('D/solution.json'), 'utf8')).summary.converged).toBe(true);
+      expect(JSON.parse(readFileSync(s.path('D.failed/solution.json'), 'utf8')).summary.converged).toBe(false);
+    },
+  },
+  {
+    group: 'output paths',
+    name: 'an empty folder is used (and marked as the output)',
+    setup: (s) => void s.mkdir('E'),
+    argv: (s) => [...SYNTH, '--out', s.path('E')],
+    code: 0,
+    check: (_r, s) => {
+      const marker = JSON.parse(readFileSync(s.path('E/.mesofield-output.json'), 'utf8'));
+      expect(marker).toMatchObject({ tool: 'mesofield', command: 'synth', complete: true });
+      expect(marker.files.sort()).toEqual(['profile.csv', 'truth.json']);
+    },
+  },
+  {
+    group: 'output paths',
+    name: 'a run refused after its folder was made leaves no folder behind',
+    argv: (s) => [...SOLVE, '--start', s.path('missing.json'), '--out', s.path('new')],
+    code: 2,
+    message: /missing\.json: cannot read the file \(ENOENT\)/,
+    check: (_r, s) => expect(existsSync(s.path('new'))).toBe(false),
+  },
+];
+

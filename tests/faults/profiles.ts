@@ -1,0 +1,97 @@
+/**
+ * Profile CSVs for `invert`, broken in the ways measured data are: missing or non-numeric
+ * values, repeated or unsorted x, too few points, decimal commas, semicolons, tabs, a wrong
+ * header, fractions outside [0, 1], bad sigma, a folder, and a 100 000-row file with one bad
+ * value at its end (the reader must reach it and name the line).
+ */
+import { expect } from 'vitest';
+import { runCli } from '../../src/cli/run-cli.js';
+import type { FaultCase, Sandbox } from './harness.js';
+
+/** A parseable profile (a cosine over one period of 3.7 Rg, 24 points): config faults are found before it is read. */
+export const PROFILE_CSV = `x,phiA\n${Array.from({ length: 24 }, (_, i) => `${((3.7 * i) / 24).toFixed(6)},${(0.5 + 0.4 * Math.cos((2 * Math.PI * i) / 24)).toFixed(6)}`).join('\n')}\n`;
+
+const rows = (pairs: [string, string][], header = 'x,phiA') => `${header}\n${pairs.map((p) => p.join(',')).join('\n')}\n`;
+const good: [string, string][] = PROFILE_CSV.trim().split('\n').slice(1).map((l) => l.split(',') as [string, string]);
+const withRow = (i: number, row: [string, string]) => rows(good.map((r, j) => (j === i ? row : r)));
+
+function csvCase(name: string, text: string | ((s: Sandbox) => string), message: RegExp, extra: string[] = []): FaultCase {
+  let p = '';
+  return {
+    group: 'profile CSVs',
+    name,
+    setup: (s) => void (p = typeof text === 'string' ? s.write('p.csv', text) : text(s)),
+    argv: () => ['invert', p, '--f', '0.5', '--nx', '16', '--ns', '20', '--quiet', ...extra],
+    code: 2,
+    message,
+  };
+}
+
+const many = () => {
+  const lines = ['x,phiA'];
+  for (let i = 0; i < 100_000; i++) lines.push(`${(i * 1e-3).toFixed(3)},${(0.5 + 0.4 * Math.cos((2 * Math.PI * i * 1e-3) / 3.7)).toFixed(6)}`);
+  lines[100_000] = '99.999,abc';
+  return `${lines.join('\n')}\n`;
+};
+
+export const CSV_CASES: FaultCase[] = [
+  csvCase('NaN value', withRow(3, [good[3][0], 'NaN']), /line 5, column 2 \(phiA\): got "NaN"; allowed: a finite number/),
+  csvCase('lower-case nan', withRow(3, [good[3][0], 'nan']), /line 5, column 2 \(phiA\): got "nan"/),
+  csvCase('Infinity', withRow(2, [good[2][0], 'Infinity']), /line 4, column 2 \(phiA\): got "Infinity"/),
+  csvCase('1e999 (overflows)', withRow(2, [good[2][0], '1e999']), /line 4, column 2 \(phiA\): got "1e999"; allowed: a finite number/),
+  csvCase('empty value', withRow(4, [good[4][0], '']), /line 6, column 2 \(phiA\): missing value/),
+  csvCase('text value', withRow(4, ['abc', good[4][1]]), /line 6, column 1 \(x\): got "abc"/),
+  csvCase('hex value', withRow(4, [good[4][0], '0x1']), /line 6, column 2 \(phiA\): got "0x1"/),
+  csvCase('repeated x', withRow(5, [good[4][0], good[5][1]]), /line 7, column 1 \(x\): got .*the same x as line 6/),
+  csvCase('unsorted x', withRow(5, ['0.01', good[5][1]]), /line 7, column 1 \(x\): got 0\.01 after .* x must increase strictly/),
+  csvCase('two points', rows(good.slice(0, 2)), /2 data point\(s\).*give at least 3 points/),
+  csvCase('one point', rows(good.slice(0, 1)), /1 data point/),
+  csvCase('header only', 'x,phiA\n', /no data|0 data point/),
+  csvCase('empty file', '', /p\.csv/),
+  csvCase('decimal commas', rows(good.map(([x, y]) => [x.replace('.', ','), y.replace('.', ',')] as [string, string])), /p\.csv: line 2/),
+  csvCase('semicolons', good.reduce((t, [x, y]) => `${t}${x};${y}\n`, 'x;phiA\n'), /p\.csv: line 1/),
+  csvCase('tabs', good.reduce((t, [x, y]) => `${t}${x}\t${y}\n`, 'x\tphiA\n'), /p\.csv: line 1/),
+  csvCase('no header', rows(good).split('\n').slice(1).join('\n'), /p\.csv: line 1/),
+  csvCase('no phiA column', rows(good, 'x,phiB'), /p\.csv: line 1.*phiB|the header has no phiA column/),
+  csvCase('column named twice', rows(good.map(([x, y]) => [x, `${y},${y}`] as [string, string]), 'x,phiA,phiA'), /column named twice/),
+  csvCase('a value missing in a row', `${rows(good)}4.0\n`, /line 26/),
+  csvCase('an extra value in a row', `${rows(good)}4.0,0.5,0.1\n`, /line 26.*extra value/),
+  csvCase('percentages, not fractions', rows(good.map(([x, y]) => [x, String(Number(y) * 100)] as [string, string])), /phiA\): got .*a volume fraction lies in \[0, 1\]/),
+  csvCase('sigma zero', rows(good.map(([x, y]) => [x, `${y},0`] as [string, string]), 'x,phiA,sigma'), /\(sigma\): got 0; allowed: a standard deviation > 0/),
+  csvCase('sigma negative', rows(good.map(([x, y]) => [x, `${y},-0.01`] as [string, string]), 'x,phiA,sigma'), /\(sigma\): got -0\.01; allowed: a standard deviation > 0/),
+  csvCase('100 000 rows with a bad value in the last', many(), /line 100001, column 2 \(phiA\): got "abc"/),
+  csvCase('a folder', (s) => s.mkdir('p.csv'), /p\.csv: cannot read the file \(EISDIR\)/),
+  csvCase('missing file', (s) => s.path('nope.csv'), /nope\.csv: cannot read the file \(ENOENT\)/),
+  csvCase('--rg-nm with --segments (two answers to one question)', PROFILE_CSV, /--rg-nm: give either --rg-nm or --segments/, ['--rg-nm', '2', '--segments', '96', '--segment-length-nm', '0.7']),
+  csvCase('--segments without --segment-length-nm', PROFILE_CSV, /--segment-length-nm: missing/, ['--segments', '96']),
+];
+
+/** Read-past cases: a byte-order mark and Windows line endings change nothing about the answer. */
+function sameAnswer(name: string, edit: (csv: string) => string): FaultCase {
+  let synthCsv = '';
+  let edited = '';
+  const grid = ['--nx', '16', '--ns', '20'];
+  return {
+    group: 'profile CSVs',
+    name,
+    setup: async (s) => {
+      const r = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '24', ...grid, '--out', s.path('synth')], { capture: true });
+      expect(r.code).toBe(0);
+      synthCsv = s.path('synth/profile.csv');
+      const { readFileSync } = await import('node:fs');
+      edited = s.write('edited.csv', edit(readFileSync(synthCsv, 'utf8')));
+    },
+    argv: () => ['invert', edited, '--f', '0.5', ...grid, '--json', '--quiet'],
+    code: 0,
+    check: async (r) => {
+      const plain = await runCli(['invert', synthCsv, '--f', '0.5', ...grid, '--json', '--quiet'], { capture: true });
+      const a = JSON.parse(r.stdout).estimators.classical.chiN;
+      const b = JSON.parse(plain.stdout).estimators.classical.chiN;
+      expect(a).toBe(b);
+      // The profile is noiseless and made on the same grid: χN comes back to the truth (synth's own χN = 15).
+      expect(Math.abs(a - 15)).toBeLessThan(1e-3);
+    },
+  };
+}
+
+export const CSV_ANSWER_CASES: FaultCase[] = [sameAnswer('byte-order mark', (t) => `\uFEFF${t}`), sameAnswer('Windows line endings', (t) => t.replace(/\n/g, '\r\n'))];

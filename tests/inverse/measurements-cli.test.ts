@@ -1,0 +1,55 @@
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { runCli } from '../helpers/run-cli.js';
+
+const grid = ['--nx', '32', '--ns', '60'];
+const dir = mkdtempSync(join(tmpdir(), 'mesofield-meas-'));
+// Scenario of our own: χN = 15, Rg = 2.8 nm, two periods, 2 % noise, x written in nm.
+const nm = join(dir, 'nm.csv');
+const made = runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '2', '--points', '40', '--noise', '0.02', '--seed', '3', '--rg-nm', '2.8', '--out', nm]);
+
+describe('invert: honest about Rg and units', () => {
+  it('states the Rg sensitivity without an sd, and profiles Rg out with one', () => {
+    expect(made.code).toBe(0);
+    const a = runCli(['invert', nm, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--chiN-range', '12,20', '--quiet']);
+    expect(a.code).toBe(0);
+    expect(a.stdout).toMatch(/SENSITIVITY: .*Rg × 0\.95 gives χN = [\d.]+, Rg × 1\.05 gives [\d.]+.*--period free/);
+    expect(a.stdout).toMatch(/period [\d.]+ nm \([\d.]+ Rg\)/);
+    const b = runCli(['invert', nm, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--rg-nm-sd', '0.14', '--chiN-range', '12,20', '--json', '--quiet']);
+    expect(b.code).toBe(0);
+    const c = JSON.parse(b.stdout).estimators.classical;
+    expect(c.interval[1] - c.interval[0]).toBeGreaterThan(c.assumedInputs.statisticalInterval[1] - c.assumedInputs.statisticalInterval[0]);
+    expect(c.interval95[0]).toBeLessThan(15);
+    expect(c.interval95[1]).toBeGreaterThan(15);
+    expect(c.intervalMethod).toMatch(/exact profile likelihood over Rg/);
+  });
+
+  it('refuses x in nm read as Rg, and x_nm without an Rg, naming --rg-nm (exit 2)', () => {
+    const r = runCli(['invert', nm, '--f', '0.5', ...grid, '--quiet']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/x is read in Rg .*give --rg-nm R/);
+    const withUnit = join(dir, 'xnm.csv');
+    writeFileSync(withUnit, readFileSync(nm, 'utf8').replace(/^x,/, 'x_nm,'));
+    const s = runCli(['invert', withUnit, '--f', '0.5', ...grid, '--quiet']);
+    expect(s.code).toBe(2);
+    expect(s.stderr).toMatch(/x_nm.*--rg-nm/);
+    const t = runCli(['invert', nm, '--f', '0.5', ...grid, '--rg-nm-sd', '0.1', '--quiet']);
+    expect(t.code).toBe(2);
+    expect(t.stderr).toMatch(/--rg-nm-sd: got 0\.1, but x is in Rg/);
+  });
+});
+
+describe('bragg-pattern', () => {
+  it('prints the peaks of a solved lamella: even orders vanish at f = 0.5', () => {
+    const out = join(dir, 'sol');
+    expect(runCli(['solve', '--f', '0.5', '--chiN', '20', '--period', 'optimize', ...grid, '--out', out, '--quiet']).code).toBe(0);
+    const r = runCli(['bragg-pattern', join(out, 'solution.json'), '--orders', '4', '--json']);
+    expect(r.code).toBe(0);
+    const res = JSON.parse(r.stdout);
+    expect(res.peaks[1].relative).toBeLessThan(1e-10);
+    expect(res.peaks[2].relative).toBeGreaterThan(1e-3);
+    expect(res.peaks[0].q).toBeCloseTo((2 * Math.PI) / res.period, 10);
+  });
+});

@@ -1,0 +1,114 @@
+/**
+ * Sweep and film report pages from inputs built here: the sweep's analysis (strong-segregation
+ * exponent, order–disorder estimate) against data with known answers, and the page text read
+ * back with pdftotext.
+ */
+import { describe, expect, it } from 'vitest';
+import { buildReport } from '../../src/reports/build-report.js';
+import { renderPdf } from '../../src/reports/render-pdf.js';
+import type { ReportInput, SweepPointInput } from '../../src/reports/report-inputs.js';
+import { sweepSeries } from '../../src/reports/sections/sweep-analysis.js';
+import { buildChain } from '../../src/physics/chain.js';
+import { spinodal } from '../../src/physics/rpa.js';
+import { solveFilm } from '../../src/spectral/film-solve.js';
+import { FilmCell } from '../../src/physics/cell/film-cell.js';
+import { scanThickness } from '../../src/spectral/thickness-scan.js';
+import { runInfo } from './fixtures.js';
+import { pdfFile, pdfText } from './pdf-tools.js';
+
+/**
+ * Points on exact laws: D = 1.2 χN^(1/6) (Semenov's strong-segregation scaling, Sov. Phys. JETP
+ * 61, 733 (1985)) and F − F_dis = −0.01 (χN − 10.495)² above χN 10.495 (the continuous
+ * mean-field transition at f = 1/2, Leibler 1980; 10.495 from memory), disordered below.
+ */
+function lawPoints(): SweepPointInput[] {
+  return [8, 10, 12, 16, 20, 30, 40, 60, 80].map((chiN) => {
+    const ordered = chiN > 10.495;
+    return {
+      chiN,
+      f: 0.5,
+      segmentRatio: 1,
+      phase: ordered ? 'lamellar' : 'disordered',
+      period: ordered ? 1.2 * chiN ** (1 / 6) : null,
+      freeEnergy: ordered ? chiN / 4 - 0.01 * (chiN - 10.495) ** 2 : chiN / 4,
+      freeEnergyDisordered: chiN / 4,
+      Q: 1,
+      converged: true,
+      spinodalChiN: 10.495,
+    };
+  });
+}
+
+describe('sweep analysis', () => {
+  it('recovers the exponent of an exact power law and the zero of −(χN − c)²', () => {
+    const [s] = sweepSeries({ points: lawPoints(), chainLabel: 'A0.500-B0.500' });
+    expect(s.exponent!.value).toBeCloseTo(1 / 6, 10);
+    expect(s.exponent!.standardError).toBeLessThan(1e-10);
+    expect(s.exponent!.chiNRange[1]).toBe(80);
+    // √(F_dis − F) is exactly linear in χN here, so the extrapolation lands on 10.495.
+    expect(s.odt!.estimate).toBeCloseTo(10.495, 9);
+    expect(s.odt!.bracket).toEqual([10, 12]);
+  });
+
+  it('uses the RPA spinodal of the library: symmetric diblock 10.495 (Leibler 1980; from memory)', () => {
+    expect(spinodal(buildChain({ type: 'diblock', f: 0.5, segmentLengths: { A: 1, B: 1 } })).chiN).toBeCloseTo(10.495, 3);
+  });
+
+  it('draws F − F_dis, the period with the fitted exponent and Q, with units, and lists every point', () => {
+    const input: ReportInput = { info: { ...runInfo('sweep'), period: Number.NaN }, sweep: { points: lawPoints(), chainLabel: 'A0.500-B0.500' } };
+    const path = pdfFile(renderPdf(buildReport(input)));
+    const p1 = pdfText(path, 1);
+    expect(p1).toMatch(/order–disorder estimate χN\s+10\.5/);
+    expect(p1).toMatch(/D ∝ χN\^a, fitted a\s+0\.167/);
+    const all = pdfText(path);
+    for (const s of ['F − F_dis (kT per chain)', 'period D / Rg', 'χN (–)', 'Q (–)', 'Semenov', 'D / Rg']) expect(all).toContain(s);
+    expect(all).toMatch(/RPA spinodal χN = 10\.(49|5)/);
+  });
+});
+
+describe('film pages', () => {
+  it('draw the profiles between the walls and count the layers', () => {
+    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+    const walls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
+    const r = solveFilm({ system, cell: new FilmCell(3.7, 32, walls), contour: 40 });
+    const input: ReportInput = {
+      info: { ...runInfo('solve'), system },
+      film: { solution: r.solution, thickness: 3.7, walls: { bottom: 2, top: 2, range: 0.25 }, layers: r.layers, freeEnergyPerArea: r.freeEnergyPerArea },
+    };
+    const doc = buildReport(input);
+    expect(doc.pages.map((p) => p.heading)).toContain(`Film: ${r.layers.A + r.layers.B} layers between the walls`);
+    const path = pdfFile(renderPdf(doc));
+    const all = pdfText(path);
+    for (const s of ['depth z / Rg', 'bottom wall, affinity +2', 'top wall, affinity +2', 'film thickness H', `${r.layers.A + r.layers.B}: ${[...r.layers.sequence].join(' ')}`, 'A film between flat walls']) expect(all).toContain(s);
+    // Both walls prefer A: the outermost layers are A-rich (common practice, no source).
+    expect(r.layers.sequence[0]).toBe('A');
+    expect(r.layers.sequence[r.layers.sequence.length - 1]).toBe('A');
+  });
+
+  it('draw R(Q) against data when a reflectivity fit fills the hook', () => {
+    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+    const r = solveFilm({ system, cell: new FilmCell(3.7, 32, { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 }), contour: 40 });
+    // Fresnel reflectivity of a bare substrate, R = |(Q − √(Q² − Qc²))/(Q + √(Q² − Qc²))|², Qc = 0.02 (Parratt 1954 limit; common practice).
+    const q = Array.from({ length: 40 }, (_, i) => 0.025 + 0.005 * i);
+    const model = q.map((Q) => ((Q - Math.sqrt(Q * Q - 0.0004)) / (Q + Math.sqrt(Q * Q - 0.0004))) ** 2);
+    const input: ReportInput = {
+      info: { ...runInfo('solve'), system },
+      film: { solution: r.solution, thickness: 3.7, walls: { bottom: 2, top: 2, range: 0.25 }, layers: r.layers, reflectivity: { q, r: model.map((m) => m * 1.02), dr: model.map((m) => 0.05 * m), model, qUnit: '1/Å' } },
+    };
+    const all = pdfText(pdfFile(renderPdf(buildReport(input))));
+    for (const s of ['Film: specular reflectivity', 'Q (1/Å)', 'R·Q⁴', 'R (–)']) expect(all).toContain(s);
+  });
+
+  it('draw F(H) from a thickness scan with its minima marked', () => {
+    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+    const walls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
+    // Three thicknesses of five-layer films; the middle one is lowest (measured: F 2.946, 2.924, 2.937 kT per chain), so one minimum.
+    const scan = scanThickness({ system, walls, thicknesses: [5.6, 6.4, 7.2], nx: 32, ns: 40 });
+    expect(scan.minima.length).toBe(1);
+    const r = solveFilm({ system, cell: new FilmCell(3.8, 16, walls), contour: 40 });
+    const input: ReportInput = { info: { ...runInfo('solve'), system }, film: { solution: r.solution, thickness: 3.8, walls: { bottom: 2, top: 2, range: 0.25 }, layers: r.layers, scan } };
+    const all = pdfText(pdfFile(renderPdf(buildReport(input))));
+    for (const s of ['Film: free energy against thickness', 'film thickness H / Rg', 'F (kT per chain)', 'minima']) expect(all).toContain(s);
+    for (const m of scan.minima) expect(all).toContain(`H = ${Number(m.thickness.toPrecision(4))} Rg`);
+  });
+});
