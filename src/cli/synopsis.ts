@@ -26,3 +26,4 @@ function commandLine(c: Command): string {
 export function synopsis(program: Command): string {
   return `${program.commands.map(commandLine).join('\n')}\n`;
 }
+

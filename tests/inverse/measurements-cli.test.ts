@@ -44,7 +44,7 @@ describe('invert: honest about Rg and units', () => {
 describe('bragg-pattern', () => {
   it('prints the peaks of a solved lamella: even orders vanish at f = 0.5', () => {
     const out = join(dir, 'sol');
-    expect(runCli(['solve', '--f', '0.5', '--chiN', '20', '--period', 'optimize', ...grid, '--out', out, '--quiet']).code).toBe(0);
+    expect(runCli(['solve', '--f', '0.5', '--chiN', '20', '--period', 'equilibrium', ...grid, '--out', out, '--quiet']).code).toBe(0);
     const r = runCli(['bragg-pattern', join(out, 'solution.json'), '--orders', '4', '--json']);
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);

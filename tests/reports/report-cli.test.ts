@@ -51,7 +51,7 @@ describe('mesofield report on a sweep run', () => {
     const cfg = join(root, 'scan.sweep.json');
     writeFileSync(
       cfg,
-      JSON.stringify({ version: 1, kind: 'sweep', chain: { type: 'diblock' }, grid: { chiN: { from: 9, to: 21, count: 5 }, f: [0.5], segmentLengthRatio: [1] }, cell: { period: 'optimize', periods: 1, nx: 32, ns: 60 }, reference: { tolerance: 1e-8 } }),
+      JSON.stringify({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: { from: 9, to: 21, count: 5 }, f: [0.5], segmentRatio: [1] }, cell: { period: 'equilibrium', periods: 1, nx: 32, ns: 60 }, solver: { tolerance: 1e-8 } }),
     );
     const dir = join(root, 'scan');
     const s = runCli(['sweep', cfg, '--out', dir, '--quiet'], { timeoutMs: 120_000 });

@@ -24,6 +24,7 @@ export function registerSchema(program: Command): void {
           return;
         }
         if (flags.synopsis) {
+          // run-cli registers every command for `schema --synopsis` (command-specs.ts), so the parent holds them all.
           const { synopsis } = await import('../synopsis.js');
           process.stdout.write(synopsis(command.parent!));
           return;
