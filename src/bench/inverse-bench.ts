@@ -16,7 +16,7 @@ function profile(chain: ChainSpec, seed: number, nx: number, ns: number): Profil
 }
 
 export async function runInverseBench(): Promise<void> {
-  const chain: ChainSpec = { type: 'diblock', f: 0.5, segmentLengths: { A: 1, B: 1 } };
+  const chain: ChainSpec = { type: 'diblock', f: 0.5, segmentRatio: 1 };
   console.log('classical inversion, f = 0.5, χN = 15, 64 points, 2 % noise (sigma column), equilibrium period, target 2 s');
   console.log('  grid      seed   time s   χN        68.3 % interval        95 % interval          solves (coarse)  χN evaluations');
   for (const [nx, ns] of [
@@ -35,13 +35,13 @@ export async function runInverseBench(): Promise<void> {
     }
   }
   // The network estimator with the invert defaults, one seed, on the first noisy profile.
-  const net = invertConfigSchema.parse({ version: 1, kind: 'invert', system: { chain } }).network;
+  const net = invertConfigSchema.parse({ version: 2, kind: 'invert', system: { chain } }).network;
   const settings = { chain, nx: 64, ns: 100, period: { mode: 'equilibrium' as const }, resolution: 0, profilePoints: 0 };
   const data = profile(chain, 1, 64, 100);
   const cl = estimateClassical(data, settings, createModels(settings));
-  const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: net.steps, fieldUpdateEvery: net.fieldUpdateEvery, lbfgsIterations: net.lbfgsIterations, lbfgsPerUpdate: net.lbfgsPerUpdate, resolution: 0, backend: 'wasm' });
+  const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: net.adamSteps, fieldUpdateEvery: net.fieldUpdateEvery, lbfgsIterations: net.lbfgsIterations, lbfgsPerUpdate: net.lbfgsPerUpdate, resolution: 0, backend: 'wasm' });
   console.log(
-    `network estimator (defaults: ${net.steps} Adam steps + ${net.lbfgsIterations} L-BFGS iterations, one seed, wasm), same case, seed 1, target 2 min: ` +
+    `network estimator (defaults: ${net.adamSteps} Adam steps + ${net.lbfgsIterations} L-BFGS iterations, one seed, wasm), same case, seed 1, target 2 min: ` +
       `χN = ${ne.chiN.toFixed(4)} (classical ${cl.chiN.toFixed(4)}) in ${ne.seconds.toFixed(1)} s`,
   );
 }

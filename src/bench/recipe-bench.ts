@@ -27,10 +27,10 @@ interface BenchSystem {
 }
 
 export const RECIPE_SYSTEMS: BenchSystem[] = [
-  { name: 'diblock-f0.5-chiN15', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 'optimize', nx: 64, ns: 100 } },
-  { name: 'diblock-f0.35-chiN22', system: { chain: { type: 'diblock', f: 0.35 }, chiN: 22 }, cell: { period: 'optimize', nx: 64, ns: 120 } },
-  { name: 'triblock-ABA-chiN20', system: { chain: { type: 'triblock', f: 0.5 }, chiN: 20 }, cell: { period: 'optimize', nx: 64, ns: 120 } },
-  { name: 'diblock-bA/bB1.5-chiN15', system: { chain: { type: 'diblock', f: 0.5, segmentLengths: { A: 1.5, B: 1 } }, chiN: 15 }, cell: { period: 'optimize', nx: 64, ns: 100 } },
+  { name: 'diblock-f0.5-chiN15', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 'equilibrium', nx: 64, ns: 100 } },
+  { name: 'diblock-f0.35-chiN22', system: { chain: { type: 'diblock', f: 0.35 }, chiN: 22 }, cell: { period: 'equilibrium', nx: 64, ns: 120 } },
+  { name: 'triblock-ABA-chiN20', system: { chain: { type: 'triblock', f: 0.5 }, chiN: 20 }, cell: { period: 'equilibrium', nx: 64, ns: 120 } },
+  { name: 'diblock-bA/bB1.5-chiN15', system: { chain: { type: 'diblock', f: 0.5, segmentRatio: 1.5 }, chiN: 15 }, cell: { period: 'equilibrium', nx: 64, ns: 100 } },
   {
     name: 'homopolymer-external-field',
     system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2, mode: 1, offset: 0 } } },
@@ -43,20 +43,20 @@ type Recipe = 'adam+lbfgs' | 'second-order';
 
 /** The train config of a recipe (the second-order one is the shipped configs' recipe). */
 export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick: boolean): TrainConfigInput {
-  const warmStart = b.cold ? { type: 'none' as const } : { type: 'reference' as const, steps: 400, learningRate: 0.01 };
-  const base = { version: 1 as const, kind: 'train' as const, system: b.system, cell: b.cell, backend: 'wasm' as const, warmStart };
+  const warmStart = b.cold ? { type: 'none' as const } : { type: 'reference' as const, adamSteps: 400, learningRate: 0.01 };
+  const base = { version: 2 as const, kind: 'train' as const, system: b.system, cell: b.cell, backend: 'wasm' as const, warmStart };
   if (recipe === 'adam+lbfgs') {
     return {
       ...base,
       networks: { field: { seed }, propagator: { seed } },
-      training: { steps: b.cold ? 600 : 300, learningRate: b.cold ? 0.002 : 0.001, evaluateEvery: 100, lbfgsIterations: quick ? 600 : 1500, lbfgsCycles: quick ? 2 : 5 },
+      training: { adamSteps: b.cold ? 600 : 300, learningRate: b.cold ? 0.002 : 0.001, evaluateEvery: 100, lbfgsIterations: quick ? 600 : 1500, lbfgsCycles: quick ? 2 : 5 },
     };
   }
   return {
     ...base,
     networks: { field: { hidden: [16], seed }, propagator: { hidden: [12, 12], seed } },
     collocation: { nx: 32, nodesPerBlock: 32, random: 0 },
-    training: { steps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 120, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6 } },
+    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 120, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6 } },
   };
 }
 

@@ -13,7 +13,7 @@ import type { SystemSpec } from '../physics/chain-schema.js';
 import { timeIt } from './timing.js';
 
 export function runSpectralBench(): void {
-  const system: SystemSpec = { chain: { type: 'diblock', f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 20 };
+  const system: SystemSpec = { chain: { type: 'diblock', f: 0.5, segmentRatio: 1 }, chiN: 20 };
   const chain = buildChain(system.chain);
   console.log('spectral reference, f = 0.5, χN = 20 (cosine start, tolerance 1e-9, L = 4.045 Rg)');
   console.log('  nx    ns   solve ms  iterations  propagation ms  period search ms (evaluations)');

@@ -80,7 +80,7 @@ function trainerStep(tf: Tf, width: number, points: number) {
   const nodesPerBlock = Math.max(2, 2 * Math.round((points / nx - 1) / 4));
   const hidden = [width, width, width];
   const config = trainConfigSchema.parse({
-    version: 1,
+    version: 2,
     kind: 'train',
     system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
     networks: { field: { hidden }, propagator: { hidden } },

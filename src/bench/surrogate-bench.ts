@@ -46,7 +46,7 @@ export async function runSurrogateBench(): Promise<void> {
 
   // One query against one reference solve at the same point, each the median of repeats.
   const space = r.model.space;
-  const p = { chiN: 17.3, f: 0.5, segmentLengthRatio: 1 };
+  const p = { chiN: 17.3, f: 0.5, segmentRatio: 1 };
   const query = timeIt(() => r.model.solutions([p]), 20, 3);
   const fieldsOnly = timeIt(() => r.model.fields([p], config.cell.nx), 20, 3);
   const optimised = timeIt(() => solveReference(space, config, p, { role: 'bench point' }), 3, 0);
@@ -54,7 +54,7 @@ export async function runSurrogateBench(): Promise<void> {
   // Timed through the library call itself: from the cosine start a fixed-period solve may collapse (its phase is printed).
   let coldPhase = '';
   const cold = timeIt(() => {
-    coldPhase = solveFromConfig({ system: space.system(p), cell: { kind: 'periodic', period: L, periods: 1, nx: config.cell.nx, ns: config.cell.ns }, solver: config.reference, output: { propagators: false } }).solution.phase;
+    coldPhase = solveFromConfig({ system: space.system(p), cell: { kind: 'periodic', period: L, periods: 1, nx: config.cell.nx, ns: config.cell.ns }, solver: config.solver, output: { propagators: false } }).solution.phase;
   }, 5, 1);
   const nearest = r.anchors.reduce((a, b) => (Math.abs(b.point.chiN - p.chiN) < Math.abs(a.point.chiN - p.chiN) ? b : a));
   const warm = timeIt(() => solveReference(space, config, p, { period: L, initial: nearest.solution.w, role: 'bench point' }), 5, 1);

@@ -1,7 +1,7 @@
 /**
  * Every command once: its name and the module that declares its flags and action, loaded
  * only when that command runs (start-up matters: `--version`, `spinodal` and `schema` must
- * not load the solvers, the reports or chart.js). `mesofield --help` loads them all.
+ * not load the solvers, the reports or chart.js). `mesofield --help` and `schema --synopsis` load them all.
  */
 import type { Command } from 'commander';
 
@@ -33,7 +33,9 @@ export async function registrations(args: readonly string[]): Promise<Register[]
   const name = args.find((a) => !a.startsWith('-'));
   const wantsRootOnly = name === undefined && args.some((a) => a === '--version' || a === '-V');
   if (wantsRootOnly) return [];
-  if (name !== undefined && name in COMMAND_SPECS && name !== 'help') return [await COMMAND_SPECS[name]()];
+  // `schema --synopsis` prints every command's flags, so it needs them all registered.
+  const wantsAll = name === 'schema' && args.includes('--synopsis');
+  if (name !== undefined && name in COMMAND_SPECS && name !== 'help' && !wantsAll) return [await COMMAND_SPECS[name]()];
   const all = await Promise.all(Object.values(COMMAND_SPECS).map((load) => load()));
   return [...new Set(all)];
 }

@@ -8,14 +8,17 @@
 import { dirname, isAbsolute, resolve } from 'node:path';
 import type { z } from 'zod';
 import { InputError, describeValue, issueMessage } from '../io/errors.js';
+import { version1Message } from '../io/schemas/config-version.js';
 import { readRawConfig } from './raw-config.js';
 import { parseDecimal } from './run-command.js';
 
 /** Flag → config path, per command. */
 export const FLAG_CONFIG_PATHS = {
   solve: {
-    '--preset': 'system.chain.type',
+    '--chain': 'system.chain.type',
     '--f': 'system.chain.f',
+    '--segment-ratio': 'system.chain.segmentRatio',
+    '--first-block-share': 'system.chain.firstBlockShare',
     '--chiN': 'system.chiN',
     '--period': 'cell.period',
     '--periods': 'cell.periods',
@@ -30,15 +33,15 @@ export const FLAG_CONFIG_PATHS = {
   invert: {
     '--f': 'system.chain.f',
     '--method': 'method',
-    '--period': 'period',
+    '--period': 'cell.period',
     '--chiN-range': 'chiNRange',
     '--resolution': 'resolution',
-    '--nx': 'grid.nx',
-    '--ns': 'grid.ns',
+    '--nx': 'cell.nx',
+    '--ns': 'cell.ns',
     '--profile-points': 'profilePoints',
     '--seeds': 'network.seeds',
-    '--network-steps': 'network.steps',
-    '--network-lbfgs': 'network.lbfgsIterations',
+    '--adam-steps': 'network.adamSteps',
+    '--lbfgs-iterations': 'network.lbfgsIterations',
     '--backend': 'network.backend',
     '--rg-nm': 'units.rgNm',
     '--segments': 'units.segments',
@@ -47,10 +50,14 @@ export const FLAG_CONFIG_PATHS = {
     '--f-sd': 'uncertainty.f',
     '--segment-ratio-sd': 'uncertainty.segmentRatio',
   },
+  train: {
+    '--adam-steps': 'training.adamSteps',
+    '--lbfgs-iterations': 'training.lbfgsIterations',
+  },
 } as const;
 
-/** The config value of the stress-free period (the flag takes "equilibrium"; older configs call it "optimize"). */
-export const EQUILIBRIUM_PERIOD_CONFIG_VALUE: Record<'solve' | 'invert', string> = { solve: 'optimize', invert: 'equilibrium' };
+/** The config value of the stress-free period: "equilibrium" in every config kind (version 2; version 1 said "optimize"). */
+export const EQUILIBRIUM_PERIOD_CONFIG_VALUE: Record<'solve' | 'invert', string> = { solve: 'equilibrium', invert: 'equilibrium' };
 
 /** Config keys that hold paths: read relative to the config file's folder, not the working directory. */
 export const CONFIG_PATH_KEYS = ['solver.start.path', 'initFrom'] as const;
@@ -122,11 +129,11 @@ export class ConfigInput<C extends Command> {
     return v;
   }
 
-  /** A period flag: a length, or the stress-free period ("equilibrium"; "optimize" also read), or the extra words allowed. */
+  /** A period flag: a length, or the stress-free period ("equilibrium"), or the extra words allowed. */
   period(flag: keyof (typeof FLAG_CONFIG_PATHS)[C] & string, text: string | undefined, extra: readonly string[] = []): void {
     if (text === undefined) return;
     const word = text.trim().toLowerCase();
-    if (word === 'equilibrium' || word === 'optimize') return this.set(flag, EQUILIBRIUM_PERIOD_CONFIG_VALUE[this.command as 'solve' | 'invert']);
+    if (word === 'equilibrium') return this.set(flag, EQUILIBRIUM_PERIOD_CONFIG_VALUE[this.command as 'solve' | 'invert']);
     if (extra.includes(word)) return this.set(flag, word);
     const v = parseDecimal(flag, text);
     if (typeof v === 'string') throw new InputError(`${flag}: got ${JSON.stringify(text)}; allowed: a period in Rg (a number > 0), or ${['equilibrium', ...extra].map((w) => `"${w}"`).join(', ')}${/^optimi[sz]/i.test(word) ? ' (the stress-free period is "equilibrium")' : ''}`);
@@ -142,6 +149,9 @@ export class ConfigInput<C extends Command> {
 
   /** Validate with the schema; every problem is one line naming its source, value and what is allowed. */
   parse<S extends z.ZodType>(schema: S): z.infer<S> {
+    // A version-1 config gets the list of renames it needs, not a page of unknown fields.
+    const old = version1Message(this.raw, this.configPath ?? 'flags');
+    if (old) throw new InputError(old);
     const r = schema.safeParse(this.raw);
     if (r.success) return r.data;
     const lines = r.error.issues.map((issue) => {

@@ -109,9 +109,9 @@ function changedChain(chain: ChainSpec, change: Change): ChainSpec {
   if (chain.type !== 'diblock' && chain.type !== 'triblock') {
     throw new InputError(`system.chain.type: got ${JSON.stringify(chain.type)}; an uncertainty on f or the segment ratio needs a diblock or triblock chain (a general block list has no single f)`);
   }
-  const out = { ...chain, segmentLengths: { ...chain.segmentLengths } };
+  const out = { ...chain };
   if (change.f !== undefined) out.f = change.f;
-  if (change.segmentRatio !== undefined) out.segmentLengths.A = change.segmentRatio * out.segmentLengths.B;
+  if (change.segmentRatio !== undefined) out.segmentRatio = change.segmentRatio;
   return out;
 }
 
@@ -224,7 +224,7 @@ export function assumedInputs(
     }
     if (u.segmentRatio !== undefined) {
       const src = sources['sd.segmentRatio'] ?? 'uncertainty.segmentRatio';
-      const ratio = chain.segmentLengths.A / chain.segmentLengths.B;
+      const ratio = chain.segmentRatio;
       if (!(ratio - u.segmentRatio > 0)) throw new InputError(`${src}: got ${u.segmentRatio}; allowed: a standard deviation below the segment ratio b_A/b_B = ${ratio}`);
       out.push({ key: 'segmentRatio', source: src, value: ratio, sd: u.segmentRatio });
     }

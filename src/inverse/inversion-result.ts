@@ -8,6 +8,8 @@ import { truthText } from './truth-comparison.js';
 import type { TruthComparison } from './truth-comparison.js';
 import type { NetworkEstimate } from './network-estimator.js';
 import type { Provenance } from '../io/versions.js';
+import { INVERSION_VERSION, inversionResultSchema } from '../io/formats/inversion.js';
+import { formatText } from '../io/formats/file-format.js';
 import type { ClassicalEstimate } from './classical.js';
 import { fieldInDataFrame } from './classical.js';
 import type { ProfileData } from './profile-csv.js';
@@ -151,7 +153,7 @@ function fitCurve(est: ClassicalEstimate, data: ProfileData, points = 400): { x:
 
 export interface InversionResult {
   kind: 'inversion';
-  version: 1;
+  version: typeof INVERSION_VERSION;
   provenance: Provenance;
   input: {
     file: string;
@@ -160,18 +162,20 @@ export interface InversionResult {
     units: ProfileData['units'];
     sigmaColumn: boolean;
   };
-  config: unknown;
-  assumptions: readonly string[];
+  config: Record<string, unknown>;
+  assumptions: string[];
   estimators: Record<string, EstimatorBlock>;
   agreement: Agreement;
   /** Synthetic profiles only: the estimates against the truth that made the data. */
   truth?: TruthComparison;
+  /** Wall time (s) of the whole inversion (every estimator), when the command recorded it. */
+  runSeconds?: number;
 }
 
-export function inversionResult(data: ProfileData, config: unknown, provenance: Provenance, estimators: Record<string, EstimatorBlock>, truth?: TruthComparison): InversionResult {
+export function inversionResult(data: ProfileData, config: Record<string, unknown>, provenance: Provenance, estimators: Record<string, EstimatorBlock>, truth?: TruthComparison): InversionResult {
   return {
     kind: 'inversion',
-    version: 1,
+    version: INVERSION_VERSION,
     provenance,
     input: {
       file: data.source,
@@ -181,11 +185,16 @@ export function inversionResult(data: ProfileData, config: unknown, provenance: 
       sigmaColumn: data.sigma !== undefined,
     },
     config,
-    assumptions: ASSUMPTIONS,
+    assumptions: [...ASSUMPTIONS],
     estimators,
     agreement: agreement(estimators),
     ...(truth ? { truth } : {}),
   };
+}
+
+/** result.json: the result through its file schema (io/formats/inversion.ts). */
+export function inversionResultText(result: InversionResult, indent = 1): string {
+  return formatText(inversionResultSchema, result, indent);
 }
 
 /** x (as given), data, sigma (column or estimated), fit, residual = data − fit; and the unblurred model when a resolution was applied. */

@@ -174,14 +174,14 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   for (const seed of s.seeds) {
     const tr0 = performance.now();
     const config: TrainConfig = trainConfigSchema.parse({
-      version: 1,
+      version: 2,
       kind: 'train',
       system: { chain: s.chain, chiN: chiNStart },
       cell: { period: L, nx, ns: classical.solution.ns },
       networks: { field: { seed, ...(s.fourierModes ? { fourierModes: s.fourierModes } : {}) }, propagator: { seed: seed + 101, ...(s.fourierModes ? { fourierModes: s.fourierModes } : {}) } },
       // The trainer's default x grid (32) measured as accurate as the model grid for the MDE, at half the cost.
       collocation: { nx: Math.min(nx, 32), seed: seed + 7 },
-      training: { strategy: 'alternating', steps: s.steps, learningRate: s.learningRate ?? 1e-3, logEvery: 25, checkpointEvery: s.steps + 1, fieldUpdateEvery: updateEvery },
+      training: { strategy: 'alternating', adamSteps: s.steps, learningRate: s.learningRate ?? 1e-3, logEvery: 25, checkpointEvery: s.steps + 1, fieldUpdateEvery: updateEvery },
     });
     const nets = buildScftNetworks(tf, config, chain, L, true);
     warmStart(tf, nets, { x: start.x, w: start.w, chiN: chiNStart, propagators: start.propagators }, 400, 1e-2);

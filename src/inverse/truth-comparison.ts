@@ -8,15 +8,13 @@
  * estimate's cell (the frame the network works in), started from the classical solution so
  * the two lamellae share their phase.
  */
-import { z } from 'zod';
-import { loadJsonFile } from '../io/load-json.js';
+import { readFormat } from '../io/formats/file-format.js';
+import { synthTruthSchema } from '../io/formats/synth-truth.js';
+import type { SynthTruth } from '../io/formats/synth-truth.js';
 import type { ChainSpec } from '../physics/chain-schema.js';
 import { solveFixedCell } from '../spectral/scft-solver.js';
 import type { ClassicalEstimate } from './classical.js';
 import type { NetworkEstimate } from './network-estimator.js';
-
-/** The part of synth's truth sidecar read here (the file holds more). */
-export const truthSidecarSchema = z.object({ kind: z.literal('synth-truth'), chiN: z.number().gt(0) }).passthrough();
 
 export interface TruthComparison {
   source: string;
@@ -24,8 +22,8 @@ export interface TruthComparison {
   estimators: Record<string, { chiN: number; error: number; relativeError: number; exchangeFieldRelativeL2?: number }>;
 }
 
-export function readTruthSidecar(path: string): { chiN: number } {
-  return loadJsonFile(path, truthSidecarSchema);
+export function readTruthSidecar(path: string): SynthTruth {
+  return readFormat(path, synthTruthSchema);
 }
 
 export function compareWithTruth(source: string, truthChiN: number, chain: ChainSpec, cl: ClassicalEstimate, ne?: NetworkEstimate): TruthComparison {

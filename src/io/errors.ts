@@ -4,6 +4,8 @@
  */
 import type { z } from 'zod';
 import { ModelError } from '../physics/chain.js';
+import { formatValue } from './number-format.js';
+import { version1Message } from './schemas/config-version.js';
 
 export class InputError extends Error {
   readonly exitCode = 2;
@@ -24,8 +26,9 @@ export class RunFailure extends Error {
 /** A value as a message shows it (non-finite numbers by name: JSON would print them as null). */
 export function describeValue(v: unknown): string {
   if (v === undefined) return 'nothing (missing)';
-  if (typeof v === 'number' && !Number.isFinite(v)) return String(v);
-  const s = JSON.stringify(v);
+  // A long list is described by its length (what a check on it is about), not its contents.
+  if (Array.isArray(v) && v.length > 8) return `${v.length} values`;
+  const s = formatValue(v);
   return s.length > 80 ? `${s.slice(0, 77)}...` : s;
 }
 
@@ -68,6 +71,9 @@ export function formatZodError(error: z.ZodError, input: unknown, source: string
 
 /** Parse with a schema, throwing an InputError that lists every invalid field. */
 export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, source: string): z.infer<S> {
+  // A version-1 config gets the list of renames it needs, not a page of unknown fields.
+  const old = version1Message(input, source);
+  if (old) throw new InputError(old);
   const r = schema.safeParse(input);
   if (!r.success) throw new InputError(formatZodError(r.error, input, source));
   return r.data;

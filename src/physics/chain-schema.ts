@@ -17,10 +17,11 @@ export const blockSchema = z
   })
   .strict();
 
-const segmentLengthsSchema = z
-  .object({ A: z.number().gt(0).lte(10).default(1), B: z.number().gt(0).lte(10).default(1) })
-  .strict()
-  .default({ A: 1, B: 1 });
+/**
+ * Conformational asymmetry b_A/b_B. Lengths are in Rg of a chain whose segments all have the
+ * reference length b = b_B, so the blocks get segment lengths { A: r, B: 1 }.
+ */
+const segmentRatioSchema = z.number().gt(0).lte(10).default(1);
 
 export const chainSchema = z.discriminatedUnion('type', [
   z
@@ -28,7 +29,7 @@ export const chainSchema = z.discriminatedUnion('type', [
       type: z.literal('diblock'),
       /** A volume (length) fraction of the chain. */
       f: fraction,
-      segmentLengths: segmentLengthsSchema,
+      segmentRatio: segmentRatioSchema,
     })
     .strict(),
   z
@@ -38,7 +39,7 @@ export const chainSchema = z.discriminatedUnion('type', [
       f: fraction,
       /** Share of the A material in the first A block; 0.5 is the symmetric ABA. */
       firstBlockShare: z.number().gt(0).lt(1).default(0.5),
-      segmentLengths: segmentLengthsSchema,
+      segmentRatio: segmentRatioSchema,
     })
     .strict(),
   z

@@ -60,16 +60,16 @@ function rawBlocks(spec: ChainSpec): RawBlock[] {
   switch (spec.type) {
     case 'diblock':
       return [
-        { species: 'A', fraction: spec.f, segmentLength: spec.segmentLengths.A },
-        { species: 'B', fraction: 1 - spec.f, segmentLength: spec.segmentLengths.B },
+        { species: 'A', fraction: spec.f, segmentLength: spec.segmentRatio },
+        { species: 'B', fraction: 1 - spec.f, segmentLength: 1 },
       ];
     case 'triblock': {
       const a1 = spec.f * spec.firstBlockShare;
       const a2 = spec.f - a1;
       return [
-        { species: 'A', fraction: a1, segmentLength: spec.segmentLengths.A },
-        { species: 'B', fraction: 1 - spec.f, segmentLength: spec.segmentLengths.B },
-        { species: 'A', fraction: a2, segmentLength: spec.segmentLengths.A },
+        { species: 'A', fraction: a1, segmentLength: spec.segmentRatio },
+        { species: 'B', fraction: 1 - spec.f, segmentLength: 1 },
+        { species: 'A', fraction: a2, segmentLength: spec.segmentRatio },
       ];
     }
     case 'homopolymer':

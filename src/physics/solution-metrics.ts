@@ -13,8 +13,8 @@ export interface SolutionMetrics {
   QRelativeError: number;
   /** F − F_reference, kT per chain. */
   freeEnergyError: number;
-  /** Incompressibility of the candidate: max |φA + φB − 1|. */
-  incompressibilityMax: number;
+  /** Incompressibility of the candidate: max |φA + φB − 1|; absent for a chain in prescribed fields, where φA + φB = 1 is no constraint. */
+  incompressibilityMax?: number;
 }
 
 export function relL2(u: ArrayLike<number>, r: ArrayLike<number>): number {
@@ -33,10 +33,20 @@ function maxAbs(u: ArrayLike<number>, r: ArrayLike<number>): number {
   return m;
 }
 
+/**
+ * The one same-grid check: why two solutions cannot be compared point by point (another
+ * grid size, cell length or cell kind), or null when they can. Lengths agree to 1e-9 relative.
+ */
+export function gridMismatch(a: Pick<ScftSolution, 'nx' | 'length' | 'cell'>, b: Pick<ScftSolution, 'nx' | 'length' | 'cell'>): string | null {
+  if (a.nx !== b.nx) return `nx = ${a.nx} against nx = ${b.nx}`;
+  if (Math.abs(a.length - b.length) > 1e-9 * Math.max(1, Math.abs(b.length))) return `cell length ${a.length} Rg against ${b.length} Rg`;
+  if (a.cell.kind !== b.cell.kind) return `a ${a.cell.kind} cell against a ${b.cell.kind} cell`;
+  return null;
+}
+
 export function compareSolutions(candidate: ScftSolution, reference: ScftSolution): SolutionMetrics {
-  if (candidate.nx !== reference.nx || Math.abs(candidate.length - reference.length) > 1e-9 * reference.length) {
-    throw new Error(`compareSolutions: grids differ (nx ${candidate.nx} vs ${reference.nx}, L ${candidate.length} vs ${reference.length})`);
-  }
+  const mismatch = gridMismatch(candidate, reference);
+  if (mismatch) throw new Error(`compareSolutions: grids differ (${mismatch})`);
   const nx = reference.nx;
   const exC = new Float64Array(nx);
   const exR = new Float64Array(nx);
@@ -51,6 +61,6 @@ export function compareSolutions(candidate: ScftSolution, reference: ScftSolutio
     exchangeField: { relativeL2: relL2(exC, exR), maxError: maxAbs(exC, exR) },
     QRelativeError: Math.abs(candidate.Q / reference.Q - 1),
     freeEnergyError: candidate.freeEnergy - reference.freeEnergy,
-    incompressibilityMax,
+    ...(reference.system.externalField ? {} : { incompressibilityMax }),
   };
 }

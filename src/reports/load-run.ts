@@ -15,16 +15,18 @@
  * an InputError naming the file and field.
  */
 import { readdirSync, statSync } from 'node:fs';
-import { join } from 'node:path';
 import { z } from 'zod';
+import { join } from 'node:path';
 import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
 import { readJsonFile } from '../io/load-json.js';
-import { solutionFileSchema } from '../io/solution-file.js';
-import type { SolutionFile } from '../io/solution-file.js';
+import { solutionFileSchema } from '../io/formats/solution.js';
+import { checkpointFileSchema } from '../io/formats/training.js';
+import { inversionResultSchema } from '../io/formats/inversion.js';
+import { shardFileSchema, sweepTableSchema } from '../io/formats/sweep.js';
+import type { InversionResultFile } from '../io/formats/inversion.js';
+import type { SolutionFile } from '../io/formats/solution.js';
 import { buildChain } from '../physics/chain.js';
-import type { Cell } from '../physics/cell/cell.js';
-import { DEFAULT_WALL_RANGE, FilmCell } from '../physics/cell/film-cell.js';
-import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import { makeCell } from '../physics/cell/make-cell.js';
 import { contourWithTotal } from '../physics/contour.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { FilmInput, ReportInput, RunInfo } from './report-inputs.js';
@@ -36,40 +38,8 @@ import { readSweep } from './readers/sweep-file.js';
 import { readTrainMetrics } from './readers/train-metrics.js';
 import { trainingRecords } from './readers/training-history.js';
 import { countLayers } from '../spectral/film-solve.js';
+import { assertSameGrid } from './solution-differences.js';
 
-const summaryNumbers = z.object({
-  solver: z.enum(['spectral', 'network', 'surrogate']),
-  period: z.number().nullable(),
-  periodTolerance: z.number().optional(),
-  Q: z.number(),
-  QDagger: z.number(),
-  freeEnergy: z.number(),
-  freeEnergyDisordered: z.number().nullable(),
-  amplitude: z.number(),
-  iterations: z.number(),
-  residual: z.number(),
-  converged: z.boolean(),
-  seconds: z.number(),
-  notes: z.array(z.string()).default([]),
-});
-
-const traceSchema = z.array(z.object({ period: z.number(), freeEnergy: z.number(), phase: z.string(), iterations: z.number() }));
-const provenanceSchema = z.object({ version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string().optional(), tfjs: z.string().optional() }).passthrough();
-const wallsSchema = z.object({ bottom: z.object({ affinity: z.number() }), top: z.object({ affinity: z.number() }), range: z.number().default(DEFAULT_WALL_RANGE) }).passthrough();
-const filmConfigSchema = z.object({ cell: z.object({ kind: z.literal('film'), walls: wallsSchema.optional() }).passthrough() }).passthrough();
-const filmExtrasSchema = z
-  .object({
-    film: z.object({ layers: z.object({ A: z.number(), B: z.number(), sequence: z.string() }), freeEnergyPerArea: z.number() }).optional(),
-    thicknessScan: z
-      .object({
-        points: z.array(z.object({ thickness: z.number(), freeEnergy: z.number(), freeEnergyPerArea: z.number(), phase: z.string(), layers: z.string(), converged: z.boolean() }).passthrough()),
-        minima: z.array(z.object({ thickness: z.number(), freeEnergy: z.number(), layers: z.string() })),
-        stable: z.array(z.number()),
-      })
-      .optional(),
-    runSeconds: z.number().optional(),
-  })
-  .passthrough();
 /** The parts of a film-fit result (inverse/film/film-fit-run.ts) that the report draws. */
 const levelSchema = z.object({ lo: z.number(), hi: z.number(), deltaChi2: z.number() }).passthrough();
 const filmFitFileSchema = z
@@ -111,57 +81,34 @@ interface LoadedSolution {
   file: string;
   data: SolutionFile;
   solution: ScftSolution;
-  trace?: z.infer<typeof traceSchema>;
-  provenance: z.infer<typeof provenanceSchema>;
+  trace?: SolutionFile['periodSearch'];
+  provenance: SolutionFile['provenance'];
   film?: FilmInput;
   runSeconds?: number;
 }
 
-function checkPropagators(path: string, d: SolutionFile): void {
-  const p = d.propagators;
-  if (!p) return;
-  const ns = d.summary.ns;
-  if (p.s.length !== ns + 1) throw new InputError(`${path}: propagators.s: got ${p.s.length} contour points; must hold summary.ns + 1 = ${ns + 1}`);
-  for (const k of ['q', 'qDagger'] as const) {
-    if (p[k].length !== ns + 1) throw new InputError(`${path}: propagators.${k}: got ${p[k].length} rows; must hold summary.ns + 1 = ${ns + 1} (one per contour point)`);
-    const bad = p[k].findIndex((r) => r.length !== d.summary.nx);
-    if (bad >= 0) throw new InputError(`${path}: propagators.${k}[${bad}]: got ${p[k][bad].length} values; must hold summary.nx = ${d.summary.nx}`);
-  }
-}
-
 function loadSolution(path: string, raw: unknown): LoadedSolution {
   const data = parseOrThrow(solutionFileSchema, raw, path);
-  const s = parseOrThrow(summaryNumbers, data.summary, `${path}: summary`);
-  const provenance = parseOrThrow(provenanceSchema, data.provenance, `${path}: provenance`);
-  const extras = parseOrThrow(filmExtrasSchema, raw, path);
-  checkPropagators(path, data);
-  const rawTrace = (raw as Record<string, unknown>).periodSearch;
-  const trace = rawTrace === undefined ? undefined : parseOrThrow(traceSchema, rawTrace, `${path}: periodSearch`);
+  const s = data.summary;
   let chain;
+  let cell;
   try {
     chain = buildChain(data.system.chain);
+    cell = makeCell(data.cell, `${path}: cell`);
   } catch (e) {
     throw asInputError(e, path);
-  }
-  const filmConfig = filmConfigSchema.safeParse(data.config);
-  const walls = filmConfig.success ? (filmConfig.data.cell.walls ?? { bottom: { affinity: 0 }, top: { affinity: 0 }, range: DEFAULT_WALL_RANGE }) : undefined;
-  let cell: Cell;
-  try {
-    cell = walls ? new FilmCell(data.summary.length, data.summary.nx, { bottom: walls.bottom, top: walls.top, range: walls.range }) : new PeriodicCell(data.summary.length, data.summary.nx, data.summary.periods);
-  } catch (e) {
-    throw asInputError(e, `${path}: summary`);
   }
   const f64 = (a: number[]): Float64Array => Float64Array.from(a);
   const solution: ScftSolution = {
     solver: s.solver,
     system: data.system,
     cell,
-    contour: contourWithTotal(chain, data.summary.ns),
-    length: data.summary.length,
-    periods: data.summary.periods,
+    contour: contourWithTotal(chain, s.ns),
+    length: s.length,
+    periods: s.periods,
     period: s.period ?? Number.NaN,
-    nx: data.summary.nx,
-    ns: data.summary.ns,
+    nx: s.nx,
+    ns: s.ns,
     x: f64(data.grid.x),
     phi: { A: f64(data.grid.phiA), B: f64(data.grid.phiB) },
     w: { A: f64(data.grid.wA), B: f64(data.grid.wB) },
@@ -169,7 +116,7 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
     QDagger: s.QDagger,
     freeEnergy: s.freeEnergy,
     freeEnergyDisordered: s.freeEnergyDisordered ?? Number.NaN,
-    phase: data.summary.phase as ScftSolution['phase'],
+    phase: s.phase,
     amplitude: s.amplitude,
     iterations: s.iterations,
     residual: s.residual,
@@ -178,17 +125,18 @@ function loadSolution(path: string, raw: unknown): LoadedSolution {
     notes: s.notes,
     ...(data.propagators ? { propagators: { s: f64(data.propagators.s), q: data.propagators.q.map(f64), qDagger: data.propagators.qDagger.map(f64) } } : {}),
   };
+  const walls = data.cell.kind === 'film' ? data.cell.walls : undefined;
   const film: FilmInput | undefined = walls
     ? {
         solution,
-        thickness: data.summary.length,
+        thickness: s.length,
         walls: { bottom: walls.bottom.affinity, top: walls.top.affinity, range: walls.range },
-        layers: extras.film?.layers ?? countLayers(solution.phi),
-        ...(extras.film ? { freeEnergyPerArea: extras.film.freeEnergyPerArea } : {}),
-        ...(extras.thicknessScan ? { scan: extras.thicknessScan } : {}),
+        layers: data.film?.layers ?? countLayers(solution.phi),
+        ...(data.film ? { freeEnergyPerArea: data.film.freeEnergyPerArea } : {}),
+        ...(data.thicknessScan ? { scan: data.thicknessScan } : {}),
       }
     : undefined;
-  return { file: path, data, solution, trace, provenance, film, runSeconds: extras.runSeconds };
+  return { file: path, data, solution, trace: data.periodSearch, provenance: data.provenance, film, runSeconds: data.runSeconds };
 }
 
 function pickOne(list: LoadedSolution[], solver: string, dir: string): LoadedSolution | undefined {
@@ -232,7 +180,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   let inv: InversionRead | undefined;
   let invConfig: unknown;
   let sweep: ReturnType<typeof readSweep> | undefined;
-  let sweepProvenance: z.infer<typeof provenanceSchema> | undefined;
+  let sweepProvenance: SolutionFile['provenance'] | undefined;
   let filmFit: ReportInput['filmFit'];
   let surrogate: ReportInput['surrogate'];
   for (const name of names) {
@@ -242,11 +190,12 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     if (kind === 'solution') {
       solutions.push(loadSolution(path, raw));
     } else if (kind === 'inversion') {
-      inv = readInversion(raw, path);
-      invConfig = (raw as Record<string, unknown>).config;
+      const file = parseOrThrow(inversionResultSchema, raw, path);
+      inv = readInversion(file);
+      invConfig = file.config;
       // The network estimator's χN trajectory (first seed), against the classical estimate.
-      const ests = (raw as { estimators: Record<string, { chiN: number; runs?: { trajectory?: { step: number; chiN: number }[] }[] }> }).estimators;
-      const traj = ests.network?.runs?.[0]?.trajectory?.filter((p) => Number.isFinite(p.chiN));
+      const ests = file.estimators;
+      const traj = ests.network?.runs?.[0]?.trajectory?.filter((p): p is { step: number; chiN: number } => p.chiN !== null && Number.isFinite(p.chiN));
       if (traj && traj.length > 1 && !training) {
         const cl = ests.classical;
         training = { records: [], phases: [], wallClock: false, chiNTrajectory: traj, ...(cl ? { chiNReference: { value: cl.chiN, label: 'classical estimate' } } : {}) };
@@ -256,12 +205,14 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       filmFit = filmFitInput(parseOrThrow(filmFitFileSchema, raw, path));
       read.push(path);
     } else if (kind === 'checkpoint') {
-      training = trainingRecords((raw as Record<string, unknown>).history, path);
+      // A training checkpoint (training/checkpoint.ts), read through its schema: its history is the training page.
+      training = trainingRecords(parseOrThrow(checkpointFileSchema, raw, path).history, path);
     } else if (kind === 'sweep-table' || kind === 'sweep-shard') {
       // A merged table wins over its shards.
       if (!sweep || kind === 'sweep-table') {
-        sweep = readSweep(raw, path);
-        sweepProvenance = parseOrThrow(provenanceSchema, (raw as Record<string, unknown>).provenance, `${path}: provenance`);
+        const file = kind === 'sweep-table' ? parseOrThrow(sweepTableSchema, raw, path) : parseOrThrow(shardFileSchema, raw, path);
+        sweep = readSweep(file, path);
+        sweepProvenance = file.provenance;
       }
     } else if (kind === 'surrogate-checkpoint') {
       surrogate = surrogateInput(raw, path);
@@ -287,9 +238,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     const a = JSON.stringify(reference.data.system);
     const b = JSON.stringify(network.data.system);
     if (a !== b) throw new InputError(`${network.file}: system ${b} differs from the reference's (${reference.file}: ${a}); a report compares solutions of one system`);
-    if (reference.solution.nx !== network.solution.nx || Math.abs(reference.solution.length - network.solution.length) > 1e-9 * reference.solution.length) {
-      throw new InputError(`${network.file}: grid nx = ${network.solution.nx}, L = ${network.solution.length} Rg differs from the reference's (${reference.file}: nx = ${reference.solution.nx}, L = ${reference.solution.length} Rg); compare on the same grid`);
-    }
+    assertSameGrid(reference.solution, network.solution, `${network.file} against ${reference.file}`);
   }
   // Without a spectral reference a network solution is shown alone, as "reference" curves.
   const shown = reference ?? network!;
@@ -326,13 +275,13 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     filmFit,
     surrogate,
     film,
-    periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: (main.data.summary as Record<string, unknown>).periodTolerance as number | undefined } : undefined,
+    periodSearch: main.trace ? { trace: main.trace, period: main.solution.period, periodTolerance: main.data.summary.periodTolerance } : undefined,
   };
   if (!shown.solution.propagators && !film && !inv && !training) notes.push(`${shown.file}: no propagators stored (solve with --propagators to get the q(x, s) page)`);
   return { input, read, notes };
 }
 
-function sweepRun(dir: string, s: ReturnType<typeof readSweep>, provenance: z.infer<typeof provenanceSchema>): ReportInput {
+function sweepRun(dir: string, s: ReturnType<typeof readSweep>, provenance: SolutionFile['provenance']): ReportInput {
   return {
     info: { kind: 'sweep', source: dir, system: s.system, period: Number.NaN, settings: settingRows(s.config), provenance, runSeconds: s.solverSeconds, runSecondsNote: 'solver time summed over the points (points on several workers run at once)' },
     sweep: s.sweep,

@@ -204,7 +204,7 @@ export interface NetworkMetricsInput {
 export interface SweepPointInput {
   chiN: number;
   f: number;
-  segmentLengthRatio: number;
+  segmentRatio: number;
   phase: string;
   period: number | null;
   freeEnergy: number | null;

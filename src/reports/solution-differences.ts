@@ -4,13 +4,12 @@
  */
 import { InputError } from '../io/errors.js';
 import type { ScftSolution } from '../physics/result.js';
+import { gridMismatch } from '../physics/solution-metrics.js';
 
 /** Two solutions can be compared point by point only on the same cell and grid. */
 export function assertSameGrid(reference: ScftSolution, other: ScftSolution, where: string): void {
-  if (reference.nx !== other.nx) throw new InputError(`${where}: the network solution has nx = ${other.nx} but the reference has nx = ${reference.nx}; both must be on the same grid`);
-  if (Math.abs(reference.length - other.length) > 1e-9 * Math.max(1, reference.length)) {
-    throw new InputError(`${where}: the network cell length is ${other.length} Rg but the reference's is ${reference.length} Rg; both must describe the same cell`);
-  }
+  const mismatch = gridMismatch(other, reference);
+  if (mismatch) throw new InputError(`${where}: the network solution and the reference differ (${mismatch}); both must be on the same cell and grid`);
 }
 
 export function difference(a: ArrayLike<number>, b: ArrayLike<number>): Float64Array {

@@ -1,45 +1,19 @@
 /**
  * The report input of a surrogate checkpoint (checkpoint.json of kind "surrogate-checkpoint",
- * written by src/surrogate/surrogate-checkpoint.ts): only the parts the report draws are
- * checked here, so the report does not load the trainer's modules.
+ * read through its one schema, io/formats/surrogate.ts, which loads no network code).
  */
-import { z } from 'zod';
-import { parseOrThrow } from '../io/errors.js';
+import { InputError, parseOrThrow } from '../io/errors.js';
+import { surrogateCheckpointSchema } from '../io/formats/surrogate.js';
 import { periodAt } from '../surrogate/period-model.js';
 import { PARAMETER_LABELS } from '../surrogate/parameter-space.js';
 import { sig } from './format.js';
 import type { SurrogateInput } from './report-inputs.js';
 
-const point = z.record(z.string(), z.number());
-
-const surrogateFileSchema = z.object({
-  periodModel: z.object({ axes: z.array(z.array(z.number())), periods: z.array(z.number()) }),
-  anchors: z.array(z.object({ point, period: z.number() }).passthrough()),
-  history: z.array(z.object({ round: z.number(), residual: z.number().nullable(), fitLoss: z.number(), phiError: z.number().optional() }).passthrough()),
-  metrics: z
-    .object({
-      parameters: z.array(z.object({ name: z.string(), min: z.number(), max: z.number(), anchors: z.number() })).min(1),
-      heldOut: z.array(
-        z
-          .object({
-            point,
-            phiA: z.object({ relativeL2: z.number() }).passthrough(),
-            freeEnergyError: z.number(),
-            period: z.object({ reference: z.number(), relativeError: z.number() }).passthrough(),
-            anchorInterpolationPhiA: z.number(),
-          })
-          .passthrough(),
-      ),
-      timing: z
-        .object({ querySeconds: z.number(), referenceSolveSeconds: z.number(), speedup: z.number(), buildSeconds: z.number(), equivalentReferenceSolves: z.number(), extraSolves: z.object({ count: z.number() }).passthrough() })
-        .passthrough(),
-    })
-    .passthrough(),
-});
 
 export function surrogateInput(raw: unknown, path: string): SurrogateInput {
-  const file = parseOrThrow(surrogateFileSchema, raw, path);
+  const file = parseOrThrow(surrogateCheckpointSchema, raw, path);
   const m = file.metrics;
+  if (!m) throw new InputError(`${path}: metrics: missing; a surrogate checkpoint carries its error map once training finished (train it again)`);
   const names = m.parameters.map((p) => p.name);
   const values = (p: Record<string, number>) => names.map((n) => p[n]);
   const t = m.timing;

@@ -109,20 +109,20 @@ export function solveFromConfig(config: Pick<SolveConfig, 'system' | 'cell' | 's
       return { solution, film };
     });
   }
-  const optimize = cell.period === 'optimize';
-  if (optimize) {
+  const searchPeriod = cell.period === 'equilibrium';
+  if (searchPeriod) {
     if (chain.species.length < 2) {
-      throw new InputError(`cell.period: got "optimize"; a period search needs a chain with both A and B blocks (${chain.label} has one species): give a number`);
+      throw new InputError(`cell.period: got "equilibrium"; a period search needs a chain with both A and B blocks (${chain.label} has one species): give a number`);
     }
     if (config.system.externalField) {
-      throw new InputError('cell.period: got "optimize"; a chain in prescribed external fields has no equilibrium period: give a number');
+      throw new InputError('cell.period: got "equilibrium"; a chain in prescribed external fields has no equilibrium period: give a number');
     }
   }
-  const length = (cell.period === 'optimize' ? periodGuess(config.system, chain) : cell.period) * cell.periods;
+  const length = (cell.period === 'equilibrium' ? periodGuess(config.system, chain) : cell.period) * cell.periods;
   const nx = cell.nx === 'auto' ? defaultGridPoints(chain, chiN, length) : cell.nx;
   let guess: number | undefined;
   return solveResolved(chain, cell, { nx, ns }, hooks.initial, (n, contour, initial) => {
-    if (!optimize) return { solution: solveFittingPeriods({ ...common, contour, initial, cell: new PeriodicCell(length, n, cell.periods) }, chain) };
+    if (!searchPeriod) return { solution: solveFittingPeriods({ ...common, contour, initial, cell: new PeriodicCell(length, n, cell.periods) }, chain) };
     const search = findEquilibriumPeriod({ ...common, contour, initial, cell: new PeriodicCell(1, n, cell.periods), guess, onEvaluation: hooks.onEvaluation });
     if (Number.isFinite(search.period)) guess = search.period;
     return { solution: search.solution, search };

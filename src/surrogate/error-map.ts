@@ -32,7 +32,7 @@ export interface HeldOutError {
 /** The surrogate's solution moved onto the reference's cell (same t_j = j/nx), for comparing profiles. */
 export function onReferenceCell(sol: ScftSolution, ref: ScftSolution): ScftSolution {
   if (sol.nx !== ref.nx) throw new Error(`onReferenceCell: nx ${sol.nx} vs ${ref.nx}`);
-  return { ...sol, length: ref.length, period: ref.period, x: ref.x, notes: [...sol.notes, `drawn on the reference cell at t = x/L* (L* = ${ref.period.toFixed(6)} Rg); the surrogate's own period is L(θ) = ${sol.period.toFixed(6)} Rg`] };
+  return { ...sol, cell: ref.cell, length: ref.length, period: ref.period, x: ref.x, notes: [...sol.notes, `drawn on the reference cell at t = x/L* (L* = ${ref.period.toFixed(6)} Rg); the surrogate's own period is L(θ) = ${sol.period.toFixed(6)} Rg`] };
 }
 
 /** Multilinear interpolation of the anchors' φ_A(t) at p (anchors in ParameterSpace.anchors() order). */

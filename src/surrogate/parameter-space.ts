@@ -2,9 +2,10 @@
  * The parameter box of a surrogate: which of χN, f, b_A/b_B vary, their ranges, the anchor
  * grid (reference solves), held-out points, uniform draws, and the networks' normalised
  * inputs θ̂ = (θ − mid)/half-range ∈ [−1, 1] per varying parameter.
- * χN and f as in SCFT-NOTES.md; a ratio r = b_A/b_B sets segment lengths { A: r, B: 1 }.
+ * χN and f as in SCFT-NOTES.md; a ratio r = b_A/b_B is the chain's segmentRatio (segment lengths { A: r, B: 1 }).
  */
 import { InputError } from '../io/errors.js';
+import { formatNumber } from '../io/number-format.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
 import { buildChain, ModelError } from '../physics/chain.js';
@@ -12,7 +13,7 @@ import type { Chain } from '../physics/chain.js';
 import { Xorshift128 } from '../numerics/random.js';
 import { pointSystem } from '../sweep/grid.js';
 
-export const PARAMETER_NAMES = ['chiN', 'f', 'segmentLengthRatio'] as const;
+export const PARAMETER_NAMES = ['chiN', 'f', 'segmentRatio'] as const;
 export type ParameterName = (typeof PARAMETER_NAMES)[number];
 export type ParameterPoint = Record<ParameterName, number>;
 
@@ -20,7 +21,7 @@ export type ParameterPoint = Record<ParameterName, number>;
 export const PARAMETER_LABELS: Record<ParameterName, { flag: string; symbol: string }> = {
   chiN: { flag: '--chiN', symbol: 'χN' },
   f: { flag: '--f', symbol: 'f' },
-  segmentLengthRatio: { flag: '--ratio', symbol: 'b_A/b_B' },
+  segmentRatio: { flag: '--segment-ratio', symbol: 'b_A/b_B' },
 };
 
 export interface Axis {
@@ -31,12 +32,12 @@ export interface Axis {
 }
 
 export class ParameterSpace {
-  /** The varying parameters, in the order chiN, f, segmentLengthRatio. */
+  /** The varying parameters, in the order chiN, f, segmentRatio. */
   readonly axes: Axis[];
   /** Values of the parameters that do not vary. */
   readonly fixed: Partial<ParameterPoint>;
 
-  constructor(readonly config: Pick<SurrogateConfig, 'chain' | 'parameters'>) {
+  constructor(readonly config: Pick<SurrogateConfig, 'system' | 'parameters'>) {
     const axes: Axis[] = [];
     const fixed: Partial<ParameterPoint> = {};
     for (const name of PARAMETER_NAMES) {
@@ -124,14 +125,23 @@ export class ParameterSpace {
   /** Why p lies outside the trained box (one message per parameter), or [] inside it. */
   outside(p: ParameterPoint): string[] {
     const out: string[] = [];
+    for (const a of this.axes) {
+      const { flag, symbol } = PARAMETER_LABELS[a.name];
+      if (!(p[a.name] >= a.min && p[a.name] <= a.max)) out.push(`${flag}: got ${formatNumber(p[a.name])}; the surrogate was trained for ${symbol} in [${formatNumber(a.min)}, ${formatNumber(a.max)}]`);
+    }
+    return out;
+  }
+
+  /**
+   * Parameters given away from the value the surrogate was trained at: its network has no
+   * input for them, so no answer exists there (refused even when extrapolation is allowed).
+   */
+  offFixed(p: ParameterPoint): string[] {
+    const out: string[] = [];
     for (const name of PARAMETER_NAMES) {
       const { flag, symbol } = PARAMETER_LABELS[name];
-      const a = this.axes.find((x) => x.name === name);
-      if (a) {
-        if (!(p[name] >= a.min && p[name] <= a.max)) out.push(`${flag}: got ${p[name]}; the surrogate was trained for ${symbol} in [${a.min}, ${a.max}]`);
-      } else if (p[name] !== this.fixed[name]) {
-        out.push(`${flag}: got ${p[name]}; the surrogate was trained at the fixed ${symbol} = ${this.fixed[name]} only`);
-      }
+      if (this.axes.some((x) => x.name === name)) continue;
+      if (p[name] !== this.fixed[name]) out.push(`${flag}: got ${formatNumber(p[name])}; the surrogate was trained at the fixed ${symbol} = ${formatNumber(this.fixed[name])} only (it has no input for ${symbol}; train a surrogate over a range of ${symbol})`);
     }
     return out;
   }

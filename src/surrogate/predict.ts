@@ -4,6 +4,7 @@
  * Units: x and the period in Rg, t = x/L, fields and F in kT per chain.
  */
 import { InputError } from '../io/errors.js';
+import { formatNumber } from '../io/number-format.js';
 import type { ParameterPoint } from './parameter-space.js';
 import type { SurrogateModel } from './surrogate-model.js';
 
@@ -20,6 +21,10 @@ export interface Prediction {
   freeEnergyDisordered: number;
   /** max |w_out − w| of the surrogate's fields (kT): how far they are from self-consistent. */
   residual: number;
+  /** max |φA + φB − 1| of the single-chain solve in the surrogate's fields. */
+  incompressibilityMax: number;
+  /** Extrapolated answers only: the checks it failed (read it as unreliable). */
+  warnings: string[];
   x: number[];
   t: number[];
   phiA: number[];
@@ -46,7 +51,12 @@ function nextPowerOfTwo(n: number): number {
  * config's grid or the next power of two ≥ points (the FFT needs one); other point counts
  * are read off by trigonometric interpolation (exact for the band-limited grid values).
  */
+/** Limits an extrapolated answer must meet to be shown as an answer (common practice, no source: well above the trained surrogate's own levels). */
+export const EXTRAPOLATION_LIMITS = { incompressibility: 1e-3, residual: 0.1 };
+
 export function predictAt(model: SurrogateModel, p: ParameterPoint, opts: { points?: number; allowExtrapolation?: boolean } = {}): Prediction {
+  const offFixed = model.space.offFixed(p);
+  if (offFixed.length) throw new InputError(`${offFixed.join('\n')}\n--allow-extrapolation does not apply: the surrogate cannot vary a parameter it was trained at one value of`);
   const outside = model.space.outside(p);
   if (outside.length && !opts.allowExtrapolation) {
     throw new InputError(`${outside.join('\n')}\nthe surrogate answers only inside the range it was trained and checked on; pass --allow-extrapolation to predict outside it anyway (its error there is unknown)`);
@@ -65,9 +75,18 @@ export function predictAt(model: SurrogateModel, p: ParameterPoint, opts: { poin
     wA: at(sol.w.A),
     wB: at(sol.w.B),
   };
+  let incompressibilityMax = 0;
+  for (let j = 0; j < sol.nx; j++) incompressibilityMax = Math.max(incompressibilityMax, Math.abs(sol.phi.A[j] + sol.phi.B[j] - 1));
+  const warnings: string[] = [];
+  if (outside.length) {
+    if (incompressibilityMax > EXTRAPOLATION_LIMITS.incompressibility) warnings.push(`φA + φB departs from 1 by up to ${formatNumber(incompressibilityMax, 2)} (limit ${EXTRAPOLATION_LIMITS.incompressibility})`);
+    if (sol.residual > EXTRAPOLATION_LIMITS.residual) warnings.push(`the field residual is ${formatNumber(sol.residual, 2)} kT (limit ${EXTRAPOLATION_LIMITS.residual} kT): the fields are far from self-consistent`);
+  }
   return {
     point: p,
     outside,
+    incompressibilityMax,
+    warnings,
     phase: sol.phase,
     period: L,
     Q: sol.Q,

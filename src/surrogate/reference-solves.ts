@@ -15,10 +15,10 @@ import { solveFromConfig } from '../spectral/solve-from-config.js';
 import type { ParameterPoint, ParameterSpace } from './parameter-space.js';
 
 export function solveReference(space: ParameterSpace, config: SurrogateConfig, p: ParameterPoint, opts: { period?: number; initial?: SpeciesArrays; role: string }): ScftSolution {
-  const cell = { kind: 'periodic' as const, period: opts.period ?? ('optimize' as const), periods: 1, nx: config.cell.nx, ns: config.cell.ns };
+  const cell = { kind: 'periodic' as const, period: opts.period ?? ('equilibrium' as const), periods: 1, nx: config.cell.nx, ns: config.cell.ns };
   let solution: ScftSolution;
   try {
-    solution = solveFromConfig({ system: space.system(p), cell, solver: config.reference, output: { propagators: false } }, { initial: opts.initial }).solution;
+    solution = solveFromConfig({ system: space.system(p), cell, solver: config.solver, output: { propagators: false } }, { initial: opts.initial }).solution;
   } catch (e) {
     // The period search gives up with a RunFailure (a trial that does not converge): say where.
     if (e instanceof RunFailure) throw new RunFailure(`reference solve at the ${opts.role} ${space.describe(p)} failed: ${e.message}`);

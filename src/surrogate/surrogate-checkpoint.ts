@@ -9,44 +9,19 @@
  *                    surrogate on the reference's cell (t = x/L), for the report's profile pages
  * Written whole and swapped in (io/atomic-write.ts).
  */
-import { z } from 'zod';
-import { surrogateConfigSchema } from '../io/schemas/surrogate-config.js';
+import type { z } from 'zod';
+import { SURROGATE_CHECKPOINT_VERSION, surrogateCheckpointSchema } from '../io/formats/surrogate.js';
+import type { SurrogateCheckpointFile } from '../io/formats/surrogate.js';
 import type { Tf } from '../autodiff/tf.js';
 import { readWeightsDirectory, writeWeightsDirectory } from '../training/checkpoint.js';
 import { InputError } from '../io/errors.js';
 import { SurrogateModel } from './surrogate-model.js';
 
-const pointSchema = z.object({ chiN: z.number(), f: z.number(), segmentLengthRatio: z.number() });
+export { surrogateCheckpointSchema, surrogateHistorySchema } from '../io/formats/surrogate.js';
+export type { SurrogateCheckpointFile, SurrogateHistoryEntry } from '../io/formats/surrogate.js';
 
-export const surrogateHistorySchema = z.object({
-  /** 0: the fit to the reference data; k ≥ 1: physics round k. */
-  round: z.number().int().min(0),
-  /** Largest SCFT residual max |d| (kT) over the round's points before its update (NaN for the fit). */
-  residual: z.number().nullable(),
-  fitLoss: z.number(),
-  seconds: z.number(),
-  /** Largest held-out φ_A relative L2 error, when evaluated. */
-  phiError: z.number().optional(),
-});
-
-export const surrogateCheckpointSchema = z.object({
-  kind: z.literal('surrogate-checkpoint'),
-  version: z.literal(1),
-  provenance: z.object({ tool: z.literal('mesofield'), version: z.string(), backend: z.string(), tfjs: z.string() }).passthrough(),
-  config: surrogateConfigSchema,
-  periodModel: z.object({ axes: z.array(z.array(z.number())), periods: z.array(z.number().gt(0)) }),
-  anchors: z.array(z.object({ point: pointSchema, period: z.number(), freeEnergy: z.number() })),
-  history: z.array(surrogateHistorySchema),
-  metrics: z.record(z.string(), z.unknown()).optional(),
-  weightSpecs: z.array(z.object({ name: z.string(), shape: z.array(z.number().int()), dtype: z.string() }).passthrough()),
-  weightBytes: z.number().int().min(0),
-});
-
-export type SurrogateCheckpointFile = z.infer<typeof surrogateCheckpointSchema>;
-export type SurrogateHistoryEntry = z.infer<typeof surrogateHistorySchema>;
-
-export async function saveSurrogate(tf: Tf, dir: string, meta: Omit<SurrogateCheckpointFile, 'kind' | 'version' | 'weightSpecs' | 'weightBytes'>, model: SurrogateModel, extraFiles: Record<string, string>): Promise<void> {
-  await writeWeightsDirectory(tf, dir, { kind: 'surrogate-checkpoint', version: 1, ...meta }, model.parameters.namedWeights(), extraFiles);
+export async function saveSurrogate(tf: Tf, dir: string, meta: Omit<z.input<typeof surrogateCheckpointSchema>, 'kind' | 'version' | 'weightSpecs' | 'weightBytes'>, model: SurrogateModel, extraFiles: Record<string, string>): Promise<void> {
+  await writeWeightsDirectory(tf, dir, surrogateCheckpointSchema, { kind: 'surrogate-checkpoint', version: SURROGATE_CHECKPOINT_VERSION, ...meta }, model.parameters.namedWeights(), extraFiles);
 }
 
 /** The surrogate of a checkpoint directory, rebuilt with its saved weights. */

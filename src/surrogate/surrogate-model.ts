@@ -84,7 +84,7 @@ export class SurrogateModel {
     return points.map((p, k) => {
       // The pressure gauge is a convention (mean of (w_A + w_B)/2 = 0, as the reference): fix it exactly.
       fixGauge(this.space.chain(p), fields[k]);
-      const sol = solveInFields({ system: this.space.system(p), cell: new PeriodicCell(this.period(p), nx, 1), contour: ns, options: this.config.reference, fields: fields[k] });
+      const sol = solveInFields({ system: this.space.system(p), cell: new PeriodicCell(this.period(p), nx, 1), contour: ns, options: this.config.solver, fields: fields[k] });
       return {
         ...sol,
         solver: 'surrogate' as const,

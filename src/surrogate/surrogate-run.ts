@@ -4,10 +4,13 @@
  * field network's fit and physics rounds, the error map, the query timing, the checkpoint.
  * The CLI's `train` hands surrogate configs here; tests call surrogateRun directly.
  */
+import { formatText } from '../io/formats/file-format.js';
+import { SURROGATE_METRICS_VERSION, surrogateMetricsSchema } from '../io/formats/surrogate.js';
+import type { SurrogateMetrics } from '../io/formats/surrogate.js';
 import { RunFailure } from '../io/errors.js';
 import { RunStopped, stopRequested, yieldToEvents } from '../runtime/stop.js';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
-import { solutionToFile } from '../io/solution-file.js';
+import { solutionToFile } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
 import { selectBackend } from '../autodiff/backend.js';
 import { childSeed, Xorshift128 } from '../numerics/random.js';
@@ -33,33 +36,7 @@ export interface SurrogateRunOptions {
   onRound?: (r: SurrogateHistoryEntry & { rounds: number }) => void;
 }
 
-export interface SurrogateMetrics {
-  kind: 'surrogate';
-  backend: string;
-  tfjs: string;
-  parameters: { name: string; min: number; max: number; anchors: number }[];
-  fixed: Partial<ParameterPoint>;
-  errors: ReturnType<typeof summarizeErrors>;
-  heldOut: HeldOutError[];
-  timing: {
-    /** Median wall time of one reference solve at the equilibrium period (anchors and held-out points), s. */
-    referenceSolveSeconds: number;
-    /** Median wall time of one surrogate query (fields + one propagator solve), after start-up, s. */
-    querySeconds: number;
-    /** referenceSolveSeconds / querySeconds. */
-    speedup: number;
-    anchorSeconds: number;
-    extraSolves: { count: number; seconds: number };
-    fitSeconds: number;
-    roundsSeconds: number;
-    /** Everything that built the surrogate (anchors, extra solves, fit, rounds; not the held-out check), s. */
-    buildSeconds: number;
-    /** buildSeconds / referenceSolveSeconds: the reference solves the same time would buy. */
-    equivalentReferenceSolves: number;
-    heldOutSeconds: number;
-  };
-  training: { fit: ReturnType<SurrogateTrainer['fit']>; rounds: number; lastResidual: number | null };
-}
+export type { SurrogateMetrics } from '../io/formats/surrogate.js';
 
 export interface SurrogateRunResult {
   metrics: SurrogateMetrics;
@@ -165,7 +142,8 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     const querySeconds = median(queries);
     const buildSeconds = anchorSeconds + extraSeconds + fit.seconds + roundsSeconds;
     const metrics: SurrogateMetrics = {
-      kind: 'surrogate',
+      kind: 'surrogate-metrics',
+    version: SURROGATE_METRICS_VERSION,
       backend: handle.backend,
       tfjs: handle.tfjsVersion,
       parameters: space.axes.map((a) => ({ ...a })),
@@ -199,11 +177,11 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
           periodModel,
           anchors: anchors.map((a) => ({ point: a.point, period: a.solution.period, freeEnergy: a.solution.freeEnergy })),
           history,
-          metrics: metrics as unknown as Record<string, unknown>,
+          metrics,
         },
         model,
         {
-          'metrics.json': `${JSON.stringify(metrics, null, 2)}\n`,
+          'metrics.json': formatText(surrogateMetricsSchema, metrics, 2),
           'reference.json': file(heldOut[worst].solution),
           'network.json': file(onReferenceCell(surrogate[worst], heldOut[worst].solution)),
         },

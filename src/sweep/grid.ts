@@ -15,10 +15,10 @@ export interface SweepPoint {
   chiN: number;
   f: number;
   /** b_A/b_B. */
-  segmentLengthRatio: number;
+  segmentRatio: number;
 }
 
-type Axis = SweepConfig['grid']['chiN'];
+type Axis = SweepConfig['parameters']['chiN'];
 
 export function axisValues(a: Axis): number[] {
   if (Array.isArray(a)) return a.slice();
@@ -29,22 +29,22 @@ export function axisValues(a: Axis): number[] {
 
 export function sweepPoints(config: SweepConfig): SweepPoint[] {
   const points: SweepPoint[] = [];
-  for (const f of axisValues(config.grid.f))
-    for (const segmentLengthRatio of axisValues(config.grid.segmentLengthRatio))
-      for (const chiN of axisValues(config.grid.chiN)) points.push({ index: points.length, chiN, f, segmentLengthRatio });
+  for (const f of axisValues(config.parameters.f))
+    for (const segmentRatio of axisValues(config.parameters.segmentRatio))
+      for (const chiN of axisValues(config.parameters.chiN)) points.push({ index: points.length, chiN, f, segmentRatio });
   return points;
 }
 
-export function pointSystem(config: Pick<SweepConfig, 'chain'>, p: Pick<SweepPoint, 'chiN' | 'f' | 'segmentLengthRatio'>): SystemSpec {
-  const segmentLengths = { A: p.segmentLengthRatio, B: 1 };
+export function pointSystem(config: Pick<SweepConfig, 'system'>, p: Pick<SweepPoint, 'chiN' | 'f' | 'segmentRatio'>): SystemSpec {
+  const shape = config.system.chain;
   const chain =
-    config.chain.type === 'triblock'
-      ? { type: 'triblock' as const, f: p.f, firstBlockShare: config.chain.firstBlockShare, segmentLengths }
-      : { type: 'diblock' as const, f: p.f, segmentLengths };
+    shape.type === 'triblock'
+      ? { type: 'triblock' as const, f: p.f, firstBlockShare: shape.firstBlockShare, segmentRatio: p.segmentRatio }
+      : { type: 'diblock' as const, f: p.f, segmentRatio: p.segmentRatio };
   return systemSchema.parse({ chain, chiN: p.chiN });
 }
 
 /** The solve config of one point: the library's reference solve does the rest. */
 export function pointSolveConfig(config: SweepConfig, p: SweepPoint): Pick<SolveConfig, 'system' | 'cell' | 'solver' | 'output'> {
-  return { system: pointSystem(config, p), cell: config.cell, solver: config.reference, output: { propagators: false } };
+  return { system: pointSystem(config, p), cell: config.cell, solver: config.solver, output: { propagators: false } };
 }

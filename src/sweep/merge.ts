@@ -10,7 +10,7 @@ import { loadJsonFile } from '../io/load-json.js';
 import { provenance } from '../io/versions.js';
 import { SHARD_FILE_PATTERN, formatIndices } from './shard.js';
 import type { ShardFile, SweepTable } from './sweep-file.js';
-import { byIndex, shardFileSchema } from './sweep-file.js';
+import { byIndex, shardFileSchema, SWEEP_FILE_VERSION } from './sweep-file.js';
 
 /** Each path is a directory (its shard-I-of-N.json files) or one shard file. */
 export function findShardFiles(paths: string[]): string[] {
@@ -62,7 +62,7 @@ export function mergeShardFiles(files: LoadedShard[]): SweepTable {
   if (problems.length) throw new InputError(`--merge: the shard files do not cover the ${total} grid points exactly once:\n  ${problems.join('\n  ')}`);
   return {
     kind: 'sweep-table',
-    version: 1,
+    version: SWEEP_FILE_VERSION,
     provenance: { ...provenance() },
     configHash: files[0].data.configHash,
     config: files[0].data.config,

@@ -21,7 +21,8 @@ import type { ShardSpec } from './shard.js';
 import { WHOLE_GRID, shardIndices, shardName } from './shard.js';
 import type { SweepPointResult } from './solve-point.js';
 import type { ShardFile, SweepTable } from './sweep-file.js';
-import { byIndex, pointsCsv, shardFileSchema, writeTable } from './sweep-file.js';
+import { byIndex, pointsCsv, shardFileSchema, SWEEP_FILE_VERSION, writeTable } from './sweep-file.js';
+import { throughSchema } from '../io/formats/file-format.js';
 import { defaultWorkers } from '../io/worker-count.js';
 import { solvePoints } from './solve-points.js';
 
@@ -82,7 +83,7 @@ export async function runSweep(req: SweepRunRequest): Promise<SweepRunResult> {
   }
 
   const save = (complete: boolean): ShardFile => {
-    const file: ShardFile = { kind: 'sweep-shard', version: 1, provenance: { ...provenance() }, configHash: hash, config, shard, totalPoints: points.length, indices, complete, points: byIndex(saved) };
+    const file: ShardFile = throughSchema(shardFileSchema, { kind: 'sweep-shard', version: SWEEP_FILE_VERSION, provenance: { ...provenance() }, configHash: hash, config, shard, totalPoints: points.length, indices, complete, points: byIndex(saved) });
     // The CSV first: the JSON is what a resume trusts, so it is the last to change.
     writeFileAtomic(csvPath, pointsCsv(file.points));
     writeFileAtomic(jsonPath, `${JSON.stringify(file, null, 1)}\n`);

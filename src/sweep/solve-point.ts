@@ -5,7 +5,7 @@
  * was solved before, so every shard and worker gets the same numbers to the bit.
  */
 import type { SweepConfig } from '../io/schemas/sweep-config.js';
-import { summarize } from '../io/solution-file.js';
+import { summarize } from '../io/formats/solution.js';
 import { RunFailure } from '../io/errors.js';
 import { solveFromConfig } from '../spectral/solve-from-config.js';
 import type { SweepPoint } from './grid.js';

@@ -18,7 +18,7 @@ export interface PointWorkerData {
 }
 
 function pointError(e: { name: string; message: string }, point: SweepPoint): Error {
-  const message = `sweep point ${point.index} (χN = ${point.chiN}, f = ${point.f}, b_A/b_B = ${point.segmentLengthRatio}): ${e.message}`;
+  const message = `sweep point ${point.index} (χN = ${point.chiN}, f = ${point.f}, b_A/b_B = ${point.segmentRatio}): ${e.message}`;
   return e.name === 'InputError' || e.name === 'ModelError' ? new InputError(message) : new Error(message);
 }
 

@@ -1,75 +1,24 @@
 /**
  * The files a sweep writes: one shard file per shard (kind "sweep-shard", saved after
  * every point so an interrupted shard resumes), the merged table (kind "sweep-table"),
- * and a CSV of the rows of either. Numbers are JSON numbers (float64 round-trip exact);
+ * and a CSV of the rows of either. Their schemas live in io/formats/sweep.ts. Numbers are JSON numbers (float64 round-trip exact);
  * lengths in Rg, free energies in kT per chain.
  */
 import { join } from 'node:path';
-import { z } from 'zod';
 import { writeFileAtomic } from '../io/atomic-write.js';
 import type { SweepPointResult } from './solve-point.js';
+import { formatText } from '../io/formats/file-format.js';
+import { sweepTableSchema } from '../io/formats/sweep.js';
+import type { SweepTable } from '../io/formats/sweep.js';
 
-const num = z.number();
-const maybe = num.nullable();
-
-export const pointResultSchema = z
-  .object({
-    index: z.number().int().min(0),
-    chiN: num,
-    f: num,
-    segmentLengthRatio: num,
-    phase: z.string(),
-    period: maybe,
-    periodTolerance: maybe,
-    freeEnergy: maybe,
-    freeEnergyDisordered: maybe,
-    freeEnergyExcess: maybe,
-    Q: maybe,
-    iterations: maybe,
-    totalIterations: maybe,
-    evaluations: z.number().int().min(0),
-    residual: maybe,
-    converged: z.boolean(),
-    seconds: num,
-    notes: z.array(z.string()),
-  })
-  .strict();
-
-export const shardFileSchema = z
-  .object({
-    kind: z.literal('sweep-shard'),
-    version: z.literal(1),
-    provenance: z.record(z.string(), z.unknown()),
-    configHash: z.string().regex(/^[0-9a-f]{64}$/),
-    config: z.unknown(),
-    shard: z.object({ index: z.number().int().min(1), count: z.number().int().min(1) }).strict(),
-    totalPoints: z.number().int().min(1),
-    /** Every point this shard is responsible for; `points` holds those finished so far. */
-    indices: z.array(z.number().int().min(0)),
-    complete: z.boolean(),
-    points: z.array(pointResultSchema),
-  })
-  .strict();
-
-export type ShardFile = z.infer<typeof shardFileSchema>;
-
-export interface SweepTable {
-  kind: 'sweep-table';
-  version: 1;
-  provenance: Record<string, unknown>;
-  configHash: string;
-  config: unknown;
-  totalPoints: number;
-  /** The shard files merged, with the provenance of each. */
-  shards: { file: string; shard: ShardFile['shard']; provenance: Record<string, unknown> }[];
-  points: SweepPointResult[];
-}
+export { pointResultSchema, shardFileSchema, sweepTableSchema, SWEEP_FILE_VERSION } from '../io/formats/sweep.js';
+export type { ShardFile, SweepTable } from '../io/formats/sweep.js';
 
 const CSV_COLUMNS = [
   'index',
   'chiN',
   'f',
-  'segmentLengthRatio',
+  'segmentRatio',
   'phase',
   'period',
   'freeEnergy',
@@ -99,6 +48,6 @@ export function byIndex<T extends { index: number }>(points: T[]): T[] {
 export function writeTable(dir: string, table: SweepTable): string[] {
   const paths = [join(dir, 'sweep.csv'), join(dir, 'sweep.json')];
   writeFileAtomic(paths[0], pointsCsv(table.points));
-  writeFileAtomic(paths[1], `${JSON.stringify(table, null, 1)}\n`);
+  writeFileAtomic(paths[1], formatText(sweepTableSchema, table));
   return paths;
 }

@@ -14,89 +14,32 @@ import type * as TfModule from '@tensorflow/tfjs';
 import { writeDirectoryAtomic } from '../io/atomic-write.js';
 import { InputError } from '../io/errors.js';
 import { formatZodError } from '../io/errors.js';
-import { trainConfigSchema } from '../io/schemas/train-config.js';
+import { CHECKPOINT_VERSION, checkpointFileSchema } from '../io/formats/training.js';
+import { throughSchema } from '../io/formats/file-format.js';
+import type { CheckpointFile } from '../io/formats/training.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { NamedWeight } from '../autodiff/parameters.js';
-import { LOSS_TERMS } from '../network/losses/terms.js';
 
-const lossRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number()])) as Record<(typeof LOSS_TERMS)[number], z.ZodNumber>);
-// Balancing factors: a checkpoint written before a term existed has none for it; 1 is "unbalanced".
-const factorRecord = z.object(Object.fromEntries(LOSS_TERMS.map((k) => [k, z.number().default(1)])) as Record<(typeof LOSS_TERMS)[number], z.ZodDefault<z.ZodNumber>>);
-
-export const historyEntrySchema = z.object({
-  step: z.number().int(),
-  stage: z.enum(['warm-start', 'adam', 'lbfgs', 'second-order']),
-  /** The loss of the stage's own objective (second-order: Σ r², the weighted terms of the whole system). */
-  total: z.number(),
-  terms: lossRecord.partial(),
-  learningRate: z.number(),
-  seconds: z.number(),
-  phiError: z.number().optional(),
-  /** L-BFGS entries: polish iterations done so far (the Adam step count stays in `step`). */
-  lbfgsIterations: z.number().int().min(0).optional(),
-  /** Second-order entries: Levenberg–Marquardt iterations done so far, and the damping μ after the iteration. */
-  secondOrderIterations: z.number().int().min(0).optional(),
-  damping: z.number().optional(),
-  /** Seconds since the run started (reference solve and warm start included): the report's wall-time axis over every phase. */
-  wallSeconds: z.number().optional(),
-});
-
-/** Which state the saved weights hold: where in the run, and its reference error when measured. */
-export const heldStateSchema = z.object({
-  stage: z.enum(['warm-start', 'adam', 'lbfgs', 'second-order']),
-  step: z.number().int().min(0),
-  lbfgsIterations: z.number().int().min(0).optional(),
-  secondOrderIterations: z.number().int().min(0).optional(),
-  phiError: z.number().optional(),
-  /** Why this state: the lowest reference error measured, or the last state when none was measured. */
-  chosenBy: z.enum(['lowest-reference-error', 'last']),
-});
-
-export const checkpointFileSchema = z.object({
-  kind: z.literal('checkpoint'),
-  version: z.literal(1),
-  provenance: z.object({ tool: z.literal('mesofield'), version: z.string(), backend: z.string(), tfjs: z.string() }).passthrough(),
-  config: trainConfigSchema,
-  /** Cell length L in Rg the networks were built for (features depend on it). */
-  length: z.number().gt(0),
-  periods: z.number().int().min(1),
-  step: z.number().int().min(0),
-  stage: z.enum(['warm-start', 'adam', 'lbfgs', 'second-order', 'done']),
-  /** The state the weights hold (final checkpoints): the best one kept, not necessarily the last. */
-  holds: heldStateSchema.optional(),
-  lossWeights: factorRecord,
-  history: z.array(historyEntrySchema),
-  metrics: z.record(z.string(), z.unknown()).optional(),
-  /** The resampled MDE points in use at this step, so that a resumed run is exact. */
-  extraPoints: z
-    .object({ q: z.object({ x: z.array(z.number()), s: z.array(z.number()) }), qDagger: z.object({ x: z.array(z.number()), s: z.array(z.number()) }) })
-    .nullable()
-    .optional(),
-  weightSpecs: z.array(z.object({ name: z.string(), shape: z.array(z.number().int()), dtype: z.string() }).passthrough()),
-  weightBytes: z.number().int().min(0),
-});
-
-export type CheckpointFile = z.infer<typeof checkpointFileSchema>;
-export type HistoryEntry = z.infer<typeof historyEntrySchema>;
-export type HeldState = z.infer<typeof heldStateSchema>;
+export { checkpointFileSchema, heldStateSchema, historyEntrySchema } from '../io/formats/training.js';
+export type { CheckpointFile, HeldState, HistoryEntry } from '../io/formats/training.js';
 
 export interface LoadedCheckpoint {
   file: CheckpointFile;
   weights: TfModule.NamedTensorMap;
 }
 
-export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<CheckpointFile, 'kind' | 'version' | 'weightSpecs' | 'weightBytes'>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
-  await writeWeightsDirectory(tf, dir, { kind: 'checkpoint', version: 1, ...meta }, tensors, extraFiles);
+export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<z.input<typeof checkpointFileSchema>, 'kind' | 'version' | 'weightSpecs' | 'weightBytes'>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
+  await writeWeightsDirectory(tf, dir, checkpointFileSchema, { kind: 'checkpoint', version: CHECKPOINT_VERSION, ...meta }, tensors, extraFiles);
 }
 
 /**
  * A directory of `checkpoint.json` (meta plus the weight manifest) and `weights.bin`, written
  * whole and swapped in (the layout above; also used by other network kinds, e.g. surrogates).
  */
-export async function writeWeightsDirectory(tf: Tf, dir: string, meta: Record<string, unknown>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
+export async function writeWeightsDirectory<S extends z.ZodType>(tf: Tf, dir: string, schema: S, meta: Omit<z.input<S>, 'weightSpecs' | 'weightBytes'>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
   const { data, specs } = await tf.io.encodeWeights(tensors.map((t) => ({ name: t.name, tensor: t.tensor })));
-  const file = { ...meta, weightSpecs: specs, weightBytes: data.byteLength };
-  // checkpoint.json last: it is what makes the directory a checkpoint (writeDirectoryAtomic renames in order).
+  // Built through the file's schema: what is written always reads back.
+  const file = throughSchema(schema, { ...meta, weightSpecs: specs, weightBytes: data.byteLength });
   writeDirectoryAtomic(dir, {
     'weights.bin': new Uint8Array(data),
     ...extraFiles,

@@ -6,8 +6,8 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../io/errors.js';
 import { loadJsonFile } from '../io/load-json.js';
-import { solutionFileSchema } from '../io/solution-file.js';
-import { summarize } from '../io/solution-file.js';
+import { solutionFileSchema } from '../io/formats/solution.js';
+import { summarize } from '../io/formats/solution.js';
 import { buildChain } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { SolutionMetrics } from '../physics/solution-metrics.js';
@@ -57,7 +57,7 @@ export async function evaluateCheckpoint(dir: string, backend: BackendKind = 'au
     return { A: Float64Array.from(f.grid.wA), B: Float64Array.from(f.grid.wB) };
   })() : undefined;
   const ref = solveFromConfig(
-    { system: config.system, cell: { kind: 'periodic', period: file.length / file.periods, periods: file.periods, nx: config.cell.nx, ns: config.cell.ns }, solver: config.reference, output: { propagators: true } },
+    { system: config.system, cell: { kind: 'periodic', period: file.length / file.periods, periods: file.periods, nx: config.cell.nx, ns: config.cell.ns }, solver: config.solver, output: { propagators: true } },
     { initial },
   );
   const { network, errors } = evaluateNetworks(tf, nets, config, ref.solution, true);

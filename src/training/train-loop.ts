@@ -115,7 +115,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
   const fieldUpdate = hooks.fieldUpdate ?? (() => void (updater ??= new FieldUpdater(tf, problem.nets, problem.system, fieldUpdateSettings(config))).update());
   const effective = (): LossValues => Object.fromEntries(LOSS_TERMS.map((k) => [k, baseWeights[k] * factors[k]])) as LossValues;
 
-  while (state.step < tr.steps) {
+  while (state.step < tr.adamSteps) {
     // One event-loop turn per step (a few µs): without it a signal handler never runs during training.
     await yieldToEvents();
     if (hooks.shouldStop?.()) {
@@ -163,7 +163,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     state.step = step + 1;
     if (propagatorOnly) {
       // The field terms are not trained on here; evaluate them (forward only) when logged.
-      const logNow = state.step % tr.logEvery === 0 || state.step === tr.steps || (tr.evaluateEvery > 0 && state.step % tr.evaluateEvery === 0);
+      const logNow = state.step % tr.logEvery === 0 || state.step === tr.adamSteps || (tr.evaluateEvery > 0 && state.step % tr.evaluateEvery === 0);
       if (logNow || !lastTerms) {
         lastTerms = tf.tidy(() => {
           const t = problem.terms();
@@ -174,7 +174,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
     }
     const done = state.step - startStep;
     const rate = done / Math.max(1e-9, (performance.now() - t0) / 1000);
-    const last = state.step === tr.steps;
+    const last = state.step === tr.adamSteps;
     let phiError: number | undefined;
     if (hooks.evaluate && tr.evaluateEvery > 0 && (state.step % tr.evaluateEvery === 0 || last)) {
       phiError = hooks.evaluate();
@@ -187,7 +187,7 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
       // Between logged steps, the total alone (its terms are not all evaluated every step): the report's loss curve needs every step.
       state.history.push({ step: state.step, stage: 'adam', total, terms: {}, learningRate: lr, seconds: elapsed(), ...wall });
     }
-    hooks.onProgress?.({ step: state.step, steps: tr.steps, total, terms, stepsPerSecond: rate, secondsLeft: (tr.steps - state.step) / rate, learningRate: lr });
+    hooks.onProgress?.({ step: state.step, steps: tr.adamSteps, total, terms, stepsPerSecond: rate, secondsLeft: (tr.adamSteps - state.step) / rate, learningRate: lr });
     if (hooks.checkpoint && (state.step % tr.checkpointEvery === 0 || last)) {
       await hooks.checkpoint({ ...state, lossWeights: { ...factors } });
       lastCheckpointStep = state.step;

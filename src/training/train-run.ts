@@ -3,9 +3,12 @@
  * transfer, or resume), physics training, evaluation against the reference, checkpoints.
  * The CLI's `train` is a thin wrapper around trainRun; tests call it directly.
  */
+import { formatText, throughSchema } from '../io/formats/file-format.js';
+import { TRAIN_METRICS_VERSION, trainMetricsFileSchema, trainMetricsSchema } from '../io/formats/training.js';
+import type { TrainMetrics, TransferReport } from '../io/formats/training.js';
 import { InputError, RunFailure } from '../io/errors.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
-import { solutionToFile, summarize } from '../io/solution-file.js';
+import { solutionToFile, summarize } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
 import { buildChain } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';
@@ -49,39 +52,7 @@ export interface TrainRunOptions {
   shouldStop?: () => boolean;
 }
 
-export interface TrainMetrics {
-  backend: string;
-  tfjs: string;
-  /** The network's phase when the verdict is ok; 'unconfirmed' otherwise (never a phase on the network's behalf). */
-  phase: string;
-  /** The phase the network's own φ_A spread gives (physics/solution-record.ts), whatever the verdict. */
-  networkPhase: string;
-  verdict: RunVerdict;
-  collapsed: boolean;
-  sharedPropagator: boolean;
-  errors: SolutionMetrics;
-  freshResiduals: LossValues;
-  reference: ReturnType<typeof summarize>;
-  network: ReturnType<typeof summarize>;
-  training: {
-    stopReason: StopReason;
-    message: string;
-    adamSteps: number;
-    seconds: number;
-    warmStart?: { steps: number; seconds: number; finalLoss: number };
-    lbfgs?: { iterations: number; finalLoss: number; reason: string };
-    secondOrder?: { iterations: number; finalLoss: number; reason: SecondOrderResult['reason']; seconds: number; best: SecondOrderResult['best'] };
-    /** Which state the saved networks hold (the best measured, or the last). */
-    holds: HeldState;
-    /** Adam step (and L-BFGS or second-order iterations, when reached there) and training seconds at which φ_A error first fell below the target. */
-    reachedTarget?: { step: number; seconds: number; lbfgsIterations?: number; secondOrderIterations?: number };
-    transferredFrom?: { checkpoint: string; chiN: number; f: number };
-    transfer?: TransferReport;
-    resumedFrom?: { checkpoint: string; step: number };
-  };
-  /** Wall time of the whole run in seconds: reference solve, warm start, training and the final evaluation. */
-  runSeconds: number;
-}
+export type { TrainMetrics } from '../io/formats/training.js';
 
 export interface TrainRunResult {
   metrics: TrainMetrics;
@@ -107,13 +78,7 @@ function sameArchitecture(a: TrainConfig, b: TrainConfig): string | null {
  * target (nothing saved to report). A baseline that did not reach it (reached false) gives
  * its whole budget, so the saving is a lower bound (saved.lowerBound).
  */
-export interface TransferReport {
-  targetPhiError: number;
-  transfer: { steps: number; seconds: number } | null;
-  /** finalPhiError: the baseline's φ_A relative L2 error when it stopped (at the target or the budget). */
-  baseline?: { reached: boolean; steps: number; seconds: number; warmStartSteps: number; warmStartSeconds: number; finalPhiError: number };
-  saved?: { steps: number; seconds: number; lowerBound: boolean } | null;
-}
+export type { TransferReport } from '../io/formats/training.js';
 
 function checkTransferBaseline(config: TrainConfig): void {
   const tr = config.training;
@@ -133,9 +98,9 @@ async function transferBaseline(opts: TrainRunOptions, config: TrainConfig): Pro
     shouldStop: opts.shouldStop,
   });
   const t = r.metrics.training;
-  const ws = t.warmStart ?? { steps: 0, seconds: 0 };
+  const ws = t.warmStart ?? { adamSteps: 0, seconds: 0 };
   const end = t.reachedTarget ?? { step: t.adamSteps, seconds: r.history.filter((h) => h.stage === 'adam').pop()?.seconds ?? 0 };
-  return { reached: Boolean(t.reachedTarget), steps: end.step, seconds: ws.seconds + end.seconds, warmStartSteps: ws.steps, warmStartSeconds: ws.seconds, finalPhiError: r.metrics.errors.phiA.relativeL2 };
+  return { reached: Boolean(t.reachedTarget), adamSteps: end.step, seconds: ws.seconds + end.seconds, warmStartAdamSteps: ws.adamSteps, warmStartSeconds: ws.seconds, finalPhiError: r.metrics.errors.phiA.relativeL2 };
 }
 
 function unitWeights(): LossValues {
@@ -164,11 +129,11 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const changed = changedSettings(resumed.file.config, config);
     if (changed.length > 0) {
       throw new InputError(
-        `--resume ${opts.resumeDir}: the config differs from the one the checkpoint was trained with, and a resumed run continues that one exactly:\n${changed.map((c) => `  ${c}`).join('\n')}\nresume with the checkpoint's settings (only training.steps may grow), or start a new run from it with initFrom`,
+        `--resume ${opts.resumeDir}: the config differs from the one the checkpoint was trained with, and a resumed run continues that one exactly:\n${changed.map((c) => `  ${c}`).join('\n')}\nresume with the checkpoint's settings (only training.adamSteps may grow), or start a new run from it with initFrom`,
       );
     }
     // The resumed run continues the checkpoint's own schedule, with the new step budget.
-    config = { ...resumed.file.config, training: { ...resumed.file.config.training, steps: Math.max(config.training.steps, resumed.file.step) } };
+    config = { ...resumed.file.config, training: { ...resumed.file.config.training, adamSteps: Math.max(config.training.adamSteps, resumed.file.step) } };
   }
   const handle = await selectBackend(opts.backend ?? config.backend);
   const tf = handle.tf;
@@ -177,7 +142,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
 
   stage('reference solve');
   const cell = resumed ? { ...config.cell, period: resumed.file.length / resumed.file.periods } : config.cell;
-  const ref = solveFromConfig({ system: config.system, cell, solver: config.reference, output: { propagators: true } });
+  const ref = solveFromConfig({ system: config.system, cell, solver: config.solver, output: { propagators: true } });
   const reference = ref.solution;
   if (!reference.converged) throw new RunFailure(`reference: the spectral solve did not converge (${reference.notes.join('; ')})`);
   if (reference.phase === 'disordered') {
@@ -219,7 +184,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     nets.parameters.loadNamedWeights(splitWeights(src.weights).params);
     training.transferredFrom = { checkpoint: config.initFrom, chiN: src.file.config.system.chiN, f: srcChain.speciesFraction.A };
     stage(`transfer from ${config.initFrom} (χN = ${src.file.config.system.chiN})`);
-  } else if (config.warmStart.type !== 'none' && config.warmStart.steps > 0) {
+  } else if (config.warmStart.type !== 'none' && config.warmStart.adamSteps > 0) {
     const ws = config.warmStart;
     const fromReference = ws.type === 'reference';
     const w = fromReference ? reference.w : cosineStart(chain, config.system.chiN, reference.cell, 0.3);
@@ -227,8 +192,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const wsStart = performance.now();
     // Every warm-start step in the history: the report draws the loss over every phase.
     const onStep = (step: number, loss: number) => state.history.push({ step, stage: 'warm-start', total: loss, terms: {}, learningRate: ws.learningRate, seconds: (performance.now() - wsStart) / 1000, wallSeconds: (performance.now() - t0) / 1000 });
-    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.steps, ws.learningRate, onStep);
-    training.warmStart = r;
+    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.adamSteps, ws.learningRate, onStep);
+    training.warmStart = { adamSteps: r.steps, seconds: r.seconds, finalLoss: r.finalLoss };
   }
 
   const problem = new ScftProblem(tf, nets, config.system, config.collocation, config.training.strategy === 'alternating' ? 'detached' : config.losses.fieldInMde);
@@ -398,12 +363,12 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const target = config.training.targetPhiError;
   if (training.transferredFrom && target !== undefined) {
     // Reached in the Adam phase or in an L-BFGS cycle (then its iterations are in training.reachedTarget).
-    const reached = training.reachedTarget ? { steps: training.reachedTarget.step, seconds: training.reachedTarget.seconds } : null;
+    const reached = training.reachedTarget ? { adamSteps: training.reachedTarget.step, seconds: training.reachedTarget.seconds } : null;
     const report: TransferReport = { targetPhiError: target, transfer: reached };
     if (config.training.transferBaseline === 'warm-start') {
       const b = await transferBaseline(opts, config);
       report.baseline = b;
-      report.saved = reached ? { steps: b.steps - reached.steps, seconds: b.seconds - reached.seconds, lowerBound: !b.reached } : null;
+      report.saved = reached ? { adamSteps: b.adamSteps - reached.adamSteps, seconds: b.seconds - reached.seconds, lowerBound: !b.reached } : null;
     }
     training.transfer = report;
   }
@@ -420,14 +385,15 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     freshResiduals,
     reference: summarize(reference, { periodTolerance: ref.search?.periodTolerance }),
     network: summarize(network),
-    training: training as TrainMetrics['training'],
+    // Filled phase by phase above; checked complete here.
+    training: throughSchema(trainMetricsSchema.shape.training, training),
     runSeconds: (performance.now() - t0) / 1000,
   };
   if (opts.outDir) {
     // The network's own phase stays in its solution file, with the verdict beside it when it is not ok.
     const judged = verdict.ok ? network : { ...network, notes: [...network.notes, `not confirmed against the reference: ${verdict.warnings.join('; ')}`] };
     const networkFile = `${JSON.stringify(solutionToFile(judged, prov(), config), null, 1)}\n`;
-    await save(loop.state, 'done', { 'metrics.json': `${JSON.stringify(metrics, null, 2)}\n`, 'network.json': networkFile }, metrics as unknown as Record<string, unknown>, training.holds);
+    await save(loop.state, 'done', { 'metrics.json': formatText(trainMetricsFileSchema, { kind: 'train-metrics', version: TRAIN_METRICS_VERSION, ...metrics }, 2), 'network.json': networkFile }, metrics, training.holds);
   }
   problem.dispose();
   adam.dispose();
@@ -441,7 +407,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
  * (neither changes the curve the run follows); anything else would be silently ignored.
  */
 export function changedSettings(saved: unknown, now: unknown, path = ''): string[] {
-  if (path === 'training.steps' || path === 'backend') return [];
+  if (path === 'training.adamSteps' || path === 'backend') return [];
   const isObj = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
   if (isObj(saved) && isObj(now)) {
     const keys = [...new Set([...Object.keys(saved), ...Object.keys(now)])];

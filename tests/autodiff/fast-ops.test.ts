@@ -124,15 +124,15 @@ describe('training results are unchanged by the fast primitives', () => {
     // The f = 0.4, χN = 15 diblock (not palindromic: two propagator networks, junction
     // terms, resampled points, alternating field updates): every code path of the step.
     const config = trainConfigSchema.parse({
-      version: 1,
+      version: 2,
       kind: 'train',
       system: { chain: { type: 'diblock', f: 0.4 }, chiN: 15 },
       cell: { nx: 32, ns: 60 },
       // Widths that every WASM kernel of src/autodiff/wasm takes (multiples of 8).
       networks: { field: { hidden: [8, 8] }, propagator: { hidden: [16, 16, 16] } },
       collocation: { nx: 16, nodesPerBlock: 8, random: 64, resampleEvery: 20 },
-      warmStart: { type: 'reference', steps: 30, learningRate: 0.01 },
-      training: { steps: 45, learningRate: 2e-3, fieldUpdateEvery: 20, fieldFitSteps: 20, logEvery: 5 },
+      warmStart: { type: 'reference', adamSteps: 30, learningRate: 0.01 },
+      training: { adamSteps: 45, learningRate: 2e-3, fieldUpdateEvery: 20, fieldFitSteps: 20, logEvery: 5 },
     });
     setPlainOps(false);
     const fast = await trainRun({ config, backend: 'wasm' });

@@ -12,13 +12,13 @@ function writeConfig(dir: string, cfg: unknown): string {
   return p;
 }
 
-const baseConfig = { version: 1, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 3.75, nx: 32, ns: 60 } };
+const baseConfig = { version: 2, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 3.75, nx: 32, ns: 60 } };
 
 describe('mesofield solve', () => {
   it('prints a JSON summary with the documented fields and writes solution files', () => {
     const dir = tmp();
     const out = join(dir, 'run');
-    const r = runCli(['solve', '--chiN', '15', '--f', '0.5', '--period', 'optimize', '--nx', '32', '--ns', '60', '--json', '--out', out]);
+    const r = runCli(['solve', '--chiN', '15', '--f', '0.5', '--period', 'equilibrium', '--nx', '32', '--ns', '60', '--json', '--out', out]);
     expect(r.code).toBe(0);
     const s = JSON.parse(r.stdout);
     for (const k of ['period', 'freeEnergy', 'freeEnergyDisordered', 'Q', 'phase', 'iterations', 'residual', 'chiN', 'f']) expect(s).toHaveProperty(k);
@@ -50,8 +50,8 @@ describe('mesofield solve', () => {
     ['negative χN', ['--chiN', '-3'], /system\.chiN: got -3;/],
     ['zero period', ['--period', '0'], /cell\.period: got 0;/],
     ['non-numeric flag', ['--chiN', 'abc'], /--chiN: got "abc"; allowed: a number/],
-    ['unknown preset', ['--preset', 'star'], /system\.chain\.type: got "star";/],
-    ['optimize for a homopolymer', ['--preset', 'homopolymer'], /cell\.period: got "optimize"; a period search needs a chain with both A and B/],
+    ['unknown chain', ['--chain', 'star'], /system\.chain\.type: got "star";/],
+    ['equilibrium for a homopolymer', ['--chain', 'homopolymer'], /cell\.period: got "equilibrium"; a period search needs a chain with both A and B/],
   ];
   for (const [name, args, msg] of bad) {
     it(`bad input (${name}) exits 2 with a message naming the field and value`, () => {
@@ -68,7 +68,7 @@ describe('mesofield solve', () => {
     expect(unknown.code).toBe(2);
     expect(unknown.stderr).toMatch(/unknown field\(s\) "colour"/);
     const p = join(dir, 'broken.json');
-    writeFileSync(p, '{ "version": 1, ');
+    writeFileSync(p, '{ "version": 2, ');
     expect(runCli(['solve', p]).stderr).toMatch(/not valid JSON/);
     expect(runCli(['solve', join(dir, 'nope.json')]).stderr).toMatch(/cannot read the file \(ENOENT\)/);
     const v = runCli(['solve', writeConfig(dir, { ...baseConfig, version: 7 })]);
@@ -96,7 +96,7 @@ describe('mesofield solve', () => {
 
   it('homopolymer in a prescribed field is a single-chain problem', () => {
     const dir = tmp();
-    const cfg = { version: 1, kind: 'solve', system: { chain: { type: 'homopolymer' }, externalField: { A: { type: 'uniform', value: 0.7 } } }, cell: { period: 2, nx: 16, ns: 20 } };
+    const cfg = { version: 2, kind: 'solve', system: { chain: { type: 'homopolymer' }, externalField: { A: { type: 'uniform', value: 0.7 } } }, cell: { period: 2, nx: 16, ns: 20 } };
     const r = runCli(['solve', writeConfig(dir, cfg), '--json']);
     expect(r.code).toBe(0);
     const s = JSON.parse(r.stdout);

@@ -33,7 +33,7 @@ const KINDS: Kind[] = [
   { kind: 'sweep', base: () => shipped('sweep-chiN.sweep.json'), argv: (s, cfg) => ['sweep', cfg, '--out', s.path('run'), '--workers', '1', '--quiet'] },
   {
     kind: 'invert',
-    base: () => ({ version: 1, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } } }),
+    base: () => ({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } } }),
     argv: (s, cfg) => ['invert', s.write('p.csv', PROFILE_CSV), cfg, '--quiet'],
   },
 ];
@@ -105,7 +105,7 @@ function fieldFaults(): FaultCase[] {
   add(solve, 'ns too small', (b) => (b.cell.ns = 2), /cell\.ns: got 2/);
   add(solve, 'period zero', (b) => (b.cell.period = 0), /cell\.period: got 0/);
   add(solve, 'period negative', (b) => (b.cell.period = -3), /cell\.period: got -3/);
-  add(solve, 'period a misspelt word', (b) => (b.cell.period = 'optimise'), /cell\.period: got "optimise"; allowed: a number, or "(optimize|equilibrium)"/);
+  add(solve, 'period a misspelt word', (b) => (b.cell.period = 'optimise'), /cell\.period: got "optimise"; allowed: a number, or "equilibrium"/);
   add(solve, 'periods zero', (b) => (b.cell.periods = 0), /cell\.periods: got 0/);
   add(solve, 'periods fractional', (b) => (b.cell.periods = 1.5), /cell\.periods: got 1\.5/);
   add(solve, 'tolerance zero', (b) => (b.solver = { ...b.solver, tolerance: 0 }), /solver\.tolerance: got 0/);
@@ -113,7 +113,7 @@ function fieldFaults(): FaultCase[] {
   add(solve, 'start of unknown type', (b) => (b.solver = { ...b.solver, start: { type: 'magic' } }), /solver\.start/);
   add(solve, 'start file missing (path relative to the config)', (b) => (b.solver = { ...b.solver, start: { type: 'file', path: 'no-such-solution.json' } }), /no-such-solution\.json: cannot read the file \(ENOENT\)/);
   add(solve, 'unknown cell key', (b) => (b.cell.nz = 8), /unknown field\(s\) "nz"/);
-  add(train, 'steps negative', (b) => (b.training.steps = -5), /training\.steps: got -5/);
+  add(train, 'Adam steps negative', (b) => (b.training.adamSteps = -5), /training\.adamSteps: got -5/);
   add(train, 'learning rate a string', (b) => (b.training.learningRate = 'fast'), /training\.learningRate: got "fast"/);
   add(train, 'loss weight 1e308', (b) => (b.losses = { weights: { mde: 1e308 } }), /losses\.weights\.mde: got 1e\+308/);
   add(train, 'loss weight negative', (b) => (b.losses = { weights: { gauge: -1 } }), /losses\.weights\.gauge: got -1/);
@@ -124,14 +124,14 @@ function fieldFaults(): FaultCase[] {
   add(surrogate, 'anchors below 2', (b) => (b.parameters.chiN.anchors = 1), /parameters\.chiN\.anchors: got 1/);
   add(surrogate, 'χN range reversed', (b) => (b.parameters.chiN = { min: 20, max: 12, anchors: 5 }), /parameters\.chiN/);
   add(surrogate, 'rounds a string', (b) => (b.training.rounds = 'ten'), /training\.rounds: got "ten"/);
-  add(sweep, 'grid χN as strings', (b) => (b.grid = { ...b.grid, chiN: ['10'] }), /grid\.chiN: got \["10"\]; allowed: item 0: a number, or an object/);
-  add(sweep, 'grid count fractional', (b) => (b.grid = { ...b.grid, chiN: { from: 10, to: 12, count: 2.5 } }), /grid\.chiN: got \{"from":10,"to":12,"count":2\.5\}; allowed: an array, or count: a whole number/);
-  add(sweep, 'grid f out of range', (b) => (b.grid = { ...b.grid, f: [1.5] }), /grid\.f(\.0)?: got .*1\.5/);
+  add(sweep, 'parameters χN as strings', (b) => (b.parameters = { ...b.parameters, chiN: ['10'] }), /parameters\.chiN: got \["10"\]; allowed: item 0: a number, or an object/);
+  add(sweep, 'parameters count fractional', (b) => (b.parameters = { ...b.parameters, chiN: { from: 10, to: 12, count: 2.5 } }), /parameters\.chiN: got \{from: 10, to: 12, count: 2\.5\}; allowed: an array, or count: a whole number/);
+  add(sweep, 'parameters f out of range', (b) => (b.parameters = { ...b.parameters, f: [1.5] }), /parameters\.f(\.0)?: got .*1\.5/);
   add(sweep, 'unknown key', (b) => (b.speed = 'max'), /unknown field\(s\) "speed"/);
-  add(invert, 'period a word not allowed', (b) => (b.period = 'eq'), /period: got "eq"; allowed: "equilibrium" or "free", or a number/);
+  add(invert, 'period a word not allowed', (b) => (b.cell = { period: 'eq' }), /cell\.period: got "eq"; allowed: "equilibrium" or "free", or a number/);
   add(invert, 'method unknown', (b) => (b.method = 'bayes'), /method: got "bayes"/);
-  add(invert, 'χN range reversed', (b) => (b.chiNRange = [40, 11]), /chiNRange: got \[40,11\]/);
-  add(invert, 'grid nx not a power of two', (b) => (b.grid = { nx: 48 }), /grid\.nx: got 48;.*power of two/);
+  add(invert, 'χN range reversed', (b) => (b.chiNRange = [40, 11]), /chiNRange: got \[40, 11\]/);
+  add(invert, 'cell nx not a power of two', (b) => (b.cell = { nx: 48 }), /cell\.nx: got 48;.*power of two/);
   add(invert, 'units rgNm negative', (b) => (b.units = { rgNm: -2 }), /rgNm.*-2/);
   add(invert, 'seeds zero', (b) => (b.network = { seeds: 0 }), /network\.seeds: got 0/);
   return out;

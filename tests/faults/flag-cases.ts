@@ -26,13 +26,13 @@ const solve: Prefix = () => ['solve'];
 const synth: Prefix = () => ['synth', '--f', '0.5', '--chiN', '15'];
 const invert: Prefix = (s) => ['invert', s.write('p.csv', PROFILE_CSV), '--f', '0.5'];
 const spinodal: Prefix = () => ['spinodal'];
-const sweepCfg: Prefix = (s) => ['sweep', s.json('sw.json', { version: 1, kind: 'sweep', chain: { type: 'diblock' }, grid: { chiN: [14], f: [0.5], segmentLengthRatio: [1] }, cell: { period: 3.7, nx: 16, ns: 20 } }), '--out', s.path('sw')];
+const sweepCfg: Prefix = (s) => ['sweep', s.json('sw.json', { version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: [14], f: [0.5], segmentRatio: [1] }, cell: { period: 3.7, nx: 16, ns: 20 } }), '--out', s.path('sw')];
 
 const numberFlags: [string, Prefix, string[]][] = [
   ['solve', solve, ['--chiN', '--f', '--nx', '--ns', '--periods', '--tolerance']],
   ['synth', synth, ['--points', '--noise', '--seed', '--offset', '--resolution', '--nx', '--rg-nm']],
   ['invert', invert, ['--seeds', '--nx', '--resolution', '--profile-points', '--rg-nm', '--workers']],
-  ['spinodal', spinodal, ['--f', '--bA']],
+  ['spinodal', spinodal, ['--f', '--segment-ratio']],
 ];
 
 const forms: FaultCase[] = numberFlags.flatMap(([cmd, prefix, flags]) =>
@@ -45,7 +45,7 @@ const specific: FaultCase[] = [
   flagCase('solve', solve, '--nx', '100', /--nx → cell\.nx: got 100;.*power of two/),
   flagCase('solve', solve, '--period', 'optimise', /--period: got "optimise"; allowed: a period in Rg \(a number > 0\), or "equilibrium" \(the stress-free period is "equilibrium"\)/),
   flagCase('solve', solve, '--period', '0', /--period → cell\.period: got 0/),
-  flagCase('solve', solve, '--preset', 'star', /--preset → system\.chain\.type: got "star"/),
+  flagCase('solve', solve, '--chain', 'star', /--chain → system\.chain\.type: got "star"/),
   flagCase('solve', solve, '--start', 'no-such-file.json', /no-such-file\.json: cannot read the file \(ENOENT\)/),
   flagCase('synth', synth, '--period', 'optimize', /--period: got "optimize"/),
   flagCase('synth', synth, '--points', '1', /--points: got 1;/),
@@ -58,7 +58,7 @@ const specific: FaultCase[] = [
   flagCase('invert', invert, '--backend', 'gpu', /--backend → network\.backend: got "gpu"/),
   flagCase('invert', invert, '--workers', '0', /--workers: got 0; allowed: a whole number from 1 to 64/),
   flagCase('invert', invert, '--workers', '2.5', /--workers: got 2\.5/),
-  flagCase('spinodal', spinodal, '--preset', 'star', /type: got "star"/),
+  flagCase('spinodal', spinodal, '--chain', 'star', /type: got "star"/),
   flagCase('spinodal', spinodal, '--f', '0', /f: got 0/),
   flagCase('report', (s) => ['report', s.mkdir('run')], '--dpi', '10', /--dpi: got 10; allowed: a whole number from 36 to 1200/),
   flagCase('report', (s) => ['report', s.mkdir('run')], '--format', 'gif', /--format: got "gif"; allowed: a comma-separated list of pdf, png/),
@@ -66,8 +66,8 @@ const specific: FaultCase[] = [
   flagCase('sweep', sweepCfg, '--shard', '3/2', /--shard/),
   flagCase('sweep', sweepCfg, '--shard', 'a/b', /--shard/),
   flagCase('sweep', sweepCfg, '--workers', '0', /--workers: got 0/),
-  flagCase('train', (s) => ['train', s.json('t.json', { version: 1, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--out', s.path('t')], '--steps', '-1', /--steps: got -1; allowed: a whole number ≥ 0/),
-  flagCase('train', (s) => ['train', s.json('t.json', { version: 1, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--out', s.path('t')], '--backend', 'gpu', /--backend: got "gpu"; allowed: auto, native, wasm, cpu/),
+  flagCase('train', (s) => ['train', s.json('t.json', { version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--out', s.path('t')], '--adam-steps', '-1', /--adam-steps: got -1; allowed: a whole number ≥ 0/),
+  flagCase('train', (s) => ['train', s.json('t.json', { version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--out', s.path('t')], '--backend', 'gpu', /--backend: got "gpu"; allowed: auto, native, wasm, cpu/),
   flagCase('predict', (s) => ['predict', s.mkdir('ck'), '--chiN', '15'], '--points', '0', /--points/),
   flagCase('evaluate', (s) => ['evaluate', s.mkdir('ck')], '--backend', 'gpu', /--backend: got "gpu"/),
 ];

@@ -26,8 +26,8 @@ const perCommand: [string, (s: Sandbox) => string[]][] = [
   ['solve', () => SOLVE],
   ['synth', () => SYNTH],
   ['invert', (s) => ['invert', s.write('p.csv', 'x,phiA\n0,0.9\n1,0.5\n2,0.1\n3,0.5\n'), '--f', '0.5', '--quiet']],
-  ['train', (s) => ['train', s.json('t.json', { version: 1, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--quiet']],
-  ['sweep', (s) => ['sweep', s.json('sw.json', { version: 1, kind: 'sweep', chain: { type: 'diblock' }, grid: { chiN: [14], f: [0.5], segmentLengthRatio: [1] }, cell: { period: 3.7, nx: 16, ns: 20 } }), '--workers', '1', '--quiet']],
+  ['train', (s) => ['train', s.json('t.json', { version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--quiet']],
+  ['sweep', (s) => ['sweep', s.json('sw.json', { version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: [14], f: [0.5], segmentRatio: [1] }, cell: { period: 3.7, nx: 16, ns: 20 } }), '--workers', '1', '--quiet']],
   ['predict', (s) => ['predict', s.mkdir('ck'), '--chiN', '15', '--quiet']],
   ['demo', () => ['demo', '--quiet']],
 ];
@@ -76,7 +76,7 @@ export const OUTPUT_CASES: FaultCase[] = [
       s.write('ck/checkpoint.json', '{"kind":"checkpoint"}');
       s.write('ck/weights.bin', 'w');
     },
-    (s) => ['train', s.json('t.json', { version: 1, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--out', s.path('ck'), '--quiet'],
+    (s) => ['train', s.json('t.json', { version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }), '--out', s.path('ck'), '--quiet'],
     /ck: holds a previous train output; give --overwrite/,
   ),
   refused(

@@ -73,8 +73,8 @@ export const PHYSICS_CASES: FaultCase[] = [
   {
     group: 'physics',
     name: 'a homopolymer has no period to search',
-    argv: () => ['solve', '--preset', 'homopolymer', '--period', 'equilibrium', '--quiet'],
+    argv: () => ['solve', '--chain', 'homopolymer', '--period', 'equilibrium', '--quiet'],
     code: 2,
-    message: /cell\.period: got "optimize"; a period search needs a chain with both A and B/,
+    message: /cell\.period: got "equilibrium"; a period search needs a chain with both A and B/,
   },
 ];

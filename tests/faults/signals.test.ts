@@ -23,15 +23,15 @@ const counts = { tried: 0, 'clear error or stop': 0, 'correct answer': 0 };
 
 /** A small train config: a fixed cell on a coarse grid, small networks, no L-BFGS: seconds per run. */
 const TRAIN = {
-  version: 1,
+  version: 2,
   kind: 'train',
   system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
   cell: { period: 3.7, nx: 32, ns: 40 },
   backend: 'wasm',
   networks: { field: { hidden: [16, 16] }, propagator: { hidden: [16, 16] } },
   collocation: { random: 64, resampleEvery: 40 },
-  warmStart: { type: 'reference', steps: 20 },
-  training: { steps: 4000, checkpointEvery: 10, logEvery: 10, lbfgsIterations: 0, evaluateEvery: 0 },
+  warmStart: { type: 'reference', adamSteps: 20 },
+  training: { adamSteps: 4000, checkpointEvery: 10, logEvery: 10, lbfgsIterations: 0, evaluateEvery: 0 },
 };
 
 interface Proc {
@@ -93,7 +93,7 @@ describe('signals', () => {
     counts.tried++;
     const dir = tmp();
     const cfg = join(dir, 't.json');
-    writeFileSync(cfg, JSON.stringify({ ...TRAIN, training: { ...TRAIN.training, steps: 60 } }));
+    writeFileSync(cfg, JSON.stringify({ ...TRAIN, training: { ...TRAIN.training, adamSteps: 60 } }));
     const out = join(dir, 'run');
     const p = start(['train', cfg, '--out', out]);
     await p.waitFor(/step (1\d|[2-9]\d)\/60/, 120_000);
@@ -115,7 +115,7 @@ describe('signals', () => {
     counts.tried++;
     const dir = tmp();
     const cfg = join(dir, 's.json');
-    writeFileSync(cfg, JSON.stringify({ version: 1, kind: 'sweep', chain: { type: 'diblock' }, grid: { chiN: { from: 12, to: 20, count: 40 }, f: [0.5], segmentLengthRatio: [1] }, cell: { period: 'optimize', nx: 32, ns: 40 } }));
+    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: { from: 12, to: 20, count: 40 }, f: [0.5], segmentRatio: [1] }, cell: { period: 'equilibrium', nx: 32, ns: 40 } }));
     const out = join(dir, 'sw');
     const p = start(['sweep', cfg, '--out', out, '--workers', '1']);
     await p.waitFor(/point [2-9]\d*\/40/, 120_000);
@@ -137,7 +137,7 @@ describe('signals', () => {
 describe('resume fidelity', () => {
   it('a run stopped at step 25 by the stop flag and resumed reproduces the uninterrupted run', async () => {
     counts.tried++;
-    const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'optimize', nx: 32, ns: 40 }, training: { ...TRAIN.training, steps: 50, lbfgsIterations: 20, lbfgsCycles: 1 } });
+    const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 50, lbfgsIterations: 20, lbfgsCycles: 1 } });
     const whole = await trainRun({ config: base, backend: 'wasm' });
     const dir = join(tmp(), 'run');
     resetStop();

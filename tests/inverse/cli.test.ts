@@ -27,7 +27,7 @@ describe('mesofield synth', () => {
     const a = synth(dir, ['--noise', '0.02', '--seed', '4', '--points', '48']);
     const first = readFileSync(a, 'utf8');
     const truth = JSON.parse(readFileSync(join(dirname(a), 'truth.json'), 'utf8'));
-    expect(truth).toMatchObject({ kind: 'synth-truth', version: 1, chiN: 15, f: 0.5, noise: 0.02, seed: 4, points: 48, offset: 0.6 });
+    expect(truth).toMatchObject({ kind: 'synth-truth', version: 2, chiN: 15, f: 0.5, noise: 0.02, seed: 4, points: 48, offset: 0.6 });
     expect(truth.period).toBeGreaterThan(3.6);
     const rows = first.trim().split('\n');
     expect(rows[0]).toBe('x,phiA,sigma');
@@ -68,7 +68,7 @@ describe('mesofield invert', () => {
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);
     expect(res.kind).toBe('inversion');
-    expect(res.version).toBe(1);
+    expect(res.version).toBe(2); // inversion files are version 2 (io/formats/inversion.ts)
     expect(res.provenance.tool).toBe('mesofield');
     const c = res.estimators.classical;
     expect(Math.abs(c.chiN / 15 - 1)).toBeLessThan(0.02);
@@ -106,7 +106,7 @@ describe('mesofield invert', () => {
     const a = JSON.parse(runCli(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--json', '--quiet']).stdout).estimators.classical;
     expect(Math.abs(a.chiN / 15 - 1)).toBeLessThan(1e-4);
     expect(a.periodNm).toBeCloseTo(a.period * 2.8, 10);
-    const cfg = write(dir, 'cfg.json', JSON.stringify({ version: 1, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, grid: { nx: 32, ns: 60 }, units: { segments: 96, segmentLengthNm: 0.7 }, chiNRange: [11, 30] }));
+    const cfg = write(dir, 'cfg.json', JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, cell: { nx: 32, ns: 60 }, units: { segments: 96, segmentLengthNm: 0.7 }, chiNRange: [11, 30] }));
     const r = runCli(['invert', p, cfg, '--json', '--quiet']);
     expect(r.code).toBe(0);
     const b = JSON.parse(r.stdout);
@@ -176,7 +176,7 @@ describe('mesofield invert', () => {
       ['non-numeric chiN range', [one, '--f', '0.5', '--chiN-range', 'a,b'], /--chiN-range: got "a,b"; allowed: two numbers lo,hi/],
       ['range that excludes the fit', [one, '--f', '0.5', '--chiN-range', '20,40'], /--chiN-range: the best fit runs to the lower bound χN = 20/],
       ['bad period word', [one, '--f', '0.5', '--period', 'stressfree'], /--period: got "stressfree"; allowed: a period in Rg \(a number > 0\), or "equilibrium", "free"/],
-      ['bad nx', [one, '--f', '0.5', '--nx', '48'], /--nx → grid\.nx: got 48;.*power of two/],
+      ['bad nx', [one, '--f', '0.5', '--nx', '48'], /--nx → cell\.nx: got 48;.*power of two/],
       ['Rg given twice', [one, '--f', '0.5', '--rg-nm', '2', '--segments', '100'], /--rg-nm: give either --rg-nm or --segments/],
       ['segments without a length', [one, '--f', '0.5', '--segments', '100'], /--segment-length-nm: missing/],
       ['missing profile', [join(dir, 'nope.csv'), '--f', '0.5'], /nope\.csv: cannot read the file \(ENOENT\)/],
@@ -194,7 +194,7 @@ describe('mesofield invert', () => {
   it('bad config files: unknown field, wrong kind, bad JSON', () => {
     const dir = tmp();
     const p = synth(dir);
-    const base = { version: 1, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } } };
+    const base = { version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } } };
     const unknown = runCli(['invert', p, write(dir, 'u.json', JSON.stringify({ ...base, colour: 'red' }))]);
     expect(unknown.code).toBe(2);
     expect(unknown.stderr).toMatch(/u\.json: \(top level\): unknown field\(s\) "colour"/);
@@ -204,6 +204,6 @@ describe('mesofield invert', () => {
     expect(chiN.stderr).toMatch(/c\.json: system: unknown field\(s\) "chiN"/);
     const method = runCli(['invert', p, write(dir, 'm.json', JSON.stringify({ ...base, method: 'neural' }))]);
     expect(method.stderr).toMatch(/m\.json: method: got "neural"/);
-    expect(runCli(['invert', p, write(dir, 'b.json', '{ "version": 1,')]).stderr).toMatch(/b\.json: not valid JSON/);
+    expect(runCli(['invert', p, write(dir, 'b.json', '{ "version": 2,')]).stderr).toMatch(/b\.json: not valid JSON/);
   });
 });

@@ -5,7 +5,7 @@ import type { ProfileData } from '../../src/inverse/profile-csv.js';
 import type { SynthSettings } from '../../src/inverse/synth.js';
 import { synthesize } from '../../src/inverse/synth.js';
 
-export const diblock = (f: number): ChainSpec => ({ type: 'diblock', f, segmentLengths: { A: 1, B: 1 } });
+export const diblock = (f: number): ChainSpec => ({ type: 'diblock', f, segmentRatio: 1 });
 
 /** A synthetic profile as the inversion reads it (x in Rg, sigma column when noisy). */
 export function synthData(s: Partial<SynthSettings> & { chain: ChainSpec; chiN: number }, models?: ModelSet, withSigma = true): { data: ProfileData; truth: ReturnType<typeof synthesize> } {

@@ -7,8 +7,9 @@ import { runCli } from '../helpers/run-cli.js';
 const grid = ['--nx', '32', '--ns', '60'];
 const dir = mkdtempSync(join(tmpdir(), 'mesofield-meas-'));
 // Scenario of our own: χN = 15, Rg = 2.8 nm, two periods, 2 % noise, x written in nm.
-const nm = join(dir, 'nm.csv');
-const made = runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '2', '--points', '40', '--noise', '0.02', '--seed', '3', '--rg-nm', '2.8', '--out', nm]);
+// synth --out DIR writes DIR/profile.csv (and its truth beside it).
+const nm = join(dir, 'nm', 'profile.csv');
+const made = runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '2', '--points', '40', '--noise', '0.02', '--seed', '3', '--rg-nm', '2.8', '--out', join(dir, 'nm')]);
 
 describe('invert: honest about Rg and units', () => {
   it('states the Rg sensitivity without an sd, and profiles Rg out with one', () => {
@@ -44,7 +45,7 @@ describe('invert: honest about Rg and units', () => {
 describe('bragg-pattern', () => {
   it('prints the peaks of a solved lamella: even orders vanish at f = 0.5', () => {
     const out = join(dir, 'sol');
-    expect(runCli(['solve', '--f', '0.5', '--chiN', '20', '--period', 'optimize', ...grid, '--out', out, '--quiet']).code).toBe(0);
+    expect(runCli(['solve', '--f', '0.5', '--chiN', '20', '--period', 'equilibrium', ...grid, '--out', out, '--quiet']).code).toBe(0);
     const r = runCli(['bragg-pattern', join(out, 'solution.json'), '--orders', '4', '--json']);
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);

@@ -12,7 +12,7 @@ describe('mesofield invert --method both', () => {
     const csv = join(d, 'p', 'profile.csv');
     expect(runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', join(d, 'p')]).code).toBe(0);
     const out = join(d, 'run');
-    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--network-steps', '100', '--network-lbfgs', '100', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
+    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--adam-steps', '100', '--lbfgs-iterations', '100', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);
     expect(Object.keys(res.estimators).sort()).toEqual(['classical', 'network']);

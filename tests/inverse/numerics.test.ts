@@ -114,7 +114,7 @@ describe('root finding and interval levels', () => {
 
 describe('stress-free period of the forward model', () => {
   it('agrees with the free-energy minimisation of the reference (period-search.ts)', () => {
-    const chain = { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } };
+    const chain = { type: 'diblock' as const, f: 0.5, segmentRatio: 1 };
     const m = new LamellaModel({ chain, nx: 32, ns: 60 });
     const eq = m.equilibrium(15);
     const ref = findEquilibriumPeriod({ system: { chain, chiN: 15 }, cell: new PeriodicCell(1, 32, 1), contour: 60, options: { periodTolerance: 1e-7 } });

@@ -9,7 +9,7 @@ import { parseScatteringCsv } from '../../src/inverse/scattering/scattering-csv.
 import { fitScattering } from '../../src/inverse/scattering/scattering-fit.js';
 import { fitScatteringSeries } from '../../src/inverse/scattering/scattering-series.js';
 
-const diblock = (f: number) => ({ type: 'diblock' as const, f, segmentLengths: { A: 1, B: 1 } });
+const diblock = (f: number) => ({ type: 'diblock' as const, f, segmentRatio: 1 });
 
 describe('RPA structure factor of the disordered melt', () => {
   it('peaks at q*Rg ≈ 1.946 for f = 0.5 at every χN (Leibler 1980: x* = 3.785)', () => {

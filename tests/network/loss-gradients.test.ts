@@ -14,7 +14,7 @@ describe('full-loss parameter gradients', () => {
     it(`match finite differences on ${backend} (${constraints} constraints)`, async () => {
       const { tf } = await selectBackend(backend);
       const config = trainConfigSchema.parse({
-        version: 1,
+        version: 2,
         kind: 'train',
         system: { chain: { type: 'diblock', f: 0.4 }, chiN: 14 },
         networks: { field: { hidden: [6] }, propagator: { hidden: [6, 6], periodicity: constraints, initialCondition: constraints } },

@@ -197,7 +197,7 @@ describe.each(['cpu', 'wasm'] as BackendName[])('soft constraints on the %s back
   it('ScftProblem: the soft terms are the formulas through both propagator networks; exact forms give an exact 0', () => {
     const make = (periodicity: 'exact' | 'soft', initialCondition: 'exact' | 'soft') => {
       const config = trainConfigSchema.parse({
-        version: 1,
+        version: 2,
         kind: 'train',
         system: { chain: { type: 'diblock', f: F }, chiN: 14 },
         networks: { field: { hidden: [6] }, propagator: { hidden: [8, 8], periodicity, initialCondition } },
@@ -261,14 +261,14 @@ describe('the soft variants train (wasm)', () => {
       // Symmetric diblock at χN = 15 in a cell of its equilibrium period (3.71369 Rg, README),
       // warm-started from the spectral reference; small networks and a short budget.
       const config = trainConfigSchema.parse({
-        version: 1,
+        version: 2,
         kind: 'train',
         system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
         cell: { period: 3.71369, nx: 32, ns: 100 },
         networks: { field: { hidden: [32, 32] }, propagator: { hidden: [32, 32], periodicity, initialCondition } },
         collocation: { nx: 24, random: 128 },
-        warmStart: { steps: 300, learningRate: 0.01 },
-        training: { steps: 150, learningRate: 1e-3, logEvery: 10 },
+        warmStart: { adamSteps: 300, learningRate: 0.01 },
+        training: { adamSteps: 150, learningRate: 1e-3, logEvery: 10 },
       });
       const r = await trainRun({ config, backend: 'wasm' });
       const adam = r.history.filter((h) => h.stage === 'adam');

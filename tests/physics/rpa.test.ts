@@ -2,7 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { buildChain } from '../../src/physics/chain.js';
 import { correlations, debyeBlock, inverseStructureFactor, spinodal } from '../../src/physics/rpa.js';
 
-const diblock = (f: number, bA = 1, bB = 1) => buildChain({ type: 'diblock', f, segmentLengths: { A: bA, B: bB } });
+// Segment lengths of both blocks given separately: the general block form of a diblock.
+const diblock = (f: number, bA = 1, bB = 1) =>
+  buildChain({ type: 'blocks', blocks: [{ species: 'A', fraction: f, segmentLength: bA }, { species: 'B', fraction: 1 - f, segmentLength: bB }] });
 
 describe('RPA spinodal (Leibler, Macromolecules 13, 1602, 1980)', () => {
   it('symmetric diblock: (χN)_s = 10.495 and q*Rg = 1.946', () => {
@@ -55,7 +57,7 @@ describe('RPA spinodal (Leibler, Macromolecules 13, 1602, 1980)', () => {
 
   it('symmetric ABA triblock: (χN)_s ≈ 18.0', () => {
     // From memory: the symmetric ABA triblock spinodal lies near χN = 18 (17.996 in mean field).
-    const sp = spinodal(buildChain({ type: 'triblock', f: 0.5, firstBlockShare: 0.5, segmentLengths: { A: 1, B: 1 } }));
+    const sp = spinodal(buildChain({ type: 'triblock', f: 0.5, firstBlockShare: 0.5, segmentRatio: 1 }));
     expect(sp.chiN).toBeCloseTo(18.0, 1);
   });
 

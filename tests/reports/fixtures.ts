@@ -9,7 +9,7 @@ import type { ScftSolution } from '../../src/physics/result.js';
 import type { InversionInput, ReportInput, RunInfo, TrainingInput } from '../../src/reports/report-inputs.js';
 import { trainingRecords } from '../../src/reports/readers/training-history.js';
 
-export const SYSTEM = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+export const SYSTEM = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
 export const LENGTH = 3.7;
 export const NX = 32;
 export const NS = 40;

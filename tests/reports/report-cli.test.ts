@@ -51,7 +51,7 @@ describe('mesofield report on a sweep run', () => {
     const cfg = join(root, 'scan.sweep.json');
     writeFileSync(
       cfg,
-      JSON.stringify({ version: 1, kind: 'sweep', chain: { type: 'diblock' }, grid: { chiN: { from: 9, to: 21, count: 5 }, f: [0.5], segmentLengthRatio: [1] }, cell: { period: 'optimize', periods: 1, nx: 32, ns: 60 }, reference: { tolerance: 1e-8 } }),
+      JSON.stringify({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: { from: 9, to: 21, count: 5 }, f: [0.5], segmentRatio: [1] }, cell: { period: 'equilibrium', periods: 1, nx: 32, ns: 60 }, solver: { tolerance: 1e-8 } }),
     );
     const dir = join(root, 'scan');
     const s = runCli(['sweep', cfg, '--out', dir, '--quiet'], { timeoutMs: 120_000 });
@@ -92,7 +92,7 @@ describe('mesofield report: bad input exits 2 with a message naming the problem'
     writeFileSync(join(out, 'report.pdf'), 'previous report');
     const r = runCli(['report', bad, '--out', out]);
     expect(r.code).toBe(2);
-    expect(r.stderr).toContain(`${join(bad, 'solution.json')}: propagators.q: got 40 rows; must hold summary.ns + 1 = 41`);
+    expect(r.stderr).toContain(`${join(bad, 'solution.json')}: propagators.q: got 40 values; must hold summary.ns + 1 = 41 rows`);
     expect(readFileSync(join(out, 'report.pdf'), 'utf8')).toBe('previous report');
   });
 
@@ -116,10 +116,11 @@ describe('mesofield report: bad input exits 2 with a message naming the problem'
     const net = structuredClone(ref);
     net.summary.solver = 'network';
     net.summary.length = ref.summary.length * 1.1;
+    net.cell.length = net.summary.length;
     writeFileSync(join(mixed, 'network-solution.json'), JSON.stringify(net));
     const r = runCli(['report', mixed]);
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/network-solution\.json: grid nx = 32, L = .* differs from the reference's/);
+    expect(r.stderr).toMatch(/network-solution\.json against .*solution\.json: the network solution and the reference differ \(cell length [\d.]+ Rg against [\d.]+ Rg\)/);
   });
 
   it('bad --format and --dpi', () => {

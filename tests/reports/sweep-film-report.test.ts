@@ -27,7 +27,7 @@ function lawPoints(): SweepPointInput[] {
     return {
       chiN,
       f: 0.5,
-      segmentLengthRatio: 1,
+      segmentRatio: 1,
       phase: ordered ? 'lamellar' : 'disordered',
       period: ordered ? 1.2 * chiN ** (1 / 6) : null,
       freeEnergy: ordered ? chiN / 4 - 0.01 * (chiN - 10.495) ** 2 : chiN / 4,
@@ -51,7 +51,7 @@ describe('sweep analysis', () => {
   });
 
   it('uses the RPA spinodal of the library: symmetric diblock 10.495 (Leibler 1980; from memory)', () => {
-    expect(spinodal(buildChain({ type: 'diblock', f: 0.5, segmentLengths: { A: 1, B: 1 } })).chiN).toBeCloseTo(10.495, 3);
+    expect(spinodal(buildChain({ type: 'diblock', f: 0.5, segmentRatio: 1 })).chiN).toBeCloseTo(10.495, 3);
   });
 
   it('draws F − F_dis, the period with the fitted exponent and Q, with units, and lists every point', () => {
@@ -68,7 +68,7 @@ describe('sweep analysis', () => {
 
 describe('film pages', () => {
   it('draw the profiles between the walls and count the layers', () => {
-    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
     const walls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
     const r = solveFilm({ system, cell: new FilmCell(3.7, 32, walls), contour: 40 });
     const input: ReportInput = {
@@ -86,7 +86,7 @@ describe('film pages', () => {
   });
 
   it('draw R(Q) against data when a reflectivity fit fills the hook', () => {
-    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
     const r = solveFilm({ system, cell: new FilmCell(3.7, 32, { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 }), contour: 40 });
     // Fresnel reflectivity of a bare substrate, R = |(Q − √(Q² − Qc²))/(Q + √(Q² − Qc²))|², Qc = 0.02 (Parratt 1954 limit; common practice).
     const q = Array.from({ length: 40 }, (_, i) => 0.025 + 0.005 * i);
@@ -100,7 +100,7 @@ describe('film pages', () => {
   });
 
   it('draw F(H) from a thickness scan with its minima marked', () => {
-    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 15 };
+    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
     const walls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
     // Three thicknesses of five-layer films; the middle one is lowest (measured: F 2.946, 2.924, 2.937 kT per chain), so one minimum.
     const scan = scanThickness({ system, walls, thicknesses: [5.6, 6.4, 7.2], nx: 32, ns: 40 });

@@ -9,7 +9,7 @@ import { PropagatorSolver } from '../../src/spectral/propagator-solver.js';
 import { solveFixedCell } from '../../src/spectral/scft-solver.js';
 import { minimaOf, scanThickness } from '../../src/spectral/thickness-scan.js';
 
-const diblock = (f: number, chiN: number) => ({ chain: { type: 'diblock' as const, f, segmentLengths: { A: 1, B: 1 } }, chiN });
+const diblock = (f: number, chiN: number) => ({ chain: { type: 'diblock' as const, f, segmentRatio: 1 }, chiN });
 const walls = (bottom: number, top: number) => ({ bottom: { affinity: bottom }, top: { affinity: top }, range: 0.25 });
 /** Equilibrium period of the symmetric diblock at χN = 15 on 64 × 100 (README, mesofield solve). */
 const D = 3.7136907;

@@ -7,7 +7,7 @@ import { countDomains, solveFixedCell } from '../../src/spectral/scft-solver.js'
 import { solveFromConfig } from '../../src/spectral/solve-from-config.js';
 import { solveConfigSchema } from '../../src/io/schemas/solve-config.js';
 
-const system = (chiN: number) => ({ chain: { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN });
+const system = (chiN: number) => ({ chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN });
 
 describe('the equilibrium period', () => {
   it('the stress-free period is the minimum of F(L), found independently by Brent’s method on full solves', () => {
@@ -36,7 +36,7 @@ describe('the equilibrium period', () => {
   it('a fixed cell that holds two equilibrium periods gives the lamella with two periods, not disorder', () => {
     // Issue 12 §6, measured before the fix: χN = 15, L = 7.4 Rg gave the disordered state
     // (F = 3.75) while --period 3.7 --periods 2 in the same cell gave the lamella, F = 3.4293.
-    const config = (period: number, periods: number) => solveConfigSchema.parse({ version: 1, kind: 'solve', system: system(15), cell: { period, periods, nx: 128, ns: 100 } });
+    const config = (period: number, periods: number) => solveConfigSchema.parse({ version: 2, kind: 'solve', system: system(15), cell: { period, periods, nx: 128, ns: 100 } });
     const one = solveFromConfig(config(7.4, 1)).solution;
     const two = solveFromConfig(config(3.7, 2)).solution;
     expect(one.phase).toBe('lamellar');

@@ -6,7 +6,11 @@ import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import { buildChain } from '../../src/physics/chain.js';
 import { contourFromSteps, contourWithTotal } from '../../src/physics/contour.js';
 
-const diblock = (f: number, chiN: number, bA = 1, bB = 1): SystemSpec => ({ chain: { type: 'diblock', f, segmentLengths: { A: bA, B: bB } }, chiN });
+// Segment lengths of both blocks given separately: the general block form of a diblock.
+const diblock = (f: number, chiN: number, bA = 1, bB = 1): SystemSpec => ({
+  chain: { type: 'blocks', blocks: [{ species: 'A', fraction: f, segmentLength: bA }, { species: 'B', fraction: 1 - f, segmentLength: bB }] },
+  chiN,
+});
 
 describe('SCFT fixed-cell solve', () => {
   it('homopolymer melt: φ ≡ 1, Q = 1, F = 0 from a non-uniform start', () => {
@@ -83,7 +87,7 @@ describe('SCFT fixed-cell solve', () => {
   });
 
   it('gives every block an even number of steps of its own (any block fractions), and rejects an odd count, explaining why', () => {
-    const sys: SystemSpec = { chain: { type: 'triblock', f: 0.5, firstBlockShare: 0.5, segmentLengths: { A: 1, B: 1 } }, chiN: 25 };
+    const sys: SystemSpec = { chain: { type: 'triblock', f: 0.5, firstBlockShare: 0.5, segmentRatio: 1 }, chiN: 25 };
     const chain = buildChain(sys.chain);
     expect(() => contourFromSteps(chain, [25, 50, 25])).toThrow(/even whole number.*contour steps.*Simpson/);
     // 100 steps over blocks of 0.25, 0.5, 0.25: 25 is odd, so the end blocks get 26 steps each.

@@ -20,7 +20,7 @@ describe('surrogate commands', () => {
     writeFileSync(
       configPath,
       JSON.stringify({
-        version: 1,
+        version: 2,
         kind: 'surrogate',
         backend: 'wasm',
         parameters: { chiN: { min: 13, max: 17, anchors: 3 } },
@@ -46,10 +46,10 @@ describe('surrogate commands', () => {
     expect(file.metrics.heldOut.map((h: { point: { chiN: number } }) => h.point.chiN)).toEqual([14, 16]);
   });
 
-  it('train refuses --steps and --resume for a surrogate config (exit 2, naming the flag)', () => {
-    const r = runCli(['train', configPath, '--steps', '10', '--out', join(work, 'x')]);
+  it('train refuses --adam-steps and --resume for a surrogate config (exit 2, naming the flag)', () => {
+    const r = runCli(['train', configPath, '--adam-steps', '10', '--out', join(work, 'x')]);
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/--steps: got "10"; a surrogate config has no steps: set training.rounds/);
+    expect(r.stderr).toMatch(/--adam-steps: got "10"; a surrogate's Adam steps are warmStart.adamSteps/);
     const resume = runCli(['train', configPath, '--resume', ck]);
     expect(resume.code).toBe(2);
     expect(resume.stderr).toMatch(/--resume: got ".*"; a surrogate run cannot be resumed/);
@@ -58,7 +58,7 @@ describe('surrogate commands', () => {
   it('predict prints period, F, Q and the profile inside the range', () => {
     const r = runCli(['predict', ck, '--chiN', '15.5', '--points', '8']);
     expect(r.code, r.stderr).toBe(0);
-    expect(r.stdout).toMatch(/surrogate at χN = 15\.5: lamellar, period 3\.\d+ Rg/);
+    expect(r.stdout).toMatch(/surrogate at χN = 15\.5: lamellar \(compared with disorder only\), period 3\.\d+ Rg/);
     expect(r.stdout).toMatch(/F = 3\.\d+ kT\/chain/);
     const rows = r.stdout.trim().split('\n').filter((l) => /^\s+\d/.test(l));
     expect(rows.length).toBe(8);

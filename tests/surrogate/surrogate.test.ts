@@ -21,7 +21,7 @@ import { loadSurrogate } from '../../src/surrogate/surrogate-checkpoint.js';
 import { surrogateRun } from '../../src/surrogate/surrogate-run.js';
 import type { SurrogateRunResult } from '../../src/surrogate/surrogate-run.js';
 
-const cfg = (c: Omit<SurrogateConfigInput, 'version' | 'kind'>) => surrogateConfigSchema.parse({ version: 1, kind: 'surrogate', backend: 'wasm', ...c });
+const cfg = (c: Omit<SurrogateConfigInput, 'version' | 'kind'>) => surrogateConfigSchema.parse({ version: 2, kind: 'surrogate', backend: 'wasm', ...c });
 
 describe('monotone cubic period model', () => {
   it('reproduces linear data exactly and never overshoots monotone data', () => {
@@ -88,7 +88,7 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
 
   it('predictions are continuous in χN: small changes give proportionally small changes, no jumps', () => {
     const model = run.model;
-    const phi = (chiN: number) => predictAt(model, { chiN, f: 0.5, segmentLengthRatio: 1 }).phiA;
+    const phi = (chiN: number) => predictAt(model, { chiN, f: 0.5, segmentRatio: 1 }).phiA;
     const base = phi(16.3);
     const d = [1e-3, 1e-2].map((h) => relL2(phi(16.3 + h), base));
     // Differentiable in χN: ten times the step, about ten times the change (common practice, no source).
@@ -107,7 +107,7 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
 
   it('a prediction is a consistent SCFT state: F = −ln Q + ⟨χN φAφB − wAφA − wBφB⟩, Q from q and q† agree, φA + φB ≈ 1', () => {
     // F formula and Q = Q† from SCFT-NOTES.md, evaluated here independently of physics/scft-equations.ts.
-    const p = predictAt(run.model, { chiN: 17.3, f: 0.5, segmentLengthRatio: 1 });
+    const p = predictAt(run.model, { chiN: 17.3, f: 0.5, segmentRatio: 1 });
     const n = p.phiA.length;
     let mean = 0;
     for (let j = 0; j < n; j++) mean += 17.3 * p.phiA[j] * p.phiB[j] - p.wA[j] * p.phiA[j] - p.wB[j] * p.phiB[j];
@@ -119,10 +119,15 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
   });
 
   it('refuses points outside the trained range unless extrapolation is allowed', () => {
-    expect(() => predictAt(run.model, { chiN: 20.5, f: 0.5, segmentLengthRatio: 1 })).toThrow(/--chiN: got 20.5; the surrogate was trained for χN in \[12, 20\]/);
-    expect(() => predictAt(run.model, { chiN: 15, f: 0.45, segmentLengthRatio: 1 })).toThrow(/--f: got 0.45; the surrogate was trained at the fixed f = 0.5 only/);
-    const p = predictAt(run.model, { chiN: 20.5, f: 0.5, segmentLengthRatio: 1 }, { allowExtrapolation: true });
+    expect(() => predictAt(run.model, { chiN: 20.5, f: 0.5, segmentRatio: 1 })).toThrow(/--chiN: got 20.5; the surrogate was trained for χN in \[12, 20\]/);
+    expect(() => predictAt(run.model, { chiN: 15, f: 0.45, segmentRatio: 1 })).toThrow(/--f: got 0.45; the surrogate was trained at the fixed f = 0.5 only/);
+    // A parameter the surrogate holds fixed has no network input: no answer exists there, even when extrapolation is allowed.
+    expect(() => predictAt(run.model, { chiN: 15, f: 0.45, segmentRatio: 1 }, { allowExtrapolation: true })).toThrow(/--f: got 0.45; .*fixed f = 0.5 only[\s\S]*--allow-extrapolation does not apply/);
+    expect(() => predictAt(run.model, { chiN: 15, f: 0.5, segmentRatio: 1.2 }, { allowExtrapolation: true })).toThrow(/--segment-ratio: got 1.2/);
+    const p = predictAt(run.model, { chiN: 20.5, f: 0.5, segmentRatio: 1 }, { allowExtrapolation: true });
     expect(p.outside.length).toBe(1);
+    // Checked like any answer: φA + φB = 1 (docs/physics.md: incompressibility) to the surrogate's limit, or a warning says it failed.
+    expect(p.incompressibilityMax > 1e-3).toBe(p.warnings.some((w) => w.includes('φA + φB departs from 1')));
   });
 
   it('a saved checkpoint gives identical predictions when loaded', async () => {
@@ -132,8 +137,8 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
       expect(file.provenance.backend).toBe('wasm');
       expect(file.config.parameters.chiN).toEqual({ min: 12, max: 20, anchors: 5 });
       for (const chiN of [12, 14.2, 19.9]) {
-        const a = predictAt(run.model, { chiN, f: 0.5, segmentLengthRatio: 1 }, { points: 50 });
-        const b = predictAt(model, { chiN, f: 0.5, segmentLengthRatio: 1 }, { points: 50 });
+        const a = predictAt(run.model, { chiN, f: 0.5, segmentRatio: 1 }, { points: 50 });
+        const b = predictAt(model, { chiN, f: 0.5, segmentRatio: 1 }, { points: 50 });
         expect(b.phiA).toEqual(a.phiA);
         expect(b.freeEnergy).toBe(a.freeEnergy);
         expect(b.period).toBe(a.period);
@@ -148,7 +153,7 @@ describe('surrogate over χN and b_A/b_B (two parameters)', () => {
   it('trains, keeps the mean composition at f, and reports an error map over the anchor cells', async () => {
     const dir = join(mkdtempSync(join(tmpdir(), 'mesofield-surrogate-2d-')), 'ck');
     const config = cfg({
-      parameters: { chiN: { min: 14, max: 18, anchors: 2 }, f: 0.4, segmentLengthRatio: { min: 0.8, max: 1.2, anchors: 2 } },
+      parameters: { chiN: { min: 14, max: 18, anchors: 2 }, f: 0.4, segmentRatio: { min: 0.8, max: 1.2, anchors: 2 } },
       cell: { nx: 32, ns: 60 },
       warmStart: { extraSolves: 4, lbfgsIterations: 200 },
       training: { rounds: 1, pointsPerRound: 4, evaluateEvery: 0 },
@@ -156,12 +161,12 @@ describe('surrogate over χN and b_A/b_B (two parameters)', () => {
     });
     const run = await surrogateRun({ config, outDir: dir });
     try {
-      expect(run.metrics.heldOut.map((e) => [e.point.chiN, e.point.segmentLengthRatio])).toEqual([[16, 1]]);
+      expect(run.metrics.heldOut.map((e) => [e.point.chiN, e.point.segmentRatio])).toEqual([[16, 1]]);
       // Measured here: 2.1e-3 at the one cell centre (4 anchors, 4 extra solves, 200 L-BFGS iterations; the anchors' interpolated profiles: 2.3e-2).
       expect(run.metrics.heldOut[0].phiA.relativeL2).toBeLessThan(1e-2);
       // ⟨φ_A⟩ = f: the A segments of every chain add up to the fraction f (SCFT-NOTES.md, densities normalised by Q).
       for (const ratio of [0.85, 1.13]) {
-        const p = predictAt(run.model, { chiN: 15, f: 0.4, segmentLengthRatio: ratio });
+        const p = predictAt(run.model, { chiN: 15, f: 0.4, segmentRatio: ratio });
         expect(p.phiA.reduce((a, b) => a + b, 0) / p.phiA.length).toBeCloseTo(0.4, 6);
       }
       const { loadRun } = await import('../../src/reports/load-run.js');
@@ -177,8 +182,8 @@ describe('surrogate over χN and b_A/b_B (two parameters)', () => {
 
 describe('surrogate set-up', () => {
   it('takes a range of f (each block has its own contour steps), and refuses an empty one', () => {
-    expect(surrogateConfigSchema.safeParse({ version: 1, kind: 'surrogate', parameters: { chiN: { min: 12, max: 20 }, f: { min: 0.4, max: 0.5 } } }).success).toBe(true);
-    const r = surrogateConfigSchema.safeParse({ version: 1, kind: 'surrogate', parameters: { chiN: { min: 12, max: 20 }, f: { min: 0.5, max: 0.4 } } });
+    expect(surrogateConfigSchema.safeParse({ version: 2, kind: 'surrogate', parameters: { chiN: { min: 12, max: 20 }, f: { min: 0.4, max: 0.5 } } }).success).toBe(true);
+    const r = surrogateConfigSchema.safeParse({ version: 2, kind: 'surrogate', parameters: { chiN: { min: 12, max: 20 }, f: { min: 0.5, max: 0.4 } } });
     expect(r.success).toBe(false);
     expect(r.error!.issues[0].message).toMatch(/min < max/);
   });

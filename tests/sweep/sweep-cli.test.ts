@@ -9,9 +9,9 @@ import { runCli } from '../helpers/run-cli.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-sweep-cli-'));
 
-function writeConfig(dir: string, grid: unknown, extra: Record<string, unknown> = {}): string {
+function writeConfig(dir: string, parameters: unknown, extra: Record<string, unknown> = {}): string {
   const p = join(dir, 'grid.sweep.json');
-  writeFileSync(p, JSON.stringify({ version: 1, kind: 'sweep', grid, cell: { nx: 32, ns: 40 }, ...extra }));
+  writeFileSync(p, JSON.stringify({ version: 2, kind: 'sweep', parameters, cell: { nx: 32, ns: 40 }, ...extra }));
   return p;
 }
 
@@ -38,7 +38,7 @@ describe('mesofield sweep', () => {
     expect(m.stderr).toMatch(/merged 2 shard files \(3 points\)/);
     const table = JSON.parse(readFileSync(join(merged, 'sweep.json'), 'utf8'));
     expect(table.points.map((p: { chiN: number; phase: string }) => [p.chiN, p.phase])).toEqual([[11, 'lamellar'], [13, 'lamellar'], [15, 'lamellar']]);
-    expect(readFileSync(join(merged, 'sweep.csv'), 'utf8').split('\n')[0]).toMatch(/^index,chiN,f,segmentLengthRatio,phase,period,freeEnergy,/);
+    expect(readFileSync(join(merged, 'sweep.csv'), 'utf8').split('\n')[0]).toMatch(/^index,chiN,f,segmentRatio,phase,period,freeEnergy,/);
 
     const missing = runCli(['sweep', '--merge', join(out, 'shard-2-of-2.json'), '--out', join(dir, 'bad')]);
     expect(missing.code).toBe(2);
@@ -71,10 +71,10 @@ describe('mesofield sweep', () => {
     expect(JSON.parse(anyF.stdout).points.map((p: { phase: string }) => p.phase)).toEqual(['lamellar', 'lamellar']);
     const range = runCli(['sweep', writeConfig(dir, { chiN: { from: 10, to: 12, count: 0 } })]);
     expect(range.code).toBe(2);
-    expect(range.stderr).toMatch(/grid\.chiN/);
-    const file = runCli(['sweep', writeConfig(dir, { chiN: [12] }, { reference: { start: { type: 'file', path: 'x.json' } } })]);
+    expect(range.stderr).toMatch(/parameters\.chiN/);
+    const file = runCli(['sweep', writeConfig(dir, { chiN: [12] }, { solver: { start: { type: 'file', path: 'x.json' } } })]);
     expect(file.code).toBe(2);
-    expect(file.stderr).toMatch(/reference\.start\.type: got "file"; start "file" is not allowed in a sweep/);
+    expect(file.stderr).toMatch(/solver\.start\.type: got "file"; start "file" is not allowed in a sweep/);
     expect(runCli(['sweep', cfg, '--merge', dir, '--out', dir]).stderr).toMatch(/config: got .* with --merge/);
     expect(runCli(['sweep', '--merge', dir]).stderr).toMatch(/--out: missing; --merge needs/);
     expect(runCli(['sweep']).code).toBe(2);
@@ -84,7 +84,7 @@ describe('mesofield sweep', () => {
   it('points the solver gives up on are saved as failed, with the reason, and the run exits 3', () => {
     const dir = tmp();
     const out = join(dir, 'out');
-    const r = runCli(['sweep', writeConfig(dir, { chiN: [12, 14] }, { reference: { maxIterations: 3 } }), '--out', out, '--workers', '1']);
+    const r = runCli(['sweep', writeConfig(dir, { chiN: [12, 14] }, { solver: { maxIterations: 3 } }), '--out', out, '--workers', '1']);
     expect(r.code).toBe(3);
     expect(r.stderr).toMatch(/2 of 2 sweep points failed \(0–1\)/);
     const table = JSON.parse(readFileSync(join(out, 'sweep.json'), 'utf8'));

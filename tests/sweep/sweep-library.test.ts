@@ -16,10 +16,10 @@ import { formatIndices, shardIndices } from '../../src/sweep/shard.js';
 import type { SweepPointResult } from '../../src/sweep/solve-point.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-sweep-'));
-const config = (grid: SweepConfigInput['grid']) => sweepConfigSchema.parse({ version: 1, kind: 'sweep', grid, cell: { nx: 32, ns: 40 } });
+const config = (parameters: SweepConfigInput['parameters']) => sweepConfigSchema.parse({ version: 2, kind: 'sweep', parameters, cell: { nx: 32, ns: 40 } });
 
 // Two values on every axis (8 points), one of them near the transition.
-const small = config({ chiN: [11, 15], f: [0.45, 0.5], segmentLengthRatio: [1, 1.3] });
+const small = config({ chiN: [11, 15], f: [0.45, 0.5], segmentRatio: [1, 1.3] });
 
 /** Everything but the wall time, which is the one field allowed to differ. */
 const numbers = (ps: SweepPointResult[]) => ps.map(({ seconds: _, ...rest }) => rest);
@@ -29,7 +29,7 @@ describe('sweep grid and shards', () => {
     expect(axisValues({ from: 10, to: 18, count: 9 })).toEqual([10, 11, 12, 13, 14, 15, 16, 17, 18]);
     expect(axisValues({ from: 0.1, to: 0.7, count: 3 })[2]).toBe(0.7);
     const pts = sweepPoints(small);
-    expect(pts.map((p) => [p.f, p.segmentLengthRatio, p.chiN])).toEqual([
+    expect(pts.map((p) => [p.f, p.segmentRatio, p.chiN])).toEqual([
       [0.45, 1, 11], [0.45, 1, 15], [0.45, 1.3, 11], [0.45, 1.3, 15],
       [0.5, 1, 11], [0.5, 1, 15], [0.5, 1.3, 11], [0.5, 1.3, 15],
     ]);
@@ -65,7 +65,7 @@ describe('sweep runs', () => {
     const json = JSON.parse(readFileSync(join(wholeDir, 'sweep.json'), 'utf8'));
     expect(json.kind).toBe('sweep-table');
     expect(json.provenance.tool).toBe('mesofield');
-    expect(json.config.grid.chiN).toEqual([11, 15]);
+    expect(json.config.parameters.chiN).toEqual([11, 15]);
   });
 
   it('two worker threads give the same numbers as one', async () => {

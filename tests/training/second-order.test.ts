@@ -20,14 +20,14 @@ const externalFieldSystem = {
 describe('second-order phase', () => {
   it('a chain in a cosine field: from a cold start, φA within 1e-3 of the spectral reference in 25 LM iterations; the best state is kept and said', async () => {
     const config = trainConfigSchema.parse({
-      version: 1,
+      version: 2,
       kind: 'train',
       system: externalFieldSystem,
       cell: { period: 4.0, nx: 64, ns: 100 },
       networks: { propagator: { hidden: [12, 12], fourierModes: 3 } },
       collocation: { nx: 32, nodesPerBlock: 32, random: 0 },
       warmStart: { type: 'none' },
-      training: { steps: 0, evaluateEvery: 1, secondOrderIterations: 25, secondOrder: { evaluateEvery: 5 } },
+      training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: 25, secondOrder: { evaluateEvery: 5 } },
     });
     const r = await trainRun({ config, backend: 'wasm' });
     const t = r.metrics.training;
@@ -55,14 +55,14 @@ describe('train verdict', () => {
     writeFileSync(
       cfg,
       JSON.stringify({
-        version: 1,
+        version: 2,
         kind: 'train',
         system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
-        cell: { period: 'optimize', nx: 32, ns: 60 },
+        cell: { period: 'equilibrium', nx: 32, ns: 60 },
         networks: { field: { hidden: [8] }, propagator: { hidden: [8, 8] } },
         collocation: { nx: 16, nodesPerBlock: 8, random: 0 },
         warmStart: { type: 'none' },
-        training: { steps: 3, evaluateEvery: 1, targetPhiError: 1e-6 },
+        training: { adamSteps: 3, evaluateEvery: 1, targetPhiError: 1e-6 },
       }),
     );
     const out = join(dir, 'run');

@@ -15,7 +15,7 @@ import { buildChain } from '../../src/physics/chain.js';
 import { runCli } from '../helpers/run-cli.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-train-'));
-const cfg = (c: Omit<TrainConfigInput, 'version' | 'kind'>) => trainConfigSchema.parse({ version: 1, kind: 'train', ...c });
+const cfg = (c: Omit<TrainConfigInput, 'version' | 'kind'>) => trainConfigSchema.parse({ version: 2, kind: 'train', ...c });
 
 const fieldSystem = {
   chain: { type: 'homopolymer' as const, species: 'A' as const },
@@ -25,7 +25,7 @@ const fieldSystem = {
 describe('trainer: single-chain and homopolymer problems', () => {
   it('homopolymer in a cosine field: the network propagator matches the spectral one', async () => {
     // Reference: the spectral MDE solver, itself checked against analytic solutions (tests/spectral).
-    const r = await trainRun({ config: cfg({ system: fieldSystem, cell: { period: 4, nx: 64, ns: 100 }, warmStart: { type: 'none' }, training: { steps: 600, learningRate: 2e-3 } }), backend: 'wasm' });
+    const r = await trainRun({ config: cfg({ system: fieldSystem, cell: { period: 4, nx: 64, ns: 100 }, warmStart: { type: 'none' }, training: { adamSteps: 600, learningRate: 2e-3 } }), backend: 'wasm' });
     expect(r.metrics.phase).toBe('single-chain');
     expect(r.metrics.sharedPropagator).toBe(true);
     expect(r.metrics.errors.phiA.relativeL2).toBeLessThan(3e-2);
@@ -35,7 +35,7 @@ describe('trainer: single-chain and homopolymer problems', () => {
 
   it('homopolymer melt: φ ≡ 1 and a flat field', async () => {
     // SCFT-NOTES.md: a one-species melt has φ ≡ 1, w ≡ const, q ≡ 1 after the gauge.
-    const r = await trainRun({ config: cfg({ system: { chain: { type: 'homopolymer', species: 'A' } }, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { steps: 400, learningRate: 2e-3, fieldUpdateEvery: 20 } }), backend: 'wasm' });
+    const r = await trainRun({ config: cfg({ system: { chain: { type: 'homopolymer', species: 'A' } }, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { adamSteps: 400, learningRate: 2e-3, fieldUpdateEvery: 20 } }), backend: 'wasm' });
     expect(r.metrics.phase).toBe('homogeneous-melt');
     expect(r.metrics.errors.incompressibilityMax).toBeLessThan(2e-2);
     for (const v of r.network.phi.A) expect(Math.abs(v - 1)).toBeLessThan(2e-2);
@@ -45,9 +45,9 @@ describe('trainer: single-chain and homopolymer problems', () => {
 describe('trainer: symmetric diblock, warm start, checkpoints', () => {
   const base = cfg({
     system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
-    cell: { period: 'optimize', nx: 64, ns: 100 },
-    warmStart: { type: 'reference', steps: 400, learningRate: 0.01 },
-    training: { steps: 300, learningRate: 1e-3, checkpointEvery: 100 },
+    cell: { period: 'equilibrium', nx: 64, ns: 100 },
+    warmStart: { type: 'reference', adamSteps: 400, learningRate: 0.01 },
+    training: { adamSteps: 300, learningRate: 1e-3, checkpointEvery: 100 },
   });
   const dir = join(tmp(), 'ck');
   let first: Awaited<ReturnType<typeof trainRun>>;
@@ -76,10 +76,10 @@ describe('trainer: symmetric diblock, warm start, checkpoints', () => {
   it('transfers from the χN = 15 checkpoint to χN = 16 and reaches the target error', async () => {
     const transfer = cfg({
       system: { chain: { type: 'diblock', f: 0.5 }, chiN: 16 },
-      cell: { period: 'optimize', nx: 64, ns: 100 },
+      cell: { period: 'equilibrium', nx: 64, ns: 100 },
       initFrom: dir,
       // Measured: with field updates every 25 steps the transfer reaches 1e-2 at step 150 (every 50: step 325).
-      training: { steps: 300, learningRate: 1e-3, evaluateEvery: 25, targetPhiError: 1e-2, fieldUpdateEvery: 25 },
+      training: { adamSteps: 300, learningRate: 1e-3, evaluateEvery: 25, targetPhiError: 1e-2, fieldUpdateEvery: 25 },
     });
     const r = await trainRun({ config: transfer, backend: 'wasm' });
     expect(r.metrics.training.transferredFrom).toEqual({ checkpoint: dir, chiN: 15, f: 0.5 });
@@ -89,12 +89,12 @@ describe('trainer: symmetric diblock, warm start, checkpoints', () => {
   });
 
   it('seeded runs repeat and a resumed run continues the same loss curve', async () => {
-    const short = { ...base, cell: { ...base.cell, nx: 32 }, warmStart: { ...base.warmStart, steps: 50 }, collocation: { ...base.collocation, resampleEvery: 40 }, training: { ...base.training, steps: 90, checkpointEvery: 45, fieldUpdateEvery: 50, logEvery: 10 } };
+    const short = { ...base, cell: { ...base.cell, nx: 32 }, warmStart: { ...base.warmStart, adamSteps: 50 }, collocation: { ...base.collocation, resampleEvery: 40 }, training: { ...base.training, adamSteps: 90, checkpointEvery: 45, fieldUpdateEvery: 50, logEvery: 10 } };
     const a = await trainRun({ config: short, backend: 'wasm' });
     const b = await trainRun({ config: short, backend: 'wasm' });
     expect(b.history.map((h) => h.total)).toEqual(a.history.map((h) => h.total));
     const half = join(tmp(), 'half');
-    await trainRun({ config: { ...short, training: { ...short.training, steps: 45 } }, outDir: half, backend: 'wasm' });
+    await trainRun({ config: { ...short, training: { ...short.training, adamSteps: 45 } }, outDir: half, backend: 'wasm' });
     const resumed = await trainRun({ config: short, resumeDir: half, outDir: half, backend: 'wasm' });
     // The resume point (45) falls between a resampling (40) and a field update (50): both must carry over.
     const tail = (h: typeof a.history) => h.filter((e) => e.step > 45).map((e) => e.total);
@@ -107,7 +107,7 @@ describe('trainer: symmetric diblock, warm start, checkpoints', () => {
   it('a corrupted or mismatched checkpoint fails with a clear message', async () => {
     const { tf } = await selectBackend('wasm');
     const bad = join(tmp(), 'bad');
-    await trainRun({ config: { ...base, warmStart: { ...base.warmStart, steps: 5 }, training: { ...base.training, steps: 2 } }, outDir: bad, backend: 'wasm' });
+    await trainRun({ config: { ...base, warmStart: { ...base.warmStart, adamSteps: 5 }, training: { ...base.training, adamSteps: 2 } }, outDir: bad, backend: 'wasm' });
     const other = { ...base, networks: { ...base.networks, field: { ...base.networks.field, hidden: [8] } } };
     await expect(trainRun({ config: other, resumeDir: bad, backend: 'wasm' })).rejects.toThrow(/does not match the config: networks differ/);
     truncateSync(join(bad, 'weights.bin'), 100);
@@ -120,7 +120,7 @@ describe('trainer: symmetric diblock, warm start, checkpoints', () => {
   it('a diverging run stops, keeps the last good checkpoint and says so', async () => {
     const out = join(tmp(), 'div');
     // A huge learning rate and a tight divergence factor make the loss jump above its best.
-    const wild = { ...base, warmStart: { ...base.warmStart, steps: 50 }, training: { ...base.training, steps: 200, learningRate: 0.5, decay: 1, checkpointEvery: 1, divergenceFactor: 1.5 } };
+    const wild = { ...base, warmStart: { ...base.warmStart, adamSteps: 50 }, training: { ...base.training, adamSteps: 200, learningRate: 0.5, decay: 1, checkpointEvery: 1, divergenceFactor: 1.5 } };
     const err = await trainRun({ config: wild, outDir: out, backend: 'wasm' }).catch((e) => e);
     expect(err).toBeInstanceOf(TrainingStopped);
     expect(err.reason).toBe('diverged');
@@ -154,7 +154,7 @@ describe('mesofield train / evaluate CLI', () => {
   it('trains from a config file, writes a checkpoint and evaluates it', () => {
     const d = tmp();
     const p = join(d, 'field.train.json');
-    writeFileSync(p, JSON.stringify({ version: 1, kind: 'train', system: fieldSystem, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { steps: 30 }, backend: 'wasm' }));
+    writeFileSync(p, JSON.stringify({ version: 2, kind: 'train', system: fieldSystem, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { adamSteps: 30 }, backend: 'wasm' }));
     const out = join(d, 'ck');
     const r = runCli(['train', p, '--out', out, '--json', '--report'], { timeoutMs: 120_000 });
     expect(r.code).toBe(0);
@@ -170,7 +170,7 @@ describe('mesofield train / evaluate CLI', () => {
   it('bad train input exits 2 naming the field', () => {
     const d = tmp();
     const p = join(d, 'bad.json');
-    writeFileSync(p, JSON.stringify({ version: 1, kind: 'train', system: fieldSystem, collocation: { nodesPerBlock: 7 } }));
+    writeFileSync(p, JSON.stringify({ version: 2, kind: 'train', system: fieldSystem, collocation: { nodesPerBlock: 7 } }));
     const r = runCli(['train', p]);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/collocation\.nodesPerBlock: got 7; must be even/);

@@ -120,7 +120,7 @@ export function registerBragg(program: Command): void {
         const f = numberFlag('--f', flags.f);
         if (f === undefined) throw new InputError('--f: missing; the A fraction f of the diblock is required');
         const ratio = numberFlag('--segment-ratio', flags.segmentRatio) ?? 1;
-        const chain = parseOrThrow(chainSchema, { type: 'diblock', f, segmentLengths: { A: ratio, B: 1 } }, 'flags');
+        const chain = parseOrThrow(chainSchema, { type: 'diblock', f, segmentRatio: ratio }, 'flags');
         let range: [number, number] | undefined;
         if (flags.chiNRange !== undefined) {
           const r = flags.chiNRange.split(',').map(Number);

@@ -13,12 +13,16 @@ import { writeDirectoryAtomic } from '../../io/atomic-write.js';
 import { parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
-import { solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
+import { solutionGridCsv, solutionText, solutionToFile, summarize } from '../../io/formats/solution.js';
+import { formatNumber } from '../../io/number-format.js';
+import { formatText } from '../../io/formats/file-format.js';
+import { SYNTH_TRUTH_VERSION, synthTruthSchema } from '../../io/formats/synth-truth.js';
+import { phaseLabel } from '../../physics/lamellar-window.js';
 import { provenance } from '../../io/versions.js';
 import { reportRunDirectory } from '../../reports/report-run-directory.js';
 import { solveFromConfig } from '../../spectral/solve-from-config.js';
 import { estimateClassical } from '../../inverse/classical.js';
-import { classicalBlock, fitCsv, inversionResult, networkBlock } from '../../inverse/inversion-result.js';
+import { classicalBlock, fitCsv, inversionResult, networkBlock, inversionResultText } from '../../inverse/inversion-result.js';
 import { compareWithTruth } from '../../inverse/truth-comparison.js';
 import { parseProfileCsv } from '../../inverse/profile-csv.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
@@ -29,24 +33,24 @@ import { claimOut, withOutput } from '../run-output.js';
 export const DEMO_SYSTEM = { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } as const;
 
 export const DEMO_SOLVE_CONFIG = {
-  version: 1,
+  version: 2,
   kind: 'solve',
   system: DEMO_SYSTEM,
-  cell: { period: 'optimize', periods: 1, nx: 64, ns: 100 },
+  cell: { period: 'equilibrium', periods: 1, nx: 64, ns: 100 },
   output: { propagators: true },
 } as const;
 
 export const DEMO_TRAIN_CONFIG = {
-  version: 1,
+  version: 2,
   kind: 'train',
   system: DEMO_SYSTEM,
-  cell: { period: 'optimize', nx: 64, ns: 100 },
+  cell: { period: 'equilibrium', nx: 64, ns: 100 },
   // The second-order recipe of configs/diblock-symmetric-chiN15.train.json (docs/second-order-training.md):
   // measured below φA 1e-3 where Adam + L-BFGS ended at 2.7e-3 on the same machine.
   networks: { field: { hidden: [16] }, propagator: { hidden: [12, 12] } },
   collocation: { nx: 32, nodesPerBlock: 32, random: 0 },
-  warmStart: { type: 'reference', steps: 400, learningRate: 0.01 },
-  training: { steps: 0, evaluateEvery: 1, secondOrderIterations: 72, secondOrder: { strategy: 'alternating', cycles: 6, evaluateEvery: 5 } },
+  warmStart: { type: 'reference', adamSteps: 400, learningRate: 0.01 },
+  training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: 72, secondOrder: { strategy: 'alternating', cycles: 6, evaluateEvery: 5 } },
 } as const;
 
 const report = (runDir: string, outDir: string) => reportRunDirectory(runDir, outDir);
@@ -76,9 +80,9 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean })
     onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(5)} Rg, F = ${e.freeEnergy.toFixed(8)}`),
   });
   const refDir = join(flags.out, 'reference');
-  const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
+  const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance, periodSearch: ref.search?.trace });
   writeDirectoryAtomic(refDir, {
-    'solution.json': `${JSON.stringify({ ...file, periodSearch: ref.search?.trace }, null, 1)}\n`,
+    'solution.json': solutionText(file),
     'profile.csv': solutionGridCsv(ref.solution),
   });
   const refReport = report(refDir, join(refDir, 'report'));
@@ -124,8 +128,23 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean })
   const result = inversionResult(data, { kind: 'invert', demo: true, truth }, provenance(), { classical: classicalBlock(est, data), network: networkBlock(ne, est, data) }, vsTruth);
   writeDirectoryAtomic(invDir, {
     'profile.csv': csv,
-    'truth.json': `${JSON.stringify(truth, null, 1)}\n`,
-    'result.json': `${JSON.stringify(result, null, 1)}\n`,
+    'truth.json': formatText(synthTruthSchema, {
+      kind: 'synth-truth',
+      version: SYNTH_TRUTH_VERSION,
+      provenance: provenance(),
+      chain: chainSpec,
+      f: DEMO_SYSTEM.chain.f,
+      ...truth,
+      period: synth.period,
+      periodMode: 'equilibrium',
+      resolution: 0,
+      nx: 64,
+      ns: 100,
+      xUnits: 'Rg',
+      freeEnergy: synth.point.solution.freeEnergy,
+      note: 'the demo scenario; lengths (period, offset) in Rg; offset is the data position of the centre of an A-rich domain',
+    }),
+    'result.json': inversionResultText(result),
     'fit.csv': fitCsv(data, est),
     'solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
   });
@@ -135,8 +154,8 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean })
   process.stdout.write(
     [
       `demo: symmetric diblock, χN = ${s.chiN}`,
-      `  reference: ${s.phase}, period ${s.period.toFixed(5)} Rg, F = ${s.freeEnergy.toFixed(8)} kT/chain (disordered ${s.freeEnergyDisordered})`,
-      `  network (${m.backend}, ${m.training.adamSteps} Adam steps${m.training.lbfgs ? ` + ${m.training.lbfgs.iterations} L-BFGS iterations` : ''} after a ${m.training.warmStart?.steps ?? 0}-step warm start, ${formatDuration(m.training.seconds)}): φA relative L2 error ${m.errors.phiA.relativeL2.toExponential(2)}, F error ${m.errors.freeEnergyError.toExponential(2)} kT/chain`,
+      `  reference: ${phaseLabel(s.phase)}, period ${formatNumber(s.period, 6)} Rg, F = ${formatNumber(s.freeEnergy, 9)} kT/chain (disordered ${formatNumber(s.freeEnergyDisordered, 9)})`,
+      `  network (${m.backend}, ${m.training.adamSteps} Adam steps${m.training.lbfgs ? ` + ${m.training.lbfgs.iterations} L-BFGS iterations` : ''} after a ${m.training.warmStart?.adamSteps ?? 0}-step warm start, ${formatDuration(m.training.seconds)}): φA relative L2 error ${m.errors.phiA.relativeL2.toExponential(2)}, F error ${m.errors.freeEnergyError.toExponential(2)} kT/chain`,
       `  wrote ${refDir}/ (solution.json, profile.csv, report/) and ${netDir}/ (checkpoint, metrics.json, report/)`,
       `  inversion of a synthetic 2 % noise profile (true χN = ${truth.chiN}): classical χN = ${est.chiN.toFixed(3)}, 68.3 % interval [${est.interval[0].toFixed(3)}, ${est.interval[1].toFixed(3)}], 95 % [${est.interval95[0].toFixed(3)}, ${est.interval95[1].toFixed(3)}]; network χN = ${ne.chiN.toFixed(3)} (one seed, ${ne.seconds.toFixed(0)} s; discovered wA − wB within ${vsTruth.estimators.network.exchangeFieldRelativeL2!.toExponential(1)} of the truth) → ${invDir}/`,
       `  reports: ${[...refReport, ...netReport, ...invReport].filter((p) => p.endsWith('.pdf')).join(', ')}`,

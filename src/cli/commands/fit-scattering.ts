@@ -41,7 +41,7 @@ export function buildScatteringConfig(files: string[], flags: Flags): Record<str
   if (f !== undefined) chain.f = f;
   if (!flags.config && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or --config FILE with system.chain)');
   const ratio = numberFlag('--segment-ratio', flags.segmentRatio);
-  if (ratio !== undefined) chain.segmentLengths = { A: ratio, B: 1 };
+  if (ratio !== undefined) chain.segmentRatio = ratio;
   const units = obj(raw, 'units');
   for (const [flag, key, v] of [
     ['--rg-nm', 'rgNm', flags.rgNm],

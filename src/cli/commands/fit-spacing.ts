@@ -23,7 +23,7 @@ export function registerFitSpacing(program: Command): void {
         const { chainSchema } = await import('../../physics/chain-schema.js');
         const f = numberFlag('--f', flags.f);
         if (f === undefined) throw new InputError('--f: missing; the A fraction f of the diblock is required');
-        const chain = parseOrThrow(chainSchema, { type: 'diblock', f, segmentLengths: { A: numberFlag('--segment-ratio', flags.segmentRatio) ?? 1, B: 1 } }, 'flags');
+        const chain = parseOrThrow(chainSchema, { type: 'diblock', f, segmentRatio: numberFlag('--segment-ratio', flags.segmentRatio) ?? 1 }, 'flags');
         let chiRange: [number, number] | undefined;
         if (flags.chiRange !== undefined) {
           const r = flags.chiRange.split(',').map(Number);

@@ -8,12 +8,12 @@ import { claimOut, withOutput } from '../run-output.js';
 import { InputError, asInputError } from '../../io/errors.js';
 import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
-import { solutionToFile } from '../../io/solution-file.js';
+import { solutionToFile } from '../../io/formats/solution.js';
 import { provenance } from '../../io/versions.js';
 import { estimateWithAssumedInputs } from '../../inverse/classical-with-inputs.js';
 import { assumedInputs } from '../../inverse/assumed-inputs.js';
 import type { PeriodMode } from '../../inverse/objective.js';
-import { fitCsv, classicalBlock, inversionResult, networkBlock, summaryText } from '../../inverse/inversion-result.js';
+import { fitCsv, classicalBlock, inversionResult, inversionResultText, networkBlock, summaryText } from '../../inverse/inversion-result.js';
 import type { EstimatorBlock } from '../../inverse/inversion-result.js';
 import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
 import type { NetworkEstimate } from '../../inverse/network-estimator.js';
@@ -43,8 +43,8 @@ interface InvertFlags {
   profilePoints?: string;
   seeds?: string;
   workers?: string;
-  networkSteps?: string;
-  networkLbfgs?: string;
+  adamSteps?: string;
+  lbfgsIterations?: string;
   backend?: string;
   report?: boolean;
   quiet?: boolean;
@@ -70,16 +70,16 @@ function chiNRangeFlag(value: string | undefined): [number, number] | undefined 
 
 /** Flags on top of the config file (or of an empty diblock config); messages name the flag or the file's key. */
 export function buildInvertConfig(configPath: string | undefined, flags: InvertFlags): { config: InvertConfig; sources: Record<string, string> } {
-  const input = new ConfigInput('invert', configPath, { version: 1, kind: 'invert', system: { chain: { type: 'diblock' } } });
+  const input = new ConfigInput('invert', configPath, { version: 2, kind: 'invert', system: { chain: { type: 'diblock' } } });
   const fromFile = (key: string, flag: string) => (configPath && input.get(key) !== undefined ? `${configPath}: ${key}` : flag);
-  const sources: Record<string, string> = { method: fromFile('method', '--method'), period: fromFile('period', '--period'), chiNRange: fromFile('chiNRange', '--chiN-range') };
+  const sources: Record<string, string> = { method: fromFile('method', '--method'), period: fromFile('cell.period', '--period'), chiNRange: fromFile('chiNRange', '--chiN-range') };
   const chain = input.get('system.chain');
   if (chain && typeof chain === 'object' && (chain as Record<string, unknown>).type === undefined) (chain as Record<string, unknown>).type = 'diblock';
   const f = input.number('--f', flags.f);
   if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
   input.number('--seeds', flags.seeds);
-  input.number('--network-steps', flags.networkSteps);
-  input.number('--network-lbfgs', flags.networkLbfgs);
+  input.number('--adam-steps', flags.adamSteps);
+  input.number('--lbfgs-iterations', flags.lbfgsIterations);
   if (flags.backend !== undefined) input.set('--backend', flags.backend);
   if (flags.method !== undefined) {
     input.set('--method', flags.method);
@@ -123,8 +123,8 @@ export function registerInvert(program: Command): void {
     .option('--method <m>', 'classical | network | both')
     .option('--seeds <n>', 'network: independent seeded trainings (their spread is reported)')
     .option('--workers <k>', 'network: worker threads training seeds at once (default: min(2, cores))')
-    .option('--network-steps <n>', 'network: Adam steps per seed')
-    .option('--network-lbfgs <n>', 'network: L-BFGS iterations per seed after the Adam steps')
+    .option('--adam-steps <n>', 'network: Adam steps per seed (network.adamSteps)')
+    .option('--lbfgs-iterations <n>', 'network: L-BFGS iterations per seed after the Adam steps (network.lbfgsIterations)')
     .option('--backend <b>', 'network: tfjs backend auto | native | wasm | cpu')
     .option('--period <mode>', 'equilibrium (stress-free at each χN, default) | free (fitted) | L (given, in the units of x)')
     .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')
@@ -179,7 +179,7 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   }
   const data = parseProfileCsv(text, profilePath, units);
   const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
-  const period: PeriodMode = typeof config.period === 'number' ? { mode: 'given', value: toRg(config.period) } : { mode: config.period };
+  const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
   const progress = new Progress('invert', flags.quiet);
   let estimate;
   let assumed;
@@ -189,8 +189,8 @@ async function invertCommand(profilePath: string, configPath: string | undefined
       data,
       {
         chain: config.system.chain,
-        nx: config.grid.nx,
-        ns: config.grid.ns,
+        nx: config.cell.nx,
+        ns: config.cell.ns,
         solver: config.solver,
         period,
         chiNRange: config.chiNRange as [number, number] | undefined,
@@ -219,7 +219,7 @@ async function invertCommand(profilePath: string, configPath: string | undefined
       ne = await estimateNetwork(data, estimate, {
         chain: config.system.chain,
         seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
-        steps: net.steps,
+        steps: net.adamSteps,
         fieldUpdateEvery: net.fieldUpdateEvery,
         lbfgsIterations: net.lbfgsIterations,
         lbfgsPerUpdate: net.lbfgsPerUpdate,
@@ -242,7 +242,7 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   if (flags.out) {
     const files = {
       // runSeconds: the wall time of the whole inversion (every estimator), for the report's title page.
-      'result.json': `${JSON.stringify({ ...result, runSeconds: (performance.now() - t0) / 1000 }, null, 1)}\n`,
+      'result.json': inversionResultText({ ...result, runSeconds: (performance.now() - t0) / 1000 }),
       'fit.csv': fitCsv(data, estimate),
       'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
     };
@@ -254,5 +254,5 @@ async function invertCommand(profilePath: string, configPath: string | undefined
       if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
     }
   }
-  process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : summaryText(result));
+  process.stdout.write(flags.json ? inversionResultText(result, 2) : summaryText(result));
 }

@@ -3,6 +3,10 @@ import type { Command } from 'commander';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput } from '../run-output.js';
 import { InputError } from '../../io/errors.js';
+import { formatNumber } from '../../io/number-format.js';
+import { PREDICTION_VERSION, predictionSchema } from '../../io/formats/surrogate.js';
+import { phaseLabel } from '../../physics/lamellar-window.js';
+import type { Phase } from '../../physics/result.js';
 import { provenance } from '../../io/versions.js';
 import { PARAMETER_LABELS, PARAMETER_NAMES } from '../../surrogate/parameter-space.js';
 import type { ParameterPoint } from '../../surrogate/parameter-space.js';
@@ -15,7 +19,7 @@ import { backendFlag } from './train-flags.js';
 interface PredictFlags {
   chiN?: string;
   f?: string;
-  ratio?: string;
+  segmentRatio?: string;
   points?: string;
   json?: boolean;
   out?: string;
@@ -25,7 +29,7 @@ interface PredictFlags {
   quiet?: boolean;
 }
 
-const fmt = (v: number, d = 6) => (Number.isFinite(v) ? v.toPrecision(d) : String(v));
+const fmt = (v: number, d = 6) => formatNumber(v, d);
 
 function profileCsv(p: Prediction): string {
   const rows = ['x,t,phiA,phiB,wA,wB'];
@@ -39,8 +43,8 @@ export function registerPredict(program: Command): void {
     .description('the lamella a trained surrogate predicts at a parameter point: profile, fields, period, Q and F')
     .argument('<checkpoint>', 'surrogate checkpoint directory written by train (kind "surrogate")')
     .option('--chiN <x>', 'χN of the point')
-    .option('--f <f>', 'A fraction (needed when the surrogate varies f)')
-    .option('--ratio <r>', 'b_A/b_B (needed when the surrogate varies it)')
+    .option('--f <f>', 'A fraction, > 0 and < 1 (needed when the surrogate varies f; otherwise only its fixed f is accepted)')
+    .option('--segment-ratio <r>', 'b_A/b_B (needed when the surrogate varies it)')
     .option('--points <n>', 'x points over one period (default: the training grid)')
     .option('--json', 'print the prediction as JSON on stdout')
     .option('--out <dir>', 'write prediction.json and profile.csv into this directory')
@@ -73,42 +77,45 @@ async function predictCommand(dir: string, flags: PredictFlags, points: number |
   const handle = await selectBackend(backend);
   const { file, model } = loadSurrogate(handle.tf, dir);
   const loadSeconds = (performance.now() - t0) / 1000;
-  try {
-    const given: Record<string, string | undefined> = { chiN: flags.chiN, f: flags.f, segmentLengthRatio: flags.ratio };
-    const point = {} as ParameterPoint;
-    for (const name of PARAMETER_NAMES) {
-      const { flag, symbol } = PARAMETER_LABELS[name];
-      const v = numberFlag(flag, given[name]);
-      const axis = model.space.axes.find((a) => a.name === name);
-      if (v !== undefined) point[name] = v;
-      else if (axis) throw new InputError(`${flag}: missing; the surrogate was trained for ${symbol} in [${axis.min}, ${axis.max}]: give a value`);
-      else point[name] = model.space.fixed[name]!;
-    }
-    const p = predictAt(model, point, { points, allowExtrapolation: flags.allowExtrapolation });
-    for (const m of p.outside) say(`warning: extrapolating: ${m}; the error there is unknown`);
-    say(`loaded in ${loadSeconds.toFixed(2)} s (tfjs ${handle.backend} start-up and weights); query ${(1000 * p.seconds).toFixed(2)} ms`);
-    const errors = (file.metrics as { errors?: { phiARelativeL2?: { max: number }; freeEnergyError?: { max: number } } } | undefined)?.errors;
-    const result = {
-      kind: 'prediction',
-      checkpoint: dir,
-      provenance: { ...provenance({ backend: handle.backend, tfjs: handle.tfjsVersion }) },
-      trainedRange: model.space.axes.map((a) => ({ name: a.name, min: a.min, max: a.max })),
-      extrapolated: p.outside.length > 0,
-      heldOutErrors: errors ? { phiARelativeL2Max: errors.phiARelativeL2?.max, freeEnergyErrorMax: errors.freeEnergyError?.max } : undefined,
-      ...p,
-    };
-    const summary = [
-      `surrogate at ${model.space.describe(point)}${p.outside.length ? ' (EXTRAPOLATED: outside the trained range)' : ''}: ${p.phase}, period ${fmt(p.period)} Rg (interpolated from the anchors)`,
-      `F = ${fmt(p.freeEnergy, 10)} kT/chain (disordered ${fmt(p.freeEnergyDisordered)}), Q = ${fmt(p.Q, 10)} (from q†: ${fmt(p.QDagger, 10)}); SCFT residual of the surrogate's fields ${p.residual.toExponential(2)} kT`,
-      ...(errors ? [`held-out check at training: φA relative L2 ≤ ${errors.phiARelativeL2?.max.toExponential(2)}, |F error| ≤ ${errors.freeEnergyError?.max.toExponential(2)} kT/chain`] : []),
-    ];
-    if (out) say(`wrote ${out.write({ 'prediction.json': `${JSON.stringify(result, null, 2)}\n`, 'profile.csv': profileCsv(p) }).join(', ')}`);
-    if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
-    else if (flags.out) process.stdout.write(`${summary.join('\n')}\n`);
-    else {
-      const table = p.x.map((x, j) => [x, p.t[j], p.phiA[j], p.phiB[j], p.wA[j], p.wB[j]].map((v) => v.toFixed(6).padStart(11)).join(' '));
-      process.stdout.write(`${[...summary, ['x/Rg', 't', 'phiA', 'phiB', 'wA', 'wB'].map((h) => h.padStart(11)).join(' '), ...table].join('\n')}\n`);
-    }
+    try {
+      const given: Record<string, string | undefined> = { chiN: flags.chiN, f: flags.f, segmentRatio: flags.segmentRatio };
+      const point = {} as ParameterPoint;
+      for (const name of PARAMETER_NAMES) {
+        const { flag, symbol } = PARAMETER_LABELS[name];
+        const v = numberFlag(flag, given[name]);
+        const axis = model.space.axes.find((a) => a.name === name);
+        if (v !== undefined) point[name] = v;
+        else if (axis) throw new InputError(`${flag}: missing; the surrogate was trained for ${symbol} in [${axis.min}, ${axis.max}]: give a value`);
+        else point[name] = model.space.fixed[name]!;
+      }
+      const p = predictAt(model, point, { points, allowExtrapolation: flags.allowExtrapolation });
+      for (const m of p.outside) say(`warning: extrapolating: ${m}; the error there is unknown`);
+      say(`loaded in ${loadSeconds.toFixed(2)} s (tfjs ${handle.backend} start-up and weights); query ${(1000 * p.seconds).toFixed(2)} ms`);
+      const errors = file.metrics?.errors;
+      const result = predictionSchema.parse({
+        kind: 'prediction',
+        version: PREDICTION_VERSION,
+        checkpoint: dir,
+        provenance: { ...provenance({ backend: handle.backend, tfjs: handle.tfjsVersion }) },
+        trainedRange: model.space.axes.map((a) => ({ name: a.name, min: a.min, max: a.max })),
+        extrapolated: p.outside.length > 0,
+        ...(errors ? { heldOutErrors: { phiARelativeL2Max: errors.phiARelativeL2.max, freeEnergyErrorMax: errors.freeEnergyError.max } } : {}),
+        ...p,
+      });
+      for (const w of p.warnings) say(`warning: UNRELIABLE extrapolation: ${w}`);
+      const summary = [
+        ...p.warnings.map((w) => `UNRELIABLE (extrapolated answer failed a check): ${w}`),
+        `surrogate at ${model.space.describe(point)}${p.outside.length ? ' (EXTRAPOLATED: outside the trained range)' : ''}: ${phaseLabel(p.phase as Phase)}, period ${fmt(p.period)} Rg (interpolated from the anchors)`,
+        `F = ${fmt(p.freeEnergy, 10)} kT/chain (disordered ${fmt(p.freeEnergyDisordered)}), Q = ${fmt(p.Q, 10)} (from q†: ${fmt(p.QDagger, 10)}); SCFT residual of the surrogate's fields ${p.residual.toExponential(2)} kT`,
+        ...(errors ? [`held-out check at training: φA relative L2 ≤ ${formatNumber(errors.phiARelativeL2.max, 3)}, |F error| ≤ ${formatNumber(errors.freeEnergyError.max, 3)} kT/chain`] : []),
+      ];
+      if (out) say(`wrote ${out.write({ 'prediction.json': `${JSON.stringify(result, null, 2)}\n`, 'profile.csv': profileCsv(p) }).join(', ')}`);
+      if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
+      else if (flags.out) process.stdout.write(`${summary.join('\n')}\n`);
+      else {
+        const table = p.x.map((x, j) => [x, p.t[j], p.phiA[j], p.phiB[j], p.wA[j], p.wB[j]].map((v) => v.toFixed(6).padStart(11)).join(' '));
+        process.stdout.write(`${[...summary, ['x/Rg', 't', 'phiA', 'phiB', 'wA', 'wB'].map((h) => h.padStart(11)).join(' '), ...table].join('\n')}\n`);
+      }
   } finally {
     model.dispose();
   }

@@ -70,7 +70,7 @@ async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: Retur
   const { SLD_UNIT } = await import('../../inverse/film/film-fit-run.js');
   let r;
   try {
-    r = filmReflectivity({ chain: { type: 'diblock', f, segmentLengths: { A: 1, B: 1 } }, chiN, bottom, top, thickness: H / rgNm, width: width / rgNm, wallRange, rgNm, slds: { A: sld.A * SLD_UNIT, B: sld.B * SLD_UNIT, substrate: sld.substrate * SLD_UNIT, medium: sld.medium * SLD_UNIT }, dQoverQ: dq, background: bg, q, nx, ns });
+    r = filmReflectivity({ chain: { type: 'diblock', f, segmentRatio: 1 }, chiN, bottom, top, thickness: H / rgNm, width: width / rgNm, wallRange, rgNm, slds: { A: sld.A * SLD_UNIT, B: sld.B * SLD_UNIT, substrate: sld.substrate * SLD_UNIT, medium: sld.medium * SLD_UNIT }, dQoverQ: dq, background: bg, q, nx, ns });
   } catch (e) {
     throw asInputError(e, 'flags');
   }

@@ -5,16 +5,9 @@
 import type { Command } from 'commander';
 import { z } from 'zod';
 import { InputError } from '../../io/errors.js';
-import { filmFitConfigSchema } from '../../io/schemas/film-fit-config.js';
-import { invertConfigSchema } from '../../io/schemas/invert-config.js';
-import { solveConfigSchema } from '../../io/schemas/solve-config.js';
-import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
-import { sweepConfigSchema } from '../../io/schemas/sweep-config.js';
-import { trainConfigSchema } from '../../io/schemas/train-config.js';
+import { CONFIG_SCHEMAS } from '../../io/schemas/config-schemas.js';
 import { action } from '../run-command.js';
 import { configReferenceMarkdown } from '../../io/config-reference.js';
-
-export const CONFIG_SCHEMAS: Record<string, z.ZodType> = { solve: solveConfigSchema, train: trainConfigSchema, invert: invertConfigSchema, sweep: sweepConfigSchema, surrogate: surrogateConfigSchema, 'film-fit': filmFitConfigSchema };
 
 export function registerSchema(program: Command): void {
   const all = CONFIG_SCHEMAS;
@@ -23,10 +16,17 @@ export function registerSchema(program: Command): void {
     .description(`print the JSON Schema of a config file kind (${Object.keys(all).join(', ')}), with every field, default and bound`)
     .argument('[kind]', 'config kind')
     .option('--markdown', 'print the reference of every kind as Markdown tables (docs/config-reference.md)')
+    .option('--synopsis', "print every command with its arguments and flags (the README's synopsis)")
     .action(
-      action((kind: string | undefined, flags: { markdown?: boolean }) => {
+      action(async (kind: string | undefined, flags: { markdown?: boolean; synopsis?: boolean }, command: Command) => {
         if (flags.markdown) {
           process.stdout.write(configReferenceMarkdown(all));
+          return;
+        }
+        if (flags.synopsis) {
+          // run-cli registers every command for `schema --synopsis` (command-specs.ts), so the parent holds them all.
+          const { synopsis } = await import('../synopsis.js');
+          process.stdout.write(synopsis(command.parent!));
           return;
         }
         if (kind === undefined) throw new InputError(`kind: missing; allowed: ${Object.keys(all).join(', ')} (or --markdown)`);

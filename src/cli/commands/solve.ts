@@ -4,7 +4,8 @@ import { join } from 'node:path';
 import { InputError, RunFailure, asInputError } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
-import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionToFile, summarize } from '../../io/solution-file.js';
+import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionText, solutionToFile, summarize } from '../../io/formats/solution.js';
+import { solutionSummaryLines } from '../../io/solution-text.js';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { provenance } from '../../io/versions.js';
@@ -18,8 +19,10 @@ import { Progress } from '../progress.js';
 import { loadJsonFile } from '../../io/load-json.js';
 
 interface SolveFlags {
-  preset?: string;
+  chain?: string;
   f?: string;
+  segmentRatio?: string;
+  firstBlockShare?: string;
   chiN?: string;
   period?: string;
   periods?: string;
@@ -39,15 +42,17 @@ interface SolveFlags {
 
 /** Flags are applied on top of the config file (or of a symmetric diblock at χN = 15); messages name the flag or the file's key. */
 export function buildSolveConfig(configPath: string | undefined, flags: SolveFlags): SolveConfig {
-  const input = new ConfigInput('solve', configPath, { version: 1, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } });
-  if (flags.preset !== undefined) {
+  const input = new ConfigInput('solve', configPath, { version: 2, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } });
+  if (flags.chain !== undefined) {
     input.reset('system.chain');
-    input.set('--preset', flags.preset);
+    input.set('--chain', flags.chain);
   }
   input.number('--f', flags.f);
+  input.number('--segment-ratio', flags.segmentRatio);
+  input.number('--first-block-share', flags.firstBlockShare);
   const chain = input.get('system.chain') as Record<string, unknown> | undefined;
   if (chain && typeof chain === 'object' && chain.type === undefined) chain.type = 'diblock';
-  // A two-block chain named by --preset without --f is the symmetric one (a config file must say f).
+  // A two-block chain named by --chain without --f is the symmetric one (a config file must say f).
   if (!configPath && chain && chain.type !== 'homopolymer' && chain.type !== 'blocks' && chain.f === undefined) chain.f = 0.5;
   input.number('--chiN', flags.chiN);
   input.period('--period', flags.period);
@@ -78,8 +83,10 @@ export function registerSolve(program: Command): void {
     .command('solve')
     .description('spectral SCFT reference solve of a 1D lamellar cell (config file and/or flags; flags override the file)')
     .argument('[config]', 'solve config JSON (kind "solve")')
-    .option('--preset <chain>', 'chain preset: diblock | triblock | homopolymer')
-    .option('--f <f>', 'A fraction of the chain')
+    .option('--chain <type>', 'chain architecture: diblock | triblock | homopolymer')
+    .option('--f <f>', 'A fraction of the chain, > 0 and < 1')
+    .option('--segment-ratio <r>', 'conformational asymmetry b_A/b_B (lengths in Rg of a chain of segment length b_B)')
+    .option('--first-block-share <t>', 'triblock: share of A in the first A block, > 0 and < 1')
     .option('--chiN <x>', 'χN')
     .option('--period <L|equilibrium>', 'lamellar period in Rg, or "equilibrium" for the stress-free period')
     .option('--periods <n>', 'lamellar periods in the cell')
@@ -133,10 +140,16 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
   let failedWhere = '';
   const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
   if (flags.out) {
-    const file = solutionToFile(sol, provenance(), config, { periodTolerance: ref.search?.periodTolerance });
+    // runSeconds: the wall time of the whole solve (period search included), for the report's title page.
+    const file = solutionToFile(sol, provenance(), config, {
+      periodTolerance: ref.search?.periodTolerance,
+      periodSearch: ref.search?.trace,
+      ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}),
+      ...(scan ? { thicknessScan: scan } : {}),
+      runSeconds: (performance.now() - t0) / 1000,
+    });
     const files: Record<string, string> = {
-      // runSeconds: the wall time of the whole solve (period search included), for the report's title page.
-      'solution.json': `${JSON.stringify({ ...file, ...(ref.search ? { periodSearch: ref.search.trace } : {}), ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}), ...(scan ? { thicknessScan: scan } : {}), runSeconds: (performance.now() - t0) / 1000 }, null, 1)}\n`,
+      'solution.json': solutionText(file),
       'profile.csv': solutionGridCsv(sol),
     };
     const prop = propagatorCsv(sol);
@@ -151,15 +164,6 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
     const film = filmSummary(ref);
     process.stdout.write(flags.json ? `${JSON.stringify(scan ? { ...film, thicknessScan: scan } : film, null, 2)}\n` : `${[...filmSummaryText(film, summary.chain, summary.chiN), ...(scan ? filmScanText(scan) : [])].join('\n')}\n`);
   } else if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
-  else {
-    const lines = [
-      `chain ${summary.chain}, χN = ${summary.chiN}, phase: ${summary.phase}${summary.converged ? '' : ' (NOT CONVERGED)'}`,
-      `period ${summary.period.toFixed(6)} Rg${summary.periodTolerance ? ` ± ${summary.periodTolerance.toExponential(1)}` : ''} (${summary.periods} in a cell of ${summary.length.toFixed(6)} Rg)`,
-      `F = ${summary.freeEnergy.toFixed(10)} kT/chain, F_disordered = ${summary.freeEnergyDisordered ?? 'n/a'}, ΔF = ${summary.freeEnergyExcess === null ? 'n/a' : summary.freeEnergyExcess.toExponential(6)}`,
-      `Q = ${summary.Q.toPrecision(12)} (from q†: ${summary.QDagger.toPrecision(12)}), ${summary.iterations} iterations, residual ${summary.residual.toExponential(2)}`,
-      ...summary.notes.map((n) => `note: ${n}`),
-    ];
-    process.stdout.write(`${lines.join('\n')}\n`);
-  }
+  else process.stdout.write(`${solutionSummaryLines(summary).join('\n')}\n`);
   if (!sol.converged) throw new RunFailure(`solve did not converge: ${sol.notes.join('; ')}${failedWhere ? `; ${failedWhere}` : ''}`);
 }

@@ -28,7 +28,7 @@ const fixed = (v: number | null, digits: number) => (v === null ? '—' : v.toFi
 
 function tableText(points: SweepPointResult[]): string {
   const head = ['index', 'χN', 'f', 'b_A/b_B', 'phase', 'period/Rg', 'F/kT', 'F_dis/kT', 'iterations'];
-  const rows = points.map((p) => [String(p.index), String(p.chiN), String(p.f), String(p.segmentLengthRatio), p.phase, fixed(p.period, 6), fixed(p.freeEnergy, 10), fixed(p.freeEnergyDisordered, 6), String(p.totalIterations ?? '—')]);
+  const rows = points.map((p) => [String(p.index), String(p.chiN), String(p.f), String(p.segmentRatio), p.phase, fixed(p.period, 6), fixed(p.freeEnergy, 10), fixed(p.freeEnergyDisordered, 6), String(p.totalIterations ?? '—')]);
   const widths = head.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c].length)));
   return `${[head, ...rows].map((r) => r.map((v, c) => v.padStart(widths[c])).join('  ')).join('\n')}\n`;
 }
@@ -83,7 +83,7 @@ export function registerSweep(program: Command): void {
           onPoint: (p, s) => {
             const rate = s.solved / s.seconds;
             progress.update(
-              `point ${s.done}/${s.total} (χN = ${p.chiN}, f = ${p.f}, b_A/b_B = ${p.segmentLengthRatio}): ${p.phase} | ${rate.toFixed(2)} points/s | ${formatDuration((s.total - s.done) / rate)} left`,
+              `point ${s.done}/${s.total} (χN = ${p.chiN}, f = ${p.f}, b_A/b_B = ${p.segmentRatio}): ${p.phase} | ${rate.toFixed(2)} points/s | ${formatDuration((s.total - s.done) / rate)} left`,
               s.done === s.total,
             );
           },

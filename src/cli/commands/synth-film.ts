@@ -64,7 +64,7 @@ export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
   const S = 1e-6;
   const settings: FilmSynthSettings = {
     kind,
-    chain: { type: 'diblock', f, segmentLengths: { A: 1, B: 1 } },
+    chain: { type: 'diblock', f, segmentRatio: 1 },
     chiN,
     bottom,
     top,

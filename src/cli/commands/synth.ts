@@ -1,4 +1,7 @@
 /** `mesofield synth`: a synthetic noisy composition profile from the reference lamella, with its truth. */
+import { formatText } from '../../io/formats/file-format.js';
+import { SYNTH_TRUTH_VERSION, synthTruthSchema } from '../../io/formats/synth-truth.js';
+import type { SynthTruth } from '../../io/formats/synth-truth.js';
 import type { Command } from 'commander';
 import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
 import { claimOut, withOutput } from '../run-output.js';
@@ -82,7 +85,7 @@ export function registerSynth(program: Command): void {
         const nx = need('--nx', numberFlag('--nx', flags.nx), Number.isInteger, 'a power of two');
         const ns = need('--ns', numberFlag('--ns', flags.ns), Number.isInteger, 'an even integer');
         const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
-        const chain = { type: 'diblock' as const, f, segmentLengths: { A: 1, B: 1 } };
+        const chain = { type: 'diblock' as const, f, segmentRatio: 1 };
         const out = claimOut(flags, 'synth');
         await withOutput(out, () => {
           let profile;
@@ -96,9 +99,9 @@ export function registerSynth(program: Command): void {
             process.stdout.write(csv);
             return;
           }
-          const truth = {
+          const truth: SynthTruth = {
             kind: 'synth-truth',
-            version: 1,
+            version: SYNTH_TRUTH_VERSION,
             provenance: provenance(),
             chain,
             f,
@@ -118,7 +121,7 @@ export function registerSynth(program: Command): void {
             freeEnergy: profile.point.solution.freeEnergy,
             note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
           };
-          const written = out.write({ [SYNTH_PROFILE]: csv, [SYNTH_TRUTH]: `${JSON.stringify(truth, null, 1)}\n` });
+          const written = out.write({ [SYNTH_PROFILE]: csv, [SYNTH_TRUTH]: formatText(synthTruthSchema, truth) });
           if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
         });
       }),

@@ -7,7 +7,8 @@ export interface TrainFlags {
   resume?: string;
   json?: boolean;
   backend?: string;
-  steps?: string;
+  adamSteps?: string;
+  lbfgsIterations?: string;
   report?: boolean;
   quiet?: boolean;
 }

@@ -11,7 +11,7 @@ import { backendFlag } from './train-flags.js';
 const sci = (v: number) => (Number.isFinite(v) ? v.toExponential(2) : String(v));
 
 function rangeText(m: SurrogateMetrics): string {
-  const names: Record<string, string> = { chiN: 'χN', f: 'f', segmentLengthRatio: 'b_A/b_B' };
+  const names: Record<string, string> = { chiN: 'χN', f: 'f', segmentRatio: 'b_A/b_B' };
   const varying = m.parameters.map((a) => `${names[a.name]} in [${a.min}, ${a.max}] (${a.anchors} anchors)`);
   const fixed = Object.entries(m.fixed).map(([k, v]) => `${names[k]} = ${v}`);
   return [...varying, ...fixed].join(', ');
@@ -31,7 +31,8 @@ function summaryLines(m: SurrogateMetrics, outDir: string | undefined): string[]
 
 export async function trainSurrogate(configPath: string, raw: unknown, flags: TrainFlags): Promise<void> {
   if (flags.resume !== undefined) throw new InputError(`--resume: got ${JSON.stringify(flags.resume)}; a surrogate run cannot be resumed (it is short): run it again`);
-  if (flags.steps !== undefined) throw new InputError(`--steps: got ${JSON.stringify(flags.steps)}; a surrogate config has no steps: set training.rounds (physics rounds) or warmStart.lbfgsIterations in ${configPath}`);
+  if (flags.adamSteps !== undefined) throw new InputError(`--adam-steps: got ${JSON.stringify(flags.adamSteps)}; a surrogate's Adam steps are warmStart.adamSteps in ${configPath} (its physics training is training.rounds)`);
+  if (flags.lbfgsIterations !== undefined) throw new InputError(`--lbfgs-iterations: got ${JSON.stringify(flags.lbfgsIterations)}; a surrogate's L-BFGS iterations are warmStart.lbfgsIterations in ${configPath}`);
   const config = parseOrThrow(surrogateConfigSchema, raw, configPath);
   const backend = backendFlag(flags.backend);
   const outDir = flags.out ?? join('checkpoints', basename(configPath).replace(/(\.surrogate)?\.json$/, ''));

@@ -2,6 +2,7 @@
 import type { Command } from 'commander';
 import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
+import { formatNumber } from '../../io/number-format.js';
 import { readJsonObject } from '../../io/load-json.js';
 import { installStopHandlers, stopExitCode, stopRequested } from '../../runtime/stop.js';
 import { EXIT } from '../exit-codes.js';
@@ -20,15 +21,15 @@ function fmt(v: number): string {
 
 /** Steps and time a transfer took to its target, and what it saved against a warm start. */
 function transferLines(t: TransferReport, from: string): string[] {
-  const reach = (r: { steps: number; seconds: number } | null | undefined, what: string) =>
-    r ? `φA error < ${t.targetPhiError} at step ${r.steps} (${r.seconds.toFixed(1)} s ${what})` : `φA error < ${t.targetPhiError} not reached`;
+  const reach = (r: { adamSteps: number; seconds: number } | null | undefined, what: string) =>
+    r ? `φA error < ${t.targetPhiError} at step ${r.adamSteps} (${r.seconds.toFixed(1)} s ${what})` : `φA error < ${t.targetPhiError} not reached`;
   const lines = [`transfer from ${from}: ${reach(t.transfer, 'of training')}`];
   const b = t.baseline;
   if (b) {
-    const ws = `with its ${b.warmStartSteps}-step warm start, ${b.warmStartSeconds.toFixed(1)} s`;
-    lines.push(`warm-start baseline: ${b.reached ? reach(b, ws) : `φA error < ${t.targetPhiError} not reached in ${b.steps} steps (${b.seconds.toFixed(1)} s ${ws}; it ended at ${fmt(b.finalPhiError)})`}`);
+    const ws = `with its ${b.warmStartAdamSteps}-step warm start, ${b.warmStartSeconds.toFixed(1)} s`;
+    lines.push(`warm-start baseline: ${b.reached ? reach(b, ws) : `φA error < ${t.targetPhiError} not reached in ${b.adamSteps} steps (${b.seconds.toFixed(1)} s ${ws}; it ended at ${fmt(b.finalPhiError)})`}`);
     const s = t.saved;
-    lines.push(s ? `saved by the transfer: ${s.lowerBound ? 'at least ' : ''}${s.steps} steps, ${s.seconds.toFixed(1)} s` : 'saved by the transfer: not measured (the transfer did not reach the target)');
+    lines.push(s ? `saved by the transfer: ${s.lowerBound ? 'at least ' : ''}${s.adamSteps} steps, ${s.seconds.toFixed(1)} s` : 'saved by the transfer: not measured (the transfer did not reach the target)');
   }
   return lines;
 }
@@ -42,7 +43,8 @@ export function registerTrain(program: Command): void {
     .option('--resume <dir>', 'continue the run saved in this checkpoint directory')
     .option('--overwrite', 'replace a previous train output in --out (only the files mesofield wrote there)')
     .option('--backend <b>', 'tfjs backend: auto | native | wasm | cpu')
-    .option('--steps <n>', 'override training.steps')
+    .option('--adam-steps <n>', 'Adam steps of physics training (training.adamSteps)')
+    .option('--lbfgs-iterations <n>', 'L-BFGS iterations after the Adam steps (training.lbfgsIterations)')
     .option('--json', 'print the metrics as JSON on stdout')
     .option('--report', 'also write a PDF/PNG report of the run into <out>/report')
     .option('--quiet', 'no progress on stderr')
@@ -56,10 +58,11 @@ export function registerTrain(program: Command): void {
           return trainSurrogate(configPath, raw, flags);
         }
         let config = parseOrThrow(trainConfigSchema, raw, configPath);
-        const steps = numberFlag('--steps', flags.steps);
-        if (steps !== undefined) {
-          if (!Number.isInteger(steps) || steps < 0) throw new InputError(`--steps: got ${steps}; allowed: a whole number ≥ 0`);
-          config = { ...config, training: { ...config.training, steps } };
+        for (const [flag, key, value] of [['--adam-steps', 'adamSteps', flags.adamSteps], ['--lbfgs-iterations', 'lbfgsIterations', flags.lbfgsIterations]] as const) {
+          const n = numberFlag(flag, value);
+          if (n === undefined) continue;
+          if (!Number.isInteger(n) || n < 0) throw new InputError(`${flag}: got ${formatNumber(n)}; allowed: a whole number ≥ 0`);
+          config = { ...config, training: { ...config.training, [key]: n } };
         }
         const backend = backendFlag(flags.backend);
         const outDir = flags.out ?? flags.resume ?? join('checkpoints', basename(configPath).replace(/(\.train)?\.json$/, ''));
@@ -94,13 +97,13 @@ export function registerTrain(program: Command): void {
           const so = m.training.secondOrder;
           const polish = `${m.training.lbfgs ? ` and ${m.training.lbfgs.iterations} L-BFGS iterations` : ''}${so ? ` and ${so.iterations} second-order iterations` : ''}`;
           const h = m.training.holds;
-          const holds = `the networks hold the ${h.stage} state at step ${h.step}${h.lbfgsIterations !== undefined ? `, L-BFGS iteration ${h.lbfgsIterations}` : ''}${h.secondOrderIterations !== undefined ? `, second-order iteration ${h.secondOrderIterations}` : ''} (${h.chosenBy === 'last' ? 'the last state: no reference error was measured during training' : 'the lowest reference error measured'})`;
+          const holds = !h ? '' : `the networks hold the ${h.stage} state at step ${h.step}${h.lbfgsIterations !== undefined ? `, L-BFGS iteration ${h.lbfgsIterations}` : ''}${h.secondOrderIterations !== undefined ? `, second-order iteration ${h.secondOrderIterations}` : ''} (${h.chosenBy === 'last' ? 'the last state: no reference error was measured during training' : 'the lowest reference error measured'})`;
           progress.done(`${m.training.message}${polish} in ${formatDuration(m.training.seconds)} on ${m.backend}; checkpoint in ${outDir}`);
           if (flags.json) process.stdout.write(`${JSON.stringify({ checkpoint: outDir, ...m }, null, 2)}\n`);
           else {
             process.stdout.write(
               [
-                `trained ${m.reference.chain}, χN = ${m.reference.chiN}, period ${m.reference.period.toFixed(5)} Rg on ${m.backend} (tfjs ${m.tfjs})${m.sharedPropagator ? ', one propagator network for q and q†' : ''}`,
+                `trained ${m.reference.chain}, χN = ${m.reference.chiN}, period ${formatNumber(m.reference.period, 6)} Rg on ${m.backend} (tfjs ${m.tfjs})${m.sharedPropagator ? ', one propagator network for q and q†' : ''}`,
                 `φA relative L2 error ${fmt(m.errors.phiA.relativeL2)} (max ${fmt(m.errors.phiA.maxError)}), wA − wB relative L2 ${fmt(m.errors.exchangeField.relativeL2)}`,
                 `Q relative error ${fmt(m.errors.QRelativeError)}, F error ${fmt(m.errors.freeEnergyError)} kT/chain (network ${m.network.freeEnergy.toFixed(6)}, reference ${m.reference.freeEnergy.toFixed(6)})`,
                 ...(m.training.transfer ? transferLines(m.training.transfer, m.training.transferredFrom!.checkpoint) : []),

@@ -5,8 +5,8 @@
  */
 import { InputError, parseOrThrow } from '../../io/errors.js';
 import { readJsonFile } from '../../io/load-json.js';
-import { solutionFileSchema } from '../../io/solution-file.js';
-import type { SolutionFile } from '../../io/solution-file.js';
+import { solutionFileSchema } from '../../io/formats/solution.js';
+import type { SolutionFile } from '../../io/formats/solution.js';
 import { FourierSeries } from '../../physics/cell/fourier-series.js';
 import type { MeasuredPeaks } from './bragg-fit.js';
 

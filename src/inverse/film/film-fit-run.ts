@@ -7,7 +7,7 @@
 import { parseColumnCsv } from '../../io/column-csv.js';
 import { InputError } from '../../io/errors.js';
 import type { FilmFitConfig } from '../../io/schemas/film-fit-config.js';
-import { solutionToFile } from '../../io/solution-file.js';
+import { solutionToFile } from '../../io/formats/solution.js';
 import type { Provenance } from '../../io/versions.js';
 import { parseProfileCsv } from '../profile-csv.js';
 import type { FilmData, FilmFitResult } from './film-fit.js';

@@ -48,7 +48,7 @@ export function fitScatteringSeries(
   const t0 = performance.now();
   const chain = buildChain(settings.chain);
   const spec = settings.chain;
-  const symmetricDiblock = spec.type === 'diblock' && Math.abs(spec.f - 0.5) < 1e-12 && spec.segmentLengths.A === spec.segmentLengths.B;
+  const symmetricDiblock = spec.type === 'diblock' && Math.abs(spec.f - 0.5) < 1e-12 && spec.segmentRatio === 1;
   const series = fitTemperatureSeries(
     fits.map((f) => ({ temperature: f.temperature!, chiN: f.chiN, interval: f.interval, source: f.source })),
     {

@@ -5,24 +5,32 @@
  */
 import { z } from 'zod';
 import { chainSchema } from '../../physics/chain-schema.js';
+import { configVersionSchema } from './config-version.js';
 import { contourStepsSchema, gridPointsSchema, spectralSchema } from './spectral-schema.js';
 
 const positive = z.number().gt(0);
 
 export const invertConfigSchema = z
   .object({
-    version: z.literal(1),
+    version: configVersionSchema,
     kind: z.literal('invert'),
     /** The chain of known architecture; χN is the unknown, so there is no chiN here. */
     system: z.object({ chain: chainSchema }).strict(),
-    /** Grid of the model lamella (one period per cell). */
-    grid: z.object({ nx: gridPointsSchema.default(64), ns: contourStepsSchema.default(100) }).strict().prefault({}),
-    /** "equilibrium": the stress-free period at each trial χN; "free": fitted; a number: given. */
-    period: z.union([z.enum(['equilibrium', 'free']), positive]).default('equilibrium'),
+    /** The model lamella: one period per cell, on nx grid points and ns contour steps. */
+    cell: z
+      .object({
+        /** "equilibrium": the stress-free period at each trial χN; "free": fitted to the data; a number: given (in the profile's x units). */
+        period: z.union([z.enum(['equilibrium', 'free']), positive]).default('equilibrium'),
+        nx: gridPointsSchema.default(64),
+        ns: contourStepsSchema.default(100),
+      })
+      .strict()
+      .prefault({}),
     /** Search range of χN [lo, hi]; default [1.01 (χN)_spinodal, 60]. */
     chiNRange: z
       .tuple([positive, positive])
       .refine((r) => r[0] < r[1], { message: 'must be [lo, hi] with lo < hi' })
+      .meta({ constraint: 'lo < hi' })
       .optional(),
     /** Gaussian instrument resolution (standard deviation); 0 for none. */
     resolution: z.number().min(0).default(0),
@@ -44,7 +52,7 @@ export const invertConfigSchema = z
         /** Independent seeded trainings; their spread is reported. */
         seeds: z.number().int().min(1).max(16).default(3),
         /** Adam steps per seed (field/χN updates every fieldUpdateEvery of them). */
-        steps: z.number().int().min(50).max(100000).default(200),
+        adamSteps: z.number().int().min(50).max(100000).default(200),
         /** Steps between field/χN updates. */
         fieldUpdateEvery: z.number().int().min(10).default(50),
         /** L-BFGS iterations on the MDE after the Adam steps, a field/χN update before every lbfgsPerUpdate of them (0: none). */

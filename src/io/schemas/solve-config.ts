@@ -1,11 +1,12 @@
 /** Config file kind "solve": one reference SCFT solve. */
 import { z } from 'zod';
 import { systemSchema } from '../../physics/chain-schema.js';
+import { configVersionSchema } from './config-version.js';
 import { cellSchema, spectralSchema } from './spectral-schema.js';
 
 export const solveConfigSchema = z
   .object({
-    version: z.literal(1),
+    version: configVersionSchema,
     kind: z.literal('solve'),
     system: systemSchema,
     cell: cellSchema.prefault({}),

@@ -9,7 +9,8 @@ const powerOfTwo = z
   .int()
   .min(8)
   .max(8192)
-  .refine((n) => (n & (n - 1)) === 0, { message: 'must be a power of two (8, 16, …, 8192): the FFT needs it' });
+  .refine((n) => (n & (n - 1)) === 0, { message: 'must be a power of two (8, 16, …, 8192): the FFT needs it' })
+  .meta({ constraint: 'a power of two' });
 
 /** Grid points: a power of two (the FFT needs it). */
 export const gridPointsSchema = powerOfTwo;
@@ -32,8 +33,8 @@ const cellFields = z
   .object({
     /** "periodic": a lamellar cell with periodic boundaries; "film": a film between two flat walls. */
     kind: z.enum(['periodic', 'film']).default('periodic'),
-    /** Periodic: lamellar period in Rg, or "optimize" to find the stress-free period (default). */
-    period: z.union([z.number().gt(0).lte(200), z.literal('optimize')]).optional(),
+    /** Periodic: lamellar period in Rg, or "equilibrium" for the stress-free period (default). */
+    period: z.union([z.number().gt(0).lte(200), z.literal('equilibrium')]).optional(),
     /** Periodic: whole lamellar periods in the cell (default 1). */
     periods: z.number().int().min(1).max(16).optional(),
     /** Film: thickness H in Rg (walls at z = 0 and z = H). */
@@ -47,11 +48,12 @@ const cellFields = z
   })
   .strict();
 
-export type PeriodicCellSpec = { kind: 'periodic'; period: number | 'optimize'; periods: number; nx: number | 'auto'; ns: number | 'auto' };
+export type PeriodicCellSpec = { kind: 'periodic'; period: number | 'equilibrium'; periods: number; nx: number | 'auto'; ns: number | 'auto' };
 export type FilmCellSpec = { kind: 'film'; thickness: number; walls: z.infer<typeof wallsSchema>; nx: number | 'auto'; ns: number | 'auto' };
 export type CellSpec = PeriodicCellSpec | FilmCellSpec;
 
 export const cellSchema = cellFields
+  .meta({ constraint: 'kind "film" needs thickness and takes walls, not period or periods; kind "periodic" takes period and periods, not thickness or walls' })
   .superRefine((c, ctx) => {
     const film = c.kind === 'film';
     if (film && c.thickness === undefined) ctx.addIssue({ code: 'custom', path: ['thickness'], message: 'a film (kind "film") needs its thickness in Rg' });
@@ -64,7 +66,7 @@ export const cellSchema = cellFields
     (c): CellSpec =>
       c.kind === 'film'
         ? { kind: 'film', thickness: c.thickness!, walls: c.walls ?? wallsSchema.parse({}), nx: c.nx, ns: c.ns }
-        : { kind: 'periodic', period: c.period ?? 'optimize', periods: c.periods ?? 1, nx: c.nx, ns: c.ns },
+        : { kind: 'periodic', period: c.period ?? 'equilibrium', periods: c.periods ?? 1, nx: c.nx, ns: c.ns },
   );
 
 export const startSchema = z.discriminatedUnion('type', [
@@ -95,7 +97,7 @@ export const spectralSchema = z
     simpleMixing: z.number().gt(0).lte(1).default(0.1),
     richardson: z.boolean().default(true),
     start: startSchema.default({ type: 'cosine', amplitude: 0.3 }),
-    /** Relative tolerance on the period when cell.period is "optimize". */
+    /** Relative tolerance on the period when cell.period is "equilibrium". */
     periodTolerance: z.number().gt(0).lt(0.1).default(1e-5),
   })
   .strict();

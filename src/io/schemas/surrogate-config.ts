@@ -9,8 +9,9 @@
  */
 import { z } from 'zod';
 import { fieldNetworkSchema } from './network-schema.js';
+import { configVersionSchema } from './config-version.js';
 import { contourStepsSchema, gridPointsSchema } from './spectral-schema.js';
-import { sweepConfigSchema } from './sweep-config.js';
+import { rangeSystemSchema, sweepConfigSchema } from './sweep-config.js';
 
 /** A trained range [min, max] with `anchors` evenly spaced reference points (ends included). */
 function range(value: z.ZodNumber) {
@@ -22,15 +23,16 @@ function range(value: z.ZodNumber) {
       anchors: z.number().int().min(2).max(33).default(5),
     })
     .strict()
-    .refine((r) => r.min < r.max, { message: 'must have min < max (a fixed value is given as a plain number)' });
+    .refine((r) => r.min < r.max, { message: 'must have min < max (a fixed value is given as a plain number)' })
+    .meta({ constraint: 'min < max' });
 }
 
 export const surrogateConfigSchema = z
   .object({
-    version: z.literal(1),
+    version: configVersionSchema,
     kind: z.literal('surrogate'),
     /** Chain architecture, as in a sweep; f and b_A/b_B come from `parameters`. */
-    chain: sweepConfigSchema.shape.chain,
+    system: rangeSystemSchema,
     parameters: z
       .object({
         /** χN range; the lamella must be ordered at every anchor (above the order–disorder transition). */
@@ -38,13 +40,13 @@ export const surrogateConfigSchema = z
         /** A fraction: a fixed number, or a range (each block takes its own contour steps, so f may vary continuously). */
         f: z.union([z.number().gt(0).lt(1), range(z.number().gt(0).lt(1))]).default(0.5),
         /** Conformational asymmetry b_A/b_B: a fixed number, or a range. */
-        segmentLengthRatio: z.union([z.number().gt(0).lte(10), range(z.number().gt(0).lte(10))]).default(1),
+        segmentRatio: z.union([z.number().gt(0).lte(10), range(z.number().gt(0).lte(10))]).default(1),
       })
       .strict(),
     /** Grid of every reference solve (anchors, extra data, held-out points) and of the surrogate's single-chain solve; one period per cell. */
     cell: z.object({ nx: gridPointsSchema.default(64), ns: contourStepsSchema.default(100) }).strict().prefault({}),
     /** Spectral solver settings of every reference solve (start "file" is not allowed). */
-    reference: sweepConfigSchema.shape.reference,
+    solver: sweepConfigSchema.shape.solver,
     backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
     networks: z
       .object({

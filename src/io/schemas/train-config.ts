@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { systemSchema } from '../../physics/chain-schema.js';
 import { fieldNetworkSchema, propagatorNetworkSchema } from './network-schema.js';
+import { configVersionSchema } from './config-version.js';
 import { cellSchema, spectralSchema } from './spectral-schema.js';
 
 /**
@@ -39,12 +40,12 @@ export const lossWeightsSchema = z
 
 export const trainConfigSchema = z
   .object({
-    version: z.literal(1),
+    version: configVersionSchema,
     kind: z.literal('train'),
     system: systemSchema,
     cell: cellSchema.prefault({}),
     /** Settings of the spectral reference solved for the warm start and the evaluation. */
-    reference: spectralSchema.prefault({}),
+    solver: spectralSchema.prefault({}),
     backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
     networks: z
       .object({
@@ -64,6 +65,7 @@ export const trainConfigSchema = z
           .min(8)
           .max(512)
           .refine((n) => n % 2 === 0, { message: 'must be even (the grid of the periodic cell; its Fourier interpolant needs an even count)' })
+          .meta({ constraint: 'even' })
           .default(32),
         nodesPerBlock: z
           .number()
@@ -71,6 +73,7 @@ export const trainConfigSchema = z
           .min(4)
           .max(512)
           .refine((n) => n % 2 === 0, { message: 'must be even (Simpson intervals come in pairs)' })
+          .meta({ constraint: 'even' })
           .default(16),
         /** Extra MDE collocation points, redrawn every resampleEvery steps. */
         random: z.number().int().min(0).max(100000).default(256),
@@ -105,7 +108,8 @@ export const trainConfigSchema = z
         /** 'reference': fit the networks to the spectral solution before physics training. */
         type: z.enum(['reference', 'none']).default('reference'),
         fitPropagator: z.boolean().default(true),
-        steps: z.number().int().min(0).max(100000).default(400),
+        /** Adam steps of the fit to the reference. */
+        adamSteps: z.number().int().min(0).max(100000).default(400),
         learningRate: z.number().gt(0).lt(1).default(3e-3),
       })
       .strict()
@@ -126,7 +130,8 @@ export const trainConfigSchema = z
         fieldMixing: z.number().gt(0).lte(1).default(0.5),
         fieldFitSteps: z.number().int().min(1).default(150),
         fieldFitLearningRate: z.number().gt(0).lt(1).default(5e-4),
-        steps: z.number().int().min(0).max(1000000).default(1500),
+        /** Adam steps of physics training (then lbfgsIterations of L-BFGS). */
+        adamSteps: z.number().int().min(0).max(1000000).default(1500),
         learningRate: z.number().gt(0).lt(1).default(2e-3),
         /** lr(step) = learningRate · decay^(step/decaySteps). */
         decay: z.number().gt(0).lte(1).default(0.5),

@@ -12,6 +12,9 @@
  * with φ from the grid propagators (densities.ts). A one-species melt keeps
  * incompressibility (φ_K − 1)² and the gauge mean w_K = 0; its selfConsistency is 0.
  */
+// The term names are also the keys of the checkpoint and metrics files: defined with that format.
+import { LOSS_TERMS } from '../../io/formats/training.js';
+import type { LossTerm } from '../../io/formats/training.js';
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Jet } from '../../autodiff/jet.js';
 import type { Tf } from '../../autodiff/tf.js';
@@ -24,8 +27,8 @@ import { periodicityLoss } from './periodicity.js';
 type Scalar = TfModule.Scalar;
 type Tensor = TfModule.Tensor;
 
-export const LOSS_TERMS = ['mde', 'periodicity', 'initial', 'incompressibility', 'selfConsistency', 'gauge'] as const;
-export type LossTerm = (typeof LOSS_TERMS)[number];
+export { LOSS_TERMS };
+export type { LossTerm };
 /** The terms of the propagator networks alone: what the alternating strategy trains on. */
 export const PROPAGATOR_TERMS: readonly LossTerm[] = ['mde', 'periodicity', 'initial'];
 export type LossValues = Record<LossTerm, number>;

@@ -1,43 +1,11 @@
 /**
- * An inversion result file (kind "inversion", inverse/inversion-result.ts) → the inversion
+ * An inversion result file (kind "inversion", io/formats/inversion.ts) → the inversion
  * section's input, in the data's units (x as given: nm when the data were in nm), plus what
  * the title page needs (run time, Rg in nm, which estimators ran).
  */
-import { z } from 'zod';
-import { parseOrThrow } from '../../io/errors.js';
+import type { EstimatorBlockFile, InversionResultFile } from '../../io/formats/inversion.js';
 import { sig } from '../format.js';
 import type { InversionInput, MetricRow } from '../report-inputs.js';
-
-const interval = z.object({ lo: z.number(), hi: z.number(), deltaChi2: z.number().nullable() }).passthrough();
-const estimatorSchema = z
-  .object({
-    chiN: z.number(),
-    interval: z.tuple([z.number(), z.number()]),
-    interval95: z.tuple([z.number(), z.number()]).optional(),
-    intervals: z.record(z.string(), interval).optional(),
-    intervalMethod: z.string(),
-    reducedChi2: z.number().optional(),
-    n: z.number().optional(),
-    dof: z.number().optional(),
-    period: z.number().optional(),
-    periodNm: z.number().optional(),
-    offset: z.number().optional(),
-    offsetNm: z.number().optional(),
-    seconds: z.number().optional(),
-    profileLikelihood: z.array(z.object({ chiN: z.number(), deltaChi2: z.number() }).passthrough()).optional(),
-    fitCurve: z.object({ x: z.array(z.number()), phiA: z.array(z.number()) }).optional(),
-    points: z.object({ x: z.array(z.number()), phiA: z.array(z.number()), sigma: z.array(z.number()), fit: z.array(z.number()), residual: z.array(z.number()) }).optional(),
-  })
-  .passthrough();
-export const inversionFileSchema = z
-  .object({
-    kind: z.literal('inversion'),
-    input: z.object({ units: z.object({ x: z.string(), rgNm: z.number().optional() }).passthrough() }).passthrough().optional(),
-    estimators: z.record(z.string(), estimatorSchema),
-    runSeconds: z.number().optional(),
-  })
-  .passthrough();
-export type InversionFile = z.infer<typeof inversionFileSchema>;
 
 export interface InversionRead {
   inversion?: InversionInput;
@@ -48,17 +16,17 @@ export interface InversionRead {
   estimatorNames: string[];
 }
 
-function fitRows(e: z.infer<typeof estimatorSchema>, nm: boolean): MetricRow[] {
+function fitRows(e: EstimatorBlockFile, nm: boolean): MetricRow[] {
   const rows: MetricRow[] = [];
-  if (e.reducedChi2 !== undefined) rows.push({ name: 'reduced χ² of the fit', value: sig(e.reducedChi2, 3), unit: '–' });
+  if (e.reducedChi2 !== null) rows.push({ name: 'reduced χ² of the fit', value: sig(e.reducedChi2, 3), unit: '–' });
   if (e.n !== undefined) rows.push({ name: 'data points, degrees of freedom', value: `${e.n}, ${e.dof ?? 'n/a'}` });
   if (e.period !== undefined) rows.push({ name: 'period of the fit', value: nm && e.periodNm !== undefined ? `${sig(e.periodNm, 5)} nm (${sig(e.period, 5)} Rg)` : `${sig(e.period, 5)} Rg` });
   if (e.offset !== undefined) rows.push({ name: 'offset of an A-domain centre', value: nm && e.offsetNm !== undefined ? `${sig(e.offsetNm, 4)} nm (${sig(e.offset, 4)} Rg)` : `${sig(e.offset, 4)} Rg` });
   return rows;
 }
 
-export function readInversion(raw: unknown, path: string): InversionRead {
-  const file = parseOrThrow(inversionFileSchema, raw, path);
+/** An inversion result already read through its schema (io/formats/inversion.ts). */
+export function readInversion(file: InversionResultFile): InversionRead {
   const names = Object.keys(file.estimators);
   const units = file.input?.units;
   const nm = units?.x === 'nm' && units.rgNm !== undefined;

@@ -75,12 +75,12 @@ function exponentOf(points: SweepPointInput[]): SweepSeries['exponent'] {
 export function sweepSeries(s: SweepInput): SweepSeries[] {
   const groups = new Map<string, SweepPointInput[]>();
   for (const p of s.points) {
-    const k = `${p.f}|${p.segmentLengthRatio}`;
+    const k = `${p.f}|${p.segmentRatio}`;
     if (!groups.has(k)) groups.set(k, []);
     groups.get(k)!.push(p);
   }
   return [...groups.values()].map((pts) => {
     const sorted = [...pts].sort((a, b) => a.chiN - b.chiN);
-    return { f: sorted[0].f, ratio: sorted[0].segmentLengthRatio, points: sorted, spinodalChiN: sorted[0].spinodalChiN, odt: odtOf(sorted), exponent: exponentOf(sorted) };
+    return { f: sorted[0].f, ratio: sorted[0].segmentRatio, points: sorted, spinodalChiN: sorted[0].spinodalChiN, odt: odtOf(sorted), exponent: exponentOf(sorted) };
   });
 }

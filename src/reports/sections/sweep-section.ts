@@ -15,17 +15,17 @@ import { sweepSeries } from './sweep-analysis.js';
 import type { SweepSeries } from './sweep-analysis.js';
 import type { ReportSection } from './section.js';
 
-type Axis = 'chiN' | 'f' | 'segmentLengthRatio';
-const AXIS_LABEL: Record<Axis, string> = { chiN: 'χN (–)', f: 'A fraction f (–)', segmentLengthRatio: 'segment-length ratio b_A/b_B (–)' };
+type Axis = 'chiN' | 'f' | 'segmentRatio';
+const AXIS_LABEL: Record<Axis, string> = { chiN: 'χN (–)', f: 'A fraction f (–)', segmentRatio: 'segment-length ratio b_A/b_B (–)' };
 const distinct = (pts: SweepPointInput[], k: Axis): number => new Set(pts.map((p) => p[k])).size;
 
 function xAxisOf(s: SweepInput): Axis {
-  return (['chiN', 'f', 'segmentLengthRatio'] as const).find((k) => distinct(s.points, k) > 1) ?? 'chiN';
+  return (['chiN', 'f', 'segmentRatio'] as const).find((k) => distinct(s.points, k) > 1) ?? 'chiN';
 }
 
 /** Curves along the x axis, one per combination of the other parameters. */
 function groups(s: SweepInput, x: Axis): { label: string; points: SweepPointInput[] }[] {
-  const others = (['chiN', 'f', 'segmentLengthRatio'] as const).filter((k) => k !== x && distinct(s.points, k) > 1);
+  const others = (['chiN', 'f', 'segmentRatio'] as const).filter((k) => k !== x && distinct(s.points, k) > 1);
   const map = new Map<string, SweepPointInput[]>();
   for (const p of s.points) {
     const key = others.map((k) => `${k === 'chiN' ? 'χN' : k === 'f' ? 'f' : 'b_A/b_B'} = ${sig(p[k], 4)}`).join(', ');
@@ -94,7 +94,7 @@ function sweepPages(s: SweepInput): ReportPage[] {
       drawLineChart(r, { series: qSeries, xLabel: AXIS_LABEL[x], yLabel: 'Q (–)', yLog: true, legend: gs.length > 1, guides: x === 'chiN' ? guides : [] }),
     ),
   );
-  const rows = [...s.points].sort((a, b) => a.f - b.f || a.segmentLengthRatio - b.segmentLengthRatio || a.chiN - b.chiN);
+  const rows = [...s.points].sort((a, b) => a.f - b.f || a.segmentRatio - b.segmentRatio || a.chiN - b.chiN);
   const table: Block = {
     type: 'table',
     header: ['χN', 'f', 'b_A/b_B', 'phase', 'D / Rg', 'F (kT/chain)', 'F − F_dis (kT/chain)', 'Q', 'converged'],
@@ -103,7 +103,7 @@ function sweepPages(s: SweepInput): ReportPage[] {
     rows: rows.map((p) => [
       sig(p.chiN, 5),
       sig(p.f, 3),
-      sig(p.segmentLengthRatio, 3),
+      sig(p.segmentRatio, 3),
       p.phase,
       p.period === null || p.phase === 'disordered' ? '–' : sig(p.period, 5),
       p.freeEnergy === null ? 'n/a' : sig(p.freeEnergy, 6),

@@ -1,0 +1,252 @@
+/**
+ * Every file kind the tool writes (src/io/formats) round-trips through its one schema: what
+ * the writer builds reads back equal, and a file of an older version is refused with a
+ * message that says so. Files come from the real writers where a cheap run makes them (a
+ * spectral solve, a one-point sweep shard); the network files, whose runs take minutes, are
+ * built here from the same schemas' rules (format checks only, no physics asserted).
+ */
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import type { z } from 'zod';
+import { formatText, readFormat } from '../../src/io/formats/file-format.js';
+import { INVERSION_VERSION, inversionResultSchema } from '../../src/io/formats/inversion.js';
+import { solutionFileSchema, solutionText, solutionToFile, summarize } from '../../src/io/formats/solution.js';
+import { PREDICTION_VERSION, SURROGATE_CHECKPOINT_VERSION, SURROGATE_METRICS_VERSION, predictionSchema, surrogateCheckpointSchema, surrogateMetricsSchema } from '../../src/io/formats/surrogate.js';
+import { sweepTableSchema, shardFileSchema } from '../../src/io/formats/sweep.js';
+import { SYNTH_TRUTH_VERSION, synthTruthSchema } from '../../src/io/formats/synth-truth.js';
+import { CHECKPOINT_VERSION, LOSS_TERMS, TRAIN_METRICS_VERSION, checkpointFileSchema, trainMetricsFileSchema } from '../../src/io/formats/training.js';
+import { surrogateConfigSchema } from '../../src/io/schemas/surrogate-config.js';
+import { sweepConfigSchema } from '../../src/io/schemas/sweep-config.js';
+import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
+import { provenance } from '../../src/io/versions.js';
+import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
+import { solveFixedCell } from '../../src/spectral/scft-solver.js';
+import { mergeShards } from '../../src/sweep/merge.js';
+import { runSweep } from '../../src/sweep/run-sweep.js';
+
+const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-formats-'));
+const netProvenance = { ...provenance(), backend: 'wasm', tfjs: '4.22.0' };
+
+/** Write through the schema, read back through the same schema: equal. Then the same file one version older is refused, saying why. */
+function roundTrip<S extends z.ZodType>(schema: S, value: z.input<S>, kind: string, version: number): void {
+  const path = join(tmp(), `${kind}.json`);
+  writeFileSync(path, formatText(schema, value));
+  const back = readFormat(path, schema);
+  expect(back).toEqual(JSON.parse(readFileSync(path, 'utf8')));
+  const old = { ...JSON.parse(readFileSync(path, 'utf8')), version: version - 1 };
+  writeFileSync(path, JSON.stringify(old));
+  expect(() => readFormat(path, schema)).toThrow(new RegExp(`version: got ${version - 1}; this version of mesofield reads "${kind}" files of version ${version}; the file was written by another version`));
+}
+
+describe('file formats', () => {
+  // A real spectral solution on a small grid (the writer under test is the format, not the solver).
+  const sol = solveFixedCell({ system: { chain: { type: 'diblock', f: 0.5, segmentRatio: 1 }, chiN: 15 }, cell: new PeriodicCell(3.8, 16, 1), contour: 40, keepPropagators: true });
+  const summary = summarize(sol);
+
+  it('solution: the writer builds it through the schema; it reads back equal; old versions and stray keys are refused', () => {
+    const file = solutionToFile(sol, provenance(), { version: 2, kind: 'solve' });
+    const path = join(tmp(), 'solution.json');
+    writeFileSync(path, solutionText(file));
+    expect(readFormat(path, solutionFileSchema)).toEqual(file);
+    expect(file.cell).toEqual({ kind: 'periodic', length: 3.8, n: 16, periods: 1 });
+    roundTrip(solutionFileSchema, file, 'solution', 2);
+    expect(() => solutionFileSchema.parse({ ...file, periodRg: 3.8 })).toThrow(/periodRg/);
+  });
+
+  it('synth-truth sidecar', () => {
+    roundTrip(
+      synthTruthSchema,
+      {
+        kind: 'synth-truth',
+        version: SYNTH_TRUTH_VERSION,
+        provenance: provenance(),
+        chain: { type: 'diblock', f: 0.5, segmentRatio: 1 },
+        f: 0.5,
+        chiN: 15,
+        period: 3.8,
+        periodMode: 'equilibrium',
+        offset: 0.6,
+        points: 48,
+        periods: 2,
+        noise: 0.02,
+        seed: 4,
+        resolution: 0,
+        nx: 32,
+        ns: 60,
+        xUnits: 'Rg',
+        freeEnergy: summary.freeEnergy,
+        note: 'test',
+      },
+      'synth-truth',
+      SYNTH_TRUTH_VERSION,
+    );
+  });
+
+  it('sweep shard and table, from a real one-point sweep', async () => {
+    const dir = tmp();
+    const config = sweepConfigSchema.parse({ version: 2, kind: 'sweep', parameters: { chiN: [12] }, cell: { period: 3.8, nx: 16, ns: 40 } });
+    await runSweep({ config, outDir: dir, workers: 1 });
+    const shard = readFormat(join(dir, 'sweep.json'), sweepTableSchema);
+    expect(shard.points[0].segmentRatio).toBe(1);
+    roundTrip(sweepTableSchema, shard, 'sweep-table', 2);
+    const table = mergeShards([dir]);
+    expect(table.points).toEqual(shard.points);
+    const shardFile = { kind: 'sweep-shard' as const, version: 2 as const, provenance: provenance(), configHash: table.configHash, config, shard: { index: 1, count: 1 }, totalPoints: 1, indices: [0], complete: true, points: table.points };
+    roundTrip(shardFileSchema, shardFile, 'sweep-shard', 2);
+  });
+
+  const zeros = Object.fromEntries(LOSS_TERMS.map((k) => [k, 0])) as Record<(typeof LOSS_TERMS)[number], number>;
+  const metrics = {
+    backend: 'wasm',
+    tfjs: '4.22.0',
+    phase: 'lamellar',
+    collapsed: false,
+    sharedPropagator: true,
+    errors: { phiA: { relativeL2: 1e-3, maxError: 2e-3 }, exchangeField: { relativeL2: 1e-2, maxError: 0.1 }, QRelativeError: 1e-4, freeEnergyError: 1e-5 },
+    freshResiduals: zeros,
+    reference: summary,
+    network: { ...summary, solver: 'network' as const },
+    training: { stopReason: 'completed' as const, message: 'completed 10 Adam steps', adamSteps: 10, seconds: 1.5, warmStart: { adamSteps: 5, seconds: 0.5, finalLoss: 1e-3 } },
+  };
+
+  it('training metrics.json', () => {
+    roundTrip(trainMetricsFileSchema, { kind: 'train-metrics', version: TRAIN_METRICS_VERSION, ...metrics }, 'train-metrics', TRAIN_METRICS_VERSION);
+  });
+
+  it('training checkpoint', () => {
+    roundTrip(
+      checkpointFileSchema,
+      {
+        kind: 'checkpoint',
+        version: CHECKPOINT_VERSION,
+        provenance: netProvenance,
+        config: trainConfigSchema.parse({ version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }),
+        length: 3.8,
+        periods: 1,
+        step: 10,
+        stage: 'done',
+        lossWeights: zeros,
+        history: [{ step: 10, stage: 'adam', total: 1e-3, terms: { mde: 1e-3 }, learningRate: 1e-3, seconds: 1 }],
+        metrics,
+        extraPoints: null,
+        weightSpecs: [{ name: 'field/w0', shape: [1, 8], dtype: 'float32' }],
+        weightBytes: 32,
+      },
+      'checkpoint',
+      CHECKPOINT_VERSION,
+    );
+  });
+
+  const point = { chiN: 15, f: 0.5, segmentRatio: 1 };
+  const stat = { max: 1e-3, mean: 5e-4 };
+  const surrogateMetrics = surrogateMetricsSchema.parse({
+    kind: 'surrogate-metrics',
+    version: 1,
+    backend: 'wasm',
+    tfjs: '4.22.0',
+    parameters: [{ name: 'chiN', min: 12, max: 20, anchors: 3 }],
+    fixed: { f: 0.5, segmentRatio: 1 },
+    errors: { points: 1, phiARelativeL2: stat, freeEnergyError: stat, QRelativeError: stat, periodRelativeError: stat, anchorInterpolationPhiA: stat },
+    heldOut: [{ point, phiA: { relativeL2: 1e-3, maxError: 2e-3 }, exchangeFieldRelativeL2: 1e-2, freeEnergyError: 1e-4, QRelativeError: 1e-4, period: { surrogate: 3.8, reference: 3.8, relativeError: 0 }, anchorInterpolationPhiA: 1e-2 }],
+    timing: { referenceSolveSeconds: 0.2, querySeconds: 0.01, speedup: 20, anchorSeconds: 1, extraSolves: { count: 0, seconds: 0 }, fitSeconds: 1, roundsSeconds: 1, buildSeconds: 3, equivalentReferenceSolves: 15, heldOutSeconds: 0.5 },
+    training: { fit: { adamSteps: 10, lbfgsIterations: 10, points: 3, finalLoss: 1e-4, seconds: 1 }, rounds: 1, lastResidual: null },
+  });
+
+  it('surrogate checkpoint', () => {
+    roundTrip(
+      surrogateCheckpointSchema,
+      {
+        kind: 'surrogate-checkpoint',
+        version: SURROGATE_CHECKPOINT_VERSION,
+        provenance: netProvenance,
+        config: surrogateConfigSchema.parse({ version: 2, kind: 'surrogate', parameters: { chiN: { min: 12, max: 20, anchors: 3 } } }),
+        periodModel: { axes: [[12, 16, 20]], periods: [3.6, 3.8, 4.0] },
+        anchors: [{ point, period: 3.8, freeEnergy: 3.9 }],
+        history: [{ round: 0, residual: null, fitLoss: 1e-3, seconds: 1 }],
+        metrics: surrogateMetrics,
+        weightSpecs: [{ name: 'field/w0', shape: [1, 8], dtype: 'float32' }],
+        weightBytes: 32,
+      },
+      'surrogate-checkpoint',
+      SURROGATE_CHECKPOINT_VERSION,
+    );
+    roundTrip(surrogateMetricsSchema, surrogateMetrics, 'surrogate-metrics', SURROGATE_METRICS_VERSION);
+  });
+
+  it('prediction', () => {
+    const xs = [0, 1.9];
+    roundTrip(
+      predictionSchema,
+      {
+        kind: 'prediction',
+        version: PREDICTION_VERSION,
+        checkpoint: 'ck',
+        provenance: provenance(),
+        trainedRange: [{ name: 'chiN', min: 12, max: 20 }],
+        extrapolated: false,
+        warnings: [],
+        point,
+        outside: [],
+        phase: 'lamellar',
+        period: 3.8,
+        freeEnergy: 3.9,
+        freeEnergyDisordered: 3.75,
+        Q: 1.2,
+        QDagger: 1.2,
+        residual: 1e-3,
+        incompressibilityMax: 1e-6,
+        seconds: 0.01,
+        x: xs,
+        t: [0, 0.5],
+        phiA: [0.9, 0.1],
+        phiB: [0.1, 0.9],
+        wA: [-1, 1],
+        wB: [1, -1],
+      },
+      'prediction',
+      PREDICTION_VERSION,
+    );
+  });
+
+  it('inversion result: NaN numbers (a network has no χ²) are written as null and read back', () => {
+    const interval = { lo: 14.9, hi: 15.1, probability: 0.683, deltaChi2: Number.NaN, limitedByRange: { lo: false, hi: false } };
+    const block = {
+      method: 'network',
+      status: 'ok' as const,
+      chiN: 15,
+      interval: [14.9, 15.1] as [number, number],
+      interval95: [14.8, 15.2] as [number, number],
+      intervals: { '68.3%': interval, '95%': { ...interval, probability: 0.95 } },
+      intervalMethod: 'seed spread',
+      offset: 0.6,
+      period: 3.8,
+      periodMode: 'equilibrium' as const,
+      chi2: Number.NaN,
+      reducedChi2: Number.NaN,
+      rss: 0.01,
+      rmsResidual: 0.02,
+      n: 48,
+      p: 1,
+      dof: 47,
+      sigma: { source: 'estimated' as const, value: 0.02, floored: false },
+      seconds: 3,
+      backend: 'wasm',
+    };
+    const text = formatText(inversionResultSchema, {
+      kind: 'inversion',
+      version: INVERSION_VERSION,
+      provenance: provenance(),
+      input: { file: 'p.csv', n: 48, xRange: [0, 7.6], units: { x: 'Rg' }, sigmaColumn: false },
+      config: { version: 2, kind: 'invert' },
+      assumptions: ['mean-field SCFT'],
+      estimators: { network: block },
+      agreement: { present: ['network'], compared: false, note: 'one estimator ran' },
+    });
+    const back = inversionResultSchema.parse(JSON.parse(text));
+    expect(back.estimators.network.chi2).toBeNull();
+    expect(back.estimators.network.backend).toBe('wasm');
+    roundTrip(inversionResultSchema, back, 'inversion', INVERSION_VERSION);
+  });
+});
