@@ -17,7 +17,7 @@ function residualVector(groups: ResidualGroup[]): Float64Array {
 async function setup(chainSpec: object, chiN: number, withField: boolean, extra: object = {}) {
   const { tf } = await selectBackend('cpu');
   const config = trainConfigSchema.parse({
-    version: 1,
+    version: 2,
     kind: 'train',
     system: { chain: chainSpec, chiN, ...extra },
     networks: { field: { hidden: [5] }, propagator: { hidden: [5, 4], fourierModes: 2 } },
