@@ -9,7 +9,7 @@ import { describe, expect, it } from 'vitest';
 import { fitFilm } from '../../src/inverse/film/film-fit.js';
 import { synthesizeFilm } from '../../src/inverse/film/film-synth.js';
 
-const chain = { type: 'diblock' as const, f: 0.5, segmentLengths: { A: 1, B: 1 } };
+const chain = { type: 'diblock' as const, f: 0.5, segmentRatio: 1 };
 // Round SLDs of a deuterated and a protonated block on silicon in air, 10⁻⁶ Å⁻² (from memory).
 const slds = { A: 6.0e-6, B: 1.0e-6, substrate: 2.07e-6, medium: 0 };
 const truth = { chiN: 16, bottom: 1.0, top: -0.6, thickness: 5, width: 0.25, offset: 0.3 };

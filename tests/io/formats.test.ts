@@ -102,6 +102,8 @@ describe('file formats', () => {
     backend: 'wasm',
     tfjs: '4.22.0',
     phase: 'lamellar',
+    networkPhase: 'lamellar',
+    verdict: { ok: true, aboveTarget: null, ordered: true, warnings: [], summary: 'ok' },
     collapsed: false,
     sharedPropagator: true,
     errors: { phiA: { relativeL2: 1e-3, maxError: 2e-3 }, exchangeField: { relativeL2: 1e-2, maxError: 0.1 }, QRelativeError: 1e-4, freeEnergyError: 1e-5 },

@@ -33,7 +33,7 @@ async function setup(chainSpec: object, chiN: number, withField: boolean, extra:
 
 describe('ScftResidualSystem (float64 residuals and Jacobian of the SCFT equations)', () => {
   for (const [label, spec, chiN] of [
-    ['asymmetric diblock', { type: 'diblock', f: 0.4, segmentLengths: { A: 1.3, B: 1 } }, 14],
+    ['asymmetric diblock', { type: 'diblock', f: 0.4, segmentRatio: 1.3 }, 14],
     ['symmetric ABA triblock (one shared propagator network)', { type: 'triblock', f: 0.5 }, 18],
   ] as const) {
     it(`${label}: Jacobian columns match central differences of the residuals`, async () => {
