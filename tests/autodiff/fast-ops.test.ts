@@ -139,7 +139,7 @@ describe('training results are unchanged by the fast primitives', () => {
     setPlainOps(true);
     const plain = await trainRun({ config, backend: 'wasm' });
     setPlainOps(false);
-    const totals = (r: typeof fast) => r.history.filter((h) => h.stage === 'adam').map((h) => h.total);
+    const totals = (r: typeof fast) => r.history.filter((h) => h.stage === 'adam' && Object.keys(h.terms).length > 0).map((h) => h.total); // the logged steps (every Adam step is in the history, the logged ones with their terms)
     expect(totals(fast).length).toBe(9);
     // float32 rounding (sigmoid-form tanh, summation order) compounded over 45 steps.
     expectClose(totals(fast), totals(plain), 1e-3, 'loss history');
