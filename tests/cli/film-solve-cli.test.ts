@@ -4,6 +4,9 @@
 // period between two A-domain centres has the free energy per chain of the periodic lamella
 // of period L (Matsen, J. Chem. Phys. 106, 7781 (1997) uses the same construction).
 import { describe, expect, it } from 'vitest';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { runCli } from '../helpers/run-cli.js';
 
 describe('solve --film', () => {
@@ -21,6 +24,21 @@ describe('solve --film', () => {
     // Same contour; the film's cell-centred grid and the periodic grid differ: both are spectrally accurate.
     expect(Math.abs(f.freeEnergy - b.freeEnergy)).toBeLessThan(1e-7);
     expect(f.layers.A + f.layers.B).toBeGreaterThanOrEqual(2);
+  });
+
+  it('--thickness-scan: F(H) with both walls preferring A has its first minimum near one period (commensurability, Matsen 1997), written for the report', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'mesofield-film-'));
+    const r = runCli(['solve', '--film', '3.5', '--affinity', '1,1', '--chiN', '15', '--nx', '32', '--ns', '60', '--thickness-scan', '3:4.5:4', '--json', '--quiet', '--out', join(dir, 'film')], { timeoutMs: 180_000 });
+    expect(r.code, r.stderr).toBe(0);
+    const scan = JSON.parse(r.stdout).thicknessScan;
+    expect(scan.points).toHaveLength(4);
+    const D = 3.7137; // the bulk equilibrium period at χN = 15 (tests/spectral/period.test.ts)
+    expect(scan.minima.length).toBeGreaterThan(0);
+    // The A-rich layers the walls hold are thinner than half a domain: the minimum sits a little below D.
+    expect(scan.minima[0].thickness / D).toBeGreaterThan(0.8);
+    expect(scan.minima[0].thickness / D).toBeLessThan(1.05);
+    const file = JSON.parse(readFileSync(join(dir, 'film', 'solution.json'), 'utf8'));
+    expect(file.thicknessScan.minima[0].thickness).toBeCloseTo(scan.minima[0].thickness, 10);
   });
 
   it('refuses a malformed --affinity naming the flag', () => {

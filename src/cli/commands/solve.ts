@@ -145,7 +145,8 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
       periodTolerance: ref.search?.periodTolerance,
       periodSearch: ref.search?.trace,
       ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}),
-      ...(scan ? { thicknessScan: scan } : {}),
+      // No disordered film distinct from the layered one (surface-induced ordering): null, not NaN.
+      ...(scan ? { thicknessScan: { ...scan, points: scan.points.map((p) => ({ ...p, freeEnergyDisordered: Number.isFinite(p.freeEnergyDisordered) ? p.freeEnergyDisordered : null })) } } : {}),
       runSeconds: (performance.now() - t0) / 1000,
     });
     const files: Record<string, string> = {

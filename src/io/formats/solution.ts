@@ -168,6 +168,8 @@ export interface SolutionFileExtras {
   periodTolerance?: number;
   periodSearch?: z.input<typeof periodTrialSchema>[];
   film?: z.input<typeof filmSummarySchema>;
+  /** A film's F(H) scan (spectral/film-scan-run.ts). */
+  thicknessScan?: z.input<typeof thicknessScanSchema>;
   runSeconds?: number;
 }
 
@@ -183,6 +185,7 @@ export function solutionToFile(sol: ScftSolution, provenance: Provenance, config
     summary: summarize(sol, extra),
     ...(extra.periodSearch ? { periodSearch: extra.periodSearch } : {}),
     ...(extra.film ? { film: extra.film } : {}),
+    ...(extra.thicknessScan ? { thicknessScan: extra.thicknessScan } : {}),
     ...(extra.runSeconds !== undefined ? { runSeconds: extra.runSeconds } : {}),
     grid: { x: Array.from(sol.x), phiA: Array.from(sol.phi.A), phiB: Array.from(sol.phi.B), wA: Array.from(sol.w.A), wB: Array.from(sol.w.B) },
     ...(sol.propagators
