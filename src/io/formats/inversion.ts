@@ -15,8 +15,9 @@ const num = z.number();
 const maybe = num.nullable();
 const pair = z.tuple([num, num]);
 
+// An estimator without an interval (one network seed has no spread) writes null ends.
 const intervalSchema = z
-  .object({ lo: num, hi: num, probability: num, deltaChi2: maybe, limitedByRange: z.object({ lo: z.boolean(), hi: z.boolean() }).strict() })
+  .object({ lo: maybe, hi: maybe, probability: num, deltaChi2: maybe, limitedByRange: z.object({ lo: z.boolean(), hi: z.boolean() }).strict() })
   .strict();
 
 /** The fields every estimator reports; an estimator adds its own (the network: seeds, runs, fields). */
@@ -26,8 +27,8 @@ export const estimatorBlockSchema = z
     status: z.literal('ok'),
     chiN: num,
     /** 68.3 % and 95 % intervals of χN. */
-    interval: pair,
-    interval95: pair,
+    interval: z.tuple([maybe, maybe]),
+    interval95: z.tuple([maybe, maybe]),
     intervals: z.object({ '68.3%': intervalSchema, '95%': intervalSchema }).strict(),
     /** How the interval was obtained (profile likelihood; seed spread for a network). */
     intervalMethod: z.string(),
