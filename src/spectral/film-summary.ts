@@ -12,10 +12,11 @@ export interface FilmSummary {
   phase: string;
   freeEnergy: number;
   freeEnergyPerArea: number;
-  freeEnergyDisordered: number;
-  freeEnergyDisorderedPerArea: number;
-  /** F − F of the disordered film with the same walls (not the bulk χN f(1 − f)). */
-  freeEnergyExcess: number;
+  /** The disordered film with the same walls; null when none is distinct from the layered state (surface-induced ordering). */
+  freeEnergyDisordered: number | null;
+  freeEnergyDisorderedPerArea: number | null;
+  /** F − F of the disordered film with the same walls (not the bulk χN f(1 − f)); null as above. */
+  freeEnergyExcess: number | null;
   layers: { A: number; B: number; sequence: string };
   Q: number;
   iterations: number;
@@ -33,15 +34,16 @@ export function filmSummary(ref: ReferenceSolve): FilmSummary {
   const d = sol.cell.describe();
   if (d.kind !== 'film') throw new Error('filmSummary: not a film cell');
   const H = d.length;
+  const distinct = Number.isFinite(sol.freeEnergyDisordered);
   return {
     thickness: H,
     walls: { bottom: d.walls.bottom.affinity, top: d.walls.top.affinity, range: d.walls.range },
     phase: sol.phase,
     freeEnergy: sol.freeEnergy,
     freeEnergyPerArea: film.freeEnergyPerArea,
-    freeEnergyDisordered: film.disordered.freeEnergy,
-    freeEnergyDisorderedPerArea: film.disordered.freeEnergy * H,
-    freeEnergyExcess: sol.freeEnergy - film.disordered.freeEnergy,
+    freeEnergyDisordered: distinct ? sol.freeEnergyDisordered : null,
+    freeEnergyDisorderedPerArea: distinct ? sol.freeEnergyDisordered * H : null,
+    freeEnergyExcess: distinct ? sol.freeEnergy - sol.freeEnergyDisordered : null,
     layers: { A: film.layers.A, B: film.layers.B, sequence: film.layers.sequence },
     Q: sol.Q,
     iterations: sol.iterations,
@@ -59,7 +61,7 @@ export function filmSummaryText(s: FilmSummary, chain: string, chiN: number): st
   return [
     `chain ${chain}, χN = ${g(chiN)}, film of thickness H = ${g(s.thickness)} Rg between walls of affinity ${g(s.walls.bottom)} (bottom) and ${g(s.walls.top)} (top), range ${g(s.walls.range)} Rg`,
     `state: ${s.phase}${s.converged ? '' : ' (NOT CONVERGED)'}, ${s.layers.A} A-rich and ${s.layers.B} B-rich layers (${s.layers.sequence || 'none'}, bottom first)`,
-    `F = ${g(s.freeEnergy, 10)} kT per chain (${g(s.freeEnergyPerArea, 10)} kT ρ₀Rg/N per area); disordered film with the same walls: ${g(s.freeEnergyDisordered, 10)} (F − F_disordered = ${s.freeEnergyExcess.toExponential(4)})`,
+    `F = ${g(s.freeEnergy, 10)} kT per chain (${g(s.freeEnergyPerArea, 10)} kT ρ₀Rg/N per area)${s.freeEnergyDisordered === null || s.freeEnergyExcess === null ? '; no disordered film distinct from this state' : `; disordered film with the same walls: ${g(s.freeEnergyDisordered, 10)} (F − F_disordered = ${s.freeEnergyExcess.toExponential(4)})`}`,
     `Q = ${g(s.Q, 12)}, ${s.iterations} iterations, residual ${s.residual.toExponential(2)} kT; grid ${s.resolution.nx} points × ${s.resolution.ns} contour steps (estimated φA error ${s.resolution.phiError.toExponential(1)}, ln Q ${s.resolution.lnQError.toExponential(1)})`,
     ...s.notes.map((n) => `note: ${n}`),
   ];
