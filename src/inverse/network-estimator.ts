@@ -228,7 +228,13 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
     // (measured in the forward problem: several times the MDE reduction of Adam per second).
     const perUpdate = s.lbfgsPerUpdate ?? 100;
     for (let done = 0; loop.reason !== 'diverged' && done < (s.lbfgsIterations ?? 0); done += perUpdate) {
-      polishCycle(tf, problem, nets.parameters, propagatorWeights(config), perUpdate, () => fieldUpdateAt(s.steps + done));
+      const r = await polishCycle(tf, problem, nets.parameters, propagatorWeights(config), perUpdate, () => fieldUpdateAt(s.steps + done), undefined, stopRequested);
+      if (r.reason === 'interrupted') {
+        adam.dispose();
+        problem.dispose();
+        nets.dispose();
+        throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, L-BFGS iteration ${done + r.iterations}; no network result was written`);
+      }
     }
     const sol = networkSolution(tf, nets, { chain: s.chain, chiN }, { periods: 1, nx, nodesPerBlock: 64 });
     let rss = 0;

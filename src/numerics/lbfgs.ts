@@ -14,7 +14,12 @@
  *     steps inside a bracket by cubic interpolation (eq. 3.59), safeguarded.
  *
  * Units: whatever the caller's f and x carry. Gradient tolerance is on max_i |g_i|.
+ *
+ * Written as a generator (numerics/stepwise.ts): `lbfgs` runs it to the end, `lbfgsYielding`
+ * lets events (a Ctrl-C) run between iterations and stops with reason 'interrupted'.
  */
+import { runToEnd, runYielding } from './stepwise.js';
+import type { Stepwise } from './stepwise.js';
 
 export interface LbfgsOptions {
   maxIterations?: number;
@@ -41,7 +46,8 @@ export type LbfgsStop =
   | 'maxEvaluations'
   | 'lineSearch' // no step satisfying the Wolfe conditions (often: f is noisy at this scale)
   | 'nonFinite' // f or g not finite at the start point
-  | 'callback';
+  | 'callback'
+  | 'interrupted'; // the driver was asked to stop (lbfgsYielding's shouldStop)
 
 export interface LbfgsIteration {
   iteration: number;
@@ -138,6 +144,16 @@ export function twoLoopDirection(g: Float64Array, S: Float64Array[], Y: Float64A
 }
 
 export function lbfgs(fg: Objective, x0: ArrayLike<number>, options: LbfgsOptions = {}): LbfgsResult {
+  return runToEnd(lbfgsSteps(fg, x0, options));
+}
+
+/** lbfgs with one event-loop pause after every iteration; `shouldStop()` true ends it with reason 'interrupted'. */
+export function lbfgsYielding(fg: Objective, x0: ArrayLike<number>, options: LbfgsOptions, pause: () => Promise<void>, shouldStop: () => boolean): Promise<LbfgsResult> {
+  return runYielding(lbfgsSteps(fg, x0, options), pause, shouldStop);
+}
+
+/** The iterations of lbfgs, one yield after each (the answer false stops it). */
+export function* lbfgsSteps(fg: Objective, x0: ArrayLike<number>, options: LbfgsOptions = {}): Stepwise<LbfgsIteration, LbfgsResult> {
   const n = x0.length;
   const maxIterations = options.maxIterations ?? 200;
   const m = options.history ?? 10;
@@ -300,6 +316,7 @@ export function lbfgs(fg: Objective, x0: ArrayLike<number>, options: LbfgsOption
     if (info.gradMax <= gtol) return done('gradient', iter);
     if (ftol > 0 && Math.abs(fBefore - f) <= ftol * Math.max(Math.abs(fBefore), Math.abs(f), 1)) return done('function', iter);
     if (evaluations >= maxEvaluations) return done('maxEvaluations', iter);
+    if (iter < maxIterations && (yield info) === false) return done('interrupted', iter);
   }
   return done('maxIterations', maxIterations);
 }

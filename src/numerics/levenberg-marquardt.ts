@@ -20,6 +20,8 @@
  * Units: whatever the caller's r and x carry. F = ½‖r‖² throughout ("cost").
  */
 import { cholesky, choleskySolve } from './cholesky.js';
+import { runToEnd, runYielding } from './stepwise.js';
+import type { Stepwise } from './stepwise.js';
 
 /** The Gauss–Newton system at x, as normal equations (A = JᵀJ row-major n·n, lower triangle read, g = Jᵀr). */
 export interface NormalLinearisation {
@@ -82,7 +84,8 @@ export interface LmOptions {
   onIteration?: (it: LmIteration, x: Float64Array) => boolean | void;
 }
 
-export type LmStop = 'gradient' | 'step' | 'cost' | 'maxIterations' | 'stalled' | 'callback';
+/** 'interrupted': the driver was asked to stop (levenbergMarquardtYielding's shouldStop). */
+export type LmStop = 'gradient' | 'step' | 'cost' | 'maxIterations' | 'stalled' | 'callback' | 'interrupted';
 
 export interface LmResult {
   x: Float64Array;
@@ -232,6 +235,16 @@ function normalSystem(lin: NormalLinearisation, n: number, damping: 'marquardt' 
 }
 
 export function levenbergMarquardt(problem: LeastSquaresProblem, x0: Float64Array, options: LmOptions = {}): LmResult {
+  return runToEnd(levenbergMarquardtSteps(problem, x0, options));
+}
+
+/** levenbergMarquardt with one event-loop pause after every iteration (numerics/stepwise.ts); `shouldStop()` true ends it with reason 'interrupted'. */
+export function levenbergMarquardtYielding(problem: LeastSquaresProblem, x0: Float64Array, options: LmOptions, pause: () => Promise<void>, shouldStop: () => boolean): Promise<LmResult> {
+  return runYielding(levenbergMarquardtSteps(problem, x0, options), pause, shouldStop);
+}
+
+/** The iterations of levenbergMarquardt, one yield after each (the answer false stops it). */
+export function* levenbergMarquardtSteps(problem: LeastSquaresProblem, x0: Float64Array, options: LmOptions = {}): Stepwise<LmIteration, LmResult> {
   const n = problem.size;
   if (x0.length !== n) throw new RangeError(`levenbergMarquardt: x0 has ${x0.length} entries, the problem ${n}`);
   const maxIterations = options.maxIterations ?? 100;
@@ -284,6 +297,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, x0: Float64Arra
     if (options.onIteration?.(info, x) === false) return { x, cost, iterations: it, reason: 'callback', mu };
     if (small) return { x, cost, iterations: it, reason: 'step', mu };
     if (!accepted) return { x, cost, iterations: it, reason: 'stalled', mu };
+    if (it < maxIterations && (yield info) === false) return { x, cost, iterations: it, reason: 'interrupted', mu };
   }
   return { x, cost, iterations: maxIterations, reason: 'maxIterations', mu };
 }

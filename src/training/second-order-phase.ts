@@ -22,7 +22,8 @@ import type { LossValues } from '../network/losses/terms.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
 import type { ResidualPart } from '../network/least-squares/scft-residual-system.js';
 import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
-import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
+import { levenbergMarquardt, levenbergMarquardtYielding } from '../numerics/levenberg-marquardt.js';
+import { yieldToEvents } from '../runtime/stop.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
 import { mixedFieldUpdate } from '../physics/scft-equations.js';
 import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
@@ -97,7 +98,11 @@ export interface SecondOrderResult {
   reachedTarget?: { iteration: number; seconds: number };
 }
 
-export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: LossValues, settings: SecondOrderSettings, hooks: SecondOrderHooks = {}): SecondOrderResult {
+/**
+ * The phase, stoppable after any LM iteration: the event loop turns after each, so a Ctrl-C
+ * sets the stop flag there and `hooks.shouldStop()` ends the phase with reason 'interrupted'.
+ */
+export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: LossValues, settings: SecondOrderSettings, hooks: SecondOrderHooks = {}): Promise<SecondOrderResult> {
   const t0 = performance.now();
   const seconds = () => (performance.now() - t0) / 1000;
   const sys = new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.nodesPerBlock }, weights);
@@ -148,7 +153,7 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
   };
 
   /** LM on one part: the whole system, or one propagator's columns in the current fields. */
-  const solvePart = (part: ResidualPart, iterations: number) => {
+  const solvePart = async (part: ResidualPart, iterations: number) => {
     const { first, count } = part === 'all' ? { first: 0, count: sys.size } : sys.columnsOf(part);
     const embed = (xs: Float64Array) => {
       if (part === 'all') return xs;
@@ -156,7 +161,7 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
       full.set(xs, first);
       return full;
     };
-    const r = levenbergMarquardt(
+    const r = await levenbergMarquardtYielding(
       {
         size: count,
         cost: (xs) => sys.evaluate(embed(xs), false, part).cost,
@@ -169,9 +174,12 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
       },
       theta.slice(first, first + count),
       { maxIterations: iterations, damping: settings.damping, onIteration: (it, xs) => record(it.mu, embed(xs)) },
+      yieldToEvents,
+      () => hooks.shouldStop?.() ?? false,
     );
     theta = embed(r.x);
     lastReason = r.reason;
+    if (r.reason === 'interrupted') stopped = 'interrupted';
   };
 
   // The field step of the alternating strategy, all in float64: the SCFT update of the networks'
@@ -190,7 +198,7 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
   };
 
   if (!stopped) {
-    if (settings.strategy === 'joint') solvePart('all', settings.iterations);
+    if (settings.strategy === 'joint') await solvePart('all', settings.iterations);
     else {
       const sides: ResidualPart[] = nets.shared ? ['q'] : ['q', 'qDagger'];
       const perCycle = Math.max(1, Math.ceil(settings.iterations / (settings.cycles * sides.length)));
@@ -198,12 +206,12 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
         if (c > 0 && nets.field) fieldStep();
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
-          solvePart(side, Math.min(perCycle, settings.iterations - done));
+          await solvePart(side, Math.min(perCycle, settings.iterations - done));
         }
       }
       if (!stopped && settings.jointIterations > 0) {
         if (nets.field) fieldStep();
-        solvePart('all', settings.jointIterations);
+        await solvePart('all', settings.jointIterations);
       }
     }
   }

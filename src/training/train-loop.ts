@@ -9,7 +9,7 @@
  * for each term i other than the MDE residual, on top of the configured weights.
  */
 import type { TrainConfig } from '../io/schemas/train-config.js';
-import { lbfgs } from '../numerics/lbfgs.js';
+import { lbfgsYielding } from '../numerics/lbfgs.js';
 import { yieldToEvents } from '../runtime/stop.js';
 import type { Adam } from '../autodiff/adam.js';
 import type { Tf } from '../autodiff/tf.js';
@@ -205,18 +205,20 @@ export async function runTraining(tf: Tf, problem: ScftProblem, params: Paramete
 
 /**
  * One polish cycle: the field step when given (alternating strategy: a field update, after
- * which the frozen field values are stale), then L-BFGS in the fields as they now are.
+ * which the frozen field values are stale), then L-BFGS in the fields as they now are. The
+ * event loop turns after every L-BFGS iteration, so a Ctrl-C lands within one iteration:
+ * `shouldStop()` true then ends the cycle with reason 'interrupted' (parameters at the last iterate).
  */
-export function polishCycle(tf: Tf, problem: ScftProblem, params: ParameterSet, weights: LossValues, iterations: number, fieldStep?: () => void, onIteration?: (it: number, f: number) => void): { iterations: number; f: number; reason: string } {
+export async function polishCycle(tf: Tf, problem: ScftProblem, params: ParameterSet, weights: LossValues, iterations: number, fieldStep?: () => void, onIteration?: (it: number, f: number) => void, shouldStop?: () => boolean): Promise<{ iterations: number; f: number; reason: string }> {
   if (fieldStep) {
     fieldStep();
     problem.invalidateFields();
   }
-  return polishWithLbfgs(tf, problem, params, weights, iterations, onIteration);
+  return polishWithLbfgs(tf, problem, params, weights, iterations, onIteration, shouldStop);
 }
 
-/** L-BFGS polish of all parameters on the same weighted loss (fixed collocation points). */
-export function polishWithLbfgs(tf: Tf, problem: ScftProblem, params: ParameterSet, weights: LossValues, iterations: number, onIteration?: (it: number, f: number) => void): { iterations: number; f: number; reason: string } {
+/** L-BFGS polish of all parameters on the same weighted loss (fixed collocation points), stoppable after any iteration. */
+export async function polishWithLbfgs(tf: Tf, problem: ScftProblem, params: ParameterSet, weights: LossValues, iterations: number, onIteration?: (it: number, f: number) => void, shouldStop: () => boolean = () => false): Promise<{ iterations: number; f: number; reason: string }> {
   const vars = params.variables();
   const x0 = params.flatten();
   const objective = (x: Float64Array) => {
@@ -228,7 +230,7 @@ export function polishWithLbfgs(tf: Tf, problem: ScftProblem, params: ParameterS
     });
     return out;
   };
-  const r = lbfgs(objective, x0, { maxIterations: iterations, history: 20, gradientTolerance: 1e-9, onIteration: (it) => onIteration?.(it.iteration, it.f) });
+  const r = await lbfgsYielding(objective, x0, { maxIterations: iterations, history: 20, gradientTolerance: 1e-9, onIteration: (it) => onIteration?.(it.iteration, it.f) }, yieldToEvents, shouldStop);
   params.unflatten(r.x);
   return { iterations: r.iterations, f: r.f, reason: r.reason };
 }

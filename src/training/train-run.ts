@@ -269,7 +269,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     let r = { iterations: 0, f: Number.NaN, reason: 'none' };
     let iterations = 0;
     for (let c = 0; c < cycles; c++) {
-      // A stop asked during the polish lands between cycles (each cycle is one synchronous L-BFGS run).
+      // A stop asked before this cycle starts (during the field step or the evaluation of the last one).
       await yieldToEvents();
       if (opts.shouldStop?.()) {
         await save(loop.state, 'adam');
@@ -281,8 +281,16 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       const before = iterations;
       // Every L-BFGS iteration in the history (loss only); the cycle's end entry below adds the φA error.
       const onIteration = (it: number, f: number) => loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: before + it });
-      r = polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined, onIteration);
+      r = await polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined, onIteration, opts.shouldStop);
       iterations += r.iterations;
+      if (r.reason === 'interrupted') {
+        // A stop asked inside a cycle lands after the current L-BFGS iteration: saved as a stop between cycles is.
+        await save(loop.state, 'adam');
+        problem.dispose();
+        adam.dispose();
+        nets.dispose();
+        throw new TrainingStopped('interrupted', `interrupted in the L-BFGS polish after ${iterations} iterations (cycle ${c + 1} of ${cycles}); checkpoint saved at step ${loop.state.step}`, opts.outDir, opts.outDir ? loop.state.step : null);
+      }
       // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.
       const phiError = tr.evaluateEvery > 0 ? evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2 : undefined;
       loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
@@ -301,7 +309,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const tr = config.training;
   if (tr.secondOrderIterations > 0 && !training.reachedTarget) {
     stage(`second-order phase (Levenberg–Marquardt, up to ${tr.secondOrderIterations} iterations)`);
-    const so = runSecondOrder(
+    const so = await runSecondOrder(
       nets,
       config.system,
       config.losses.weights,

@@ -1,0 +1,60 @@
+/**
+ * A stop asked while the L-BFGS polish or the second-order (Levenberg–Marquardt) phase runs
+ * lands after the current iteration, not at the end of the phase: the stop is asked from an
+ * event, as a signal handler asks it, so it can only be seen if the phase lets the event loop
+ * turn between iterations (before, each phase was one synchronous loop and ran to its end).
+ * The stop goes through requestStop, the signal handler's own code path.
+ */
+import { afterEach, describe, expect, it } from 'vitest';
+import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
+import { requestStop, resetStop, stopRequested } from '../../src/runtime/stop.js';
+import { trainRun, TrainingStopped } from '../../src/training/train-run.js';
+
+/** Ask for a stop two event-loop turns from now: after the phase has started its first iteration. */
+const stopSoon = () => setImmediate(() => setImmediate(() => requestStop('SIGINT')));
+
+afterEach(() => resetStop());
+
+describe('a stop inside an optimisation phase', () => {
+  it('L-BFGS polish: stops within an iteration of the request, saved as a stop between cycles', async () => {
+    const config = trainConfigSchema.parse({
+      version: 2,
+      kind: 'train',
+      system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
+      cell: { period: 3.7, nx: 32, ns: 40 },
+      backend: 'wasm',
+      networks: { field: { hidden: [8] }, propagator: { hidden: [8, 8] } },
+      collocation: { nx: 16, nodesPerBlock: 8, random: 0 },
+      warmStart: { type: 'reference', adamSteps: 5 },
+      training: { adamSteps: 5, lbfgsIterations: 300, lbfgsCycles: 1, evaluateEvery: 0 },
+    });
+    resetStop();
+    const e = await trainRun({ config, backend: 'wasm', shouldStop: stopRequested, onStage: (m) => void (/^L-BFGS polish/.test(m) && stopSoon()) }).catch((x) => x);
+    expect(e).toBeInstanceOf(TrainingStopped);
+    const m = /interrupted in the L-BFGS polish after (\d+) iterations \(cycle 1 of 1\)/.exec((e as Error).message);
+    expect(m, (e as Error).message).not.toBeNull();
+    const done = Number(m![1]);
+    expect(done).toBeGreaterThanOrEqual(1);
+    expect(done).toBeLessThanOrEqual(3);
+  }, 120_000);
+
+  it('second-order phase: stops within an LM iteration of the request', async () => {
+    const config = trainConfigSchema.parse({
+      version: 2,
+      kind: 'train',
+      system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2.0, mode: 1, offset: 0 } } },
+      cell: { period: 4.0, nx: 32, ns: 40 },
+      networks: { propagator: { hidden: [8, 8], fourierModes: 3 } },
+      collocation: { nx: 16, nodesPerBlock: 16, random: 0 },
+      warmStart: { type: 'none' },
+      training: { adamSteps: 0, evaluateEvery: 0, secondOrderIterations: 40 },
+    });
+    resetStop();
+    const e = await trainRun({ config, backend: 'wasm', shouldStop: stopRequested, onStage: (m) => void (/^second-order phase/.test(m) && stopSoon()) }).catch((x) => x);
+    expect(e).toBeInstanceOf(TrainingStopped);
+    const m = /interrupted in the second-order phase at iteration (\d+)/.exec((e as Error).message);
+    expect(m, (e as Error).message).not.toBeNull();
+    expect(Number(m![1])).toBeGreaterThanOrEqual(1);
+    expect(Number(m![1])).toBeLessThanOrEqual(3);
+  }, 120_000);
+});
