@@ -31,8 +31,9 @@ export async function withOutput<T>(out: OutputDirectory | undefined, work: () =
     out?.finish();
     return r;
   } catch (e) {
-    // A run stopped by a signal saved its work there: that is its output (marked, to resume).
-    if (e instanceof RunStopped) out?.finish(false);
+    // A run stopped by a signal that saved its work there: that is its output (marked, to resume).
+    // One stopped before it wrote anything leaves the directory as it found it.
+    if (e instanceof RunStopped && out?.hasWritten()) out.finish(false);
     else out?.abandon();
     throw e;
   }

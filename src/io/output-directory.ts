@@ -44,6 +44,8 @@ export interface OutputDirectory {
   finish(complete?: boolean): void;
   /** Release the lock; a directory this claim created and left empty is removed. */
   abandon(): void;
+  /** This run has written a file here. */
+  hasWritten(): boolean;
 }
 
 function readMarker(dir: string): Marker | null {
@@ -158,6 +160,7 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
       });
       lock.release();
     },
+    hasWritten: () => written.size > 0,
     abandon() {
       lock.release();
       if (written.size > 0) return;

@@ -11,6 +11,9 @@ import type * as TfModule from '@tensorflow/tfjs';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
 import { Adam } from '../autodiff/adam.js';
+import { runToEnd, runYielding } from '../numerics/stepwise.js';
+import type { Stepwise } from '../numerics/stepwise.js';
+import { yieldToEvents } from '../runtime/stop.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
 import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
@@ -25,9 +28,12 @@ export interface WarmStartTargets {
 }
 
 export interface WarmStartResult {
+  /** Steps that ran. */
   steps: number;
   finalLoss: number;
   seconds: number;
+  /** Stopped early by a stop request (warmStartYielding). */
+  interrupted?: boolean;
 }
 
 interface PropagatorTarget {
@@ -56,6 +62,16 @@ function propagatorTarget(tf: Tf, net: PropagatorNet, x: Float64Array, s: Float6
 }
 
 export function warmStart(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets, steps: number, learningRate: number, onStep?: (step: number, loss: number) => void, params: ParameterSet = nets.parameters): WarmStartResult {
+  return runToEnd(warmStartSteps(tf, nets, targets, steps, learningRate, onStep, params));
+}
+
+/** warmStart with one event-loop turn after every step; `shouldStop()` true ends it there (`steps` says how many ran, `interrupted` is set). */
+export function warmStartYielding(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets, steps: number, learningRate: number, onStep: ((step: number, loss: number) => void) | undefined, shouldStop: () => boolean): Promise<WarmStartResult> {
+  return runYielding(warmStartSteps(tf, nets, targets, steps, learningRate, onStep), yieldToEvents, shouldStop);
+}
+
+/** The Adam steps of a warm start, one yield after each (numerics/stepwise.ts; the answer false stops it). */
+function* warmStartSteps(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets, steps: number, learningRate: number, onStep?: (step: number, loss: number) => void, params: ParameterSet = nets.parameters): Stepwise<number, WarmStartResult> {
   const t0 = performance.now();
   const scale = 1 / Math.max(1, targets.chiN) ** 2;
   const nx = targets.x.length;
@@ -70,6 +86,8 @@ export function warmStart(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets,
   const adam = new Adam(tf, params);
   const vars = params.variables();
   let finalLoss = Number.NaN;
+  let ran = 0;
+  let interrupted = false;
   for (let step = 1; step <= steps; step++) {
     const lossValue = tf.tidy(() => {
       const { value, grads } = tf.variableGrads(() => {
@@ -82,7 +100,12 @@ export function warmStart(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets,
       return value.dataSync()[0];
     });
     finalLoss = lossValue;
+    ran = step;
     onStep?.(step, lossValue);
+    if (step < steps && (yield step) === false) {
+      interrupted = true;
+      break;
+    }
   }
   adam.dispose();
   feats?.dispose();
@@ -91,5 +114,5 @@ export function warmStart(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets,
     pt.points.dispose();
     pt.target.dispose();
   }
-  return { steps, finalLoss, seconds: (performance.now() - t0) / 1000 };
+  return { steps: ran, finalLoss, seconds: (performance.now() - t0) / 1000, ...(interrupted ? { interrupted } : {}) };
 }

@@ -11,23 +11,29 @@ export type StopSignal = 'SIGINT' | 'SIGTERM';
 let requested: StopSignal | null = null;
 let saving = false;
 let label = 'mesofield';
+const SAVING_STOP = 'stopping after this step and saving a checkpoint';
+let stoppingText = SAVING_STOP;
 let installed = 0;
 
 function onSignal(sig: StopSignal): void {
   if (requested) {
-    process.stderr.write(`\n${label}: ${saving ? 'still saving the checkpoint; it finishes in a moment (SIGKILL would lose it)' : 'already stopping; the checkpoint is being written'} — signal ignored\n`);
+    process.stderr.write(`\n${label}: ${saving ? 'still saving the checkpoint; it finishes in a moment (SIGKILL would lose it)' : stoppingText === SAVING_STOP ? 'already stopping; the checkpoint is being written' : 'already stopping'} — signal ignored\n`);
     return;
   }
   requested = sig;
   controller?.abort();
-  process.stderr.write(`\n${label}: ${sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping after this step and saving a checkpoint\n`);
+  process.stderr.write(`\n${label}: ${sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: ${stoppingText}\n`);
 }
 const onInt = () => onSignal('SIGINT');
 const onTerm = () => onSignal('SIGTERM');
 
-/** Route SIGINT and SIGTERM to the stop flag while a long command runs; returns the uninstaller. */
-export function installStopHandlers(commandLabel: string): () => void {
+/**
+ * Route SIGINT and SIGTERM to the stop flag while a long command runs; returns the uninstaller.
+ * `stopping` is what the first signal's message says will happen (default: a checkpoint is saved).
+ */
+export function installStopHandlers(commandLabel: string, stopping: string = SAVING_STOP): () => void {
   label = commandLabel;
+  stoppingText = stopping;
   if (installed++ === 0) {
     process.on('SIGINT', onInt);
     process.on('SIGTERM', onTerm);

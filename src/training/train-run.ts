@@ -34,7 +34,7 @@ import { ScftProblem } from '../network/problem/scft-problem.js';
 import { yieldToEvents } from '../runtime/stop.js';
 import { polishCycle, propagatorWeights, runTraining } from './train-loop.js';
 import type { LoopHooks, LoopState, StopReason } from './train-loop.js';
-import { warmStart } from '../network/warm-start.js';
+import { warmStartYielding } from '../network/warm-start.js';
 import { FieldUpdater, fieldUpdateSettings } from '../network/field-update.js';
 
 /** Contour nodes per block for evaluating a network (finer than training: quadrature error stays negligible). */
@@ -192,7 +192,13 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const wsStart = performance.now();
     // Every warm-start step in the history: the report draws the loss over every phase.
     const onStep = (step: number, loss: number) => state.history.push({ step, stage: 'warm-start', total: loss, terms: {}, learningRate: ws.learningRate, seconds: (performance.now() - wsStart) / 1000, wallSeconds: (performance.now() - t0) / 1000 });
-    const r = warmStart(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.adamSteps, ws.learningRate, onStep);
+    const r = await warmStartYielding(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.adamSteps, ws.learningRate, onStep, opts.shouldStop ?? (() => false));
+    if (r.interrupted) {
+      // Nothing to resume from yet (the checkpoints start with the training steps): say so.
+      nets.dispose();
+      adam.dispose();
+      throw new TrainingStopped('interrupted', `interrupted in the warm start at step ${r.steps} of ${ws.adamSteps}, before the first checkpoint; nothing to resume: run it again`, undefined, null);
+    }
     training.warmStart = { adamSteps: r.steps, seconds: r.seconds, finalLoss: r.finalLoss };
   }
 

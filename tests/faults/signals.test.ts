@@ -5,6 +5,8 @@
  * - train: SIGINT → exit 130, SIGTERM → exit 143, each after saving a checkpoint it names;
  *   SIGKILL → no handler runs, the last periodic checkpoint stays and --resume finishes it.
  * - sweep: SIGINT → exit 130 with the solved points saved; the same command again resumes.
+ * - solve: SIGINT/SIGTERM mid-search → 130/143 at once, nothing written, a previous output untouched.
+ * - demo: SIGINT mid-training → 130, the finished parts kept and marked incomplete.
  * - resume: a run stopped at step k by requestStop (the signal's own code path) and resumed
  *   reproduces the uninterrupted run's loss curve and final metrics.
  */
@@ -132,6 +134,54 @@ describe('signals', () => {
     expect(q.stderr()).toMatch(new RegExp(`resuming .* ${done} of 40 points already saved`));
     counts['clear error or stop']++;
   });
+});
+
+describe('signals: solve and demo', () => {
+  for (const [sig, exit] of [
+    ['SIGINT', 130],
+    ['SIGTERM', 143],
+  ] as const) {
+    it(`solve: ${sig} during the period search ends at once with exit ${exit}; the previous output in --out is untouched`, async () => {
+      counts.tried++;
+      const dir = tmp();
+      const out = join(dir, 'sol');
+      const first = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
+      expect((await first.code).code, first.stderr()).toBe(0);
+      const before = ['solution.json', 'profile.csv', '.mesofield-output.json'].map((n) => readFileSync(join(out, n)));
+      const p = start(['solve', '--chiN', '40', '--period', 'equilibrium', '--nx', '64', '--ns', '400', '--out', out, '--overwrite']);
+      await p.waitFor(/period search: evaluation 1,/, 120_000);
+      p.kill(sig);
+      const r = await p.code;
+      expect(r.code, p.stderr()).toBe(exit);
+      expect(p.stderr()).toMatch(new RegExp(`solve: ${sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping the solve; nothing will be written`));
+      expect(p.stderr()).toMatch(/solve stopped by a signal before it finished; nothing was written \(.*sol was left as it was\)/);
+      expect(p.stderr()).not.toMatch(/lamellar, \d+ period evaluations/);
+      ['solution.json', 'profile.csv', '.mesofield-output.json'].forEach((n, i) => expect(readFileSync(join(out, n)).equals(before[i]), n).toBe(true));
+      expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+      counts['clear error or stop']++;
+    }, 180_000);
+  }
+
+  it('demo: SIGINT during the training stops it, exit 130; the finished parts stay, marked incomplete', async () => {
+    counts.tried++;
+    const dir = tmp();
+    const out = join(dir, 'demo');
+    const p = start(['demo', '--out', out, '--backend', 'wasm']);
+    await p.waitFor(/2\/3 training/, 180_000);
+    p.kill('SIGINT');
+    const r = await p.code;
+    expect(r.code, p.stderr()).toBe(130);
+    expect(p.stderr()).toMatch(/demo: Ctrl-C: stopping after the current stage/);
+    expect(p.stderr()).toMatch(/demo stopped by a signal after the reference and part of the training/);
+    expect(existsSync(join(out, 'reference', 'solution.json'))).toBe(true);
+    expect(existsSync(join(out, 'inversion'))).toBe(false);
+    const marker = JSON.parse(readFileSync(join(out, '.mesofield-output.json'), 'utf8')) as { command: string; complete: boolean; files: string[] };
+    expect(marker.command).toBe('demo');
+    expect(marker.complete).toBe(false);
+    expect(marker.files).toContain('reference/solution.json');
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    counts['clear error or stop']++;
+  }, 240_000);
 });
 
 describe('resume fidelity', () => {

@@ -58,3 +58,25 @@ describe('a stop inside an optimisation phase', () => {
     expect(Number(m![1])).toBeLessThanOrEqual(3);
   }, 120_000);
 });
+
+describe('a stop in the warm start', () => {
+  it('stops within a step of the request; nothing to resume, and it says so', async () => {
+    const config = trainConfigSchema.parse({
+      version: 2,
+      kind: 'train',
+      system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
+      cell: { period: 3.7, nx: 32, ns: 40 },
+      backend: 'wasm',
+      networks: { field: { hidden: [8] }, propagator: { hidden: [8, 8] } },
+      collocation: { nx: 16, nodesPerBlock: 8, random: 0 },
+      warmStart: { type: 'reference', adamSteps: 5000 },
+      training: { adamSteps: 5, lbfgsIterations: 0, evaluateEvery: 0 },
+    });
+    resetStop();
+    const e = await trainRun({ config, backend: 'wasm', shouldStop: stopRequested, onStage: (m) => void (/^warm start/.test(m) && stopSoon()) }).catch((x) => x);
+    expect(e).toBeInstanceOf(TrainingStopped);
+    const m = /interrupted in the warm start at step (\d+) of 5000, before the first checkpoint; nothing to resume/.exec((e as Error).message);
+    expect(m, (e as Error).message).not.toBeNull();
+    expect(Number(m![1])).toBeLessThanOrEqual(3);
+  }, 120_000);
+});

@@ -9,7 +9,7 @@
  */
 import type { Command } from 'commander';
 import { join } from 'node:path';
-import { writeDirectoryAtomic } from '../../io/atomic-write.js';
+import type { OutputDirectory } from '../../io/output-directory.js';
 import { parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
@@ -29,6 +29,7 @@ import { synthCsv, synthesize } from '../../inverse/synth.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action } from '../run-command.js';
 import { claimOut, withOutput } from '../run-output.js';
+import { installStopHandlers, RunStopped, stopRequested, yieldToEvents } from '../../runtime/stop.js';
 
 export const DEMO_SYSTEM = { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } as const;
 
@@ -66,38 +67,53 @@ export function registerDemo(program: Command): void {
     .action(
       action(async (flags: { out: string; backend: string; overwrite?: boolean; quiet?: boolean }) => {
         const out = claimOut(flags, 'demo');
-        return withOutput(out, () => runDemo(flags));
+        const uninstall = installStopHandlers('demo', `stopping after the current stage; the finished parts stay in ${flags.out}, marked incomplete`);
+        return withOutput(out, () => runDemo(flags, out!)).finally(uninstall);
       }),
     );
 }
 
-async function runDemo(flags: { out: string; backend: string; quiet?: boolean }): Promise<void> {
+/** Every file goes through the claimed output directory (`out`), so a stopped demo leaves a marked, incomplete output. */
+async function runDemo(flags: { out: string; backend: string; quiet?: boolean }, out: OutputDirectory): Promise<void> {
   const t0 = performance.now();
   const progress = new Progress('demo', flags.quiet);
+  // A signal is answered between stages (the reference solve, the synthetic data and the classical
+  // fit take seconds each) and within a step inside the training and the network estimator.
+  const stopped = (after: string) => new RunStopped(`demo stopped by a signal after ${after}; the finished parts are in ${flags.out} (marked incomplete; run the demo again with --overwrite to redo it)`);
+  const between = async (after: string) => {
+    await yieldToEvents();
+    if (stopRequested()) throw stopped(after);
+  };
   const config = parseOrThrow(solveConfigSchema, DEMO_SOLVE_CONFIG, 'demo solve config');
+  await between('nothing');
   progress.update('1/3 reference solve with period optimisation', true);
   const ref = solveFromConfig(config, {
     onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(5)} Rg, F = ${e.freeEnergy.toFixed(8)}`),
   });
   const refDir = join(flags.out, 'reference');
   const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance, periodSearch: ref.search?.trace });
-  writeDirectoryAtomic(refDir, {
-    'solution.json': solutionText(file),
-    'profile.csv': solutionGridCsv(ref.solution),
+  out.write({
+    'reference/solution.json': solutionText(file),
+    'reference/profile.csv': solutionGridCsv(ref.solution),
   });
   const refReport = report(refDir, join(refDir, 'report'));
   const s = summarize(ref.solution, { periodTolerance: ref.search?.periodTolerance });
+  await between('the reference solve');
 
   progress.update('2/3 training a warm-started network (short budget)', true);
   const trainConfig = parseOrThrow(trainConfigSchema, { ...DEMO_TRAIN_CONFIG, backend: flags.backend }, 'demo train config');
   const netDir = join(flags.out, 'network');
-  const { trainRun } = await import('../../training/train-run.js');
+  const { trainRun, TrainingStopped } = await import('../../training/train-run.js');
   const tr = await trainRun({
     config: trainConfig,
     outDir: netDir,
+    shouldStop: stopRequested,
     onStage: (m) => progress.update(m, true),
     onProgress: (p) => progress.update(`step ${p.step}/${p.steps} | loss ${p.total.toExponential(2)} | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`),
+  }).catch((e) => {
+    throw e instanceof TrainingStopped && e.reason === 'interrupted' ? stopped(`the reference and part of the training (${e.message})`) : e;
   });
+  await between('the reference and the training');
   progress.update('3/4 report of the network', true);
   const netReport = report(netDir, join(netDir, 'report'));
 
@@ -110,7 +126,9 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean })
   const synth = synthesize({ chain: chainSpec, chiN: truth.chiN, points: truth.points, noise: truth.noise, seed: truth.seed, periods: truth.periods, offset: truth.offset, period: 'equilibrium', resolution: 0, nx: 64, ns: 100 });
   const csv = synthCsv(synth, truth.noise);
   const data = parseProfileCsv(csv, join(invDir, 'profile.csv'));
+  await between('the reference and the training');
   const est = estimateClassical(data, { chain: chainSpec, nx: 64, ns: 100, period: { mode: 'equilibrium' }, resolution: 0, profilePoints: 12 });
+  await between('the reference, the training and the classical inversion');
   // The network estimator beside it: one seed, half the default L-BFGS budget, started from the classical estimate.
   const { estimateNetwork } = await import('../../inverse/network-estimator.js');
   const ne = await estimateNetwork(data, est, {
@@ -126,9 +144,9 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean })
   });
   const vsTruth = compareWithTruth('the demo scenario', truth.chiN, chainSpec, est, ne);
   const result = inversionResult(data, { kind: 'invert', demo: true, truth }, provenance(), { classical: classicalBlock(est, data), network: networkBlock(ne, est, data) }, vsTruth);
-  writeDirectoryAtomic(invDir, {
-    'profile.csv': csv,
-    'truth.json': formatText(synthTruthSchema, {
+  out.write({
+    'inversion/profile.csv': csv,
+    'inversion/truth.json': formatText(synthTruthSchema, {
       kind: 'synth-truth',
       version: SYNTH_TRUTH_VERSION,
       provenance: provenance(),
@@ -144,9 +162,9 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean })
       freeEnergy: synth.point.solution.freeEnergy,
       note: 'the demo scenario; lengths (period, offset) in Rg; offset is the data position of the centre of an A-rich domain',
     }),
-    'result.json': inversionResultText(result),
-    'fit.csv': fitCsv(data, est),
-    'solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
+    'inversion/result.json': inversionResultText(result),
+    'inversion/fit.csv': fitCsv(data, est),
+    'inversion/solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
   });
   const invReport = report(invDir, join(invDir, 'report'));
   const m = tr.metrics;

@@ -1,18 +1,14 @@
 /** `mesofield solve`: one spectral reference solve, from a config file and/or flags. */
 import type { Command } from 'commander';
-import { join } from 'node:path';
-import { InputError, RunFailure, asInputError } from '../../io/errors.js';
+import { InputError, RunFailure } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
-import { propagatorCsv, solutionFileSchema, solutionGridCsv, solutionText, solutionToFile, summarize } from '../../io/formats/solution.js';
-import { solutionSummaryLines } from '../../io/solution-text.js';
+import { solutionFileSchema } from '../../io/formats/solution.js';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
-import { provenance } from '../../io/versions.js';
-import { filmSummary, filmSummaryText } from '../../spectral/film-summary.js';
-import { filmScanText, parseScanRange, runFilmScan } from '../../spectral/film-scan-run.js';
-import type { FilmScanResult } from '../../spectral/film-scan-run.js';
-import { solveFromConfig } from '../../spectral/solve-from-config.js';
+import { parseScanRange } from '../../spectral/film-scan-run.js';
+import type { SolveRunOutput, SolveTask } from '../../spectral/solve-run.js';
+import { installStopHandlers, RunStopped, stopAbortSignal } from '../../runtime/stop.js';
 import { action, parseDecimal } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
 import { Progress } from '../progress.js';
@@ -111,60 +107,51 @@ export function registerSolve(program: Command): void {
     );
 }
 
+/** Model errors come back from the worker as their name and message; the CLI's exit codes need the classes. */
+function fromWorker(e: { name: string; message: string }): Error {
+  if (e.name === 'InputError') return new InputError(e.message);
+  if (e.name === 'RunFailure') return new RunFailure(e.message);
+  return Object.assign(new Error(e.message), { name: e.name });
+}
+
+/**
+ * The solve runs on a worker thread (spectral/solve-worker.ts) so that Ctrl-C or SIGTERM is
+ * answered at once: the worker is ended, nothing is written (an output directory is left as
+ * it was), and the exit is 130 or 143.
+ */
 async function solveCommand(config: SolveConfig, configPath: string | undefined, flags: SolveFlags, out: OutputDirectory | undefined): Promise<void> {
-  const t0 = performance.now();
   let initial;
   if (config.solver.start.type === 'file') {
     const file = loadJsonFile(config.solver.start.path, solutionFileSchema);
     initial = { A: Float64Array.from(file.grid.wA), B: Float64Array.from(file.grid.wB) };
   }
-  const progress = new Progress('solve', flags.quiet);
-  let ref;
-  try {
-    ref = solveFromConfig(config, {
-      initial,
-      onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(6)} Rg, F = ${e.freeEnergy.toFixed(9)} kT (${e.phase})`),
-    });
-  } catch (e) {
-    throw asInputError(e, configPath ?? 'flags');
-  }
-  const sol = ref.solution;
-  let scan: FilmScanResult | undefined;
+  let thicknessScan;
   if (flags.thicknessScan !== undefined) {
     if (config.cell.kind !== 'film') throw new InputError('--thickness-scan: only for a film (give --film H, or a config with cell.kind "film")');
-    const range = parseScanRange('--thickness-scan', flags.thicknessScan);
-    const t1 = performance.now();
-    scan = runFilmScan({ system: config.system, walls: config.cell.walls, ...range, nx: config.cell.nx, ns: config.cell.ns, meanThickness: config.cell.thickness, options: config.solver, onPoint: (p, done, total) => progress.update(`thickness scan: ${done}/${total}, H = ${p.thickness.toPrecision(5)} Rg, F = ${p.freeEnergy.toPrecision(9)} kT (${p.layers || 'no layers'}), ${(((performance.now() - t1) / 1000 / done) * (total - done)).toFixed(0)} s left`) });
+    thicknessScan = parseScanRange('--thickness-scan', flags.thicknessScan);
   }
-  progress.done(`${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`);
+  const progress = new Progress('solve', flags.quiet);
+  const task: SolveTask = { config, source: configPath ?? 'flags', initial, thicknessScan, files: flags.out !== undefined, json: Boolean(flags.json) };
+  const { runInWorkers, PoolStopped } = await import('../../threads/worker-pool.js');
+  const uninstall = installStopHandlers('solve', `stopping the solve; nothing will be written${flags.out ? ` (${flags.out} is left as it was)` : ''}`);
+  let r: SolveRunOutput;
+  try {
+    [r] = await runInWorkers<SolveTask, SolveRunOutput, string>([task], { entry: 'spectral/solve-worker.js', workerData: null, workers: 1, onProgress: (t) => progress.update(t), toError: fromWorker, signal: stopAbortSignal() });
+  } catch (e) {
+    if (e instanceof PoolStopped) throw new RunStopped(`solve stopped by a signal before it finished; nothing was written${flags.out ? ` (${flags.out} was left as it was)` : ''}`);
+    throw e;
+  } finally {
+    uninstall();
+  }
+  progress.done(r.done);
   let failedWhere = '';
-  const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };
-  if (flags.out) {
-    // runSeconds: the wall time of the whole solve (period search included), for the report's title page.
-    const file = solutionToFile(sol, provenance(), config, {
-      periodTolerance: ref.search?.periodTolerance,
-      periodSearch: ref.search?.trace,
-      ...(ref.film ? { film: { layers: ref.film.layers, freeEnergyPerArea: ref.film.freeEnergyPerArea } } : {}),
-      // No disordered film distinct from the layered one (surface-induced ordering): null, not NaN.
-      ...(scan ? { thicknessScan: { ...scan, points: scan.points.map((p) => ({ ...p, freeEnergyDisordered: Number.isFinite(p.freeEnergyDisordered) ? p.freeEnergyDisordered : null })) } } : {}),
-      runSeconds: (performance.now() - t0) / 1000,
-    });
-    const files: Record<string, string> = {
-      'solution.json': solutionText(file),
-      'profile.csv': solutionGridCsv(sol),
-    };
-    const prop = propagatorCsv(sol);
-    if (prop) files['propagators.csv'] = prop;
-    if (!sol.converged) failedWhere = writeFailedOutput(flags.out, 'solve', files);
+  if (flags.out && r.files) {
+    if (!r.converged) failedWhere = writeFailedOutput(flags.out, 'solve', r.files);
     else {
-      const written = out!.write(files);
+      const written = out!.write(r.files);
       if (!flags.quiet) process.stderr.write(`solve: wrote ${written.join(', ')}\n`);
     }
   }
-  if (ref.film) {
-    const film = filmSummary(ref);
-    process.stdout.write(flags.json ? `${JSON.stringify(scan ? { ...film, thicknessScan: scan } : film, null, 2)}\n` : `${[...filmSummaryText(film, summary.chain, summary.chiN), ...(scan ? filmScanText(scan) : [])].join('\n')}\n`);
-  } else if (flags.json) process.stdout.write(`${JSON.stringify(summary, null, 2)}\n`);
-  else process.stdout.write(`${solutionSummaryLines(summary).join('\n')}\n`);
-  if (!sol.converged) throw new RunFailure(`solve did not converge: ${sol.notes.join('; ')}${failedWhere ? `; ${failedWhere}` : ''}`);
+  process.stdout.write(r.stdout);
+  if (!r.converged) throw new RunFailure(`solve did not converge: ${r.notes.join('; ')}${failedWhere ? `; ${failedWhere}` : ''}`);
 }

@@ -125,7 +125,8 @@ export function registerTrain(program: Command): void {
           if (m.collapsed) throw new RunFailure('the network collapsed to the disordered state (φA is flat); start from the spectral solution (warmStart.type "reference")');
         } catch (e) {
           // A stopped run keeps what it wrote (the last good checkpoint) as its output; anything else only drops the lock.
-          if (e instanceof TrainingStopped) out?.finish(false);
+          // One stopped before its first checkpoint (in the warm start) wrote nothing: the folder is left as it was.
+          if (e instanceof TrainingStopped && e.lastCheckpointStep !== null) out?.finish(false);
           else out?.abandon();
           if (e instanceof TrainingStopped) {
             process.stderr.write(`train: ${e.message}\n`);
