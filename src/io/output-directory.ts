@@ -44,7 +44,7 @@ export interface OutputDirectory {
   finish(complete?: boolean): void;
   /** Release the lock; a directory this claim created and left empty is removed. */
   abandon(): void;
-  /** This run has written a file here. */
+  /** This run has written a file here (through write(), or a new file by a writer of its own). */
   hasWritten(): boolean;
 }
 
@@ -134,6 +134,8 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
       throw e;
     }
   };
+  // Files this run wrote: through write(), or by a writer of its own (checkpoints) — any file new since the claim.
+  const hasWritten = () => written.size > 0 || listFiles(abs).some((f) => f !== OUTPUT_LOCK && f !== OUTPUT_MARKER && !foreign.has(f) && !ours.has(f));
   // Marked (incomplete) at once: a run killed before it writes anything still leaves a folder
   // that says whose it is, so the next run (a resume) may continue it.
   wrap(() => mark(false, [...ours]));
@@ -160,10 +162,10 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
       });
       lock.release();
     },
-    hasWritten: () => written.size > 0,
+    hasWritten,
     abandon() {
       lock.release();
-      if (written.size > 0) return;
+      if (hasWritten()) return;
       // Nothing was written: put the marker back as it was (or remove it), and a folder this run made.
       if (previousMarkerText) writeFileAtomic(markerPath, previousMarkerText);
       else rmSync(markerPath, { force: true });

@@ -44,10 +44,16 @@ export function byIndex<T extends { index: number }>(points: T[]): T[] {
   return [...points].sort((a, b) => a.index - b.index);
 }
 
+/** The merged table's files, sweep.csv and sweep.json (written through its schema). */
+export function tableFiles(table: SweepTable): Record<string, string> {
+  return { 'sweep.csv': pointsCsv(table.points), 'sweep.json': formatText(sweepTableSchema, table) };
+}
+
 /** Write sweep.json and sweep.csv into dir, each atomically; other files in dir (shards) stay. */
 export function writeTable(dir: string, table: SweepTable): string[] {
+  const files = tableFiles(table);
   const paths = [join(dir, 'sweep.csv'), join(dir, 'sweep.json')];
-  writeFileAtomic(paths[0], pointsCsv(table.points));
-  writeFileAtomic(paths[1], formatText(sweepTableSchema, table));
+  writeFileAtomic(paths[0], files['sweep.csv']);
+  writeFileAtomic(paths[1], files['sweep.json']);
   return paths;
 }

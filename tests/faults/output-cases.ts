@@ -6,6 +6,8 @@
  */
 import { existsSync, readFileSync, symlinkSync } from 'node:fs';
 import { hostname } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { expect } from 'vitest';
 import { runCli } from '../../src/cli/run-cli.js';
 import type { FaultCase, Sandbox } from './harness.js';
@@ -30,7 +32,13 @@ const perCommand: [string, (s: Sandbox) => string[]][] = [
   ['sweep', (s) => ['sweep', s.json('sw.json', { version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: [14], f: [0.5], segmentRatio: [1] }, cell: { period: 3.7, nx: 16, ns: 20 } }), '--workers', '1', '--quiet']],
   ['predict', (s) => ['predict', s.mkdir('ck'), '--chiN', '15', '--quiet']],
   ['demo', () => ['demo', '--quiet']],
+  // A surrogate config goes to `train` too; its checkpoint folder is claimed like a network run's.
+  ['train (surrogate config)', (s) => ['train', s.json('su.json', JSON.parse(readFileSync(join(CONFIGS, 'diblock-chiN12-20.surrogate.json'), 'utf8'))), '--quiet']],
+  ['sweep --merge', (s) => ['sweep', '--merge', s.mkdir('shards'), '--quiet']],
+  ['fit-scattering', (s) => ['fit-scattering', s.path('i.csv'), '--f', '0.5', '--temperatures', '400', '--segments', '200', '--nbar', '1000', '--quiet']],
 ];
+
+const CONFIGS = join(dirname(fileURLToPath(import.meta.url)), '..', '..', 'configs');
 
 const notes = (s: Sandbox) => {
   s.mkdir('D/sub');
@@ -136,6 +144,36 @@ export const OUTPUT_CASES: FaultCase[] = [
       expect(JSON.parse(readFileSync(s.path('D/solution.json'), 'utf8')).summary.converged).toBe(true);
       expect(JSON.parse(readFileSync(s.path('D.failed/solution.json'), 'utf8')).summary.converged).toBe(false);
     },
+  },
+  refused(
+    'bragg-pattern --out a folder with other files',
+    async (s) => {
+      await previous(s, SOLVE, 'sol');
+      notes(s);
+    },
+    (s) => ['bragg-pattern', s.path('sol/solution.json'), '--orders', '3', '--out', s.path('D')],
+    /--out .*D: is not empty and was not written by mesofield \(it holds notes\.txt, sub\)/,
+  ),
+  refused(
+    'sweep --merge --out a solve output (another command\'s)',
+    (s) => previous(s, SOLVE, 'D'),
+    (s) => ['sweep', '--merge', s.mkdir('shards'), '--out', s.path('D'), '--quiet'],
+    /--out .*D: holds the output of mesofield solve; allowed: a new or empty directory, or a previous sweep output/,
+  ),
+  {
+    group: 'output paths',
+    name: 'train --overwrite of a previous train output, refused after the claim (disordered reference): the previous output is untouched',
+    setup: (s) => {
+      // A previous train output as the marker describes it (its files are the tool's): bytes to compare.
+      s.mkdir('D');
+      s.write('D/checkpoint.json', '{"kind":"checkpoint","previous":true}\n');
+      s.write('D/weights.bin', new Uint8Array([1, 2, 3, 4]));
+      s.write('D/.mesofield-output.json', `${JSON.stringify({ tool: 'mesofield', command: 'train', files: ['checkpoint.json', 'weights.bin'], complete: true, updatedAt: '2026-01-01T00:00:00.000Z' }, null, 1)}\n`);
+    },
+    argv: (s) => ['train', s.json('t.json', { version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 5 }, cell: { period: 3.7, nx: 16, ns: 20 } }), '--out', s.path('D'), '--overwrite', '--backend', 'wasm', '--quiet'],
+    code: 2,
+    message: /the reference is disordered at χN = 5/,
+    check: (_r, s) => expect(existsSync(s.path('D/.mesofield-lock'))).toBe(false),
   },
   {
     group: 'output paths',

@@ -94,4 +94,21 @@ function sameAnswer(name: string, edit: (csv: string) => string): FaultCase {
   };
 }
 
-export const CSV_ANSWER_CASES: FaultCase[] = [sameAnswer('byte-order mark', (t) => `\uFEFF${t}`), sameAnswer('Windows line endings', (t) => t.replace(/\n/g, '\r\n'))];
+/** The unit trap: a profile with x in nm (Rg = 4 nm) and no unit named, read as Rg: refused, naming --rg-nm. */
+const nmTrap: FaultCase = {
+  group: 'profile CSVs',
+  name: 'x in nm read as Rg (no unit given): refused, naming --rg-nm',
+  setup: async (s) => {
+    const r = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--periods', '2', '--nx', '16', '--ns', '20', '--out', s.path('synth')], { capture: true });
+    expect(r.code).toBe(0);
+    const { readFileSync } = await import('node:fs');
+    const [head, ...body] = readFileSync(s.path('synth/profile.csv'), 'utf8').trim().split('\n');
+    s.write('nm.csv', `${head}\n${body.map((l) => l.split(',')).map(([x, ...rest]) => [String(4 * Number(x)), ...rest].join(',')).join('\n')}\n`);
+  },
+  argv: (s) => ['invert', s.path('nm.csv'), '--f', '0.5', '--nx', '16', '--ns', '20', '--quiet'],
+  code: 2,
+  message: /nm\.csv: x is read in Rg \(no unit given\), but the data's period is .* The units of x look wrong: if x is in nm, give --rg-nm R/,
+};
+
+export const CSV_ANSWER_CASES: FaultCase[] = [
+  nmTrap,sameAnswer('byte-order mark', (t) => `\uFEFF${t}`), sameAnswer('Windows line endings', (t) => t.replace(/\n/g, '\r\n'))];

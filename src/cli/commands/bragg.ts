@@ -3,12 +3,14 @@
  * `mesofield fit-bragg`: χN and the period from measured Bragg peaks.
  */
 import type { Command } from 'commander';
+import { claimOut, withOutput } from '../run-output.js';
 import { join } from 'node:path';
 import { readFileSync } from 'node:fs';
 import { InputError } from '../../io/errors.js';
 import { action, numberFlag } from '../run-command.js';
 
 interface PatternFlags {
+  overwrite?: boolean;
   orders: string;
   report?: boolean;
   lorentz?: boolean;
@@ -19,6 +21,7 @@ interface PatternFlags {
 }
 
 interface FitFlags {
+  overwrite?: boolean;
   f?: string;
   segmentRatio?: string;
   lorentz?: boolean;
@@ -41,12 +44,12 @@ export function registerBragg(program: Command): void {
     .option('--rg-nm <R>', 'Rg in nm: q in nm⁻¹')
     .option('--json', 'print JSON on stdout')
     .option('--out <dir>', 'write peaks.csv and pattern.csv into this directory')
+    .option('--overwrite', 'replace a previous bragg-pattern output in --out (only the files mesofield wrote there)')
     .option('--report', 'also draw the pattern into <out>/report (PDF/PNG; needs --out)')
     .action(
       action(async (solution: string, flags: PatternFlags) => {
         const { lamellaFromSolutionFile } = await import('../../inverse/bragg/bragg-inputs.js');
         const { braggPeaks, patternCurve } = await import('../../inverse/bragg/bragg-pattern.js');
-        const { writeDirectoryAtomic } = await import('../../io/atomic-write.js');
         if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const orders = numberFlag('--orders', flags.orders)!;
         if (!(Number.isInteger(orders) && orders >= 1 && orders <= 32)) throw new InputError(`--orders: got ${flags.orders}; allowed: a whole number from 1 to 32`);
@@ -62,8 +65,11 @@ export function registerBragg(program: Command): void {
         const peaks = p.peaks.map((k) => ({ order: k.order, q: k.q * toUnit, relative: k.relative }));
         const curve = patternCurve({ ...p, peaks: p.peaks.map((k) => ({ ...k, q: k.q * toUnit })) }, width, peaks[peaks.length - 1].q * 1.15);
         const result = { kind: 'bragg-pattern', solution, chiN: lam.chiN, period: p.period, ...(rg ? { periodNm: p.period * rg } : {}), qUnit: unit, lorentz: p.lorentz, width, peaks };
+        // --out claimed (io/output-directory.ts); the pattern is cheap, so it is claimed when the result is ready.
+        const claimed = claimOut(flags, 'bragg-pattern');
+        return withOutput(claimed, async () => {
         if (flags.out) {
-          writeDirectoryAtomic(flags.out, {
+          claimed!.write({
             'peaks.csv': `order,q,relative\n${peaks.map((k) => `${k.order},${k.q},${k.relative}`).join('\n')}\n`,
             'pattern.csv': `q,I\n${curve.q.map((q, i) => `${q},${curve.I[i]}`).join('\n')}\n`,
             'result.json': `${JSON.stringify(result, null, 1)}\n`,
@@ -94,6 +100,7 @@ export function registerBragg(program: Command): void {
           for (const k of peaks) lines.push(`${String(k.order).padStart(5)}  ${k.q.toPrecision(6).padEnd(11)} ${k.relative.toExponential(4)}`);
           process.stdout.write(`${lines.join('\n')}\n`);
         }
+        });
       }),
     );
 
@@ -109,6 +116,7 @@ export function registerBragg(program: Command): void {
     .option('--ns <n>', 'model contour steps', '100')
     .option('--json', 'print the result JSON on stdout')
     .option('--out <dir>', 'write result.json into this directory')
+    .option('--overwrite', 'replace a previous fit-bragg output in --out (only the files mesofield wrote there)')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (path: string, flags: FitFlags) => {
@@ -116,7 +124,6 @@ export function registerBragg(program: Command): void {
         const { fitBragg } = await import('../../inverse/bragg/bragg-fit.js');
         const { parseOrThrow, asInputError } = await import('../../io/errors.js');
         const { chainSchema } = await import('../../physics/chain-schema.js');
-        const { writeDirectoryAtomic } = await import('../../io/atomic-write.js');
         const f = numberFlag('--f', flags.f);
         if (f === undefined) throw new InputError('--f: missing; the A fraction f of the diblock is required');
         const ratio = numberFlag('--segment-ratio', flags.segmentRatio) ?? 1;
@@ -145,7 +152,8 @@ export function registerBragg(program: Command): void {
           throw asInputError(e, 'flags');
         }
         const result = { kind: 'bragg-fit', file: path, chain, ...fit, periodNmDefinition: 'D = 2π/slope of q_n against n' };
-        if (flags.out) writeDirectoryAtomic(flags.out, { 'result.json': `${JSON.stringify(result, null, 1)}\n` });
+        const claimed = claimOut(flags, 'fit-bragg');
+        await withOutput(claimed, () => void (flags.out && claimed!.write({ 'result.json': `${JSON.stringify(result, null, 1)}\n` })));
         if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
         else {
           const i68 = fit.intervals['68.3%'];

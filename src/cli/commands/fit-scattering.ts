@@ -1,5 +1,6 @@
 /** `mesofield fit-scattering`: χN of a disordered melt from I(q) (Leibler's RPA), and χ(T) from a temperature series. */
 import type { Command } from 'commander';
+import { claimOut, withOutput } from '../run-output.js';
 import { dirname, join } from 'node:path';
 import { InputError, parseOrThrow } from '../../io/errors.js';
 import { action, numberFlag } from '../run-command.js';
@@ -20,6 +21,7 @@ interface Flags {
   nbar?: string;
   json?: boolean;
   out?: string;
+  overwrite?: boolean;
   report?: boolean;
   quiet?: boolean;
 }
@@ -89,6 +91,7 @@ export function registerFitScattering(program: Command): void {
     .option('--nbar <Nbar>', 'invariant degree of polymerisation N̄: adds the Fredrickson–Helfand fluctuation-corrected ODT (symmetric diblocks)')
     .option('--json', 'print the result JSON on stdout')
     .option('--out <dir>', 'write result.json and one fit-<k>.csv per file into this directory')
+    .option('--overwrite', 'replace a previous fit-scattering output in --out (only the files mesofield wrote there)')
     .option('--report', 'also write a PDF/PNG report into <out>/report (needs --out)')
     .option('--quiet', 'no progress on stderr')
     .action(
@@ -96,13 +99,15 @@ export function registerFitScattering(program: Command): void {
         const { scatteringConfigSchema } = await import('../../io/schemas/scattering-config.js');
         const { runScatteringFit } = await import('../../inverse/scattering/run-scattering-fit.js');
         const { fitCsvFor, scatteringSummary } = await import('../../inverse/scattering/scattering-result.js');
-        const { writeDirectoryAtomic } = await import('../../io/atomic-write.js');
         const { provenance } = await import('../../io/versions.js');
         const { asInputError } = await import('../../io/errors.js');
         if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const raw = buildScatteringConfig(files, flags);
         const config = parseOrThrow(scatteringConfigSchema, raw, flags.config ?? 'flags');
         const baseDir = flags.config && files.length === 0 ? dirname(flags.config) : process.cwd();
+        // --out is claimed before the fits run (io/output-directory.ts: new, empty or a previous fit-scattering output).
+        const claimed = claimOut(flags, 'fit-scattering');
+        return withOutput(claimed, async () => {
         let run;
         try {
           run = runScatteringFit(config, {
@@ -120,8 +125,8 @@ export function registerFitScattering(program: Command): void {
         if (flags.out) {
           const out: Record<string, string> = { 'result.json': `${JSON.stringify(result, null, 1)}\n` };
           result.fits.forEach((f, i) => (out[`fit-${i + 1}.csv`] = fitCsvFor(f)));
-          writeDirectoryAtomic(flags.out, out);
-          if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${Object.keys(out).map((n) => join(flags.out!, n)).join(', ')}\n`);
+          const wrote = claimed!.write(out);
+          if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${wrote.join(', ')}\n`);
           if (flags.report) {
             const { scatteringReportInput } = await import('../../reports/scattering-input.js');
             const { buildReport } = await import('../../reports/build-report.js');
@@ -141,6 +146,7 @@ export function registerFitScattering(program: Command): void {
           }
         }
         process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : scatteringSummary(result));
+        });
       }),
     );
 }

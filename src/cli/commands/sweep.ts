@@ -8,7 +8,7 @@ import { mergeShards } from '../../sweep/merge.js';
 import { runSweep } from '../../sweep/run-sweep.js';
 import { formatIndices, parseShard } from '../../sweep/shard.js';
 import type { SweepPointResult } from '../../sweep/solve-point.js';
-import { writeTable } from '../../sweep/sweep-file.js';
+import { tableFiles } from '../../sweep/sweep-file.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action, workersFlag } from '../run-command.js';
 import { claimOut, withOutput } from '../run-output.js';
@@ -57,8 +57,14 @@ export function registerSweep(program: Command): void {
           if (configPath !== undefined) throw new InputError(`config: got ${JSON.stringify(configPath)} with --merge; a merge takes the config from the shard files: leave it out`);
           if (flags.shard !== undefined || flags.workers !== undefined) throw new InputError('--merge: cannot be combined with --shard or --workers (a merge solves nothing)');
           if (flags.out === undefined) throw new InputError('--out: missing; --merge needs the directory to write sweep.json and sweep.csv into');
-          const table = mergeShards(flags.merge);
-          const written = writeTable(flags.out, table);
+          // Into a new directory or a sweep output (a shard's folder): claimed like a sweep's, so a
+          // folder of other files is refused and a concurrent writer is locked out.
+          const claimed = claimOut({ out: flags.out, overwrite: flags.overwrite }, 'sweep', { continuePrevious: true });
+          const shards = flags.merge;
+          const { table, written } = await withOutput(claimed, () => {
+            const table = mergeShards(shards);
+            return { table, written: claimed!.write(tableFiles(table)) };
+          });
           say(`merged ${table.shards.length} shard files (${table.totalPoints} points): wrote ${written.join(', ')}`);
           process.stdout.write(flags.json ? `${JSON.stringify(table, null, 2)}\n` : tableText(table.points));
           const failed = table.points.filter((p) => !p.converged);

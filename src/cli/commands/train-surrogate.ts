@@ -2,7 +2,9 @@
 import { basename, join } from 'node:path';
 import { InputError, parseOrThrow } from '../../io/errors.js';
 import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
-import type { SurrogateMetrics } from '../../surrogate/surrogate-run.js';
+import type { SurrogateMetrics, surrogateRun as SurrogateRun } from '../../surrogate/surrogate-run.js';
+import type { SurrogateConfig } from '../../io/schemas/surrogate-config.js';
+import { claimOut, withOutput } from '../run-output.js';
 import { formatDuration, Progress } from '../progress.js';
 import { installStopHandlers } from '../../runtime/stop.js';
 import type { TrainFlags } from './train-flags.js';
@@ -34,11 +36,21 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
   if (flags.adamSteps !== undefined) throw new InputError(`--adam-steps: got ${JSON.stringify(flags.adamSteps)}; a surrogate's Adam steps are warmStart.adamSteps in ${configPath} (its physics training is training.rounds)`);
   if (flags.lbfgsIterations !== undefined) throw new InputError(`--lbfgs-iterations: got ${JSON.stringify(flags.lbfgsIterations)}; a surrogate's L-BFGS iterations are warmStart.lbfgsIterations in ${configPath}`);
   const config = parseOrThrow(surrogateConfigSchema, raw, configPath);
-  const backend = backendFlag(flags.backend);
+  backendFlag(flags.backend); // checked before the output directory is claimed
   const outDir = flags.out ?? join('checkpoints', basename(configPath).replace(/(\.surrogate)?\.json$/, ''));
+  // Claimed before any work (io/output-directory.ts): new, empty or a previous surrogate output; marker and lock.
+  const out = claimOut({ out: outDir, overwrite: flags.overwrite }, SURROGATE_OUTPUT);
   const progress = new Progress('train', flags.quiet);
   const { surrogateRun } = await import('../../surrogate/surrogate-run.js');
   const uninstall = installStopHandlers('train');
+  return withOutput(out, () => runAndReport(config, outDir, flags, progress, surrogateRun)).finally(uninstall);
+}
+
+/** What `out` holds: a surrogate checkpoint, told apart from a network run's (`train`). */
+export const SURROGATE_OUTPUT = 'train (surrogate)';
+
+async function runAndReport(config: SurrogateConfig, outDir: string, flags: TrainFlags, progress: Progress, surrogateRun: typeof SurrogateRun): Promise<void> {
+  const backend = backendFlag(flags.backend);
   const r = await surrogateRun({
     config,
     outDir,
@@ -49,7 +61,7 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
         `${h.round === 0 ? 'fit' : `round ${h.round}/${h.rounds}`} | ${h.residual === null ? '' : `SCFT residual ${sci(h.residual)} kT | `}fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''} | ${formatDuration(h.seconds)}`,
         h.round === h.rounds || h.phiError !== undefined,
       ),
-  }).finally(uninstall);
+  });
   try {
     const m = r.metrics;
     progress.done(`surrogate trained in ${formatDuration(m.timing.buildSeconds)} on ${m.backend}; checkpoint in ${outDir}`);
