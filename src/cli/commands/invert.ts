@@ -1,26 +1,14 @@
-/** `mesofield invert`: recover χN (and the fields) from a measured composition profile. */
+/** `mesofield invert`: recover χN (and the fields) from a measured composition profile; a thin layer over inverse/invert-run.ts. */
 import type { Command } from 'commander';
-import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { OutputDirectory } from '../../io/output-directory.js';
-import { synthTruthPath } from '../../io/synth-output.js';
 import { claimOut, withOutput } from '../run-output.js';
-import { InputError, asInputError } from '../../io/errors.js';
+import { InputError } from '../../io/errors.js';
 import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
-import { solutionToFile } from '../../io/formats/solution.js';
-import { provenance } from '../../io/versions.js';
-import { estimateWithAssumedInputs } from '../../inverse/classical-with-inputs.js';
-import { assumedInputs } from '../../inverse/assumed-inputs.js';
-import type { PeriodMode } from '../../inverse/objective.js';
-import { fitCsv, classicalBlock, inversionResult, inversionResultText, networkBlock, summaryText } from '../../inverse/inversion-result.js';
-import type { EstimatorBlock } from '../../inverse/inversion-result.js';
-import { lengthUnits, parseProfileCsv } from '../../inverse/profile-csv.js';
-import type { NetworkEstimate } from '../../inverse/network-estimator.js';
-import { compareWithTruth, readTruthSidecar } from '../../inverse/truth-comparison.js';
+import { inversionResultText, summaryText } from '../../inverse/inversion-result.js';
 import { action, parseDecimal, workersFlag } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
-import { installStopHandlers } from '../../runtime/stop.js';
 import { Progress } from '../progress.js';
 
 interface InvertFlags {
@@ -169,83 +157,19 @@ export function registerInvert(program: Command): void {
 }
 
 async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<void> {
-  const t0 = performance.now();
-  const units = lengthUnits(config.units ?? {});
-  let text: string;
-  try {
-    text = readFileSync(profilePath, 'utf8');
-  } catch (e) {
-    throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-  const data = parseProfileCsv(text, profilePath, units);
-  const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
-  const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
   const progress = new Progress('invert', flags.quiet);
-  let estimate;
-  let assumed;
-  try {
-    const inputs = assumedInputs(config, units, sources);
-    ({ estimate, assumed } = estimateWithAssumedInputs(
-      data,
-      {
-        chain: config.system.chain,
-        nx: config.cell.nx,
-        ns: config.cell.ns,
-        solver: config.solver,
-        period,
-        chiNRange: config.chiNRange as [number, number] | undefined,
-        resolution: toRg(config.resolution),
-        profilePoints: config.profilePoints,
-        periodSource: sources.period,
-        rangeSource: sources.chiNRange,
-        onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
-      },
-      inputs,
-      (label) => progress.update(`refit with ${label}`, true),
-    ));
-  } catch (e) {
-    throw asInputError(e, configPath ?? 'flags');
-  }
-  progress.done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
-  const estimators: Record<string, EstimatorBlock> = {};
-  let ne: NetworkEstimate | undefined;
-  if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data, assumed);
-  if (config.method !== 'classical') {
-    // The network fits χN and the fields; the phase offset and period come from the classical fit.
-    const { estimateNetwork } = await import('../../inverse/network-estimator.js');
-    const net = config.network;
-    const uninstall = installStopHandlers('invert');
-    try {
-      ne = await estimateNetwork(data, estimate, {
-        chain: config.system.chain,
-        seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
-        steps: net.adamSteps,
-        fieldUpdateEvery: net.fieldUpdateEvery,
-        lbfgsIterations: net.lbfgsIterations,
-        lbfgsPerUpdate: net.lbfgsPerUpdate,
-        chiNStart: net.chiNStart,
-        resolution: toRg(config.resolution),
-        backend: net.backend,
-        workers,
-        onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
-      });
-    } finally {
-      uninstall();
-    }
-    progress.done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
-    estimators.network = networkBlock(ne, estimate, data);
-  }
-  // A synthetic profile (synth --out DIR) has its truth beside it: measure the estimates against it.
-  const truthPath = synthTruthPath(profilePath);
-  const truth = truthPath ? compareWithTruth(truthPath, readTruthSidecar(truthPath).chiN, config.system.chain, estimate, ne) : undefined;
-  const result = inversionResult(data, config, provenance(), estimators, truth);
-  if (flags.out) {
-    const files = {
-      // runSeconds: the wall time of the whole inversion (every estimator), for the report's title page.
-      'result.json': inversionResultText({ ...result, runSeconds: (performance.now() - t0) / 1000 }),
-      'fit.csv': fitCsv(data, estimate),
-      'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
-    };
+  const { invertRun } = await import('../../inverse/invert-run.js');
+  const { result, files } = await invertRun({
+    profilePath,
+    config,
+    sources,
+    configSource: configPath ?? 'flags',
+    workers,
+    files: flags.out !== undefined,
+    onProgress: (t, keep) => progress.update(t, keep),
+    onEstimator: (t) => progress.done(t),
+  });
+  if (flags.out && files) {
     const written = out!.write(files);
     if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
     if (flags.report) {

@@ -1,0 +1,129 @@
+/**
+ * One `invert` run as a library function (the CLI's `invert` is a thin layer over it; tests
+ * call it directly): read the profile CSV, the classical estimate with its assumed inputs
+ * profiled into the interval, the network estimator when asked, the truth comparison when a
+ * synth truth sidecar sits beside the profile, and the result with the files of an output
+ * directory as text. It writes no file; the caller writes `files`.
+ */
+import { readFileSync } from 'node:fs';
+import { synthTruthPath } from '../io/synth-output.js';
+import { InputError, asInputError } from '../io/errors.js';
+import type { InvertConfig } from '../io/schemas/invert-config.js';
+import { solutionToFile } from '../io/formats/solution.js';
+import { provenance } from '../io/versions.js';
+import { installStopHandlers } from '../runtime/stop.js';
+import { estimateWithAssumedInputs } from './classical-with-inputs.js';
+import { assumedInputs } from './assumed-inputs.js';
+import type { PeriodMode } from './objective.js';
+import { fitCsv, classicalBlock, inversionResult, inversionResultText, networkBlock } from './inversion-result.js';
+import type { EstimatorBlock, InversionResult } from './inversion-result.js';
+import { lengthUnits, parseProfileCsv } from './profile-csv.js';
+import type { NetworkEstimate } from './network-estimator.js';
+import { compareWithTruth, readTruthSidecar } from './truth-comparison.js';
+
+export interface InvertRunOptions {
+  profilePath: string;
+  config: InvertConfig;
+  /** Where each setting came from (a flag or a config key), for messages. */
+  sources: Record<string, string>;
+  /** How the config was given (its path, or "flags"): model errors name it. */
+  configSource: string;
+  /** Worker threads for the network estimator's seeds. */
+  workers: number;
+  /** The files of an output directory are wanted. */
+  files: boolean;
+  /** Progress lines (`keep`: a stage line that stays). */
+  onProgress?: (text: string, keep?: boolean) => void;
+  /** The end of an estimator, one line. */
+  onEstimator?: (text: string) => void;
+}
+
+export interface InvertRunResult {
+  result: InversionResult;
+  /** result.json, fit.csv and solution.json, when asked for. */
+  files: Record<string, string> | null;
+}
+
+export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult> {
+  const t0 = performance.now();
+  const { config, sources, profilePath } = opts;
+  const progress = opts.onProgress ?? (() => {});
+  const done = opts.onEstimator ?? (() => {});
+  const units = lengthUnits(config.units ?? {});
+  let text: string;
+  try {
+    text = readFileSync(profilePath, 'utf8');
+  } catch (e) {
+    throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+  }
+  const data = parseProfileCsv(text, profilePath, units);
+  const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
+  const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
+  let estimate;
+  let assumed;
+  try {
+    const inputs = assumedInputs(config, units, sources);
+    ({ estimate, assumed } = estimateWithAssumedInputs(
+      data,
+      {
+        chain: config.system.chain,
+        nx: config.cell.nx,
+        ns: config.cell.ns,
+        solver: config.solver,
+        period,
+        chiNRange: config.chiNRange as [number, number] | undefined,
+        resolution: toRg(config.resolution),
+        profilePoints: config.profilePoints,
+        periodSource: sources.period,
+        rangeSource: sources.chiNRange,
+        onEvaluation: (stage, e) => progress(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
+      },
+      inputs,
+      (label) => progress(`refit with ${label}`, true),
+    ));
+  } catch (e) {
+    throw asInputError(e, opts.configSource);
+  }
+  done(`χN = ${estimate.chiN.toPrecision(6)} in ${estimate.seconds.toFixed(2)} s (${estimate.cost.chiNEvaluations} χN evaluations, ${estimate.cost.solves + estimate.cost.coarseSolves} solves)`);
+  const estimators: Record<string, EstimatorBlock> = {};
+  let ne: NetworkEstimate | undefined;
+  if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data, assumed);
+  if (config.method !== 'classical') {
+    // The network fits χN and the fields; the phase offset and period come from the classical fit.
+    const { estimateNetwork } = await import('./network-estimator.js');
+    const net = config.network;
+    const uninstall = installStopHandlers('invert');
+    try {
+      ne = await estimateNetwork(data, estimate, {
+        chain: config.system.chain,
+        seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
+        steps: net.adamSteps,
+        fieldUpdateEvery: net.fieldUpdateEvery,
+        lbfgsIterations: net.lbfgsIterations,
+        lbfgsPerUpdate: net.lbfgsPerUpdate,
+        chiNStart: net.chiNStart,
+        resolution: toRg(config.resolution),
+        backend: net.backend,
+        workers: opts.workers,
+        onProgress: (seed, step, steps, chiN) => progress(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
+      });
+    } finally {
+      uninstall();
+    }
+    done(`network χN = ${ne.chiN.toPrecision(6)} ± ${ne.spread.toPrecision(2)} (seed spread of ${net.seeds}) in ${ne.seconds.toFixed(1)} s on ${ne.backend}`);
+    estimators.network = networkBlock(ne, estimate, data);
+  }
+  // A synthetic profile (synth --out DIR) has its truth beside it: measure the estimates against it.
+  const truthPath = synthTruthPath(profilePath);
+  const truth = truthPath ? compareWithTruth(truthPath, readTruthSidecar(truthPath).chiN, config.system.chain, estimate, ne) : undefined;
+  const result = inversionResult(data, config, provenance(), estimators, truth);
+  const files = opts.files
+    ? {
+        // runSeconds: the wall time of the whole inversion (every estimator), for the report's title page.
+        'result.json': inversionResultText({ ...result, runSeconds: (performance.now() - t0) / 1000 }),
+        'fit.csv': fitCsv(data, estimate),
+        'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
+      }
+    : null;
+  return { result, files };
+}
