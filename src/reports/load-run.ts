@@ -15,6 +15,8 @@
  * an InputError naming the file and field.
  */
 import { readdirSync, statSync } from 'node:fs';
+import { filmFitResultSchema } from '../io/formats/film.js';
+import type { FilmFitResultFile } from '../io/formats/film.js';
 import { z } from 'zod';
 import { join } from 'node:path';
 import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
@@ -40,27 +42,12 @@ import { trainingRecords } from './readers/training-history.js';
 import { countLayers } from '../spectral/film-solve.js';
 import { assertSameGrid } from './solution-differences.js';
 
-/** The parts of a film-fit result (inverse/film/film-fit-run.ts) that the report draws. */
-const levelSchema = z.object({ lo: z.number(), hi: z.number(), deltaChi2: z.number() }).passthrough();
-const filmFitFileSchema = z
-  .object({
-    kind: z.literal('film-fit-result'),
-    input: z.object({ dataKind: z.enum(['phi', 'sld', 'reflectivity']) }).passthrough(),
-    chiN: z.number(),
-    affinity: z.object({ bottom: z.number(), top: z.number() }).passthrough(),
-    intervals: z.record(z.string(), z.object({ '95%': levelSchema }).passthrough()),
-    profiles: z.record(z.string(), z.array(z.object({ value: z.number(), deltaChi2: z.number() }))),
-    layers: z.string(),
-    reducedChi2: z.number(),
-    warnings: z.array(z.string()),
-    curve: z.object({ xUnits: z.string(), yUnits: z.string(), x: z.array(z.number()), y: z.array(z.number()), sigma: z.array(z.number()), fit: z.array(z.number()) }),
-  })
-  .passthrough();
-
-function filmFitInput(f: z.infer<typeof filmFitFileSchema>): ReportInput['filmFit'] {
+/** A film-fit result (io/formats/film.ts) as the report draws it. */
+function filmFitInput(f: FilmFitResultFile): ReportInput['filmFit'] {
   const c = f.curve;
   const kind = f.input.dataKind;
-  const best: Record<string, number> = { chiN: f.chiN, bottom: f.affinity.bottom, top: f.affinity.top };
+  const best = { chiN: f.chiN, bottom: f.affinity.bottom, top: f.affinity.top };
+  const ivs: Partial<Record<string, { '95%': { lo: number; hi: number; deltaChi2: number } }>> = f.intervals;
   const unit: Record<string, string> = { chiN: '–', bottom: 'kT per chain × Rg', top: 'kT per chain × Rg' };
   const label: Record<string, string> = { chiN: 'χN', bottom: 'bottom-wall affinity', top: 'top-wall affinity' };
   return {
@@ -68,8 +55,8 @@ function filmFitInput(f: z.infer<typeof filmFitFileSchema>): ReportInput['filmFi
     xLabel: kind === 'reflectivity' ? 'Q (Å⁻¹)' : `depth (${c.xUnits})`,
     yLabel: kind === 'reflectivity' ? 'R (–)' : kind === 'sld' ? 'SLD (10⁻⁶ Å⁻²)' : 'φA (–)',
     data: c.x.map((x, i) => ({ x, value: c.y[i], sigma: c.sigma[i], fit: c.fit[i] })),
-    parameters: Object.keys(best).map((k) => ({ name: label[k], value: best[k], lower: f.intervals[k]?.['95%'].lo, upper: f.intervals[k]?.['95%'].hi, unit: unit[k] })),
-    profiles: Object.entries(f.profiles).map(([k, pts]) => ({ name: label[k] ?? k, points: pts, threshold: f.intervals[k]?.['95%'].deltaChi2 ?? 3.841 })),
+    parameters: (Object.keys(best) as (keyof typeof best)[]).map((k) => ({ name: label[k], value: best[k], lower: ivs[k]?.['95%'].lo, upper: ivs[k]?.['95%'].hi, unit: unit[k] })),
+    profiles: Object.entries(f.profiles).map(([k, pts]) => ({ name: label[k] ?? k, points: pts ?? [], threshold: ivs[k]?.['95%'].deltaChi2 ?? 3.841 })),
     layers: f.layers,
     reducedChi2: f.reducedChi2,
     warnings: f.warnings,
@@ -202,7 +189,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       }
       read.push(path);
     } else if (kind === 'film-fit-result') {
-      filmFit = filmFitInput(parseOrThrow(filmFitFileSchema, raw, path));
+      filmFit = filmFitInput(parseOrThrow(filmFitResultSchema, raw, path));
       read.push(path);
     } else if (kind === 'checkpoint') {
       // A training checkpoint (training/checkpoint.ts), read through its schema: its history is the training page.

@@ -4,6 +4,9 @@
  * written. The library side is inverse/film/film-fit-run.ts.
  */
 import { readFileSync } from 'node:fs';
+import { formatText } from '../../io/formats/file-format.js';
+import { filmFitResultSchema } from '../../io/formats/film.js';
+import { solutionText } from '../../io/formats/solution.js';
 import { join } from 'node:path';
 import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
 import { filmFitConfigSchema } from '../../io/schemas/film-fit-config.js';
@@ -105,7 +108,7 @@ export async function runFilmFitCommand(command: string, dataPath: string, confi
     }
     progress.done(`χN = ${run.fit.params.chiN.toPrecision(5)} in ${run.fit.seconds.total.toFixed(1)} s`);
     if (out) {
-      const written = out.write({ 'result.json': `${JSON.stringify(run.result, null, 1)}\n`, 'fit.csv': run.fitCsv, 'solution.json': `${JSON.stringify(run.solution, null, 1)}\n` });
+      const written = out.write({ 'result.json': formatText(filmFitResultSchema, run.result), 'fit.csv': run.fitCsv, 'solution.json': solutionText(run.solution) });
       if (!flags.quiet) process.stderr.write(`${command}: wrote ${written.join(', ')}\n`);
     }
     process.stdout.write(flags.json ? `${JSON.stringify(run.result, null, 2)}\n` : run.summary);

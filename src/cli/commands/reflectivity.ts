@@ -4,6 +4,8 @@
  * --resolution) are in nm here: Q is in Å⁻¹, so Rg in nm (--rg-nm) is always needed.
  */
 import type { Command } from 'commander';
+import { formatText, throughSchema } from '../../io/formats/file-format.js';
+import { FILM_REFLECTIVITY_VERSION, filmReflectivitySchema } from '../../io/formats/film.js';
 import { InputError, asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { action, numberFlag } from '../run-command.js';
@@ -75,9 +77,10 @@ async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: Retur
     throw asInputError(e, 'flags');
   }
   const sol = r.point.solution;
-  const result = {
+  // Built through its schema (io/formats/film.ts): printed and written exactly as result.json holds it.
+  const result = throughSchema(filmReflectivitySchema, {
     kind: 'film-reflectivity',
-    version: 1,
+    version: FILM_REFLECTIVITY_VERSION,
     provenance: provenance(),
     settings: { f, chiN, affinity: { bottom, top }, thicknessNm: H, thickness: H / rgNm, rgNm, resolutionNm: width, sld, sldUnits: '1e-6 Å⁻²', dQoverQ: dq, background: bg, qRange: [q0, q1], points, nx, ns, wallRange },
     phase: sol.phase,
@@ -86,11 +89,11 @@ async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: Retur
     converged: sol.converged,
     slices: r.slices,
     seconds: r.seconds,
-  };
+  });
   const curve = ['Q,R,RQ4', ...Array.from(q, (v, i) => `${v},${r.R[i]},${r.R[i] * v ** 4}`)].join('\n') + '\n';
   const profile = ['z_nm,sld', ...Array.from(r.z, (v, i) => `${v},${r.sld[i] / SLD_UNIT}`)].join('\n') + '\n';
   if (out) {
-    const written = out.write({ 'reflectivity.csv': curve, 'sld-profile.csv': profile, 'result.json': `${JSON.stringify(result, null, 1)}\n` });
+    const written = out.write({ 'reflectivity.csv': curve, 'sld-profile.csv': profile, 'result.json': formatText(filmReflectivitySchema, result) });
     if (!flags.quiet) process.stderr.write(`reflectivity: wrote ${written.join(', ')}\n`);
   }
   if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);

@@ -1,5 +1,7 @@
 /** `synth --film`: a synthetic film measurement (φA or SLD depth profile, or R(Q)) and its truth. */
 import { InputError, asInputError } from '../../io/errors.js';
+import { formatText } from '../../io/formats/file-format.js';
+import { filmSynthTruthSchema } from '../../io/formats/film.js';
 import { provenance } from '../../io/versions.js';
 import { filmSynthFiles, synthesizeFilm } from '../../inverse/film/film-synth.js';
 import type { FilmSynthSettings } from '../../inverse/film/film-synth.js';
@@ -93,7 +95,7 @@ export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
       process.stdout.write(files.csv);
       return;
     }
-    const written = out.write({ [SYNTH_PROFILE]: files.csv, [SYNTH_TRUTH]: `${JSON.stringify({ ...files.truth, provenance: provenance() }, null, 1)}\n` });
+    const written = out.write({ [SYNTH_PROFILE]: files.csv, [SYNTH_TRUTH]: formatText(filmSynthTruthSchema, { ...files.truth, provenance: provenance() }) });
     if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (film ${thickness} Rg, χN = ${chiN}, layers ${files.truth.layers})\n`);
   });
 }

@@ -8,6 +8,10 @@ import { parseColumnCsv } from '../../io/column-csv.js';
 import { InputError } from '../../io/errors.js';
 import type { FilmFitConfig } from '../../io/schemas/film-fit-config.js';
 import { solutionToFile } from '../../io/formats/solution.js';
+import type { SolutionFile } from '../../io/formats/solution.js';
+import { throughSchema } from '../../io/formats/file-format.js';
+import { FILM_FIT_RESULT_VERSION, filmFitResultSchema } from '../../io/formats/film.js';
+import type { FilmFitResultFile } from '../../io/formats/film.js';
 import type { Provenance } from '../../io/versions.js';
 import { parseProfileCsv } from '../profile-csv.js';
 import type { FilmData, FilmFitResult } from './film-fit.js';
@@ -71,9 +75,9 @@ export const FILM_ASSUMPTIONS = [
 ];
 
 export interface FilmFitOutput {
-  result: Record<string, unknown>;
+  result: FilmFitResultFile;
   fitCsv: string;
-  solution: unknown;
+  solution: SolutionFile;
   summary: string;
   fit: FilmFitResult;
 }
@@ -100,9 +104,10 @@ export function runFilmFit(config: FilmFitConfig, data: FilmData, prov: Provenan
   });
   const withNm = (key: string, v: number) => ({ [key]: v, ...(rgNm ? { [`${key}Nm`]: v * rgNm } : {}) });
   const P = fit.params;
-  const result = {
+  // Built through its schema (io/formats/film.ts): what is returned is exactly what result.json holds.
+  const result = throughSchema(filmFitResultSchema, {
     kind: 'film-fit-result',
-    version: 1,
+    version: FILM_FIT_RESULT_VERSION,
     provenance: prov,
     config,
     input: { source: data.source, dataKind: data.kind, points: data.x.length, lengthUnits: rgNm ? 'nm' : 'Rg', ...(rgNm ? { rgNm } : {}), sldUnits: '1e-6 Å⁻²', qUnits: 'Å⁻¹' },
@@ -129,7 +134,7 @@ export function runFilmFit(config: FilmFitConfig, data: FilmData, prov: Provenan
     assumptions: FILM_ASSUMPTIONS,
     // The data against the model in the file's own units (what a report draws; fit.csv has the same).
     curve: curveOf(data, fit, rgNm),
-  };
+  });
   return { result, fitCsv: filmFitCsv(data, fit, rgNm), solution: solutionToFile(fit.point.solution, prov, config), summary: filmFitSummary(result, fit, rgNm), fit };
 }
 
@@ -159,7 +164,7 @@ export function filmFitCsv(data: FilmData, fit: FilmFitResult, rgNm?: number): s
   return `${rows.join('\n')}\n`;
 }
 
-function filmFitSummary(result: Record<string, unknown>, fit: FilmFitResult, rgNm?: number): string {
+function filmFitSummary(result: FilmFitResultFile, fit: FilmFitResult, rgNm?: number): string {
   const f = (v: number) => v.toPrecision(5);
   const L = (v: number) => `${f(v)} Rg${rgNm ? ` (${f(v * rgNm)} nm)` : ''}`;
   const lines: string[] = [];

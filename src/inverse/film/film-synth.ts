@@ -10,6 +10,8 @@
  * a fixed fraction is the simple case) plus the background's own level.
  */
 import { RunFailure } from '../../io/errors.js';
+import { FILM_SYNTH_TRUTH_VERSION } from '../../io/formats/film.js';
+import type { FilmSynthTruth } from '../../io/formats/film.js';
 import type { SpectralOptions } from '../../io/schemas/spectral-schema.js';
 import { GaussianNoise } from '../../numerics/random.js';
 import type { ChainSpec } from '../../physics/chain-schema.js';
@@ -79,16 +81,16 @@ export function synthesizeFilm(s: FilmSynthSettings): FilmSynth {
 }
 
 /** The data CSV (in the units the fits read: x in Rg or nm, SLD in 10⁻⁶ Å⁻², Q in Å⁻¹) and the truth beside it. */
-export function filmSynthFiles(s: FilmSynthSettings, d: FilmSynth, rgNm?: number): { csv: string; truth: Record<string, unknown> } {
+export function filmSynthFiles(s: FilmSynthSettings, d: FilmSynth, rgNm?: number): { csv: string; truth: Omit<FilmSynthTruth, 'provenance'> } {
   const xs = rgNm ?? 1;
   const SLD = 1e-6;
   let rows: string[];
   if (s.kind === 'phi') rows = ['x,phiA,sigma', ...Array.from(d.x, (v, i) => `${v * xs},${d.y[i]},${d.sigma[i]}`)];
   else if (s.kind === 'sld') rows = ['x,sld,sigma', ...Array.from(d.x, (v, i) => `${v * xs},${d.y[i] / SLD},${d.sigma[i] / SLD}`)];
   else rows = ['Q,R,dR', ...Array.from(d.x, (v, i) => `${v},${d.y[i]},${d.sigma[i]}`)];
-  const truth = {
+  const truth: Omit<FilmSynthTruth, 'provenance'> = {
     kind: 'film-synth-truth',
-    version: 1,
+    version: FILM_SYNTH_TRUTH_VERSION,
     measurement: s.kind,
     chain: s.chain,
     chiN: s.chiN,
