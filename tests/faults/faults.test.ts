@@ -12,6 +12,7 @@ import { runCase } from './harness.js';
 import type { FaultCase, Outcome } from './harness.js';
 import { OUTPUT_CASES } from './output-cases.js';
 import { PHYSICS_CASES } from './physics-cases.js';
+import { writeTally } from './tally.js';
 import { CSV_ANSWER_CASES, CSV_CASES } from './profiles.js';
 
 const ALL: FaultCase[] = [...CONFIG_CASES, ...FLAG_CASES, ...CSV_CASES, ...CSV_ANSWER_CASES, ...OUTPUT_CASES, ...PHYSICS_CASES];
@@ -37,6 +38,7 @@ describe('fault injection', () => {
 });
 
 afterAll(() => {
+  writeTally('faults', tally);
   const rows = [...tally].map(([g, t]) => `| ${g} | ${t.tried} | ${t['clear error']} | ${t['correct answer']} | ${t.wrong} |`);
   const total = [...tally.values()].reduce((s, t) => ({ tried: s.tried + t.tried, clear: s.clear + t['clear error'], correct: s.correct + t['correct answer'], wrong: s.wrong + t.wrong }), { tried: 0, clear: 0, correct: 0, wrong: 0 });
   process.stdout.write(['', '| group | tried | clear error | correct answer | wrong |', '| --- | --- | --- | --- | --- |', ...rows, `| all | ${total.tried} | ${total.clear} | ${total.correct} | ${total.wrong} |`, ''].join('\n'));

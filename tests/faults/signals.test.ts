@@ -19,6 +19,7 @@ import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import { requestStop, resetStop, stopRequested } from '../../src/runtime/stop.js';
 import { trainRun, TrainingStopped } from '../../src/training/train-run.js';
 import { CLI } from '../helpers/run-cli.js';
+import { writeTally } from './tally.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
 const counts = { tried: 0, 'clear error or stop': 0, 'correct answer': 0 };
@@ -217,5 +218,7 @@ describe('resume fidelity', () => {
 });
 
 afterAll(() => {
+  // Every case here ends in a stop or a refusal it expects (clear) or in a checked answer (correct); a failure fails the test.
+  writeTally('signals', { 'signals and resume': { tried: counts.tried, 'clear error': counts['clear error or stop'], 'correct answer': counts['correct answer'], wrong: counts.tried - counts['clear error or stop'] - counts['correct answer'] } });
   process.stdout.write(`\nsignals and resume: tried ${counts.tried}, clear error or stop ${counts['clear error or stop']}, correct answer ${counts['correct answer']}\n`);
 });
