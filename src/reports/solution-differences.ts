@@ -24,16 +24,6 @@ export function maxAbs(a: ArrayLike<number>): number {
   return m;
 }
 
-/** ‖a − b‖₂ / ‖b‖₂ on the grid (uniform weights: the grid is uniform). */
-export function relativeL2(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let num = 0;
-  let den = 0;
-  for (let i = 0; i < a.length; i++) {
-    num += (a[i] - b[i]) ** 2;
-    den += b[i] ** 2;
-  }
-  return Math.sqrt(num / (den || 1));
-}
 
 /** w_A − w_B: the exchange field, the part of the fields fixed by the composition. */
 export function exchangeField(sol: ScftSolution): Float64Array {

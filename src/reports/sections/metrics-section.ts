@@ -7,7 +7,7 @@ import type { ScftSolution } from '../../physics/result.js';
 import type { ReportPage } from '../document.js';
 import { sci, sig } from '../format.js';
 import type { MetricRow, NetworkMetricsInput, ReportInput } from '../report-inputs.js';
-import { difference, exchangeField, maxAbs, relativeL2 } from '../solution-differences.js';
+import { compareSolutions } from '../../physics/solution-metrics.js';
 import { periodText, phaseText } from './key-results.js';
 import type { ReportSection } from './section.js';
 
@@ -30,12 +30,14 @@ function solutionRows(sol: ScftSolution, who: string, rgNm: number | undefined, 
   return rows;
 }
 
+/** Two solutions on one grid, measured by the one comparison of the physics layer (physics/solution-metrics.ts). */
 function comparisonRows(ref: ScftSolution, net: ScftSolution, label: string): MetricRow[] {
+  const m = compareSolutions(net, ref);
   return [
-    { name: `${label} vs reference: φA relative L2 error`, value: sci(relativeL2(net.phi.A, ref.phi.A)), unit: '–' },
-    { name: `${label} vs reference: max |ΔφA|`, value: sci(maxAbs(difference(net.phi.A, ref.phi.A))), unit: '–' },
-    { name: `${label} vs reference: max |Δ(wA − wB)|`, value: sci(maxAbs(difference(exchangeField(net), exchangeField(ref)))), unit: 'kT' },
-    { name: `${label} vs reference: F difference`, value: sci(net.freeEnergy - ref.freeEnergy), unit: 'kT per chain' },
+    { name: `${label} vs reference: φA relative L2 error`, value: sci(m.phiA.relativeL2), unit: '–' },
+    { name: `${label} vs reference: max |ΔφA|`, value: sci(m.phiA.maxError), unit: '–' },
+    { name: `${label} vs reference: max |Δ(wA − wB)|`, value: sci(m.exchangeField.maxError), unit: 'kT' },
+    { name: `${label} vs reference: F difference`, value: sci(m.freeEnergyError), unit: 'kT per chain' },
   ];
 }
 
