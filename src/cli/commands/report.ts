@@ -1,7 +1,6 @@
 /** `mesofield report RUN_DIR`: figures and tables of a run as an A4 PDF and/or one PNG per figure. */
 import type { Command } from 'commander';
-import { claimOut, withOutput } from '../run-output.js';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import { InputError } from '../../io/errors.js';
 import { buildReport } from '../../reports/build-report.js';
 import { loadRun } from '../../reports/load-run.js';
@@ -44,15 +43,10 @@ export function registerReport(program: Command): void {
         if (!Number.isInteger(dpi) || dpi < DPI_RANGE[0] || dpi > DPI_RANGE[1]) throw new InputError(`--dpi: got ${flags.dpi}; allowed: a whole number from ${DPI_RANGE[0]} to ${DPI_RANGE[1]}`);
         const rgNm = numberFlag('--rg-nm', flags.rgNm);
         if (rgNm !== undefined && !(rgNm > 0)) throw new InputError(`--rg-nm: got ${flags.rgNm}; allowed: Rg in nm, a number > 0`);
-        // An --out of its own is claimed like any output (new, empty or a previous report, which is
-        // rewritten); the default RUN_DIR/report lies inside the run's own output and belongs to it.
-        const inRun = flags.out === undefined || resolve(flags.out) === resolve(runDir, 'report');
-        const claimed = inRun ? undefined : claimOut({ out: flags.out }, 'report', { continuePrevious: true });
-        const { run, written } = await withOutput(claimed, () => {
-          const run = loadRun(runDir, { rgNm });
-          const rendered = renderReport(buildReport(run.input), formats, dpi);
-          return { run, written: claimed ? claimed.write(rendered.files) : writeReportFiles(join(runDir, 'report'), rendered) };
-        });
+        const run = loadRun(runDir, { rgNm });
+        const doc = buildReport(run.input);
+        const rendered = renderReport(doc, formats, dpi);
+        const written = writeReportFiles(flags.out ?? join(runDir, 'report'), rendered);
         if (!flags.quiet) {
           for (const n of run.notes) process.stderr.write(`report: note: ${n}\n`);
           process.stderr.write(`report: read ${run.read.join(', ')}\nreport: wrote ${written.join(', ')}\n`);
