@@ -15,19 +15,20 @@ const stopSoon = () => setImmediate(() => setImmediate(() => requestStop('SIGINT
 
 afterEach(() => resetStop());
 
+/** A symmetric diblock at χN = 15 in a fixed cell, tiny networks on a coarse grid: a run of seconds. */
+const SMALL_DIBLOCK = {
+  version: 2,
+  kind: 'train',
+  system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
+  cell: { period: 3.7, nx: 32, ns: 40 },
+  backend: 'wasm',
+  networks: { field: { hidden: [8] }, propagator: { hidden: [8, 8] } },
+  collocation: { nx: 16, nodesPerBlock: 8, random: 0 },
+};
+
 describe('a stop inside an optimisation phase', () => {
   it('L-BFGS polish: stops within an iteration of the request, saved as a stop between cycles', async () => {
-    const config = trainConfigSchema.parse({
-      version: 2,
-      kind: 'train',
-      system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
-      cell: { period: 3.7, nx: 32, ns: 40 },
-      backend: 'wasm',
-      networks: { field: { hidden: [8] }, propagator: { hidden: [8, 8] } },
-      collocation: { nx: 16, nodesPerBlock: 8, random: 0 },
-      warmStart: { type: 'reference', adamSteps: 5 },
-      training: { adamSteps: 5, lbfgsIterations: 300, lbfgsCycles: 1, evaluateEvery: 0 },
-    });
+    const config = trainConfigSchema.parse({ ...SMALL_DIBLOCK, warmStart: { type: 'reference', adamSteps: 5 }, training: { adamSteps: 5, lbfgsIterations: 300, lbfgsCycles: 1, evaluateEvery: 0 } });
     resetStop();
     const e = await trainRun({ config, backend: 'wasm', shouldStop: stopRequested, onStage: (m) => void (/^L-BFGS polish/.test(m) && stopSoon()) }).catch((x) => x);
     expect(e).toBeInstanceOf(TrainingStopped);
@@ -61,17 +62,7 @@ describe('a stop inside an optimisation phase', () => {
 
 describe('a stop in the warm start', () => {
   it('stops within a step of the request; nothing to resume, and it says so', async () => {
-    const config = trainConfigSchema.parse({
-      version: 2,
-      kind: 'train',
-      system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
-      cell: { period: 3.7, nx: 32, ns: 40 },
-      backend: 'wasm',
-      networks: { field: { hidden: [8] }, propagator: { hidden: [8, 8] } },
-      collocation: { nx: 16, nodesPerBlock: 8, random: 0 },
-      warmStart: { type: 'reference', adamSteps: 5000 },
-      training: { adamSteps: 5, lbfgsIterations: 0, evaluateEvery: 0 },
-    });
+    const config = trainConfigSchema.parse({ ...SMALL_DIBLOCK, warmStart: { type: 'reference', adamSteps: 5000 }, training: { adamSteps: 5, lbfgsIterations: 0, evaluateEvery: 0 } });
     resetStop();
     const e = await trainRun({ config, backend: 'wasm', shouldStop: stopRequested, onStage: (m) => void (/^warm start/.test(m) && stopSoon()) }).catch((x) => x);
     expect(e).toBeInstanceOf(TrainingStopped);
