@@ -43,7 +43,7 @@ import { RunStopped, stopAbortSignal, stopRequested } from '../runtime/stop.js';
 import { PoolStopped } from '../threads/worker-pool.js';
 import { RunFailure } from '../io/errors.js';
 import { refitFieldsToUpdate } from '../network/field-update.js';
-import { warmStart } from '../network/warm-start.js';
+import { warmStartYielding } from '../network/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
 import type { ProfileData } from './profile-csv.js';
 
@@ -186,7 +186,11 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
       training: { strategy: 'alternating', adamSteps: s.steps, learningRate: s.learningRate ?? 1e-3, logEvery: 25, checkpointEvery: s.steps + 1, fieldUpdateEvery: updateEvery },
     });
     const nets = buildScftNetworks(tf, config, chain, L, true);
-    warmStart(tf, nets, { x: start.x, w: start.w, chiN: chiNStart, propagators: start.propagators }, s.warmStartSteps ?? 400, 1e-2);
+    const ws = await warmStartYielding(tf, nets, { x: start.x, w: start.w, chiN: chiNStart, propagators: start.propagators }, s.warmStartSteps ?? 400, 1e-2, undefined, stopRequested);
+    if (ws.interrupted) {
+      nets.dispose();
+      throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, warm-start step ${ws.steps}; no network result was written`);
+    }
     const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
     problem.fieldsFrozen = true;
     let chiN = chiNStart;
