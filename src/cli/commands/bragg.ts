@@ -68,38 +68,38 @@ export function registerBragg(program: Command): void {
         // --out claimed (io/output-directory.ts); the pattern is cheap, so it is claimed when the result is ready.
         const claimed = claimOut(flags, 'bragg-pattern');
         return withOutput(claimed, async () => {
-        if (flags.out) {
-          claimed!.write({
-            'peaks.csv': `order,q,relative\n${peaks.map((k) => `${k.order},${k.q},${k.relative}`).join('\n')}\n`,
-            'pattern.csv': `q,I\n${curve.q.map((q, i) => `${q},${curve.I[i]}`).join('\n')}\n`,
-            'result.json': `${JSON.stringify(result, null, 1)}\n`,
-          });
-          if (flags.report) {
-            const { buildReport } = await import('../../reports/build-report.js');
-            const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
-            const { provenance } = await import('../../io/versions.js');
-            const periodText = rg ? `${(p.period * rg).toPrecision(5)} nm (${p.period.toPrecision(5)} Rg)` : `${p.period.toPrecision(5)} Rg`;
-            const info = {
-              kind: 'bragg-pattern',
-              source: flags.out,
-              system: lam.system,
-              period: p.period,
-              ...(rg ? { rgNm: rg } : {}),
-              settings: [`solution: ${solution}`, `orders: ${orders}`, `Lorentz factor: ${p.lorentz ? 'yes' : 'no'}`, `peak width: ${width} ${unit}`].map((line) => ({ name: line.slice(0, line.indexOf(':')), value: line.slice(line.indexOf(':') + 2) })),
-              provenance: { ...provenance() },
-            };
-            const bragg = { qLabel: rg ? 'q / nm⁻¹' : 'q Rg', chiN: lam.chiN, periodText, lorentz: p.lorentz, width, peaks, curve };
-            const written = writeReportFiles(join(flags.out, 'report'), renderReport(buildReport({ info, bragg }), ['pdf', 'png'], 150));
-            process.stderr.write(`bragg-pattern: wrote ${written.join(', ')}\n`);
+          if (flags.out) {
+            claimed!.write({
+              'peaks.csv': `order,q,relative\n${peaks.map((k) => `${k.order},${k.q},${k.relative}`).join('\n')}\n`,
+              'pattern.csv': `q,I\n${curve.q.map((q, i) => `${q},${curve.I[i]}`).join('\n')}\n`,
+              'result.json': `${JSON.stringify(result, null, 1)}\n`,
+            });
+            if (flags.report) {
+              const { buildReport } = await import('../../reports/build-report.js');
+              const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
+              const { provenance } = await import('../../io/versions.js');
+              const periodText = rg ? `${(p.period * rg).toPrecision(5)} nm (${p.period.toPrecision(5)} Rg)` : `${p.period.toPrecision(5)} Rg`;
+              const info = {
+                kind: 'bragg-pattern',
+                source: flags.out,
+                system: lam.system,
+                period: p.period,
+                ...(rg ? { rgNm: rg } : {}),
+                settings: [`solution: ${solution}`, `orders: ${orders}`, `Lorentz factor: ${p.lorentz ? 'yes' : 'no'}`, `peak width: ${width} ${unit}`].map((line) => ({ name: line.slice(0, line.indexOf(':')), value: line.slice(line.indexOf(':') + 2) })),
+                provenance: { ...provenance() },
+              };
+              const bragg = { qLabel: rg ? 'q / nm⁻¹' : 'q Rg', chiN: lam.chiN, periodText, lorentz: p.lorentz, width, peaks, curve };
+              const written = writeReportFiles(join(flags.out, 'report'), renderReport(buildReport({ info, bragg }), ['pdf', 'png'], 150));
+              process.stderr.write(`bragg-pattern: wrote ${written.join(', ')}\n`);
+            }
           }
-        }
-        if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
-        else {
-          const lines = [`lamella at χN = ${lam.chiN}: period D = ${rg ? `${(p.period * rg).toPrecision(6)} nm (${p.period.toPrecision(6)} Rg)` : `${p.period.toPrecision(6)} Rg`}${p.lorentz ? ', powder Lorentz factor 1/q² applied' : ''}`];
-          lines.push(`order  q (${unit})   I_n/I_1`);
-          for (const k of peaks) lines.push(`${String(k.order).padStart(5)}  ${k.q.toPrecision(6).padEnd(11)} ${k.relative.toExponential(4)}`);
-          process.stdout.write(`${lines.join('\n')}\n`);
-        }
+          if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
+          else {
+            const lines = [`lamella at χN = ${lam.chiN}: period D = ${rg ? `${(p.period * rg).toPrecision(6)} nm (${p.period.toPrecision(6)} Rg)` : `${p.period.toPrecision(6)} Rg`}${p.lorentz ? ', powder Lorentz factor 1/q² applied' : ''}`];
+            lines.push(`order  q (${unit})   I_n/I_1`);
+            for (const k of peaks) lines.push(`${String(k.order).padStart(5)}  ${k.q.toPrecision(6).padEnd(11)} ${k.relative.toExponential(4)}`);
+            process.stdout.write(`${lines.join('\n')}\n`);
+          }
         });
       }),
     );

@@ -108,44 +108,44 @@ export function registerFitScattering(program: Command): void {
         // --out is claimed before the fits run (io/output-directory.ts: new, empty or a previous fit-scattering output).
         const claimed = claimOut(flags, 'fit-scattering');
         return withOutput(claimed, async () => {
-        let run;
-        try {
-          run = runScatteringFit(config, {
-            baseDir,
-            rgSource: flags.config ? `${flags.config}: units` : 'flags',
-            provenance: provenance(),
-            onFit: (i, total, fit) => {
-              if (!flags.quiet) process.stderr.write(`fit-scattering: ${i + 1}/${total} ${fit.source}: χN = ${fit.chiN.toPrecision(5)} in ${fit.seconds.toFixed(2)} s\n`);
-            },
-          });
-        } catch (e) {
-          throw asInputError(e, flags.config ?? 'flags');
-        }
-        const { result } = run;
-        if (flags.out) {
-          const out: Record<string, string> = { 'result.json': `${JSON.stringify(result, null, 1)}\n` };
-          result.fits.forEach((f, i) => (out[`fit-${i + 1}.csv`] = fitCsvFor(f)));
-          const wrote = claimed!.write(out);
-          if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${wrote.join(', ')}\n`);
-          if (flags.report) {
-            const { scatteringReportInput } = await import('../../reports/scattering-input.js');
-            const { buildReport } = await import('../../reports/build-report.js');
-            const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
-            const info = {
-              kind: 'fit-scattering',
-              source: flags.out,
-              system: { chain: config.system.chain, chiN: result.fits[0].chiN },
-              period: Number.NaN,
-              settings: [`files: ${config.files.map((f) => f.file + (f.temperature !== undefined ? ` (${f.temperature} K)` : '')).join(', ')}`, `resolution: ${config.resolution}`, `units: ${JSON.stringify(config.units)}`].map((line) => ({ name: line.slice(0, line.indexOf(':')), value: line.slice(line.indexOf(':') + 2) })),
-              provenance: result.provenance as { version: string; node: string; createdAt: string },
-              runSeconds: result.seconds,
-              runSecondsNote: 'all fits',
-            };
-            const written = writeReportFiles(join(flags.out, 'report'), renderReport(buildReport({ info, scattering: scatteringReportInput(result) }), ['pdf', 'png'], 150));
-            if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${written.join(', ')}\n`);
+          let run;
+          try {
+            run = runScatteringFit(config, {
+              baseDir,
+              rgSource: flags.config ? `${flags.config}: units` : 'flags',
+              provenance: provenance(),
+              onFit: (i, total, fit) => {
+                if (!flags.quiet) process.stderr.write(`fit-scattering: ${i + 1}/${total} ${fit.source}: χN = ${fit.chiN.toPrecision(5)} in ${fit.seconds.toFixed(2)} s\n`);
+              },
+            });
+          } catch (e) {
+            throw asInputError(e, flags.config ?? 'flags');
           }
-        }
-        process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : scatteringSummary(result));
+          const { result } = run;
+          if (flags.out) {
+            const out: Record<string, string> = { 'result.json': `${JSON.stringify(result, null, 1)}\n` };
+            result.fits.forEach((f, i) => (out[`fit-${i + 1}.csv`] = fitCsvFor(f)));
+            const wrote = claimed!.write(out);
+            if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${wrote.join(', ')}\n`);
+            if (flags.report) {
+              const { scatteringReportInput } = await import('../../reports/scattering-input.js');
+              const { buildReport } = await import('../../reports/build-report.js');
+              const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
+              const info = {
+                kind: 'fit-scattering',
+                source: flags.out,
+                system: { chain: config.system.chain, chiN: result.fits[0].chiN },
+                period: Number.NaN,
+                settings: [`files: ${config.files.map((f) => f.file + (f.temperature !== undefined ? ` (${f.temperature} K)` : '')).join(', ')}`, `resolution: ${config.resolution}`, `units: ${JSON.stringify(config.units)}`].map((line) => ({ name: line.slice(0, line.indexOf(':')), value: line.slice(line.indexOf(':') + 2) })),
+                provenance: result.provenance as { version: string; node: string; createdAt: string },
+                runSeconds: result.seconds,
+                runSecondsNote: 'all fits',
+              };
+              const written = writeReportFiles(join(flags.out, 'report'), renderReport(buildReport({ info, scattering: scatteringReportInput(result) }), ['pdf', 'png'], 150));
+              if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${written.join(', ')}\n`);
+            }
+          }
+          process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : scatteringSummary(result));
         });
       }),
     );
