@@ -15,3 +15,17 @@ export function reducedChi2Warning(reducedChi2: number, dof: number, what: strin
   if (!(reducedChi2 > limit)) return undefined;
   return `reduced χ² = ${reducedChi2.toPrecision(4)} is far above 1 (above ${limit.toPrecision(3)} for ${dof} degrees of freedom): the given uncertainties are too small or the model does not describe ${what}; the intervals are then too narrow`;
 }
+
+/** The goodness of a weighted least-squares fit, as every fit of measured data reports it. */
+export interface FitStatistics {
+  /** χ² = Σ ((model_i − y_i)/σ_i)² at the best fit. */
+  chi2: number;
+  /** χ²/dof. */
+  reducedChi2: number;
+  /** Data points, fitted parameters, degrees of freedom n − p. */
+  n: number;
+  p: number;
+  dof: number;
+  /** σ from the data's column, or estimated from the residuals (value in the data's units). */
+  sigma: { source: 'column' | 'estimated'; value: number | null };
+}

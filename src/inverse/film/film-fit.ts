@@ -15,6 +15,7 @@
  * that the fitted layering is the film's lowest-F state there.
  */
 import { InputError, RunFailure } from '../../io/errors.js';
+import type { FitStatistics } from '../fit-quality.js';
 import { boundedLeastSquares } from '../../numerics/bounded-least-squares.js';
 import type { StackSlds } from '../../reflectivity/sld-profile.js';
 import { deltaChi2Level, LEVELS } from '../confidence.js';
@@ -63,19 +64,13 @@ export interface ParamInterval {
   limitedByRange: { lo: boolean; hi: boolean };
 }
 
-export interface FilmFitResult {
+export interface FilmFitResult extends FitStatistics {
   kind: FilmDataKind;
   params: FilmParams;
   fitted: FilmParamName[];
   intervals: Partial<Record<'chiN' | 'bottom' | 'top', Record<'68.3%' | '95%', ParamInterval>>>;
   /** Profiled χ² curves (Δχ² in units of the level scale) of each interval parameter. */
   profiles: Partial<Record<'chiN' | 'bottom' | 'top', { value: number; deltaChi2: number }[]>>;
-  chi2: number;
-  reducedChi2: number;
-  n: number;
-  p: number;
-  dof: number;
-  sigma: { source: 'column' | 'estimated'; value: number | null };
   /** The model at the data points and the residuals y − model. */
   fit: Float64Array;
   residual: Float64Array;

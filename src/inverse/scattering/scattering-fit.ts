@@ -27,6 +27,7 @@ import { buildChain } from '../../physics/chain.js';
 import { spinodal } from '../../physics/rpa.js';
 import { deltaChi2Level, LEVELS } from '../confidence.js';
 import { reducedChi2Warning } from '../fit-quality.js';
+import type { FitStatistics } from '../fit-quality.js';
 import type { ProfiledPoint } from '../profile-likelihood.js';
 import { intervalEnd } from '../profile-likelihood.js';
 import { linearFit, RpaIntensity } from './rpa-intensity.js';
@@ -57,7 +58,7 @@ export interface ScatteringInterval {
   limitedByRange: { lo: boolean; hi: boolean };
 }
 
-export interface ScatteringFit {
+export interface ScatteringFit extends FitStatistics {
   source: string;
   chiN: number;
   interval: [number, number];
@@ -71,12 +72,6 @@ export interface ScatteringFit {
   chiNSpinodal: number;
   /** Peak position of the model without resolution, q* = sqrt(x*)/Rg (nm⁻¹). */
   qStarPerNm: number;
-  chi2: number;
-  reducedChi2: number;
-  n: number;
-  p: number;
-  dof: number;
-  sigma: { source: 'column' | 'estimated'; value: number | null };
   chiNRange: [number, number];
   resolution: number;
   /** Model at the data points (units of I), residual = data − model, and residual/σ. */
