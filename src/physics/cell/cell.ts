@@ -90,5 +90,7 @@ export interface Cell {
   readonly features: NetworkFeatures;
   /** For a film: the walls' surface field h(x) (kT per chain; it lowers w_A and raises w_B by h); null: none. */
   readonly surfaceField: Float64Array | null;
+  /** The same surface field at arbitrary points x (Rg), e.g. a network's collocation points; null: none. */
+  surfaceFieldAt(x: ArrayLike<number>): Float64Array | null;
   describe(): CellDescription;
 }

@@ -56,9 +56,15 @@ export class FilmCell implements Cell {
     this.x = Float64Array.from({ length: n }, (_, j) => (j + 0.5) * dz);
     this.mirror = new PeriodicCell(2 * length, 2 * n, 1, field);
     this.features = { kind: 'cosine', waveNumber: (m) => (Math.PI * m) / length };
-    const g = (z: number) => (Math.sqrt(2 / Math.PI) / walls.range) * Math.exp(-(z * z) / (2 * walls.range * walls.range));
-    const { bottom, top } = walls;
-    this.surfaceField = bottom.affinity !== 0 || top.affinity !== 0 ? Float64Array.from(this.x, (z) => bottom.affinity * g(z) + top.affinity * g(length - z)) : null;
+    this.surfaceField = this.surfaceFieldAt(this.x);
+  }
+
+  /** h(z) of the header at points z (Rg); null with two neutral walls. */
+  surfaceFieldAt(z: ArrayLike<number>): Float64Array | null {
+    const { bottom, top, range } = this.walls;
+    if (bottom.affinity === 0 && top.affinity === 0) return null;
+    const g = (d: number) => (Math.sqrt(2 / Math.PI) / range) * Math.exp(-(d * d) / (2 * range * range));
+    return Float64Array.from(z, (v) => bottom.affinity * g(v) + top.affinity * g(this.length - v));
   }
 
   /** The even extension: u_0 … u_{n−1}, u_{n−1} … u_0 on the mirror cell's grid (shifted by half a step). */
