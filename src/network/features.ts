@@ -17,7 +17,10 @@
  * and has ∂/∂z = 0 there: the zero-flux condition of the reference, by construction (the cosine
  * basis of the film's spectral solver, used as network inputs in the manner of Dong & Ni's
  * periodic features). Derivative channels: ∂z cos(kz) = −k sin(kz), ∂zz cos(kz) = −k² cos(kz).
- * Which of the two a network gets is the cell's choice (Cell.features): one place.
+ * A film adds two columns after the modes, the shape of each wall's surface field (film-cell.ts,
+ * wallProfiles): the fields and propagators vary near a preferential wall on the scale of its
+ * range, finer than the modes carry. Which features a network gets is the cell's choice
+ * (Cell.features): one place.
  *
  * Soft periodicity (propagator networks only; the field network keeps the exact features):
  * the network sees x through one scaled column ξ = 2x/L − 1 (ξ ∈ [−1, 1) on the cell), so
@@ -47,7 +50,7 @@ export function periodicWidth(modes: number): number {
 
 /** Number of columns of a cell's features for M modes. */
 export function featureWidth(features: NetworkFeatures, modes: number): number {
-  return features.kind === 'fourier' ? 2 * modes : modes;
+  return (features.kind === 'fourier' ? 2 * modes : modes) + (features.extra?.count ?? 0);
 }
 
 /** Row-major [n, width] arrays of a cell's features (header) and their x-derivatives. */
@@ -76,6 +79,15 @@ export function cellFeatureArrays(x: ArrayLike<number>, features: NetworkFeature
         v[o] = c;
         dx[o] = -k * s;
         dxx[o] = -k * k * c;
+      }
+    }
+    if (features.extra) {
+      const e = features.extra.at(x[i]);
+      const o = i * w + w - features.extra.count;
+      for (let c = 0; c < features.extra.count; c++) {
+        v[o + c] = e.v[c];
+        dx[o + c] = e.dx[c];
+        dxx[o + c] = e.dxx[c];
       }
     }
   }

@@ -51,6 +51,12 @@ export interface NetworkFeatures {
   /** 'fourier': sin and cos(k_m x); 'cosine': cos(k_m x) (zero slope at both walls). */
   kind: 'fourier' | 'cosine';
   waveNumber(m: number): number;
+  /**
+   * Further input columns that obey the same boundary condition, after the modes: a film's wall
+   * profiles (the shape of each wall's surface field, narrower than any mode the networks get).
+   * Values and x-derivatives at one point; absent: none.
+   */
+  extra?: { count: number; at(x: number): { v: number[]; dx: number[]; dxx: number[] } };
 }
 
 export interface Cell {
