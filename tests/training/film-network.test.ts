@@ -74,14 +74,15 @@ describe('film network features', () => {
 
 describe('film network training', () => {
   it('a warm-started film run with asymmetric walls reproduces φA of the film reference; its checkpoint evaluates the same', async () => {
+    // Half a bulk period (D = 3.71 Rg at χN = 15) between an A- and a B-preferring wall: one A and one B layer.
     const config = trainConfigSchema.parse({
       version: 2,
       kind: 'train',
       system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
-      cell: { kind: 'film', thickness: H, walls, nx: 32, ns: 60 },
-      networks: { field: { hidden: [12], fourierModes: 6 }, propagator: { hidden: [10, 10], fourierModes: 6 } },
-      collocation: { nx: 32, nodesPerBlock: 16, random: 0 },
-      warmStart: { type: 'reference', adamSteps: 200, learningRate: 0.01 },
+      cell: { kind: 'film', thickness: 1.9, walls, nx: 16, ns: 60 },
+      networks: { field: { hidden: [12], fourierModes: 4 }, propagator: { hidden: [10, 10], fourierModes: 4 } },
+      collocation: { nx: 16, nodesPerBlock: 16, random: 0 },
+      warmStart: { type: 'reference', adamSteps: 1000, learningRate: 0.01 },
       training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: 16, secondOrder: { strategy: 'alternating', cycles: 2, evaluateEvery: 4 } },
     });
     const dir = join(mkdtempSync(join(tmpdir(), 'mesofield-film-net-')), 'run');
@@ -89,7 +90,9 @@ describe('film network training', () => {
     expect(r.reference.cell.kind).toBe('film');
     expect(r.network.cell.kind).toBe('film');
     expect(r.metrics.phase).toBe('lamellar');
-    expect(r.metrics.errors.phiA.relativeL2).toBeLessThan(2e-2);
+    // Measured 1.8e-2 with these settings (a short run on a coarse grid; configs/film-asymmetric-chiN15.train.json is the full one).
+    expect(r.metrics.errors.phiA.relativeL2).toBeLessThan(3e-2);
+    expect(Math.abs(r.metrics.errors.freeEnergyError)).toBeLessThan(5e-2);
     // The A-preferring bottom wall holds A, the B-preferring top wall B, in the network as in the reference.
     const n = r.network.phi.A.length;
     expect(r.network.phi.A[0]).toBeGreaterThan(0.5);
