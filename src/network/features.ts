@@ -11,6 +11,17 @@
  * Propagator networks add one contour column σ = (s − a)/Δ (a, Δ: start and length of the
  * piece's contour interval), with ∂σ/∂s = 1/Δ and no x-dependence.
  *
+ * Exact reflecting walls (a film, physics/cell/film-cell.ts): the network sees z only through
+ *     [cos(k_1 z), cos(k_2 z), …, cos(k_M z)],   k_m = π m / H,
+ * each even about z = 0 and z = H, so every output (an MLP of these) is even about both walls
+ * and has ∂/∂z = 0 there: the zero-flux condition of the reference, by construction (the cosine
+ * basis of the film's spectral solver, used as network inputs in the manner of Dong & Ni's
+ * periodic features). Derivative channels: ∂z cos(kz) = −k sin(kz), ∂zz cos(kz) = −k² cos(kz).
+ * A film adds two columns after the modes, the shape of each wall's surface field (film-cell.ts,
+ * wallProfiles): the fields and propagators vary near a preferential wall on the scale of its
+ * range, finer than the modes carry. Which features a network gets is the cell's choice
+ * (Cell.features): one place.
+ *
  * Soft periodicity (propagator networks only; the field network keeps the exact features):
  * the network sees x through one scaled column ξ = 2x/L − 1 (ξ ∈ [−1, 1) on the cell), so
  * nothing ties u(0, s) to u(L, s) and the `periodicity` loss term has to. Derivative
@@ -21,49 +32,91 @@
  */
 import type { Tf } from '../autodiff/tf.js';
 import { Jet } from '../autodiff/jet.js';
+import type { Cell, NetworkFeatures } from '../physics/cell/cell.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+
+/** What the networks need from a cell: its length, its features and its surface field at points. */
+export type FeatureCell = Pick<Cell, 'length' | 'features' | 'surfaceFieldAt'>;
+
+/** The periodic cell of length L, for callers that give only a period (its grid size does not matter here). */
+export function periodicFeatureCell(period: number): FeatureCell {
+  return new PeriodicCell(period, 4, 1);
+}
 
 /** Number of columns of the periodic features for M modes. */
 export function periodicWidth(modes: number): number {
   return 2 * modes;
 }
 
-/** Row-major [n, 2M] arrays of the features and their x-derivatives. */
-export function periodicFeatureArrays(x: ArrayLike<number>, period: number, modes: number) {
+/** Number of columns of a cell's features for M modes. */
+export function featureWidth(features: NetworkFeatures, modes: number): number {
+  return (features.kind === 'fourier' ? 2 * modes : modes) + (features.extra?.count ?? 0);
+}
+
+/** Row-major [n, width] arrays of a cell's features (header) and their x-derivatives. */
+export function cellFeatureArrays(x: ArrayLike<number>, features: NetworkFeatures, modes: number) {
   const n = x.length;
-  const w = periodicWidth(modes);
+  const fourier = features.kind === 'fourier';
+  const w = featureWidth(features, modes);
   const v = new Float64Array(n * w);
   const dx = new Float64Array(n * w);
   const dxx = new Float64Array(n * w);
   for (let i = 0; i < n; i++) {
     for (let m = 1; m <= modes; m++) {
-      const k = (2 * Math.PI * m) / period;
+      const k = features.waveNumber(m);
       const s = Math.sin(k * x[i]);
       const c = Math.cos(k * x[i]);
-      const o = i * w + 2 * (m - 1);
-      v[o] = s;
-      v[o + 1] = c;
-      dx[o] = k * c;
-      dx[o + 1] = -k * s;
-      dxx[o] = -k * k * s;
-      dxx[o + 1] = -k * k * c;
+      if (fourier) {
+        const o = i * w + 2 * (m - 1);
+        v[o] = s;
+        v[o + 1] = c;
+        dx[o] = k * c;
+        dx[o + 1] = -k * s;
+        dxx[o] = -k * k * s;
+        dxx[o + 1] = -k * k * c;
+      } else {
+        const o = i * w + (m - 1);
+        v[o] = c;
+        dx[o] = -k * s;
+        dxx[o] = -k * k * c;
+      }
+    }
+    if (features.extra) {
+      const e = features.extra.at(x[i]);
+      const o = i * w + w - features.extra.count;
+      for (let c = 0; c < features.extra.count; c++) {
+        v[o + c] = e.v[c];
+        dx[o + c] = e.dx[c];
+        dxx[o + c] = e.dxx[c];
+      }
     }
   }
   return { v, dx, dxx, width: w };
 }
 
-/** Feature jet [n, 2M] of the points x; derivative channels only if `derivatives`. */
-export function periodicFeatures(tf: Tf, x: ArrayLike<number>, period: number, modes: number, derivatives = true): Jet {
-  const a = periodicFeatureArrays(x, period, modes);
+/** Row-major [n, 2M] arrays of the periodic features and their x-derivatives. */
+export function periodicFeatureArrays(x: ArrayLike<number>, period: number, modes: number) {
+  return cellFeatureArrays(x, periodicFeatureCell(period).features, modes);
+}
+
+/** Feature jet of the points x for a cell; derivative channels only if `derivatives`. */
+export function cellFeatures(tf: Tf, x: ArrayLike<number>, features: NetworkFeatures, modes: number, derivatives = true): Jet {
+  const a = cellFeatureArrays(x, features, modes);
   const shape: [number, number] = [x.length, a.width];
   return new Jet(tf, tf.tensor2d(f32(a.v), shape), derivatives ? tf.tensor2d(f32(a.dx), shape) : null, derivatives ? tf.tensor2d(f32(a.dxx), shape) : null, null);
+}
+
+/** Feature jet [n, 2M] of the points x in a periodic cell of length `period`. */
+export function periodicFeatures(tf: Tf, x: ArrayLike<number>, period: number, modes: number, derivatives = true): Jet {
+  return cellFeatures(tf, x, periodicFeatureCell(period).features, modes, derivatives);
 }
 
 /** How a propagator network sees x: exact periodic features, or the scaled input ξ = 2x/L − 1. */
 export type XInput = 'exact' | 'soft';
 
 /** Columns of x features of a propagator network (the contour column comes on top). */
-export function xInputWidth(modes: number, periodicity: XInput): number {
-  return periodicity === 'exact' ? periodicWidth(modes) : 1;
+export function xInputWidth(modes: number, periodicity: XInput, features: NetworkFeatures = periodicFeatureCell(1).features): number {
+  return periodicity === 'exact' ? featureWidth(features, modes) : 1;
 }
 
 /** Row-major [n, 1] arrays of ξ = 2x/L − 1 and its x-derivatives (2/L and 0 at every point). */
@@ -75,7 +128,8 @@ export function scaledInputArrays(x: ArrayLike<number>, period: number) {
 
 /**
  * Feature jet [n, w + 1] of points (x_i, s_i) for a piece on the contour interval
- * [start, start + length]: the x features (w = 2M periodic columns, or the one scaled column
+ * [start, start + length]: the x features of the cell (a number: the periodic cell of that
+ * length; w = 2M periodic or M cosine columns, or the one scaled column
  * when `periodicity` is 'soft'), then σ = (s − start)/length.
  * `ds` is the single broadcast row [0, …, 0, 1/length]; with the scaled column `dx` is the
  * broadcast row [2/L, 0] and `dxx` is null.
@@ -84,7 +138,7 @@ export function propagatorFeatures(
   tf: Tf,
   x: ArrayLike<number>,
   s: ArrayLike<number>,
-  period: number,
+  cell: number | FeatureCell,
   modes: number,
   piece: { start: number; length: number },
   derivatives = true,
@@ -92,7 +146,9 @@ export function propagatorFeatures(
 ): Jet {
   const n = x.length;
   if (s.length !== n) throw new RangeError(`x and s differ in length (${n} and ${s.length})`);
-  const a = periodicity === 'exact' ? periodicFeatureArrays(x, period, modes) : scaledInputArrays(x, period);
+  const c = typeof cell === 'number' ? periodicFeatureCell(cell) : cell;
+  const period = c.length;
+  const a = periodicity === 'exact' ? cellFeatureArrays(x, c.features, modes) : scaledInputArrays(x, period);
   const w = a.width + 1;
   const v = new Float64Array(n * w);
   const dx = new Float64Array(n * w);

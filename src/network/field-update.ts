@@ -33,8 +33,11 @@ export interface LamellarPin {
  */
 export function refitFieldsToUpdate(tf: Tf, nets: ScftNetworks, chiN: number, x: Float64Array, w: SpeciesArrays, phi: SpeciesArrays, mixing: number, fitSteps: number, learningRate: number, pin?: LamellarPin): FieldUpdateResult {
   if (!nets.field) return { residual: 0, fitLoss: 0 };
-  const { w: target, residual } = mixedFieldUpdate(nets.chain, chiN, w, phi, mixing);
-  if (pin && nets.chain.species.length === 2) pinLamellarPhase(target, new PeriodicCell(nets.length, target.A.length, pin.periods), pin.phase);
+  // The networks' cell on this grid: a film's surface field enters the update (physics/scft-equations.ts).
+  const cell = nets.cell.withPoints(x.length);
+  const { w: target, residual } = mixedFieldUpdate(nets.chain, chiN, w, phi, mixing, cell);
+  // Only a cell with a translation symmetry has a phase to pin (walls fix a film's).
+  if (pin && nets.chain.species.length === 2 && cell.translation) pinLamellarPhase(target, new PeriodicCell(nets.length, target.A.length, pin.periods), pin.phase);
   const fit = warmStart(tf, nets, { x, w: target, chiN }, fitSteps, learningRate, undefined, nets.field.parameters);
   return { residual, fitLoss: fit.finalLoss };
 }
@@ -74,7 +77,7 @@ export class FieldUpdater {
     const { tf, nets, settings: st } = this;
     if (!nets.field) return { residual: 0, fitLoss: 0 };
     const sol = networkSolution(tf, nets, this.system, { periods: st.periods, nx: st.nx, nodesPerBlock: st.nodesPerBlock, placeInConvention: false });
-    this.pin ??= { periods: st.periods, phase: lamellarPhase(sol.w, st.periods).phase };
-    return refitFieldsToUpdate(tf, nets, this.system.chiN, sol.x, sol.w, sol.phi, st.mixing, st.fitSteps, st.learningRate, this.pin);
+    if (nets.cell.translation) this.pin ??= { periods: st.periods, phase: lamellarPhase(sol.w, st.periods).phase };
+    return refitFieldsToUpdate(tf, nets, this.system.chiN, sol.x, sol.w, sol.phi, st.mixing, st.fitSteps, st.learningRate, this.pin ?? undefined);
   }
 }

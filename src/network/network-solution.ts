@@ -1,11 +1,12 @@
 /**
  * A trained network as an ScftSolution on a given grid, so it is judged exactly like the
- * reference: φ by Simpson quadrature in float64 of the network propagators (evaluated in
+ * reference: in the networks' cell (periodic or film), φ by Simpson quadrature in float64 of the network propagators (evaluated in
  * float32) on `nodesPerBlock` nodes per block, Q = mean q(x, 1), w from the field network
  * (or the prescribed fields), F from physics/scft-equations.ts.
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
 import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import type { Cell } from '../physics/cell/cell.js';
 import { contourFromSteps, densitiesFromPropagators } from '../physics/contour.js';
 import { externalFields } from '../physics/fields.js';
 import type { SpeciesArrays } from '../physics/fields.js';
@@ -54,7 +55,8 @@ export interface NetworkSolutionOptions {
 
 export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, opts: NetworkSolutionOptions): ScftSolution {
   const t0 = performance.now();
-  const cell = new PeriodicCell(nets.length, opts.nx, opts.periods);
+  // The networks' own cell on nx points (a periodic cell holding opts.periods lamellar periods).
+  const cell: Cell = nets.cell.kind === 'periodic' ? new PeriodicCell(nets.length, opts.nx, opts.periods) : nets.cell.withPoints(opts.nx);
   const x = cell.x;
   const steps = nets.chain.blocks.map(() => opts.nodesPerBlock);
   const contour = contourFromSteps(nets.chain, steps);

@@ -1,5 +1,6 @@
 /**
- * Propagator network for q(x, s), s ∈ [0, 1] the contour variable, x in Rg, L-periodic.
+ * Propagator network for q(x, s), s ∈ [0, 1] the contour variable, x in Rg, obeying the cell's
+ * boundary condition through its features (features.ts: L-periodic, or even about a film's walls).
  *
  * Hard initial condition (SCFT-NOTES.md, "Neural-network solution"): the network gives
  *     u(x, s) = ln q(x, s),   q = exp(u) > 0,   u(x, 0) = 0 exactly,
@@ -30,15 +31,18 @@
 import type * as TfModule from '@tensorflow/tfjs';
 import type { PropagatorNetworkConfig } from '../io/schemas/network-schema.js';
 import type { Tf } from '../autodiff/tf.js';
-import { propagatorFeatures, xInputWidth } from './features.js';
+import { periodicFeatureCell, propagatorFeatures, xInputWidth } from './features.js';
+import type { FeatureCell } from './features.js';
 import { concatRows, Jet } from '../autodiff/jet.js';
 import { Mlp } from '../autodiff/mlp.js';
 import { ParameterSet } from '../autodiff/parameters.js';
 import { childSeed } from '../numerics/random.js';
 
 export interface PropagatorNetOptions {
-  /** Cell length L in Rg. */
-  period: number;
+  /** Periodic cell length L in Rg (when no `cell` is given). */
+  period?: number;
+  /** The cell whose features the network uses. */
+  cell?: FeatureCell;
   /** Block boundaries 0 = s_0 < s_1 < … < s_K = 1 (chain order of this propagator). */
   blocks: number[];
   /** Output channels (1 for a single propagator). */
@@ -87,13 +91,20 @@ export class PropagatorNet {
   readonly pieces: Piece[];
   readonly parameters: ParameterSet;
   readonly outputs: number;
+  readonly cell: FeatureCell;
 
   constructor(
     readonly tf: Tf,
     readonly config: PropagatorNetworkConfig,
     readonly options: PropagatorNetOptions,
   ) {
-    if (!(options.period > 0)) throw new RangeError(`period must be > 0, got ${options.period}`);
+    if (options.cell) this.cell = options.cell;
+    else {
+      if (!(options.period! > 0)) throw new RangeError(`period must be > 0, got ${options.period}`);
+      this.cell = periodicFeatureCell(options.period!);
+    }
+    // Soft periodicity replaces the periodic features by a scaled x: it has no meaning between walls.
+    if (config.periodicity === 'soft' && this.cell.features.kind !== 'fourier') throw new RangeError('soft periodicity needs a periodic cell');
     const b = options.blocks;
     if (b.length < 2 || b[0] !== 0 || b[b.length - 1] !== 1 || b.some((v, i) => i > 0 && !(v > b[i - 1]))) {
       throw new RangeError(`blocks must rise strictly from 0 to 1, got [${b}]`);
@@ -104,7 +115,7 @@ export class PropagatorNet {
     this.pieces = [];
     for (let k = 0; k + 1 < bounds.length; k++) {
       const mlp = new Mlp(tf, {
-        inputs: xInputWidth(config.fourierModes, config.periodicity) + 1,
+        inputs: xInputWidth(config.fourierModes, config.periodicity, this.cell.features) + 1,
         hidden: config.hidden,
         outputs: this.outputs,
         activation: config.activation,
@@ -145,7 +156,7 @@ export class PropagatorNet {
       lastPiece = k;
       members[k].push(i);
     }
-    const L = this.options.period;
+    const L = this.cell;
     const M = this.config.fourierModes;
     const xin = this.config.periodicity;
     const batches: Batch[] = [];

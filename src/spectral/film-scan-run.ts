@@ -10,7 +10,7 @@ import type { WallsDescription } from '../physics/cell/cell.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
 import { InputError } from '../io/errors.js';
 import { defaultContourSteps, defaultFilmPoints } from './resolution.js';
-import { predictTerraces, scanThickness } from './thickness-scan.js';
+import { analyseThickness, scanThickness } from './thickness-scan.js';
 import type { TerracePrediction, ThicknessPoint, ThicknessScan } from './thickness-scan.js';
 
 export interface FilmScanRequest {
@@ -50,15 +50,19 @@ export function runFilmScan(req: FilmScanRequest): FilmScanResult {
   const ns = req.ns === 'auto' ? defaultContourSteps(chain, req.system.chiN) : req.ns;
   const thicknesses = Array.from({ length: req.points }, (_, i) => req.from + ((req.to - req.from) * i) / (req.points - 1));
   const scan = scanThickness({ system: req.system, walls: req.walls, thicknesses, nx, ns, options: req.options, onPoint: req.onPoint });
-  const mean = req.meanThickness;
-  const terraces = mean !== undefined && mean >= req.from && mean <= req.to && scan.stable.length > 0 ? predictTerraces(scan, mean) : undefined;
+  const { terraces } = analyseThickness(scan.points, req.meanThickness);
   return { ...scan, nx, ns, ...(terraces ? { terraces } : {}), seconds: (performance.now() - t0) / 1000 };
 }
 
 /** The scan as text lines: F(H) table, minima, stable thicknesses, terraces. */
 export function filmScanText(r: FilmScanResult): string[] {
+  return thicknessScanLines(r, `F(H) at ${r.points.length} thicknesses on one grid (${r.nx} points × ${r.ns} contour steps), ${r.seconds.toFixed(1)} s:`);
+}
+
+/** F(H) as text under a heading (a scan's or a sweep's): the table, minima, hull and terraces. */
+export function thicknessScanLines(r: ThicknessScan & { terraces?: TerracePrediction }, heading: string): string[] {
   const g = (v: number, d = 6) => String(+v.toPrecision(d));
-  const lines = [`F(H) at ${r.points.length} thicknesses on one grid (${r.nx} points × ${r.ns} contour steps), ${r.seconds.toFixed(1)} s:`, '  H (Rg)    F (kT/chain)    F·H (kT ρ₀Rg/N)   layers'];
+  const lines = [heading, '  H (Rg)    F (kT/chain)    F·H (kT ρ₀Rg/N)   layers'];
   for (const p of r.points) lines.push(`  ${g(p.thickness, 5).padEnd(9)} ${g(p.freeEnergy, 9).padEnd(15)} ${g(p.freeEnergyPerArea, 9).padEnd(17)} ${p.layers || '–'}${p.converged ? '' : ' (NOT CONVERGED)'}`);
   lines.push(r.minima.length ? `minima of F per chain: ${r.minima.map((m) => `H = ${g(m.thickness, 5)} Rg (${m.layers}, F = ${g(m.freeEnergy, 9)})`).join('; ')}` : 'minima of F per chain: none inside the scanned range');
   lines.push(`thicknesses on the lower convex hull of F per area (what a film may split into): ${r.stable.map((h) => g(h, 5)).join(', ')} Rg`);

@@ -66,7 +66,20 @@ export function scanThickness(req: ThicknessScanRequest): ThicknessScan {
     if (r.solution.converged) last = r.solution.w;
     req.onPoint?.(p, points.length, hs.length);
   }
-  return { points, minima: minimaOf(points), stable: lowerHull(points) };
+  return analyseThickness(points);
+}
+
+/**
+ * F(H) points (any order; solved here or by a sweep with a thickness axis) as a scan: sorted by
+ * H, its minima and its lower hull, and the terrace prediction for a mean thickness inside the
+ * range when one is given. The one analysis of F(H) (`solve --thickness-scan`, `sweep`).
+ */
+export function analyseThickness(unsorted: ThicknessPoint[], meanThickness?: number): ThicknessScan & { terraces?: TerracePrediction } {
+  const points = [...unsorted].sort((a, b) => a.thickness - b.thickness);
+  const scan: ThicknessScan = { points, minima: minimaOf(points), stable: lowerHull(points) };
+  const ok = points.filter((p) => p.converged);
+  const inside = meanThickness !== undefined && ok.length > 0 && meanThickness >= ok[0].thickness && meanThickness <= ok[ok.length - 1].thickness;
+  return inside && scan.stable.length > 0 ? { ...scan, terraces: predictTerraces(scan, meanThickness) } : scan;
 }
 
 /** Local minima of F(H) among converged points, refined by the parabola through each minimum and its neighbours. */

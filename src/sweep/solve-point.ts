@@ -12,6 +12,9 @@ import type { SweepPoint } from './grid.js';
 import { pointSolveConfig } from './grid.js';
 
 export interface SweepPointResult extends SweepPoint {
+  /** A film sweep only: F per area (kT ρ₀Rg/N; null when failed) and the layers from the bottom wall. */
+  freeEnergyPerArea?: number | null;
+  layers?: string;
   /** "lamellar", "disordered", or "failed" when the solve threw. */
   phase: string;
   /** Equilibrium (or given) period; null when disordered at every trial period or failed. */
@@ -38,10 +41,11 @@ const finiteOrNull = (v: number | undefined): number | null => (v !== undefined 
 export function solveSweepPoint(config: SweepConfig, point: SweepPoint): SweepPointResult {
   const t0 = performance.now();
   try {
-    const { solution, search } = solveFromConfig(pointSolveConfig(config, point));
+    const { solution, search, film } = solveFromConfig(pointSolveConfig(config, point));
     const s = summarize(solution);
     return {
       ...point,
+      ...(point.thickness !== undefined ? { freeEnergyPerArea: film ? finiteOrNull(film.freeEnergyPerArea) : null, layers: film?.layers.sequence ?? '' } : {}),
       phase: s.phase,
       period: search ? finiteOrNull(search.period) : s.period,
       periodTolerance: finiteOrNull(search?.periodTolerance),
@@ -64,6 +68,7 @@ export function solveSweepPoint(config: SweepConfig, point: SweepPoint): SweepPo
     if (!(e instanceof RunFailure)) throw e;
     return {
       ...point,
+      ...(point.thickness !== undefined ? { freeEnergyPerArea: null, layers: '' } : {}),
       phase: 'failed',
       period: null,
       periodTolerance: null,

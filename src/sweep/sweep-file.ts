@@ -33,10 +33,15 @@ const CSV_COLUMNS = [
   'seconds',
 ] as const;
 
+/** The columns a film sweep adds after segmentRatio. */
+const FILM_COLUMNS = ['thickness', 'affinityBottom', 'affinityTop', 'freeEnergyPerArea', 'layers'] as const;
+
 /** One row per point; String(number) is the shortest text that reads back to the same float64. */
 export function pointsCsv(points: SweepPointResult[]): string {
-  const rows = [CSV_COLUMNS.join(',')];
-  for (const p of points) rows.push(CSV_COLUMNS.map((c) => (p[c] === null ? '' : String(p[c]))).join(','));
+  const film = points.some((p) => p.thickness !== undefined);
+  const columns: (keyof SweepPointResult)[] = film ? [...CSV_COLUMNS.slice(0, 4), ...FILM_COLUMNS, ...CSV_COLUMNS.slice(4)] : [...CSV_COLUMNS];
+  const rows = [columns.join(',')];
+  for (const p of points) rows.push(columns.map((c) => (p[c] === null || p[c] === undefined ? '' : String(p[c]))).join(','));
   return `${rows.join('\n')}\n`;
 }
 

@@ -42,13 +42,6 @@ export async function evaluateCheckpoint(dir: string, backend: BackendKind = 'au
   const { file, weights } = loadCheckpoint(tf, dir);
   const config = file.config;
   const chain = buildChain(config.system.chain);
-  const nets = buildScftNetworks(tf, config, chain, file.length, !config.system.externalField);
-  try {
-    nets.parameters.loadNamedWeights(splitWeights(weights).params);
-  } catch (e) {
-    nets.dispose();
-    throw new InputError(`${dir}: checkpoint does not match its own config: ${(e as Error).message}`);
-  }
   // Start the fresh reference from the one saved at training time: a symmetric lamella has
   // two equivalent phases (A and B swapped), and the comparison must use the same one.
   const saved = join(dir, 'reference.json');
@@ -56,10 +49,16 @@ export async function evaluateCheckpoint(dir: string, backend: BackendKind = 'au
     const f = loadJsonFile(saved, solutionFileSchema);
     return { A: Float64Array.from(f.grid.wA), B: Float64Array.from(f.grid.wB) };
   })() : undefined;
-  const ref = solveFromConfig(
-    { system: config.system, cell: { kind: 'periodic', period: file.length / file.periods, periods: file.periods, nx: config.cell.nx, ns: config.cell.ns }, solver: config.solver, output: { propagators: true } },
-    { initial },
-  );
+  // A periodic run is judged at the period it trained in; a film at its configured thickness.
+  const cell = config.cell.kind === 'periodic' ? { kind: 'periodic' as const, period: file.length / file.periods, periods: file.periods, nx: config.cell.nx, ns: config.cell.ns } : config.cell;
+  const ref = solveFromConfig({ system: config.system, cell, solver: config.solver, output: { propagators: true } }, { initial });
+  const nets = buildScftNetworks(tf, config, chain, ref.solution.cell, !config.system.externalField);
+  try {
+    nets.parameters.loadNamedWeights(splitWeights(weights).params);
+  } catch (e) {
+    nets.dispose();
+    throw new InputError(`${dir}: checkpoint does not match its own config: ${(e as Error).message}`);
+  }
   const { network, errors } = evaluateNetworks(tf, nets, config, ref.solution, true);
   const problem = new ScftProblem(tf, nets, config.system, config.collocation);
   const freshResiduals = problem.freshResiduals(seed, 1024);

@@ -186,10 +186,12 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
   // own φ, the lamella's phase pinned where it started (physics/translation.ts: the translation
   // mode is a zero mode of the iteration), and the field network fitted to it by LM.
   const twoSpecies = nets.chain.species.length === 2;
-  const pinPhase = nets.field && twoSpecies ? lamellarPhase(sys.state(theta).w, settings.periods).phase : null;
+  // A film has no translation mode (its walls fix the layers): nothing to pin there.
+  const pinPhase = nets.field && twoSpecies && nets.cell.translation ? lamellarPhase(sys.state(theta).w, settings.periods).phase : null;
+  const gridCell = nets.cell.withPoints(sys.nx);
   const fieldStep = () => {
     const { phi, w } = sys.state(theta);
-    const { w: target } = mixedFieldUpdate(nets.chain, system.chiN, w, phi, settings.fieldMixing);
+    const { w: target } = mixedFieldUpdate(nets.chain, system.chiN, w, phi, settings.fieldMixing, gridCell);
     if (pinPhase !== null) pinLamellarPhase(target, new PeriodicCell(nets.length, sys.nx, settings.periods), pinPhase);
     const fit = sys.fieldFit(theta, target);
     const r = levenbergMarquardt(fit, theta.slice(fit.first, fit.first + fit.size), { maxIterations: FIELD_FIT_ITERATIONS, damping: settings.damping });

@@ -141,7 +141,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const singleChain = Boolean(config.system.externalField);
 
   stage('reference solve');
-  const cell = resumed ? { ...config.cell, period: resumed.file.length / resumed.file.periods } : config.cell;
+  // A resumed periodic run keeps the checkpoint's period (a film's thickness is in its config).
+  const cell = resumed && config.cell.kind === 'periodic' ? { ...config.cell, period: resumed.file.length / resumed.file.periods } : config.cell;
   const ref = solveFromConfig({ system: config.system, cell, solver: config.solver, output: { propagators: true } });
   const reference = ref.solution;
   if (!reference.converged) throw new RunFailure(`reference: the spectral solve did not converge (${reference.notes.join('; ')})`);
@@ -149,7 +150,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     throw new InputError(`system: the reference is disordered at χN = ${config.system.chiN} (below the order–disorder transition): there is no lamella to learn`);
   }
   const length = reference.length;
-  const nets = buildScftNetworks(tf, config, chain, length, !singleChain);
+  // The networks live in the reference's cell: a periodic cell, or a film (cosine features, its walls' surface field).
+  const nets = buildScftNetworks(tf, config, chain, reference.cell, !singleChain);
   const adam = new Adam(tf, nets.parameters);
   let state: LoopState = { step: 0, lossWeights: unitWeights(), history: [], bestTotal: Infinity, secondsBefore: 0 };
   const training: Partial<TrainMetrics['training']> = {};

@@ -26,7 +26,7 @@ describe('film measurement commands', () => {
     r = runCli(['invert', prof, '--f', '0.5', '--film', '5']);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--film: the film is 5 Rg thick, but the φA data span 11 Rg/);
-    r = runCli(['synth', '--film', '4', '--f', '0.5', '--chiN', '15', '--measure', 'reflectivity', '--rg-nm', '5', '--sld', '6,1,2.07,0']);
+    r = runCli(['synth', '--film', '20', '--f', '0.5', '--chiN', '15', '--measure', 'reflectivity', '--rg-nm', '5', '--sld', '6,1,2.07,0']);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--noise: got 0/);
     expect(r.stderr).not.toMatch(/\n\s+at /);

@@ -4,6 +4,9 @@ import { basename, join } from 'node:path';
 import { InputError, RunFailure } from '../../io/errors.js';
 import { loadJsonFile } from '../../io/load-json.js';
 import { sweepConfigSchema } from '../../io/schemas/sweep-config.js';
+import type { SweepConfig } from '../../io/schemas/sweep-config.js';
+import { thicknessScanLines } from '../../spectral/film-scan-run.js';
+import { filmSweepScans } from '../../sweep/film-sweep.js';
 import { mergeShards } from '../../sweep/merge.js';
 import { runSweep } from '../../sweep/run-sweep.js';
 import { formatIndices, parseShard } from '../../sweep/shard.js';
@@ -26,11 +29,23 @@ interface SweepFlags {
 
 const fixed = (v: number | null, digits: number) => (v === null ? '—' : v.toFixed(digits));
 
-function tableText(points: SweepPointResult[]): string {
-  const head = ['index', 'χN', 'f', 'b_A/b_B', 'phase', 'period/Rg', 'F/kT', 'F_dis/kT', 'iterations'];
-  const rows = points.map((p) => [String(p.index), String(p.chiN), String(p.f), String(p.segmentRatio), p.phase, fixed(p.period, 6), fixed(p.freeEnergy, 10), fixed(p.freeEnergyDisordered, 6), String(p.totalIterations ?? '—')]);
+function tableText(points: SweepPointResult[], config: Pick<SweepConfig, 'cell'>): string {
+  const film = points.some((p) => p.thickness !== undefined);
+  const head = film
+    ? ['index', 'χN', 'f', 'b_A/b_B', 'H/Rg', 'Λ_bottom', 'Λ_top', 'phase', 'layers', 'F/kT', 'F·H', 'F_dis/kT', 'iterations']
+    : ['index', 'χN', 'f', 'b_A/b_B', 'phase', 'period/Rg', 'F/kT', 'F_dis/kT', 'iterations'];
+  const rows = points.map((p) =>
+    film
+      ? [String(p.index), String(p.chiN), String(p.f), String(p.segmentRatio), String(p.thickness), String(p.affinityBottom), String(p.affinityTop), p.phase, p.layers || '—', fixed(p.freeEnergy, 10), fixed(p.freeEnergyPerArea ?? null, 8), fixed(p.freeEnergyDisordered, 6), String(p.totalIterations ?? '—')]
+      : [String(p.index), String(p.chiN), String(p.f), String(p.segmentRatio), p.phase, fixed(p.period, 6), fixed(p.freeEnergy, 10), fixed(p.freeEnergyDisordered, 6), String(p.totalIterations ?? '—')],
+  );
   const widths = head.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c].length)));
-  return `${[head, ...rows].map((r) => r.map((v, c) => v.padStart(widths[c])).join('  ')).join('\n')}\n`;
+  const table = `${[head, ...rows].map((r) => r.map((v, c) => v.padStart(widths[c])).join('  ')).join('\n')}\n`;
+  // A film sweep over thickness: each F(H) with its minima, hull and terraces, as solve --thickness-scan prints them.
+  const scans = filmSweepScans(config, points).map((sc) =>
+    thicknessScanLines(sc, `F(H) at χN = ${sc.chiN}, f = ${sc.f}, b_A/b_B = ${sc.segmentRatio}, affinities ${sc.affinityBottom},${sc.affinityTop} (${sc.points.length} thicknesses):`).join('\n'),
+  );
+  return scans.length ? `${table}\n${scans.join('\n\n')}\n` : table;
 }
 
 function failure(failed: SweepPointResult[], total: number, file: string): RunFailure {
@@ -40,7 +55,7 @@ function failure(failed: SweepPointResult[], total: number, file: string): RunFa
 export function registerSweep(program: Command): void {
   program
     .command('sweep')
-    .description('reference solves over a grid of χN, f and b_A/b_B: the whole grid, one shard of it (--shard), or a merge of shard outputs (--merge)')
+    .description('reference solves over a grid of χN, f and b_A/b_B (and a film\'s thickness and wall affinities): the whole grid, one shard of it (--shard), or a merge of shard outputs (--merge)')
     .argument('[config]', 'sweep config JSON (kind "sweep")')
     .option('--shard <I/N>', 'solve shard I of N (the points with index % N = I − 1), e.g. one per array job')
     .option('--workers <k>', 'worker threads solving points at once (default: min(2, cores))')
@@ -66,7 +81,7 @@ export function registerSweep(program: Command): void {
             return { table, written: claimed!.write(tableFiles(table)) };
           });
           say(`merged ${table.shards.length} shard files (${table.totalPoints} points): wrote ${written.join(', ')}`);
-          process.stdout.write(flags.json ? `${JSON.stringify(table, null, 2)}\n` : tableText(table.points));
+          process.stdout.write(flags.json ? `${JSON.stringify(table, null, 2)}\n` : tableText(table.points, table.config));
           const failed = table.points.filter((p) => !p.converged);
           if (failed.length) throw failure(failed, table.totalPoints, written[1]);
           return;
@@ -89,14 +104,14 @@ export function registerSweep(program: Command): void {
           onPoint: (p, s) => {
             const rate = s.solved / s.seconds;
             progress.update(
-              `point ${s.done}/${s.total} (χN = ${p.chiN}, f = ${p.f}, b_A/b_B = ${p.segmentRatio}): ${p.phase} | ${rate.toFixed(2)} points/s | ${formatDuration((s.total - s.done) / rate)} left`,
+              `point ${s.done}/${s.total} (χN = ${p.chiN}, f = ${p.f}, b_A/b_B = ${p.segmentRatio}${p.thickness !== undefined ? `, H = ${p.thickness} Rg, affinities ${p.affinityBottom},${p.affinityTop}` : ''}): ${p.phase} | ${rate.toFixed(2)} points/s | ${formatDuration((s.total - s.done) / rate)} left`,
               s.done === s.total,
             );
           },
         })).finally(uninstall);
         if (r.status !== 'skipped') progress.done(`shard ${shard.index}/${shard.count}: ${r.shard.points.length} points on ${workers} worker${workers > 1 ? 's' : ''}; wrote ${r.written.join(', ')}`);
         const out = r.table ?? r.shard;
-        process.stdout.write(flags.json ? `${JSON.stringify(out, null, 2)}\n` : tableText(out.points));
+        process.stdout.write(flags.json ? `${JSON.stringify(out, null, 2)}\n` : tableText(out.points, config));
         if (r.failed.length) throw failure(r.failed, r.shard.points.length, r.shardFile);
       }),
     );

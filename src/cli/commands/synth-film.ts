@@ -1,4 +1,9 @@
-/** `synth --film`: a synthetic film measurement (φA or SLD depth profile, or R(Q)) and its truth. */
+/**
+ * `synth --film`: a synthetic film measurement (φA or SLD depth profile, or R(Q)) and its truth.
+ * Lengths (--film, --offset, --resolution) are in the units of the data it writes, as
+ * `invert --film` and `reflectivity` read them: nm with --rg-nm (Rg = R nm), else Rg.
+ * --wall-range is a parameter of the model and stays in Rg everywhere.
+ */
 import { InputError, asInputError } from '../../io/errors.js';
 import { formatText } from '../../io/formats/file-format.js';
 import { filmSynthTruthSchema } from '../../io/formats/film.js';
@@ -45,18 +50,21 @@ export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
   if (!kind) throw new InputError(`--measure: got ${JSON.stringify(flags.measure)}; allowed: phi, sld, reflectivity`);
   const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
   const chiN = need('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 200, 'a number in (0, 200]');
-  const thickness = need('--film', numberFlag('--film', flags.film), (v) => v > 0 && v <= 500, 'a thickness in Rg, in (0, 500]');
+  // Lengths in the data's units (one convention with invert --film and reflectivity): nm with --rg-nm, else Rg.
+  const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0 && v < 1000, 'Rg in nm, a number > 0');
+  const unit = rgNm === undefined ? 'Rg' : 'nm';
+  const scale = rgNm ?? 1;
+  const thickness = need('--film', numberFlag('--film', flags.film), (v) => v > 0 && v / scale <= 500, `a thickness in ${unit}, in (0, ${500 * scale}]`) / scale;
   const [bottom, top] = numberList('--affinity', flags.affinity, 2, '1,-0.5 (bottom, top)')!;
   const points = need('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
   const noise = need('--noise', numberFlag('--noise', flags.noise), (v) => v >= 0 && v < 1, kind === 'reflectivity' ? 'the relative error of R, in (0, 1)' : kind === 'sld' ? 'the SLD noise in 10⁻⁶ Å⁻², in [0, 1)' : 'a standard deviation of φA in [0, 1)');
   if (kind === 'reflectivity' && !(noise > 0)) throw new InputError('--noise: got 0; a reflectivity curve needs its relative error dR/R > 0 (e.g. 0.05): a fit weighs each point by dR');
   const seed = need('--seed', numberFlag('--seed', flags.seed), (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'an integer in [0, 4294967295]');
-  const offset = need('--offset', numberFlag('--offset', flags.offset), Number.isFinite, 'a position in Rg');
-  const width = need('--resolution', numberFlag('--resolution', flags.resolution), (v) => v >= 0 && v < thickness / 4, 'an interface width in Rg, ≥ 0 and below a quarter of the thickness');
+  const offset = need('--offset', numberFlag('--offset', flags.offset), Number.isFinite, `a position in ${unit}`) / scale;
+  const width = need('--resolution', numberFlag('--resolution', flags.resolution), (v) => v >= 0 && v / scale < thickness / 4, `an interface width in ${unit}, ≥ 0 and below a quarter of the thickness`) / scale;
   const nx = need('--nx', numberFlag('--nx', flags.nx), (v) => Number.isInteger(v) && v >= 8 && (v & (v - 1)) === 0, 'a power of two ≥ 8');
   const ns = need('--ns', numberFlag('--ns', flags.ns), (v) => Number.isInteger(v) && v >= 4, 'an integer ≥ 4');
   const wallRange = need('--wall-range', numberFlag('--wall-range', flags.wallRange), (v) => v > 0 && v <= 5, 'a range in Rg, in (0, 5]');
-  const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
   const sld = sldFlag(flags.sld);
   if (kind !== 'phi' && !sld) throw new InputError(`--sld: missing; --measure ${kind} needs the SLDs of A, B, the substrate and the medium in 10⁻⁶ Å⁻² (e.g. 6.0,1.0,2.07,0)`);
   if (kind === 'reflectivity' && rgNm === undefined) throw new InputError('--rg-nm: missing; --measure reflectivity needs Rg in nm (Q is in Å⁻¹)');
@@ -96,6 +104,6 @@ export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
       return;
     }
     const written = out.write({ [SYNTH_PROFILE]: files.csv, [SYNTH_TRUTH]: formatText(filmSynthTruthSchema, { ...files.truth, provenance: provenance() }) });
-    if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (film ${thickness} Rg, χN = ${chiN}, layers ${files.truth.layers})\n`);
+    if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (film ${+(thickness * scale).toPrecision(6)} ${unit}${rgNm ? ` = ${+thickness.toPrecision(6)} Rg` : ''}, χN = ${chiN}, layers ${files.truth.layers})\n`);
   });
 }

@@ -103,7 +103,7 @@ export function registerTrain(program: Command): void {
           else {
             process.stdout.write(
               [
-                `trained ${m.reference.chain}, χN = ${m.reference.chiN}, period ${formatNumber(m.reference.period, 6)} Rg on ${m.backend} (tfjs ${m.tfjs})${m.sharedPropagator ? ', one propagator network for q and q†' : ''}`,
+                `trained ${m.reference.chain}, χN = ${m.reference.chiN}, ${m.reference.periods === 0 ? `film of thickness ${formatNumber(m.reference.length, 6)} Rg` : `period ${formatNumber(m.reference.period, 6)} Rg`} on ${m.backend} (tfjs ${m.tfjs})${m.sharedPropagator ? ', one propagator network for q and q†' : ''}`,
                 `φA relative L2 error ${fmt(m.errors.phiA.relativeL2)} (max ${fmt(m.errors.phiA.maxError)}), wA − wB relative L2 ${fmt(m.errors.exchangeField.relativeL2)}`,
                 `Q relative error ${fmt(m.errors.QRelativeError)}, F error ${fmt(m.errors.freeEnergyError)} kT/chain (network ${m.network.freeEnergy.toFixed(6)}, reference ${m.reference.freeEnergy.toFixed(6)})`,
                 ...(m.training.transfer ? transferLines(m.training.transfer, m.training.transferredFrom!.checkpoint) : []),

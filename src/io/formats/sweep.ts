@@ -19,6 +19,12 @@ export const pointResultSchema = z
     chiN: num,
     f: num,
     segmentRatio: num,
+    /** A film sweep only: thickness H (Rg), the walls' affinities for A, F per area (kT ρ₀Rg/N) and the layers from the bottom wall ('' when failed). */
+    thickness: num.optional(),
+    affinityBottom: num.optional(),
+    affinityTop: num.optional(),
+    freeEnergyPerArea: maybe.optional(),
+    layers: z.string().optional(),
     /** "lamellar", "disordered", or "failed" when the solve threw. */
     phase: z.string(),
     period: maybe,

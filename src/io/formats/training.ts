@@ -148,9 +148,10 @@ export const checkpointFileSchema = z
     ...formatHeader('checkpoint', CHECKPOINT_VERSION),
     provenance: networkProvenanceSchema,
     config: trainConfigSchema,
-    /** Cell length L in Rg the networks were built for (features depend on it). */
+    /** Cell length L (a film's thickness H) in Rg the networks were built for (features depend on it). */
     length: z.number().gt(0),
-    periods: z.number().int().min(1),
+    /** Lamellar periods in a periodic cell; 0 for a film (its walls, not periods, fix the layers). */
+    periods: z.number().int().min(0),
     step: z.number().int().min(0),
     stage: z.enum(['warm-start', 'adam', 'lbfgs', 'second-order', 'done']),
     /** The state the weights hold (final checkpoints): the best one kept, not necessarily the last. */

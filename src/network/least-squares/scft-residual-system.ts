@@ -8,7 +8,8 @@
  *                     it bounds, each side with its own D and w) × the cell grid x_j,
  *                     for q and for q† (once when they share a network); N the point count
  *   incompressibility √(w_inc/nx) · (φ_A + φ_B − 1)(x_j)              (one species: φ_K − 1)
- *   selfConsistency   √(w_sc/nx) · (w_A − w_B − χN (φ_B − φ_A))(x_j) / max(1, χN)
+ *   selfConsistency   √(w_sc/nx) · (w_A − w_B − χN (φ_B − φ_A) + 2h)(x_j) / max(1, χN)
+ *                     (h: a film's surface field, 0 in a periodic cell)
  *   gauge             √w_g · mean_j (w_A + w_B)/2 / max(1, χN)         (one species: mean w_K)
  * with φ from physics/contour.ts (Simpson weights, densitiesFromPropagators) on the same
  * tensor grid, and the field network's w (or the prescribed field of a single chain). The
@@ -30,7 +31,6 @@
 import { InputError } from '../../io/errors.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
 import type { Chain } from '../../physics/chain.js';
-import { PeriodicCell } from '../../physics/cell/periodic-cell.js';
 import { contourFromSteps, densitiesFromPropagators } from '../../physics/contour.js';
 import type { Contour } from '../../physics/contour.js';
 import { fieldAtPoints } from '../../physics/fields.js';
@@ -39,7 +39,7 @@ import type { Mlp } from '../../autodiff/mlp.js';
 import type { ResidualGroup } from '../../numerics/grouped-normal-equations.js';
 import type { LeastSquaresProblem } from '../../numerics/levenberg-marquardt.js';
 import type { SpeciesArrays } from '../../physics/fields.js';
-import { periodicFeatureArrays } from '../features.js';
+import { cellFeatureArrays } from '../features.js';
 import type { LossValues } from '../losses/terms.js';
 import type { ScftNetworks } from '../scft-networks.js';
 
@@ -109,8 +109,12 @@ export class ScftResidualSystem {
   private readonly field: JetMlp64 | null;
   private readonly fieldFirst: number;
   private readonly fieldCount: number;
-  private readonly featX: ReturnType<typeof periodicFeatureArrays>;
-  private readonly featField: ReturnType<typeof periodicFeatureArrays> | null;
+  private readonly featX: ReturnType<typeof cellFeatureArrays>;
+  private readonly featField: ReturnType<typeof cellFeatureArrays> | null;
+  /** The field network's surface-field offsets (−h, +h) on the grid, or null. */
+  private readonly fieldOffset: Float64Array[] | null;
+  /** A film's surface field h on the grid, or null. */
+  private readonly surfaceField: Float64Array | null;
   private readonly chiN: number;
   private readonly mdePoints: number;
 
@@ -125,14 +129,16 @@ export class ScftResidualSystem {
     if (prop.initialCondition !== 'exact') throw new InputError(`networks.propagator.initialCondition: got "soft"; the second-order phase needs "exact"`);
     this.size = nets.parameters.size;
     this.nx = grid.nx;
-    this.x = new PeriodicCell(nets.length, grid.nx, 1, 'training.secondOrder.nx').x;
+    this.x = nets.cell.withPoints(grid.nx).x;
     this.chiN = system.chiN;
     this.shared = nets.shared;
-    this.featX = periodicFeatureArrays(this.x, nets.length, prop.fourierModes);
+    this.surfaceField = nets.cell.surfaceFieldAt(this.x);
+    this.fieldOffset = nets.field ? nets.field.offsetAt(this.x) : null;
+    this.featX = cellFeatureArrays(this.x, nets.cell.features, prop.fourierModes);
     this.field = nets.field ? jetOf(nets, nets.field.mlp) : null;
     this.fieldFirst = this.field ? this.field.offset : 0;
     this.fieldCount = this.field ? this.field.size : 0;
-    this.featField = nets.field ? periodicFeatureArrays(this.x, nets.length, nets.field.config.fourierModes) : null;
+    this.featField = nets.field ? cellFeatureArrays(this.x, nets.cell.features, nets.field.config.fourierModes) : null;
     const steps = (c: Chain) => c.blocks.map(() => grid.nodesPerBlock);
     const makeSide = (name: Side['name'], chain: Chain): Side => {
       const net = name === 'q' ? nets.q : nets.qDagger;
@@ -269,8 +275,8 @@ export class ScftResidualSystem {
     const seed = new Float64Array(4 * 2);
     for (let j = 0; j < nx; j++) {
       const y = mlp.forward(theta, { v: f.v.subarray(j * f.width, (j + 1) * f.width), dx: null, dxx: null, ds: null }, 'value');
-      w[0][j] = y[0];
-      w[1][j] = y[1];
+      w[0][j] = y[0] + (this.fieldOffset ? this.fieldOffset[0][j] : 0);
+      w[1][j] = y[1] + (this.fieldOffset ? this.fieldOffset[1][j] : 0);
       if (!dw) continue;
       for (let c = 0; c < 2; c++) {
         seed.fill(0);
@@ -433,7 +439,7 @@ export class ScftResidualSystem {
     for (let j = 0; j < nx; j++) {
       if (two) {
         inc[j] = phi.A[j] + phi.B[j] - 1;
-        sc[j] = wA[j] - wB[j] - chiN * (phi.B[j] - phi.A[j]);
+        sc[j] = wA[j] - wB[j] - chiN * (phi.B[j] - phi.A[j]) + (this.surfaceField ? 2 * this.surfaceField[j] : 0);
         gauge += 0.5 * (wA[j] + wB[j]);
       } else {
         inc[j] = phi[only][j] - 1;

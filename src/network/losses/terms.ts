@@ -54,7 +54,7 @@ export function initialTerm(tf: Tf, uq0: Tensor, uqDagger0: Tensor): Scalar {
  * The field equations on the x grid from the grid densities and the field network's w_A,
  * w_B ([1, nx] each); `species` are those of the chain (one or two).
  */
-export function fieldEquationTerms(tf: Tf, species: readonly Species[], chiN: number, dens: GridDensities, wA: Tensor, wB: Tensor, zero: Scalar): FieldEquationTerms {
+export function fieldEquationTerms(tf: Tf, species: readonly Species[], chiN: number, dens: GridDensities, wA: Tensor, wB: Tensor, zero: Scalar, surfaceField: Tensor | null = null): FieldEquationTerms {
   if (species.length === 1) {
     const only = species[0];
     const phi = only === 'A' ? dens.phiA : dens.phiB;
@@ -62,7 +62,7 @@ export function fieldEquationTerms(tf: Tf, species: readonly Species[], chiN: nu
   }
   return {
     incompressibility: incompressibilityLoss(tf, dens.phiA, dens.phiB),
-    selfConsistency: selfConsistencyLoss(tf, chiN, wA, wB, dens.phiA, dens.phiB),
+    selfConsistency: selfConsistencyLoss(tf, chiN, wA, wB, dens.phiA, dens.phiB, surfaceField),
     gauge: gaugeLoss(tf, chiN, wA, wB),
   };
 }

@@ -13,6 +13,7 @@ import type { Tf } from '../../autodiff/tf.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
 import type { Chain } from '../../physics/chain.js';
 import { fieldAtPoints } from '../../physics/fields.js';
+import { InputError } from '../../io/errors.js';
 import { blockAt } from '../../physics/contour.js';
 import type { PropagatorNet, PropagatorPoints } from '../propagator-net.js';
 import type { ScftNetworks } from '../scft-networks.js';
@@ -57,6 +58,7 @@ export function preparePointSet(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
   let prescribedW: TfModule.Tensor | null = null;
   if (!nets.field) {
     const ext = system.externalField;
+    if (ext && nets.cell.kind !== 'periodic') throw new InputError(`system.externalField: prescribed fields are read in a periodic cell; got cell.kind "${nets.cell.kind}" (allowed: a self-consistent melt in a film)`);
     const wA = ext?.A ? fieldAtPoints(ext.A, nets.length, x) : new Float64Array(n);
     const wB = ext?.B ? fieldAtPoints(ext.B, nets.length, x) : new Float64Array(n);
     prescribedW = tf.keep(tf.tensor2d(Float32Array.from(wA, (v, i) => (mA[i] ? v : wB[i])), [n, 1]));

@@ -233,6 +233,6 @@ export class ScftProblem {
     const w = nets.field.forward(grid.fieldFeatures!).v;
     const wA = tf.reshape(tf.slice(w, [0, 0], [-1, 1]), [1, nx]);
     const wB = tf.reshape(tf.slice(w, [0, 1], [-1, 1]), [1, nx]);
-    return { ...own, ...fieldEquationTerms(tf, nets.chain.species, this.chiN, dens, wA, wB, zero) };
+    return { ...own, ...fieldEquationTerms(tf, nets.chain.species, this.chiN, dens, wA, wB, zero, grid.surfaceField) };
   }
 }

@@ -1,6 +1,7 @@
 /**
  * The fixed points of one SCFT problem, prepared once:
- *   - a tensor grid per propagator, the cell's grid x_j = jL/nx (j < nx) × the contour nodes
+ *   - a tensor grid per propagator, the cell's grid (x_j = jL/nx, j < nx, periodic; the cell
+ *     centres of a film) × the contour nodes
  *     of physics/contour.ts (nodesPerBlock Simpson intervals per block), laid out s-major (row i holds the nx points at node s_i); it carries
  *     both the MDE residual and the quadrature of φ (losses/densities.ts), so one forward
  *     pass with derivative channels gives every term;
@@ -13,7 +14,6 @@ import type * as TfModule from '@tensorflow/tfjs';
 import type { Jet } from '../../autodiff/jet.js';
 import type { Tf } from '../../autodiff/tf.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
-import { PeriodicCell } from '../../physics/cell/periodic-cell.js';
 import { contourFromSteps } from '../../physics/contour.js';
 import type { Contour } from '../../physics/contour.js';
 import type { PropagatorNet, PropagatorPoints } from '../propagator-net.js';
@@ -30,6 +30,8 @@ export class TensorGrid {
   readonly weightsA: TfModule.Tensor;
   readonly weightsB: TfModule.Tensor;
   readonly fieldFeatures: Jet | null;
+  /** A film's surface field h at the grid's x, [1, nx] (the self-consistency term), or null. */
+  readonly surfaceField: TfModule.Tensor | null;
   readonly q: PointSet;
   readonly qDagger: PointSet;
   /** Soft periodicity: the points (0, s_i) then (L, s_i) at the grid's contour nodes, per propagator. */
@@ -38,7 +40,9 @@ export class TensorGrid {
   constructor(tf: Tf, nets: ScftNetworks, system: SystemSpec, nx: number, nodesPerBlock: number) {
     this.nodes = contourFromSteps(nets.chain, nets.chain.blocks.map(() => nodesPerBlock), 'collocation.nodesPerBlock');
     this.nodesReversed = contourFromSteps(nets.reversed, nets.reversed.blocks.map(() => nodesPerBlock), 'collocation.nodesPerBlock');
-    this.x = new PeriodicCell(nets.length, nx, 1, 'collocation').x;
+    this.x = nets.cell.withPoints(nx).x;
+    const h = nets.cell.surfaceFieldAt(this.x);
+    this.surfaceField = h ? tf.keep(tf.tensor2d(Float32Array.from(h), [1, nx])) : null;
     this.nx = nx;
     const nn = this.nodes.s.length;
     const xs = new Float64Array(nn * nx);
@@ -74,6 +78,7 @@ export class TensorGrid {
     this.weightsA.dispose();
     this.weightsB.dispose();
     this.fieldFeatures?.dispose();
+    this.surfaceField?.dispose();
     this.ends?.q.dispose();
     this.ends?.qDagger.dispose();
   }

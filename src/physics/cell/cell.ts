@@ -51,6 +51,12 @@ export interface NetworkFeatures {
   /** 'fourier': sin and cos(k_m x); 'cosine': cos(k_m x) (zero slope at both walls). */
   kind: 'fourier' | 'cosine';
   waveNumber(m: number): number;
+  /**
+   * Further input columns that obey the same boundary condition, after the modes: a film's wall
+   * profiles (the shape of each wall's surface field, narrower than any mode the networks get).
+   * Values and x-derivatives at one point; absent: none.
+   */
+  extra?: { count: number; at(x: number): { v: number[]; dx: number[]; dxx: number[] } };
 }
 
 export interface Cell {
@@ -90,5 +96,7 @@ export interface Cell {
   readonly features: NetworkFeatures;
   /** For a film: the walls' surface field h(x) (kT per chain; it lowers w_A and raises w_B by h); null: none. */
   readonly surfaceField: Float64Array | null;
+  /** The same surface field at arbitrary points x (Rg), e.g. a network's collocation points; null: none. */
+  surfaceFieldAt(x: ArrayLike<number>): Float64Array | null;
   describe(): CellDescription;
 }

@@ -55,10 +55,34 @@ export class FilmCell implements Cell {
     const dz = length / n;
     this.x = Float64Array.from({ length: n }, (_, j) => (j + 0.5) * dz);
     this.mirror = new PeriodicCell(2 * length, 2 * n, 1, field);
-    this.features = { kind: 'cosine', waveNumber: (m) => (Math.PI * m) / length };
-    const g = (z: number) => (Math.sqrt(2 / Math.PI) / walls.range) * Math.exp(-(z * z) / (2 * walls.range * walls.range));
-    const { bottom, top } = walls;
-    this.surfaceField = bottom.affinity !== 0 || top.affinity !== 0 ? Float64Array.from(this.x, (z) => bottom.affinity * g(z) + top.affinity * g(length - z)) : null;
+    this.features = { kind: 'cosine', waveNumber: (m) => (Math.PI * m) / length, extra: { count: 2, at: (z) => this.wallProfiles(z) } };
+    this.surfaceField = this.surfaceFieldAt(this.x);
+  }
+
+  /**
+   * The shape of each wall's surface field as network inputs, p_b(z) = exp(−z²/2λ²) and
+   * p_t(z) = exp(−(H − z)²/2λ²), with z-derivatives. Each is even about its own wall and its
+   * slope at the other wall is (H/λ²)·exp(−H²/2λ²), below float64 resolution for H > 10λ
+   * (and under 1e-3 for H ≥ 5λ): the networks' outputs keep zero slope at both walls.
+   * Given with neutral walls too, so the networks' shape does not depend on the affinities.
+   */
+  private wallProfiles(z: number): { v: number[]; dx: number[]; dxx: number[] } {
+    const l2 = this.walls.range * this.walls.range;
+    const one = (d: number, sign: number) => {
+      const e = Math.exp(-(d * d) / (2 * l2));
+      return { v: e, dx: (sign * -d * e) / l2, dxx: ((d * d) / l2 - 1) * (e / l2) };
+    };
+    const b = one(z, 1);
+    const t = one(this.length - z, -1);
+    return { v: [b.v, t.v], dx: [b.dx, t.dx], dxx: [b.dxx, t.dxx] };
+  }
+
+  /** h(z) of the header at points z (Rg); null with two neutral walls. */
+  surfaceFieldAt(z: ArrayLike<number>): Float64Array | null {
+    const { bottom, top, range } = this.walls;
+    if (bottom.affinity === 0 && top.affinity === 0) return null;
+    const g = (d: number) => (Math.sqrt(2 / Math.PI) / range) * Math.exp(-(d * d) / (2 * range * range));
+    return Float64Array.from(z, (v) => bottom.affinity * g(v) + top.affinity * g(this.length - v));
   }
 
   /** The even extension: u_0 … u_{n−1}, u_{n−1} … u_0 on the mirror cell's grid (shifted by half a step). */

@@ -95,6 +95,10 @@ export class PeriodicCell implements Cell {
   readonly translation: TranslationMode;
   readonly features: NetworkFeatures;
   readonly surfaceField = null;
+
+  surfaceFieldAt(): null {
+    return null;
+  }
   private readonly field: string;
 
   /**
