@@ -17,6 +17,7 @@
  * count once per block they bound).
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
+import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftNetworks } from '../network/scft-networks.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
@@ -24,7 +25,8 @@ import type { ResidualPart } from '../network/least-squares/scft-residual-system
 import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
 import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
-import { mixedFieldUpdate } from '../physics/scft-equations.js';
+import { fieldDeviation, fixGauge } from '../physics/scft-equations.js';
+import { AndersonMixer } from '../spectral/anderson-mixer.js';
 import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
 import { PeriodicCell } from '../physics/cell/periodic-cell.js';
 
@@ -51,8 +53,16 @@ export interface SecondOrderSettings {
   cycles: number;
   /** Joint iterations after the alternating cycles (on top of `iterations`). */
   jointIterations: number;
-  /** λ of the field step's simple-mixing update w + λ d (physics/scft-equations.ts). */
+  /** λ of the field step's update: w + λ d (simple), or x̄ + λ d̄ (Anderson). */
   fieldMixing: number;
+  /**
+   * The field step between cycles: 'simple' mixing w + λ d, or 'anderson' mixing over the
+   * cycles' (w, d) pairs on the grid (spectral/anderson-mixer.ts), so the outer SCFT
+   * iteration converges like the reference solver's instead of at the simple-mixing rate.
+   */
+  fieldStep: 'simple' | 'anderson';
+  /** Pairs kept by the Anderson field step. */
+  andersonHistory: number;
   /** Lamellar periods in the cell (the harmonic whose phase the field step pins). */
   periods: number;
 }
@@ -77,7 +87,16 @@ export interface SecondOrderRecord {
   phiError?: number;
 }
 
+export interface FieldStepReport {
+  cycle: number;
+  /** max |d| (kT) of the networks' SCFT deviation before the step. */
+  residual: number;
+  /** RMS of the field network's misfit to the step's target (kT) after the refit. */
+  fitRms: number;
+}
+
 export interface SecondOrderHooks {
+  onFieldStep?: (r: FieldStepReport) => void;
   /** φ_A relative L2 error of the networks as they are now (their tfjs variables). */
   evaluate?: () => number;
   shouldStop?: () => boolean;
@@ -179,14 +198,30 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
   // mode is a zero mode of the iteration), and the field network fitted to it by LM.
   const twoSpecies = nets.chain.species.length === 2;
   const pinPhase = nets.field && twoSpecies ? lamellarPhase(sys.state(theta).w, settings.periods).phase : null;
+  const mixer = new AndersonMixer(settings.fieldStep === 'anderson' ? settings.andersonHistory : 0, settings.fieldMixing);
+  const onChain = nets.chain.species;
+  let cycle = 0;
   const fieldStep = () => {
     const { phi, w } = sys.state(theta);
-    const { w: target } = mixedFieldUpdate(nets.chain, system.chiN, w, phi, settings.fieldMixing);
-    if (pinPhase !== null) pinLamellarPhase(target, new PeriodicCell(nets.length, sys.nx, settings.periods), pinPhase);
+    const { deviation, residual } = fieldDeviation(nets.chain, system.chiN, w, phi);
+    // x = (w_K) and d = (d_K) over the species on the chain, concatenated on the grid.
+    const nx = sys.nx;
+    const flat = (u: SpeciesArrays) => {
+      const out = new Float64Array(onChain.length * nx);
+      onChain.forEach((k, i) => out.set(u[k], i * nx));
+      return out;
+    };
+    const next = mixer.next(flat(w), flat(deviation));
+    const target: SpeciesArrays = { A: new Float64Array(nx), B: new Float64Array(nx) };
+    onChain.forEach((k, i) => target[k].set(next.subarray(i * nx, (i + 1) * nx)));
+    fixGauge(nets.chain, target);
+    if (pinPhase !== null) pinLamellarPhase(target, new PeriodicCell(nets.length, nx, settings.periods), pinPhase);
     const fit = sys.fieldFit(theta, target);
     const r = levenbergMarquardt(fit, theta.slice(fit.first, fit.first + fit.size), { maxIterations: FIELD_FIT_ITERATIONS, damping: settings.damping });
     theta = Float64Array.from(theta);
     theta.set(r.x, fit.first);
+    // fieldFit's cost is ½ Σ_c,j (w − target)² / (species · nx): its RMS is √(2 cost).
+    hooks.onFieldStep?.({ cycle: ++cycle, residual, fitRms: Math.sqrt(2 * r.cost) });
   };
 
   if (!stopped) {

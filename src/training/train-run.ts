@@ -317,11 +317,14 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         cycles: tr.secondOrder.cycles,
         jointIterations: tr.secondOrder.jointIterations,
         fieldMixing: tr.fieldMixing,
+        fieldStep: tr.secondOrder.fieldStep,
+        andersonHistory: tr.secondOrder.andersonHistory,
         periods: reference.periods,
       },
       {
         evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
         shouldStop: opts.shouldStop,
+        onFieldStep: (f) => stage(`second-order field step ${f.cycle}: SCFT deviation max |d| ${f.residual.toExponential(2)} kT, field refit RMS ${f.fitRms.toExponential(2)} kT`),
         onProgress: opts.onSecondOrder ?? ((p) => stage(`second-order ${p.iteration}/${p.iterations}: loss ${p.loss.toExponential(3)}, μ ${p.mu.toExponential(2)}${p.phiError !== undefined ? `, φA error ${p.phiError.toExponential(3)}` : ''}`)),
         onRecord: (rec) =>
           loop.state.history.push({
