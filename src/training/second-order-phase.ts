@@ -89,6 +89,8 @@ export interface SecondOrderRecord {
 
 export interface FieldStepReport {
   cycle: number;
+  /** LM iterations done before the step. */
+  afterIteration: number;
   /** max |d| (kT) of the networks' SCFT deviation before the step. */
   residual: number;
   /** RMS of the field network's misfit to the step's target (kT) after the refit. */
@@ -112,6 +114,8 @@ export interface SecondOrderResult {
   seconds: number;
   /** The kept state: lowest reference error when evaluated, else lowest loss. */
   best: { iteration: number; loss: number; phiError?: number };
+  /** The field steps of the alternating strategy, in order. */
+  fieldSteps: FieldStepReport[];
   /** First iteration (and seconds) at which the reference error fell below the target. */
   reachedTarget?: { iteration: number; seconds: number };
 }
@@ -201,6 +205,7 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
   const mixer = new AndersonMixer(settings.fieldStep === 'anderson' ? settings.andersonHistory : 0, settings.fieldMixing);
   const onChain = nets.chain.species;
   let cycle = 0;
+  const fieldSteps: FieldStepReport[] = [];
   const fieldStep = () => {
     const { phi, w } = sys.state(theta);
     const { deviation, residual } = fieldDeviation(nets.chain, system.chiN, w, phi);
@@ -221,7 +226,9 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
     theta = Float64Array.from(theta);
     theta.set(r.x, fit.first);
     // fieldFit's cost is ½ Σ_c,j (w − target)² / (species · nx): its RMS is √(2 cost).
-    hooks.onFieldStep?.({ cycle: ++cycle, residual, fitRms: Math.sqrt(2 * r.cost) });
+    const report = { cycle: ++cycle, afterIteration: done, residual, fitRms: Math.sqrt(2 * r.cost) };
+    fieldSteps.push(report);
+    hooks.onFieldStep?.(report);
   };
 
   if (!stopped) {
@@ -251,6 +258,7 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
     reason: stopped ?? lastReason,
     seconds: seconds(),
     best: { iteration: best.iteration, loss: best.loss, ...(best.phiError !== undefined ? { phiError: best.phiError } : {}) },
+    fieldSteps,
     ...(reachedTarget ? { reachedTarget } : {}),
   };
 }

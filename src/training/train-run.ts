@@ -341,7 +341,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
           }),
       },
     );
-    training.secondOrder = { iterations: so.iterations, finalLoss: so.loss, reason: so.reason, seconds: so.seconds, best: so.best };
+    training.secondOrder = { iterations: so.iterations, finalLoss: so.loss, reason: so.reason, seconds: so.seconds, best: so.best, ...(so.fieldSteps.length > 0 ? { fieldSteps: so.fieldSteps } : {}) };
     last = { stage: 'second-order', step: loop.state.step, secondOrderIterations: so.best.iteration };
     offer({ ...last, phiError: so.best.phiError });
     if (so.reachedTarget) training.reachedTarget = { step: loop.state.step, seconds: trainingSeconds() - so.seconds + so.reachedTarget.seconds, secondOrderIterations: so.reachedTarget.iteration };
