@@ -170,6 +170,7 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
     return loss > settings.lossTolerance;
   };
 
+  const lastMu = new Map<ResidualPart, number>();
   /** LM on one part: the whole system, or one propagator's columns in the current fields. */
   const solvePart = (part: ResidualPart, iterations: number) => {
     const { first, count } = part === 'all' ? { first: 0, count: sys.size } : sys.columnsOf(part);
@@ -191,8 +192,12 @@ export function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: 
         },
       },
       theta.slice(first, first + count),
-      { maxIterations: iterations, damping: settings.damping, onIteration: (it, xs) => record(it.mu, embed(xs)) },
+      // Each part resumes from the damping its previous solve ended with: after a field step
+      // the problem is a nearby one, and restarting from τ·max diag(JᵀJ) would spend the
+      // first iterations of every cycle re-learning μ.
+      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) },
     );
+    if (Number.isFinite(r.mu)) lastMu.set(part, r.mu);
     theta = embed(r.x);
     lastReason = r.reason;
   };
