@@ -63,7 +63,7 @@ export async function runPropagatorFloorBench(): Promise<void> {
     nets,
     config.system,
     config.losses.weights,
-    { iterations, nx, nodesPerBlock, damping: 'marquardt', evaluateEvery: 5, lossTolerance: 0, strategy: 'alternating', cycles: 1, jointIterations: 0, fieldMixing: 0.5, fieldStep: 'simple', andersonHistory: 1, periods: reference.periods },
+    { iterations, nx, nodesPerBlock, damping: 'marquardt', evaluateEvery: 5, lossTolerance: 0, strategy: 'alternating', cycles: 1, firstCycleIterations: 0, jointIterations: 0, fieldMixing: 0.5, fieldStep: 'simple', andersonHistory: 1, periods: reference.periods },
     {
       evaluate: () => evaluate().phiA.relativeL2,
       onProgress: (p) => {

@@ -315,6 +315,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         lossTolerance: tr.secondOrder.lossTolerance,
         strategy: tr.secondOrder.strategy,
         cycles: tr.secondOrder.cycles,
+        firstCycleIterations: tr.secondOrder.firstCycleIterations,
         jointIterations: tr.secondOrder.jointIterations,
         fieldMixing: tr.fieldMixing,
         fieldStep: tr.secondOrder.fieldStep,

@@ -38,7 +38,7 @@ async function run(fieldStep: 'anderson' | 'simple') {
     nets,
     config.system,
     config.losses.weights,
-    { iterations: 48, nx: 24, nodesPerBlock: 16, damping: 'marquardt', evaluateEvery: 0, lossTolerance: 0, strategy: 'alternating', cycles: 6, jointIterations: 0, fieldMixing: 0.5, fieldStep, andersonHistory: 8, periods: reference.periods },
+    { iterations: 48, nx: 24, nodesPerBlock: 16, damping: 'marquardt', evaluateEvery: 0, lossTolerance: 0, strategy: 'alternating', cycles: 6, firstCycleIterations: 0, jointIterations: 0, fieldMixing: 0.5, fieldStep, andersonHistory: 8, periods: reference.periods },
     {},
   );
   const phiError = evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2;

@@ -184,6 +184,12 @@ export const trainConfigSchema = z
             fieldStep: z.enum(['anderson', 'simple']).default('anderson'),
             /** Alternating with the Anderson field step: earlier cycles it keeps. */
             andersonHistory: z.number().int().min(1).max(50).default(8),
+            /**
+             * Alternating: LM iterations of each propagator in the first cycle, before the
+             * first field step (0: the same share of secondOrderIterations as every cycle);
+             * the other cycles share what is left.
+             */
+            firstCycleIterations: z.number().int().min(0).max(100000).default(0),
             /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
             jointIterations: z.number().int().min(0).max(100000).default(0),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */
