@@ -54,9 +54,9 @@ export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick
   }
   return {
     ...base,
-    networks: { field: { hidden: [16], seed }, propagator: { hidden: [12, 12], seed } },
+    networks: { field: { hidden: [], fourierModes: 12, seed }, propagator: { hidden: [16, 16], seed } },
     collocation: { nx: 32, nodesPerBlock: 32, random: 0 },
-    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 120, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6 } },
+    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson' } },
   };
 }
 

@@ -5,9 +5,11 @@
  * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
  * estimators), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
  * line against bare node), `--recipes` (Adam + L-BFGS against the second-order phase on five
- * systems; only when asked, it is long: see recipe-bench.ts).
+ * systems; only when asked, it is long: see recipe-bench.ts), `--propagator-floor` (the
+ * propagator networks alone in the reference's field: the floor of the second-order recipe;
+ * only when asked, see propagator-floor.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -29,6 +31,11 @@ if (want('--trainer')) {
 if (want('--inverse')) {
   const { runInverseBench } = await import('./inverse-bench.js');
   await runInverseBench();
+}
+// Opt-in only: the propagator networks alone in the reference's field (a few minutes).
+if (parts.includes('--propagator-floor')) {
+  const { runPropagatorFloorBench } = await import('./propagator-floor.js');
+  await runPropagatorFloorBench();
 }
 // Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
 if (parts.includes('--recipes')) {

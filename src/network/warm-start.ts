@@ -16,6 +16,9 @@ import type { Stepwise } from '../numerics/stepwise.js';
 import { yieldToEvents } from '../runtime/stop.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
+import { solveDense } from '../numerics/dense-solve.js';
+import { cellFeatureArrays } from './features.js';
+import type { FieldNet } from './field-net.js';
 import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
 import type { ScftNetworks } from './scft-networks.js';
 
@@ -108,6 +111,11 @@ function* warmStartSteps(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets, 
     }
   }
   adam.dispose();
+  // A field network without hidden layers is linear in its parameters: its least-squares fit
+  // is solved exactly rather than left where the Adam steps ended.
+  if (nets.field && nets.field.config.hidden.length === 0 && params.variables().includes(nets.field.mlp.layers[0].kernel)) {
+    fitLinearField(nets.field, targets.x, targets.w);
+  }
   feats?.dispose();
   wTarget?.dispose();
   for (const pt of props) {
@@ -115,4 +123,42 @@ function* warmStartSteps(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets, 
     pt.target.dispose();
   }
   return { steps: ran, finalLoss, seconds: (performance.now() - t0) / 1000, ...(interrupted ? { interrupted } : {}) };
+}
+
+/**
+ * The exact least-squares fit of a field network with no hidden layers, w_c(x) = Σ_i f_i(x) K_ic + b_c
+ * (f: its periodic features), to w on the grid x, by the normal equations in float64; the
+ * result is written to the network's (float32) variables.
+ */
+export function fitLinearField(field: FieldNet, x: Float64Array, w: SpeciesArrays): void {
+  const layer = field.mlp.layers[0];
+  // The features of the network's own cell (a film: cosines; films train hidden-layer field networks, so this fit meets periodic cells).
+  const f = cellFeatureArrays(x, field.cell.features, field.config.fourierModes);
+  const p = f.width + 1;
+  const A = Array.from({ length: p }, () => new Float64Array(p));
+  const b = [new Float64Array(p), new Float64Array(p)];
+  const row = new Float64Array(p);
+  for (let j = 0; j < x.length; j++) {
+    row.set(f.v.subarray(j * f.width, (j + 1) * f.width));
+    row[f.width] = 1;
+    for (let r = 0; r < p; r++) {
+      b[0][r] += row[r] * w.A[j];
+      b[1][r] += row[r] * w.B[j];
+      for (let c = 0; c < p; c++) A[r][c] += row[r] * row[c];
+    }
+  }
+  const coef = b.map((rhs) => solveDense(A.map((r) => Float64Array.from(r)), rhs));
+  if (!coef[0] || !coef[1]) throw new Error(`field network: ${field.config.fourierModes} Fourier modes are not determined by ${x.length} grid points`);
+  const outputs = field.options.outputs;
+  const kernel = new Float32Array(f.width * outputs);
+  const bias = new Float32Array(outputs);
+  for (let c = 0; c < Math.min(outputs, 2); c++) {
+    for (let i = 0; i < f.width; i++) kernel[i * outputs + c] = coef[c]![i];
+    bias[c] = coef[c]![f.width];
+  }
+  const tf = field.tf;
+  tf.tidy(() => {
+    layer.kernel.assign(tf.tensor2d(kernel, [f.width, outputs]));
+    layer.bias.assign(tf.tensor1d(bias));
+  });
 }

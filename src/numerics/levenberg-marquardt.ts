@@ -68,6 +68,8 @@ export interface LmOptions {
   maxIterations?: number;
   /** First μ = tau · max diag(JᵀJ). */
   tau?: number;
+  /** First μ given outright (e.g. the μ a previous solve of a nearby problem ended with); overrides tau. */
+  initialMu?: number;
   /** D = diag(JᵀJ) ('marquardt') or I ('identity'); the dual system needs 'identity'. */
   damping?: 'marquardt' | 'identity';
   /** Use the dual system when J is given and m < n ('auto'), never, or always when J is given. */
@@ -170,7 +172,7 @@ function stepSystem(lin: Linearisation, n: number, damping: 'marquardt' | 'ident
         diagonal,
         maxDiagonal,
         solve: (mu) => {
-          const Km = Float64Array.from(K);
+          const Km = K.slice();
           for (let i = 0; i < m; i++) Km[i * m + i] += mu;
           const y = choleskySolve(cholesky(Km, m), r);
           const h = transposeTimes(J, m, n, y);
@@ -215,7 +217,7 @@ function normalSystem(lin: NormalLinearisation, n: number, damping: 'marquardt' 
     diagonal,
     maxDiagonal,
     solve: (mu) => {
-      const M = Float64Array.from(A);
+      const M = A.slice();
       for (let i = 0; i < n; i++) M[i * n + i] += mu * D[i];
       const minusG = Float64Array.from(g, (v) => -v);
       return choleskySolve(cholesky(M, n), minusG);
@@ -256,7 +258,7 @@ export function* levenbergMarquardtSteps(problem: LeastSquaresProblem, x0: Float
   const tolF = options.costTolerance ?? 0;
   const maxRejections = options.maxRejections ?? 30;
   let x = Float64Array.from(x0);
-  let mu = Number.NaN;
+  let mu = options.initialMu !== undefined && options.initialMu > 0 ? options.initialMu : Number.NaN;
   let nu = 2;
   let cost = Number.NaN;
   for (let it = 1; it <= maxIterations; it++) {

@@ -17,6 +17,7 @@
  * count once per block they bound).
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
+import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftNetworks } from '../network/scft-networks.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
@@ -25,7 +26,8 @@ import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js'
 import { levenbergMarquardt, levenbergMarquardtYielding } from '../numerics/levenberg-marquardt.js';
 import { yieldToEvents } from '../runtime/stop.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
-import { mixedFieldUpdate } from '../physics/scft-equations.js';
+import { fieldDeviation, fixGauge } from '../physics/scft-equations.js';
+import { AndersonMixer } from '../spectral/anderson-mixer.js';
 import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
 import { PeriodicCell } from '../physics/cell/periodic-cell.js';
 
@@ -50,10 +52,20 @@ export interface SecondOrderSettings {
    */
   strategy: 'alternating' | 'joint';
   cycles: number;
+  /** Alternating: LM iterations of each propagator in the first cycle (0: the same share as the other cycles). */
+  firstCycleIterations: number;
   /** Joint iterations after the alternating cycles (on top of `iterations`). */
   jointIterations: number;
-  /** λ of the field step's simple-mixing update w + λ d (physics/scft-equations.ts). */
+  /** λ of the field step's update: w + λ d (simple), or x̄ + λ d̄ (Anderson). */
   fieldMixing: number;
+  /**
+   * The field step between cycles: 'simple' mixing w + λ d, or 'anderson' mixing over the
+   * cycles' (w, d) pairs on the grid (spectral/anderson-mixer.ts), so the outer SCFT
+   * iteration converges like the reference solver's instead of at the simple-mixing rate.
+   */
+  fieldStep: 'simple' | 'anderson';
+  /** Pairs kept by the Anderson field step. */
+  andersonHistory: number;
   /** Lamellar periods in the cell (the harmonic whose phase the field step pins). */
   periods: number;
 }
@@ -78,7 +90,18 @@ export interface SecondOrderRecord {
   phiError?: number;
 }
 
+export interface FieldStepReport {
+  cycle: number;
+  /** LM iterations done before the step. */
+  afterIteration: number;
+  /** max |d| (kT) of the networks' SCFT deviation before the step. */
+  residual: number;
+  /** RMS of the field network's misfit to the step's target (kT) after the refit. */
+  fitRms: number;
+}
+
 export interface SecondOrderHooks {
+  onFieldStep?: (r: FieldStepReport) => void;
   /** φ_A relative L2 error of the networks as they are now (their tfjs variables). */
   evaluate?: () => number;
   shouldStop?: () => boolean;
@@ -94,6 +117,8 @@ export interface SecondOrderResult {
   seconds: number;
   /** The kept state: lowest reference error when evaluated, else lowest loss. */
   best: { iteration: number; loss: number; phiError?: number };
+  /** The field steps of the alternating strategy, in order. */
+  fieldSteps: FieldStepReport[];
   /** First iteration (and seconds) at which the reference error fell below the target. */
   reachedTarget?: { iteration: number; seconds: number };
 }
@@ -152,6 +177,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
     return loss > settings.lossTolerance;
   };
 
+  const lastMu = new Map<ResidualPart, number>();
   /** LM on one part: the whole system, or one propagator's columns in the current fields. */
   const solvePart = async (part: ResidualPart, iterations: number) => {
     const { first, count } = part === 'all' ? { first: 0, count: sys.size } : sys.columnsOf(part);
@@ -173,10 +199,14 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
         },
       },
       theta.slice(first, first + count),
-      { maxIterations: iterations, damping: settings.damping, onIteration: (it, xs) => record(it.mu, embed(xs)) },
+      // Each part resumes from the damping its previous solve ended with: after a field step
+      // the problem is a nearby one, and restarting from τ·max diag(JᵀJ) would spend the
+      // first iterations of every cycle re-learning μ.
+      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) },
       yieldToEvents,
       () => hooks.shouldStop?.() ?? false,
     );
+    if (Number.isFinite(r.mu)) lastMu.set(part, r.mu);
     theta = embed(r.x);
     lastReason = r.reason;
     if (r.reason === 'interrupted') stopped = 'interrupted';
@@ -189,26 +219,52 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
   // A film has no translation mode (its walls fix the layers): nothing to pin there.
   const pinPhase = nets.field && twoSpecies && nets.cell.translation ? lamellarPhase(sys.state(theta).w, settings.periods).phase : null;
   const gridCell = nets.cell.withPoints(sys.nx);
+  const mixer = new AndersonMixer(settings.fieldStep === 'anderson' ? settings.andersonHistory : 0, settings.fieldMixing);
+  const onChain = nets.chain.species;
+  let cycle = 0;
+  const fieldSteps: FieldStepReport[] = [];
   const fieldStep = () => {
     const { phi, w } = sys.state(theta);
-    const { w: target } = mixedFieldUpdate(nets.chain, system.chiN, w, phi, settings.fieldMixing, gridCell);
-    if (pinPhase !== null) pinLamellarPhase(target, new PeriodicCell(nets.length, sys.nx, settings.periods), pinPhase);
+    const { deviation, residual } = fieldDeviation(nets.chain, system.chiN, w, phi, gridCell);
+    // x = (w_K) and d = (d_K) over the species on the chain, concatenated on the grid.
+    const nx = sys.nx;
+    const flat = (u: SpeciesArrays) => {
+      const out = new Float64Array(onChain.length * nx);
+      onChain.forEach((k, i) => out.set(u[k], i * nx));
+      return out;
+    };
+    const next = mixer.next(flat(w), flat(deviation));
+    const target: SpeciesArrays = { A: new Float64Array(nx), B: new Float64Array(nx) };
+    onChain.forEach((k, i) => target[k].set(next.subarray(i * nx, (i + 1) * nx)));
+    fixGauge(nets.chain, target, gridCell);
+    if (pinPhase !== null) pinLamellarPhase(target, new PeriodicCell(nets.length, nx, settings.periods), pinPhase);
     const fit = sys.fieldFit(theta, target);
     const r = levenbergMarquardt(fit, theta.slice(fit.first, fit.first + fit.size), { maxIterations: FIELD_FIT_ITERATIONS, damping: settings.damping });
     theta = Float64Array.from(theta);
     theta.set(r.x, fit.first);
+    // fieldFit's cost is ½ Σ_c,j (w − target)² / (species · nx): its RMS is √(2 cost).
+    const report = { cycle: ++cycle, afterIteration: done, residual, fitRms: Math.sqrt(2 * r.cost) };
+    fieldSteps.push(report);
+    hooks.onFieldStep?.(report);
   };
 
   if (!stopped) {
     if (settings.strategy === 'joint') await solvePart('all', settings.iterations);
     else {
       const sides: ResidualPart[] = nets.shared ? ['q'] : ['q', 'qDagger'];
-      const perCycle = Math.max(1, Math.ceil(settings.iterations / (settings.cycles * sides.length)));
+      // A first cycle of its own length: from a warm start the fields are already near the
+      // solution, and a field step taken from propagators that are not yet converged in them
+      // moves the fields by the propagators' error (measured at f = 0.35, χN = 22: max |d|
+      // stayed near 1 kT and φ_A drifted away, docs/second-order-training.md).
+      const first = settings.firstCycleIterations > 0 ? Math.min(settings.firstCycleIterations, Math.floor(settings.iterations / sides.length)) : 0;
+      const rest = first > 0 ? settings.iterations - first * sides.length : settings.iterations;
+      const restCycles = first > 0 ? Math.max(1, settings.cycles - 1) : settings.cycles;
+      const perCycle = Math.max(1, Math.ceil(rest / (restCycles * sides.length)));
       for (let c = 0; c < settings.cycles && !stopped && done < settings.iterations; c++) {
         if (c > 0 && nets.field) fieldStep();
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
-          await solvePart(side, Math.min(perCycle, settings.iterations - done));
+          await solvePart(side, Math.min(c === 0 && first > 0 ? first : perCycle, settings.iterations - done));
         }
       }
       if (!stopped && settings.jointIterations > 0) {
@@ -226,6 +282,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
     reason: stopped ?? lastReason,
     seconds: seconds(),
     best: { iteration: best.iteration, loss: best.loss, ...(best.phiError !== undefined ? { phiError: best.phiError } : {}) },
+    fieldSteps,
     ...(reachedTarget ? { reachedTarget } : {}),
   };
 }

@@ -331,13 +331,17 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         lossTolerance: tr.secondOrder.lossTolerance,
         strategy: tr.secondOrder.strategy,
         cycles: tr.secondOrder.cycles,
+        firstCycleIterations: tr.secondOrder.firstCycleIterations,
         jointIterations: tr.secondOrder.jointIterations,
         fieldMixing: tr.fieldMixing,
+        fieldStep: tr.secondOrder.fieldStep,
+        andersonHistory: tr.secondOrder.andersonHistory,
         periods: reference.periods,
       },
       {
         evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
         shouldStop: opts.shouldStop,
+        onFieldStep: (f) => stage(`second-order field step ${f.cycle}: SCFT deviation max |d| ${f.residual.toExponential(2)} kT, field refit RMS ${f.fitRms.toExponential(2)} kT`),
         onProgress: opts.onSecondOrder ?? ((p) => stage(`second-order ${p.iteration}/${p.iterations}: loss ${p.loss.toExponential(3)}, μ ${p.mu.toExponential(2)}${p.phiError !== undefined ? `, φA error ${p.phiError.toExponential(3)}` : ''}`)),
         onRecord: (rec) =>
           loop.state.history.push({
@@ -354,7 +358,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
           }),
       },
     );
-    training.secondOrder = { iterations: so.iterations, finalLoss: so.loss, reason: so.reason, seconds: so.seconds, best: so.best };
+    training.secondOrder = { iterations: so.iterations, finalLoss: so.loss, reason: so.reason, seconds: so.seconds, best: so.best, ...(so.fieldSteps.length > 0 ? { fieldSteps: so.fieldSteps } : {}) };
     last = { stage: 'second-order', step: loop.state.step, secondOrderIterations: so.best.iteration };
     offer({ ...last, phiError: so.best.phiError });
     if (so.reachedTarget) training.reachedTarget = { step: loop.state.step, seconds: trainingSeconds() - so.seconds + so.reachedTarget.seconds, secondOrderIterations: so.reachedTarget.iteration };

@@ -116,7 +116,18 @@ export const trainMetricsSchema = z
         warmStart: z.object({ adamSteps: z.number().int().min(0), seconds: z.number(), finalLoss: z.number() }).strict().optional(),
         lbfgs: z.object({ iterations: z.number().int().min(0), finalLoss: z.number(), reason: z.string() }).strict().optional(),
         secondOrder: z
-          .object({ iterations: z.number().int().min(0), finalLoss: z.number(), reason: z.string(), seconds: z.number(), best: z.object({ iteration: z.number(), loss: z.number(), phiError: z.number().optional() }).strict() })
+          .object({
+            iterations: z.number().int().min(0),
+            finalLoss: z.number(),
+            reason: z.string(),
+            seconds: z.number(),
+            best: z.object({ iteration: z.number(), loss: z.number(), phiError: z.number().optional() }).strict(),
+            /**
+             * The alternating strategy's field steps: after which iteration, the networks' SCFT
+             * deviation max |d| (kT) before the step, and the field network's refit RMS (kT).
+             */
+            fieldSteps: z.array(z.object({ cycle: z.number().int(), afterIteration: z.number().int(), residual: z.number(), fitRms: z.number() }).strict()).optional(),
+          })
           .strict()
           .optional(),
         /** Which state the saved networks hold (the best measured, or the last). */

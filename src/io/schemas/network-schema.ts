@@ -18,8 +18,15 @@ const architectureShape = {
   seed: z.number().int().min(0).max(0xffffffff).default(1),
 };
 
-/** Network for the fields w_K(x): input features of x only. */
-export const fieldNetworkSchema = z.object(architectureShape).strict();
+/**
+ * Network for the fields w_K(x): input features of x only. With no hidden layers ([]) it is
+ * linear in the periodic features: a Fourier series of `fourierModes` modes (plus a constant),
+ * which a least-squares fit to grid values determines exactly when the grid has more than
+ * 2·fourierModes + 1 points, and which interpolates between them spectrally.
+ */
+export const fieldNetworkSchema = z
+  .object({ ...architectureShape, hidden: z.array(z.number().int().min(1).max(512)).min(0).max(12).default([32, 32, 32]) })
+  .strict();
 
 /** Network for ln q(x, s) = s·n(x, s) (or n(x, s), soft initial condition), one piece for the whole chain or one per block. */
 export const propagatorNetworkSchema = z

@@ -176,6 +176,20 @@ export const trainConfigSchema = z
             strategy: z.enum(['alternating', 'joint']).default('alternating'),
             /** Alternating: the iterations are split over this many cycles. */
             cycles: z.number().int().min(1).max(100).default(4),
+            /**
+             * Alternating: the field step between cycles, on the phase's grid: 'anderson' mixing
+             * over the cycles' fields and SCFT deviations, or 'simple' mixing w + λ d (λ:
+             * training.fieldMixing); the field network is then refitted to the new fields.
+             */
+            fieldStep: z.enum(['anderson', 'simple']).default('anderson'),
+            /** Alternating with the Anderson field step: earlier cycles it keeps. */
+            andersonHistory: z.number().int().min(1).max(50).default(8),
+            /**
+             * Alternating: LM iterations of each propagator in the first cycle, before the
+             * first field step (0: the same share of secondOrderIterations as every cycle);
+             * the other cycles share what is left.
+             */
+            firstCycleIterations: z.number().int().min(0).max(100000).default(0),
             /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
             jointIterations: z.number().int().min(0).max(100000).default(0),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */
