@@ -45,6 +45,7 @@ import { RunFailure } from '../io/errors.js';
 import { refitFieldsToUpdate } from '../network/field-update.js';
 import { warmStart } from '../network/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
+import { jointFitSeed } from './network-joint-fit.js';
 import type { ProfileData } from './profile-csv.js';
 
 export interface NetworkEstimatorSettings {
@@ -67,6 +68,17 @@ export interface NetworkEstimatorSettings {
    */
   lbfgsIterations?: number;
   lbfgsPerUpdate?: number;
+  /**
+   * 'adam-lbfgs' (default): the data-driven SCFT iteration above. 'least-squares': χN as a
+   * parameter of one least-squares problem with the SCFT residuals and the data rows, solved by
+   * Levenberg–Marquardt in float64 (network-joint-fit.ts); it reads secondOrderIterations and
+   * dataWeight, not the Adam/L-BFGS budgets.
+   */
+  strategy?: 'adam-lbfgs' | 'least-squares';
+  /** Joint LM iterations of the 'least-squares' strategy (default 25). */
+  secondOrderIterations?: number;
+  /** λ of the data rows of the 'least-squares' strategy (default 30). */
+  dataWeight?: number;
   /** Adam steps fitting each seed's networks to the starting spectral solution (default 400). */
   warmStartSteps?: number;
   /**
@@ -103,6 +115,13 @@ export interface NetworkEstimate {
   x: Float64Array;
   notes: string[];
 }
+
+/**
+ * Networks, grid and start fits of the 'least-squares' strategy (the sizes of the second-order
+ * train recipe, docs/second-order-training.md; the start iterations as measured in
+ * docs/inverse.md).
+ */
+const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 32, nodesPerBlock: 32, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 3, tau: 1e-7 };
 
 function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   const L = est.period;
@@ -162,6 +181,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   // Starting fields: the spectral solution at the starting χN in the classical cell.
   const cell = classical.solution.cell.withLength(L);
   const start = solveFixedCell({ system: { chain: s.chain, chiN: chiNStart }, cell, contour: classical.solution.contour, initial: classical.solution.w, keepPropagators: true });
+  if (!start.propagators) throw new Error('network estimator: the start solve kept no propagators');
   const t = modelFrame(data, classical);
   const matrix = Float32Array.from(cell.interpolationMatrix(t, s.resolution));
   const sig = data.sigma ?? new Float64Array(data.x.length).fill(1);
@@ -175,6 +195,21 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   const updateEvery = s.fieldUpdateEvery ?? 50;
   for (const seed of s.seeds) {
     const tr0 = performance.now();
+    if (s.strategy === 'least-squares') {
+      const run = jointFitSeed(tf, start, chiNStart, L, { t, phi: data.phi, sigma: data.sigma }, {
+        ...LEAST_SQUARES_RECIPE,
+        chain: s.chain,
+        seed,
+        iterations: s.secondOrderIterations ?? 25,
+        dataWeight: s.dataWeight ?? 30,
+        resolution: s.resolution,
+        shouldStop: stopRequested,
+        onIteration: (it, chiN) => s.onProgress?.(seed, it, s.secondOrderIterations ?? 25, chiN),
+      }, start.x);
+      if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
+      runs.push({ seed, chiN: run.chiN, trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000 });
+      continue;
+    }
     const config: TrainConfig = trainConfigSchema.parse({
       version: 2,
       kind: 'train',

@@ -47,10 +47,12 @@ export interface JointFitSettings {
   iterations: number;
   /** λ of the data rows. */
   dataWeight: number;
+  /** First LM damping of the joint problem, relative to max diag(JᵀJ). */
+  tau?: number;
   /** Gaussian resolution of the data (Rg), applied to the model before the misfit. */
   resolution: number;
   shouldStop?: () => boolean;
-  onIteration?: (iteration: number, chiN: number, cost: number) => void;
+  onIteration?: (iteration: number, chiN: number, cost: number, mu: number) => void;
 }
 
 export interface JointFitResult {
@@ -158,10 +160,11 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     let interrupted = false;
     const r = levenbergMarquardt(problem, x0, {
       maxIterations: s.iterations,
+      tau: s.tau ?? 1e-3,
       onIteration: (it, x) => {
         const chiN = x[x.length - 1];
         trajectory.push({ step: it.iteration, chiN });
-        s.onIteration?.(it.iteration, chiN, it.cost);
+        s.onIteration?.(it.iteration, chiN, it.cost, it.mu);
         if (s.shouldStop?.()) {
           interrupted = true;
           return false;
