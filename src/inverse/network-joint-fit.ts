@@ -47,6 +47,9 @@ export interface JointFitSettings {
   iterations: number;
   /** λ of the data rows. */
   dataWeight: number;
+  /** Data weight of the first stage (default: dataWeight, one stage) and the number of stages. */
+  dataWeightStart?: number;
+  stages?: number;
   /** First LM damping of the joint problem, relative to max diag(JᵀJ). */
   tau?: number;
   /** Gaussian resolution of the data (Rg), applied to the model before the misfit. */
@@ -158,20 +161,36 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     const amp0 = amplitude(sys.state(theta).phi.A);
     const trajectory = [{ step: 0, chiN: chiNStart }];
     let interrupted = false;
-    const r = levenbergMarquardt(problem, x0, {
-      maxIterations: s.iterations,
-      tau: s.tau ?? 1e-3,
-      onIteration: (it, x) => {
-        const chiN = x[x.length - 1];
-        trajectory.push({ step: it.iteration, chiN });
-        s.onIteration?.(it.iteration, chiN, it.cost, it.mu);
-        if (s.shouldStop?.()) {
-          interrupted = true;
-          return false;
-        }
-        return true;
-      },
-    });
+    // The data weight in stages, geometric from dataWeightStart down to dataWeight: a large λ
+    // first pins the ordered profile while the physics rows are still far from zero, a small
+    // one last makes the fit close to the constrained one (SCFT exactly, data best).
+    const weights = stageWeights(s.dataWeightStart ?? s.dataWeight, s.dataWeight, s.stages ?? 1);
+    let x = x0;
+    let done = 0;
+    let r = { x: x0, iterations: 0, reason: 'maxIterations' as LmStop };
+    for (const [k, lambda] of weights.entries()) {
+      const stageProblem = k === weights.length - 1 ? problem : new NetworkInverseProblem(sys, { matrix: problem.matrix, phi: data.phi, sigma: data.sigma }, chiNStart, lambda);
+      const iterations = Math.round(((k + 1) * s.iterations) / weights.length) - done;
+      if (iterations <= 0) continue;
+      const lm = levenbergMarquardt(stageProblem, x, {
+        maxIterations: iterations,
+        tau: s.tau ?? 1e-3,
+        onIteration: (it, xs) => {
+          const chiN = xs[xs.length - 1];
+          trajectory.push({ step: done + it.iteration, chiN });
+          s.onIteration?.(done + it.iteration, chiN, it.cost, it.mu);
+          if (s.shouldStop?.()) {
+            interrupted = true;
+            return false;
+          }
+          return true;
+        },
+      });
+      x = lm.x;
+      done += lm.iterations;
+      r = { x, iterations: done, reason: lm.reason };
+      if (interrupted) break;
+    }
     const { theta: thetaEnd, chiN } = problem.split(r.x);
     const eEnd = problem.evaluate(r.x);
     sys.chiN = chiN;
@@ -195,6 +214,12 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
   } finally {
     nets.dispose();
   }
+}
+
+/** λ of each stage: geometric from `first` to `last` (one stage: `last`). */
+function stageWeights(first: number, last: number, stages: number): number[] {
+  if (stages <= 1) return [last];
+  return Array.from({ length: stages }, (_, k) => first * (last / first) ** (k / (stages - 1)));
 }
 
 /**

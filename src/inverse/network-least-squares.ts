@@ -73,6 +73,11 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     if (data.matrix.length !== sys.nx * this.n) throw new RangeError(`data matrix has ${data.matrix.length} entries, expected ${sys.nx}·${this.n}`);
   }
 
+  /** The interpolation matrix of the data rows. */
+  get matrix(): Float64Array {
+    return this.data.matrix;
+  }
+
   /** θ and χN of a parameter vector. */
   split(x: Float64Array): { theta: Float64Array; chiN: number } {
     return { theta: x.subarray(0, this.sys.size), chiN: x[this.sys.size] };
