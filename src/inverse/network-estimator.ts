@@ -170,7 +170,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   if ((s.workers ?? 1) > 1 && s.seeds.length > 1) {
     const one = await estimateInSeedWorkers(data, classical, s);
     const runs = one.flatMap((e) => e.runs).sort((a, b) => a.seed - b.seed);
-    return summarise(runs, one[0], t0);
+    return summarise(runs, one[0], t0, s.strategy);
   }
   const handle = await selectBackend(s.backend);
   const tf = handle.tf;
@@ -281,17 +281,18 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
     nets.dispose();
     if (loop.reason === 'diverged') throw new RunFailure(`network estimator: seed ${seed}: ${loop.message}`);
   }
-  return summarise(runs, { chiNStart, backend: handle.backend, tfjs: handle.tfjsVersion, x: start.x }, t0);
+  return summarise(runs, { chiNStart, backend: handle.backend, tfjs: handle.tfjsVersion, x: start.x }, t0, s.strategy);
 }
 
 /** The estimate from the seeds' runs: their mean, spread and range. */
-function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart' | 'backend' | 'tfjs' | 'x'>, t0: number): NetworkEstimate {
+function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart' | 'backend' | 'tfjs' | 'x'>, t0: number, strategy: NetworkEstimatorSettings['strategy']): NetworkEstimate {
   const values = runs.map((r) => r.chiN);
   const mean = values.reduce((a, b) => a + b, 0) / values.length;
   const spread = values.length > 1 ? Math.sqrt(values.reduce((a, b) => a + (b - mean) ** 2, 0) / (values.length - 1)) : 0;
   const notes = [
     `seed spread over ${values.length} run(s): it measures how far independent trainings land apart, not the statistical error of the data; read the classical profile-likelihood interval for that`,
     `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
+    ...(strategy === 'least-squares' ? ['strategy least-squares (experimental): χN fitted with the networks as one Levenberg–Marquardt problem; in the one measured noiseless run it ended 1.3 % below the truth after 25 iterations (docs/inverse.md): use the classical estimate'] : []),
   ];
   return {
     chiN: mean,
