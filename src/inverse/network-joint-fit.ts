@@ -47,6 +47,8 @@ export interface JointFitSettings {
   iterations: number;
   /** λ of the data rows. */
   dataWeight: number;
+  /** LM iterations with χN held at the start before the χN stages (the networks settle on the physics first). */
+  holdChiNIterations?: number;
   /** Data weight of the first stage (default: dataWeight, one stage) and the number of stages. */
   dataWeightStart?: number;
   stages?: number;
@@ -165,12 +167,15 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     // first pins the ordered profile while the physics rows are still far from zero, a small
     // one last makes the fit close to the constrained one (SCFT exactly, data best).
     const weights = stageWeights(s.dataWeightStart ?? s.dataWeight, s.dataWeight, s.stages ?? 1);
+    const held = s.holdChiNIterations ?? 0;
     let x = x0;
     let done = 0;
     let r = { x: x0, iterations: 0, reason: 'maxIterations' as LmStop };
-    for (const [k, lambda] of weights.entries()) {
-      const stageProblem = k === weights.length - 1 ? problem : new NetworkInverseProblem(sys, { matrix: problem.matrix, phi: data.phi, sigma: data.sigma }, chiNStart, lambda);
-      const iterations = Math.round(((k + 1) * s.iterations) / weights.length) - done;
+    for (const [k, lambda] of [...(held > 0 ? [s.dataWeightStart ?? s.dataWeight] : []), ...weights].entries()) {
+      const stageProblem = new NetworkInverseProblem(sys, { matrix: problem.matrix, phi: data.phi, sigma: data.sigma }, chiNStart, lambda);
+      const holding = held > 0 && k === 0;
+      stageProblem.holdChiN = holding;
+      const iterations = holding ? held : held + Math.round(((k + (held > 0 ? 0 : 1)) * s.iterations) / weights.length) - done;
       if (iterations <= 0) continue;
       const lm = levenbergMarquardt(stageProblem, x, {
         maxIterations: iterations,

@@ -55,6 +55,8 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
   private readonly n: number;
   private readonly rowScale: Float64Array;
   private readonly scaleFixed: number;
+  /** When set, χN is held: its column is zero, so the step leaves it where it is. */
+  holdChiN = false;
 
   constructor(
     private readonly sys: ScftResidualSystem,
@@ -159,7 +161,7 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
       const src = fe.J.subarray(i * p, (i + 1) * p);
       const dst = J.subarray(i * cols, i * cols + p);
       for (let a = 0; a < p; a++) dst[a] = f * src[a];
-      if (i >= nx && i < 2 * nx) {
+      if (i >= nx && i < 2 * nx && !this.holdChiN) {
         const j = i - nx;
         J[i * cols + p] = -scScale * (density.phi.B[j] - density.phi.A[j]);
       }
