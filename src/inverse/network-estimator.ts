@@ -75,7 +75,7 @@ export interface NetworkEstimatorSettings {
    * dataWeight, not the Adam/L-BFGS budgets.
    */
   strategy?: 'adam-lbfgs' | 'least-squares';
-  /** Joint LM iterations of the 'least-squares' strategy (default 25). */
+  /** Joint LM iterations of the 'least-squares' strategy with χN free (default 25; 8 with χN held come first). */
   secondOrderIterations?: number;
   /** λ of the data rows of the 'least-squares' strategy (default 30). */
   dataWeight?: number;
@@ -121,7 +121,7 @@ export interface NetworkEstimate {
  * train recipe, docs/second-order-training.md; the start iterations as measured in
  * docs/inverse.md).
  */
-const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 32, nodesPerBlock: 32, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 3, tau: 1e-7 };
+const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 32, nodesPerBlock: 32, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 3, tau: 1e-7, holdChiNIterations: 8 };
 
 function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   const L = est.period;

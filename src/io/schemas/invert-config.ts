@@ -66,7 +66,7 @@ export const invertConfigSchema = z
          * residuals, Levenberg–Marquardt in float64 (docs/inverse.md).
          */
         strategy: z.enum(['adam-lbfgs', 'least-squares']).default('adam-lbfgs'),
-        /** Levenberg–Marquardt iterations of the 'least-squares' strategy. */
+        /** Levenberg–Marquardt iterations of the 'least-squares' strategy with χN free (after 8 with χN held). */
         secondOrderIterations: z.number().int().min(1).max(10000).default(25),
         /** Weight λ of the data rows beside the SCFT residuals ('least-squares'). */
         dataWeight: positive.default(30),
