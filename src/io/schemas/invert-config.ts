@@ -60,6 +60,16 @@ export const invertConfigSchema = z
         lbfgsPerUpdate: z.number().int().min(10).max(10000).default(100),
         /** χN the networks start from; default the classical estimate. */
         chiNStart: positive.optional(),
+        /**
+         * 'adam-lbfgs': the data-driven SCFT iteration (Adam, L-BFGS cycles, field/χN updates);
+         * 'least-squares': χN a parameter of one least-squares problem with the SCFT and data
+         * residuals, Levenberg–Marquardt in float64 (docs/inverse.md).
+         */
+        strategy: z.enum(['adam-lbfgs', 'least-squares']).default('adam-lbfgs'),
+        /** Levenberg–Marquardt iterations of the 'least-squares' strategy with χN free (after 8 with χN held). */
+        secondOrderIterations: z.number().int().min(1).max(10000).default(25),
+        /** Weight λ of the data rows beside the SCFT residuals ('least-squares'). */
+        dataWeight: positive.default(30),
         backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
       })
       .strict()

@@ -84,6 +84,11 @@ export interface ResidualEvaluation {
   /** The unweighted loss terms (mean squares as losses/terms.ts defines them). */
   terms: LossValues;
   groups?: ResidualGroup[];
+  /**
+   * With the field network and part 'all': φ and w on the grid, and with the Jacobian the
+   * tangent dφ_K(x_j)/dθ over all columns (for data rows added beside these residuals).
+   */
+  density?: { phi: SpeciesArrays; w: Float64Array[]; dphi: Record<'A' | 'B', Float64Array[]> | null };
 }
 
 /** Offset of each Mlp's first parameter in the flattened ParameterSet order. */
@@ -115,7 +120,8 @@ export class ScftResidualSystem {
   private readonly fieldOffset: Float64Array[] | null;
   /** A film's surface field h on the grid, or null. */
   private readonly surfaceField: Float64Array | null;
-  private readonly chiN: number;
+  /** χN of the self-consistency equation; the inverse problem (inverse/network-least-squares.ts) moves it between evaluations. */
+  chiN: number;
   private readonly mdePoints: number;
 
   constructor(
@@ -230,6 +236,58 @@ export class ScftResidualSystem {
     };
   }
 
+  /**
+   * One propagator network fitted to given ln q values at the contour nodes × grid points of
+   * this system (target[node][j]), as least squares over that propagator's columns:
+   * r_{i,j} = (u(x_j, s_i) − target_ij) / √N. Used to start from a reference solution.
+   */
+  propagatorFit(theta: Float64Array, side: 'q' | 'qDagger', target: Float64Array[]): LeastSquaresProblem & { first: number } {
+    const sd = this.sides[side === 'q' ? 0 : 1];
+    const first = sd.first;
+    const count = sd.count;
+    const nx = this.nx;
+    const ns = sd.contour.ns;
+    if (target.length !== ns + 1 || target[0].length !== nx) throw new RangeError(`propagatorFit: target is ${target.length} × ${target[0]?.length}, expected ${ns + 1} × ${nx}`);
+    const scale = 1 / Math.sqrt((ns + 1) * nx);
+    const field = this.field ? this.fieldAt(theta, false) : null;
+    const embed = (xs: Float64Array) => {
+      const full = Float64Array.from(theta);
+      full.set(xs, first);
+      return full;
+    };
+    const residuals = (xs: Float64Array, jacobian: boolean) => {
+      const out = this.sideResiduals(embed(xs), sd, field, false, jacobian, 0, jacobian);
+      const m = (ns + 1) * nx;
+      const r = new Float64Array(m);
+      const J = jacobian ? new Float64Array(m * count) : null;
+      for (let i = 0; i <= ns; i++) {
+        for (let j = 0; j < nx; j++) {
+          const row = i * nx + j;
+          r[row] = scale * (out.u[i][j] - target[i][j]);
+          if (J) {
+            const d = out.valueRows![row];
+            for (let a = 0; a < d.length; a++) J[row * count + a] = scale * d[a];
+          }
+        }
+      }
+      return { r, J, m };
+    };
+    return {
+      first,
+      size: count,
+      cost: (xs) => 0.5 * residuals(xs, false).r.reduce((a, v) => a + v * v, 0),
+      linearise: (xs) => {
+        const { r, J, m } = residuals(xs, true);
+        return { kind: 'dense', cost: 0.5 * r.reduce((a, v) => a + v * v, 0), m, J: J!, r };
+      },
+    };
+  }
+
+  /** Contour nodes s_i of one side's propagator in this system (for propagatorFit targets). */
+  contourOf(side: 'q' | 'qDagger'): Float64Array {
+    return this.sides[side === 'q' ? 0 : 1].contour.s;
+  }
+
   /** Global columns [first, first + count) of one propagator's parameters. */
   columnsOf(side: 'q' | 'qDagger'): { first: number; count: number } {
     const s = this.sides[side === 'q' ? 0 : 1];
@@ -260,6 +318,7 @@ export class ScftResidualSystem {
       Object.assign(terms, fe.terms);
       sumSq += fe.weightedSum;
       if (fe.group) groups.push(fe.group);
+      return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups } : {}), density: { phi: fe.phi, w: field.w, dphi: fe.dphi } };
     }
     return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups } : {}) };
   }
@@ -451,7 +510,7 @@ export class ScftResidualSystem {
     const terms = { incompressibility: mean(inc), selfConsistency: two ? mean(sc) * scale * scale : 0, gauge: gauge * gauge * scale * scale };
     const W = this.weights;
     const weightedSum = W.incompressibility * terms.incompressibility + W.selfConsistency * terms.selfConsistency + W.gauge * terms.gauge;
-    if (!jacobian) return { terms, weightedSum, group: null };
+    if (!jacobian) return { terms, weightedSum, group: null, phi, dphi: null };
     const n = this.size;
     const rowsCount = (two ? 2 * nx : nx) + 1;
     const J = new Float64Array(rowsCount * n);
@@ -505,7 +564,7 @@ export class ScftResidualSystem {
       } else fieldRow(gOut, only === 'A' ? 0 : 1, j, sG / nx);
     }
     const columns = Int32Array.from({ length: n }, (_, i) => i);
-    return { terms, weightedSum, group: { columns, J, r } };
+    return { terms, weightedSum, group: { columns, J, r }, phi, dphi };
   }
 }
 

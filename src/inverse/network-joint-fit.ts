@@ -1,0 +1,246 @@
+/**
+ * One seed of the network χN estimator: networks built and started from the spectral
+ * solution at a starting χN, then χN found with the networks as one least-squares problem
+ * (inverse/network-least-squares.ts), all in float64 by Levenberg–Marquardt
+ * (numerics/levenberg-marquardt.ts, Nielsen's damping update):
+ *
+ *   1. start: the field network fitted to the spectral w_A, w_B at the starting χN (least
+ *      squares over its own parameters), then each propagator network fitted to the MDE in
+ *      those fields (its own columns: q and q† are independent there), so the joint problem
+ *      starts near the ordered solution at the starting χN;
+ *   2. joint: LM over every network parameter and χN, on the SCFT residuals and the data rows.
+ *
+ * The data rows pin the ordered profile, so the joint iteration cannot slide to another
+ * discrete solution of the network system (the forward joint LM does from a warm start:
+ * docs/second-order-training.md); the run checks it (the φ_A amplitude against the start).
+ *
+ * Units: x in Rg (model frame), w and χN in kT per chain.
+ */
+import type { ChainSpec } from '../physics/chain-schema.js';
+import { buildChain } from '../physics/chain.js';
+import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import type { ScftSolution } from '../physics/result.js';
+import { trainConfigSchema } from '../io/schemas/train-config.js';
+import type { Tf } from '../autodiff/tf.js';
+import { buildScftNetworks } from '../network/scft-networks.js';
+import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
+import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
+import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
+import type { LmStop } from '../numerics/levenberg-marquardt.js';
+import { NetworkInverseProblem } from './network-least-squares.js';
+
+export interface JointFitSettings {
+  chain: ChainSpec;
+  seed: number;
+  /** Hidden layers of the field network and of each propagator piece. */
+  fieldHidden: number[];
+  propagatorHidden: number[];
+  /** Residual grid: cell points and contour steps per block. */
+  nx: number;
+  nodesPerBlock: number;
+  /** LM iterations of the field-network start fit and of each propagator's start fit. */
+  fieldStartIterations: number;
+  propagatorStartIterations: number;
+  /** LM iterations of each propagator on its MDE in the fitted fields, before the joint problem. */
+  mdeStartIterations: number;
+  /** LM iterations of the joint problem. */
+  iterations: number;
+  /** λ of the data rows. */
+  dataWeight: number;
+  /** LM iterations with χN held at the start before the χN stages (the networks settle on the physics first). */
+  holdChiNIterations?: number;
+  /** Data weight of the first stage (default: dataWeight, one stage) and the number of stages. */
+  dataWeightStart?: number;
+  stages?: number;
+  /** First LM damping of the joint problem, relative to max diag(JᵀJ). */
+  tau?: number;
+  /** Gaussian resolution of the data (Rg), applied to the model before the misfit. */
+  resolution: number;
+  shouldStop?: () => boolean;
+  onIteration?: (iteration: number, chiN: number, cost: number, mu: number) => void;
+}
+
+export interface JointFitResult {
+  chiN: number;
+  trajectory: { step: number; chiN: number }[];
+  /** RMS of network φ_A − data at the data points. */
+  rmsResidual: number;
+  /** w_A − w_B of the network on `exchangeGrid` (kT). */
+  exchange: Float64Array;
+  /** SCFT loss (Σ r² of the physics rows) at the start of the joint problem and at its end. */
+  lossStart: number;
+  lossEnd: number;
+  /** φ_A amplitude (max − min) of the network at the end over the start's: near 1 when the ordered profile held. */
+  amplitudeRatio: number;
+  iterations: number;
+  reason: LmStop | 'interrupted';
+  seconds: { start: number; joint: number };
+}
+
+/** Data positions in the model frame and the data themselves. */
+export interface FrameData {
+  t: Float64Array;
+  phi: Float64Array;
+  sigma?: Float64Array;
+}
+
+function amplitude(v: Float64Array): number {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const x of v) {
+    lo = Math.min(lo, x);
+    hi = Math.max(hi, x);
+  }
+  return hi - lo;
+}
+
+export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, period: number, data: FrameData, s: JointFitSettings, exchangeGrid: Float64Array): JointFitResult {
+  const t0 = performance.now();
+  const chain = buildChain(s.chain);
+  const config = trainConfigSchema.parse({
+    version: 2,
+    kind: 'train',
+    system: { chain: s.chain, chiN: chiNStart },
+    cell: { period, nx: start.nx, ns: start.ns },
+    networks: { field: { hidden: s.fieldHidden, seed: s.seed }, propagator: { hidden: s.propagatorHidden, seed: s.seed + 101 } },
+    collocation: { nx: s.nx, nodesPerBlock: s.nodesPerBlock, random: 0 },
+  });
+  const nets = buildScftNetworks(tf, config, chain, period, true);
+  try {
+    const system = { chain: s.chain, chiN: chiNStart };
+    const sys = new ScftResidualSystem(nets, system, { nx: s.nx, nodesPerBlock: s.nodesPerBlock }, config.losses.weights);
+    let theta = nets.parameters.flatten();
+    // 1. The field network fitted to the spectral fields (resampled to the residual grid).
+    const wTarget = { A: start.cell.resample(start.w.A, s.nx), B: start.cell.resample(start.w.B, s.nx) };
+    const fit = sys.fieldFit(theta, wTarget);
+    const rf = levenbergMarquardt(fit, theta.slice(fit.first, fit.first + fit.size), { maxIterations: s.fieldStartIterations });
+    theta.set(rf.x, fit.first);
+    // Each propagator network fitted to the reference's ln q (a well-posed regression: a few
+    // LM iterations), then to the MDE in the fitted fields (its own columns only).
+    const sides: ('q' | 'qDagger')[] = nets.shared ? ['q'] : ['q', 'qDagger'];
+    const props = start.propagators;
+    if (!props) throw new Error('jointFitSeed: the start solution carries no propagators');
+    for (const side of sides) {
+      const target = logQTargets(start, side, sys.contourOf(side), s.nx);
+      const pf = sys.propagatorFit(theta, side, target);
+      const rv = levenbergMarquardt(pf, theta.slice(pf.first, pf.first + pf.size), { maxIterations: s.propagatorStartIterations, damping: 'identity', dual: 'never', onIteration: () => !s.shouldStop?.() });
+      theta.set(rv.x, pf.first);
+    }
+    for (const side of sides) {
+      if (s.mdeStartIterations <= 0) break;
+      const { first, count } = sys.columnsOf(side);
+      const embed = (xs: Float64Array) => {
+        const full = Float64Array.from(theta);
+        full.set(xs, first);
+        return full;
+      };
+      const r = levenbergMarquardt(
+        {
+          size: count,
+          cost: (xs) => sys.evaluate(embed(xs), false, side).cost,
+          linearise: (xs) => {
+            const e = sys.evaluate(embed(xs), true, side);
+            const { A, g } = groupedNormalEquations(count, e.groups!.map((gr) => ({ ...gr, columns: gr.columns.map((c) => c - first) })));
+            return { kind: 'normal', cost: e.cost, A, g };
+          },
+        },
+        theta.slice(first, first + count),
+        { maxIterations: s.mdeStartIterations, onIteration: () => !s.shouldStop?.() },
+      );
+      theta = embed(r.x);
+    }
+    const tStart = (performance.now() - t0) / 1000;
+    // 2. The joint problem: every parameter and χN, physics and data rows.
+    const grid = new PeriodicCell(period, s.nx, 1);
+    const problem = new NetworkInverseProblem(sys, { matrix: grid.interpolationMatrix(data.t, s.resolution), phi: data.phi, sigma: data.sigma }, chiNStart, s.dataWeight);
+    const x0 = problem.join(theta, chiNStart);
+    const e0 = problem.evaluate(x0);
+    const physicsLoss = (e: ReturnType<typeof problem.evaluate>) => {
+      const W = sys.weights;
+      return W.mde * e.terms.mde + W.incompressibility * e.terms.incompressibility + W.selfConsistency * e.terms.selfConsistency + W.gauge * e.terms.gauge;
+    };
+    sys.chiN = chiNStart;
+    const amp0 = amplitude(sys.state(theta).phi.A);
+    const trajectory = [{ step: 0, chiN: chiNStart }];
+    let interrupted = false;
+    // The data weight in stages, geometric from dataWeightStart down to dataWeight: a large λ
+    // first pins the ordered profile while the physics rows are still far from zero, a small
+    // one last makes the fit close to the constrained one (SCFT exactly, data best).
+    const weights = stageWeights(s.dataWeightStart ?? s.dataWeight, s.dataWeight, s.stages ?? 1);
+    const held = s.holdChiNIterations ?? 0;
+    let x = x0;
+    let done = 0;
+    let r = { x: x0, iterations: 0, reason: 'maxIterations' as LmStop };
+    for (const [k, lambda] of [...(held > 0 ? [s.dataWeightStart ?? s.dataWeight] : []), ...weights].entries()) {
+      const stageProblem = new NetworkInverseProblem(sys, { matrix: problem.matrix, phi: data.phi, sigma: data.sigma }, chiNStart, lambda);
+      const holding = held > 0 && k === 0;
+      stageProblem.holdChiN = holding;
+      const iterations = holding ? held : held + Math.round(((k + (held > 0 ? 0 : 1)) * s.iterations) / weights.length) - done;
+      if (iterations <= 0) continue;
+      const lm = levenbergMarquardt(stageProblem, x, {
+        maxIterations: iterations,
+        tau: s.tau ?? 1e-3,
+        onIteration: (it, xs) => {
+          const chiN = xs[xs.length - 1];
+          trajectory.push({ step: done + it.iteration, chiN });
+          s.onIteration?.(done + it.iteration, chiN, it.cost, it.mu);
+          if (s.shouldStop?.()) {
+            interrupted = true;
+            return false;
+          }
+          return true;
+        },
+      });
+      x = lm.x;
+      done += lm.iterations;
+      r = { x, iterations: done, reason: lm.reason };
+      if (interrupted) break;
+    }
+    const { theta: thetaEnd, chiN } = problem.split(r.x);
+    const eEnd = problem.evaluate(r.x);
+    sys.chiN = chiN;
+    const state = sys.state(thetaEnd);
+    nets.parameters.unflatten(thetaEnd);
+    // w_A − w_B on the requested grid: the band-limited interpolant of the residual grid's values.
+    const ex = Float64Array.from(state.w.A, (a, j) => a - state.w.B[j]);
+    const exchange = grid.interpolate(ex, exchangeGrid);
+    return {
+      chiN,
+      trajectory,
+      rmsResidual: Math.sqrt(eEnd.misfit),
+      exchange,
+      lossStart: physicsLoss(e0),
+      lossEnd: physicsLoss(eEnd),
+      amplitudeRatio: amplitude(state.phi.A) / amp0,
+      iterations: r.iterations,
+      reason: interrupted ? 'interrupted' : r.reason,
+      seconds: { start: tStart, joint: (performance.now() - t0) / 1000 - tStart },
+    };
+  } finally {
+    nets.dispose();
+  }
+}
+
+/** λ of each stage: geometric from `first` to `last` (one stage: `last`). */
+function stageWeights(first: number, last: number, stages: number): number[] {
+  if (stages <= 1) return [last];
+  return Array.from({ length: stages }, (_, k) => first * (last / first) ** (k / (stages - 1)));
+}
+
+/**
+ * ln q of the reference at a side's contour nodes and nx grid points: linear in s between the
+ * reference's nodes (its contour is finer), band-limited (Fourier) in x.
+ */
+function logQTargets(ref: ScftSolution, side: 'q' | 'qDagger', nodes: Float64Array, nx: number): Float64Array[] {
+  const p = ref.propagators!;
+  const ns = p.s.length - 1;
+  // The reversed chain's nodes: s'_k = 1 − s_{ns−k}.
+  const src = side === 'q' ? p.s : Float64Array.from(p.s, (_, k) => 1 - p.s[ns - k]);
+  const rows = (side === 'q' ? p.q : p.qDagger).map((q) => ref.cell.resample(Float64Array.from(q, Math.log), nx));
+  return Array.from(nodes, (s) => {
+    let k = 0;
+    while (k < ns - 1 && src[k + 1] < s) k++;
+    const a = Math.min(1, Math.max(0, (s - src[k]) / (src[k + 1] - src[k])));
+    return Float64Array.from(rows[k], (v, j) => (1 - a) * v + a * rows[k + 1][j]);
+  });
+}

@@ -1,0 +1,74 @@
+import { describe, expect, it } from 'vitest';
+import { buildChain } from '../../src/physics/chain.js';
+import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
+import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
+import { selectBackend } from '../../src/autodiff/backend.js';
+import { buildScftNetworks } from '../../src/network/scft-networks.js';
+import { ScftResidualSystem } from '../../src/network/least-squares/scft-residual-system.js';
+import { NetworkInverseProblem } from '../../src/inverse/network-least-squares.js';
+import type { DenseLinearisation } from '../../src/numerics/levenberg-marquardt.js';
+import { diblock } from './helpers.js';
+
+// The gradient Jᵀr of the joint problem (SCFT rows, the χN column, the data rows) and the
+// Jacobian of the propagator value fit, against central finite differences of the cost and
+// the residuals (an independent method: common practice, no source). Tiny networks and grids.
+async function smallSystem() {
+  const chain = diblock(0.5);
+  const { tf } = await selectBackend('wasm');
+  const config = trainConfigSchema.parse({ version: 2, kind: 'train', system: { chain, chiN: 15 }, cell: { period: 4, nx: 16, ns: 20 }, networks: { field: { hidden: [6], seed: 1 }, propagator: { hidden: [5, 5], seed: 2 } }, collocation: { nx: 8, nodesPerBlock: 4, random: 0 } });
+  const nets = buildScftNetworks(tf, config, buildChain(chain), 4, true);
+  const sys = new ScftResidualSystem(nets, { chain, chiN: 15 }, { nx: 8, nodesPerBlock: 4 }, config.losses.weights);
+  return { nets, sys };
+}
+
+describe('network inverse least-squares problem', () => {
+  it('the gradient (χN column and data rows included) matches finite differences of the cost', async () => {
+    const { nets, sys } = await smallSystem();
+    const t = Float64Array.from({ length: 11 }, (_, i) => 0.13 + 0.35 * i);
+    const phi = Float64Array.from(t, (x) => 0.5 + 0.3 * Math.cos((2 * Math.PI * x) / 4));
+    const sigma = Float64Array.from(t, (_, i) => 0.02 + 0.002 * i);
+    const grid = new PeriodicCell(4, 8, 1);
+    const problem = new NetworkInverseProblem(sys, { matrix: grid.interpolationMatrix(t, 0.1), phi, sigma }, 14, 5);
+    const x = problem.join(nets.parameters.flatten(), 15.5);
+    const lin = problem.linearise(x);
+    expect(lin.cost).toBeCloseTo(problem.cost(x), 12);
+    const n = problem.size;
+    let scale = 0;
+    for (const v of lin.g) scale = Math.max(scale, Math.abs(v));
+    for (const a of [0, 5, 40, 77, n - 30, n - 2, n - 1]) {
+      const h = 1e-6 * Math.max(1, Math.abs(x[a]));
+      const xp = Float64Array.from(x);
+      xp[a] += h;
+      const xm = Float64Array.from(x);
+      xm[a] -= h;
+      const fd = (problem.cost(xp) - problem.cost(xm)) / (2 * h);
+      expect(Math.abs(fd - lin.g[a])).toBeLessThan(1e-6 * scale + 1e-8);
+    }
+    // The χN column is really exercised: the cost depends on χN.
+    expect(Math.abs(lin.g[n - 1])).toBeGreaterThan(1e-6);
+    nets.dispose();
+  });
+
+  it('the propagator value fit: Jacobian against central differences of its residuals', async () => {
+    const { nets, sys } = await smallSystem();
+    const theta = nets.parameters.flatten();
+    const ns = sys.contourOf('qDagger').length;
+    const target = Array.from({ length: ns }, (_, i) => Float64Array.from({ length: 8 }, (_, j) => Math.sin(i + j)));
+    const pf = sys.propagatorFit(theta, 'qDagger', target);
+    const x = theta.slice(pf.first, pf.first + pf.size);
+    const lin = pf.linearise(x) as DenseLinearisation;
+    let worst = 0;
+    for (const a of [0, 3, 17, pf.size - 20, pf.size - 1]) {
+      const h = 1e-6;
+      const xp = Float64Array.from(x);
+      xp[a] += h;
+      const xm = Float64Array.from(x);
+      xm[a] -= h;
+      const rp = (pf.linearise(xp) as DenseLinearisation).r;
+      const rm = (pf.linearise(xm) as DenseLinearisation).r;
+      for (let i = 0; i < lin.m; i++) worst = Math.max(worst, Math.abs((rp[i] - rm[i]) / (2 * h) - lin.J[i * pf.size + a]));
+    }
+    expect(worst).toBeLessThan(1e-7);
+    nets.dispose();
+  });
+});
