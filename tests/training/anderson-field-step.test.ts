@@ -34,7 +34,7 @@ async function run(fieldStep: 'anderson' | 'simple') {
   const nets = buildScftNetworks(tf, config, chain, reference.length, true);
   warmStart(tf, nets, { x: start.x, w: start.w, chiN: 14, propagators: start.propagators }, 300, 0.01);
   const startError = evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2;
-  const so = runSecondOrder(
+  const so = await runSecondOrder(
     nets,
     config.system,
     config.losses.weights,
