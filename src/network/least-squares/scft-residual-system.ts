@@ -225,15 +225,7 @@ export class ScftResidualSystem {
       });
       return { r, J, m };
     };
-    return {
-      first,
-      size: count,
-      cost: (xs) => 0.5 * residuals(xs, false).r.reduce((a, v) => a + v * v, 0),
-      linearise: (xs) => {
-        const { r, J, m } = residuals(xs, true);
-        return { kind: 'dense', cost: 0.5 * r.reduce((a, v) => a + v * v, 0), m, J: J!, r };
-      },
-    };
+    return denseProblem(first, count, residuals);
   }
 
   /**
@@ -272,15 +264,7 @@ export class ScftResidualSystem {
       }
       return { r, J, m };
     };
-    return {
-      first,
-      size: count,
-      cost: (xs) => 0.5 * residuals(xs, false).r.reduce((a, v) => a + v * v, 0),
-      linearise: (xs) => {
-        const { r, J, m } = residuals(xs, true);
-        return { kind: 'dense', cost: 0.5 * r.reduce((a, v) => a + v * v, 0), m, J: J!, r };
-      },
-    };
+    return denseProblem(first, count, residuals);
   }
 
   /** Contour nodes s_i of one side's propagator in this system (for propagatorFit targets). */
@@ -588,4 +572,18 @@ function sortedColumns(columns: Int32Array, J: Float64Array, rows: number): Int3
     J.set(tmp, o);
   }
   return Int32Array.from(order, (i) => columns[i]);
+}
+
+/** A least-squares problem over `count` columns from `first` whose residuals (and dense Jacobian, m rows) a function gives. */
+function denseProblem(first: number, count: number, residuals: (xs: Float64Array, jacobian: boolean) => { r: Float64Array; J: Float64Array | null; m: number }): LeastSquaresProblem & { first: number } {
+  const cost = (r: Float64Array) => 0.5 * r.reduce((a, v) => a + v * v, 0);
+  return {
+    first,
+    size: count,
+    cost: (xs) => cost(residuals(xs, false).r),
+    linearise: (xs) => {
+      const { r, J, m } = residuals(xs, true);
+      return { kind: 'dense', cost: cost(r), m, J: J!, r };
+    },
+  };
 }
