@@ -16,7 +16,7 @@ import type { Stepwise } from '../numerics/stepwise.js';
 import { yieldToEvents } from '../runtime/stop.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
-import { solveDense } from '../numerics/dense-solve.js';
+import { linearLeastSquares } from '../numerics/dense-solve.js';
 import { cellFeatureArrays } from './features.js';
 import type { FieldNet } from './field-net.js';
 import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
@@ -135,19 +135,10 @@ export function fitLinearField(field: FieldNet, x: Float64Array, w: SpeciesArray
   // The features of the network's own cell (a film: cosines; films train hidden-layer field networks, so this fit meets periodic cells).
   const f = cellFeatureArrays(x, field.cell.features, field.config.fourierModes);
   const p = f.width + 1;
-  const A = Array.from({ length: p }, () => new Float64Array(p));
-  const b = [new Float64Array(p), new Float64Array(p)];
-  const row = new Float64Array(p);
-  for (let j = 0; j < x.length; j++) {
+  const coef = linearLeastSquares(x.length, p, (j, row) => {
     row.set(f.v.subarray(j * f.width, (j + 1) * f.width));
     row[f.width] = 1;
-    for (let r = 0; r < p; r++) {
-      b[0][r] += row[r] * w.A[j];
-      b[1][r] += row[r] * w.B[j];
-      for (let c = 0; c < p; c++) A[r][c] += row[r] * row[c];
-    }
-  }
-  const coef = b.map((rhs) => solveDense(A.map((r) => Float64Array.from(r)), rhs));
+  }, [w.A, w.B]);
   if (!coef[0] || !coef[1]) throw new Error(`field network: ${field.config.fourierModes} Fourier modes are not determined by ${x.length} grid points`);
   const outputs = field.options.outputs;
   const kernel = new Float32Array(f.width * outputs);

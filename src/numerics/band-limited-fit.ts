@@ -4,7 +4,7 @@
  * by the normal equations (common practice, no source). With M well below the number of
  * samples this is a low-pass smoother that assumes nothing but periodicity.
  */
-import { solveDense } from './dense-solve.js';
+import { linearLeastSquares } from './dense-solve.js';
 
 export function bandLimitedFit(t: ArrayLike<number>, u: ArrayLike<number>, weights: ArrayLike<number>, period: number, modes: number): (x: ArrayLike<number>) => Float64Array {
   const p = 1 + 2 * modes;
@@ -16,17 +16,8 @@ export function bandLimitedFit(t: ArrayLike<number>, u: ArrayLike<number>, weigh
       out[2 * m] = Math.sin(a);
     }
   };
-  const A = Array.from({ length: p }, () => new Float64Array(p));
-  const b = new Float64Array(p);
   const row = new Float64Array(p);
-  for (let i = 0; i < t.length; i++) {
-    basis(t[i], row);
-    for (let r = 0; r < p; r++) {
-      b[r] += weights[i] * row[r] * u[i];
-      for (let c = 0; c < p; c++) A[r][c] += weights[i] * row[r] * row[c];
-    }
-  }
-  const coef = solveDense(A, b);
+  const [coef] = linearLeastSquares(t.length, p, (i, row) => basis(t[i], row), [u], weights);
   if (!coef) throw new Error(`band-limited fit: ${modes} modes are not determined by ${t.length} samples`);
   return (x) => {
     const out = new Float64Array(x.length);

@@ -29,3 +29,24 @@ export function solveDense(A: Float64Array[], b: Float64Array): Float64Array | u
   }
   return x;
 }
+
+/**
+ * Weighted linear least squares by the normal equations: the coefficients c minimising
+ * Σ_i weight_i (row_i · c − y_i)² for each right-hand side y (one matrix, several y);
+ * undefined for a y whose normal matrix is (nearly) singular. `row(i, out)` fills row i
+ * (p columns) of the design matrix.
+ */
+export function linearLeastSquares(rows: number, p: number, row: (i: number, out: Float64Array) => void, ys: readonly ArrayLike<number>[], weights?: ArrayLike<number>): (Float64Array | undefined)[] {
+  const A = Array.from({ length: p }, () => new Float64Array(p));
+  const b = ys.map(() => new Float64Array(p));
+  const v = new Float64Array(p);
+  for (let i = 0; i < rows; i++) {
+    row(i, v);
+    const wi = weights ? weights[i] : 1;
+    for (let r = 0; r < p; r++) {
+      for (let k = 0; k < ys.length; k++) b[k][r] += wi * v[r] * ys[k][i];
+      for (let c = 0; c < p; c++) A[r][c] += wi * v[r] * v[c];
+    }
+  }
+  return b.map((rhs) => solveDense(A, rhs));
+}
