@@ -5,7 +5,8 @@
  * φA error where measured.
  *
  * Accepts two entry shapes, so a run written before or after the second-order trainer reads:
- *  - {stage, step, total, seconds, wallSeconds?, phiError?, lbfgsIterations?} (stage 'warm-start' | 'adam' | 'lbfgs');
+ *  - {stage, step, total, seconds, wallSeconds?, phiError?, lbfgsIterations?, secondOrderIterations?}
+ *    (stage 'warm-start' | 'adam' | 'lbfgs' | 'second-order');
  *  - {phase, step, loss, wallSeconds, referenceError?} (any phase name; step counted within the run or the phase).
  */
 import { z } from 'zod';
@@ -13,7 +14,7 @@ import { parseOrThrow } from '../../io/errors.js';
 import type { TrainingInput, TrainingPhase, TrainingRecord } from '../report-inputs.js';
 
 const stageEntry = z
-  .object({ stage: z.string(), step: z.number(), total: z.number(), seconds: z.number().optional(), wallSeconds: z.number().optional(), phiError: z.number().optional(), lbfgsIterations: z.number().optional() })
+  .object({ stage: z.string(), step: z.number(), total: z.number(), seconds: z.number().optional(), wallSeconds: z.number().optional(), phiError: z.number().optional(), lbfgsIterations: z.number().optional(), secondOrderIterations: z.number().optional() })
   .passthrough();
 const phaseEntry = z.object({ phase: z.string(), step: z.number(), loss: z.number(), wallSeconds: z.number().optional(), referenceError: z.number().optional() }).passthrough();
 const historySchema = z.array(z.union([phaseEntry, stageEntry]));
@@ -36,8 +37,9 @@ function toRaw(e: z.infer<typeof historySchema>[number]): Raw {
     return { phase: PHASE_NAMES[p.phase] ?? p.phase, local: p.step, wallSeconds: p.wallSeconds, loss: p.loss, referenceError: p.referenceError };
   }
   const s = e as z.infer<typeof stageEntry>;
-  // L-BFGS entries keep the Adam step count in `step`; their own count is lbfgsIterations.
-  const local = s.stage === 'lbfgs' ? (s.lbfgsIterations ?? s.step) : s.step;
+  // L-BFGS and second-order entries keep the Adam step count in `step`; their own count is
+  // lbfgsIterations / secondOrderIterations.
+  const local = s.stage === 'lbfgs' ? (s.lbfgsIterations ?? s.step) : s.stage === 'second-order' ? (s.secondOrderIterations ?? s.step) : s.step;
   return { phase: PHASE_NAMES[s.stage] ?? s.stage, local, wallSeconds: s.wallSeconds, seconds: s.seconds, loss: s.total, referenceError: s.phiError };
 }
 
