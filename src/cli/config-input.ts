@@ -50,6 +50,23 @@ export const FLAG_CONFIG_PATHS = {
     '--f-sd': 'uncertainty.f',
     '--segment-ratio-sd': 'uncertainty.segmentRatio',
   },
+  'fit-bragg': {
+    '--f': 'system.chain.f',
+    '--segment-ratio': 'system.chain.segmentRatio',
+    '--nx': 'cell.nx',
+    '--ns': 'cell.ns',
+    '--chiN-range': 'chiNRange',
+    '--lorentz': 'lorentz',
+    '--rg-nm': 'units.rgNm',
+    '--rg-nm-sd': 'units.rgNmSd',
+  },
+  'fit-spacing': {
+    '--f': 'system.chain.f',
+    '--segment-ratio': 'system.chain.segmentRatio',
+    '--nx': 'cell.nx',
+    '--ns': 'cell.ns',
+    '--chi-range': 'chiRange',
+  },
   train: {
     '--adam-steps': 'training.adamSteps',
     '--lbfgs-iterations': 'training.lbfgsIterations',
