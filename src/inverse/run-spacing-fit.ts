@@ -7,6 +7,8 @@ import { readFileSync } from 'node:fs';
 import { fsInputError } from '../io/fs-errors.js';
 import { SPACING_FIT_VERSION, spacingFitFileSchema } from '../io/formats/measurement-fits.js';
 import type { SpacingFitFile } from '../io/formats/measurement-fits.js';
+import { buildChain } from '../physics/chain.js';
+import { formatNumber } from '../io/number-format.js';
 import { throughSchema } from '../io/formats/file-format.js';
 import type { SpacingFitConfig } from '../io/schemas/spacing-fit-config.js';
 import type { Provenance } from '../io/versions.js';
@@ -30,7 +32,7 @@ export function runSpacingFit(path: string, config: SpacingFitConfig, o: { prove
     chiRange: config.chiRange as [number, number] | undefined,
     onEvaluation: o.onEvaluation,
   });
-  const chain = config.system.chain as { f?: number; segmentRatio?: number };
+  const chain = config.system.chain as { segmentRatio?: number };
   const estimated = fit.sigma.source === 'estimated';
   const thresholds = Object.fromEntries(LEVELS.map((l) => [l.name, deltaChi2Level(l, estimated, fit.dof)])) as Record<'68.3%' | '95%', number>;
   return throughSchema(spacingFitFileSchema, {
@@ -40,7 +42,7 @@ export function runSpacingFit(path: string, config: SpacingFitConfig, o: { prove
     config,
     file: path,
     assumptions: [
-      `mean-field lamellae of the chain as given (f = ${chain.f ?? 'from the preset'}, b_A/b_B = ${chain.segmentRatio ?? 1}) at their stress-free period, the same f and b for every N`,
+      `mean-field lamellae of the chain as given (f = ${formatNumber(buildChain(config.system.chain).speciesFraction.A, 4)}, b_A/b_B = ${formatNumber(chain.segmentRatio ?? 1)}) at their stress-free period, the same f and b for every N`,
       'one temperature and chemistry: χ per reference segment is the same for every sample; N counts reference segments',
       'Rg = b·sqrt(N/6) (Gaussian chains, monodisperse)',
     ],

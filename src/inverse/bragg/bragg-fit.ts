@@ -23,6 +23,7 @@
  * parameter, so dof = orders − 1.
  */
 import { InputError } from '../../io/errors.js';
+import { formatNumber } from '../../io/number-format.js';
 import type { ChainSpec } from '../../physics/chain-schema.js';
 import type { SpectralOptions } from '../../io/schemas/spectral-schema.js';
 import { deltaChi2Level, LEVELS } from '../confidence.js';
@@ -119,7 +120,8 @@ export function fitBragg(data: MeasuredPeaks, s: BraggFitSettings): BraggFit {
   };
   const wI = data.dI.map((d) => 1 / (d * d));
   const tie = s.rg;
-  if (tie && !(periodNmSd > 0) && !(tie.sd && tie.sd > 0)) {
+  // Positions on an exact q_n = 2πn/D line (no dq column) leave only round-off in sd_D.
+  if (tie && !(periodNmSd > 1e-9 * periodNm) && !(tie.sd && tie.sd > 0)) {
     throw new InputError(`${tie.source}: the period is tied to Rg, but neither D nor Rg has an uncertainty (${n} peak positions fit q_n = 2πn/D exactly and there is no dq column): give Rg's standard deviation (--rg-nm-sd) or a dq column`);
   }
   const periodTerm = (L: number) => {
@@ -173,7 +175,7 @@ export function fitBragg(data: MeasuredPeaks, s: BraggFitSettings): BraggFit {
   if (tie) {
     const L = b.period;
     rgTie = { rgNm: tie.nm, rgNmSd: tie.sd ?? null, periodModelNm: tie.nm * L, pull: (periodNm - tie.nm * L) / Math.sqrt(periodNmSd * periodNmSd + L * L * (tie.sd ?? 0) ** 2) };
-    notes.push(`the period is tied to Rg = ${tie.nm} nm${tie.sd ? ` ± ${tie.sd} nm (profiled out under its Gaussian constraint)` : ' (taken as exact)'}: the measured D = ${periodNm.toPrecision(5)} nm pulls χN through D = Rg·L_eq(χN); an error in Rg moves χN (D grows about as (χN)^(1/6) in strong segregation, so 1 % in Rg is about 6 % in χN there)`);
+    notes.push(`the period is tied to Rg = ${formatNumber(tie.nm)} nm${tie.sd ? ` ± ${formatNumber(tie.sd)} nm (profiled out under its Gaussian constraint)` : ' (taken as exact)'}: the measured D = ${periodNm.toPrecision(5)} nm pulls χN through D = Rg·L_eq(χN); an error in Rg moves χN (D grows about as (χN)^(1/6) in strong segregation, so 1 % in Rg is about 6 % in χN there)`);
   }
   notes.push('thermal disorder and grain-size effects damp higher orders (a Debye–Waller-like factor) and bias χN low');
   const profile = known()

@@ -8,6 +8,8 @@ import { InputError } from '../../io/errors.js';
 import { fsInputError } from '../../io/fs-errors.js';
 import { BRAGG_FIT_VERSION, braggFitFileSchema } from '../../io/formats/measurement-fits.js';
 import type { BraggFitFile } from '../../io/formats/measurement-fits.js';
+import { buildChain } from '../../physics/chain.js';
+import { formatNumber } from '../../io/number-format.js';
 import { throughSchema } from '../../io/formats/file-format.js';
 import type { BraggFitConfig } from '../../io/schemas/bragg-fit-config.js';
 import type { Provenance } from '../../io/versions.js';
@@ -44,12 +46,12 @@ export function runBraggFit(path: string, config: BraggFitConfig, o: BraggRunOpt
     onEvaluation: o.onEvaluation,
   });
   if (!Number.isFinite(fit.chi2)) throw new InputError(`${path}: no ordered lamella in the χN range gives these peaks (every model point was disordered); check f and the χN range`);
-  const chain = config.system.chain as { f?: number; segmentRatio?: number };
+  const chain = config.system.chain as { segmentRatio?: number };
   const assumptions = [
-    `mean-field lamellae of the chain as given (f = ${chain.f ?? 'from the preset'}, b_A/b_B = ${chain.segmentRatio ?? 1}), monodisperse, at their stress-free period`,
+    `mean-field lamellae of the chain as given (f = ${formatNumber(buildChain(config.system.chain).speciesFraction.A, 4)}, b_A/b_B = ${formatNumber(chain.segmentRatio ?? 1)}), monodisperse, at their stress-free period`,
     'integrated peak intensities in the kinematic approximation, proportional to |c_n|² of φ_A; no thermal (Debye–Waller) or grain-size damping',
     rg
-      ? `D tied to Rg = ${rg.nm} nm${rg.sd ? ` ± ${rg.sd} nm (Gaussian constraint)` : ' (exact)'}: χN also rests on this Rg`
+      ? `D tied to Rg = ${formatNumber(rg.nm)} nm${rg.sd ? ` ± ${formatNumber(rg.sd)} nm (Gaussian constraint)` : ' (exact)'}: χN also rests on this Rg`
       : 'D fitted freely from the positions: χN rests on the relative intensities alone, not on any Rg',
     config.lorentz ? 'the intensities carry the powder Lorentz factor 1/q²' : 'no Lorentz factor (single-crystal or already corrected intensities)',
   ];
