@@ -139,6 +139,8 @@ export interface InversionInput {
   rgNm?: number;
   /** Fit quality and fitted nuisance parameters (reduced χ², period, offset), for the metrics table. */
   fitRows?: MetricRow[];
+  /** What the χN rests on: the assumed inputs, how each entered and its effect on χN (title page). */
+  restsOn?: string[];
   bestChiN: number;
   estimators: EstimatorRow[];
 }
