@@ -42,6 +42,55 @@ export class Progress {
   }
 }
 
+/** One phase of a run, in the order the run goes through them: its size in units (steps, iterations, evaluations). */
+export interface PlannedPhase {
+  name: string;
+  units: number;
+  unit: string;
+  /** The size is an expectation (a search whose length the data decide), not a count. */
+  estimated?: boolean;
+}
+
+/**
+ * Progress over a run of several phases (warm start, Adam, L-BFGS, …), with the time left for
+ * the whole run: the current phase's remaining units at its measured rate, plus each later
+ * phase at its own rate when measured (a resumed or repeated phase) or else at the current
+ * one's. Borrowed rates and expected sizes make the time left an estimate, shown with "~".
+ */
+export class RunProgress {
+  private readonly secondsPerUnit = new Map<string, number>();
+  private current?: { name: string; firstAt: number; firstDone: number };
+
+  constructor(
+    private readonly progress: Progress,
+    private readonly phases: PlannedPhase[],
+  ) {}
+
+  /** `done` units of phase `name` finished; `detail` is what it reached (loss, residual, χN). */
+  at(name: string, done: number, detail: string, force = false): void {
+    const now = performance.now();
+    // A phase's rate is measured from its first report on: what ran before (set-up, a
+    // resumed run's earlier steps) does not count against it.
+    if (this.current?.name !== name) this.current = { name, firstAt: now, firstDone: done };
+    const i = this.phases.findIndex((p) => p.name === name);
+    const phase = i >= 0 ? this.phases[i] : { name, units: done, unit: 'steps' };
+    const spu = done > this.current.firstDone ? (now - this.current.firstAt) / 1000 / (done - this.current.firstDone) : Number.NaN;
+    if (Number.isFinite(spu)) this.secondsPerUnit.set(name, spu);
+    const size = phase.estimated ? Math.max(phase.units, done + 1) : phase.units;
+    let left = Math.max(0, size - done) * spu;
+    let guessed = Boolean(phase.estimated);
+    for (const later of i >= 0 ? this.phases.slice(i + 1) : []) {
+      if (later.units <= 0) continue;
+      const known = this.secondsPerUnit.get(later.name);
+      if (known === undefined || later.estimated) guessed = true;
+      left += later.units * (known ?? spu);
+    }
+    const tilde = guessed ? '~' : '';
+    const rest = i >= 0 && i < this.phases.length - 1 ? ' (whole run)' : '';
+    this.progress.update(`${name} ${done}/${phase.estimated ? '~' : ''}${size} ${phase.unit}${detail ? ` | ${detail}` : ''} | ${formatRate(1 / spu)} ${phase.unit}/s | ${tilde}${formatDuration(left)} left${rest}`, force);
+  }
+}
+
 export function formatDuration(seconds: number): string {
   if (!Number.isFinite(seconds)) return '?';
   if (seconds < 60) return `${seconds.toFixed(1)} s`;
