@@ -21,7 +21,7 @@ import { compareWithTruth, readTruthSidecar } from '../../inverse/truth-comparis
 import { action, parseDecimal, workersFlag } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
 import { installStopHandlers } from '../../runtime/stop.js';
-import { Progress } from '../progress.js';
+import { Progress, RunProgress } from '../progress.js';
 
 interface InvertFlags {
   f?: string;
@@ -181,6 +181,17 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
   const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
   const progress = new Progress('invert', flags.quiet);
+  // The whole run's phases, for the time left. A classical fit takes about 50 χN evaluations
+  // (measured: 49 on the measurement CLI test's profile); each uncertain f or segment ratio
+  // takes two refits, and the Rg sensitivity two more.
+  const refits = 2 * ((config.uncertainty?.f !== undefined ? 1 : 0) + (config.uncertainty?.segmentRatio !== undefined ? 1 : 0)) + (units.x === 'nm' && period.mode === 'equilibrium' && config.units?.rgNmSd === undefined ? 2 : 0);
+  const run = new RunProgress(progress, [
+    { name: 'classical fit', units: config.method === 'network' ? 0 : 50, unit: 'evaluations', estimated: true },
+    { name: 'assumed inputs', units: config.method === 'network' ? 0 : refits, unit: 'refits' },
+    { name: 'network', units: config.method === 'classical' ? 0 : config.network.seeds * (config.network.adamSteps + config.network.lbfgsIterations), unit: 'steps' },
+  ]);
+  let evaluations = 0;
+  let refitsDone = 0;
   let estimate;
   let assumed;
   try {
@@ -198,10 +209,10 @@ async function invertCommand(profilePath: string, configPath: string | undefined
         profilePoints: config.profilePoints,
         periodSource: sources.period,
         rangeSource: sources.chiNRange,
-        onEvaluation: (stage, e) => progress.update(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
+        onEvaluation: (stage, e) => run.at('classical fit', ++evaluations, `${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
       },
       inputs,
-      (label) => progress.update(`refit with ${label}`, true),
+      (label) => run.at('assumed inputs', refitsDone++, `refit with ${label}`, true),
     ));
   } catch (e) {
     throw asInputError(e, configPath ?? 'flags');
@@ -214,6 +225,7 @@ async function invertCommand(profilePath: string, configPath: string | undefined
     // The network fits χN and the fields; the phase offset and period come from the classical fit.
     const { estimateNetwork } = await import('../../inverse/network-estimator.js');
     const net = config.network;
+    const seedSteps = new Map<number, number>();
     const uninstall = installStopHandlers('invert');
     try {
       ne = await estimateNetwork(data, estimate, {
@@ -227,7 +239,11 @@ async function invertCommand(profilePath: string, configPath: string | undefined
         resolution: toRg(config.resolution),
         backend: net.backend,
         workers,
-        onProgress: (seed, step, steps, chiN) => progress.update(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
+        onProgress: (seed, step, steps, chiN) => {
+          // Seeds may train at once on worker threads: the run's count is the sum of their steps.
+          seedSteps.set(seed, step);
+          run.at('network', [...seedSteps.values()].reduce((a, b) => a + b, 0), `seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`);
+        },
       });
     } finally {
       uninstall();
