@@ -66,6 +66,12 @@ export class RunProgress {
     private readonly phases: PlannedPhase[],
   ) {}
 
+  /** A phase's size once the run knows it (a count the caller could not know in advance). */
+  size(name: string, units: number): void {
+    const p = this.phases.find((q) => q.name === name);
+    if (p) p.units = units;
+  }
+
   /** `done` units of phase `name` finished; `detail` is what it reached (loss, residual, χN). */
   at(name: string, done: number, detail: string, force = false): void {
     const now = performance.now();

@@ -3,7 +3,7 @@ import { basename, join } from 'node:path';
 import { InputError, parseOrThrow } from '../../io/errors.js';
 import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
 import type { SurrogateMetrics } from '../../surrogate/surrogate-run.js';
-import { formatDuration, Progress } from '../progress.js';
+import { formatDuration, Progress, RunProgress } from '../progress.js';
 import { installStopHandlers } from '../../runtime/stop.js';
 import type { TrainFlags } from './train-flags.js';
 import { backendFlag } from './train-flags.js';
@@ -37,6 +37,11 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
   const backend = backendFlag(flags.backend);
   const outDir = flags.out ?? join('checkpoints', basename(configPath).replace(/(\.surrogate)?\.json$/, ''));
   const progress = new Progress('train', flags.quiet);
+  // The run's counted phases (the network fit between them reports once, when it ends).
+  const run = new RunProgress(progress, [
+    { name: 'reference solves', units: 0, unit: 'solves' },
+    { name: 'physics rounds', units: config.training.rounds, unit: 'rounds' },
+  ]);
   const { surrogateRun } = await import('../../surrogate/surrogate-run.js');
   const uninstall = installStopHandlers('train');
   const r = await surrogateRun({
@@ -44,11 +49,14 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
     outDir,
     backend,
     onStage: (m) => progress.update(m, true),
+    onSolve: (done, total, role, seconds) => {
+      run.size('reference solves', total);
+      run.at('reference solves', done, `${role}, ${seconds.toFixed(2)} s`, done === total);
+    },
     onRound: (h) =>
-      progress.update(
-        `${h.round === 0 ? 'fit' : `round ${h.round}/${h.rounds}`} | ${h.residual === null ? '' : `SCFT residual ${sci(h.residual)} kT | `}fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''} | ${formatDuration(h.seconds)}`,
-        h.round === h.rounds || h.phiError !== undefined,
-      ),
+      h.round === 0
+        ? progress.update(`fit to the reference solutions: fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, true)
+        : run.at('physics rounds', h.round, `SCFT residual ${h.residual === null ? 'n/a' : sci(h.residual)} kT | fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, h.round === h.rounds || h.phiError !== undefined),
   }).finally(uninstall);
   try {
     const m = r.metrics;
