@@ -64,7 +64,16 @@ export class RunProgress {
   constructor(
     private readonly progress: Progress,
     private readonly phases: PlannedPhase[],
-  ) {}
+  ) {
+    // The first phase's clock starts now: its first report already carries a rate.
+    const first = phases.find((p) => p.units > 0);
+    if (first) this.begin(first.name);
+  }
+
+  /** Phase `name` starts now (its clock runs from here, not from its first report). */
+  begin(name: string): void {
+    this.current = { name, firstAt: performance.now(), firstDone: 0 };
+  }
 
   /** A phase's size once the run knows it (a count the caller could not know in advance). */
   size(name: string, units: number): void {
@@ -75,8 +84,8 @@ export class RunProgress {
   /** `done` units of phase `name` finished; `detail` is what it reached (loss, residual, χN). */
   at(name: string, done: number, detail: string, force = false): void {
     const now = performance.now();
-    // A phase's rate is measured from its first report on: what ran before (set-up, a
-    // resumed run's earlier steps) does not count against it.
+    // A phase's rate is measured from its start (begin) or else from its first report on:
+    // what ran before (set-up, a resumed run's earlier steps) does not count against it.
     if (this.current?.name !== name) this.current = { name, firstAt: now, firstDone: done };
     const i = this.phases.findIndex((p) => p.name === name);
     const phase = i >= 0 ? this.phases[i] : { name, units: done, unit: 'steps' };
@@ -93,7 +102,9 @@ export class RunProgress {
     }
     const tilde = guessed ? '~' : '';
     const rest = i >= 0 && i < this.phases.length - 1 ? ' (whole run)' : '';
-    this.progress.update(`${name} ${done}/${phase.estimated ? '~' : ''}${size} ${phase.unit}${detail ? ` | ${detail}` : ''} | ${formatRate(1 / spu)} ${phase.unit}/s | ${tilde}${formatDuration(left)} left${rest}`, force);
+    // A phase's first report, before anything of it has finished, has no rate yet.
+    const timing = Number.isFinite(left) ? `${formatRate(1 / spu)} ${phase.unit}/s | ${tilde}${formatDuration(left)} left${rest}` : 'rate and time left: measuring';
+    this.progress.update(`${name} ${done}/${phase.estimated ? '~' : ''}${size} ${phase.unit}${detail ? ` | ${detail}` : ''} | ${timing}`, force);
   }
 }
 

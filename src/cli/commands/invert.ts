@@ -212,7 +212,10 @@ async function invertCommand(profilePath: string, configPath: string | undefined
         onEvaluation: (stage, e) => run.at('classical fit', ++evaluations, `${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
       },
       inputs,
-      (label) => run.at('assumed inputs', refitsDone++, `refit with ${label}`, true),
+      (label) => {
+        if (refitsDone === 0) run.begin('assumed inputs');
+        run.at('assumed inputs', refitsDone++, `refit with ${label}`, true);
+      },
     ));
   } catch (e) {
     throw asInputError(e, configPath ?? 'flags');
@@ -226,6 +229,7 @@ async function invertCommand(profilePath: string, configPath: string | undefined
     const { estimateNetwork } = await import('../../inverse/network-estimator.js');
     const net = config.network;
     const seedSteps = new Map<number, number>();
+    run.begin('network');
     const uninstall = installStopHandlers('invert');
     try {
       ne = await estimateNetwork(data, estimate, {

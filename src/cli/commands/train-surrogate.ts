@@ -42,6 +42,7 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
     { name: 'reference solves', units: 0, unit: 'solves' },
     { name: 'physics rounds', units: config.training.rounds, unit: 'rounds' },
   ]);
+  run.begin('reference solves');
   const { surrogateRun } = await import('../../surrogate/surrogate-run.js');
   const uninstall = installStopHandlers('train');
   const r = await surrogateRun({
@@ -53,10 +54,14 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
       run.size('reference solves', total);
       run.at('reference solves', done, `${role}, ${seconds.toFixed(2)} s`, done === total);
     },
-    onRound: (h) =>
-      h.round === 0
-        ? progress.update(`fit to the reference solutions: fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, true)
-        : run.at('physics rounds', h.round, `SCFT residual ${h.residual === null ? 'n/a' : sci(h.residual)} kT | fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, h.round === h.rounds || h.phiError !== undefined),
+    onRound: (h) => {
+      if (h.round === 0) {
+        progress.update(`fit to the reference solutions: fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, true);
+        run.begin('physics rounds');
+        return;
+      }
+      run.at('physics rounds', h.round, `SCFT residual ${h.residual === null ? 'n/a' : sci(h.residual)} kT | fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, h.round === h.rounds || h.phiError !== undefined);
+    },
   }).finally(uninstall);
   try {
     const m = r.metrics;

@@ -88,7 +88,15 @@ export function registerTrain(program: Command): void {
             outDir,
             resumeDir: flags.resume,
             backend,
-            onStage: (m) => progress.update(m, true),
+            onStage: (m) => {
+              // The reference solve and the backend's start-up come first, outside every phase's clock.
+              // Each phase's clock starts with its stage message, so its first report already has a rate.
+              if (m.startsWith('warm start')) run.begin('warm start');
+              else if (m.startsWith('training (')) run.begin('Adam');
+              else if (m.startsWith('L-BFGS polish')) run.begin('L-BFGS');
+              else if (m.startsWith('second-order phase')) run.begin('second order');
+              progress.update(m, true);
+            },
             shouldStop: stopRequested,
             onWarmStart: (step, steps, loss) => run.at('warm start', step, `loss ${fmt(loss)}`, step === steps),
             onSecondOrder: (p) => run.at('second order', p.iteration, `loss ${fmt(p.loss)} | μ ${fmt(p.mu)}${p.phiError !== undefined ? ` | φA error ${fmt(p.phiError)}` : ''}`, p.iteration === p.iterations),
