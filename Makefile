@@ -10,7 +10,8 @@ demo: setup
 	node dist/cli/main.js demo --out reports/demo
 
 test: setup
-	npx vitest run
+	# setup has just built dist/: the test runner need not build it again.
+	MESOFIELD_SKIP_BUILD=1 npx vitest run
 
 bench: setup
 	node dist/bench/run.js

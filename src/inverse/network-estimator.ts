@@ -67,6 +67,8 @@ export interface NetworkEstimatorSettings {
    */
   lbfgsIterations?: number;
   lbfgsPerUpdate?: number;
+  /** Adam steps fitting each seed's networks to the starting spectral solution (default 400). */
+  warmStartSteps?: number;
   /**
    * Worker threads running seeds at once (default 1: all seeds in this thread). The seeds
    * are independent and each is deterministic, so the estimate is the same either way.
@@ -184,7 +186,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
       training: { strategy: 'alternating', adamSteps: s.steps, learningRate: s.learningRate ?? 1e-3, logEvery: 25, checkpointEvery: s.steps + 1, fieldUpdateEvery: updateEvery },
     });
     const nets = buildScftNetworks(tf, config, chain, L, true);
-    warmStart(tf, nets, { x: start.x, w: start.w, chiN: chiNStart, propagators: start.propagators }, 400, 1e-2);
+    warmStart(tf, nets, { x: start.x, w: start.w, chiN: chiNStart, propagators: start.propagators }, s.warmStartSteps ?? 400, 1e-2);
     const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
     problem.fieldsFrozen = true;
     let chiN = chiNStart;

@@ -23,6 +23,8 @@ export function solutionSummaryLines(s: SolutionSummary): string[] {
   if (s.freeEnergyExcess !== null) energy.push(`F − F_disordered = ${formatNumber(s.freeEnergyExcess, 6)} kT/chain`);
   lines.push(energy.join(', '));
   lines.push(`Q = ${formatNumber(s.Q, 12)} (from q†: ${formatNumber(s.QDagger, 12)}), ${s.iterations} iterations, field residual ${formatNumber(s.residual, 3)} kT`);
+  const perBlock = s.contourSteps && s.contourSteps.length > 1 ? ` (${s.contourSteps.join(' + ')} per block)` : '';
+  lines.push(`resolution: ${s.nx} grid points, ${s.ns} contour steps${perBlock}`);
   lines.push(...s.notes.map((n) => `note: ${n}`));
   return lines;
 }

@@ -34,6 +34,24 @@ describe('mesofield solve', () => {
     expect(csv.length).toBe(33);
   });
 
+  it('asymmetric chains solve with the default resolution and report the contour steps of each block', () => {
+    // The redesign's promise (f = 0.35, 0.333, 0.27 at χN = 22 with default settings): the
+    // contour steps are chosen per block, and both outputs say which were used.
+    for (const f of ['0.35', '0.333', '0.27']) {
+      const j = runCli(['solve', '--f', f, '--chiN', '22', '--json']);
+      expect(j.code, j.stderr).toBe(0);
+      const s = JSON.parse(j.stdout);
+      expect(s.converged).toBe(true);
+      expect(s.phase).toBe('lamellar');
+      expect(s.contourSteps).toHaveLength(2);
+      expect(s.contourSteps[0] + s.contourSteps[1]).toBe(s.ns);
+      // The minority block is the shorter one: it gets fewer steps (same step size within rounding to even).
+      expect(s.contourSteps[0]).toBeLessThan(s.contourSteps[1]);
+    }
+    const t = runCli(['solve', '--f', '0.27', '--chiN', '22']);
+    expect(t.stdout).toMatch(/resolution: \d+ grid points, \d+ contour steps \(\d+ \+ \d+ per block\)/);
+  });
+
   it('warm-starts from a previous solution file', () => {
     const dir = tmp();
     const first = join(dir, 'first');

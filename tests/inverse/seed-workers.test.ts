@@ -11,7 +11,7 @@ describe('network estimator seeds on worker threads', () => {
     const chain = diblock(0.5);
     const { data } = synthData({ chain, chiN: 15, nx: 32, ns: 60, noise: 0.02, seed: 9 });
     const cl = invert(data, { chain, nx: 32, ns: 60 });
-    const settings = { chain, seeds: [2, 1, 3], steps: 20, fieldUpdateEvery: 10, lbfgsIterations: 0, resolution: 0, backend: 'wasm' as const };
+    const settings = { chain, seeds: [2, 1, 3], steps: 20, fieldUpdateEvery: 10, lbfgsIterations: 0, warmStartSteps: 20, resolution: 0, backend: 'wasm' as const };
     const progress: number[] = [];
     const threads = await estimateNetwork(data, cl, { ...settings, workers: 2, onProgress: (seed) => progress.push(seed) });
     const here = await estimateNetwork(data, cl, { ...settings, workers: 1 });

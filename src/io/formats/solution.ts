@@ -48,6 +48,8 @@ export const solutionSummarySchema = z
     periods: z.number().int().min(0),
     nx: z.number().int().min(1),
     ns: z.number().int().min(1),
+    /** Contour steps on each block of the chain, in chain order (they sum to ns). */
+    contourSteps: z.array(z.number().int().min(1)).optional(),
     freeEnergy: z.number(),
     freeEnergyDisordered: finiteOrNull,
     /** F − F_disordered (kT per chain); null for a disordered result, where it is 0 by construction. */
@@ -149,6 +151,7 @@ export function summarize(sol: ScftSolution, extra: { periodTolerance?: number }
     periods: sol.periods,
     nx: sol.nx,
     ns: sol.ns,
+    contourSteps: sol.contour.blocks.map((b) => b.steps),
     freeEnergy: sol.freeEnergy,
     freeEnergyDisordered: fd,
     freeEnergyExcess: fd === null || disordered ? null : sol.freeEnergy - fd,
