@@ -8,7 +8,7 @@
 import { dirname, isAbsolute, resolve } from 'node:path';
 import type { z } from 'zod';
 import { InputError, describeValue, issueMessage } from '../io/errors.js';
-import { version1Message } from '../io/schemas/config-version.js';
+import { version1Message } from '../io/config-renames.js';
 import { readRawConfig } from './raw-config.js';
 import { parseDecimal } from './run-command.js';
 
