@@ -19,6 +19,8 @@ interface DataPanel {
   xLabel: string;
   yLabel: string;
   yLog: boolean;
+  /** x is a whole number (a peak order). */
+  xIntegers?: boolean;
   x: number[];
   y: number[];
   dy: number[] | null;
@@ -55,6 +57,7 @@ function dataFigure(p: DataPanel): Block {
           xLabel: p.xLabel,
           yLabel: p.yLabel,
           yLog: p.yLog,
+          xIntegers: p.xIntegers,
           xMin,
           xMax,
         }),
@@ -65,6 +68,7 @@ function dataFigure(p: DataPanel): Block {
           xLabel: p.xLabel,
           yLabel: 'residual / σ',
           legend: false,
+          xIntegers: p.xIntegers,
           xMin,
           xMax,
           yMin: -lim,
@@ -115,6 +119,7 @@ function braggPages(b: BraggFitFile): ReportPage[] {
           xLabel: 'order n',
           yLabel: 'integrated intensity (data units)',
           yLog: positive,
+          xIntegers: true,
           x: b.peaks.map((p) => p.order),
           y: b.peaks.map((p) => p.I),
           dy: b.peaks.map((p) => p.dI),
