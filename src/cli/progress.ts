@@ -54,8 +54,11 @@ export interface PlannedPhase {
 /**
  * Progress over a run of several phases (warm start, Adam, L-BFGS, …), with the time left for
  * the whole run: the current phase's remaining units at its measured rate, plus each later
- * phase at its own rate when measured (a resumed or repeated phase) or else at the current
- * one's. Borrowed rates and expected sizes make the time left an estimate, shown with "~".
+ * phase at its own rate when measured, or at the current one's when it counts the same unit
+ * (Adam steps after warm-start steps). A later phase in another unit, not yet measured, is
+ * named beside the time ("then 1500 iterations (L-BFGS) not yet timed"): a rate borrowed
+ * across units would be a number without meaning. Borrowed rates and expected sizes make the
+ * time left an estimate, shown with "~".
  */
 export class RunProgress {
   private readonly secondsPerUnit = new Map<string, number>();
@@ -94,14 +97,23 @@ export class RunProgress {
     const size = phase.estimated ? Math.max(phase.units, done + 1) : phase.units;
     let left = Math.max(0, size - done) * spu;
     let guessed = Boolean(phase.estimated);
-    for (const later of i >= 0 ? this.phases.slice(i + 1) : []) {
-      if (later.units <= 0) continue;
-      const known = this.secondsPerUnit.get(later.name);
-      if (known === undefined || later.estimated) guessed = true;
-      left += later.units * (known ?? spu);
+    const untimed: string[] = [];
+    let later = 0;
+    for (const next of i >= 0 ? this.phases.slice(i + 1) : []) {
+      if (next.units <= 0) continue;
+      later++;
+      const known = this.secondsPerUnit.get(next.name);
+      if (next.estimated) guessed = true;
+      if (known !== undefined) left += next.units * known;
+      // A later phase in the same unit (Adam steps after warm-start steps) borrows this rate;
+      // one in another unit (L-BFGS iterations, refits) is named, not guessed at.
+      else if (next.unit === phase.unit) {
+        left += next.units * spu;
+        guessed = true;
+      } else untimed.push(`${next.estimated ? '~' : ''}${next.units} ${next.unit} (${next.name})`);
     }
     const tilde = guessed ? '~' : '';
-    const rest = i >= 0 && i < this.phases.length - 1 ? ' (whole run)' : '';
+    const rest = untimed.length ? `, then ${untimed.join(' and ')} not yet timed` : later > 0 ? ' (whole run)' : '';
     // A phase's first report, before anything of it has finished, has no rate yet.
     const timing = Number.isFinite(left) ? `${formatRate(1 / spu)} ${phase.unit}/s | ${tilde}${formatDuration(left)} left${rest}` : 'rate and time left: measuring';
     this.progress.update(`${name} ${done}/${phase.estimated ? '~' : ''}${size} ${phase.unit}${detail ? ` | ${detail}` : ''} | ${timing}`, force);
