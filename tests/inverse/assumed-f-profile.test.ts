@@ -19,7 +19,7 @@ import { createModels, estimateClassical } from '../../src/inverse/classical.js'
 import type { ClassicalSettings } from '../../src/inverse/classical.js';
 import { LamellaModel } from '../../src/inverse/lamella-model.js';
 import { fitOffset } from '../../src/inverse/offset-fit.js';
-import { diblock, synthData } from './helpers.js';
+import { diblock, profileEnds, synthData } from './helpers.js';
 
 const F0 = 0.45;
 
@@ -54,14 +54,7 @@ function compare(c: Case) {
   const step = half / 3;
   const grid = Array.from({ length: 13 }, (_, i) => centre + (i - 6) * step);
   const vals = grid.map(P);
-  const pMin = Math.min(...vals);
-  const over = vals.map((v) => v - pMin - 1);
-  const first = over.findIndex((v) => v <= 0);
-  const last = over.length - 1 - [...over].reverse().findIndex((v) => v <= 0);
-  expect(first).toBeGreaterThan(0);
-  expect(last).toBeLessThan(grid.length - 1);
-  const cross = (i: number, j: number) => grid[i] + ((grid[j] - grid[i]) * over[i]) / (over[i] - over[j]);
-  const exact = [cross(first - 1, first), cross(last, last + 1)];
+  const exact = profileEnds(grid, vals);
   const out = { quad, centre, half, exact, halfExact: (exact[1] - exact[0]) / 2, dataOnlyHalf: (base.interval[1] - base.interval[0]) / 2 };
   console.log(`f ± ${c.sd}, ${c.points} points, noise ${c.noise}: quadratic 68.3 % [${quad[0].toFixed(4)}, ${quad[1].toFixed(4)}], exact [${exact[0].toFixed(4)}, ${exact[1].toFixed(4)}], half-widths ${half.toFixed(4)} / ${out.halfExact.toFixed(4)} = ${(half / out.halfExact).toFixed(3)}; data only ± ${out.dataOnlyHalf.toFixed(4)}; χN at f ∓ sd ${report.effects[0].chiNAtMinus.toFixed(4)}, ${report.effects[0].chiNAtPlus.toFixed(4)}`);
   return out;

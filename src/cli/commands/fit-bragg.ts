@@ -1,39 +1,23 @@
 /** `mesofield fit-bragg`: χN and the lamellar period from measured Bragg peaks (flags over a "fit-bragg" config). */
 import type { Command } from 'commander';
-import { join } from 'node:path';
-import { InputError } from '../../io/errors.js';
-import { ConfigInput } from '../config-input.js';
+import type { ConfigInput } from '../config-input.js';
+import type { FitCommandFlags } from './fit-command.js';
+import { fitConfigInput, writeFitOutput } from './fit-command.js';
 import { action } from '../run-command.js';
 import { numberList } from './film-flags.js';
 
 const EXPECTED_EVALUATIONS = 40;
 
-interface FitBraggFlags {
-  f?: string;
-  segmentRatio?: string;
+interface FitBraggFlags extends FitCommandFlags {
   lorentz?: boolean;
   chiNRange?: string;
   rgNm?: string;
   rgNmSd?: string;
-  nx?: string;
-  ns?: string;
-  json?: boolean;
-  out?: string;
-  overwrite?: boolean;
-  report?: boolean;
-  quiet?: boolean;
 }
 
 /** Flags on top of the config file (or of an empty diblock config); messages name the flag or the file's key. */
 export function buildBraggFitInput(configPath: string | undefined, flags: FitBraggFlags): ConfigInput<'fit-bragg'> {
-  const input = new ConfigInput('fit-bragg', configPath, { version: 2, kind: 'fit-bragg', system: { chain: { type: 'diblock' } } });
-  const chain = input.get('system.chain');
-  if (chain && typeof chain === 'object' && (chain as Record<string, unknown>).type === undefined) (chain as Record<string, unknown>).type = 'diblock';
-  const f = input.number('--f', flags.f);
-  if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
-  input.number('--segment-ratio', flags.segmentRatio);
-  input.number('--nx', flags.nx);
-  input.number('--ns', flags.ns);
+  const input = fitConfigInput('fit-bragg', configPath, flags);
   input.number('--rg-nm', flags.rgNm);
   input.number('--rg-nm-sd', flags.rgNmSd);
   if (flags.lorentz) input.set('--lorentz', true);
@@ -72,7 +56,6 @@ export function registerFitBragg(program: Command): void {
         const { provenance } = await import('../../io/versions.js');
         const { claimOut, withOutput } = await import('../run-output.js');
         const { Progress } = await import('../progress.js');
-        if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const input = buildBraggFitInput(configPath, flags);
         const config = input.parse(braggFitConfigSchema);
         const where = (key: string, flag: string, given: unknown) => (configPath && given === undefined ? `${configPath}: ${key}` : flag);
@@ -92,16 +75,9 @@ export function registerFitBragg(program: Command): void {
             throw asInputError(e, configPath ?? 'flags');
           }
           progress.done(`χN = ${result.chiN.toPrecision(5)} in ${result.seconds.toFixed(2)} s (${result.evaluations} model evaluations)`);
-          if (out) {
-            const written = out.write({ 'result.json': formatText(braggFitFileSchema, result) });
-            if (!flags.quiet) process.stderr.write(`fit-bragg: wrote ${written.join(', ')}\n`);
-            if (flags.report) {
-              const { measurementFitReport } = await import('../../reports/measurement-fit-input.js');
-              const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
-              const files = writeReportFiles(join(flags.out!, 'report'), renderReport(measurementFitReport(flags.out!, { bragg: result }), ['pdf', 'png'], 150));
-              if (!flags.quiet) process.stderr.write(`fit-bragg: wrote ${files.join(', ')}\n`);
-            }
-          }
+          const { measurementFitReport } = await import('../../reports/measurement-fit-input.js');
+          const fit = result;
+          await writeFitOutput('fit-bragg', out, flags, formatText(braggFitFileSchema, fit), () => measurementFitReport(flags.out!, { bragg: fit }));
           process.stdout.write(flags.json ? formatText(braggFitFileSchema, result, 2) : braggFitText(result));
         });
       }),

@@ -1,34 +1,18 @@
 /** `mesofield fit-spacing`: χ and the segment length b from lamellar periods measured for several chain lengths (flags over a "fit-spacing" config). */
 import type { Command } from 'commander';
-import { join } from 'node:path';
-import { InputError } from '../../io/errors.js';
-import { ConfigInput } from '../config-input.js';
+import type { ConfigInput } from '../config-input.js';
+import type { FitCommandFlags } from './fit-command.js';
+import { fitConfigInput, writeFitOutput } from './fit-command.js';
 import { action } from '../run-command.js';
 import { numberList } from './film-flags.js';
 
-interface FitSpacingFlags {
-  f?: string;
-  segmentRatio?: string;
+interface FitSpacingFlags extends FitCommandFlags {
   chiRange?: string;
-  nx?: string;
-  ns?: string;
-  json?: boolean;
-  out?: string;
-  overwrite?: boolean;
-  report?: boolean;
-  quiet?: boolean;
 }
 
 /** Flags on top of the config file (or of an empty diblock config); messages name the flag or the file's key. */
 export function buildSpacingFitInput(configPath: string | undefined, flags: FitSpacingFlags): ConfigInput<'fit-spacing'> {
-  const input = new ConfigInput('fit-spacing', configPath, { version: 2, kind: 'fit-spacing', system: { chain: { type: 'diblock' } } });
-  const chain = input.get('system.chain');
-  if (chain && typeof chain === 'object' && (chain as Record<string, unknown>).type === undefined) (chain as Record<string, unknown>).type = 'diblock';
-  const f = input.number('--f', flags.f);
-  if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
-  input.number('--segment-ratio', flags.segmentRatio);
-  input.number('--nx', flags.nx);
-  input.number('--ns', flags.ns);
+  const input = fitConfigInput('fit-spacing', configPath, flags);
   const range = numberList('--chi-range', flags.chiRange, 2, '0.05,0.2');
   if (range) input.set('--chi-range', range);
   return input;
@@ -64,7 +48,6 @@ export function registerFitSpacing(program: Command): void {
         const { provenance } = await import('../../io/versions.js');
         const { claimOut, withOutput } = await import('../run-output.js');
         const { Progress } = await import('../progress.js');
-        if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const config = buildSpacingFitInput(configPath, flags).parse(spacingFitConfigSchema);
         const out = claimOut(flags, 'fit-spacing');
         return withOutput(out, async () => {
@@ -79,16 +62,9 @@ export function registerFitSpacing(program: Command): void {
             throw asInputError(e, configPath ?? 'flags');
           }
           progress.done(`χ = ${result.chi.toPrecision(5)} in ${result.seconds.toFixed(2)} s (${result.evaluations} χ values)`);
-          if (out) {
-            const written = out.write({ 'result.json': formatText(spacingFitFileSchema, result) });
-            if (!flags.quiet) process.stderr.write(`fit-spacing: wrote ${written.join(', ')}\n`);
-            if (flags.report) {
-              const { measurementFitReport } = await import('../../reports/measurement-fit-input.js');
-              const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
-              const files = writeReportFiles(join(flags.out!, 'report'), renderReport(measurementFitReport(flags.out!, { spacing: result }), ['pdf', 'png'], 150));
-              if (!flags.quiet) process.stderr.write(`fit-spacing: wrote ${files.join(', ')}\n`);
-            }
-          }
+          const { measurementFitReport } = await import('../../reports/measurement-fit-input.js');
+          const fit = result;
+          await writeFitOutput('fit-spacing', out, flags, formatText(spacingFitFileSchema, fit), () => measurementFitReport(flags.out!, { spacing: fit }));
           process.stdout.write(flags.json ? formatText(spacingFitFileSchema, result, 2) : spacingFitText(result));
         });
       }),
