@@ -73,9 +73,9 @@ export class RunProgress {
     if (first) this.begin(first.name);
   }
 
-  /** Phase `name` starts now (its clock runs from here, not from its first report). */
-  begin(name: string): void {
-    this.current = { name, firstAt: performance.now(), firstDone: 0 };
+  /** Phase `name` starts now (its clock runs from here, not from its first report), `from` units already done (a resumed run). */
+  begin(name: string, from = 0): void {
+    this.current = { name, firstAt: performance.now(), firstDone: from };
   }
 
   /** A phase's size once the run knows it (a count the caller could not know in advance). */

@@ -70,6 +70,7 @@ export function registerTrain(program: Command): void {
         const progress = new Progress('train', flags.quiet);
         // The whole run's phases, for the time left: a phase may end early (a target reached), never run longer.
         const tr = config.training;
+        let resumedStep = 0;
         const run = new RunProgress(progress, [
           { name: 'warm start', units: config.warmStart.type !== 'none' && !config.initFrom && !flags.resume ? config.warmStart.adamSteps : 0, unit: 'steps' },
           { name: 'Adam', units: tr.adamSteps, unit: 'steps' },
@@ -89,10 +90,13 @@ export function registerTrain(program: Command): void {
             resumeDir: flags.resume,
             backend,
             onStage: (m) => {
+              // A resumed run's Adam steps count from its checkpoint's step: the rate is of the steps run now.
+              const resumed = /^resumed from .* at step (\d+)$/.exec(m);
+              if (resumed) resumedStep = Number(resumed[1]);
               // The reference solve and the backend's start-up come first, outside every phase's clock.
               // Each phase's clock starts with its stage message, so its first report already has a rate.
               if (m.startsWith('warm start')) run.begin('warm start');
-              else if (m.startsWith('training (')) run.begin('Adam');
+              else if (m.startsWith('training (')) run.begin('Adam', resumedStep);
               else if (m.startsWith('L-BFGS polish')) run.begin('L-BFGS');
               else if (m.startsWith('second-order phase')) run.begin('second order');
               progress.update(m, true);
