@@ -1,9 +1,9 @@
-/** The report of a fit-bragg or fit-spacing result (their result files, io/formats/measurement-fits.ts) as a ReportDocument. */
+/** The report input of a fit-bragg or fit-spacing result (their result files, io/formats/measurement-fits.ts), and its ReportDocument. */
 import type { BraggFitFile, SpacingFitFile } from '../io/formats/measurement-fits.js';
 import type { ChainSpec } from '../physics/chain-schema.js';
 import { buildReport } from './build-report.js';
 import type { ReportDocument } from './document.js';
-import type { SettingRow } from './report-inputs.js';
+import type { ReportInput, SettingRow } from './report-inputs.js';
 import { formatValue } from '../io/number-format.js';
 
 /** Every leaf of the config as one row ("cell.nx: 64"). */
@@ -12,7 +12,9 @@ function settingRows(config: unknown, prefix = ''): SettingRow[] {
   return Object.entries(config as Record<string, unknown>).flatMap(([k, v]) => settingRows(v, prefix ? `${prefix}.${k}` : k));
 }
 
-export function measurementFitReport(source: string, fit: { bragg: BraggFitFile } | { spacing: SpacingFitFile }): ReportDocument {
+export type MeasurementFit = { bragg: BraggFitFile } | { spacing: SpacingFitFile };
+
+export function measurementFitInput(source: string, fit: MeasurementFit): ReportInput {
   const r = 'bragg' in fit ? fit.bragg : fit.spacing;
   const config = r.config as { system: { chain: ChainSpec } };
   const bragg = 'bragg' in fit ? fit.bragg : undefined;
@@ -28,5 +30,9 @@ export function measurementFitReport(source: string, fit: { bragg: BraggFitFile 
     runSeconds: r.seconds,
     runSecondsNote: 'the fit, model solves included',
   };
-  return buildReport({ info, ...('bragg' in fit ? { braggFit: fit.bragg } : { spacingFit: fit.spacing }) });
+  return { info, ...('bragg' in fit ? { braggFit: fit.bragg } : { spacingFit: fit.spacing }) };
+}
+
+export function measurementFitReport(source: string, fit: MeasurementFit): ReportDocument {
+  return buildReport(measurementFitInput(source, fit));
 }

@@ -55,6 +55,10 @@ describe('fit-bragg (CLI)', () => {
     const text = pdfText(join(out, 'report', 'report.pdf'));
     expect(text).toMatch(/Bragg-peak fit/);
     expect(text).toMatch(/What this χN rests on/);
+    // `report DIR` reads the result file again (kind bragg-fit) and draws the same pages.
+    const again = runCli(['report', out, '--out', join(out, 'again'), '--quiet']);
+    expect(again.code, again.stderr).toBe(0);
+    expect(pdfText(join(out, 'again', 'report.pdf'))).toMatch(/Bragg-peak fit: χN = /);
   });
 
   it('ties D to a given Rg: the right Rg keeps the truth inside, an Rg 5 % too large pulls χN down (L_eq grows with χN)', () => {
