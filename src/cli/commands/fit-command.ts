@@ -39,13 +39,13 @@ export function fitConfigInput<C extends FitCommand>(command: C, configPath: str
   return input;
 }
 
-/** result.json into the claimed --out, and the report beside it when asked; what was written goes to stderr. */
-export async function writeFitOutput(command: FitCommand, out: OutputDirectory | undefined, flags: FitCommandFlags, resultText: string, report: () => ReportDocument): Promise<void> {
+/** result.json into the claimed --out, and the report beside it when asked (the report code loads only then); what was written goes to stderr. */
+export async function writeFitOutput(command: FitCommand, out: OutputDirectory | undefined, flags: FitCommandFlags, resultText: string, report: () => Promise<ReportDocument>): Promise<void> {
   if (!out) return;
   const written = out.write({ 'result.json': resultText });
   if (!flags.quiet) process.stderr.write(`${command}: wrote ${written.join(', ')}\n`);
   if (!flags.report) return;
   const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
-  const files = writeReportFiles(join(flags.out!, 'report'), renderReport(report(), ['pdf', 'png'], 150));
+  const files = writeReportFiles(join(flags.out!, 'report'), renderReport(await report(), ['pdf', 'png'], 150));
   if (!flags.quiet) process.stderr.write(`${command}: wrote ${files.join(', ')}\n`);
 }
