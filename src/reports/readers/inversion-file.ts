@@ -59,7 +59,10 @@ function restsOn(file: InversionResultFile, e: EstimatorBlockFile): string[] {
     if (x) lines.push(`${INPUT_NAMES[key]} = ${sig(x.value, 4)} ± ${sig(x.sd, 2)}: χN = ${sig(x.chiNAtMinus, 4)} at −1 sd and ${sig(x.chiNAtPlus, 4)} at +1 sd; adds an sd of ${sig(x.chiNSd, 2)} to χN, included in the interval.`);
     else if (value !== undefined) lines.push(`${INPUT_NAMES[key]} = ${sig(value, 4)} taken as exact (an sd with --${key === 'f' ? 'f-sd' : 'segment-ratio-sd'} would enter the interval).`);
   }
-  if (a?.statisticalInterval && (a.rgProfile || a.effects?.length)) lines.push(`From the data alone (inputs fixed): 68 % interval ${sig(a.statisticalInterval[0], 5)} – ${sig(a.statisticalInterval[1], 5)}.`);
+  if (a?.statisticalInterval && (a.rgProfile || a.effects?.length)) {
+    const dataOnly = (e as { chiNDataOnly?: number }).chiNDataOnly;
+    lines.push(`From the data alone (inputs fixed): ${dataOnly !== undefined ? `χN = ${sig(dataOnly, 5)}, ` : ''}68 % interval ${sig(a.statisticalInterval[0], 5)} – ${sig(a.statisticalInterval[1], 5)}${dataOnly !== undefined ? '; the profiles and fields drawn are that fit' : ''}.`);
+  }
   lines.push(`Period: ${e.periodMode === 'equilibrium' ? 'the stress-free period of the model at each χN' : e.periodMode === 'free' ? 'fitted to the data' : 'given'}.`);
   return lines;
 }
