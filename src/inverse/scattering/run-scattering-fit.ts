@@ -6,7 +6,8 @@ import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { InputError } from '../../io/errors.js';
 import type { ScatteringConfig } from '../../io/schemas/scattering-config.js';
-import type { ScatteringResultFile } from '../../io/schemas/scattering-result.js';
+import type { ScatteringResultFile } from '../../io/formats/scattering-fit.js';
+import type { Provenance } from '../../io/versions.js';
 import type { ScatteringData } from './scattering-csv.js';
 import { parseScatteringCsv } from './scattering-csv.js';
 import type { RgSetting, ScatteringFit } from './scattering-fit.js';
@@ -18,7 +19,7 @@ export interface ScatteringRunOptions {
   baseDir: string;
   /** Where the Rg settings came from (flags or the config path), for messages. */
   rgSource: string;
-  provenance: unknown;
+  provenance: Provenance;
   onFit?: (i: number, total: number, fit: ScatteringFit) => void;
 }
 
