@@ -25,7 +25,6 @@ import { measurementFitInput } from './measurement-fit-input.js';
 import { readdirSync, statSync } from 'node:fs';
 import { filmFitResultSchema } from '../io/formats/film.js';
 import type { FilmFitResultFile } from '../io/formats/film.js';
-import { z } from 'zod';
 import { join } from 'node:path';
 import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
 import { readJsonFile } from '../io/load-json.js';
