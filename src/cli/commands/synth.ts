@@ -5,7 +5,7 @@ import type { SynthTruth } from '../../io/formats/synth-truth.js';
 import type { Command } from 'commander';
 import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
 import { claimOut, withOutput } from '../run-output.js';
-import { InputError, asInputError } from '../../io/errors.js';
+import { asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
 import { action, numberFlag, requiredFlag } from '../run-command.js';
