@@ -5,6 +5,7 @@ import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
 import { solutionFileSchema } from '../../io/formats/solution.js';
 import type { OutputDirectory } from '../../io/output-directory.js';
+import { errorFromWorker } from '../worker-errors.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { parseScanRange } from '../../spectral/film-scan-run.js';
 import type { SolveRunOutput, SolveStep, SolveTask } from '../../spectral/solve-run.js';
@@ -107,13 +108,6 @@ export function registerSolve(program: Command): void {
     );
 }
 
-/** Model errors come back from the worker as their name and message; the CLI's exit codes need the classes. */
-function fromWorker(e: { name: string; message: string }): Error {
-  if (e.name === 'InputError') return new InputError(e.message);
-  if (e.name === 'RunFailure') return new RunFailure(e.message);
-  return Object.assign(new Error(e.message), { name: e.name });
-}
-
 /**
  * The solve runs on a worker thread (spectral/solve-worker.ts) so that Ctrl-C or SIGTERM is
  * answered at once: the worker is ended, nothing is written (an output directory is left as
@@ -138,7 +132,7 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
   const uninstall = installStopHandlers('solve', `stopping the solve; nothing will be written${flags.out ? ` (${flags.out} is left as it was)` : ''}`);
   let r: SolveRunOutput;
   try {
-    [r] = await runInWorkers<SolveTask, SolveRunOutput, SolveStep>([task], { entry: 'spectral/solve-worker.js', workerData: null, workers: 1, onProgress: (s) => run.at(s.phase, s.done, s.detail, s.keep), toError: fromWorker, signal: stopAbortSignal() });
+    [r] = await runInWorkers<SolveTask, SolveRunOutput, SolveStep>([task], { entry: 'spectral/solve-worker.js', workerData: null, workers: 1, onProgress: (s) => run.at(s.phase, s.done, s.detail, s.keep), toError: errorFromWorker, signal: stopAbortSignal() });
   } catch (e) {
     if (e instanceof PoolStopped) throw new RunStopped(`solve stopped by a signal before it finished; nothing was written${flags.out ? ` (${flags.out} was left as it was)` : ''}`);
     throw e;
