@@ -19,7 +19,7 @@ import { cosineStart } from '../spectral/scft-solver.js';
 import { Adam } from '../autodiff/adam.js';
 import { selectBackend } from '../autodiff/backend.js';
 import type { BackendHandle, Tf } from '../autodiff/backend.js';
-import { loadCheckpoint, saveCheckpoint, splitWeights } from './checkpoint.js';
+import { loadCheckpoint, requireTransferSource, saveCheckpoint, splitWeights } from './checkpoint.js';
 import type { CheckpointFile, HeldState, LoadedCheckpoint } from './checkpoint.js';
 import { runSecondOrder } from './second-order-phase.js';
 import type { SecondOrderProgress, SecondOrderResult } from './second-order-phase.js';
@@ -120,6 +120,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const t0 = performance.now();
   let config = opts.config;
   checkTransferBaseline(config);
+  if (config.initFrom && !opts.resumeDir) requireTransferSource(config.initFrom);
   const stage = opts.onStage ?? (() => {});
   let resumed: LoadedCheckpoint | null = null;
   if (opts.resumeDir) {
