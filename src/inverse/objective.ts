@@ -121,25 +121,40 @@ export function periodogramPeriod(data: FitData, lo: number, hi: number, points 
   let best = lo;
   let bestRss = Infinity;
   const n = data.x.length;
+  // cos and sin of each point, computed once per trial period and used by both passes (a long profile spends its time here).
+  const cw = new Float64Array(n);
+  const sw = new Float64Array(n);
   for (let k = 0; k < points; k++) {
     const L = lo * Math.pow(hi / lo, k / (points - 1));
     const w = (2 * Math.PI) / L;
-    // Weighted normal equations for (a, b, c).
+    // Weighted normal equations for (a, b, c), basis (1, cos, sin): the same sums in the same order as a 3×3 loop.
     const M = [0, 0, 0, 0, 0, 0, 0, 0, 0];
     const v = [0, 0, 0];
     for (let i = 0; i < n; i++) {
-      const basis = [1, Math.cos(w * data.x[i]), Math.sin(w * data.x[i])];
+      const b1 = Math.cos(w * data.x[i]);
+      const b2 = Math.sin(w * data.x[i]);
+      cw[i] = b1;
+      sw[i] = b2;
       const wt = data.weight[i];
-      for (let r = 0; r < 3; r++) {
-        v[r] += wt * basis[r] * data.phi[i];
-        for (let c = 0; c < 3; c++) M[3 * r + c] += wt * basis[r] * basis[c];
-      }
+      const y = data.phi[i];
+      v[0] += wt * 1 * y;
+      v[1] += wt * b1 * y;
+      v[2] += wt * b2 * y;
+      M[0] += wt * 1 * 1;
+      M[1] += wt * 1 * b1;
+      M[2] += wt * 1 * b2;
+      M[3] += wt * b1 * 1;
+      M[4] += wt * b1 * b1;
+      M[5] += wt * b1 * b2;
+      M[6] += wt * b2 * 1;
+      M[7] += wt * b2 * b1;
+      M[8] += wt * b2 * b2;
     }
     const coef = solve3(M, v);
     if (!coef) continue;
     let rss = 0;
     for (let i = 0; i < n; i++) {
-      const r = coef[0] + coef[1] * Math.cos(w * data.x[i]) + coef[2] * Math.sin(w * data.x[i]) - data.phi[i];
+      const r = coef[0] + coef[1] * cw[i] + coef[2] * sw[i] - data.phi[i];
       rss += data.weight[i] * r * r;
     }
     if (rss < bestRss) {
