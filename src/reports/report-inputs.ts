@@ -242,7 +242,10 @@ export interface ReflectivityInput {
 
 /** A film between walls: the solution's walls, thickness and layers, and F(H) when scanned. */
 export interface FilmInput {
+  /** The reference (spectral) film solution, or the only solution of the run. */
   solution: ScftSolution;
+  /** A network solution of the same film on the same grid (a train or evaluate run): drawn beside the reference. */
+  network?: ScftSolution;
   thickness: number;
   walls: { bottom: number; top: number; range: number };
   layers: { A: number; B: number; sequence: string };

@@ -85,6 +85,35 @@ describe('film pages', () => {
     expect(r.layers.sequence[r.layers.sequence.length - 1]).toBe('A');
   });
 
+  it('of a train run: page 1 leads with the network error and verdict; the profiles draw network and reference with a legend', () => {
+    const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
+    const walls = { bottom: { affinity: 1 }, top: { affinity: -1 }, range: 0.25 };
+    const r = solveFilm({ system, cell: new FilmCell(3.7, 32, walls), contour: 40 });
+    // FIXTURE, not a network: the spectral film at χN 15.5, relabelled; it only drives the overlay and the differences.
+    const other = solveFilm({ system: { ...system, chiN: 15.5 }, cell: new FilmCell(3.7, 32, walls), contour: 40 });
+    const network = { ...other.solution, solver: 'network' as const };
+    const input: ReportInput = {
+      info: { ...runInfo('train'), system },
+      film: { solution: r.solution, network, thickness: 3.7, walls: { bottom: 1, top: -1, range: 0.25 }, layers: r.layers },
+      networkMetrics: { phiA: { relativeL2: 4.04e-3, maxError: 9.1e-3 }, exchangeField: { relativeL2: 2e-2, maxError: 0.1 }, QRelativeError: 1e-3, freeEnergyError: -2.5e-4, freshResiduals: {}, phase: 'lamellar' },
+    };
+    const path = pdfFile(renderPdf(buildReport(input)));
+    const p1 = pdfText(path, 1);
+    expect(p1).toMatch(/network φA error, relative L2 \(max\)\s+4\.04e-3 \(9\.10?e-3\)/);
+    expect(p1).toMatch(/network F − reference F\s+-2\.50?e-4/);
+    expect(p1).toMatch(/network density\s+lamellar/);
+    expect(p1).toContain('reference free energy F');
+    const all = pdfText(path);
+    for (const s of ['φA network', 'φA reference', 'φB network', 'φB reference', 'Δφ (–)', 'Δ(wA − wB) (kT)']) expect(all).toContain(s);
+    const flat = all.replace(/\s+/g, ' ');
+    expect(flat).toContain('The network (solid) and the spectral reference (dashed)');
+    expect(flat).toContain('Network solid, reference dashed');
+    // The caption's largest difference is the one of the drawn arrays, computed here independently.
+    let m = 0;
+    for (let i = 0; i < network.phi.A.length; i++) m = Math.max(m, Math.abs(network.phi.A[i] - r.solution.phi.A[i]));
+    expect(flat).toContain(`max |ΔφA| = ${m.toExponential(2)}`);
+  });
+
   it('draw R(Q) against data when a reflectivity fit fills the hook', () => {
     const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
     const r = solveFilm({ system, cell: new FilmCell(3.7, 32, { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 }), contour: 40 });
