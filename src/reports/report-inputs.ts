@@ -9,6 +9,7 @@ import type { SystemSpec } from '../physics/chain-schema.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { ScatteringReportInput } from './scattering-input.js';
 import type { BraggReportInput } from './bragg-input.js';
+import type { TerracePrediction, ThicknessPoint } from '../spectral/thickness-scan.js';
 
 /** The title block: what was run, with what, when (from the run's provenance) and how long. */
 export interface RunInfo {
@@ -218,6 +219,28 @@ export interface SweepPointInput {
 export interface SweepInput {
   points: SweepPointInput[];
   chainLabel: string;
+  /** A sweep with a thickness axis: its F(H) curves (then drawn instead of the χN figures). */
+  film?: FilmSweepInput;
+}
+
+/** One F(H) of a film sweep (fixed χN, f, b_A/b_B and walls) with the bulk period D for reference. */
+export interface FilmSweepScanInput extends ThicknessScanInput {
+  /** Each point also with F of the disordered film between the same walls (kT per chain). */
+  points: ThicknessPoint[];
+  chiN: number;
+  f: number;
+  segmentRatio: number;
+  walls: { bottom: number; top: number };
+  terraces?: TerracePrediction;
+  /** Stress-free period of the bulk lamella at the same χN, f, b_A/b_B (Rg); NaN when there is none. */
+  bulkPeriod: number;
+  bulkNote?: string;
+}
+
+export interface FilmSweepInput {
+  scans: FilmSweepScanInput[];
+  /** Grid of the bulk-period solves (points per period × contour steps). */
+  bulkGrid: { nx: number; ns: number };
 }
 
 /** F(H) of a film: a thickness scan (spectral/thickness-scan.ts). */

@@ -50,6 +50,15 @@ export function keyResults(input: ReportInput): MetricRow[] {
     rows.push(...(inv.fitRows ?? []));
     return rows;
   }
+  if (input.sweep?.film) {
+    rows.push({ name: 'points solved', value: `${input.sweep.points.length} (${input.sweep.points.filter((p) => p.converged).length} converged)` });
+    for (const s of input.sweep.film.scans) {
+      const tag = input.sweep.film.scans.length > 1 ? ` (χN = ${sig(s.chiN, 4)}, walls ${sig(s.walls.bottom, 3)} / ${sig(s.walls.top, 3)})` : '';
+      if (s.bulkPeriod > 0) rows.push({ name: `bulk lamellar period D${tag}`, value: sig(s.bulkPeriod, 5), unit: 'Rg' });
+      rows.push({ name: `F(H) minima${tag}`, value: s.minima.map((m) => `${sig(m.thickness, 4)} Rg${s.bulkPeriod > 0 ? ` = ${sig(m.thickness / s.bulkPeriod, 3)} D` : ''} (${m.layers.length} layers)`).join(', ') || 'none inside the scanned range' });
+    }
+    return rows;
+  }
   if (input.sweep) {
     const series = sweepSeries(input.sweep);
     rows.push({ name: 'points solved', value: `${input.sweep.points.length} (${input.sweep.points.filter((p) => p.converged).length} converged)` });
