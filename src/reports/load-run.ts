@@ -14,6 +14,9 @@
  * The file formats are read in the readers/ files only. Anything missing or inconsistent is
  * an InputError naming the file and field.
  */
+import { braggFitFileSchema, spacingFitFileSchema } from '../io/formats/measurement-fits.js';
+import type { MeasurementFit } from './measurement-fit-input.js';
+import { measurementFitInput } from './measurement-fit-input.js';
 import { readdirSync, statSync } from 'node:fs';
 import { filmFitResultSchema } from '../io/formats/film.js';
 import type { FilmFitResultFile } from '../io/formats/film.js';
@@ -170,6 +173,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   let sweepProvenance: SolutionFile['provenance'] | undefined;
   let filmFit: ReportInput['filmFit'];
   let surrogate: ReportInput['surrogate'];
+  let measurementFit: MeasurementFit | undefined;
   for (const name of names) {
     const path = join(dir, name);
     const raw = readJsonFile(path);
@@ -191,6 +195,10 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     } else if (kind === 'film-fit-result') {
       filmFit = filmFitInput(parseOrThrow(filmFitResultSchema, raw, path));
       read.push(path);
+    } else if (kind === 'bragg-fit') {
+      measurementFit = { bragg: parseOrThrow(braggFitFileSchema, raw, path) };
+    } else if (kind === 'spacing-fit') {
+      measurementFit = { spacing: parseOrThrow(spacingFitFileSchema, raw, path) };
     } else if (kind === 'checkpoint') {
       // A training checkpoint (training/checkpoint.ts), read through its schema: its history is the training page.
       training = trainingRecords(parseOrThrow(checkpointFileSchema, raw, path).history, path);
@@ -214,6 +222,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     }
     read.push(path);
   }
+  if (solutions.length === 0 && measurementFit) return { input: measurementFitInput(dir, measurementFit), read, notes };
   if (solutions.length === 0 && sweep) return { input: sweepRun(dir, sweep, sweepProvenance!), read, notes };
   if (solutions.length === 0) {
     throw new InputError(`${dir}: no solution file found (a *.json with "kind": "solution", such as solution.json from mesofield solve --out) and no sweep table; files here: ${readdirSync(dir).sort().join(', ') || 'none'}`);

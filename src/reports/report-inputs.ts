@@ -10,6 +10,7 @@ import type { ScftSolution } from '../physics/result.js';
 import type { ScatteringReportInput } from './scattering-input.js';
 import type { BraggReportInput } from './bragg-input.js';
 import type { TerracePrediction, ThicknessPoint } from '../spectral/thickness-scan.js';
+import type { BraggFitFile, SpacingFitFile } from '../io/formats/measurement-fits.js';
 
 /** The title block: what was run, with what, when (from the run's provenance) and how long. */
 export interface RunInfo {
@@ -139,6 +140,8 @@ export interface InversionInput {
   rgNm?: number;
   /** Fit quality and fitted nuisance parameters (reduced χ², period, offset), for the metrics table. */
   fitRows?: MetricRow[];
+  /** What the χN rests on: the assumed inputs, how each entered and its effect on χN (title page). */
+  restsOn?: string[];
   bestChiN: number;
   estimators: EstimatorRow[];
 }
@@ -300,6 +303,10 @@ export interface ReportInput {
   scattering?: ScatteringReportInput;
   /** A predicted Bragg pattern (bragg-pattern). */
   bragg?: BraggReportInput;
+  /** A fit to measured Bragg peaks (fit-bragg). */
+  braggFit?: BraggFitFile;
+  /** A fit to the domain spacings of several N (fit-spacing). */
+  spacingFit?: SpacingFitFile;
   /** Rows appended to the metrics table (e.g. from metrics.json). */
   metrics?: MetricRow[];
 }

@@ -34,6 +34,8 @@ export interface SurrogateRunOptions {
   backend?: SurrogateConfig['backend'];
   onStage?: (message: string) => void;
   onRound?: (r: SurrogateHistoryEntry & { rounds: number }) => void;
+  /** Each reference solve (anchors, held-out points, extra fit points) as it finishes: `done` of `total`. */
+  onSolve?: (done: number, total: number, role: string, seconds: number) => void;
 }
 
 export type { SurrogateMetrics } from '../io/formats/surrogate.js';
@@ -67,23 +69,28 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
   const backendKind = opts.backend ?? config.backend;
 
   const anchorPoints = space.anchors();
+  const heldPoints = space.heldOut(config.evaluation.random, config.evaluation.seed);
+  const totalSolves = anchorPoints.length + heldPoints.length + config.warmStart.extraSolves;
+  let solvesDone = 0;
+  const solved = (role: string, seconds: number) => opts.onSolve?.(++solvesDone, totalSolves, role, seconds);
   stage(`reference solves at ${anchorPoints.length} anchors (equilibrium period)`);
   const anchorTimes: number[] = [];
   const [anchors, anchorSeconds] = timed(() =>
     anchorPoints.map((p) => {
       const [solution, s] = timed(() => solveReference(space, config, p, { role: 'anchor' }));
       anchorTimes.push(s);
+      solved('anchor', s);
       return { point: p, solution };
     }),
   );
   const periodModel: PeriodModel = { axes: space.axes.map((a) => ParameterSpace.axisValues(a)), periods: anchors.map((a) => a.solution.period) };
 
-  const heldPoints = space.heldOut(config.evaluation.random, config.evaluation.seed);
   stage(`reference solves at ${heldPoints.length} held-out points (equilibrium period)`);
   const [heldOut, heldOutSeconds] = timed(() =>
     heldPoints.map((p) => {
       const [solution, s] = timed(() => solveReference(space, config, p, { role: 'held-out point' }));
       anchorTimes.push(s);
+      solved('held-out point', s);
       return { point: p, solution };
     }),
   );
@@ -101,7 +108,9 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
       [extra, extraSeconds] = timed(() =>
         Array.from({ length: ws.extraSolves }, () => {
           const p = space.draw(rng);
-          return { point: p, solution: solveReference(space, config, p, { period: model.period(p), initial: nearest(space, anchors, p).solution.w, role: 'extra fit point' }) };
+          const [solution, s] = timed(() => solveReference(space, config, p, { period: model.period(p), initial: nearest(space, anchors, p).solution.w, role: 'extra fit point' }));
+          solved('extra fit point', s);
+          return { point: p, solution };
         }),
       );
     }

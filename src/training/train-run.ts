@@ -19,7 +19,7 @@ import { cosineStart } from '../spectral/scft-solver.js';
 import { Adam } from '../autodiff/adam.js';
 import { selectBackend } from '../autodiff/backend.js';
 import type { BackendHandle, Tf } from '../autodiff/backend.js';
-import { loadCheckpoint, saveCheckpoint, splitWeights } from './checkpoint.js';
+import { loadCheckpoint, requireTransferSource, saveCheckpoint, splitWeights } from './checkpoint.js';
 import type { CheckpointFile, HeldState, LoadedCheckpoint } from './checkpoint.js';
 import { runSecondOrder } from './second-order-phase.js';
 import type { SecondOrderProgress, SecondOrderResult } from './second-order-phase.js';
@@ -49,6 +49,10 @@ export interface TrainRunOptions {
   onStage?: (message: string) => void;
   /** Progress of the second-order phase (iteration, loss, μ, rate, time left). */
   onSecondOrder?: (p: SecondOrderProgress) => void;
+  /** Each warm-start step (of `steps`) with its loss. */
+  onWarmStart?: (step: number, steps: number, loss: number) => void;
+  /** Each L-BFGS iteration over all cycles (of `iterations`) with its loss. */
+  onLbfgs?: (iteration: number, iterations: number, loss: number) => void;
   shouldStop?: () => boolean;
 }
 
@@ -116,6 +120,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const t0 = performance.now();
   let config = opts.config;
   checkTransferBaseline(config);
+  if (config.initFrom && !opts.resumeDir) requireTransferSource(config.initFrom);
   const stage = opts.onStage ?? (() => {});
   let resumed: LoadedCheckpoint | null = null;
   if (opts.resumeDir) {
@@ -193,7 +198,10 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     stage(fromReference ? 'warm start: fitting the networks to the spectral solution' : 'cold start: fitting the field network to a cosine guess');
     const wsStart = performance.now();
     // Every warm-start step in the history: the report draws the loss over every phase.
-    const onStep = (step: number, loss: number) => state.history.push({ step, stage: 'warm-start', total: loss, terms: {}, learningRate: ws.learningRate, seconds: (performance.now() - wsStart) / 1000, wallSeconds: (performance.now() - t0) / 1000 });
+    const onStep = (step: number, loss: number) => {
+      state.history.push({ step, stage: 'warm-start', total: loss, terms: {}, learningRate: ws.learningRate, seconds: (performance.now() - wsStart) / 1000, wallSeconds: (performance.now() - t0) / 1000 });
+      opts.onWarmStart?.(step, ws.adamSteps, loss);
+    };
     const r = await warmStartYielding(tf, nets, { x: reference.x, w, chiN: config.system.chiN, propagators: fromReference && ws.fitPropagator ? reference.propagators : undefined }, ws.adamSteps, ws.learningRate, onStep, opts.shouldStop ?? (() => false));
     if (r.interrupted) {
       // Nothing to resume from yet (the checkpoints start with the training steps): say so.
@@ -288,7 +296,10 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       }
       const before = iterations;
       // Every L-BFGS iteration in the history (loss only); the cycle's end entry below adds the φA error.
-      const onIteration = (it: number, f: number) => loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: before + it });
+      const onIteration = (it: number, f: number) => {
+        loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: before + it });
+        opts.onLbfgs?.(before + it, tr.lbfgsIterations, f);
+      };
       r = await polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined, onIteration, opts.shouldStop);
       iterations += r.iterations;
       if (r.reason === 'interrupted') {

@@ -1,11 +1,7 @@
-/**
- * `mesofield bragg-pattern`: the Bragg peaks of a solved or fitted lamella (a solution file);
- * `mesofield fit-bragg`: χN and the period from measured Bragg peaks.
- */
+/** `mesofield bragg-pattern`: the Bragg peaks of a solved or fitted lamella (a solution file). */
 import type { Command } from 'commander';
 import { claimOut, withOutput } from '../run-output.js';
 import { join } from 'node:path';
-import { readFileSync } from 'node:fs';
 import { InputError } from '../../io/errors.js';
 import { action, numberFlag } from '../run-command.js';
 
@@ -20,18 +16,6 @@ interface PatternFlags {
   out?: string;
 }
 
-interface FitFlags {
-  overwrite?: boolean;
-  f?: string;
-  segmentRatio?: string;
-  lorentz?: boolean;
-  chiNRange?: string;
-  nx: string;
-  ns: string;
-  json?: boolean;
-  out?: string;
-  quiet?: boolean;
-}
 
 export function registerBragg(program: Command): void {
   program
@@ -101,74 +85,6 @@ export function registerBragg(program: Command): void {
             process.stdout.write(`${lines.join('\n')}\n`);
           }
         });
-      }),
-    );
-
-  program
-    .command('fit-bragg')
-    .description('χN and the lamellar period D from measured Bragg peaks (positions and integrated intensities), with profile-likelihood intervals')
-    .argument('<peaks>', 'CSV: order, q_per_nm or q_per_A, I, dI, and optionally dq')
-    .option('--f <f>', 'A fraction of the diblock')
-    .option('--segment-ratio <r>', 'b_A/b_B')
-    .option('--lorentz', 'the measured intensities carry the powder Lorentz factor 1/q²')
-    .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal to 60)')
-    .option('--nx <n>', 'model grid points per period', '64')
-    .option('--ns <n>', 'model contour steps', '100')
-    .option('--json', 'print the result JSON on stdout')
-    .option('--out <dir>', 'write result.json into this directory')
-    .option('--overwrite', 'replace a previous fit-bragg output in --out (only the files mesofield wrote there)')
-    .option('--quiet', 'no progress on stderr')
-    .action(
-      action(async (path: string, flags: FitFlags) => {
-        const { parsePeaksCsv } = await import('../../inverse/bragg/bragg-inputs.js');
-        const { fitBragg } = await import('../../inverse/bragg/bragg-fit.js');
-        const { parseOrThrow, asInputError } = await import('../../io/errors.js');
-        const { chainSchema } = await import('../../physics/chain-schema.js');
-        const f = numberFlag('--f', flags.f);
-        if (f === undefined) throw new InputError('--f: missing; the A fraction f of the diblock is required');
-        const ratio = numberFlag('--segment-ratio', flags.segmentRatio) ?? 1;
-        const chain = parseOrThrow(chainSchema, { type: 'diblock', f, segmentRatio: ratio }, 'flags');
-        let range: [number, number] | undefined;
-        if (flags.chiNRange !== undefined) {
-          const r = flags.chiNRange.split(',').map(Number);
-          if (r.length !== 2 || r.some((v) => !Number.isFinite(v)) || !(r[0] > 0 && r[0] < r[1])) throw new InputError(`--chiN-range: got ${JSON.stringify(flags.chiNRange)}; allowed: two numbers lo,hi with 0 < lo < hi`);
-          range = [r[0], r[1]];
-        }
-        const nx = numberFlag('--nx', flags.nx)!;
-        const ns = numberFlag('--ns', flags.ns)!;
-        if (!(Number.isInteger(nx) && nx >= 16 && (nx & (nx - 1)) === 0)) throw new InputError(`--nx: got ${flags.nx}; allowed: a power of two ≥ 16`);
-        if (!(Number.isInteger(ns) && ns >= 20 && ns % 2 === 0)) throw new InputError(`--ns: got ${flags.ns}; allowed: an even whole number ≥ 20`);
-        let text: string;
-        try {
-          text = readFileSync(path, 'utf8');
-        } catch (e) {
-          throw new InputError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-        }
-        const data = parsePeaksCsv(text, path);
-        let fit;
-        try {
-          fit = fitBragg(data, { chain, nx, ns, lorentz: Boolean(flags.lorentz), chiNRange: range });
-        } catch (e) {
-          throw asInputError(e, 'flags');
-        }
-        const result = { kind: 'bragg-fit', file: path, chain, ...fit, periodNmDefinition: 'D = 2π/slope of q_n against n' };
-        const claimed = claimOut(flags, 'fit-bragg');
-        await withOutput(claimed, () => void (flags.out && claimed!.write({ 'result.json': `${JSON.stringify(result, null, 1)}\n` })));
-        if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
-        else {
-          const i68 = fit.intervals['68.3%'];
-          const i95 = fit.intervals['95%'];
-          const lines = [
-            `χN = ${fit.chiN.toPrecision(5)}   68.3 % [${i68.lo.toPrecision(5)}, ${i68.hi.toPrecision(5)}${i68.limitedByRange.hi ? ' (range bound)' : ''}]   95 % [${i95.lo.toPrecision(5)}, ${i95.hi.toPrecision(5)}${i95.limitedByRange.hi ? ' (range bound)' : ''}]   (profile likelihood over the relative intensities)`,
-            `D = ${fit.periodNm.toPrecision(6)} ± ${fit.periodNmSd.toPrecision(2)} nm from the peak positions; the mean-field period at this χN is ${fit.periodRg.toPrecision(5)} Rg, so Rg = ${fit.impliedRgNm.toPrecision(4)} nm`,
-            `χ² = ${fit.chi2.toPrecision(4)} for ${fit.dof} dof, ${fit.seconds.toFixed(1)} s`,
-            'order  I measured   I model',
-            ...fit.model.map((m, i) => `${String(m.order).padStart(5)}  ${data.intensity[i].toPrecision(5).padEnd(11)}  ${m.intensity.toPrecision(5)}`),
-            ...fit.notes.map((n) => `note: ${n}`),
-          ];
-          process.stdout.write(`${lines.join('\n')}\n`);
-        }
-        if (!flags.quiet && flags.out) process.stderr.write(`fit-bragg: wrote ${join(flags.out, 'result.json')}\n`);
       }),
     );
 }

@@ -107,16 +107,17 @@ export function registerFitScattering(program: Command): void {
         const baseDir = flags.config && files.length === 0 ? dirname(flags.config) : process.cwd();
         // --out is claimed before the fits run (io/output-directory.ts: new, empty or a previous fit-scattering output).
         const claimed = claimOut(flags, 'fit-scattering');
+        const { Progress } = await import('../progress.js');
         return withOutput(claimed, async () => {
+          const progress = new Progress('fit-scattering', flags.quiet, 0);
           let run;
           try {
             run = runScatteringFit(config, {
               baseDir,
               rgSource: flags.config ? `${flags.config}: units` : 'flags',
               provenance: provenance(),
-              onFit: (i, total, fit) => {
-                if (!flags.quiet) process.stderr.write(`fit-scattering: ${i + 1}/${total} ${fit.source}: χN = ${fit.chiN.toPrecision(5)} in ${fit.seconds.toFixed(2)} s\n`);
-              },
+              // Every file is a fit of about the same cost: the time left is the files left at the rate so far.
+              onFit: (i, total, fit) => progress.step(i + 1, total, `${fit.source}: χN = ${fit.chiN.toPrecision(5)}, reduced χ² ${fit.reducedChi2.toPrecision(3)}, ${fit.seconds.toFixed(2)} s`, 'files'),
             });
           } catch (e) {
             throw asInputError(e, flags.config ?? 'flags');

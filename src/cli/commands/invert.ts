@@ -9,7 +9,7 @@ import type { InvertConfig } from '../../io/schemas/invert-config.js';
 import { inversionResultText, summaryText } from '../../inverse/inversion-result.js';
 import { action, parseDecimal, workersFlag } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
-import { Progress } from '../progress.js';
+import { Progress, RunProgress } from '../progress.js';
 
 interface InvertFlags {
   f?: string;
@@ -158,7 +158,8 @@ export function registerInvert(program: Command): void {
 
 async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<void> {
   const progress = new Progress('invert', flags.quiet);
-  const { invertRun } = await import('../../inverse/invert-run.js');
+  const { invertRun, invertPhases } = await import('../../inverse/invert-run.js');
+  const run = new RunProgress(progress, invertPhases(config));
   const { result, files } = await invertRun({
     profilePath,
     config,
@@ -166,7 +167,7 @@ async function invertCommand(profilePath: string, configPath: string | undefined
     configSource: configPath ?? 'flags',
     workers,
     files: flags.out !== undefined,
-    onProgress: (t, keep) => progress.update(t, keep),
+    onStep: (phase, done, detail, keep) => run.at(phase, done, detail, keep),
     onEstimator: (t) => progress.done(t),
   });
   if (flags.out && files) {

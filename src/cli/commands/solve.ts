@@ -7,11 +7,11 @@ import { solutionFileSchema } from '../../io/formats/solution.js';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { parseScanRange } from '../../spectral/film-scan-run.js';
-import type { SolveRunOutput, SolveTask } from '../../spectral/solve-run.js';
+import type { SolveRunOutput, SolveStep, SolveTask } from '../../spectral/solve-run.js';
 import { installStopHandlers, RunStopped, stopAbortSignal } from '../../runtime/stop.js';
 import { action, parseDecimal } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
-import { Progress } from '../progress.js';
+import { Progress, RunProgress } from '../progress.js';
 import { loadJsonFile } from '../../io/load-json.js';
 
 interface SolveFlags {
@@ -132,11 +132,13 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
   }
   const progress = new Progress('solve', flags.quiet);
   const task: SolveTask = { config, source: configPath ?? 'flags', initial, thicknessScan, files: flags.out !== undefined, json: Boolean(flags.json) };
+  const { solvePhases } = await import('../../spectral/solve-run.js');
+  const run = new RunProgress(progress, solvePhases(task));
   const { runInWorkers, PoolStopped } = await import('../../threads/worker-pool.js');
   const uninstall = installStopHandlers('solve', `stopping the solve; nothing will be written${flags.out ? ` (${flags.out} is left as it was)` : ''}`);
   let r: SolveRunOutput;
   try {
-    [r] = await runInWorkers<SolveTask, SolveRunOutput, string>([task], { entry: 'spectral/solve-worker.js', workerData: null, workers: 1, onProgress: (t) => progress.update(t), toError: fromWorker, signal: stopAbortSignal() });
+    [r] = await runInWorkers<SolveTask, SolveRunOutput, SolveStep>([task], { entry: 'spectral/solve-worker.js', workerData: null, workers: 1, onProgress: (s) => run.at(s.phase, s.done, s.detail, s.keep), toError: fromWorker, signal: stopAbortSignal() });
   } catch (e) {
     if (e instanceof PoolStopped) throw new RunStopped(`solve stopped by a signal before it finished; nothing was written${flags.out ? ` (${flags.out} was left as it was)` : ''}`);
     throw e;

@@ -54,7 +54,8 @@ export interface FilmFitSettings {
   intervals?: ('chiN' | 'bottom' | 'top')[];
   /** Names used in error messages. */
   sources?: { thickness?: string; chiNRange?: string };
-  onProgress?: (stage: string, detail: string) => void;
+  /** `counted`: one unit of the stage finished (a start, a fit iteration, a profiled point); else a detail within one. */
+  onProgress?: (stage: string, detail: string, counted: boolean) => void;
 }
 
 export interface ParamInterval {
@@ -175,7 +176,7 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
         else if (c < chi0) prevDown = pt;
         const q = { ...base, chiN: c, bottom: b, top: t };
         const v = score(pt, q);
-        s.onProgress?.('start', `χN = ${c.toPrecision(4)}, affinities ${b}, ${t}, layers ${pt.layers.sequence}: χ² ${v.toPrecision(5)}`);
+        s.onProgress?.('start', `χN = ${c.toPrecision(4)}, affinities ${b}, ${t}, layers ${pt.layers.sequence}: χ² ${v.toPrecision(5)}`, true);
         if (v < startCost) {
           startCost = v;
           start = q;
@@ -205,7 +206,8 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
       relTol: 1e-7,
       stepTol: 0.1,
       absTol,
-      onIteration: (it) => s.onProgress?.(stage, `iteration ${it.iteration}: χ² ${it.cost.toPrecision(7)}, ${free.map((k, i) => `${k} ${it.p[i].toPrecision(5)}`).join(', ')}`),
+      // The main fit counts its iterations; an interval's inner fits count their finished points (below).
+      onIteration: (it) => s.onProgress?.(stage, `iteration ${it.iteration}: χ² ${it.cost.toPrecision(7)}, ${free.map((k, i) => `${k} ${it.p[i].toPrecision(5)}`).join(', ')}`, stage === 'fit'),
     });
     return { params: unvec(r.p), cost: r.cost, iterations: r.iterations, atBound: free.filter((_, i) => r.atBound[i]), jacobian: r.jacobian };
   };
@@ -235,7 +237,7 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
       lmIterations += r.iterations;
       const pt = { chiN: v, value: r.cost, params: r.params };
       known.push(pt);
-      s.onProgress?.(`interval ${name}`, `${name} = ${v.toPrecision(6)}: Δχ² ${((r.cost - best.cost) / scale).toPrecision(4)}`);
+      s.onProgress?.(`interval ${name}`, `${name} = ${v.toPrecision(6)}: Δχ² ${((r.cost - best.cost) / scale).toPrecision(4)}`, true);
       return pt;
     };
     const range: [number, number] = [lower[name], upper[name]];

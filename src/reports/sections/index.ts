@@ -10,6 +10,7 @@ import { profilesSection } from './profiles-section.js';
 import { propagatorSection } from './propagator-section.js';
 import { scatteringSection } from './scattering-section.js';
 import { braggSection } from './bragg-section.js';
+import { measurementFitSection } from './measurement-fit-section.js';
 import { surrogateSection } from './surrogate-section.js';
 import { sweepSection } from './sweep-section.js';
 import type { ReportSection } from './section.js';
@@ -22,6 +23,7 @@ export const REPORT_SECTIONS: readonly ReportSection[] = [
   inversionSection,
   scatteringSection,
   braggSection,
+  measurementFitSection,
   sweepSection,
   filmSweepSection,
   filmSection,

@@ -50,6 +50,25 @@ export function keyResults(input: ReportInput): MetricRow[] {
     rows.push(...(inv.fitRows ?? []));
     return rows;
   }
+  const bf = input.braggFit;
+  if (bf) {
+    const [a, b] = [bf.intervals['68.3%'], bf.intervals['95%']];
+    const open = (i: typeof a) => (i.limitedByRange.hi ? ' (open: range bound)' : '');
+    rows.push({ name: 'fitted χN (profile-likelihood intervals)', value: `${sig(bf.chiN, 5)}; 68 %: ${sig(a.lo, 5)} – ${sig(a.hi, 5)}${open(a)}; 95 %: ${sig(b.lo, 5)} – ${sig(b.hi, 5)}${open(b)}`, unit: '–' });
+    rows.push({ name: 'period D from the peak positions', value: `${sig(bf.periodNm, 5)} ± ${sig(bf.periodNmSd, 2)}`, unit: 'nm' });
+    rows.push(bf.rgTie ? { name: 'Rg the period is tied to', value: `${sig(bf.rgTie.rgNm, 4)}${bf.rgTie.rgNmSd !== null ? ` ± ${sig(bf.rgTie.rgNmSd, 2)}` : ' (exact)'}`, unit: 'nm' } : { name: 'Rg implied by D at this χN', value: sig(bf.impliedRgNm, 4), unit: 'nm' });
+    rows.push({ name: 'χ² / degrees of freedom', value: `${sig(bf.chi2, 4)} / ${bf.dof}` });
+    return rows;
+  }
+  const sf = input.spacingFit;
+  if (sf) {
+    const [a, b] = [sf.intervals['68.3%'], sf.intervals['95%']];
+    rows.push({ name: 'fitted χ per reference segment', value: `${sig(sf.chi, 5)}; 68 %: ${sig(a.chi[0], 5)} – ${sig(a.chi[1], 5)}; 95 %: ${sig(b.chi[0], 5)} – ${sig(b.chi[1], 5)}`, unit: '–' });
+    rows.push({ name: 'segment length b', value: `${sig(sf.b, 5)}; 68 %: ${sig(a.b[0], 5)} – ${sig(a.b[1], 5)}; 95 %: ${sig(b.b[0], 5)} – ${sig(b.b[1], 5)}`, unit: 'nm' });
+    rows.push({ name: 'χN of the samples', value: sf.points.map((p) => `${sig(p.chiN, 4)} (N = ${p.N})`).join(', ') });
+    rows.push({ name: 'χ² / degrees of freedom', value: `${sig(sf.chi2, 4)} / ${sf.dof}` });
+    return rows;
+  }
   if (input.sweep?.film) {
     rows.push({ name: 'points solved', value: `${input.sweep.points.length} (${input.sweep.points.filter((p) => p.converged).length} converged)` });
     for (const s of input.sweep.film.scans) {
@@ -94,5 +113,5 @@ export function keyResults(input: ReportInput): MetricRow[] {
 
 export function chainLine(input: ReportInput): string {
   const chain = buildChain(input.info.system.chain);
-  return `${chain.label} (${input.info.system.chain.type}), A fraction f = ${sig(chain.speciesFraction.A, 4)}${input.sweep ? '' : `, χN = ${sig(input.info.system.chiN, 6)}`}`;
+  return `${chain.label} (${input.info.system.chain.type}), A fraction f = ${sig(chain.speciesFraction.A, 4)}${input.sweep || input.spacingFit ? '' : `, χN = ${sig(input.info.system.chiN, 6)}`}`;
 }
