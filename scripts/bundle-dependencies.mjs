@@ -64,6 +64,35 @@ function englishOnly() {
   };
 }
 
+/**
+ * commander requires node:child_process at load for one feature, subcommands that are separate
+ * executables (`childProcess.spawn`), which mesofield does not use; loading it pulls in net,
+ * dgram and the socket machinery at every start. The require is deferred to the first spawn.
+ * The plugin fails the bundle unless it finds that require once and `spawn` as its only use.
+ */
+function deferChildProcess() {
+  const COMMAND = /[\\/]commander[\\/]lib[\\/]command\.js$/;
+  const REQUIRE = "const childProcess = require('node:child_process');";
+  let seen = false;
+  return {
+    name: 'mesofield-commander-defer-child-process',
+    transform(code, id) {
+      if (!COMMAND.test(id)) return null;
+      const uses = code.match(/\bchildProcess\.\w+/g) ?? [];
+      if (code.split(REQUIRE).length !== 2 || uses.some((u) => u !== 'childProcess.spawn')) {
+        throw new Error(`commander's lib/command.js no longer matches (${REQUIRE} once, childProcess.spawn its only use)`);
+      }
+      seen = true;
+      return code.replace(REQUIRE, "const childProcess = { spawn: (...args) => require('node:child_process').spawn(...args) };");
+    },
+    buildEnd() {
+      if (!seen) throw new Error("commander's lib/command.js was not found where expected");
+    },
+  };
+}
+
+const PLUGINS = { zod: englishOnly, commander: deferChildProcess };
+
 /** Bundle each package into a temporary folder, then move the folder into place. */
 async function writeBundles(root, vendor) {
   const { build } = await import('rolldown');
@@ -75,7 +104,7 @@ async function writeBundles(root, vendor) {
       cwd: root,
       platform: 'node',
       logLevel: 'warn',
-      plugins: name === 'zod' ? [englishOnly()] : [],
+      plugins: [PLUGINS[name]()],
       output: {
         dir: staging,
         format: 'esm',
