@@ -43,23 +43,23 @@ function packageVersion(root, name) {
 }
 
 /**
- * zod's `locales` namespace re-exports its error messages in some forty languages: about 40 %
- * of the bundle, compiled at every start, while mesofield writes its own English messages (and
- * zod's English ones, which zod imports directly and configures by default). The namespace
- * keeps only `en`. The plugin fails the bundle if zod's layout no longer matches.
+ * zod's entry, cut to what dist/ uses (zod-members.mjs): `z` holds only the members the program
+ * calls, so the bundler leaves out the rest of zod (other languages' messages, JSON Schema
+ * import, the compiled fast path…), which would be compiled at every start for nothing. What
+ * the kept members need stays, by the bundler's own tracing, with zod's declared side effects.
  */
-function englishOnly() {
-  const LOCALES = /[\\/]zod[\\/]v4[\\/]locales[\\/]index\.js$/;
-  let seen = false;
+function zodEntry(used) {
+  const ENTRY = '\0mesofield-zod-entry';
+  const MEMBERS = '\0mesofield-zod-members';
   return {
-    name: 'mesofield-zod-english-only',
-    load(id) {
-      if (!LOCALES.test(id)) return null;
-      seen = true;
-      return "export { default as en } from './en.js';\n";
+    name: 'mesofield-zod-used-members',
+    resolveId(id) {
+      return id === ENTRY || id === MEMBERS ? id : null;
     },
-    buildEnd() {
-      if (!seen) throw new Error("zod's locales/index.js was not found where expected (zod/v4/locales/index.js)");
+    load(id) {
+      if (id === ENTRY) return [`export * as z from ${JSON.stringify(MEMBERS)};`, ...(used.named.length ? [`export { ${used.named.join(', ')} } from 'zod';`] : [])].join('\n');
+      if (id === MEMBERS) return `export { ${used.members.join(', ')} } from 'zod';\n`;
+      return null;
     },
   };
 }
@@ -91,20 +91,21 @@ function deferChildProcess() {
   };
 }
 
-const PLUGINS = { zod: englishOnly, commander: deferChildProcess };
 
 /** Bundle each package into a temporary folder, then move the folder into place. */
-async function writeBundles(root, vendor) {
+async function writeBundles(root, vendor, usedZod) {
   const { build } = await import('rolldown');
+  const inputs = { zod: '\0mesofield-zod-entry', commander: 'commander' };
+  const plugins = { zod: () => [zodEntry(usedZod)], commander: () => [deferChildProcess()] };
   const staging = `${vendor}.tmp`;
   rmSync(staging, { recursive: true, force: true });
   for (const name of BUNDLED) {
     await build({
-      input: { [name]: name },
+      input: { [name]: inputs[name] },
       cwd: root,
       platform: 'node',
       logLevel: 'warn',
-      plugins: [PLUGINS[name]()],
+      plugins: plugins[name](),
       output: {
         dir: staging,
         format: 'esm',
@@ -148,7 +149,8 @@ export async function bundleDependencies(root) {
   const vendor = join(dist, 'vendor');
   try {
     mkdirSync(dist, { recursive: true });
-    await writeBundles(root, vendor);
+    const { zodMembers } = await import('./zod-members.mjs');
+    await writeBundles(root, vendor, await zodMembers(jsFiles(dist, vendor)));
   } catch (e) {
     process.stderr.write(`build: bundling ${BUNDLED.join(' and ')} for start-up failed (${e?.message ?? e}); dist/ imports the packages from node_modules (slower start-up)\n`);
     return { bundled: false, files: 0 };
