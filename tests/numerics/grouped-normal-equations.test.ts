@@ -36,3 +36,34 @@ describe('groupedNormalEquations', () => {
     expect(cost).toBeCloseTo(0.5 * r.reduce((s, v) => s + v * v, 0), 12);
   });
 });
+
+describe('groupedNormalEquations, large groups (the chunked, register-blocked product)', () => {
+  it('equals JᵀJ and Jᵀr by the definition for groups taller than one chunk and odd widths', () => {
+    const rng = new Xorshift128(9);
+    for (const [rows, k] of [
+      [150, 13],
+      [64, 8],
+      [65, 2],
+      [200, 1],
+      [3, 31],
+    ]) {
+      const columns = Int32Array.from({ length: k }, (_, i) => 2 * i);
+      const n = 2 * k;
+      const J = Float64Array.from({ length: rows * k }, () => rng.next() - 0.5);
+      const r = Float64Array.from({ length: rows }, () => rng.next() - 0.5);
+      const { A, g } = groupedNormalEquations(n, [{ columns, J, r }]);
+      for (let a = 0; a < k; a++) {
+        let ga = 0;
+        for (let i = 0; i < rows; i++) ga += J[i * k + a] * r[i];
+        expect(g[2 * a]).toBeCloseTo(ga, 12);
+        expect(g[2 * a + 1]).toBe(0);
+        for (let b = 0; b < k; b++) {
+          let ab = 0;
+          for (let i = 0; i < rows; i++) ab += J[i * k + a] * J[i * k + b];
+          expect(A[2 * a * n + 2 * b]).toBeCloseTo(b <= a ? ab : 0, 12);
+          expect(A[2 * a * n + 2 * b + 1]).toBe(0);
+        }
+      }
+    }
+  });
+});
