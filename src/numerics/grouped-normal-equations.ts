@@ -7,6 +7,24 @@
  * A is row-major n·n with only the lower triangle filled (what numerics/cholesky.ts reads).
  */
 
+/**
+ * Columns of a group whose Jacobian block is a product C·E of a (mostly zero) m × t matrix C
+ * and a t × k' matrix E with t small: rows that depend on these parameters only through t
+ * intermediate quantities (in the residual system: a propagator's junction values at the
+ * grid points, which every later block's rows share). Its normal-matrix blocks are formed
+ * through the t intermediates, Eᵀ(CᵀC)E and Eᵀ(CᵀJ), instead of row by row.
+ */
+export interface FactoredColumns {
+  /** Global columns, strictly ascending, none among the group's own columns. */
+  columns: Int32Array;
+  /** Intermediates. */
+  t: number;
+  /** Row-major m × t; zero entries are skipped. */
+  C: Float64Array;
+  /** Row-major t × columns.length. */
+  E: Float64Array;
+}
+
 export interface ResidualGroup {
   /** Global column (parameter) indices of the group, strictly ascending. */
   columns: Int32Array;
@@ -14,6 +32,20 @@ export interface ResidualGroup {
   J: Float64Array;
   /** The group's residuals, one per row. */
   r: Float64Array;
+  /** More columns of the same rows, as a product (their Jacobian is C·E). */
+  factored?: FactoredColumns;
+}
+
+/** ∂r_row/∂θ_column of a group (0 for a column it does not touch): its J or its C·E. */
+export function groupJacobianEntry(grp: ResidualGroup, row: number, column: number): number {
+  const k = grp.columns.indexOf(column);
+  if (k >= 0) return grp.J[row * grp.columns.length + k];
+  const f = grp.factored;
+  const c = f ? f.columns.indexOf(column) : -1;
+  if (!f || c < 0) return 0;
+  let s = 0;
+  for (let t = 0; t < f.t; t++) s += f.C[row * f.t + t] * f.E[t * f.columns.length + c];
+  return s;
 }
 
 /** Rows of J taken at a time: the transposed chunk (k × CHUNK) stays in cache while G is updated. */
@@ -128,6 +160,79 @@ export function groupedNormalEquations(n: number, groups: readonly ResidualGroup
       const ra = c[a] * n;
       for (let b = 0; b <= a; b++) A[ra + c[b]] += G[a * k + b];
     }
+    if (grp.factored) addFactored(n, grp, A, g);
   }
   return { A, g, cost: 0.5 * sumSq };
+}
+
+/**
+ * The normal-matrix blocks of a group's factored columns F (Jacobian C·E) into A and g:
+ *   g_F += Eᵀ(Cᵀr),  A_FF += Eᵀ(CᵀC)E,  A_FJ += Eᵀ(CᵀJ),
+ * each cross entry stored in the lower triangle (row the larger global column).
+ */
+function addFactored(n: number, grp: ResidualGroup, A: Float64Array, g: Float64Array): void {
+  const f = grp.factored!;
+  const m = grp.r.length;
+  const k = grp.columns.length;
+  const kf = f.columns.length;
+  const t = f.t;
+  if (f.C.length !== m * t || f.E.length !== t * kf) throw new RangeError(`factored columns: C has ${f.C.length} entries and E ${f.E.length}, expected ${m}·${t} and ${t}·${kf}`);
+  // H = CᵀJ (t × k), S = CᵀC (t × t), Cr = Cᵀr: one pass over the rows, zeros of C skipped.
+  const H = new Float64Array(t * k);
+  const S = new Float64Array(t * t);
+  const Cr = new Float64Array(t);
+  for (let i = 0; i < m; i++) {
+    const ci = i * t;
+    const ji = i * k;
+    for (let u = 0; u < t; u++) {
+      const cu = f.C[ci + u];
+      if (cu === 0) continue;
+      Cr[u] += cu * grp.r[i];
+      const hu = u * k;
+      for (let b = 0; b < k; b++) H[hu + b] += cu * grp.J[ji + b];
+      for (let v = 0; v < t; v++) S[u * t + v] += cu * f.C[ci + v];
+    }
+  }
+  // SE = S·E (t × kf); then A_FF = Eᵀ(SE) and X = EᵀH (kf × k), zeros of E skipped.
+  const SE = new Float64Array(t * kf);
+  for (let u = 0; u < t; u++) {
+    for (let v = 0; v < t; v++) {
+      const s = S[u * t + v];
+      if (s === 0) continue;
+      const ev = v * kf;
+      const out = u * kf;
+      for (let a = 0; a < kf; a++) SE[out + a] += s * f.E[ev + a];
+    }
+  }
+  const F = new Float64Array(kf * kf);
+  const X = new Float64Array(kf * k);
+  for (let u = 0; u < t; u++) {
+    const eu = u * kf;
+    for (let a = 0; a < kf; a++) {
+      const e = f.E[eu + a];
+      if (e === 0) continue;
+      g[f.columns[a]] += e * Cr[u];
+      const fa = a * kf;
+      for (let b = 0; b <= a; b++) F[fa + b] += e * SE[eu + b];
+      const xa = a * k;
+      const hu = u * k;
+      for (let b = 0; b < k; b++) X[xa + b] += e * H[hu + b];
+    }
+  }
+  for (let a = 0; a < kf; a++) {
+    const ca = f.columns[a];
+    for (let b = 0; b <= a; b++) A[ca * n + f.columns[b]] += F[a * kf + b];
+    for (let b = 0; b < k; b++) {
+      const cb = grp.columns[b];
+      if (ca > cb) A[ca * n + cb] += X[a * k + b];
+      else A[cb * n + ca] += X[a * k + b];
+    }
+  }
+}
+
+/** The groups with every column index (own and factored) lowered by `first`: a part's columns counted from 0. */
+export function shiftedGroups(groups: readonly ResidualGroup[], first: number): ResidualGroup[] {
+  if (first === 0) return [...groups];
+  const shift = (c: Int32Array) => c.map((v) => v - first);
+  return groups.map((g) => ({ ...g, columns: shift(g.columns), ...(g.factored ? { factored: { ...g.factored, columns: shift(g.factored.columns) } } : {}) }));
 }
