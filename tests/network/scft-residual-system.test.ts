@@ -101,4 +101,21 @@ describe('ScftResidualSystem (float64 residuals and Jacobian of the SCFT equatio
     expect(mine.mde).toBeGreaterThan(1e-4);
     expect(Math.abs(mine.mde - theirs)).toBeLessThan(1e-4 * mine.mde);
   });
+
+  it('value-only evaluations reuse a side only at the same parameters: after moving one propagator, the loss equals a fresh system\'s', async () => {
+    const { nets, config, x0 } = await setup({ type: 'diblock', f: 0.4 }, 14, true);
+    const sys = new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit);
+    sys.evaluate(x0, false);
+    const moved = Float64Array.from(x0);
+    const { first } = sys.columnsOf('qDagger');
+    moved[first + 3] += 0.1;
+    sys.evaluate(moved, false, 'qDagger');
+    const again = sys.evaluate(moved, false);
+    const fresh = new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit).evaluate(moved, false);
+    expect(again.cost).toBe(fresh.cost);
+    expect(again.terms).toEqual(fresh.terms);
+    // And back at the start point, the start's loss.
+    expect(sys.evaluate(x0, false).cost).toBe(new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit).evaluate(x0, false).cost);
+    expect(again.cost).not.toBe(sys.evaluate(x0, false).cost);
+  });
 });

@@ -344,7 +344,33 @@ export class ScftResidualSystem {
     return buf;
   }
 
+  /**
+   * The last value-only evaluation of each side, keyed by its parameters and the field
+   * network's: LM's trial cost of one propagator and the whole-system loss recorded after the
+   * iteration are at the same parameters, and a propagator's solve leaves the other side's
+   * unchanged, so the recorded loss costs the field equations only.
+   */
+  private readonly valueCache = new Map<Side, { key: Float64Array; out: ReturnType<ScftResidualSystem['computeSide']> }>();
+
+  private cacheKey(theta: Float64Array, side: Side): Float64Array {
+    const key = new Float64Array(side.count + this.fieldCount);
+    key.set(theta.subarray(side.first, side.first + side.count));
+    if (this.fieldCount > 0) key.set(theta.subarray(this.fieldFirst, this.fieldFirst + this.fieldCount), side.count);
+    return key;
+  }
+
   private sideResiduals(theta: Float64Array, side: Side, field: { w: Float64Array[]; dw: Float64Array[][] | null } | null, withMde: boolean, jacobian: boolean, mdeScale: number, values: boolean) {
+    if (jacobian || !field || field.dw) return this.computeSide(theta, side, field, withMde, jacobian, mdeScale, values);
+    const key = this.cacheKey(theta, side);
+    const hit = this.valueCache.get(side);
+    if (hit && hit.key.every((v, i) => v === key[i])) return hit.out;
+    // Value-only evaluations compute the MDE sum always (cheap), so one entry serves every caller.
+    const out = this.computeSide(theta, side, field, true, false, mdeScale, values);
+    this.valueCache.set(side, { key, out });
+    return out;
+  }
+
+  private computeSide(theta: Float64Array, side: Side, field: { w: Float64Array[]; dw: Float64Array[][] | null } | null, withMde: boolean, jacobian: boolean, mdeScale: number, values: boolean) {
     const nx = this.nx;
     const width = this.featX.width + 1;
     const buf = { v: new Float64Array(width), dx: new Float64Array(width), dxx: new Float64Array(width), ds: new Float64Array(width) };
