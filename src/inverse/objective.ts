@@ -122,6 +122,9 @@ export function periodogramPeriod(data: FitData, lo: number, hi: number, points 
   let best = lo;
   let bestRss = Infinity;
   const n = data.x.length;
+  // cos and sin of each point, computed once per trial period and used by both passes (a long profile spends its time here).
+  const cw = new Float64Array(n);
+  const sw = new Float64Array(n);
   for (let k = 0; k < points; k++) {
     const L = lo * Math.pow(hi / lo, k / (points - 1));
     const w = (2 * Math.PI) / L;
@@ -129,9 +132,11 @@ export function periodogramPeriod(data: FitData, lo: number, hi: number, points 
       n,
       3,
       (i, out) => {
+        cw[i] = Math.cos(w * data.x[i]);
+        sw[i] = Math.sin(w * data.x[i]);
         out[0] = 1;
-        out[1] = Math.cos(w * data.x[i]);
-        out[2] = Math.sin(w * data.x[i]);
+        out[1] = cw[i];
+        out[2] = sw[i];
       },
       [data.phi],
       data.weight,
@@ -139,7 +144,7 @@ export function periodogramPeriod(data: FitData, lo: number, hi: number, points 
     if (!coef) continue;
     let rss = 0;
     for (let i = 0; i < n; i++) {
-      const r = coef[0] + coef[1] * Math.cos(w * data.x[i]) + coef[2] * Math.sin(w * data.x[i]) - data.phi[i];
+      const r = coef[0] + coef[1] * cw[i] + coef[2] * sw[i] - data.phi[i];
       rss += data.weight[i] * r * r;
     }
     if (rss < bestRss) {

@@ -268,7 +268,8 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     provenance: (network ?? main).provenance,
     ...time,
   };
-  const film = shown.film;
+  // A film train run holds both: the film pages draw the network against the reference.
+  const film = shown.film && reference && network ? { ...shown.film, network: network.solution } : shown.film;
   const input: ReportInput = {
     info,
     profiles: film ? undefined : { reference: shown.solution, network: reference ? network?.solution : undefined, ...(inv?.rgNm !== undefined ? { rgNm: inv.rgNm } : {}) },
