@@ -6,7 +6,7 @@ import type { SolveConfig } from '../../io/schemas/solve-config.js';
 import { solutionFileSchema } from '../../io/formats/solution.js';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
-import { parseScanRange } from '../../spectral/film-scan-run.js';
+import { parseScanRange } from '../scan-range-flag.js';
 import type { SolveRunOutput, SolveStep, SolveTask } from '../../spectral/solve-run.js';
 import { installStopHandlers, RunStopped, stopAbortSignal } from '../../runtime/stop.js';
 import { action, parseDecimal } from '../run-command.js';
