@@ -14,7 +14,7 @@ import { solveFilm } from '../../src/spectral/film-solve.js';
 import { FilmCell } from '../../src/physics/cell/film-cell.js';
 import { scanThickness } from '../../src/spectral/thickness-scan.js';
 import { runInfo } from './fixtures.js';
-import { readFilmSweep } from '../../src/reports/readers/film-sweep.js';
+import { readSweep } from '../../src/reports/readers/sweep-file.js';
 import { commensurateThicknesses } from '../../src/reports/sections/film-sweep-section.js';
 import { sweepConfigSchema } from '../../src/io/schemas/sweep-config.js';
 import type { SweepTable } from '../../src/io/formats/sweep.js';
@@ -158,7 +158,8 @@ describe('film pages', () => {
       index, chiN: 15, f: 0.5, segmentRatio: 1, thickness: p.thickness, affinityBottom: 2, affinityTop: 2, freeEnergyPerArea: p.freeEnergyPerArea, layers: p.layers,
       phase: p.phase, period: null, periodTolerance: null, freeEnergy: p.freeEnergy, freeEnergyDisordered: null, freeEnergyExcess: null, Q: 1, iterations: 1, totalIterations: 1, evaluations: 1, residual: 0, converged: p.converged, seconds: 0, notes: [],
     }));
-    const film = readFilmSweep({ config, points } as unknown as SweepTable)!;
+    // Through the sweep reader, as `report` reads sweep.json.
+    const film = readSweep({ config, points } as unknown as SweepTable, 'sweep.json').sweep.film!;
     expect(film.scans.length).toBe(1);
     const [sc] = film.scans;
     expect(sc.minima.length).toBe(1);
