@@ -9,30 +9,12 @@ import { asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
 import { action, numberFlag, requiredFlag } from '../run-command.js';
+import type { SynthFilmFlags } from './synth-film.js';
 
-interface SynthFlags {
-  f?: string;
-  chiN?: string;
-  points: string;
-  noise: string;
-  seed: string;
+/** The flags of `synth --film` and the two of the periodic profile only. */
+interface SynthFlags extends SynthFilmFlags {
   periods: string;
-  offset: string;
   period: string;
-  resolution: string;
-  nx: string;
-  ns: string;
-  rgNm?: string;
-  out?: string;
-  overwrite?: boolean;
-  quiet?: boolean;
-  film?: string;
-  affinity?: string;
-  measure?: string;
-  sld?: string;
-  dqOverQ?: string;
-  qRange?: string;
-  wallRange?: string;
 }
 
 export function registerSynth(program: Command): void {
