@@ -3,7 +3,7 @@
  * One part only: `npm run bench -- --step-profile` (per-step timing and kernel breakdown,
  * side by side with PyTorch; independent runs and one run split across worker threads),
  * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
- * estimators), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
+ * estimators, and the network estimator's convergence from a start 10 % low), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
  * line against bare node), `--recipes` (Adam + L-BFGS against the second-order phase on five
  * systems; only when asked, it is long: see recipe-bench.ts), `--propagator-floor` (the
  * propagator networks alone in the reference's field: the floor of the second-order recipe;
@@ -30,8 +30,9 @@ if (want('--trainer')) {
   await runTrainerBench();
 }
 if (want('--inverse')) {
-  const { runInverseBench } = await import('./inverse-bench.js');
+  const { runInverseBench, runNetworkConvergenceBench } = await import('./inverse-bench.js');
   await runInverseBench();
+  await runNetworkConvergenceBench();
 }
 // Opt-in only: the propagator networks alone in the reference's field (a few minutes).
 if (parts.includes('--propagator-floor')) {

@@ -20,9 +20,8 @@ export const COMMAND_SPECS: Record<string, () => Promise<Register>> = {
   sweep: async () => (await import('./commands/sweep.js')).registerSweep,
   predict: async () => (await import('./commands/predict.js')).registerPredict,
   'fit-scattering': async () => (await import('./commands/fit-scattering.js')).registerFitScattering,
-  // bragg.ts declares both bragg-pattern and fit-bragg.
   'bragg-pattern': async () => (await import('./commands/bragg.js')).registerBragg,
-  'fit-bragg': async () => (await import('./commands/bragg.js')).registerBragg,
+  'fit-bragg': async () => (await import('./commands/fit-bragg.js')).registerFitBragg,
   'fit-spacing': async () => (await import('./commands/fit-spacing.js')).registerFitSpacing,
   schema: async () => (await import('./commands/schema.js')).registerSchema,
   reflectivity: async () => (await import('./commands/reflectivity.js')).registerReflectivity,

@@ -8,7 +8,7 @@
 import { dirname, isAbsolute, resolve } from 'node:path';
 import type { z } from 'zod';
 import { InputError, describeValue, issueMessage } from '../io/errors.js';
-import { version1Message } from '../io/schemas/config-version.js';
+import { version1Message } from '../io/config-renames.js';
 import { readRawConfig } from './raw-config.js';
 import { parseDecimal } from './run-command.js';
 
@@ -49,6 +49,23 @@ export const FLAG_CONFIG_PATHS = {
     '--rg-nm-sd': 'units.rgNmSd',
     '--f-sd': 'uncertainty.f',
     '--segment-ratio-sd': 'uncertainty.segmentRatio',
+  },
+  'fit-bragg': {
+    '--f': 'system.chain.f',
+    '--segment-ratio': 'system.chain.segmentRatio',
+    '--nx': 'cell.nx',
+    '--ns': 'cell.ns',
+    '--chiN-range': 'chiNRange',
+    '--lorentz': 'lorentz',
+    '--rg-nm': 'units.rgNm',
+    '--rg-nm-sd': 'units.rgNmSd',
+  },
+  'fit-spacing': {
+    '--f': 'system.chain.f',
+    '--segment-ratio': 'system.chain.segmentRatio',
+    '--nx': 'cell.nx',
+    '--ns': 'cell.ns',
+    '--chi-range': 'chiRange',
   },
   train: {
     '--adam-steps': 'training.adamSteps',

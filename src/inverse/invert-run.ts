@@ -5,9 +5,9 @@
  * synth truth sidecar sits beside the profile, and the result with the files of an output
  * directory as text. It writes no file; the caller writes `files`.
  */
-import { readFileSync } from 'node:fs';
 import { synthTruthPath } from '../io/synth-output.js';
 import { InputError, asInputError } from '../io/errors.js';
+import { readInputText } from '../io/fs-errors.js';
 import type { InvertConfig } from '../io/schemas/invert-config.js';
 import { solutionToFile } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
@@ -32,10 +32,28 @@ export interface InvertRunOptions {
   workers: number;
   /** The files of an output directory are wanted. */
   files: boolean;
-  /** Progress lines (`keep`: a stage line that stays). */
-  onProgress?: (text: string, keep?: boolean) => void;
+  /** A counted unit of phase `phase` (one of invertPhases's names) finished, `done` so far; `keep`: a line that stays. */
+  onStep?: (phase: InvertPhaseName, done: number, detail: string, keep?: boolean) => void;
   /** The end of an estimator, one line. */
   onEstimator?: (text: string) => void;
+}
+
+export type InvertPhaseName = 'classical fit' | 'assumed inputs' | 'network';
+
+/** The run's counted phases, for a whole-run time left: their sizes follow from the config alone. */
+export function invertPhases(config: InvertConfig): { name: InvertPhaseName; units: number; unit: string; estimated?: boolean }[] {
+  const units = lengthUnits(config.units ?? {});
+  // A classical fit takes about 50 χN evaluations (measured: 49 on the measurement CLI test's
+  // profile); each uncertain f or segment ratio takes two refits, and the Rg sensitivity two more.
+  const rgSensitivity = units.x === 'nm' && config.cell.period === 'equilibrium' && config.units?.rgNmSd === undefined;
+  const refits = 2 * ((config.uncertainty?.f !== undefined ? 1 : 0) + (config.uncertainty?.segmentRatio !== undefined ? 1 : 0)) + (rgSensitivity ? 2 : 0);
+  const classical = config.method !== 'network';
+  const network = config.method !== 'classical';
+  return [
+    { name: 'classical fit', units: classical ? 50 : 0, unit: 'evaluations', estimated: true },
+    { name: 'assumed inputs', units: classical ? refits : 0, unit: 'refits' },
+    { name: 'network', units: network ? config.network.seeds * (config.network.adamSteps + config.network.lbfgsIterations) : 0, unit: 'steps' },
+  ];
 }
 
 export interface InvertRunResult {
@@ -47,18 +65,15 @@ export interface InvertRunResult {
 export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult> {
   const t0 = performance.now();
   const { config, sources, profilePath } = opts;
-  const progress = opts.onProgress ?? (() => {});
+  const step = opts.onStep ?? (() => {});
   const done = opts.onEstimator ?? (() => {});
   const units = lengthUnits(config.units ?? {});
-  let text: string;
-  try {
-    text = readFileSync(profilePath, 'utf8');
-  } catch (e) {
-    throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
+  const text = readInputText(profilePath);
   const data = parseProfileCsv(text, profilePath, units);
   const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
   const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
+  let evaluations = 0;
+  let refits = 0;
   let estimate;
   let assumed;
   try {
@@ -76,10 +91,10 @@ export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult
         profilePoints: config.profilePoints,
         periodSource: sources.period,
         rangeSource: sources.chiNRange,
-        onEvaluation: (stage, e) => progress(`${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
+        onEvaluation: (stage, e) => step('classical fit', ++evaluations, `${stage}: χN = ${e.chiN.toPrecision(7)}, misfit ${e.value.toPrecision(6)}, period ${e.period.toPrecision(6)} Rg (${e.phase})`),
       },
       inputs,
-      (label) => progress(`refit with ${label}`, true),
+      (label) => step('assumed inputs', refits++, `refit with ${label}`, true),
     ));
   } catch (e) {
     throw asInputError(e, opts.configSource);
@@ -92,6 +107,8 @@ export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult
     // The network fits χN and the fields; the phase offset and period come from the classical fit.
     const { estimateNetwork } = await import('./network-estimator.js');
     const net = config.network;
+    // Seeds may train at once on worker threads: the phase's count is the sum of their steps.
+    const seedSteps = new Map<number, number>();
     const uninstall = installStopHandlers('invert');
     try {
       ne = await estimateNetwork(data, estimate, {
@@ -108,7 +125,10 @@ export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult
         resolution: toRg(config.resolution),
         backend: net.backend,
         workers: opts.workers,
-        onProgress: (seed, step, steps, chiN) => progress(`network, seed ${seed}: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),
+        onProgress: (seed, at, steps, chiN) => {
+          seedSteps.set(seed, at);
+          step('network', [...seedSteps.values()].reduce((a, b) => a + b, 0), `seed ${seed}: step ${at}/${steps}, χN = ${chiN.toPrecision(6)}`);
+        },
       });
     } finally {
       uninstall();

@@ -14,6 +14,7 @@
  */
 import { InputError } from '../io/errors.js';
 import type { ChainSpec } from '../physics/chain-schema.js';
+import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
 import { buildChain } from '../physics/chain.js';
 import { spinodal } from '../physics/rpa.js';
 import { deltaChi2Level, LEVELS } from './confidence.js';
@@ -38,11 +39,14 @@ export interface SpacingFit {
   sigma: { source: 'column' | 'estimated'; value: number | null };
   model: { N: number; chiN: number; periodRg: number; D: number }[];
   chiRange: [number, number];
+  /** Δχ²(χ) on the points evaluated (in the units of the levels: divided by the estimated σ² without dD). */
+  profile: { chi: number; deltaChi2: number }[];
+  evaluations: number;
   notes: string[];
   seconds: number;
 }
 
-export function fitSpacingSeries(data: SpacingData, s: { chain: ChainSpec; nx: number; ns: number; chiRange?: [number, number]; maxChiN?: number }): SpacingFit {
+export function fitSpacingSeries(data: SpacingData, s: { chain: ChainSpec; nx: number; ns: number; options?: Partial<SpectralOptions>; chiRange?: [number, number]; maxChiN?: number; onEvaluation?: (evaluations: number, chi: number, chi2: number) => void }): SpacingFit {
   const t0 = performance.now();
   const n = data.N.length;
   if (n < 3) throw new InputError(`${data.source}: ${n} chain length(s); χ and b need at least three (two unknowns and one degree of freedom)`);
@@ -51,7 +55,7 @@ export function fitSpacingSeries(data: SpacingData, s: { chain: ChainSpec; nx: n
   const nMax = Math.max(...data.N);
   const range: [number, number] = s.chiRange ?? [(1.05 * chiNs) / nMin, (s.maxChiN ?? 60) / nMax];
   if (!(range[0] < range[1])) throw new InputError(`${data.source}: N from ${nMin} to ${nMax} cannot all be ordered below χN = ${s.maxChiN ?? 60}: no χ range keeps every sample lamellar in this model`);
-  const model = new LamellaModel({ chain: s.chain, nx: s.nx, ns: s.ns });
+  const model = new LamellaModel({ chain: s.chain, nx: s.nx, ns: s.ns, options: s.options });
   const w = data.dD ? data.dD.map((d) => 1 / (d * d)) : data.D.map(() => 1);
   const basis = (chi: number) => data.N.map((N) => model.equilibrium(chi * N).period * Math.sqrt(N / 6));
   const cache = new Map<number, ProfiledPoint & { b: number; bVar: number; x: number[] }>();
@@ -70,6 +74,7 @@ export function fitSpacingSeries(data: SpacingData, s: { chain: ChainSpec; nx: n
     for (let i = 0; i < n; i++) v += w[i] * (data.D[i] - b * x[i]) ** 2;
     const out = { chiN: chi, value: v, b, bVar: 1 / sxx, x };
     cache.set(chi, out);
+    s.onEvaluation?.(cache.size, chi, v);
     return out;
   };
   const search = { range, rangeSource: 'χ range', scanPoints: 8, relTol: 1e-7 };
@@ -111,6 +116,11 @@ export function fitSpacingSeries(data: SpacingData, s: { chain: ChainSpec; nx: n
     sigma: data.dD ? { source: 'column', value: null } : { source: 'estimated', value: Math.sqrt(scale) },
     model: data.N.map((N, i) => ({ N, chiN: best.chiN * N, periodRg: best.x[i] / Math.sqrt(N / 6), D: best.b * best.x[i] })),
     chiRange: range,
+    profile: known()
+      .filter((p) => Number.isFinite(p.value))
+      .sort((p, q) => p.chiN - q.chiN)
+      .map((p) => ({ chi: p.chiN, deltaChi2: (p.value - best.value) / scale })),
+    evaluations: cache.size,
     notes,
     seconds: (performance.now() - t0) / 1000,
   };

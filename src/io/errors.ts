@@ -5,7 +5,7 @@
 import type { z } from 'zod';
 import { ModelError } from '../physics/chain.js';
 import { formatValue } from './number-format.js';
-import { version1Message } from './schemas/config-version.js';
+import { version1Message } from './config-renames.js';
 
 export class InputError extends Error {
   readonly exitCode = 2;

@@ -49,7 +49,7 @@ export interface PeriodSearchRequest extends Omit<FixedCellRequest, 'cell'> {
   cell: PeriodicCell;
   /** Initial period guess in Rg; default from the RPA period and the strong-segregation trend. */
   guess?: number;
-  onEvaluation?: (e: { period: number; freeEnergy: number; phase: string; evaluations: number }) => void;
+  onEvaluation?: (e: { period: number; freeEnergy: number; phase: string; evaluations: number; residual: number }) => void;
 }
 
 /** The search's first period: the bulk guess of the solver (scft-solver.ts bulkPeriodGuess). */
@@ -69,7 +69,7 @@ export function findEquilibriumPeriod(req: PeriodSearchRequest): PeriodSearchRes
     const sol = solveFixedCell({ ...req, options, contour, cell: req.cell.withLength(length), initial, keepPropagators: false });
     totalIterations += sol.iterations;
     trace.push({ period: length / p, freeEnergy: sol.freeEnergy, phase: sol.phase, iterations: sol.iterations });
-    req.onEvaluation?.({ period: length / p, freeEnergy: sol.freeEnergy, phase: sol.phase, evaluations: trace.length });
+    req.onEvaluation?.({ period: length / p, freeEnergy: sol.freeEnergy, phase: sol.phase, evaluations: trace.length, residual: sol.residual });
     if (!sol.converged) throw new StressSearchFailure(`the solve at period ${(length / p).toFixed(5)} Rg did not converge (${sol.notes.join('; ')})`);
     return sol;
   };

@@ -49,7 +49,7 @@ export interface ReferenceSolve {
 
 export interface SolveHooks {
   initial?: SpeciesArrays;
-  onEvaluation?: (e: { period: number; freeEnergy: number; phase: string; evaluations: number }) => void;
+  onEvaluation?: (e: { period: number; freeEnergy: number; phase: string; evaluations: number; residual: number }) => void;
 }
 
 /** At most this many doublings of nx or ns after the first solve. */

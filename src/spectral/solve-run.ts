@@ -40,14 +40,32 @@ export interface SolveRunOutput {
   stdout: string;
 }
 
-export function solveRun(task: SolveTask, onProgress: (text: string) => void = () => {}): SolveRunOutput {
+/** A counted unit of a phase finished (posted by the worker as plain data); `keep`: a line that stays. */
+export interface SolveStep {
+  phase: 'period search' | 'thickness scan';
+  done: number;
+  detail: string;
+  keep?: boolean;
+}
+
+/** The run's counted phases, for a whole-run time left. */
+export function solvePhases(task: Pick<SolveTask, 'config' | 'thicknessScan'>): { name: SolveStep['phase']; units: number; unit: string; estimated?: boolean }[] {
+  const { cell } = task.config;
+  // The period search takes 4 to 7 evaluations (measured at f = 0.4, χN = 12, 20, 40); a thickness scan then solves its points.
+  return [
+    { name: 'period search', units: cell.kind === 'periodic' && cell.period === 'equilibrium' ? 7 : 0, unit: 'evaluations', estimated: true },
+    { name: 'thickness scan', units: task.thicknessScan && cell.kind === 'film' ? task.thicknessScan.points : 0, unit: 'films' },
+  ];
+}
+
+export function solveRun(task: SolveTask, onStep: (step: SolveStep) => void = () => {}): SolveRunOutput {
   const t0 = performance.now();
   const { config } = task;
   let ref;
   try {
     ref = solveFromConfig(config, {
       initial: task.initial,
-      onEvaluation: (e) => onProgress(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(6)} Rg, F = ${e.freeEnergy.toFixed(9)} kT (${e.phase})`),
+      onEvaluation: (e) => onStep({ phase: 'period search', done: e.evaluations, detail: `L = ${e.period.toFixed(6)} Rg, F = ${e.freeEnergy.toFixed(9)} kT (${e.phase}), field residual ${e.residual.toExponential(2)} kT` }),
     });
   } catch (e) {
     throw asInputError(e, task.source);
@@ -55,8 +73,7 @@ export function solveRun(task: SolveTask, onProgress: (text: string) => void = (
   const sol = ref.solution;
   let scan: FilmScanResult | undefined;
   if (task.thicknessScan && config.cell.kind === 'film') {
-    const t1 = performance.now();
-    scan = runFilmScan({ system: config.system, walls: config.cell.walls, ...task.thicknessScan, nx: config.cell.nx, ns: config.cell.ns, meanThickness: config.cell.thickness, options: config.solver, onPoint: (p, done, total) => onProgress(`thickness scan: ${done}/${total}, H = ${p.thickness.toPrecision(5)} Rg, F = ${p.freeEnergy.toPrecision(9)} kT (${p.layers || 'no layers'}), ${(((performance.now() - t1) / 1000 / done) * (total - done)).toFixed(0)} s left`) });
+    scan = runFilmScan({ system: config.system, walls: config.cell.walls, ...task.thicknessScan, nx: config.cell.nx, ns: config.cell.ns, meanThickness: config.cell.thickness, options: config.solver, onPoint: (p, done, total) => onStep({ phase: 'thickness scan', done, detail: `H = ${p.thickness.toPrecision(5)} Rg, F = ${p.freeEnergy.toPrecision(9)} kT (${p.layers || 'no layers'})`, keep: done === total }) });
   }
   const done = `${sol.phase}, ${ref.search ? `${ref.search.evaluations} period evaluations, ` : ''}${sol.iterations} iterations in the final solve, ${(ref.search?.seconds ?? sol.seconds).toFixed(3)} s`;
   const summary = { ...summarize(sol, { periodTolerance: ref.search?.periodTolerance }), ...(ref.search ? { search: { evaluations: ref.search.evaluations, totalIterations: ref.search.totalIterations, seconds: ref.search.seconds } } : {}) };

@@ -1,9 +1,9 @@
 /**
  * Worker-thread entry of `solve` (spectral/solve-run.ts): runs the one task the CLI sends and
- * posts its progress lines and its output back. The main thread stays free for signals.
+ * posts its progress steps and its output back. The main thread stays free for signals.
  */
 import { serveTasks } from '../threads/task-worker.js';
 import { solveRun } from './solve-run.js';
-import type { SolveRunOutput, SolveTask } from './solve-run.js';
+import type { SolveRunOutput, SolveStep, SolveTask } from './solve-run.js';
 
-serveTasks<SolveTask, SolveRunOutput, string>((task, progress) => solveRun(task, progress));
+serveTasks<SolveTask, SolveRunOutput, SolveStep>((task, progress) => solveRun(task, progress));

@@ -47,6 +47,16 @@ export async function writeWeightsDirectory<S extends z.ZodType>(tf: Tf, dir: st
   });
 }
 
+/**
+ * A transfer's source checkpoint exists (checked before the reference solve, so a missing one
+ * fails at once); the message says how such a folder is made.
+ */
+export function requireTransferSource(dir: string): void {
+  if (!existsSync(join(dir, 'checkpoint.json'))) {
+    throw new InputError(`initFrom: ${dir}: not a checkpoint directory (no checkpoint.json); initFrom names the --out folder of a finished \`mesofield train\` run of the source system: train that one first`);
+  }
+}
+
 /** Read and check a checkpoint; every problem is an InputError that says what is wrong. */
 export function loadCheckpoint(tf: Tf, dir: string): LoadedCheckpoint {
   return readWeightsDirectory(tf, dir, checkpointFileSchema);

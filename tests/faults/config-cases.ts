@@ -119,7 +119,7 @@ function fieldFaults(): FaultCase[] {
   add(train, 'loss weight negative', (b) => (b.losses = { weights: { gauge: -1 } }), /losses\.weights\.gauge: got -1/);
   add(train, 'unknown loss term', (b) => (b.losses = { weights: { energy: 1 } }), /unknown field\(s\) "energy"/);
   add(train, 'backend unknown', (b) => (b.backend = 'gpu'), /backend: got "gpu"/);
-  add(train, 'initFrom not a checkpoint (named, relative to the config)', (b) => (b.initFrom = 'no-such-checkpoint'), /initFrom: .*no-such-checkpoint/);
+  add(train, 'initFrom not a checkpoint (named, relative to the config)', (b) => (b.initFrom = 'no-such-checkpoint'), /initFrom: .*no-such-checkpoint.*not a checkpoint directory.*train that one first/);
   add(train, 'system chain f missing', (b) => delete b.system.chain.f, /system\.chain\.f: got nothing \(missing\)/);
   add(surrogate, 'anchors below 2', (b) => (b.parameters.chiN.anchors = 1), /parameters\.chiN\.anchors: got 1/);
   add(surrogate, 'χN range reversed', (b) => (b.parameters.chiN = { min: 20, max: 12, anchors: 5 }), /parameters\.chiN/);

@@ -5,12 +5,11 @@
  * - train: SIGINT → exit 130, SIGTERM → exit 143, each after saving a checkpoint it names;
  *   SIGKILL → no handler runs, the last periodic checkpoint stays and --resume finishes it.
  * - sweep: SIGINT → exit 130 with the solved points saved; the same command again resumes.
- * - solve: SIGINT/SIGTERM mid-search → 130/143 at once, nothing written, a previous output untouched.
- * - demo: SIGINT mid-training → 130, the finished parts kept and marked incomplete.
  * - resume: a run stopped at step k by requestStop (the signal's own code path) and resumed
  *   reproduces the uninterrupted run's loss curve and final metrics.
+ *
+ * solve and demo are in signals-solve-demo.test.ts, a file of its own that the runner runs beside this one.
  */
-import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -18,7 +17,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import { requestStop, resetStop, stopRequested } from '../../src/runtime/stop.js';
 import { trainRun, TrainingStopped } from '../../src/training/train-run.js';
-import { CLI } from '../helpers/run-cli.js';
+import { start } from './signal-process.js';
 import { writeTally } from './tally.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
@@ -37,34 +36,6 @@ const TRAIN = {
   training: { adamSteps: 4000, checkpointEvery: 10, logEvery: 10, lbfgsIterations: 0, evaluateEvery: 0 },
 };
 
-interface Proc {
-  code: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
-  stderr: () => string;
-  kill: (s: NodeJS.Signals) => void;
-  waitFor: (re: RegExp, ms: number) => Promise<void>;
-}
-
-function start(args: string[]): Proc {
-  const child = spawn(process.execPath, [CLI, ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
-  let err = '';
-  child.stderr.on('data', (d) => (err += String(d)));
-  child.stdout.resume();
-  const code = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on('close', (c, s) => resolve({ code: c, signal: s })));
-  return {
-    code,
-    stderr: () => err,
-    kill: (s) => child.kill(s),
-    waitFor: async (re, ms) => {
-      const t0 = Date.now();
-      while (!re.test(err)) {
-        if (Date.now() - t0 > ms) throw new Error(`timed out waiting for ${re}; stderr so far:\n${err}`);
-        if (child.exitCode !== null) throw new Error(`exited ${child.exitCode} before ${re}; stderr:\n${err}`);
-        await new Promise((r) => setTimeout(r, 100));
-      }
-    },
-  };
-}
-
 const checkpointStep = (dir: string) => (JSON.parse(readFileSync(join(dir, 'checkpoint.json'), 'utf8')) as { step: number }).step;
 
 describe('signals', () => {
@@ -79,7 +50,7 @@ describe('signals', () => {
       writeFileSync(cfg, JSON.stringify(TRAIN));
       const out = join(dir, 'run');
       const p = start(['train', cfg, '--out', out]);
-      await p.waitFor(/step \d+\/4000/, 120_000);
+      await p.waitFor(/Adam \d+\/4000 steps/, 120_000);
       p.kill(sig);
       const r = await p.code;
       expect(r.code, p.stderr()).toBe(exit);
@@ -99,7 +70,7 @@ describe('signals', () => {
     writeFileSync(cfg, JSON.stringify({ ...TRAIN, training: { ...TRAIN.training, adamSteps: 60 } }));
     const out = join(dir, 'run');
     const p = start(['train', cfg, '--out', out]);
-    await p.waitFor(/step (1\d|[2-9]\d)\/60/, 120_000);
+    await p.waitFor(/Adam (1\d|[2-9]\d)\/60 steps/, 120_000);
     p.kill('SIGKILL');
     expect((await p.code).signal).toBe('SIGKILL');
     const saved = checkpointStep(out);
@@ -137,54 +108,6 @@ describe('signals', () => {
   });
 });
 
-describe('signals: solve and demo', () => {
-  for (const [sig, exit] of [
-    ['SIGINT', 130],
-    ['SIGTERM', 143],
-  ] as const) {
-    it(`solve: ${sig} during the period search ends at once with exit ${exit}; the previous output in --out is untouched`, async () => {
-      counts.tried++;
-      const dir = tmp();
-      const out = join(dir, 'sol');
-      const first = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
-      expect((await first.code).code, first.stderr()).toBe(0);
-      const before = ['solution.json', 'profile.csv', '.mesofield-output.json'].map((n) => readFileSync(join(out, n)));
-      const p = start(['solve', '--chiN', '40', '--period', 'equilibrium', '--nx', '64', '--ns', '400', '--out', out, '--overwrite']);
-      await p.waitFor(/period search: evaluation 1,/, 120_000);
-      p.kill(sig);
-      const r = await p.code;
-      expect(r.code, p.stderr()).toBe(exit);
-      expect(p.stderr()).toMatch(new RegExp(`solve: ${sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping the solve; nothing will be written`));
-      expect(p.stderr()).toMatch(/solve stopped by a signal before it finished; nothing was written \(.*sol was left as it was\)/);
-      expect(p.stderr()).not.toMatch(/lamellar, \d+ period evaluations/);
-      ['solution.json', 'profile.csv', '.mesofield-output.json'].forEach((n, i) => expect(readFileSync(join(out, n)).equals(before[i]), n).toBe(true));
-      expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
-      counts['clear error or stop']++;
-    }, 180_000);
-  }
-
-  it('demo: SIGINT during the training stops it, exit 130; the finished parts stay, marked incomplete', async () => {
-    counts.tried++;
-    const dir = tmp();
-    const out = join(dir, 'demo');
-    const p = start(['demo', '--out', out, '--backend', 'wasm']);
-    await p.waitFor(/2\/3 training/, 180_000);
-    p.kill('SIGINT');
-    const r = await p.code;
-    expect(r.code, p.stderr()).toBe(130);
-    expect(p.stderr()).toMatch(/demo: Ctrl-C: stopping after the current stage/);
-    expect(p.stderr()).toMatch(/demo stopped by a signal after the reference and part of the training/);
-    expect(existsSync(join(out, 'reference', 'solution.json'))).toBe(true);
-    expect(existsSync(join(out, 'inversion'))).toBe(false);
-    const marker = JSON.parse(readFileSync(join(out, '.mesofield-output.json'), 'utf8')) as { command: string; complete: boolean; files: string[] };
-    expect(marker.command).toBe('demo');
-    expect(marker.complete).toBe(false);
-    expect(marker.files).toContain('reference/solution.json');
-    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
-    counts['clear error or stop']++;
-  }, 240_000);
-});
-
 describe('resume fidelity', () => {
   it('a run stopped at step 25 by the stop flag and resumed reproduces the uninterrupted run', async () => {
     counts.tried++;
@@ -214,6 +137,32 @@ describe('resume fidelity', () => {
     const changed = { ...base, training: { ...base.training, learningRate: base.training.learningRate * 2 } };
     await expect(trainRun({ config: changed, resumeDir: dir, outDir: dir, backend: 'wasm' })).rejects.toThrow(/the config differs from the one the checkpoint was trained with[\s\S]*training\.learningRate: checkpoint 0\.002, config 0\.004/);
     counts['clear error or stop']++;
+  });
+});
+
+describe('resume fidelity after a stop in the L-BFGS polish', () => {
+  it('a run stopped at L-BFGS iteration 6 by the stop flag and resumed ends where the uninterrupted run ends', async () => {
+    counts.tried++;
+    const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 30, lbfgsIterations: 16, lbfgsCycles: 1 } });
+    const whole = await trainRun({ config: base, backend: 'wasm' });
+    const dir = join(tmp(), 'run');
+    resetStop();
+    const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onLbfgs: (it) => it >= 6 && !stopRequested() && requestStop('SIGTERM') }).catch((e) => e);
+    resetStop();
+    expect(stopped).toBeInstanceOf(TrainingStopped);
+    expect(String(stopped.message)).toMatch(/interrupted in the L-BFGS polish after \d+ iterations .*a resume repeats the polish from there/);
+    expect(checkpointStep(dir)).toBe(30);
+    const resumed = await trainRun({ config: base, resumeDir: dir, outDir: dir, backend: 'wasm' });
+    // The polish's loss curve, iteration by iteration, to float32 rounding.
+    const polish = (h: typeof whole.history) => h.filter((e) => e.stage === 'lbfgs').map((e) => e.total);
+    const a = polish(whole.history);
+    const b = polish(resumed.history);
+    expect(b.length).toBe(a.length);
+    for (let i = 0; i < a.length; i++) expect(Math.abs(b[i] / a[i] - 1)).toBeLessThan(1e-6);
+    const rel = (x: number, y: number) => Math.abs(x / y - 1);
+    expect(rel(resumed.metrics.errors.phiA.relativeL2, whole.metrics.errors.phiA.relativeL2)).toBeLessThan(1e-6);
+    expect(rel(resumed.metrics.errors.freeEnergyError, whole.metrics.errors.freeEnergyError)).toBeLessThan(1e-6);
+    counts['correct answer']++;
   });
 });
 

@@ -8,7 +8,7 @@ import { fitOffset } from '../../src/inverse/offset-fit.js';
 import type { ProfileData } from '../../src/inverse/profile-csv.js';
 import { parseProfileCsv } from '../../src/inverse/profile-csv.js';
 import { InputError } from '../../src/io/errors.js';
-import { diblock, synthData } from './helpers.js';
+import { diblock, profileEnds, synthData } from './helpers.js';
 
 // A profile in nm: Rg = 6 nm, χN = 15, 2 % noise, two periods (scenario of our own).
 const RG = 6;
@@ -51,14 +51,7 @@ describe('assumed inputs: Rg with an uncertainty', () => {
     const step = halfQuad / 5;
     const grid = Array.from({ length: 19 }, (_, i) => c0 + (i - 9) * step);
     const vals = grid.map(P);
-    const pMin = Math.min(...vals);
-    const over = vals.map((v) => v - pMin - 1);
-    const first = over.findIndex((v) => v <= 0);
-    const last = over.length - 1 - [...over].reverse().findIndex((v) => v <= 0);
-    expect(first).toBeGreaterThan(0);
-    expect(last).toBeLessThan(grid.length - 1);
-    const cross = (i: number, j: number) => grid[i] + ((grid[j] - grid[i]) * over[i]) / (over[i] - over[j]);
-    const exact = [cross(first - 1, first), cross(last, last + 1)];
+    const exact = profileEnds(grid, vals);
     const halfExact = (exact[1] - exact[0]) / 2;
     // The centre of the exact profile against the one the approximation moved to.
     expect(Math.abs((exact[0] + exact[1]) / 2 - c0)).toBeLessThan(0.15 * halfExact);

@@ -1,3 +1,4 @@
+import { expect } from 'vitest';
 import type { ChainSpec } from '../../src/physics/chain-schema.js';
 import type { ClassicalSettings, ModelSet } from '../../src/inverse/classical.js';
 import { estimateClassical } from '../../src/inverse/classical.js';
@@ -31,4 +32,20 @@ export function invert(data: ProfileData, s: Partial<ClassicalSettings> & { chai
 export function phaseDistance(a: number, b: number, L: number): number {
   const d = (((a - b) % L) + L) % L;
   return Math.min(d, L - d);
+}
+
+/**
+ * The ends of a profile-likelihood interval from values P on a uniform grid: where P − min P
+ * crosses `level`, by linear interpolation between grid points. Both ends must lie inside the
+ * grid (checked), or the grid was too short to say.
+ */
+export function profileEnds(grid: number[], vals: number[], level = 1): [number, number] {
+  const pMin = Math.min(...vals);
+  const over = vals.map((v) => v - pMin - level);
+  const first = over.findIndex((v) => v <= 0);
+  const last = over.length - 1 - [...over].reverse().findIndex((v) => v <= 0);
+  expect(first).toBeGreaterThan(0);
+  expect(last).toBeLessThan(grid.length - 1);
+  const cross = (i: number, j: number) => grid[i] + ((grid[j] - grid[i]) * over[i]) / (over[i] - over[j]);
+  return [cross(first - 1, first), cross(last, last + 1)];
 }

@@ -2,7 +2,10 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { readFormat } from '../../src/io/formats/file-format.js';
+import { braggPatternFileSchema, braggPeaksCsv } from '../../src/io/formats/bragg-pattern.js';
 import { runCli } from '../helpers/run-cli.js';
+import { pdfText } from '../reports/pdf-tools.js';
 
 const grid = ['--nx', '32', '--ns', '60'];
 const dir = mkdtempSync(join(tmpdir(), 'mesofield-meas-'));
@@ -25,6 +28,24 @@ describe('invert: honest about Rg and units', () => {
     expect(c.interval95[0]).toBeLessThan(15);
     expect(c.interval95[1]).toBeGreaterThan(15);
     expect(c.intervalMethod).toMatch(/exact profile likelihood over Rg/);
+  });
+
+  it("the report's first page shows χN with its interval, what it rests on (the Rg sensitivity measured, f and b_A/b_B as exact) and the run time", () => {
+    const out = join(dir, 'inv-report');
+    const r = runCli(['invert', nm, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--chiN-range', '12,20', '--out', out, '--report', '--quiet']);
+    expect(r.code, r.stderr).toBe(0);
+    const page1 = pdfText(join(out, 'report', 'report.pdf'), 1);
+    const result = JSON.parse(readFileSync(join(out, 'result.json'), 'utf8'));
+    const c = result.estimators.classical;
+    expect(page1).toMatch(/fitted χN \(profile-likelihood intervals\)/);
+    expect(page1).toContain(`68 %: ${Number(c.interval[0].toPrecision(5))}`);
+    expect(page1).toMatch(/What this χN rests on/);
+    // The sensitivity on the page is the one the run measured (the refits at Rg × 0.95 and × 1.05).
+    expect(page1).toContain(`Rg 5 % smaller gives χN = ${Number(c.assumedInputs.sensitivity.chiNAtMinus.toPrecision(4))}`);
+    expect(page1).toMatch(/f = 0\.5 taken as exact/);
+    expect(page1).toMatch(/b_A\/b_B = 1 taken as exact/);
+    expect(page1).toMatch(/Run time: [\d.]+ s \(the whole inversion/);
+    expect(result.runSeconds).toBeGreaterThan(c.seconds);
   });
 
   it('refuses x in nm read as Rg, and x_nm without an Rg, naming --rg-nm (exit 2)', () => {
@@ -52,5 +73,24 @@ describe('bragg-pattern', () => {
     expect(res.peaks[1].relative).toBeLessThan(1e-10);
     expect(res.peaks[2].relative).toBeGreaterThan(1e-3);
     expect(res.peaks[0].q).toBeCloseTo((2 * Math.PI) / res.period, 10);
+    // --json prints the result file's value (io/formats/bragg-pattern.ts).
+    expect(braggPatternFileSchema.parse(res).orders).toBe(4);
+  });
+
+  it('--out writes result.json, peaks.csv and pattern.csv through their one format, and the report reads them', () => {
+    const out = join(dir, 'pattern');
+    const r = runCli(['bragg-pattern', join(dir, 'sol', 'solution.json'), '--orders', '3', '--rg-nm', '2.8', '--out', out, '--report']);
+    expect(r.code, r.stderr).toBe(0);
+    const res = readFormat(join(out, 'result.json'), braggPatternFileSchema);
+    expect(res.qUnit).toBe('nm⁻¹');
+    // q_1 = 2π/D with D in nm (Rg = 2.8 nm; geometry, common practice, no source).
+    expect(res.peaks[0].q).toBeCloseTo((2 * Math.PI) / (res.period * 2.8), 10);
+    expect(res.system.chiN).toBe(20);
+    expect(readFileSync(join(out, 'peaks.csv'), 'utf8')).toBe(braggPeaksCsv(res));
+    const pattern = readFileSync(join(out, 'pattern.csv'), 'utf8').trim().split('\n');
+    expect(pattern[0]).toBe('q,I');
+    expect(pattern.length).toBeGreaterThan(100);
+    expect(r.stdout).toMatch(/^lamella at χN = 20: period D = [\d.]+ nm/);
+    expect(pdfText(join(out, 'report', 'report.pdf'))).toMatch(/Bragg pattern of the lamella at χN = 20/);
   });
 });

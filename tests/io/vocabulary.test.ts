@@ -7,6 +7,9 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { inversionResultSchema } from '../../src/io/formats/inversion.js';
+import { braggFitFileSchema, spacingFitFileSchema } from '../../src/io/formats/measurement-fits.js';
+import { braggPatternFileSchema } from '../../src/io/formats/bragg-pattern.js';
+import { scatteringResultSchema } from '../../src/io/formats/scattering-fit.js';
 import { solutionFileSchema, summarize } from '../../src/io/formats/solution.js';
 import { predictionSchema, surrogateCheckpointSchema, surrogateMetricsSchema } from '../../src/io/formats/surrogate.js';
 import { shardFileSchema, sweepTableSchema } from '../../src/io/formats/sweep.js';
@@ -32,6 +35,10 @@ const FORMAT_SCHEMAS: Record<string, z.ZodType> = {
   inversion: inversionResultSchema,
   'sweep-shard': shardFileSchema,
   'sweep-table': sweepTableSchema,
+  'bragg-fit': braggFitFileSchema,
+  'spacing-fit': spacingFitFileSchema,
+  'bragg-pattern': braggPatternFileSchema,
+  'fit-scattering-result': scatteringResultSchema,
 };
 
 type Json = Record<string, unknown>;

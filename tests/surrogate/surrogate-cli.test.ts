@@ -38,7 +38,7 @@ describe('surrogate commands', () => {
     expect(train.stdout).toMatch(/trained surrogate over χN in \[13, 17\] \(3 anchors\)/);
     expect(train.stdout).toMatch(/held-out \(2 points\): φA relative L2 max \d\.\d\de-\d/);
     expect(train.stdout).toMatch(/query [\d.]+ ms after start-up/);
-    expect(train.stderr).toMatch(/train: round 1\/1/);
+    expect(train.stderr).toMatch(/train: physics rounds 1\/1 rounds \| SCFT residual .* left/);
     for (const f of ['checkpoint.json', 'weights.bin', 'metrics.json', 'reference.json', 'network.json']) expect(existsSync(join(ck, f)), f).toBe(true);
     const file = JSON.parse(readFileSync(join(ck, 'checkpoint.json'), 'utf8'));
     expect(file.kind).toBe('surrogate-checkpoint');

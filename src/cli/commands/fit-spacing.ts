@@ -1,66 +1,71 @@
-/** `mesofield fit-spacing`: χ and the segment length b from lamellar periods measured for several chain lengths. */
+/** `mesofield fit-spacing`: χ and the segment length b from lamellar periods measured for several chain lengths (flags over a "fit-spacing" config). */
 import type { Command } from 'commander';
-import { readFileSync } from 'node:fs';
-import { InputError } from '../../io/errors.js';
-import { action, numberFlag } from '../run-command.js';
+import type { ConfigInput } from '../config-input.js';
+import type { FitCommandFlags } from './fit-command.js';
+import { fitConfigInput, writeFitOutput } from './fit-command.js';
+import { action } from '../run-command.js';
+import { numberList } from './film-flags.js';
+
+interface FitSpacingFlags extends FitCommandFlags {
+  chiRange?: string;
+}
+
+/** Flags on top of the config file (or of an empty diblock config); messages name the flag or the file's key. */
+export function buildSpacingFitInput(configPath: string | undefined, flags: FitSpacingFlags): ConfigInput<'fit-spacing'> {
+  const input = fitConfigInput('fit-spacing', configPath, flags);
+  const range = numberList('--chi-range', flags.chiRange, 2, '0.05,0.2');
+  if (range) input.set('--chi-range', range);
+  return input;
+}
+
+// The scan, the refinement and four interval ends take about 40 χ values, each one solve per N.
+const EXPECTED_EVALUATIONS = 40;
 
 export function registerFitSpacing(program: Command): void {
   program
     .command('fit-spacing')
     .description("χ and the statistical segment length b from the lamellar period D measured for several N (same chemistry and temperature), through the reference's D(χN)")
     .argument('<file>', 'CSV: N, D_nm, and optionally dD_nm')
-    .option('--f <f>', 'A fraction of the diblock (the same for every N)')
+    .argument('[config]', 'fit-spacing config JSON (kind "fit-spacing"); flags override it')
+    .option('--f <f>', 'A fraction of the diblock, the same for every N (required without a config)')
     .option('--segment-ratio <r>', 'b_A/b_B')
     .option('--chi-range <lo,hi>', 'χ search range (default: from 1.05 × the spinodal at the smallest N to χN = 60 at the largest)')
-    .option('--nx <n>', 'model grid points per period', '64')
-    .option('--ns <n>', 'model contour steps', '100')
+    .option('--nx <n>', 'model grid points per period (power of two; default 64)')
+    .option('--ns <n>', 'model contour steps (default 100)')
     .option('--json', 'print the result JSON on stdout')
+    .option('--out <dir>', 'write result.json into this directory')
+    .option('--overwrite', 'replace a previous fit-spacing output in --out (only the files mesofield wrote there)')
+    .option('--report', 'also write a PDF/PNG report into <out>/report (needs --out)')
+    .option('--quiet', 'no progress on stderr')
     .action(
-      action(async (path: string, flags: { f?: string; segmentRatio?: string; chiRange?: string; nx: string; ns: string; json?: boolean }) => {
-        const { parseSpacingCsv } = await import('../../inverse/spacing-csv.js');
-        const { fitSpacingSeries } = await import('../../inverse/spacing-series.js');
-        const { parseOrThrow, asInputError } = await import('../../io/errors.js');
-        const { chainSchema } = await import('../../physics/chain-schema.js');
-        const f = numberFlag('--f', flags.f);
-        if (f === undefined) throw new InputError('--f: missing; the A fraction f of the diblock is required');
-        const chain = parseOrThrow(chainSchema, { type: 'diblock', f, segmentRatio: numberFlag('--segment-ratio', flags.segmentRatio) ?? 1 }, 'flags');
-        let chiRange: [number, number] | undefined;
-        if (flags.chiRange !== undefined) {
-          const r = flags.chiRange.split(',').map(Number);
-          if (r.length !== 2 || r.some((v) => !Number.isFinite(v)) || !(r[0] > 0 && r[0] < r[1])) throw new InputError(`--chi-range: got ${JSON.stringify(flags.chiRange)}; allowed: two numbers lo,hi with 0 < lo < hi`);
-          chiRange = [r[0], r[1]];
-        }
-        const nx = numberFlag('--nx', flags.nx)!;
-        const ns = numberFlag('--ns', flags.ns)!;
-        if (!(Number.isInteger(nx) && nx >= 16 && (nx & (nx - 1)) === 0)) throw new InputError(`--nx: got ${flags.nx}; allowed: a power of two ≥ 16`);
-        if (!(Number.isInteger(ns) && ns >= 20 && ns % 2 === 0)) throw new InputError(`--ns: got ${flags.ns}; allowed: an even whole number ≥ 20`);
-        let text: string;
-        try {
-          text = readFileSync(path, 'utf8');
-        } catch (e) {
-          throw new InputError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-        }
-        let fit;
-        try {
-          fit = fitSpacingSeries(parseSpacingCsv(text, path), { chain, nx, ns, chiRange });
-        } catch (e) {
-          throw asInputError(e, 'flags');
-        }
-        if (flags.json) {
-          process.stdout.write(`${JSON.stringify({ kind: 'spacing-fit', file: path, chain, ...fit }, null, 2)}\n`);
-          return;
-        }
-        const i68 = fit.intervals['68.3%'];
-        const i95 = fit.intervals['95%'];
-        const lines = [
-          `χ = ${fit.chi.toPrecision(5)}   68.3 % [${i68.chi[0].toPrecision(5)}, ${i68.chi[1].toPrecision(5)}]   95 % [${i95.chi[0].toPrecision(5)}, ${i95.chi[1].toPrecision(5)}]   (profile likelihood)`,
-          `b = ${fit.b.toPrecision(5)} nm   68.3 % [${i68.b[0].toPrecision(5)}, ${i68.b[1].toPrecision(5)}]   95 % [${i95.b[0].toPrecision(5)}, ${i95.b[1].toPrecision(5)}]`,
-          `χ² = ${fit.chi2.toPrecision(4)} for ${fit.dof} dof, ${fit.seconds.toFixed(1)} s`,
-          '    N     χN      D model (nm)',
-          ...fit.model.map((m) => `${String(m.N).padStart(5)}  ${m.chiN.toPrecision(4).padEnd(7)} ${m.D.toPrecision(5)}`),
-          ...fit.notes.map((n) => `note: ${n}`),
-        ];
-        process.stdout.write(`${lines.join('\n')}\n`);
+      action(async (path: string, configPath: string | undefined, flags: FitSpacingFlags) => {
+        const { spacingFitConfigSchema } = await import('../../io/schemas/spacing-fit-config.js');
+        const { runSpacingFit } = await import('../../inverse/run-spacing-fit.js');
+        const { spacingFitText } = await import('../../inverse/measurement-fit-text.js');
+        const { formatText } = await import('../../io/formats/file-format.js');
+        const { spacingFitFileSchema } = await import('../../io/formats/measurement-fits.js');
+        const { asInputError } = await import('../../io/errors.js');
+        const { provenance } = await import('../../io/versions.js');
+        const { claimOut, withOutput } = await import('../run-output.js');
+        const { Progress } = await import('../progress.js');
+        const config = buildSpacingFitInput(configPath, flags).parse(spacingFitConfigSchema);
+        const out = claimOut(flags, 'fit-spacing');
+        return withOutput(out, async () => {
+          const progress = new Progress('fit-spacing', flags.quiet);
+          let result;
+          try {
+            result = runSpacingFit(path, config, {
+              provenance: provenance(),
+              onEvaluation: (k, chi, chi2) => progress.step(k, EXPECTED_EVALUATIONS, `χ = ${chi.toPrecision(6)}, χ² ${chi2.toPrecision(5)}`, 'χ values', true),
+            });
+          } catch (e) {
+            throw asInputError(e, configPath ?? 'flags');
+          }
+          progress.done(`χ = ${result.chi.toPrecision(5)} in ${result.seconds.toFixed(2)} s (${result.evaluations} χ values)`);
+          const fit = result;
+          await writeFitOutput('fit-spacing', out, flags, { 'result.json': formatText(spacingFitFileSchema, fit) }, async () => (await import('../../reports/measurement-fit-input.js')).measurementFitReport(flags.out!, { spacing: fit }));
+          process.stdout.write(flags.json ? formatText(spacingFitFileSchema, result, 2) : spacingFitText(result));
+        });
       }),
     );
 }

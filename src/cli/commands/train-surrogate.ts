@@ -5,7 +5,7 @@ import { surrogateConfigSchema } from '../../io/schemas/surrogate-config.js';
 import type { SurrogateMetrics, surrogateRun as SurrogateRun } from '../../surrogate/surrogate-run.js';
 import type { SurrogateConfig } from '../../io/schemas/surrogate-config.js';
 import { claimOut, withOutput } from '../run-output.js';
-import { formatDuration, Progress } from '../progress.js';
+import { formatDuration, Progress, RunProgress } from '../progress.js';
 import { installStopHandlers } from '../../runtime/stop.js';
 import type { TrainFlags } from './train-flags.js';
 import { backendFlag } from './train-flags.js';
@@ -42,7 +42,7 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
   const out = claimOut({ out: outDir, overwrite: flags.overwrite }, SURROGATE_OUTPUT);
   const progress = new Progress('train', flags.quiet);
   const { surrogateRun } = await import('../../surrogate/surrogate-run.js');
-  const uninstall = installStopHandlers('train');
+  const uninstall = installStopHandlers('train', 'stopping after this solve or step; a surrogate run is not resumable and saves nothing');
   return withOutput(out, () => runAndReport(config, outDir, flags, progress, surrogateRun)).finally(uninstall);
 }
 
@@ -51,16 +51,29 @@ export const SURROGATE_OUTPUT = 'train (surrogate)';
 
 async function runAndReport(config: SurrogateConfig, outDir: string, flags: TrainFlags, progress: Progress, surrogateRun: typeof SurrogateRun): Promise<void> {
   const backend = backendFlag(flags.backend);
+  // The run's counted phases (the network fit between them reports once, when it ends).
+  const run = new RunProgress(progress, [
+    { name: 'reference solves', units: 0, unit: 'solves' },
+    { name: 'physics rounds', units: config.training.rounds, unit: 'rounds' },
+  ]);
+  run.begin('reference solves');
   const r = await surrogateRun({
     config,
     outDir,
     backend,
     onStage: (m) => progress.update(m, true),
-    onRound: (h) =>
-      progress.update(
-        `${h.round === 0 ? 'fit' : `round ${h.round}/${h.rounds}`} | ${h.residual === null ? '' : `SCFT residual ${sci(h.residual)} kT | `}fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''} | ${formatDuration(h.seconds)}`,
-        h.round === h.rounds || h.phiError !== undefined,
-      ),
+    onSolve: (done, total, role, seconds) => {
+      run.size('reference solves', total);
+      run.at('reference solves', done, `${role}, ${seconds.toFixed(2)} s`, done === total);
+    },
+    onRound: (h) => {
+      if (h.round === 0) {
+        progress.update(`fit to the reference solutions: fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, true);
+        run.begin('physics rounds');
+        return;
+      }
+      run.at('physics rounds', h.round, `SCFT residual ${h.residual === null ? 'n/a' : sci(h.residual)} kT | fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, h.round === h.rounds || h.phiError !== undefined);
+    },
   });
   try {
     const m = r.metrics;

@@ -83,7 +83,7 @@ export interface FilmFitOutput {
 }
 
 /** Run the fit of a config on data already read. */
-export function runFilmFit(config: FilmFitConfig, data: FilmData, prov: Provenance, onProgress?: (stage: string, detail: string) => void): FilmFitOutput {
+export function runFilmFit(config: FilmFitConfig, data: FilmData, prov: Provenance, onProgress?: (stage: string, detail: string, counted: boolean) => void): FilmFitOutput {
   const rgNm = config.units.rgNm;
   const toRg = (v: number) => (rgNm ? v / rgNm : v);
   const sld = config.instrument.sld;

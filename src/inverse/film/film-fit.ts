@@ -5,7 +5,8 @@
  * on χ² = Σ ((model_i − y_i)/σ_i)²; then profile-likelihood intervals for χN and the
  * affinities (each fixed on a grid of trial values while every other parameter is refitted;
  * the interval ends are where the profiled χ² rises by the Δχ² level of confidence.ts, found by
- * the root search of profile-likelihood.ts).
+ * the root search of profile-likelihood.ts, whose first trial on each side is the curvature
+ * estimate of the distance from the fit's Jacobian).
  *
  * Units: lengths in Rg (the caller converts nm), affinities in kT per chain × Rg, SLD in Å⁻²,
  * Q in Å⁻¹. Without a sigma column the fit uses unit weights and σ̂² = RSS_min/(n − p), with
@@ -19,7 +20,7 @@ import type { FitStatistics } from '../fit-quality.js';
 import { boundedLeastSquares } from '../../numerics/bounded-least-squares.js';
 import type { StackSlds } from '../../reflectivity/sld-profile.js';
 import { deltaChi2Level, LEVELS } from '../confidence.js';
-import { intervalEnd } from '../profile-likelihood.js';
+import { intervalEnd, quadraticWidth } from '../profile-likelihood.js';
 import type { FilmPoint, FilmState } from './film-model.js';
 import { FilmModel } from './film-model.js';
 import type { FilmModelSpec } from './film-model.js';
@@ -53,7 +54,8 @@ export interface FilmFitSettings {
   intervals?: ('chiN' | 'bottom' | 'top')[];
   /** Names used in error messages. */
   sources?: { thickness?: string; chiNRange?: string };
-  onProgress?: (stage: string, detail: string) => void;
+  /** `counted`: one unit of the stage finished (a start, a fit iteration, a profiled point); else a detail within one. */
+  onProgress?: (stage: string, detail: string, counted: boolean) => void;
 }
 
 export interface ParamInterval {
@@ -174,7 +176,7 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
         else if (c < chi0) prevDown = pt;
         const q = { ...base, chiN: c, bottom: b, top: t };
         const v = score(pt, q);
-        s.onProgress?.('start', `χN = ${c.toPrecision(4)}, affinities ${b}, ${t}, layers ${pt.layers.sequence}: χ² ${v.toPrecision(5)}`);
+        s.onProgress?.('start', `χN = ${c.toPrecision(4)}, affinities ${b}, ${t}, layers ${pt.layers.sequence}: χ² ${v.toPrecision(5)}`, true);
         if (v < startCost) {
           startCost = v;
           start = q;
@@ -204,9 +206,10 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
       relTol: 1e-7,
       stepTol: 0.1,
       absTol,
-      onIteration: (it) => s.onProgress?.(stage, `iteration ${it.iteration}: χ² ${it.cost.toPrecision(7)}, ${free.map((k, i) => `${k} ${it.p[i].toPrecision(5)}`).join(', ')}`),
+      // The main fit counts its iterations; an interval's inner fits count their finished points (below).
+      onIteration: (it) => s.onProgress?.(stage, `iteration ${it.iteration}: χ² ${it.cost.toPrecision(7)}, ${free.map((k, i) => `${k} ${it.p[i].toPrecision(5)}`).join(', ')}`, stage === 'fit'),
     });
-    return { params: unvec(r.p), cost: r.cost, iterations: r.iterations, atBound: free.filter((_, i) => r.atBound[i]) };
+    return { params: unvec(r.p), cost: r.cost, iterations: r.iterations, atBound: free.filter((_, i) => r.atBound[i]), jacobian: r.jacobian };
   };
 
   let lmIterations = 0;
@@ -234,7 +237,7 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
       lmIterations += r.iterations;
       const pt = { chiN: v, value: r.cost, params: r.params };
       known.push(pt);
-      s.onProgress?.(`interval ${name}`, `${name} = ${v.toPrecision(6)}: Δχ² ${((r.cost - best.cost) / scale).toPrecision(4)}`);
+      s.onProgress?.(`interval ${name}`, `${name} = ${v.toPrecision(6)}: Δχ² ${((r.cost - best.cost) / scale).toPrecision(4)}`, true);
       return pt;
     };
     const range: [number, number] = [lower[name], upper[name]];
@@ -242,8 +245,10 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
     for (const level of LEVELS) {
       const d = deltaChi2Level(level, !data.sigma, dof);
       const bestPt = { chiN: best.params[name], value: best.cost };
-      const hi = intervalEnd(fn, bestPt, d * scale, 1, range, known);
-      const lo = intervalEnd(fn, bestPt, d * scale, -1, range, known);
+      // The first trial on each side at the curvature estimate of the distance to the level.
+      const width = quadraticWidth(best.jacobian, names.indexOf(name), d * scale);
+      const hi = intervalEnd(fn, bestPt, d * scale, 1, range, known, { width });
+      const lo = intervalEnd(fn, bestPt, d * scale, -1, range, known, { width });
       out[level.name] = { lo: lo.chiN, hi: hi.chiN, probability: level.probability, deltaChi2: d, limitedByRange: { lo: lo.limitedByRange, hi: hi.limitedByRange } };
       if (lo.limitedByRange || hi.limitedByRange) notes.push(`the ${level.name} interval of ${name} reaches the search bound [${range[0]}, ${range[1]}]: it is open on that side`);
     }

@@ -54,6 +54,18 @@ export interface LineChartSpec {
   /** A second x axis along the top: value = x × scale (e.g. Rg when x is in nm), with its own title. */
   topAxis?: { label: string; scale: number };
   legend?: boolean;
+  /** x takes whole values only (a peak order): ticks on whole numbers. */
+  xIntegers?: boolean;
+}
+
+/** Whole-number ticks over [min, max], at most about 12 of them. */
+function integerTicks(min: number, max: number): number[] {
+  const lo = Math.ceil(min);
+  const hi = Math.floor(max);
+  const step = Math.max(1, Math.ceil((hi - lo + 1) / 12));
+  const out: number[] = [];
+  for (let v = lo; v <= hi; v += step) out.push(v);
+  return out;
 }
 
 const resolve = (s: number | SeriesStyle): SeriesStyle => (typeof s === 'number' ? seriesStyle(s) : s);
@@ -228,7 +240,7 @@ export function drawLineChart(region: Region, spec: LineChartSpec): void {
           grid: { color: '#e4e4e4' },
           // Only round values as ticks: chart.js adds the data bounds as ticks and labels them
           // rounded to the step (3.264 shown as "3.3"), which misreads the axis.
-          afterBuildTicks: (scale: Scale) => void (scale.ticks = niceTicks(scale.min, scale.max, 8).map((value) => ({ value }))),
+          afterBuildTicks: (scale: Scale) => void (scale.ticks = (spec.xIntegers ? integerTicks(scale.min, scale.max) : niceTicks(scale.min, scale.max, 8)).map((value) => ({ value }))),
         },
         y: {
           type: spec.yLog ? 'logarithmic' : 'linear',

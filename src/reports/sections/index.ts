@@ -1,6 +1,7 @@
 /** The sections of a report, in page order. A new section is added to this list. */
 import { appendixSection } from './appendix-section.js';
 import { filmSection } from './film-section.js';
+import { filmSweepSection } from './film-sweep-section.js';
 import { filmFitSection } from './film-fit-section.js';
 import { inversionSection } from './inversion-section.js';
 import { metricsSection } from './metrics-section.js';
@@ -9,6 +10,7 @@ import { profilesSection } from './profiles-section.js';
 import { propagatorSection } from './propagator-section.js';
 import { scatteringSection } from './scattering-section.js';
 import { braggSection } from './bragg-section.js';
+import { measurementFitSection } from './measurement-fit-section.js';
 import { surrogateSection } from './surrogate-section.js';
 import { sweepSection } from './sweep-section.js';
 import type { ReportSection } from './section.js';
@@ -21,7 +23,9 @@ export const REPORT_SECTIONS: readonly ReportSection[] = [
   inversionSection,
   scatteringSection,
   braggSection,
+  measurementFitSection,
   sweepSection,
+  filmSweepSection,
   filmSection,
   filmFitSection,
   profilesSection,

@@ -36,6 +36,12 @@ export const titleSection: ReportSection = {
                 { type: 'table' as const, header: ['quantity', 'value', 'unit'], widths: [3.2, 5.2, 1.4], rows: results.map((r) => [r.name, r.value, r.unit ?? '']) },
               ]
             : []),
+          ...(input.inversion?.restsOn?.length
+            ? [
+                { type: 'text' as const, lines: ['What this χN rests on'], style: 'heading' as const },
+                { type: 'text' as const, lines: input.inversion.restsOn.map((l) => `• ${l}`) },
+              ]
+            : []),
           { type: 'text', lines: ['Provenance'], style: 'heading' },
           { type: 'text', lines: provenanceLines(info) },
           {
