@@ -3,7 +3,9 @@
  * each group touching only its own columns (a block-sparse J: the residuals of one
  * propagator network do not depend on another's parameters). Each group's product is
  * formed on its own compact columns and added into A, so a group of k columns costs
- * rows·k²/2 multiply-adds instead of rows·n²/2 (common practice, no source).
+ * rows·k²/2 multiply-adds instead of rows·n²/2 (common practice, no source). A group may
+ * carry more columns as a product C·E through a few intermediates (FactoredColumns below),
+ * whose blocks then cost about t·k'·(k + k') instead of rows·k'·(k + k'/2).
  * A is row-major n·n with only the lower triangle filled (what numerics/cholesky.ts reads).
  */
 
