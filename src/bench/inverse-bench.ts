@@ -10,6 +10,8 @@ import type { ProfileData } from '../inverse/profile-csv.js';
 import { synthesize } from '../inverse/synth.js';
 import { compareWithTruth } from '../inverse/truth-comparison.js';
 import type { ChainSpec } from '../physics/chain-schema.js';
+import { fitFilm } from '../inverse/film/film-fit.js';
+import { synthesizeFilm } from '../inverse/film/film-synth.js';
 
 function profile(chain: ChainSpec, seed: number, nx: number, ns: number): ProfileData {
   const s = synthesize({ chain, chiN: 15, points: 64, noise: 0.02, seed, periods: 1, offset: 0.7, period: 'equilibrium', resolution: 0, nx, ns });
@@ -45,6 +47,40 @@ export async function runInverseBench(): Promise<void> {
     `network estimator (defaults: ${net.adamSteps} Adam steps + ${net.lbfgsIterations} L-BFGS iterations, one seed, wasm), same case, seed 1, target 2 min: ` +
       `χN = ${ne.chiN.toFixed(4)} (classical ${cl.chiN.toFixed(4)}) in ${ne.seconds.toFixed(1)} s`,
   );
+  runFilmIntervalBench(chain);
+}
+
+/**
+ * A film fit with the intervals of χN and both wall affinities (the bottom wall prefers A, the
+ * top B): 40 points of a composition profile from a finer film solve (32 × 80) with 2 % noise,
+ * fitted on 16 points × 40 contour steps. Each interval trial is a refit of the other parameters.
+ */
+function runFilmIntervalBench(chain: ChainSpec): void {
+  const truth = { chiN: 16, bottom: 1.0, top: -0.6, thickness: 5, width: 0.25, offset: 0.3 };
+  const d = synthesizeFilm({ kind: 'phi', chain, ...truth, wallRange: 0.25, points: 40, noise: 0.02, seed: 5, instrument: {}, nx: 32, ns: 80 });
+  const trials: Record<string, number> = { chiN: 0, bottom: 0, top: 0 };
+  const r = fitFilm(
+    { kind: 'phi', source: 'synthetic', x: d.x, y: d.y, sigma: d.sigma },
+    {
+      model: { chain, nx: 16, ns: 40, wallRange: 0.25 },
+      thickness: truth.thickness,
+      instrument: {},
+      chiNRange: [5, 60],
+      affinityRange: [-5, 5],
+      start: { bottom: 1, top: -1 },
+      intervals: ['chiN', 'bottom', 'top'],
+      onProgress: (stage, detail) => {
+        const k = stage.replace('interval ', '');
+        if (stage.startsWith('interval') && detail.includes('Δχ²')) trials[k]++;
+      },
+    },
+  );
+  const iv = (k: 'chiN' | 'bottom' | 'top') => {
+    const i = r.intervals[k]!['95%'];
+    return `${k} ${r.params[k].toFixed(3)} [${i.lo.toFixed(3)}${i.limitedByRange.lo ? ' (bound)' : ''}, ${i.hi.toFixed(3)}${i.limitedByRange.hi ? ' (bound)' : ''}] ${trials[k]} trials`;
+  };
+  console.log(`film fit (H = 5 Rg, 40 points, 2 % noise, 16 × 40 grid) with the 68 % and 95 % intervals of χN and both affinities: fit ${r.seconds.fit.toFixed(1)} s, intervals ${r.seconds.intervals.toFixed(1)} s (${r.cost.solves} film solves)`);
+  console.log(`  95 %: ${iv('chiN')}; ${iv('bottom')}; ${iv('top')}`);
 }
 
 /**

@@ -7,9 +7,10 @@
  * line against bare node), `--recipes` (Adam + L-BFGS against the second-order phase on five
  * systems; only when asked, it is long: see recipe-bench.ts), `--propagator-floor` (the
  * propagator networks alone in the reference's field: the floor of the second-order recipe;
- * only when asked, see propagator-floor.ts).
+ * only when asked, see propagator-floor.ts), `--lm-profile` (CPU time of the parts of one
+ * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -37,6 +38,11 @@ if (want('--inverse')) {
 if (parts.includes('--propagator-floor')) {
   const { runPropagatorFloorBench } = await import('./propagator-floor.js');
   await runPropagatorFloorBench();
+}
+// Opt-in only: the parts of one LM iteration (a minute).
+if (parts.includes('--lm-profile')) {
+  const { runLmProfile } = await import('./lm-profile.js');
+  await runLmProfile();
 }
 // Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
 if (parts.includes('--recipes')) {

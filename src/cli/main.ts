@@ -8,6 +8,9 @@
  * it is what scripts call most often, and start-up is all it costs (the same line commander prints).
  */
 const argv = process.argv.slice(2);
+// A reader that closes stdout early (`| head -1`) ends the output quietly, not as an error (runtime/closed-pipe.ts).
+const { tolerateClosedPipes } = await import('../runtime/closed-pipe.js');
+tolerateClosedPipes();
 
 async function versionOnly(): Promise<boolean> {
   if (argv.length !== 1 || (argv[0] !== '--version' && argv[0] !== '-V')) return false;

@@ -9,6 +9,7 @@ import { defaultWorkers } from '../io/worker-count.js';
 import { ModelError } from '../physics/chain.js';
 import { RunStopped, stopExitCode } from '../runtime/stop.js';
 import { invocation, reproduceLine } from './cli-context.js';
+import { writeCrashFile } from './crash-file.js';
 import { EXIT } from './exit-codes.js';
 
 export function reportError(e: unknown): number {
@@ -31,7 +32,8 @@ export function reportError(e: unknown): number {
   const err = e as Error | undefined;
   const { debug } = invocation();
   const what = err?.message ? `${err.name ?? 'Error'}: ${err.message.split('\n')[0]}` : String(e);
-  process.stderr.write(`mesofield: internal error (a bug, please report it): ${what}\n  to reproduce: ${reproduceLine()}${debug ? '' : ' --debug'}\n`);
+  const crash = writeCrashFile(e);
+  process.stderr.write(`mesofield: internal error (a bug, please report it): ${what}\n  to reproduce: ${reproduceLine()}${debug ? '' : ' --debug'}\n${crash ? `  the trace is saved in ${crash} (attach it to the report)\n` : ''}`);
   if (debug && err?.stack) process.stderr.write(`${err.stack}\n`);
   return EXIT.internal;
 }

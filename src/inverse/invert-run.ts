@@ -5,9 +5,9 @@
  * synth truth sidecar sits beside the profile, and the result with the files of an output
  * directory as text. It writes no file; the caller writes `files`.
  */
-import { readFileSync } from 'node:fs';
 import { synthTruthPath } from '../io/synth-output.js';
 import { InputError, asInputError } from '../io/errors.js';
+import { readInputText } from '../io/fs-errors.js';
 import type { InvertConfig } from '../io/schemas/invert-config.js';
 import { solutionToFile } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
@@ -68,12 +68,7 @@ export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult
   const step = opts.onStep ?? (() => {});
   const done = opts.onEstimator ?? (() => {});
   const units = lengthUnits(config.units ?? {});
-  let text: string;
-  try {
-    text = readFileSync(profilePath, 'utf8');
-  } catch (e) {
-    throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
+  const text = readInputText(profilePath);
   const data = parseProfileCsv(text, profilePath, units);
   const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
   const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };

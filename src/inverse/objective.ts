@@ -8,6 +8,7 @@
  *                the nearest χN already evaluated (or from the data's own periodicity)
  */
 import { bracketMinimum, brentMinimize } from '../numerics/brent-minimize.js';
+import { linearLeastSquares } from '../numerics/dense-solve.js';
 import type { LamellaModel, ModelPoint } from './lamella-model.js';
 import type { FitData } from './offset-fit.js';
 import { fitOffset } from './offset-fit.js';
@@ -121,25 +122,29 @@ export function periodogramPeriod(data: FitData, lo: number, hi: number, points 
   let best = lo;
   let bestRss = Infinity;
   const n = data.x.length;
+  // cos and sin of each point, computed once per trial period and used by both passes (a long profile spends its time here).
+  const cw = new Float64Array(n);
+  const sw = new Float64Array(n);
   for (let k = 0; k < points; k++) {
     const L = lo * Math.pow(hi / lo, k / (points - 1));
     const w = (2 * Math.PI) / L;
-    // Weighted normal equations for (a, b, c).
-    const M = [0, 0, 0, 0, 0, 0, 0, 0, 0];
-    const v = [0, 0, 0];
-    for (let i = 0; i < n; i++) {
-      const basis = [1, Math.cos(w * data.x[i]), Math.sin(w * data.x[i])];
-      const wt = data.weight[i];
-      for (let r = 0; r < 3; r++) {
-        v[r] += wt * basis[r] * data.phi[i];
-        for (let c = 0; c < 3; c++) M[3 * r + c] += wt * basis[r] * basis[c];
-      }
-    }
-    const coef = solve3(M, v);
+    const [coef] = linearLeastSquares(
+      n,
+      3,
+      (i, out) => {
+        cw[i] = Math.cos(w * data.x[i]);
+        sw[i] = Math.sin(w * data.x[i]);
+        out[0] = 1;
+        out[1] = cw[i];
+        out[2] = sw[i];
+      },
+      [data.phi],
+      data.weight,
+    );
     if (!coef) continue;
     let rss = 0;
     for (let i = 0; i < n; i++) {
-      const r = coef[0] + coef[1] * Math.cos(w * data.x[i]) + coef[2] * Math.sin(w * data.x[i]) - data.phi[i];
+      const r = coef[0] + coef[1] * cw[i] + coef[2] * sw[i] - data.phi[i];
       rss += data.weight[i] * r * r;
     }
     if (rss < bestRss) {
@@ -148,17 +153,4 @@ export function periodogramPeriod(data: FitData, lo: number, hi: number, points 
     }
   }
   return best;
-}
-
-function solve3(M: number[], v: number[]): number[] | undefined {
-  const det = (m: number[]) => m[0] * (m[4] * m[8] - m[5] * m[7]) - m[1] * (m[3] * m[8] - m[5] * m[6]) + m[2] * (m[3] * m[7] - m[4] * m[6]);
-  const d = det(M);
-  if (!(Math.abs(d) > 1e-300)) return undefined;
-  const out: number[] = [];
-  for (let c = 0; c < 3; c++) {
-    const m = [...M];
-    for (let r = 0; r < 3; r++) m[3 * r + c] = v[r];
-    out.push(det(m) / d);
-  }
-  return out;
 }

@@ -8,7 +8,7 @@
  * atomically (temporary sibling, then rename), never by removing or renaming the folder.
  */
 import { existsSync, lstatSync, mkdirSync, readdirSync, readFileSync, realpathSync, rmdirSync, rmSync } from 'node:fs';
-import { dirname, join, relative, resolve, sep } from 'node:path';
+import { basename, dirname, join, relative, resolve, sep } from 'node:path';
 import { writeFileAtomic } from './atomic-write.js';
 import { InputError } from './errors.js';
 import { describeFsError, isFsError } from './fs-errors.js';
@@ -33,6 +33,12 @@ export interface ClaimOptions {
   overwrite?: boolean;
   /** Continue a previous output of the same command (train --resume, sweep shards). */
   continuePrevious?: boolean;
+  /**
+   * The directory is a subfolder of a run's output (RUN/report): without a marker of its own,
+   * files there that the run's marker lists (written by e.g. `train --report`) count as a
+   * previous output of this command, so they may be replaced with --overwrite.
+   */
+  nestedInRun?: boolean;
 }
 
 export interface OutputDirectory {
@@ -46,6 +52,16 @@ export interface OutputDirectory {
   abandon(): void;
   /** This run has written a file here (through write(), or a new file by a writer of its own). */
   hasWritten(): boolean;
+}
+
+/** A subfolder's files that its parent's marker lists as a run's own: a previous output of `command`. */
+function markerFromParent(dir: string, command: string): Marker | null {
+  const parent = readMarker(dirname(dir));
+  if (!parent) return null;
+  const prefix = `${basename(dir)}/`;
+  const files = listFiles(dir).filter((f) => f !== OUTPUT_LOCK);
+  const listed = new Set(parent.files.filter((f) => f.startsWith(prefix)).map((f) => f.slice(prefix.length)));
+  return files.length > 0 && files.every((f) => listed.has(f)) ? { tool: 'mesofield', command, files, complete: true, updatedAt: '' } : null;
 }
 
 function readMarker(dir: string): Marker | null {
@@ -90,7 +106,7 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
       if (st.isSymbolicLink()) throw new InputError(`${say}: is a symbolic link; allowed: a real directory${linkTarget(abs)} — nothing was written`);
       if (!st.isDirectory()) throw new InputError(`${say}: is a file, not a directory; allowed: a new or empty directory — the file was left as it is`);
       const entries = readdirSync(abs).filter((n) => n !== OUTPUT_LOCK);
-      const marker = readMarker(abs);
+      const marker = readMarker(abs) ?? (opts.nestedInRun ? markerFromParent(abs, command) : null);
       if (entries.length > 0) {
         if (!marker) {
           throw new InputError(`${say}: is not empty and was not written by mesofield (it holds ${shortList(entries)}); allowed: a new or empty directory, or a previous ${command} output — nothing was written or deleted`);
@@ -118,7 +134,7 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
     if (isFsError(e)) throw new InputError(`${flag}: cannot write into ${describeFsError(e, dir)}`);
     throw e;
   }
-  const previous = readMarker(abs);
+  const previous = readMarker(abs) ?? (opts.nestedInRun ? markerFromParent(abs, command) : null);
   const markerPath = join(abs, OUTPUT_MARKER);
   const previousMarkerText = existsSync(markerPath) ? readFileSync(markerPath) : null;
   const ours = new Set(previous?.files ?? []);
@@ -157,7 +173,14 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
       wrap(() => {
         const now = listFiles(abs).filter((f) => f !== OUTPUT_LOCK && f !== OUTPUT_MARKER && !foreign.has(f));
         // Files of a replaced previous output that this run did not write again are stale: remove them.
-        if (complete) for (const f of ours) if (!written.has(f) && now.includes(f) && opts.overwrite && !opts.continuePrevious) rmSync(join(abs, f), { force: true });
+        if (complete) {
+          for (const f of ours) {
+            if (written.has(f) || !now.includes(f) || !opts.overwrite || opts.continuePrevious) continue;
+            rmSync(join(abs, f), { force: true });
+            // A subfolder that held only stale files of ours (a report's figures/) goes with them.
+            for (let d = dirname(join(abs, f)); d !== abs && d.startsWith(abs + sep) && readdirSync(d).length === 0; d = dirname(d)) rmdirSync(d);
+          }
+        }
         mark(complete, listFiles(abs).filter((f) => f !== OUTPUT_LOCK && f !== OUTPUT_MARKER && !foreign.has(f)));
       });
       lock.release();

@@ -1,4 +1,11 @@
-/** Run directory → report files in one call (used by `demo` and by `train`/`invert --report`). */
+/**
+ * Run directory → report files in one call. `writeRunReport` is the `report` command's work:
+ * it claims the report folder like every command's --out (io/output-directory.ts: a new or
+ * empty folder, or a previous report with --overwrite; marker, lock, only its own files
+ * replaced), renders, then writes. `reportRunDirectory` writes a report inside a run's own
+ * output, which that run has already claimed (`demo`, `train`/`invert --report`).
+ */
+import { claimOutputDirectory } from '../io/output-directory.js';
 import { buildReport } from './build-report.js';
 import { loadRun } from './load-run.js';
 import { renderReport, writeReportFiles } from './write-report.js';
@@ -7,4 +14,37 @@ import type { ReportFormat } from './write-report.js';
 export function reportRunDirectory(runDir: string, outDir: string, formats: readonly ReportFormat[] = ['pdf', 'png'], dpi = 150): string[] {
   const run = loadRun(runDir);
   return writeReportFiles(outDir, renderReport(buildReport(run.input), formats, dpi));
+}
+
+export interface RunReportOptions {
+  formats: readonly ReportFormat[];
+  dpi: number;
+  rgNm?: number;
+  /** Replace a previous report in outDir (only the files mesofield wrote there). */
+  overwrite?: boolean;
+  /** outDir is the default RUN_DIR/report (a report written by the run itself may be replaced). */
+  insideRun?: boolean;
+  /** How the user named outDir in messages (default "--out"). */
+  flag?: string;
+}
+
+export interface RunReport {
+  written: string[];
+  read: string[];
+  notes: string[];
+}
+
+/** The `report` command: read the run, claim `outDir`, render and write; nothing is written on a failure. */
+export function writeRunReport(runDir: string, outDir: string, opts: RunReportOptions): RunReport {
+  const run = loadRun(runDir, { rgNm: opts.rgNm });
+  const out = claimOutputDirectory(outDir, 'report', { overwrite: opts.overwrite, flag: opts.flag, nestedInRun: opts.insideRun });
+  try {
+    const rendered = renderReport(buildReport(run.input), opts.formats, opts.dpi);
+    const written = out.write(rendered.files);
+    out.finish();
+    return { written, read: run.read, notes: run.notes };
+  } catch (e) {
+    out.abandon();
+    throw e;
+  }
 }

@@ -61,6 +61,26 @@ function nearest(space: ParameterSpace, anchors: ReferencePoint[], p: ParameterP
   return anchors.reduce((best, a) => (d(a) < d(best) ? a : best));
 }
 
+/**
+ * The reference solves one by one, with a stop (SIGINT/SIGTERM) answered between them: each
+ * solve is synchronous (seconds), and a loop that never yields could not be interrupted.
+ */
+async function solvesBetweenStops<T>(points: ParameterPoint[], solve: (p: ParameterPoint) => T): Promise<T[]> {
+  const out: T[] = [];
+  for (const [i, p] of points.entries()) {
+    await yieldToEvents();
+    if (stopRequested()) throw new RunStopped(`surrogate training stopped by a signal after ${i} of ${points.length} reference solves of a stage; nothing was saved (a surrogate run is not resumable: run it again)`);
+    out.push(solve(p));
+  }
+  return out;
+}
+
+async function timedAsync<T>(f: () => Promise<T>): Promise<[T, number]> {
+  const t0 = performance.now();
+  const r = await f();
+  return [r, (performance.now() - t0) / 1000];
+}
+
 /** Train a surrogate; the caller disposes result.model. */
 export async function surrogateRun(opts: SurrogateRunOptions): Promise<SurrogateRunResult> {
   const { config } = opts;
@@ -75,8 +95,8 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
   const solved = (role: string, seconds: number) => opts.onSolve?.(++solvesDone, totalSolves, role, seconds);
   stage(`reference solves at ${anchorPoints.length} anchors (equilibrium period)`);
   const anchorTimes: number[] = [];
-  const [anchors, anchorSeconds] = timed(() =>
-    anchorPoints.map((p) => {
+  const [anchors, anchorSeconds] = await timedAsync(() =>
+    solvesBetweenStops(anchorPoints, (p) => {
       const [solution, s] = timed(() => solveReference(space, config, p, { role: 'anchor' }));
       anchorTimes.push(s);
       solved('anchor', s);
@@ -86,8 +106,8 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
   const periodModel: PeriodModel = { axes: space.axes.map((a) => ParameterSpace.axisValues(a)), periods: anchors.map((a) => a.solution.period) };
 
   stage(`reference solves at ${heldPoints.length} held-out points (equilibrium period)`);
-  const [heldOut, heldOutSeconds] = timed(() =>
-    heldPoints.map((p) => {
+  const [heldOut, heldOutSeconds] = await timedAsync(() =>
+    solvesBetweenStops(heldPoints, (p) => {
       const [solution, s] = timed(() => solveReference(space, config, p, { role: 'held-out point' }));
       anchorTimes.push(s);
       solved('held-out point', s);
@@ -105,9 +125,9 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     if (ws.extraSolves > 0) {
       stage(`${ws.extraSolves} extra reference solves (fit data) at random points, period from the anchors`);
       const rng = new Xorshift128(childSeed(config.training.seed, 0x51));
-      [extra, extraSeconds] = timed(() =>
-        Array.from({ length: ws.extraSolves }, () => {
-          const p = space.draw(rng);
+      const extraPoints = Array.from({ length: ws.extraSolves }, () => space.draw(rng));
+      [extra, extraSeconds] = await timedAsync(() =>
+        solvesBetweenStops(extraPoints, (p) => {
           const [solution, s] = timed(() => solveReference(space, config, p, { period: model.period(p), initial: nearest(space, anchors, p).solution.w, role: 'extra fit point' }));
           solved('extra fit point', s);
           return { point: p, solution };
@@ -121,7 +141,7 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     const evaluate = () => Math.max(...heldOutErrors(space, model.solutions(heldPoints), heldOut, anchors).map((e) => e.phiA.relativeL2));
     const trainer = new SurrogateTrainer(tf, model, config);
     stage(`fitting the field network to ${anchors.length + extra.length} reference solutions (${handle.backend} backend, tfjs ${handle.tfjsVersion})`);
-    const fit = trainer.fit([...anchors, ...extra]);
+    const fit = await trainer.fit([...anchors, ...extra]);
     const tr = config.training;
     const fitEntry = { round: 0, residual: null, fitLoss: fit.finalLoss, seconds: elapsed(), ...(tr.evaluateEvery > 0 ? { phiError: evaluate() } : {}) };
     history.push(fitEntry);
@@ -132,7 +152,7 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
       // A signal lands between rounds (each is synchronous); a surrogate run is short and not resumable.
       await yieldToEvents();
       if (stopRequested()) throw new RunStopped(`surrogate training stopped by a signal after round ${k - 1} of ${tr.rounds}; nothing was saved (a surrogate run is not resumable: run it again)`);
-      const r = trainer.round(k, anchorPoints);
+      const r = await trainer.round(k, anchorPoints);
       lastResidual = r.residual;
       const evaluateNow = (tr.evaluateEvery > 0 && k % tr.evaluateEvery === 0) || k === tr.rounds;
       const entry = { round: k, residual: r.residual, fitLoss: r.fitLoss, seconds: elapsed(), ...(evaluateNow ? { phiError: evaluate() } : {}) };

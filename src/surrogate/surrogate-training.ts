@@ -17,7 +17,8 @@ import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { ScftSolution } from '../physics/result.js';
 import { mixedFieldUpdate } from '../physics/scft-equations.js';
-import { lbfgs } from '../numerics/lbfgs.js';
+import { lbfgsYielding } from '../numerics/lbfgs.js';
+import { RunStopped, stopRequested, yieldToEvents } from '../runtime/stop.js';
 import { Adam } from '../autodiff/adam.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
@@ -32,27 +33,39 @@ export interface ReferencePoint {
   solution: ScftSolution;
 }
 
+/**
+ * A surrogate run is short and not resumable: a stop (SIGINT/SIGTERM, runtime/stop.ts) inside a
+ * fit ends it at once with nothing saved. Each Adam step and L-BFGS iteration yields to the
+ * event loop first, so the signal handler gets to run at all.
+ */
+const STOPPED = 'surrogate training stopped by a signal while fitting the field network; nothing was saved (a surrogate run is not resumable: run it again)';
+
 /** Adam steps on a loss of kept inputs; the loss of the last step. */
-function adamSteps(tf: Tf, params: ParameterSet, steps: number, learningRate: number, loss: () => TfModule.Scalar, onStep?: (step: number, value: number) => void): number {
+async function adamSteps(tf: Tf, params: ParameterSet, steps: number, learningRate: number, loss: () => TfModule.Scalar, onStep?: (step: number, value: number) => void): Promise<number> {
   const adam = new Adam(tf, params);
   const vars = params.variables();
   let last = Number.NaN;
-  for (let step = 1; step <= steps; step++) {
-    last = tf.tidy(() => {
-      const { value, grads } = tf.variableGrads(loss, vars);
-      adam.apply(grads, learningRate);
-      return value.dataSync()[0];
-    });
-    onStep?.(step, last);
+  try {
+    for (let step = 1; step <= steps; step++) {
+      await yieldToEvents();
+      if (stopRequested()) throw new RunStopped(STOPPED);
+      last = tf.tidy(() => {
+        const { value, grads } = tf.variableGrads(loss, vars);
+        adam.apply(grads, learningRate);
+        return value.dataSync()[0];
+      });
+      onStep?.(step, last);
+    }
+  } finally {
+    adam.dispose();
   }
-  adam.dispose();
   return last;
 }
 
 /** L-BFGS iterations (float64 over the flattened float32 parameters) on a loss of kept inputs; the final loss. */
-function lbfgsSteps(tf: Tf, params: ParameterSet, iterations: number, loss: () => TfModule.Scalar, onIteration?: (it: number, value: number) => void): number {
+async function lbfgsSteps(tf: Tf, params: ParameterSet, iterations: number, loss: () => TfModule.Scalar, onIteration?: (it: number, value: number) => void): Promise<number> {
   const vars = params.variables();
-  const r = lbfgs(
+  const r = await lbfgsYielding(
     (x) => {
       params.unflatten(x);
       let out!: { f: number; g: Float64Array };
@@ -64,7 +77,10 @@ function lbfgsSteps(tf: Tf, params: ParameterSet, iterations: number, loss: () =
     },
     params.flatten(),
     { maxIterations: iterations, history: 20, gradientTolerance: 1e-10, onIteration: (it) => onIteration?.(it.iteration, it.f) },
+    yieldToEvents,
+    stopRequested,
   );
+  if (r.reason === 'interrupted') throw new RunStopped(STOPPED);
   params.unflatten(r.x);
   return r.f;
 }
@@ -83,7 +99,7 @@ export class SurrogateTrainer {
   ) {}
 
   /** Least squares of the network's n = w/χN to target fields at points (each on its own t_j = j/nx grid). */
-  private fitFields(targets: { point: ParameterPoint; w: SpeciesArrays }[], adam: { steps: number; learningRate: number }, lbfgsIterations: number, onStep?: (step: number, loss: number) => void): number {
+  private async fitFields(targets: { point: ParameterPoint; w: SpeciesArrays }[], adam: { steps: number; learningRate: number }, lbfgsIterations: number, onStep?: (step: number, loss: number) => void): Promise<number> {
     const tf = this.tf;
     const field = this.model.field;
     const features = field.features(targets.map((d) => this.model.group(d.point, fractionalGrid(d.w.A.length))));
@@ -92,18 +108,21 @@ export class SurrogateTrainer {
       [features.v.shape[0], 2],
     );
     const loss = () => tf.mean(tf.square(tf.sub(field.forward(features), values))) as TfModule.Scalar;
-    let last = adamSteps(tf, field.parameters, adam.steps, adam.learningRate, loss, onStep);
-    if (lbfgsIterations > 0) last = lbfgsSteps(tf, field.parameters, lbfgsIterations, loss, (it, f) => onStep?.(adam.steps + it, f));
-    features.dispose();
-    values.dispose();
-    return last;
+    try {
+      let last = await adamSteps(tf, field.parameters, adam.steps, adam.learningRate, loss, onStep);
+      if (lbfgsIterations > 0) last = await lbfgsSteps(tf, field.parameters, lbfgsIterations, loss, (it, f) => onStep?.(adam.steps + it, f));
+      return last;
+    } finally {
+      features.dispose();
+      values.dispose();
+    }
   }
 
   /** Warm start: fit to the reference fields of `data`. */
-  fit(data: ReferencePoint[], onStep?: (step: number, loss: number) => void): { adamSteps: number; lbfgsIterations: number; points: number; finalLoss: number; seconds: number } {
+  async fit(data: ReferencePoint[], onStep?: (step: number, loss: number) => void): Promise<{ adamSteps: number; lbfgsIterations: number; points: number; finalLoss: number; seconds: number }> {
     const t0 = performance.now();
     const ws = this.config.warmStart;
-    const finalLoss = this.fitFields(
+    const finalLoss = await this.fitFields(
       data.map((d) => ({ point: d.point, w: d.solution.w })),
       { steps: ws.adamSteps, learningRate: ws.learningRate },
       ws.lbfgsIterations,
@@ -113,7 +132,7 @@ export class SurrogateTrainer {
   }
 
   /** Physics round number `index` (seeded by it) at the anchors and freshly drawn points. */
-  round(index: number, anchors: ParameterPoint[]): RoundResult {
+  async round(index: number, anchors: ParameterPoint[]): Promise<RoundResult> {
     const tr = this.config.training;
     const rng = new Xorshift128(childSeed(tr.seed, index));
     const points = [...anchors, ...Array.from({ length: tr.pointsPerRound }, () => this.model.space.draw(rng))];
@@ -123,7 +142,7 @@ export class SurrogateTrainer {
       residual = Math.max(residual, u.residual);
       return { point: points[k], w: u.w };
     });
-    const fitLoss = this.fitFields(targets, { steps: 0, learningRate: 0 }, tr.fitIterations);
+    const fitLoss = await this.fitFields(targets, { steps: 0, learningRate: 0 }, tr.fitIterations);
     return { residual, fitLoss };
   }
 }

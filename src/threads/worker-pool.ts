@@ -23,7 +23,7 @@ export interface WorkerPoolOptions<Task, Result, Progress> {
   /** Progress a task reports (serveTasks' progress callback). */
   onProgress?: (progress: Progress, index: number) => void;
   /** The error a task's failure (or its worker's exit) becomes (default: an Error with the worker's name and message). */
-  toError?: (error: { name: string; message: string }, task: Task, index: number) => Error;
+  toError?: (error: { name: string; message: string; stack?: string }, task: Task, index: number) => Error;
   /** Stop: terminate the workers and reject with PoolStopped. */
   signal?: AbortSignal;
 }
@@ -47,6 +47,15 @@ function entryUrl(entry: string | URL): URL {
 }
 
 const defaultError = (e: { name: string; message: string }): Error => Object.assign(new Error(e.message), { name: e.name });
+
+/**
+ * The worker's stack, kept under the error the pool raises (the thread's own frames would
+ * otherwise be lost at the structured clone): what an internal error's crash file and --debug print.
+ */
+function withWorkerStack(e: Error, workerStack: string | undefined): Error {
+  if (workerStack) e.stack = `${e.stack ?? `${e.name}: ${e.message}`}\n— raised in a worker thread:\n${workerStack}`;
+  return e;
+}
 
 /** Run `tasks` on worker threads; the results in submission order. */
 export async function runInWorkers<Task, Result, Progress = never>(tasks: Task[], options: WorkerPoolOptions<Task, Result, Progress>): Promise<Result[]> {
@@ -82,7 +91,7 @@ export async function runInWorkers<Task, Result, Progress = never>(tasks: Task[]
         w.on('message', (m: WorkerReply<Result, Progress>) => {
           if (failed) return;
           if ('progress' in m) return void options.onProgress?.(m.progress, m.index);
-          if ('error' in m) return fail(toError(m.error, tasks[m.index], m.index));
+          if ('error' in m) return fail(withWorkerStack(toError(m.error, tasks[m.index], m.index), m.error.stack));
           results[m.index] = m.result;
           current.index = null;
           finished++;

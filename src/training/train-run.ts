@@ -284,16 +284,31 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     const cycles = tr.strategy === 'alternating' && nets.field ? tr.lbfgsCycles : 1;
     let r = { iterations: 0, f: Number.NaN, reason: 'none' };
     let iterations = 0;
+    // A stop inside the polish saves the state the polish started from, not the half-polished
+    // networks: L-BFGS carries its memory (the last 20 steps), the cycle's field step and the
+    // iteration budget across iterations, and none of that is in a checkpoint. Saved half-way,
+    // a resume restarted a fresh, full-budget L-BFGS from the half-polished point and ended
+    // elsewhere than the uninterrupted run. From the polish's start it repeats the same
+    // iterations and ends where the uninterrupted run ends (the polished iterations are redone).
+    const polishStart = { x: nets.parameters.flatten(), history: loop.state.history.length };
+    const stopInPolish = async (c: number) => {
+      nets.parameters.unflatten(polishStart.x);
+      loop.state.history.length = polishStart.history;
+      await save(loop.state, 'adam');
+      problem.dispose();
+      adam.dispose();
+      nets.dispose();
+      return new TrainingStopped(
+        'interrupted',
+        `interrupted in the L-BFGS polish after ${iterations} iterations (cycle ${c + 1} of ${cycles}); checkpoint saved at step ${loop.state.step}, where the polish started: a resume repeats the polish from there`,
+        opts.outDir,
+        opts.outDir ? loop.state.step : null,
+      );
+    };
     for (let c = 0; c < cycles; c++) {
       // A stop asked before this cycle starts (during the field step or the evaluation of the last one).
       await yieldToEvents();
-      if (opts.shouldStop?.()) {
-        await save(loop.state, 'adam');
-        problem.dispose();
-        adam.dispose();
-        nets.dispose();
-        throw new TrainingStopped('interrupted', `interrupted in the L-BFGS polish after ${iterations} iterations (cycle ${c + 1} of ${cycles}); checkpoint saved at step ${loop.state.step}`, opts.outDir, opts.outDir ? loop.state.step : null);
-      }
+      if (opts.shouldStop?.()) throw await stopInPolish(c);
       const before = iterations;
       // Every L-BFGS iteration in the history (loss only); the cycle's end entry below adds the φA error.
       const onIteration = (it: number, f: number) => {
@@ -302,14 +317,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       };
       r = await polishCycle(tf, problem, nets.parameters, weights, Math.ceil(tr.lbfgsIterations / cycles), cycles > 1 ? () => fieldUpdater.update() : undefined, onIteration, opts.shouldStop);
       iterations += r.iterations;
-      if (r.reason === 'interrupted') {
-        // A stop asked inside a cycle lands after the current L-BFGS iteration: saved as a stop between cycles is.
-        await save(loop.state, 'adam');
-        problem.dispose();
-        adam.dispose();
-        nets.dispose();
-        throw new TrainingStopped('interrupted', `interrupted in the L-BFGS polish after ${iterations} iterations (cycle ${c + 1} of ${cycles}); checkpoint saved at step ${loop.state.step}`, opts.outDir, opts.outDir ? loop.state.step : null);
-      }
+      // A stop asked inside a cycle lands after the current L-BFGS iteration: saved as a stop between cycles is.
+      if (r.reason === 'interrupted') throw await stopInPolish(c);
       // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.
       const phiError = tr.evaluateEvery > 0 ? evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2 : undefined;
       loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });

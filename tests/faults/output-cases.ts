@@ -195,5 +195,75 @@ export const OUTPUT_CASES: FaultCase[] = [
     message: /missing\.json: cannot read the file \(ENOENT\)/,
     check: (_r, s) => expect(existsSync(s.path('new'))).toBe(false),
   },
+  // report: its folder is claimed like every command's --out (it was written over whatever was there).
+  refused(
+    'report --out a folder with other files',
+    async (s) => {
+      await previous(s, SOLVE, 'run');
+      notes(s);
+    },
+    (s) => ['report', s.path('run'), '--format', 'pdf', '--out', s.path('D'), '--quiet'],
+    /--out .*D: is not empty and was not written by mesofield \(it holds notes\.txt, sub\)/,
+  ),
+  refused(
+    'report --out the run folder itself (a solve output, another command\'s)',
+    (s) => previous(s, SOLVE, 'run'),
+    (s) => ['report', s.path('run'), '--format', 'pdf', '--out', s.path('run'), '--quiet'],
+    /--out .*run: holds the output of mesofield solve; allowed: a new or empty directory, or a previous report output/,
+  ),
+  refused(
+    'report --out an existing file',
+    async (s) => {
+      await previous(s, SOLVE, 'run');
+      s.write('F', 'precious\n');
+    },
+    (s) => ['report', s.path('run'), '--format', 'pdf', '--out', s.path('F'), '--quiet'],
+    /--out .*F: is a file, not a directory/,
+  ),
+  refused(
+    'report into RUN/report a second time without --overwrite',
+    async (s) => {
+      await previous(s, SOLVE, 'run');
+      expect((await runCli(['report', s.path('run'), '--format', 'pdf', '--quiet'], { capture: true })).code).toBe(0);
+    },
+    (s) => ['report', s.path('run'), '--format', 'pdf', '--quiet'],
+    /the report folder .*run\/report: holds a previous report output; give --overwrite/,
+  ),
+  {
+    group: 'output paths',
+    name: 'report --overwrite replaces its own files and keeps a file mesofield did not write',
+    setup: async (s) => {
+      await previous(s, SOLVE, 'run');
+      expect((await runCli(['report', s.path('run'), '--out', s.path('R'), '--quiet'], { capture: true })).code).toBe(0);
+      s.write('R/notes.txt', 'mine\n');
+    },
+    argv: (s) => ['report', s.path('run'), '--format', 'pdf', '--out', s.path('R'), '--overwrite', '--quiet'],
+    code: 0,
+    mayChange: ['R/report.pdf', 'R/figures', 'R/.mesofield-output.json'],
+    check: (_r, s) => {
+      expect(readFileSync(s.path('R/notes.txt'), 'utf8')).toBe('mine\n');
+      expect(JSON.parse(readFileSync(s.path('R/.mesofield-output.json'), 'utf8'))).toMatchObject({ command: 'report', complete: true, files: ['report.pdf'] });
+      // The PNGs of the replaced report (pdf,png) are its own and stale: removed.
+      expect(existsSync(s.path('R/figures'))).toBe(false);
+    },
+  },
+  {
+    group: 'output paths',
+    name: 'report --overwrite into RUN/report written by the run itself (listed in the run\'s marker, none of its own)',
+    setup: async (s) => {
+      await previous(s, SOLVE, 'run');
+      // As `train --report` leaves it: the report files are the run's, in its marker.
+      s.mkdir('run/report');
+      s.write('run/report/report.pdf', 'an older report\n');
+      const m = JSON.parse(readFileSync(s.path('run/.mesofield-output.json'), 'utf8'));
+      s.json('run/.mesofield-output.json', { ...m, files: [...m.files, 'report/report.pdf'] });
+    },
+    argv: (s) => ['report', s.path('run'), '--format', 'pdf', '--overwrite', '--quiet'],
+    code: 0,
+    mayChange: ['run/report'],
+    check: (_r, s) => {
+      expect(readFileSync(s.path('run/report/report.pdf')).subarray(0, 5).toString()).toBe('%PDF-');
+      expect(JSON.parse(readFileSync(s.path('run/report/.mesofield-output.json'), 'utf8'))).toMatchObject({ command: 'report', complete: true });
+    },
+  },
 ];
-

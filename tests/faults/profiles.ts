@@ -110,5 +110,26 @@ const nmTrap: FaultCase = {
   message: /nm\.csv: x is read in Rg \(no unit given\), but the data's period is .* The units of x look wrong: if x is in nm, give --rg-nm R/,
 };
 
+/**
+ * A valid 100 000-row profile is fitted in seconds (it took minutes when every trial offset
+ * summed over every point): the answer is synth's own χN (noise-free data on the same grid).
+ */
+const longProfile: FaultCase = {
+  group: 'profile CSVs',
+  name: 'a valid 100 000-row profile: fitted, χN back to the truth',
+  setup: async (s) => {
+    const r = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '100000', '--periods', '3', '--nx', '16', '--ns', '20', '--out', s.path('synth')], { capture: true });
+    expect(r.code).toBe(0);
+  },
+  argv: (s) => ['invert', s.path('synth/profile.csv'), '--f', '0.5', '--nx', '16', '--ns', '20', '--json', '--quiet'],
+  code: 0,
+  check: (r) => {
+    const out = JSON.parse(r.stdout);
+    expect(out.input.n).toBe(100000);
+    expect(Math.abs(out.estimators.classical.chiN - 15)).toBeLessThan(1e-3);
+  },
+};
+
 export const CSV_ANSWER_CASES: FaultCase[] = [
+  longProfile,
   nmTrap,sameAnswer('byte-order mark', (t) => `\uFEFF${t}`), sameAnswer('Windows line endings', (t) => t.replace(/\n/g, '\r\n'))];

@@ -140,6 +140,32 @@ describe('resume fidelity', () => {
   });
 });
 
+describe('resume fidelity after a stop in the L-BFGS polish', () => {
+  it('a run stopped at L-BFGS iteration 6 by the stop flag and resumed ends where the uninterrupted run ends', async () => {
+    counts.tried++;
+    const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 30, lbfgsIterations: 16, lbfgsCycles: 1 } });
+    const whole = await trainRun({ config: base, backend: 'wasm' });
+    const dir = join(tmp(), 'run');
+    resetStop();
+    const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onLbfgs: (it) => it >= 6 && !stopRequested() && requestStop('SIGTERM') }).catch((e) => e);
+    resetStop();
+    expect(stopped).toBeInstanceOf(TrainingStopped);
+    expect(String(stopped.message)).toMatch(/interrupted in the L-BFGS polish after \d+ iterations .*a resume repeats the polish from there/);
+    expect(checkpointStep(dir)).toBe(30);
+    const resumed = await trainRun({ config: base, resumeDir: dir, outDir: dir, backend: 'wasm' });
+    // The polish's loss curve, iteration by iteration, to float32 rounding.
+    const polish = (h: typeof whole.history) => h.filter((e) => e.stage === 'lbfgs').map((e) => e.total);
+    const a = polish(whole.history);
+    const b = polish(resumed.history);
+    expect(b.length).toBe(a.length);
+    for (let i = 0; i < a.length; i++) expect(Math.abs(b[i] / a[i] - 1)).toBeLessThan(1e-6);
+    const rel = (x: number, y: number) => Math.abs(x / y - 1);
+    expect(rel(resumed.metrics.errors.phiA.relativeL2, whole.metrics.errors.phiA.relativeL2)).toBeLessThan(1e-6);
+    expect(rel(resumed.metrics.errors.freeEnergyError, whole.metrics.errors.freeEnergyError)).toBeLessThan(1e-6);
+    counts['correct answer']++;
+  });
+});
+
 afterAll(() => {
   // Every case here ends in a stop or a refusal it expects (clear) or in a checked answer (correct); a failure fails the test.
   writeTally('signals', { 'signals and resume': { tried: counts.tried, 'clear error': counts['clear error or stop'], 'correct answer': counts['correct answer'], wrong: counts.tried - counts['clear error or stop'] - counts['correct answer'] } });

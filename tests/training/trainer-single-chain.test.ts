@@ -58,7 +58,7 @@ describe('mesofield train / evaluate CLI', () => {
     const r = runCli(['train', p, '--out', out, '--json', '--report'], { timeoutMs: 120_000 });
     expect(r.code).toBe(0);
     expect(existsSync(join(out, 'report', 'report.pdf'))).toBe(true);
-    expect(r.stderr).toMatch(/step 30\/30 \| loss .* steps\/s \| .* left/);
+    expect(r.stderr).toMatch(/Adam 30\/30 steps \| loss .* steps\/s \| .* left/);
     const m = JSON.parse(r.stdout);
     expect(m.backend).toBe('wasm');
     const ev = runCli(['evaluate', out, '--json', '--backend', 'wasm'], { timeoutMs: 120_000 });

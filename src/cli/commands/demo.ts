@@ -13,14 +13,14 @@ import type { OutputDirectory } from '../../io/output-directory.js';
 import { parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
-import { solutionGridCsv, solutionText, solutionToFile, summarize } from '../../io/formats/solution.js';
+import { solutionToFile } from '../../io/formats/solution.js';
+import type { SolutionFile } from '../../io/formats/solution.js';
 import { formatNumber } from '../../io/number-format.js';
 import { formatText } from '../../io/formats/file-format.js';
 import { SYNTH_TRUTH_VERSION, synthTruthSchema } from '../../io/formats/synth-truth.js';
 import { phaseLabel } from '../../physics/lamellar-window.js';
 import { provenance } from '../../io/versions.js';
 import { reportRunDirectory } from '../../reports/report-run-directory.js';
-import { solveFromConfig } from '../../spectral/solve-from-config.js';
 import { estimateClassical } from '../../inverse/classical.js';
 import { classicalBlock, fitCsv, inversionResult, networkBlock, inversionResultText } from '../../inverse/inversion-result.js';
 import { compareWithTruth } from '../../inverse/truth-comparison.js';
@@ -29,6 +29,7 @@ import { synthCsv, synthesize } from '../../inverse/synth.js';
 import { formatDuration, Progress } from '../progress.js';
 import { action } from '../run-command.js';
 import { claimOut, withOutput } from '../run-output.js';
+import { solveOnWorker } from '../solve-on-worker.js';
 import { installStopHandlers, RunStopped, stopRequested, yieldToEvents } from '../../runtime/stop.js';
 
 export const DEMO_SYSTEM = { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } as const;
@@ -52,7 +53,7 @@ export const DEMO_TRAIN_CONFIG = {
   // steps between the LM cycles; measured φA 6.4e-5 with seed 1 (the demo's) but 4.1e-3 with
   // seed 2, where the earlier recipe ended at 8e-4 and Adam + L-BFGS at 2.7e-3.
   networks: { field: { hidden: [], fourierModes: 12 }, propagator: { hidden: [16, 16] } },
-  collocation: { nx: 32, nodesPerBlock: 32, random: 0 },
+  collocation: { nx: 64, nodesPerBlock: 16, random: 0 },
   warmStart: { type: 'reference', adamSteps: 400, learningRate: 0.01 },
   training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: 160, secondOrder: { strategy: 'alternating', cycles: 6, firstCycleIterations: 40, fieldStep: 'anderson', evaluateEvery: 5 } },
 } as const;
@@ -90,17 +91,20 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean },
   const config = parseOrThrow(solveConfigSchema, DEMO_SOLVE_CONFIG, 'demo solve config');
   await between('nothing');
   progress.update('1/3 reference solve with period optimisation', true);
-  const ref = solveFromConfig(config, {
-    onEvaluation: (e) => progress.update(`period search: evaluation ${e.evaluations}, L = ${e.period.toFixed(5)} Rg, F = ${e.freeEnergy.toFixed(8)}`),
-  });
+  // On a worker thread, so a signal ends the solve at once (a period search is synchronous work).
+  const ref = await solveOnWorker(
+    { config, source: 'demo solve config', files: true, json: false },
+    (st) => progress.update(`period search: evaluation ${st.done}, ${st.detail}`),
+    () => stopped('nothing (it was in the reference solve)'),
+  );
   const refDir = join(flags.out, 'reference');
-  const file = solutionToFile(ref.solution, provenance(), config, { periodTolerance: ref.search?.periodTolerance, periodSearch: ref.search?.trace });
+  const refFiles = ref.files!;
   out.write({
-    'reference/solution.json': solutionText(file),
-    'reference/profile.csv': solutionGridCsv(ref.solution),
+    'reference/solution.json': refFiles['solution.json'],
+    'reference/profile.csv': refFiles['profile.csv'],
   });
   const refReport = report(refDir, join(refDir, 'report'));
-  const s = summarize(ref.solution, { periodTolerance: ref.search?.periodTolerance });
+  const s = (JSON.parse(refFiles['solution.json']) as SolutionFile).summary;
   await between('the reference solve');
 
   progress.update('2/3 training a warm-started network (short budget)', true);

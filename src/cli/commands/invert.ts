@@ -10,6 +10,8 @@ import { inversionResultText, summaryText } from '../../inverse/inversion-result
 import { action, parseDecimal, workersFlag } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
 import { Progress, RunProgress } from '../progress.js';
+import type { InvertPhaseName, InvertRunResult } from '../../inverse/invert-run.js';
+import type { InvertStep, InvertTask } from '../../inverse/invert-worker.js';
 
 interface InvertFlags {
   f?: string;
@@ -160,16 +162,13 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   const progress = new Progress('invert', flags.quiet);
   const { invertRun, invertPhases } = await import('../../inverse/invert-run.js');
   const run = new RunProgress(progress, invertPhases(config));
-  const { result, files } = await invertRun({
-    profilePath,
-    config,
-    sources,
-    configSource: configPath ?? 'flags',
-    workers,
-    files: flags.out !== undefined,
-    onStep: (phase, done, detail, keep) => run.at(phase, done, detail, keep),
-    onEstimator: (t) => progress.done(t),
-  });
+  const onStep = (phase: InvertPhaseName, done: number, detail: string, keep?: boolean) => run.at(phase, done, detail, keep);
+  const onEstimator = (t: string) => progress.done(t);
+  const task: InvertTask = { profilePath, config, sources, configSource: configPath ?? 'flags', workers, files: flags.out !== undefined };
+  // A classical fit runs on a worker thread, so a signal ends it at once (its χN search is
+  // synchronous: on this thread the handler would wait for the whole fit). The network
+  // estimator stops within its own steps and stays here (tfjs and its seed workers).
+  const { result, files } = config.method === 'classical' ? await classicalOnWorker(task, flags.out, onStep, onEstimator) : await invertRun({ ...task, onStep, onEstimator });
   if (flags.out && files) {
     const written = out!.write(files);
     if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
@@ -180,4 +179,29 @@ async function invertCommand(profilePath: string, configPath: string | undefined
     }
   }
   process.stdout.write(flags.json ? inversionResultText(result, 2) : summaryText(result));
+}
+
+/** The classical `invert` on a worker thread (inverse/invert-worker.ts): SIGINT/SIGTERM end it at once, nothing written, 130/143. */
+async function classicalOnWorker(task: InvertTask, outDir: string | undefined, onStep: (phase: InvertPhaseName, done: number, detail: string, keep?: boolean) => void, onEstimator: (t: string) => void): Promise<InvertRunResult> {
+  const { runInWorkers, PoolStopped } = await import('../../threads/worker-pool.js');
+  const { errorFromWorker } = await import('../worker-errors.js');
+  const { installStopHandlers, stopAbortSignal, RunStopped } = await import('../../runtime/stop.js');
+  const kept = outDir ? ` (${outDir} is left as it was)` : '';
+  const uninstall = installStopHandlers('invert', `stopping the fit; nothing will be written${kept}`);
+  try {
+    const [r] = await runInWorkers<InvertTask, InvertRunResult, InvertStep>([task], {
+      entry: 'inverse/invert-worker.js',
+      workerData: null,
+      workers: 1,
+      onProgress: (s) => (s.kind === 'step' ? onStep(s.phase, s.done, s.detail, s.keep) : onEstimator(s.text)),
+      toError: errorFromWorker,
+      signal: stopAbortSignal(),
+    });
+    return r;
+  } catch (e) {
+    if (e instanceof PoolStopped) throw new RunStopped(`invert stopped by a signal during the classical fit; nothing was written${outDir ? ` (${outDir} was left as it was)` : ''}`);
+    throw e;
+  } finally {
+    uninstall();
+  }
 }

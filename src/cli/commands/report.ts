@@ -2,9 +2,7 @@
 import type { Command } from 'commander';
 import { join } from 'node:path';
 import { InputError } from '../../io/errors.js';
-import { buildReport } from '../../reports/build-report.js';
-import { loadRun } from '../../reports/load-run.js';
-import { renderReport, writeReportFiles } from '../../reports/write-report.js';
+import { writeRunReport } from '../../reports/report-run-directory.js';
 import type { ReportFormat } from '../../reports/write-report.js';
 import { action, numberFlag } from '../run-command.js';
 
@@ -13,6 +11,7 @@ interface ReportFlags {
   format: string;
   dpi: string;
   rgNm?: string;
+  overwrite?: boolean;
   quiet?: boolean;
 }
 
@@ -35,6 +34,7 @@ export function registerReport(program: Command): void {
     .option('--format <list>', 'pdf, png or pdf,png', 'pdf,png')
     .option('--dpi <n>', `PNG resolution in dots per inch (${DPI_RANGE[0]}–${DPI_RANGE[1]})`, '150')
     .option('--rg-nm <nm>', 'Rg in nanometres: also print the period in nm')
+    .option('--overwrite', 'replace a previous report in the output folder (only the files mesofield wrote there)')
     .option('--quiet', 'no progress on stderr')
     .action(
       action(async (runDir: string, flags: ReportFlags) => {
@@ -43,13 +43,10 @@ export function registerReport(program: Command): void {
         if (!Number.isInteger(dpi) || dpi < DPI_RANGE[0] || dpi > DPI_RANGE[1]) throw new InputError(`--dpi: got ${flags.dpi}; allowed: a whole number from ${DPI_RANGE[0]} to ${DPI_RANGE[1]}`);
         const rgNm = numberFlag('--rg-nm', flags.rgNm);
         if (rgNm !== undefined && !(rgNm > 0)) throw new InputError(`--rg-nm: got ${flags.rgNm}; allowed: Rg in nm, a number > 0`);
-        const run = loadRun(runDir, { rgNm });
-        const doc = buildReport(run.input);
-        const rendered = renderReport(doc, formats, dpi);
-        const written = writeReportFiles(flags.out ?? join(runDir, 'report'), rendered);
+        const r = writeRunReport(runDir, flags.out ?? join(runDir, 'report'), { formats, dpi, rgNm, overwrite: flags.overwrite, insideRun: flags.out === undefined, flag: flags.out === undefined ? 'the report folder' : '--out' });
         if (!flags.quiet) {
-          for (const n of run.notes) process.stderr.write(`report: note: ${n}\n`);
-          process.stderr.write(`report: read ${run.read.join(', ')}\nreport: wrote ${written.join(', ')}\n`);
+          for (const n of r.notes) process.stderr.write(`report: note: ${n}\n`);
+          process.stderr.write(`report: read ${r.read.join(', ')}\nreport: wrote ${r.written.join(', ')}\n`);
         }
       }),
     );

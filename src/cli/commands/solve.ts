@@ -5,10 +5,11 @@ import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import type { SolveConfig } from '../../io/schemas/solve-config.js';
 import { solutionFileSchema } from '../../io/formats/solution.js';
 import type { OutputDirectory } from '../../io/output-directory.js';
+import { solveOnWorker } from '../solve-on-worker.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { parseScanRange } from '../../spectral/film-scan-run.js';
-import type { SolveRunOutput, SolveStep, SolveTask } from '../../spectral/solve-run.js';
-import { installStopHandlers, RunStopped, stopAbortSignal } from '../../runtime/stop.js';
+import type { SolveRunOutput, SolveTask } from '../../spectral/solve-run.js';
+import { installStopHandlers, RunStopped } from '../../runtime/stop.js';
 import { action, parseDecimal } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
 import { Progress, RunProgress } from '../progress.js';
@@ -107,13 +108,6 @@ export function registerSolve(program: Command): void {
     );
 }
 
-/** Model errors come back from the worker as their name and message; the CLI's exit codes need the classes. */
-function fromWorker(e: { name: string; message: string }): Error {
-  if (e.name === 'InputError') return new InputError(e.message);
-  if (e.name === 'RunFailure') return new RunFailure(e.message);
-  return Object.assign(new Error(e.message), { name: e.name });
-}
-
 /**
  * The solve runs on a worker thread (spectral/solve-worker.ts) so that Ctrl-C or SIGTERM is
  * answered at once: the worker is ended, nothing is written (an output directory is left as
@@ -134,14 +128,10 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
   const task: SolveTask = { config, source: configPath ?? 'flags', initial, thicknessScan, files: flags.out !== undefined, json: Boolean(flags.json) };
   const { solvePhases } = await import('../../spectral/solve-run.js');
   const run = new RunProgress(progress, solvePhases(task));
-  const { runInWorkers, PoolStopped } = await import('../../threads/worker-pool.js');
   const uninstall = installStopHandlers('solve', `stopping the solve; nothing will be written${flags.out ? ` (${flags.out} is left as it was)` : ''}`);
   let r: SolveRunOutput;
   try {
-    [r] = await runInWorkers<SolveTask, SolveRunOutput, SolveStep>([task], { entry: 'spectral/solve-worker.js', workerData: null, workers: 1, onProgress: (s) => run.at(s.phase, s.done, s.detail, s.keep), toError: fromWorker, signal: stopAbortSignal() });
-  } catch (e) {
-    if (e instanceof PoolStopped) throw new RunStopped(`solve stopped by a signal before it finished; nothing was written${flags.out ? ` (${flags.out} was left as it was)` : ''}`);
-    throw e;
+    r = await solveOnWorker(task, (s) => run.at(s.phase, s.done, s.detail, s.keep), () => new RunStopped(`solve stopped by a signal before it finished; nothing was written${flags.out ? ` (${flags.out} was left as it was)` : ''}`));
   } finally {
     uninstall();
   }

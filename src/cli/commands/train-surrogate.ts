@@ -42,7 +42,7 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
   const out = claimOut({ out: outDir, overwrite: flags.overwrite }, SURROGATE_OUTPUT);
   const progress = new Progress('train', flags.quiet);
   const { surrogateRun } = await import('../../surrogate/surrogate-run.js');
-  const uninstall = installStopHandlers('train');
+  const uninstall = installStopHandlers('train', 'stopping after this solve or step; a surrogate run is not resumable and saves nothing');
   return withOutput(out, () => runAndReport(config, outDir, flags, progress, surrogateRun)).finally(uninstall);
 }
 

@@ -1,0 +1,22 @@
+/**
+ * Worker-thread entry of a classical `invert` (inverse/invert-run.ts): runs the one task the
+ * CLI sends and posts its progress steps and its result back. The χN search is synchronous
+ * (each χN evaluation is a solve), so on the main thread a Ctrl-C could not be answered until
+ * the whole fit ended; here the main thread stays free and ends the worker at once.
+ */
+import { serveTasks } from '../threads/task-worker.js';
+import { invertRun } from './invert-run.js';
+import type { InvertPhaseName, InvertRunOptions, InvertRunResult } from './invert-run.js';
+
+/** What crosses the thread boundary: the run's options without its callbacks. */
+export type InvertTask = Omit<InvertRunOptions, 'onStep' | 'onEstimator'>;
+
+export type InvertStep = { kind: 'step'; phase: InvertPhaseName; done: number; detail: string; keep?: boolean } | { kind: 'estimator'; text: string };
+
+serveTasks<InvertTask, InvertRunResult, InvertStep>((task, progress) =>
+  invertRun({
+    ...task,
+    onStep: (phase, done, detail, keep) => progress({ kind: 'step', phase, done, detail, keep }),
+    onEstimator: (text) => progress({ kind: 'estimator', text }),
+  }),
+);
