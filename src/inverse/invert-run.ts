@@ -62,19 +62,24 @@ export interface InvertRunResult {
   files: Record<string, string> | null;
 }
 
-export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult> {
-  const t0 = performance.now();
-  const { config, sources, profilePath } = opts;
-  const step = opts.onStep ?? (() => {});
-  const done = opts.onEstimator ?? (() => {});
-  const units = lengthUnits(config.units ?? {});
+/** The profile CSV, read and checked (InputError naming the file, the line and the column otherwise). */
+export function readProfile(profilePath: string, config: InvertConfig): ReturnType<typeof parseProfileCsv> {
   let text: string;
   try {
     text = readFileSync(profilePath, 'utf8');
   } catch (e) {
     throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
   }
-  const data = parseProfileCsv(text, profilePath, units);
+  return parseProfileCsv(text, profilePath, lengthUnits(config.units ?? {}));
+}
+
+export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult> {
+  const t0 = performance.now();
+  const { config, sources, profilePath } = opts;
+  const step = opts.onStep ?? (() => {});
+  const done = opts.onEstimator ?? (() => {});
+  const units = lengthUnits(config.units ?? {});
+  const data = readProfile(profilePath, config);
   const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
   const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
   let evaluations = 0;
