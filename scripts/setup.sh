@@ -36,4 +36,5 @@ if [ ! -f "$stamp" ] || ! cmp -s package-lock.json "$stamp"; then
 fi
 
 echo "setup: building" >&2
-npx tsc -p tsconfig.json >&2
+# tsc, then zod and commander bundled for start-up (scripts/build.mjs, the same as npm run build).
+node scripts/build.mjs >&2

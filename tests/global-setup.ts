@@ -4,5 +4,6 @@ import { execFileSync } from 'node:child_process';
 
 export default function setup(): void {
   if (process.env.MESOFIELD_SKIP_BUILD === '1') return;
-  execFileSync(process.execPath, ['node_modules/typescript/bin/tsc', '-p', 'tsconfig.json'], { stdio: 'inherit' });
+  // The same build as `npm run build`: tsc, then zod and commander bundled for start-up.
+  execFileSync(process.execPath, ['scripts/build.mjs'], { stdio: 'inherit' });
 }

@@ -3,13 +3,14 @@
  * One part only: `npm run bench -- --step-profile` (per-step timing and kernel breakdown,
  * side by side with PyTorch; independent runs and one run split across worker threads),
  * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
- * estimators), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
+ * estimators, and the network estimator's convergence from a start 10 % low), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
  * line against bare node), `--recipes` (Adam + L-BFGS against the second-order phase on five
  * systems; only when asked, it is long: see recipe-bench.ts), `--propagator-floor` (the
  * propagator networks alone in the reference's field: the floor of the second-order recipe;
- * only when asked, see propagator-floor.ts).
+ * only when asked, see propagator-floor.ts), `--lm-profile` (CPU time of the parts of one
+ * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -29,13 +30,19 @@ if (want('--trainer')) {
   await runTrainerBench();
 }
 if (want('--inverse')) {
-  const { runInverseBench } = await import('./inverse-bench.js');
+  const { runInverseBench, runNetworkConvergenceBench } = await import('./inverse-bench.js');
   await runInverseBench();
+  await runNetworkConvergenceBench();
 }
 // Opt-in only: the propagator networks alone in the reference's field (a few minutes).
 if (parts.includes('--propagator-floor')) {
   const { runPropagatorFloorBench } = await import('./propagator-floor.js');
   await runPropagatorFloorBench();
+}
+// Opt-in only: the parts of one LM iteration (a minute).
+if (parts.includes('--lm-profile')) {
+  const { runLmProfile } = await import('./lm-profile.js');
+  await runLmProfile();
 }
 // Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
 if (parts.includes('--recipes')) {

@@ -5,9 +5,9 @@
  * synth truth sidecar sits beside the profile, and the result with the files of an output
  * directory as text. It writes no file; the caller writes `files`.
  */
-import { readFileSync } from 'node:fs';
 import { synthTruthPath } from '../io/synth-output.js';
 import { InputError, asInputError } from '../io/errors.js';
+import { readInputText } from '../io/fs-errors.js';
 import type { InvertConfig } from '../io/schemas/invert-config.js';
 import { solutionToFile } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
@@ -64,13 +64,7 @@ export interface InvertRunResult {
 
 /** The profile CSV, read and checked (InputError naming the file, the line and the column otherwise). */
 export function readProfile(profilePath: string, config: InvertConfig): ReturnType<typeof parseProfileCsv> {
-  let text: string;
-  try {
-    text = readFileSync(profilePath, 'utf8');
-  } catch (e) {
-    throw new InputError(`${profilePath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-  return parseProfileCsv(text, profilePath, lengthUnits(config.units ?? {}));
+  return parseProfileCsv(readInputText(profilePath), profilePath, lengthUnits(config.units ?? {}));
 }
 
 export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult> {

@@ -1,4 +1,5 @@
-/** The text summaries of `fit-bragg` and `fit-spacing` on stdout, from their result files (numbers by io/number-format.ts). */
+/** The text summaries of `fit-bragg`, `fit-spacing` and `bragg-pattern` on stdout, from their result files (numbers by io/number-format.ts). */
+import type { BraggPatternFile } from '../io/formats/bragg-pattern.js';
 import type { BraggFitFile, SpacingFitFile } from '../io/formats/measurement-fits.js';
 import { formatNumber as fmt } from '../io/number-format.js';
 
@@ -32,5 +33,13 @@ export function spacingFitText(r: SpacingFitFile): string {
     ...r.assumptions.map((a) => `assumes: ${a}`),
     ...r.notes.map((n) => `note: ${n}`),
   ];
+  return `${lines.join('\n')}\n`;
+}
+
+export function braggPatternText(r: BraggPatternFile): string {
+  const period = r.periodNm !== undefined ? `${r.periodNm.toPrecision(6)} nm (${r.period.toPrecision(6)} Rg)` : `${r.period.toPrecision(6)} Rg`;
+  const lines = [`lamella at χN = ${r.chiN}: period D = ${period}${r.lorentz ? ', powder Lorentz factor 1/q² applied' : ''}`];
+  lines.push(`order  q (${r.qUnit})   I_n/I_1`);
+  for (const k of r.peaks) lines.push(`${String(k.order).padStart(5)}  ${k.q.toPrecision(6).padEnd(11)} ${k.relative === null ? 'undefined' : k.relative.toExponential(4)}`);
   return `${lines.join('\n')}\n`;
 }

@@ -24,7 +24,7 @@ import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { Tf } from '../autodiff/tf.js';
 import { buildScftNetworks } from '../network/scft-networks.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
-import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
+import { groupedNormalEquations, shiftedGroups } from '../numerics/grouped-normal-equations.js';
 import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
 import { NetworkInverseProblem } from './network-least-squares.js';
@@ -140,7 +140,7 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
           cost: (xs) => sys.evaluate(embed(xs), false, side).cost,
           linearise: (xs) => {
             const e = sys.evaluate(embed(xs), true, side);
-            const { A, g } = groupedNormalEquations(count, e.groups!.map((gr) => ({ ...gr, columns: gr.columns.map((c) => c - first) })));
+            const { A, g } = groupedNormalEquations(count, shiftedGroups(e.groups!, first));
             return { kind: 'normal', cost: e.cost, A, g };
           },
         },

@@ -8,6 +8,7 @@
  *                the nearest χN already evaluated (or from the data's own periodicity)
  */
 import { bracketMinimum, brentMinimize } from '../numerics/brent-minimize.js';
+import { linearLeastSquares } from '../numerics/dense-solve.js';
 import type { LamellaModel, ModelPoint } from './lamella-model.js';
 import type { FitData } from './offset-fit.js';
 import { fitOffset } from './offset-fit.js';
@@ -127,30 +128,19 @@ export function periodogramPeriod(data: FitData, lo: number, hi: number, points 
   for (let k = 0; k < points; k++) {
     const L = lo * Math.pow(hi / lo, k / (points - 1));
     const w = (2 * Math.PI) / L;
-    // Weighted normal equations for (a, b, c), basis (1, cos, sin): the same sums in the same order as a 3×3 loop.
-    const M = [0, 0, 0, 0, 0, 0, 0, 0, 0];
-    const v = [0, 0, 0];
-    for (let i = 0; i < n; i++) {
-      const b1 = Math.cos(w * data.x[i]);
-      const b2 = Math.sin(w * data.x[i]);
-      cw[i] = b1;
-      sw[i] = b2;
-      const wt = data.weight[i];
-      const y = data.phi[i];
-      v[0] += wt * 1 * y;
-      v[1] += wt * b1 * y;
-      v[2] += wt * b2 * y;
-      M[0] += wt * 1 * 1;
-      M[1] += wt * 1 * b1;
-      M[2] += wt * 1 * b2;
-      M[3] += wt * b1 * 1;
-      M[4] += wt * b1 * b1;
-      M[5] += wt * b1 * b2;
-      M[6] += wt * b2 * 1;
-      M[7] += wt * b2 * b1;
-      M[8] += wt * b2 * b2;
-    }
-    const coef = solve3(M, v);
+    const [coef] = linearLeastSquares(
+      n,
+      3,
+      (i, out) => {
+        cw[i] = Math.cos(w * data.x[i]);
+        sw[i] = Math.sin(w * data.x[i]);
+        out[0] = 1;
+        out[1] = cw[i];
+        out[2] = sw[i];
+      },
+      [data.phi],
+      data.weight,
+    );
     if (!coef) continue;
     let rss = 0;
     for (let i = 0; i < n; i++) {
@@ -163,17 +153,4 @@ export function periodogramPeriod(data: FitData, lo: number, hi: number, points 
     }
   }
   return best;
-}
-
-function solve3(M: number[], v: number[]): number[] | undefined {
-  const det = (m: number[]) => m[0] * (m[4] * m[8] - m[5] * m[7]) - m[1] * (m[3] * m[8] - m[5] * m[6]) + m[2] * (m[3] * m[7] - m[4] * m[6]);
-  const d = det(M);
-  if (!(Math.abs(d) > 1e-300)) return undefined;
-  const out: number[] = [];
-  for (let c = 0; c < 3; c++) {
-    const m = [...M];
-    for (let r = 0; r < 3; r++) m[3 * r + c] = v[r];
-    out.push(det(m) / d);
-  }
-  return out;
 }

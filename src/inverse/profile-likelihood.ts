@@ -9,10 +9,18 @@
  * which is nearly linear in χN where P is nearly quadratic, so each end takes a few
  * evaluations once bracketed; brackets come from points already evaluated, or from a
  * quadratic extrapolation of the nearest one, widened until the level is crossed.
+ * When the caller knows the fit's Jacobian, the first trial is placed by the quadratic
+ * (Gauss–Newton) estimate of the distance to the level, √(level·[(JᵀJ)⁻¹]_kk) (the projected
+ * Δχ² of one parameter with the others refitted: Press et al., Numerical Recipes, 3rd ed.,
+ * §15.6), instead of a step of 10⁻³ of |value| that grows by at most 4× per trial: a
+ * parameter whose profile is flat (a saturated wall affinity) then reaches its level, or its
+ * search bound, in a few trials instead of a dozen. Either way the end is the same root of
+ * s, found by the same Brent search.
  */
 import { InputError } from '../io/errors.js';
 import { bracketMinimum, brentMinimize } from '../numerics/brent-minimize.js';
 import { brentRoot } from '../numerics/brent-root.js';
+import { solveDense } from '../numerics/dense-solve.js';
 
 export interface ProfiledPoint {
   chiN: number;
@@ -95,13 +103,46 @@ export interface IntervalEnd {
 }
 
 /**
+ * The quadratic estimate of the distance from the best fit to where the profiled sum of squares
+ * of parameter k has risen by `threshold`: √(threshold·[(JᵀJ)⁻¹]_kk), with J the Jacobian of the
+ * (σ-weighted) residuals at the best fit, given by columns. Undefined when JᵀJ is singular.
+ */
+export function quadraticWidth(columns: ArrayLike<number>[], k: number, threshold: number): number | undefined {
+  const p = columns.length;
+  const A = Array.from({ length: p }, () => new Float64Array(p));
+  for (let a = 0; a < p; a++)
+    for (let b = a; b < p; b++) {
+      let v = 0;
+      const ca = columns[a];
+      const cb = columns[b];
+      for (let i = 0; i < ca.length; i++) v += ca[i] * cb[i];
+      A[a][b] = v;
+      A[b][a] = v;
+    }
+  const e = new Float64Array(p);
+  e[k] = 1;
+  const c = solveDense(A, e)?.[k];
+  return c !== undefined && c > 0 && Number.isFinite(c) ? Math.sqrt(threshold * c) : undefined;
+}
+
+export interface IntervalEndOptions {
+  /**
+   * Estimated distance from the best point to the level (quadraticWidth): the first trial
+   * goes 10 % beyond it. Without it, the first trial is 10⁻³ of |best value| away (10⁻³ when it is 0).
+   */
+  width?: number;
+}
+
+/**
  * The end of {χN : P − P_min ≤ threshold} on one side of the minimum (side = ±1).
  * `known` are points evaluated so far (any order); `threshold` is in P's units.
  */
-export function intervalEnd(fn: ProfileFn, best: ProfiledPoint, threshold: number, side: 1 | -1, range: [number, number], known: ProfiledPoint[]): IntervalEnd {
+export function intervalEnd(fn: ProfileFn, best: ProfiledPoint, threshold: number, side: 1 | -1, range: [number, number], known: ProfiledPoint[], opts: IntervalEndOptions = {}): IntervalEnd {
   const target = Math.sqrt(threshold);
   const s = (p: ProfiledPoint) => Math.sqrt(Math.max(0, p.value - best.value)) - target;
   const bound = side > 0 ? range[1] : range[0];
+  // 10⁻³ of the value's size: a negative or zero best (a wall affinity) must still step away from it.
+  const firstStep = 1e-3 * (Math.abs(best.chiN) || 1);
   let evaluations = 0;
   const onSide = known.filter((p) => (p.chiN - best.chiN) * side > 0);
   // Inner: the farthest point still inside the level; outer: the nearest point beyond it.
@@ -118,8 +159,10 @@ export function intervalEnd(fn: ProfileFn, best: ProfiledPoint, threshold: numbe
     const di = Math.abs(inner.chiN - best.chiN);
     const rise = inner.value - best.value;
     // Quadratic extrapolation to the level from the inner point, 10 % beyond it; doubled steps when flat.
-    let d = di > 0 && rise > 1e-12 * threshold ? 1.1 * di * Math.sqrt(threshold / rise) : Math.max(1e-3 * best.chiN, 2 * di);
-    d = Math.min(d, Math.max(4 * di, 1e-3 * best.chiN));
+    let d = di > 0 && rise > 1e-12 * threshold ? 1.1 * di * Math.sqrt(threshold / rise) : Math.max(firstStep, 2 * di);
+    d = Math.min(d, Math.max(4 * di, firstStep));
+    // The first trial, given the curvature estimate of the distance: just beyond it.
+    if (di === 0 && opts.width !== undefined && opts.width > 0 && Number.isFinite(opts.width)) d = 1.1 * opts.width;
     let c = best.chiN + side * d;
     if ((c - bound) * side >= 0) c = bound;
     const p = fn(c);

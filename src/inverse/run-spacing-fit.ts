@@ -3,8 +3,7 @@
  * file's value (io/formats/measurement-fits.ts) with the assumptions χ rests on. The CLI and
  * the tests call this one function.
  */
-import { readFileSync } from 'node:fs';
-import { fsInputError } from '../io/fs-errors.js';
+import { readInputText } from '../io/fs-errors.js';
 import { SPACING_FIT_VERSION, spacingFitFileSchema } from '../io/formats/measurement-fits.js';
 import type { SpacingFitFile } from '../io/formats/measurement-fits.js';
 import { buildChain } from '../physics/chain.js';
@@ -17,12 +16,7 @@ import { parseSpacingCsv } from './spacing-csv.js';
 import { fitSpacingSeries } from './spacing-series.js';
 
 export function runSpacingFit(path: string, config: SpacingFitConfig, o: { provenance: Provenance; onEvaluation?: (evaluations: number, chi: number, chi2: number) => void }): SpacingFitFile {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (e) {
-    throw fsInputError(e, path, 'the spacing file');
-  }
+  const text = readInputText(path);
   const data = parseSpacingCsv(text, path);
   const fit = fitSpacingSeries(data, {
     chain: config.system.chain,

@@ -1,10 +1,11 @@
 /**
  * A numeric CSV with a header row naming its columns (case-insensitive), for measured data
  * other than composition profiles (inverse/profile-csv.ts reads those): SLD depth profiles
- * (x, sld[, sigma]) and reflectivity curves (Q, R, dR). Hand-parsed so that every error names
- * the file, the line and the column. Blank lines and lines starting with # are skipped; CRLF
- * line ends and a UTF-8 byte-order mark are accepted. The first required column must
- * increase strictly.
+ * (x, sld[, sigma]), reflectivity curves (Q, R, dR), scattering curves (q with its unit, I,
+ * dI), Bragg peaks (order, q with its unit, I, dI, dq) and domain spacings (N, D_nm, dD_nm).
+ * Hand-parsed so that every error names the file, the line and the column. Blank lines and
+ * lines starting with # are skipped; CRLF line ends and a UTF-8 byte-order mark are accepted.
+ * One column (the first required one unless the caller says otherwise) must increase strictly.
  */
 import { InputError } from './errors.js';
 
@@ -14,12 +15,36 @@ export interface ColumnData {
   source: string;
   /** Columns by their name as the caller asked for it. */
   columns: Record<string, Float64Array>;
+  /** The columns present, in the file's order (names as the caller asked for them). */
+  header: string[];
+  /** File line (1-based) of each data row. */
   lines: number[];
 }
 
-export function parseColumnCsv(text: string, source: string, required: string[], optional: string[] = []): ColumnData {
-  const all = [...required, ...optional];
-  const allowed = `${required.join(', ')}${optional.length ? `, and optionally ${optional.join(', ')}` : ''}`;
+/** A column that can be written under one of several names (q with its unit): exactly one must appear. */
+export interface ColumnChoice {
+  /** What the column is, in messages ("q"). */
+  label: string;
+  names: string[];
+}
+
+export interface ColumnOptions {
+  /** Columns of which exactly one name must appear, besides the required ones. */
+  choices?: ColumnChoice[];
+  /** The column (a name, or a choice's label) that must increase strictly; null for none. Default: the first required column. */
+  increasing?: string | null;
+  /** What to add to the message when the header has this unknown name (lower case). */
+  hints?: Record<string, string>;
+}
+
+/** The q column of scattering data, under the name that gives its unit (nm⁻¹ or Å⁻¹); a bare "q" gets a hint. */
+export const Q_WITH_UNIT: ColumnChoice = { label: 'q', names: ['q_per_nm', 'q_per_A'] };
+export const Q_WITH_UNIT_HINTS = { q: 'name the unit of q in the header: q_per_nm or q_per_A' };
+
+export function parseColumnCsv(text: string, source: string, required: string[], optional: string[] = [], o: ColumnOptions = {}): ColumnData {
+  const choices = o.choices ?? [];
+  const all = [...required, ...choices.flatMap((c) => c.names), ...optional];
+  const allowed = [...choices.map((c) => c.names.join(' or ')), ...required].join(', ') + (optional.length ? `, and optionally ${optional.join(', ')}` : '');
   const rows = text.replace(/^\uFEFF/, '').split(/\r?\n/);
   let header: string[] | undefined;
   let headerLine = 0;
@@ -33,15 +58,24 @@ export function parseColumnCsv(text: string, source: string, required: string[],
     if (!header) {
       headerLine = line;
       header = cells.map((c, i) => {
-        const name = all.find((a) => a.toLowerCase() === c.replace(/^"|"$/g, '').toLowerCase());
-        if (!name) throw new InputError(`${source}: line ${line}, column ${i + 1} (${JSON.stringify(c)}): ${NUMBER.test(c) ? 'the first line must be a header row' : 'unknown column'}; allowed columns: ${allowed}`);
+        const bare = c.replace(/^"|"$/g, '');
+        const name = all.find((a) => a.toLowerCase() === bare.toLowerCase());
+        if (!name) {
+          const hint = NUMBER.test(c) ? 'the first line must be a header row' : `unknown column${o.hints?.[bare.toLowerCase()] ? `; ${o.hints[bare.toLowerCase()]}` : ''}`;
+          throw new InputError(`${source}: line ${line}, column ${i + 1} (${JSON.stringify(c)}): ${hint}; allowed columns: ${allowed}`);
+        }
         return name;
       });
       for (const need of required) if (!header.includes(need)) throw new InputError(`${source}: line ${line}: the header has no ${need} column; allowed columns: ${allowed}`);
+      for (const c of choices) {
+        const present = c.names.filter((n) => header!.includes(n));
+        if (present.length === 0) throw new InputError(`${source}: line ${line}: the header has no ${c.label} column; allowed columns: ${allowed}`);
+        if (present.length > 1) throw new InputError(`${source}: line ${line}: both ${present.join(' and ')} columns; give one ${c.label} column`);
+      }
       if (new Set(header).size !== header.length) throw new InputError(`${source}: line ${line}: a column is named twice in the header`);
       continue;
     }
-    if (cells.length !== header.length) throw new InputError(`${source}: line ${line}: ${cells.length} values, but the header names ${header.length} columns (${header.join(', ')})`);
+    if (cells.length !== header.length) throw new InputError(`${source}: line ${line}: ${cells.length} values, but the header on line ${headerLine} names ${header.length} columns (${header.join(', ')})`);
     const row = cells.map((c, i) => {
       const v = Number(c);
       if (!NUMBER.test(c) || !Number.isFinite(v)) throw new InputError(`${source}: line ${line}, column ${i + 1} (${header![i]}): got ${JSON.stringify(c)}; allowed: a finite number`);
@@ -54,9 +88,27 @@ export function parseColumnCsv(text: string, source: string, required: string[],
   if (values.length === 0) throw new InputError(`${source}: no data rows after the header on line ${headerLine}`);
   const columns: Record<string, Float64Array> = {};
   header.forEach((name, i) => (columns[name] = Float64Array.from(values, (row) => row[i])));
-  const first = columns[required[0]];
-  for (let i = 1; i < first.length; i++) {
-    if (!(first[i] > first[i - 1])) throw new InputError(`${source}: line ${lines[i]}, column ${header.indexOf(required[0]) + 1} (${required[0]}): got ${first[i]} after ${first[i - 1]} on line ${lines[i - 1]}; ${required[0]} must increase strictly (sort the rows)`);
+  const data = { source, columns, header, lines };
+  const wanted = o.increasing === undefined ? required[0] : o.increasing;
+  const inc = wanted === null ? undefined : (choices.find((c) => c.label === wanted)?.names.find((n) => header!.includes(n)) ?? wanted);
+  if (inc !== undefined) {
+    const col = columns[inc];
+    const label = choices.find((c) => c.names.includes(inc))?.label ?? inc;
+    for (let i = 1; i < col.length; i++) {
+      if (!(col[i] > col[i - 1])) throw new InputError(`${cellPlace(data, i, inc)}: got ${col[i]} after ${col[i - 1]} on line ${lines[i - 1]}; ${label} must increase strictly (sort the rows by ${label})`);
+    }
   }
-  return { source, columns, lines };
+  return data;
+}
+
+/** "FILE: line L, column C (NAME)" of a data row's value: the start of a message about it. */
+export function cellPlace(d: ColumnData, row: number, name: string): string {
+  return `${d.source}: line ${d.lines[row]}, column ${d.header.indexOf(name) + 1} (${name})`;
+}
+
+/** Every value of a column must pass `ok`; the first that does not is refused, naming its place and what is allowed. */
+export function requireEach(d: ColumnData, name: string, ok: (v: number) => boolean, allowed: string): void {
+  const col = d.columns[name];
+  if (!col) return;
+  for (let i = 0; i < col.length; i++) if (!ok(col[i])) throw new InputError(`${cellPlace(d, i, name)}: got ${col[i]}; allowed: ${allowed}`);
 }

@@ -2,6 +2,7 @@
  * File-system failures as input errors: a path the tool cannot read or write is a problem of
  * the environment the user gave it (exit 2), said in words with the path, never a stack trace.
  */
+import { readFileSync } from 'node:fs';
 import { InputError } from './errors.js';
 
 const REASONS: Record<string, string> = {
@@ -41,4 +42,18 @@ export function describeFsError(e: NodeJS.ErrnoException, path?: string): string
 export function fsInputError(e: unknown, path?: string, what?: string): unknown {
   if (!isFsError(e)) return e;
   return new InputError(`${what ? `${what}: ` : ''}${describeFsError(e, path)}`);
+}
+
+/**
+ * The text of a file the user named (data or config); one that cannot be read is an
+ * InputError "PATH: cannot read the file (CODE): reason", with the path as the user wrote it
+ * (`shownAs`, when the path read was resolved against a config's folder).
+ */
+export function readInputText(path: string, shownAs = path): string {
+  try {
+    return readFileSync(path, 'utf8');
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new InputError(`${shownAs}: cannot read the file (${code ?? String(e)})${isFsError(e) ? `: ${describeFsError(e, shownAs).replace(/^.*?: /, '').replace(/ \(\w+\)$/, '')}` : ''}`);
+  }
 }

@@ -1,7 +1,6 @@
-import { readFileSync } from 'node:fs';
 import type { z } from 'zod';
 import { InputError, parseOrThrow } from './errors.js';
-import { describeFsError, isFsError } from './fs-errors.js';
+import { readInputText } from './fs-errors.js';
 
 /**
  * Number literals that JSON.parse would silently change: 1e999 becomes Infinity and 1e-400
@@ -35,13 +34,7 @@ function unrepresentableNumber(text: string): string | null {
  * byte-order mark (as some editors write) is skipped, as the CSV reader does.
  */
 export function readJsonFile(path: string): unknown {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new InputError(`${path}: cannot read the file (${code ?? String(e)})${isFsError(e) ? `: ${describeFsError(e, path).replace(/^.*?: /, '').replace(/ \(\w+\)$/, '')}` : ''}`);
-  }
+  let text = readInputText(path);
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   if (text.trim() === '') throw new InputError(`${path}: the file is empty; allowed: a JSON object (see mesofield schema KIND)`);
   let value: unknown;

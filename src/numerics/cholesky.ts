@@ -19,24 +19,110 @@ export interface CholeskyFactor {
   shift: number;
 }
 
-/** L with L Lᵀ = A + shift·I, or null when a pivot is not positive. */
-function factorWithShift(A: Float64Array, n: number, shift: number): Float64Array | null {
-  const L = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) {
+/**
+ * Rows i0..i1−1 of L, each against every earlier row in turn (the plain dot-product form):
+ * the diagonal block of a row block, and the rows left over at the end.
+ */
+function factorRows(A: Float64Array, L: Float64Array, n: number, shift: number, i0: number, i1: number, j0: number): boolean {
+  for (let i = i0; i < i1; i++) {
     const ri = i * n;
-    for (let j = 0; j <= i; j++) {
+    for (let j = j0; j <= i; j++) {
       const rj = j * n;
       let s = A[ri + j] + (i === j ? shift : 0);
       for (let k = 0; k < j; k++) s -= L[ri + k] * L[rj + k];
       if (i === j) {
-        if (!(s > 0)) return null;
+        if (!(s > 0)) return false;
         L[ri + i] = Math.sqrt(s);
       } else {
         L[ri + j] = s / L[rj + j];
       }
     }
   }
-  return L;
+  return true;
+}
+
+/**
+ * L with L Lᵀ = A + shift·I, or null when a pivot is not positive. The same dot-product
+ * form, with the rows taken four at a time against two earlier rows at a time (a register
+ * block: each earlier row is read once per four rows, eight sums kept in registers), which
+ * is about three times faster than one row at a time at n ≈ 800 (measured; the order of the
+ * additions in every sum is unchanged, so the factor is the same to the last bit).
+ */
+function factorWithShift(A: Float64Array, n: number, shift: number): Float64Array | null {
+  const L = new Float64Array(n * n);
+  let i0 = 0;
+  for (; i0 + 3 < n; i0 += 4) {
+    const r0 = i0 * n;
+    const r1 = r0 + n;
+    const r2 = r1 + n;
+    const r3 = r2 + n;
+    let j = 0;
+    for (; j + 1 < i0; j += 2) {
+      const rj = j * n;
+      const rk = rj + n;
+      let s0 = A[r0 + j];
+      let s1 = A[r1 + j];
+      let s2 = A[r2 + j];
+      let s3 = A[r3 + j];
+      let t0 = A[r0 + j + 1];
+      let t1 = A[r1 + j + 1];
+      let t2 = A[r2 + j + 1];
+      let t3 = A[r3 + j + 1];
+      for (let k = 0; k < j; k++) {
+        const l = L[rj + k];
+        const m = L[rk + k];
+        const a0 = L[r0 + k];
+        const a1 = L[r1 + k];
+        const a2 = L[r2 + k];
+        const a3 = L[r3 + k];
+        s0 -= a0 * l;
+        s1 -= a1 * l;
+        s2 -= a2 * l;
+        s3 -= a3 * l;
+        t0 -= a0 * m;
+        t1 -= a1 * m;
+        t2 -= a2 * m;
+        t3 -= a3 * m;
+      }
+      const d = L[rj + j];
+      s0 /= d;
+      s1 /= d;
+      s2 /= d;
+      s3 /= d;
+      L[r0 + j] = s0;
+      L[r1 + j] = s1;
+      L[r2 + j] = s2;
+      L[r3 + j] = s3;
+      const lkj = L[rk + j];
+      const e = L[rk + j + 1];
+      L[r0 + j + 1] = (t0 - s0 * lkj) / e;
+      L[r1 + j + 1] = (t1 - s1 * lkj) / e;
+      L[r2 + j + 1] = (t2 - s2 * lkj) / e;
+      L[r3 + j + 1] = (t3 - s3 * lkj) / e;
+    }
+    for (; j < i0; j++) {
+      const rj = j * n;
+      let s0 = A[r0 + j];
+      let s1 = A[r1 + j];
+      let s2 = A[r2 + j];
+      let s3 = A[r3 + j];
+      for (let k = 0; k < j; k++) {
+        const l = L[rj + k];
+        s0 -= L[r0 + k] * l;
+        s1 -= L[r1 + k] * l;
+        s2 -= L[r2 + k] * l;
+        s3 -= L[r3 + k] * l;
+      }
+      const d = L[rj + j];
+      L[r0 + j] = s0 / d;
+      L[r1 + j] = s1 / d;
+      L[r2 + j] = s2 / d;
+      L[r3 + j] = s3 / d;
+    }
+    // The 4 × 4 diagonal block: its rows depend on each other, one at a time.
+    if (!factorRows(A, L, n, shift, i0, i0 + 4, i0)) return null;
+  }
+  return factorRows(A, L, n, shift, i0, n, 0) ? L : null;
 }
 
 export interface CholeskyOptions {

@@ -20,6 +20,7 @@
  * Units: whatever the caller's r and x carry. F = ½‖r‖² throughout ("cost").
  */
 import { cholesky, choleskySolve } from './cholesky.js';
+import { groupedNormalEquations } from './grouped-normal-equations.js';
 import { runToEnd, runYielding } from './stepwise.js';
 import type { Stepwise } from './stepwise.js';
 
@@ -119,19 +120,12 @@ function transposeTimes(J: Float64Array, m: number, n: number, r: Float64Array):
   return g;
 }
 
-/** Lower triangle of JᵀJ (row-major n·n) from J row-major m·n. */
+/**
+ * Lower triangle of JᵀJ (row-major n·n) from J row-major m·n: the one-group case of
+ * numerics/grouped-normal-equations.ts (its chunked, register-blocked product).
+ */
 export function normalMatrix(J: Float64Array, m: number, n: number): Float64Array {
-  const A = new Float64Array(n * n);
-  for (let i = 0; i < m; i++) {
-    const o = i * n;
-    for (let a = 0; a < n; a++) {
-      const ja = J[o + a];
-      if (ja === 0) continue;
-      const ra = a * n;
-      for (let b = 0; b <= a; b++) A[ra + b] += ja * J[o + b];
-    }
-  }
-  return A;
+  return groupedNormalEquations(n, [{ columns: Int32Array.from({ length: n }, (_, i) => i), J, r: new Float64Array(m) }]).A;
 }
 
 /** The step system at one linearisation, prepared once and solved for several μ. */

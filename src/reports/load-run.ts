@@ -10,17 +10,21 @@
  *  - an inversion result (kind "inversion", readers/inversion-file.ts);
  *  - a sweep table (kind "sweep-table" or "sweep-shard", readers/sweep-file.ts);
  *  - a surrogate checkpoint (checkpoint.json of kind "surrogate-checkpoint"): the error map
- *    and the training rounds (surrogate-input.ts).
+ *    and the training rounds (surrogate-input.ts);
+ *  - a measurement fit: fit-bragg's or fit-spacing's result (io/formats/measurement-fits.ts),
+ *    fit-scattering's (io/formats/scattering-fit.ts).
  * The file formats are read in the readers/ files only. Anything missing or inconsistent is
  * an InputError naming the file and field.
  */
 import { braggFitFileSchema, spacingFitFileSchema } from '../io/formats/measurement-fits.js';
+import { scatteringResultSchema } from '../io/formats/scattering-fit.js';
+import type { ScatteringResultFile } from '../io/formats/scattering-fit.js';
+import { scatteringFitInput } from './scattering-fit-report.js';
 import type { MeasurementFit } from './measurement-fit-input.js';
 import { measurementFitInput } from './measurement-fit-input.js';
 import { readdirSync, statSync } from 'node:fs';
 import { filmFitResultSchema } from '../io/formats/film.js';
 import type { FilmFitResultFile } from '../io/formats/film.js';
-import { z } from 'zod';
 import { join } from 'node:path';
 import { InputError, asInputError, parseOrThrow } from '../io/errors.js';
 import { readJsonFile } from '../io/load-json.js';
@@ -174,6 +178,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   let filmFit: ReportInput['filmFit'];
   let surrogate: ReportInput['surrogate'];
   let measurementFit: MeasurementFit | undefined;
+  let scatteringFit: ScatteringResultFile | undefined;
   for (const name of names) {
     const path = join(dir, name);
     const raw = readJsonFile(path);
@@ -199,6 +204,8 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       measurementFit = { bragg: parseOrThrow(braggFitFileSchema, raw, path) };
     } else if (kind === 'spacing-fit') {
       measurementFit = { spacing: parseOrThrow(spacingFitFileSchema, raw, path) };
+    } else if (kind === 'fit-scattering-result') {
+      scatteringFit = parseOrThrow(scatteringResultSchema, raw, path);
     } else if (kind === 'checkpoint') {
       // A training checkpoint (training/checkpoint.ts), read through its schema: its history is the training page.
       training = trainingRecords(parseOrThrow(checkpointFileSchema, raw, path).history, path);
@@ -222,6 +229,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     }
     read.push(path);
   }
+  if (solutions.length === 0 && scatteringFit) return { input: scatteringFitInput(dir, scatteringFit), read, notes };
   if (solutions.length === 0 && measurementFit) return { input: measurementFitInput(dir, measurementFit), read, notes };
   if (solutions.length === 0 && sweep) return { input: sweepRun(dir, sweep, sweepProvenance!), read, notes };
   if (solutions.length === 0) {
@@ -260,7 +268,8 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     provenance: (network ?? main).provenance,
     ...time,
   };
-  const film = shown.film;
+  // A film train run holds both: the film pages draw the network against the reference.
+  const film = shown.film && reference && network ? { ...shown.film, network: network.solution } : shown.film;
   const input: ReportInput = {
     info,
     profiles: film ? undefined : { reference: shown.solution, network: reference ? network?.solution : undefined, ...(inv?.rgNm !== undefined ? { rgNm: inv.rgNm } : {}) },

@@ -9,6 +9,7 @@ import type { SystemSpec } from '../physics/chain-schema.js';
 import type { ScftSolution } from '../physics/result.js';
 import type { ScatteringReportInput } from './scattering-input.js';
 import type { BraggReportInput } from './bragg-input.js';
+import type { TerracePrediction, ThicknessPoint } from '../spectral/thickness-scan.js';
 import type { BraggFitFile, SpacingFitFile } from '../io/formats/measurement-fits.js';
 
 /** The title block: what was run, with what, when (from the run's provenance) and how long. */
@@ -221,6 +222,28 @@ export interface SweepPointInput {
 export interface SweepInput {
   points: SweepPointInput[];
   chainLabel: string;
+  /** A sweep with a thickness axis: its F(H) curves (then drawn instead of the χN figures). */
+  film?: FilmSweepInput;
+}
+
+/** One F(H) of a film sweep (fixed χN, f, b_A/b_B and walls) with the bulk period D for reference. */
+export interface FilmSweepScanInput extends ThicknessScanInput {
+  /** Each point also with F of the disordered film between the same walls (kT per chain). */
+  points: ThicknessPoint[];
+  chiN: number;
+  f: number;
+  segmentRatio: number;
+  walls: { bottom: number; top: number };
+  terraces?: TerracePrediction;
+  /** Stress-free period of the bulk lamella at the same χN, f, b_A/b_B (Rg); NaN when there is none. */
+  bulkPeriod: number;
+  bulkNote?: string;
+}
+
+export interface FilmSweepInput {
+  scans: FilmSweepScanInput[];
+  /** Grid of the bulk-period solves (points per period × contour steps). */
+  bulkGrid: { nx: number; ns: number };
 }
 
 /** F(H) of a film: a thickness scan (spectral/thickness-scan.ts). */
@@ -245,7 +268,10 @@ export interface ReflectivityInput {
 
 /** A film between walls: the solution's walls, thickness and layers, and F(H) when scanned. */
 export interface FilmInput {
+  /** The reference (spectral) film solution, or the only solution of the run. */
   solution: ScftSolution;
+  /** A network solution of the same film on the same grid (a train or evaluate run): drawn beside the reference. */
+  network?: ScftSolution;
   thickness: number;
   walls: { bottom: number; top: number; range: number };
   layers: { A: number; B: number; sequence: string };

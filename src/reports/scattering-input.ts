@@ -1,10 +1,10 @@
 /**
  * The report input of a disordered-melt scattering fit (fit-scattering's result.json, schema
- * in io/schemas/scattering-result.ts): per file the data with error bars, the model, the
+ * in io/formats/scattering-fit.ts): per file the data with error bars, the model, the
  * normalised residuals and the profile likelihood of χN; for a series, χN(T) with its band
  * and the predicted transition temperatures. q in the files' unit, T in K.
  */
-import type { ScatteringResultFile } from '../io/schemas/scattering-result.js';
+import type { ScatteringResultFile } from '../io/formats/scattering-fit.js';
 
 export interface ScatteringReportInput {
   qLabel: string;

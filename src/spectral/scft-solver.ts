@@ -17,7 +17,7 @@ import { externalFields, zeroFields } from '../physics/fields.js';
 import type { SpeciesArrays } from '../physics/fields.js';
 import type { Phase, ScftSolution } from '../physics/result.js';
 import { fieldDeviation, fieldsFromComposition, fixGauge, mixedFieldUpdate } from '../physics/scft-equations.js';
-import { buildSolution, DISORDER_SPREAD, spreadOf } from '../physics/solution-record.js';
+import { buildSolution, DISORDER_SPREAD } from '../physics/solution-record.js';
 import { inverseStructureFactor, spinodal } from '../physics/rpa.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
 import { spectralSchema } from '../io/schemas/spectral-schema.js';
@@ -272,7 +272,7 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
       }
       if (it === options.maxIterations) {
         notes.push(`not converged after ${it} iterations (residual ${residual.toExponential(3)} > tolerance ${options.tolerance})`);
-        return finish(w, dens, it, residual, false, spreadOf(dens.phi.A) < DISORDER_SPREAD.spectral ? 'disordered' : 'lamellar');
+        return finish(w, dens, it, residual, false);
       }
       let next: SpeciesArrays;
       if (it <= simpleSteps || history === 0) {

@@ -22,7 +22,7 @@ import type { ScftNetworks } from '../network/scft-networks.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
 import type { ResidualPart } from '../network/least-squares/scft-residual-system.js';
-import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
+import { groupedNormalEquations, shiftedGroups } from '../numerics/grouped-normal-equations.js';
 import { levenbergMarquardt, levenbergMarquardtYielding } from '../numerics/levenberg-marquardt.js';
 import { yieldToEvents } from '../runtime/stop.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
@@ -193,8 +193,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
         cost: (xs) => sys.evaluate(embed(xs), false, part).cost,
         linearise: (xs) => {
           const e = sys.evaluate(embed(xs), true, part);
-          const groups = first === 0 ? e.groups! : e.groups!.map((g) => ({ ...g, columns: g.columns.map((c) => c - first) }));
-          const { A, g } = groupedNormalEquations(count, groups);
+          const { A, g } = groupedNormalEquations(count, shiftedGroups(e.groups!, first));
           return { kind: 'normal', cost: e.cost, A, g };
         },
       },

@@ -3,7 +3,7 @@
  * process through runCli, and the summary prints, per group, how many were tried, how many
  * ended in a clear error (the expected exit code and message, no stack trace, no file touched)
  * and how many in a correct answer (exit 0, checked against an identity, a handbook formula
- * or an independent run). Signals are in signals.test.ts (they need real processes).
+ * or an independent run). Signals are in signals.test.ts and signals-solve-demo.test.ts (they need real processes).
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { CONFIG_CASES } from './config-cases.js';

@@ -5,12 +5,11 @@
  * - train: SIGINT → exit 130, SIGTERM → exit 143, each after saving a checkpoint it names;
  *   SIGKILL → no handler runs, the last periodic checkpoint stays and --resume finishes it.
  * - sweep: SIGINT → exit 130 with the solved points saved; the same command again resumes.
- * - solve: SIGINT/SIGTERM mid-search → 130/143 at once, nothing written, a previous output untouched.
- * - demo: SIGINT mid-training → 130, the finished parts kept and marked incomplete.
  * - resume: a run stopped at step k by requestStop (the signal's own code path) and resumed
  *   reproduces the uninterrupted run's loss curve and final metrics.
+ *
+ * solve and demo are in signals-solve-demo.test.ts, a file of its own that the runner runs beside this one.
  */
-import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -18,7 +17,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import { requestStop, resetStop, stopRequested } from '../../src/runtime/stop.js';
 import { trainRun, TrainingStopped } from '../../src/training/train-run.js';
-import { CLI } from '../helpers/run-cli.js';
+import { start } from './signal-process.js';
 import { writeTally } from './tally.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
@@ -36,34 +35,6 @@ const TRAIN = {
   warmStart: { type: 'reference', adamSteps: 20 },
   training: { adamSteps: 4000, checkpointEvery: 10, logEvery: 10, lbfgsIterations: 0, evaluateEvery: 0 },
 };
-
-interface Proc {
-  code: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
-  stderr: () => string;
-  kill: (s: NodeJS.Signals) => void;
-  waitFor: (re: RegExp, ms: number) => Promise<void>;
-}
-
-function start(args: string[]): Proc {
-  const child = spawn(process.execPath, [CLI, ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
-  let err = '';
-  child.stderr.on('data', (d) => (err += String(d)));
-  child.stdout.resume();
-  const code = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on('close', (c, s) => resolve({ code: c, signal: s })));
-  return {
-    code,
-    stderr: () => err,
-    kill: (s) => child.kill(s),
-    waitFor: async (re, ms) => {
-      const t0 = Date.now();
-      while (!re.test(err)) {
-        if (Date.now() - t0 > ms) throw new Error(`timed out waiting for ${re}; stderr so far:\n${err}`);
-        if (child.exitCode !== null) throw new Error(`exited ${child.exitCode} before ${re}; stderr:\n${err}`);
-        await new Promise((r) => setTimeout(r, 100));
-      }
-    },
-  };
-}
 
 const checkpointStep = (dir: string) => (JSON.parse(readFileSync(join(dir, 'checkpoint.json'), 'utf8')) as { step: number }).step;
 
@@ -135,114 +106,6 @@ describe('signals', () => {
     expect(q.stderr()).toMatch(new RegExp(`resuming .* ${done} of 40 points already saved`));
     counts['clear error or stop']++;
   });
-});
-
-describe('signals: solve and demo', () => {
-  for (const [sig, exit] of [
-    ['SIGINT', 130],
-    ['SIGTERM', 143],
-  ] as const) {
-    it(`solve: ${sig} during the period search ends at once with exit ${exit}; the previous output in --out is untouched`, async () => {
-      counts.tried++;
-      const dir = tmp();
-      const out = join(dir, 'sol');
-      const first = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
-      expect((await first.code).code, first.stderr()).toBe(0);
-      const before = ['solution.json', 'profile.csv', '.mesofield-output.json'].map((n) => readFileSync(join(out, n)));
-      const p = start(['solve', '--chiN', '40', '--period', 'equilibrium', '--nx', '64', '--ns', '400', '--out', out, '--overwrite']);
-      await p.waitFor(/period search 1\//, 120_000);
-      p.kill(sig);
-      const r = await p.code;
-      expect(r.code, p.stderr()).toBe(exit);
-      expect(p.stderr()).toMatch(new RegExp(`solve: ${sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping the solve; nothing will be written`));
-      expect(p.stderr()).toMatch(/solve stopped by a signal before it finished; nothing was written \(.*sol was left as it was\)/);
-      expect(p.stderr()).not.toMatch(/lamellar, \d+ period evaluations/);
-      ['solution.json', 'profile.csv', '.mesofield-output.json'].forEach((n, i) => expect(readFileSync(join(out, n)).equals(before[i]), n).toBe(true));
-      expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
-      counts['clear error or stop']++;
-    }, 180_000);
-  }
-
-  it('demo: SIGINT during the training stops it, exit 130; the finished parts stay, marked incomplete', async () => {
-    counts.tried++;
-    const dir = tmp();
-    const out = join(dir, 'demo');
-    const p = start(['demo', '--out', out, '--backend', 'wasm']);
-    await p.waitFor(/2\/3 training/, 180_000);
-    p.kill('SIGINT');
-    const r = await p.code;
-    expect(r.code, p.stderr()).toBe(130);
-    expect(p.stderr()).toMatch(/demo: Ctrl-C: stopping after the current stage/);
-    expect(p.stderr()).toMatch(/demo stopped by a signal after the reference and part of the training/);
-    expect(existsSync(join(out, 'reference', 'solution.json'))).toBe(true);
-    expect(existsSync(join(out, 'inversion'))).toBe(false);
-    const marker = JSON.parse(readFileSync(join(out, '.mesofield-output.json'), 'utf8')) as { command: string; complete: boolean; files: string[] };
-    expect(marker.command).toBe('demo');
-    expect(marker.complete).toBe(false);
-    expect(marker.files).toContain('reference/solution.json');
-    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
-    counts['clear error or stop']++;
-  }, 240_000);
-});
-
-describe('signals: loops that ran to their end (classical invert, surrogate fit, the demo\'s solve)', () => {
-  it('invert (classical): SIGINT during the χN search ends it at once, exit 130; nothing written, the previous output untouched', async () => {
-    counts.tried++;
-    const dir = tmp();
-    const synth = start(['synth', '--f', '0.5', '--chiN', '15', '--points', '64', '--nx', '32', '--ns', '40', '--out', join(dir, 'synth')]);
-    expect((await synth.code).code, synth.stderr()).toBe(0);
-    const csv = join(dir, 'synth', 'profile.csv');
-    const out = join(dir, 'inv');
-    const first = start(['invert', csv, '--f', '0.5', '--nx', '16', '--ns', '20', '--out', out, '--quiet']);
-    expect((await first.code).code, first.stderr()).toBe(0);
-    const before = ['result.json', 'fit.csv', 'solution.json', '.mesofield-output.json'].map((n) => readFileSync(join(out, n)));
-    // A fine grid: each χN evaluation takes a while, and the whole fit far longer than the wait for a stop.
-    const p = start(['invert', csv, '--f', '0.5', '--nx', '64', '--ns', '400', '--out', out, '--overwrite']);
-    await p.waitFor(/classical fit \d+\//, 120_000);
-    p.kill('SIGINT');
-    const r = await p.code;
-    expect(r.code, p.stderr()).toBe(130);
-    expect(p.stderr()).toMatch(/invert: Ctrl-C: stopping the fit; nothing will be written/);
-    expect(p.stderr()).toMatch(/invert stopped by a signal during the classical fit; nothing was written \(.*inv was left as it was\)/);
-    // Stopped mid-search: the fit's closing line never came.
-    expect(p.stderr()).not.toMatch(/invert: χN = [\d.]+ in/);
-    ['result.json', 'fit.csv', 'solution.json', '.mesofield-output.json'].forEach((n, i) => expect(readFileSync(join(out, n)).equals(before[i]), n).toBe(true));
-    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
-    counts['clear error or stop']++;
-  }, 180_000);
-
-  it('train (surrogate): SIGTERM while fitting the field network stops within a step, exit 143, nothing saved', async () => {
-    counts.tried++;
-    const dir = tmp();
-    const cfg = join(dir, 'su.json');
-    // A fit far longer than the test: only a stop inside it ends the run.
-    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'surrogate', backend: 'wasm', parameters: { chiN: { min: 13, max: 17, anchors: 3 } }, cell: { nx: 16, ns: 20 }, warmStart: { extraSolves: 0, adamSteps: 100000, lbfgsIterations: 0 }, training: { rounds: 1, pointsPerRound: 2 }, evaluation: { random: 0 } }));
-    const out = join(dir, 'ck');
-    const p = start(['train', cfg, '--out', out]);
-    await p.waitFor(/fitting the field network/, 120_000);
-    await new Promise((res) => setTimeout(res, 500));
-    p.kill('SIGTERM');
-    const r = await p.code;
-    expect(r.code, p.stderr()).toBe(143);
-    expect(p.stderr()).toMatch(/surrogate training stopped by a signal while fitting the field network; nothing was saved/);
-    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
-    counts['clear error or stop']++;
-  }, 180_000);
-
-  it('demo: SIGINT during the reference solve ends it at once, exit 130', async () => {
-    counts.tried++;
-    const dir = tmp();
-    const out = join(dir, 'demo');
-    const p = start(['demo', '--out', out, '--backend', 'wasm']);
-    await p.waitFor(/1\/3 reference solve/, 120_000);
-    p.kill('SIGINT');
-    const r = await p.code;
-    expect(r.code, p.stderr()).toBe(130);
-    expect(p.stderr()).toMatch(/demo stopped by a signal after nothing \(it was in the reference solve\)/);
-    expect(existsSync(join(out, 'reference', 'solution.json'))).toBe(false);
-    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
-    counts['clear error or stop']++;
-  }, 180_000);
 });
 
 describe('resume fidelity', () => {

@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { readFormat } from '../../src/io/formats/file-format.js';
 import { braggFitFileSchema } from '../../src/io/formats/measurement-fits.js';
+import { braggPatternFileSchema } from '../../src/io/formats/bragg-pattern.js';
 import { runCli } from '../helpers/run-cli.js';
 import { pdfText } from '../reports/pdf-tools.js';
 
@@ -25,8 +26,8 @@ function makePeaks(): string {
   expect(s.code, s.stderr).toBe(0);
   const p = runCli(['bragg-pattern', join(sol, 'solution.json'), '--orders', '4', '--rg-nm', String(RG_NM), '--json']);
   expect(p.code, p.stderr).toBe(0);
-  const peaks = JSON.parse(p.stdout).peaks as { order: number; q: number; relative: number }[];
-  const rows = peaks.map((k) => `${k.order},${k.q},${1000 * k.relative},${Math.max(30 * k.relative, 0.3)}`);
+  const peaks = braggPatternFileSchema.parse(JSON.parse(p.stdout)).peaks;
+  const rows = peaks.map((k) => `${k.order},${k.q},${1000 * k.relative!},${Math.max(30 * k.relative!, 0.3)}`);
   const path = join(dir, 'peaks.csv');
   writeFileSync(path, `order,q_per_nm,I,dI\n${rows.join('\n')}\n`);
   return path;

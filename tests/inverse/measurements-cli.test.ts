@@ -2,6 +2,8 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { readFormat } from '../../src/io/formats/file-format.js';
+import { braggPatternFileSchema, braggPeaksCsv } from '../../src/io/formats/bragg-pattern.js';
 import { runCli } from '../helpers/run-cli.js';
 import { pdfText } from '../reports/pdf-tools.js';
 
@@ -71,5 +73,24 @@ describe('bragg-pattern', () => {
     expect(res.peaks[1].relative).toBeLessThan(1e-10);
     expect(res.peaks[2].relative).toBeGreaterThan(1e-3);
     expect(res.peaks[0].q).toBeCloseTo((2 * Math.PI) / res.period, 10);
+    // --json prints the result file's value (io/formats/bragg-pattern.ts).
+    expect(braggPatternFileSchema.parse(res).orders).toBe(4);
+  });
+
+  it('--out writes result.json, peaks.csv and pattern.csv through their one format, and the report reads them', () => {
+    const out = join(dir, 'pattern');
+    const r = runCli(['bragg-pattern', join(dir, 'sol', 'solution.json'), '--orders', '3', '--rg-nm', '2.8', '--out', out, '--report']);
+    expect(r.code, r.stderr).toBe(0);
+    const res = readFormat(join(out, 'result.json'), braggPatternFileSchema);
+    expect(res.qUnit).toBe('nm⁻¹');
+    // q_1 = 2π/D with D in nm (Rg = 2.8 nm; geometry, common practice, no source).
+    expect(res.peaks[0].q).toBeCloseTo((2 * Math.PI) / (res.period * 2.8), 10);
+    expect(res.system.chiN).toBe(20);
+    expect(readFileSync(join(out, 'peaks.csv'), 'utf8')).toBe(braggPeaksCsv(res));
+    const pattern = readFileSync(join(out, 'pattern.csv'), 'utf8').trim().split('\n');
+    expect(pattern[0]).toBe('q,I');
+    expect(pattern.length).toBeGreaterThan(100);
+    expect(r.stdout).toMatch(/^lamella at χN = 20: period D = [\d.]+ nm/);
+    expect(pdfText(join(out, 'report', 'report.pdf'))).toMatch(/Bragg pattern of the lamella at χN = 20/);
   });
 });

@@ -128,3 +128,24 @@ describe('stress-free period of the forward model', () => {
     expect(next.period).toBeGreaterThan(eq.period);
   });
 });
+
+describe('the periodogram start of the free period', () => {
+  it('finds the period of a noisy sinusoid sampled at irregular points, to the scan spacing', async () => {
+    const { periodogramPeriod } = await import('../../src/inverse/objective.js');
+    const L0 = 4.1;
+    const rng = new Xorshift128(7);
+    const noise = new GaussianNoise(8);
+    const n = 60;
+    // Irregular sampling over about three periods: a + b cos(kx) + c sin(kx) is then the exact model, so the best L is L0 up to noise.
+    const x = Float64Array.from({ length: n }, (_, i) => (12 * (i + 0.5 * rng.next())) / n).sort();
+    const phi = Float64Array.from(x, (xi) => 0.5 + 0.3 * Math.cos((2 * Math.PI * (xi - 0.7)) / L0) + 0.01 * noise.next());
+    const weight = new Float64Array(n).fill(1);
+    const lo = 2;
+    const hi = 8;
+    const points = 400;
+    const L = periodogramPeriod({ x, phi, weight }, lo, hi, points);
+    // One step of the geometric scan is a factor (hi/lo)^(1/(points−1)).
+    const step = Math.pow(hi / lo, 1 / (points - 1)) - 1;
+    expect(Math.abs(L / L0 - 1)).toBeLessThan(1.5 * step);
+  });
+});

@@ -2,7 +2,9 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { scatteringResultSchema } from '../../src/io/schemas/scattering-result.js';
+import { readFormat } from '../../src/io/formats/file-format.js';
+import { scatteringFitCsv, scatteringResultSchema } from '../../src/io/formats/scattering-fit.js';
+import { pdfText } from '../reports/pdf-tools.js';
 import { scatteringCsv, syntheticScattering } from '../helpers/debye-scattering.js';
 import { runCli } from '../helpers/run-cli.js';
 
@@ -24,12 +26,20 @@ describe('fit-scattering from the command line', () => {
     expect(r.stdout).toMatch(/χN\(T\) = a\/T \+ b: {2}a = /);
     expect(r.stdout).toMatch(/Fredrickson–Helfand/);
     expect(r.stdout).toMatch(/effective χ/);
-    const res = scatteringResultSchema.parse(JSON.parse(readFileSync(join(out, 'result.json'), 'utf8')));
+    const res = readFormat(join(out, 'result.json'), scatteringResultSchema);
     expect(res.fits).toHaveLength(5);
     const [lo, hi] = res.series!.chiNLine.intervals.a['95%'];
     expect(lo).toBeLessThan(4000);
     expect(hi).toBeGreaterThan(4000);
     expect(readFileSync(join(out, 'fit-1.csv'), 'utf8').split('\n')[0]).toBe('q_per_nm,I,dI,model,residual,normalised_residual');
+    // Each fit-<k>.csv is written from its entry of result.json (one writer, io/formats/scattering-fit.ts).
+    expect(readFileSync(join(out, 'fit-3.csv'), 'utf8')).toBe(scatteringFitCsv(res.fits[2]));
+    // `report DIR` reads the result through the same format and draws the scattering pages.
+    const rep = runCli(['report', out, '--format', 'pdf', '--quiet']);
+    expect(rep.code, rep.stderr).toBe(0);
+    const text = pdfText(join(out, 'report', 'report.pdf'));
+    expect(text).toMatch(/Scattering fit: /);
+    expect(text).toMatch(/fit-scattering/);
   });
 
   it('refuses an ordered sample in the series, naming its temperature and file (exit 2)', () => {

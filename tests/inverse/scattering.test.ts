@@ -139,7 +139,7 @@ describe('scattering CSV', () => {
   it('reads q in Å⁻¹ as nm⁻¹ × 10 and names the unit trap', () => {
     const d = parseScatteringCsv('q_per_A,I,dI\n0.01,5,0.1\n0.02,6,0.1\n', 'a.csv');
     expect(Array.from(d.q)).toEqual([0.1, 0.2]);
-    expect(() => parseScatteringCsv('q,I\n0.1,5\n', 'b.csv')).toThrow(/b\.csv: line 1, column 1: unknown column "q"; name the unit/);
+    expect(() => parseScatteringCsv('q,I\n0.1,5\n', 'b.csv')).toThrow(/b\.csv: line 1, column 1 \("q"\): unknown column; name the unit/);
     expect(() => parseScatteringCsv('q_per_nm,I\n0.2,5\n0.1,4\n', 'c.csv')).toThrow(/c\.csv: line 3.*increase strictly/);
   });
 });

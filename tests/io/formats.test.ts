@@ -23,6 +23,12 @@ import { surrogateConfigSchema } from '../../src/io/schemas/surrogate-config.js'
 import { sweepConfigSchema } from '../../src/io/schemas/sweep-config.js';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import { provenance } from '../../src/io/versions.js';
+import { BRAGG_PATTERN_VERSION, braggPatternFileSchema, braggPatternFiles } from '../../src/io/formats/bragg-pattern.js';
+import { SCATTERING_FIT_VERSION, scatteringFitFiles, scatteringResultSchema } from '../../src/io/formats/scattering-fit.js';
+import { scatteringConfigSchema } from '../../src/io/schemas/scattering-config.js';
+import { runBraggPattern } from '../../src/inverse/bragg/run-bragg-pattern.js';
+import { runScatteringFit } from '../../src/inverse/scattering/run-scattering-fit.js';
+import { scatteringCsv, syntheticScattering } from '../helpers/debye-scattering.js';
 import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import { solveFixedCell } from '../../src/spectral/scft-solver.js';
 import { mergeShards } from '../../src/sweep/merge.js';
@@ -270,5 +276,32 @@ describe('file formats', () => {
     expect(back.estimators.network.chi2).toBeNull();
     expect(back.estimators.network.backend).toBe('wasm');
     roundTrip(inversionResultSchema, back, 'inversion', INVERSION_VERSION);
+  });
+
+  it('bragg-pattern: result.json, peaks.csv and pattern.csv from the real run (the solution above)', () => {
+    const dir = tmp();
+    const path = join(dir, 'solution.json');
+    writeFileSync(path, solutionText(solutionToFile(sol, provenance(), { version: 2, kind: 'solve' })));
+    const { result, curve } = runBraggPattern({ solution: path, orders: 3, lorentz: true }, provenance());
+    const files = braggPatternFiles(result, curve);
+    expect(Object.keys(files).sort()).toEqual(['pattern.csv', 'peaks.csv', 'result.json']);
+    expect(files['peaks.csv'].split('\n')[0]).toBe('order,q,relative');
+    writeFileSync(join(dir, 'result.json'), files['result.json']);
+    expect(readFormat(join(dir, 'result.json'), braggPatternFileSchema)).toEqual(result);
+    roundTrip(braggPatternFileSchema, result, 'bragg-pattern', BRAGG_PATTERN_VERSION);
+    expect(() => braggPatternFileSchema.parse({ ...result, periodRg: 3.8 })).toThrow(/periodRg/);
+  });
+
+  it('fit-scattering: result.json and fit-<k>.csv from the real run (one synthetic curve)', () => {
+    const dir = tmp();
+    writeFileSync(join(dir, 'i.csv'), scatteringCsv(syntheticScattering({ f: 0.5, chiN: 8, rg: 6, K: 50, bg: 0.3, noise: 0.02, seed: 5, n: 40 })));
+    const config = scatteringConfigSchema.parse({ version: 2, kind: 'fit-scattering', system: { chain: { type: 'diblock', f: 0.5 } }, files: [{ file: 'i.csv' }], profilePoints: 0 });
+    const { result } = runScatteringFit(config, { baseDir: dir, rgSource: 'flags', provenance: provenance() });
+    const files = scatteringFitFiles(result);
+    expect(Object.keys(files).sort()).toEqual(['fit-1.csv', 'result.json']);
+    expect(files['fit-1.csv'].split('\n').length).toBe(40 + 2);
+    writeFileSync(join(dir, 'result.json'), files['result.json']);
+    expect(readFormat(join(dir, 'result.json'), scatteringResultSchema)).toEqual(result);
+    roundTrip(scatteringResultSchema, result, 'fit-scattering-result', SCATTERING_FIT_VERSION);
   });
 });

@@ -8,6 +8,8 @@ import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { inversionResultSchema } from '../../src/io/formats/inversion.js';
 import { braggFitFileSchema, spacingFitFileSchema } from '../../src/io/formats/measurement-fits.js';
+import { braggPatternFileSchema } from '../../src/io/formats/bragg-pattern.js';
+import { scatteringResultSchema } from '../../src/io/formats/scattering-fit.js';
 import { solutionFileSchema, summarize } from '../../src/io/formats/solution.js';
 import { predictionSchema, surrogateCheckpointSchema, surrogateMetricsSchema } from '../../src/io/formats/surrogate.js';
 import { shardFileSchema, sweepTableSchema } from '../../src/io/formats/sweep.js';
@@ -35,6 +37,8 @@ const FORMAT_SCHEMAS: Record<string, z.ZodType> = {
   'sweep-table': sweepTableSchema,
   'bragg-fit': braggFitFileSchema,
   'spacing-fit': spacingFitFileSchema,
+  'bragg-pattern': braggPatternFileSchema,
+  'fit-scattering-result': scatteringResultSchema,
 };
 
 type Json = Record<string, unknown>;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { groupedNormalEquations } from '../../src/numerics/grouped-normal-equations.js';
+import { groupedNormalEquations, groupJacobianEntry, shiftedGroups } from '../../src/numerics/grouped-normal-equations.js';
 import { Xorshift128 } from '../../src/numerics/random.js';
 
 // JᵀJ and Jᵀr of a block-sparse J given in groups against the same products of the dense J,
@@ -34,5 +34,82 @@ describe('groupedNormalEquations', () => {
       }
     }
     expect(cost).toBeCloseTo(0.5 * r.reduce((s, v) => s + v * v, 0), 12);
+  });
+});
+
+describe('groupedNormalEquations, large groups (the chunked, register-blocked product)', () => {
+  it('equals JᵀJ and Jᵀr by the definition for groups taller than one chunk and odd widths', () => {
+    const rng = new Xorshift128(9);
+    for (const [rows, k] of [
+      [150, 13],
+      [64, 8],
+      [65, 2],
+      [200, 1],
+      [3, 31],
+    ]) {
+      const columns = Int32Array.from({ length: k }, (_, i) => 2 * i);
+      const n = 2 * k;
+      const J = Float64Array.from({ length: rows * k }, () => rng.next() - 0.5);
+      const r = Float64Array.from({ length: rows }, () => rng.next() - 0.5);
+      const { A, g } = groupedNormalEquations(n, [{ columns, J, r }]);
+      for (let a = 0; a < k; a++) {
+        let ga = 0;
+        for (let i = 0; i < rows; i++) ga += J[i * k + a] * r[i];
+        expect(g[2 * a]).toBeCloseTo(ga, 12);
+        expect(g[2 * a + 1]).toBe(0);
+        for (let b = 0; b < k; b++) {
+          let ab = 0;
+          for (let i = 0; i < rows; i++) ab += J[i * k + a] * J[i * k + b];
+          expect(A[2 * a * n + 2 * b]).toBeCloseTo(b <= a ? ab : 0, 12);
+          expect(A[2 * a * n + 2 * b + 1]).toBe(0);
+        }
+      }
+    }
+  });
+});
+
+describe('groupedNormalEquations, factored columns (Jacobian C·E)', () => {
+  it('equals JᵀJ and Jᵀr of the expanded dense J (C·E multiplied out here), C mostly zero', () => {
+    const rng = new Xorshift128(21);
+    const m = 90;
+    const t = 6;
+    const own = Int32Array.from([1, 4, 5, 8, 9, 10, 12]);
+    const fcols = Int32Array.from([0, 2, 3, 6, 7, 11]);
+    const n = 13;
+    const k = own.length;
+    const kf = fcols.length;
+    const J = Float64Array.from({ length: m * k }, () => rng.next() - 0.5);
+    const r = Float64Array.from({ length: m }, () => rng.next() - 0.5);
+    // Two non-zeros per row, like the junction channels of one grid point.
+    const C = new Float64Array(m * t);
+    for (let i = 0; i < m; i++) {
+      const u = i % (t / 2);
+      C[i * t + 2 * u] = rng.next() - 0.5;
+      C[i * t + 2 * u + 1] = rng.next() - 0.5;
+    }
+    const E = Float64Array.from({ length: t * kf }, () => rng.next() - 0.5);
+    const grp = { columns: own, J, r, factored: { columns: fcols, t, C, E } };
+    const dense: number[][] = [];
+    for (let i = 0; i < m; i++) {
+      const row = new Array(n).fill(0);
+      for (let c = 0; c < k; c++) row[own[c]] = J[i * k + c];
+      for (let c = 0; c < kf; c++) {
+        let s = 0;
+        for (let u = 0; u < t; u++) s += C[i * t + u] * E[u * kf + c];
+        row[fcols[c]] = s;
+      }
+      for (let c = 0; c < n; c++) expect(groupJacobianEntry(grp, i, c)).toBeCloseTo(row[c], 14);
+      dense.push(row);
+    }
+    const { A, g } = groupedNormalEquations(n, [grp]);
+    for (let a = 0; a < n; a++) {
+      expect(g[a]).toBeCloseTo(dense.reduce((s, row, i) => s + row[a] * r[i], 0), 12);
+      for (let b = 0; b < n; b++) expect(A[a * n + b]).toBeCloseTo(b <= a ? dense.reduce((s, row) => s + row[a] * row[b], 0) : 0, 12);
+    }
+    // The same group with every column 3 higher, shifted back to a part's own numbering, gives the same matrix.
+    const up = { ...grp, columns: own.map((c) => c + 3), factored: { ...grp.factored, columns: fcols.map((c) => c + 3) } };
+    const shifted = groupedNormalEquations(n, shiftedGroups([up], 3));
+    expect(Array.from(shifted.A)).toEqual(Array.from(A));
+    expect(Array.from(shifted.g)).toEqual(Array.from(g));
   });
 });

@@ -18,7 +18,8 @@ import { warmStart } from '../../src/network/warm-start.js';
 import { runSecondOrder } from '../../src/training/second-order-phase.js';
 import { evaluateNetworks } from '../../src/training/train-run.js';
 
-async function run(fieldStep: 'anderson' | 'simple') {
+/** The spectral solutions and the warm-started parameters, computed once for both runs (deterministic). */
+async function setup() {
   const config = trainConfigSchema.parse({
     version: 2,
     kind: 'train',
@@ -33,6 +34,15 @@ async function run(fieldStep: 'anderson' | 'simple') {
   const start = solveFromConfig({ system: { ...config.system, chiN: 14 }, cell: { ...config.cell, period: reference.length }, solver: config.solver, output: { propagators: true } }).solution;
   const nets = buildScftNetworks(tf, config, chain, reference.length, true);
   warmStart(tf, nets, { x: start.x, w: start.w, chiN: 14, propagators: start.propagators }, 300, 0.01);
+  const theta = nets.parameters.flatten();
+  nets.dispose();
+  return { tf, config, chain, reference, theta };
+}
+
+async function run(s: Awaited<ReturnType<typeof setup>>, fieldStep: 'anderson' | 'simple') {
+  const { tf, config, chain, reference } = s;
+  const nets = buildScftNetworks(tf, config, chain, reference.length, true);
+  nets.parameters.unflatten(s.theta);
   const startError = evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2;
   const so = await runSecondOrder(
     nets,
@@ -48,8 +58,9 @@ async function run(fieldStep: 'anderson' | 'simple') {
 
 describe('the Anderson field step', () => {
   it('on a continuation step (χN 14 → 15): exact refits, the SCFT deviation falls at every step and the φA error against the reference falls below half its start; simple mixing ends level with it at this size', async () => {
-    const anderson = await run('anderson');
-    const simple = await run('simple');
+    const s = await setup();
+    const anderson = await run(s, 'anderson');
+    const simple = await run(s, 'simple');
     // 48 iterations: 12 per propagator before the first step, then 3 per propagator between steps.
     expect(anderson.steps.map((s) => s.afterIteration)).toEqual([24, 30, 36, 42]);
     expect(simple.steps.length).toBe(4);
@@ -64,5 +75,7 @@ describe('the Anderson field step', () => {
     // propagators' own error limits both steps, so no advantage is asserted at this size
     // (docs/second-order-training.md has the full-size runs).
     expect(simple.phiError).toBeLessThan(0.5 * simple.startError);
+    // Both runs start from the same warm-started parameters.
+    expect(simple.startError).toBe(anderson.startError);
   }, 240_000);
 });

@@ -53,7 +53,7 @@ export const DEMO_TRAIN_CONFIG = {
   // steps between the LM cycles; measured φA 6.4e-5 with seed 1 (the demo's) but 4.1e-3 with
   // seed 2, where the earlier recipe ended at 8e-4 and Adam + L-BFGS at 2.7e-3.
   networks: { field: { hidden: [], fourierModes: 12 }, propagator: { hidden: [16, 16] } },
-  collocation: { nx: 32, nodesPerBlock: 32, random: 0 },
+  collocation: { nx: 64, nodesPerBlock: 16, random: 0 },
   warmStart: { type: 'reference', adamSteps: 400, learningRate: 0.01 },
   training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: 160, secondOrder: { strategy: 'alternating', cycles: 6, firstCycleIterations: 40, fieldStep: 'anderson', evaluateEvery: 5 } },
 } as const;

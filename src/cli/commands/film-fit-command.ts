@@ -3,12 +3,12 @@
  * config (or of an empty one) through its schema, the data file read, the fit run, the files
  * written. The library side is inverse/film/film-fit-run.ts.
  */
-import { readFileSync } from 'node:fs';
 import { formatText } from '../../io/formats/file-format.js';
 import { filmFitResultSchema } from '../../io/formats/film.js';
 import { solutionText } from '../../io/formats/solution.js';
 import { join } from 'node:path';
 import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
+import { readInputText } from '../../io/fs-errors.js';
 import { filmFitConfigSchema } from '../../io/schemas/film-fit-config.js';
 import type { FilmFitConfig } from '../../io/schemas/film-fit-config.js';
 import { provenance } from '../../io/versions.js';
@@ -89,12 +89,7 @@ export function buildFilmFitConfig(configPath: string | undefined, flags: FilmFi
 /** Read, fit, write; prints the summary (or JSON) on stdout. */
 export async function runFilmFitCommand(command: string, dataPath: string, config: FilmFitConfig, flags: FilmFitFlags): Promise<void> {
   if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
-  let text: string;
-  try {
-    text = readFileSync(dataPath, 'utf8');
-  } catch (e) {
-    throw new InputError(`${dataPath}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
+  const text = readInputText(dataPath);
   const data = readFilmData(text, dataPath, config.units.rgNm);
   if (command === 'reflectivity' && data.kind !== 'reflectivity') throw new InputError(`${dataPath}: the header is that of a depth profile (${data.kind}); reflectivity fits a Q,R,dR curve: fit depth profiles with invert --film`);
   const out = claimOut(flags, command);

@@ -76,7 +76,7 @@ export function registerFitBragg(program: Command): void {
           }
           progress.done(`χN = ${result.chiN.toPrecision(5)} in ${result.seconds.toFixed(2)} s (${result.evaluations} model evaluations)`);
           const fit = result;
-          await writeFitOutput('fit-bragg', out, flags, formatText(braggFitFileSchema, fit), async () => (await import('../../reports/measurement-fit-input.js')).measurementFitReport(flags.out!, { bragg: fit }));
+          await writeFitOutput('fit-bragg', out, flags, { 'result.json': formatText(braggFitFileSchema, fit) }, async () => (await import('../../reports/measurement-fit-input.js')).measurementFitReport(flags.out!, { bragg: fit }));
           process.stdout.write(flags.json ? formatText(braggFitFileSchema, result, 2) : braggFitText(result));
         });
       }),

@@ -1,7 +1,8 @@
 /**
  * What fit-bragg and fit-spacing share: the chain and model-grid flags over their config
- * (through ConfigInput, so messages name the flag or the config key), and the output of a
- * finished fit (result.json through its schema, the report).
+ * (through ConfigInput, so messages name the flag or the config key); and what every
+ * measurement command (fit-bragg, fit-spacing, fit-scattering, bragg-pattern) shares: the
+ * output of a finished run (its files, built through their formats, and the report).
  */
 import { join } from 'node:path';
 import type { OutputDirectory } from '../../io/output-directory.js';
@@ -39,13 +40,13 @@ export function fitConfigInput<C extends FitCommand>(command: C, configPath: str
   return input;
 }
 
-/** result.json into the claimed --out, and the report beside it when asked (the report code loads only then); what was written goes to stderr. */
-export async function writeFitOutput(command: FitCommand, out: OutputDirectory | undefined, flags: FitCommandFlags, resultText: string, report: () => Promise<ReportDocument>): Promise<void> {
+/** The run's files (name → text, from io/formats) into the claimed --out, and the report beside them when asked (the report code loads only then); what was written goes to stderr. */
+export async function writeFitOutput(command: string, out: OutputDirectory | undefined, flags: Pick<FitCommandFlags, 'out' | 'report' | 'quiet'>, files: Record<string, string>, report: () => Promise<ReportDocument>): Promise<void> {
   if (!out) return;
-  const written = out.write({ 'result.json': resultText });
+  const written = out.write(files);
   if (!flags.quiet) process.stderr.write(`${command}: wrote ${written.join(', ')}\n`);
   if (!flags.report) return;
   const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
-  const files = writeReportFiles(join(flags.out!, 'report'), renderReport(await report(), ['pdf', 'png'], 150));
-  if (!flags.quiet) process.stderr.write(`${command}: wrote ${files.join(', ')}\n`);
+  const reportFiles = writeReportFiles(join(flags.out!, 'report'), renderReport(await report(), ['pdf', 'png'], 150));
+  if (!flags.quiet) process.stderr.write(`${command}: wrote ${reportFiles.join(', ')}\n`);
 }

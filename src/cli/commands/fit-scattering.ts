@@ -1,7 +1,7 @@
 /** `mesofield fit-scattering`: χN of a disordered melt from I(q) (Leibler's RPA), and χ(T) from a temperature series. */
 import type { Command } from 'commander';
 import { claimOut, withOutput } from '../run-output.js';
-import { dirname, join } from 'node:path';
+import { dirname } from 'node:path';
 import { InputError, parseOrThrow } from '../../io/errors.js';
 import { action, numberFlag } from '../run-command.js';
 import { obj, readRawConfig } from '../raw-config.js';
@@ -98,9 +98,12 @@ export function registerFitScattering(program: Command): void {
       action(async (files: string[], flags: Flags) => {
         const { scatteringConfigSchema } = await import('../../io/schemas/scattering-config.js');
         const { runScatteringFit } = await import('../../inverse/scattering/run-scattering-fit.js');
-        const { fitCsvFor, scatteringSummary } = await import('../../inverse/scattering/scattering-result.js');
+        const { scatteringSummary } = await import('../../inverse/scattering/scattering-result.js');
+        const { scatteringFitFiles, scatteringResultSchema } = await import('../../io/formats/scattering-fit.js');
+        const { formatText } = await import('../../io/formats/file-format.js');
         const { provenance } = await import('../../io/versions.js');
         const { asInputError } = await import('../../io/errors.js');
+        const { writeFitOutput } = await import('./fit-command.js');
         if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
         const raw = buildScatteringConfig(files, flags);
         const config = parseOrThrow(scatteringConfigSchema, raw, flags.config ?? 'flags');
@@ -123,30 +126,8 @@ export function registerFitScattering(program: Command): void {
             throw asInputError(e, flags.config ?? 'flags');
           }
           const { result } = run;
-          if (flags.out) {
-            const out: Record<string, string> = { 'result.json': `${JSON.stringify(result, null, 1)}\n` };
-            result.fits.forEach((f, i) => (out[`fit-${i + 1}.csv`] = fitCsvFor(f)));
-            const wrote = claimed!.write(out);
-            if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${wrote.join(', ')}\n`);
-            if (flags.report) {
-              const { scatteringReportInput } = await import('../../reports/scattering-input.js');
-              const { buildReport } = await import('../../reports/build-report.js');
-              const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
-              const info = {
-                kind: 'fit-scattering',
-                source: flags.out,
-                system: { chain: config.system.chain, chiN: result.fits[0].chiN },
-                period: Number.NaN,
-                settings: [`files: ${config.files.map((f) => f.file + (f.temperature !== undefined ? ` (${f.temperature} K)` : '')).join(', ')}`, `resolution: ${config.resolution}`, `units: ${JSON.stringify(config.units)}`].map((line) => ({ name: line.slice(0, line.indexOf(':')), value: line.slice(line.indexOf(':') + 2) })),
-                provenance: result.provenance as { version: string; node: string; createdAt: string },
-                runSeconds: result.seconds,
-                runSecondsNote: 'all fits',
-              };
-              const written = writeReportFiles(join(flags.out, 'report'), renderReport(buildReport({ info, scattering: scatteringReportInput(result) }), ['pdf', 'png'], 150));
-              if (!flags.quiet) process.stderr.write(`fit-scattering: wrote ${written.join(', ')}\n`);
-            }
-          }
-          process.stdout.write(flags.json ? `${JSON.stringify(result, null, 2)}\n` : scatteringSummary(result));
+          await writeFitOutput('fit-scattering', claimed, flags, scatteringFitFiles(result), async () => (await import('../../reports/scattering-fit-report.js')).scatteringFitReport(flags.out!, result));
+          process.stdout.write(flags.json ? formatText(scatteringResultSchema, result, 2) : scatteringSummary(result));
         });
       }),
     );

@@ -63,7 +63,7 @@ export function registerFitSpacing(program: Command): void {
           }
           progress.done(`χ = ${result.chi.toPrecision(5)} in ${result.seconds.toFixed(2)} s (${result.evaluations} χ values)`);
           const fit = result;
-          await writeFitOutput('fit-spacing', out, flags, formatText(spacingFitFileSchema, fit), async () => (await import('../../reports/measurement-fit-input.js')).measurementFitReport(flags.out!, { spacing: fit }));
+          await writeFitOutput('fit-spacing', out, flags, { 'result.json': formatText(spacingFitFileSchema, fit) }, async () => (await import('../../reports/measurement-fit-input.js')).measurementFitReport(flags.out!, { spacing: fit }));
           process.stdout.write(flags.json ? formatText(spacingFitFileSchema, result, 2) : spacingFitText(result));
         });
       }),

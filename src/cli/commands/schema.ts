@@ -1,26 +1,27 @@
 /**
  * `mesofield schema KIND`: the JSON Schema of a config file kind, generated from the zod
  * schema the tool itself validates with, so the reference cannot drift from the code.
+ * Start-up: only the asked kind's schema is built; --markdown builds them all.
  */
 import type { Command } from 'commander';
 import { z } from 'zod';
 import { InputError } from '../../io/errors.js';
-import { CONFIG_SCHEMAS } from '../../io/schemas/config-schemas.js';
+import { CONFIG_KIND_NAMES, CONFIG_SCHEMA_LOADERS, loadConfigSchemas } from '../../io/schemas/config-schema-loaders.js';
 import { action } from '../run-command.js';
-import { configReferenceMarkdown } from '../../io/config-reference.js';
 
 export function registerSchema(program: Command): void {
-  const all = CONFIG_SCHEMAS;
+  const kinds = CONFIG_KIND_NAMES.join(', ');
   program
     .command('schema')
-    .description(`print the JSON Schema of a config file kind (${Object.keys(all).join(', ')}), with every field, default and bound`)
+    .description(`print the JSON Schema of a config file kind (${kinds}), with every field, default and bound`)
     .argument('[kind]', 'config kind')
     .option('--markdown', 'print the reference of every kind as Markdown tables (docs/config-reference.md)')
     .option('--synopsis', "print every command with its arguments and flags (the README's synopsis)")
     .action(
       action(async (kind: string | undefined, flags: { markdown?: boolean; synopsis?: boolean }, command: Command) => {
         if (flags.markdown) {
-          process.stdout.write(configReferenceMarkdown(all));
+          const { configReferenceMarkdown } = await import('../../io/config-reference.js');
+          process.stdout.write(configReferenceMarkdown(await loadConfigSchemas()));
           return;
         }
         if (flags.synopsis) {
@@ -29,9 +30,11 @@ export function registerSchema(program: Command): void {
           process.stdout.write(synopsis(command.parent!));
           return;
         }
-        if (kind === undefined) throw new InputError(`kind: missing; allowed: ${Object.keys(all).join(', ')} (or --markdown)`);
-        const schema = all[kind];
-        if (!schema) throw new InputError(`kind: got ${JSON.stringify(kind)}; allowed: ${Object.keys(all).join(', ')}`);
+        if (kind === undefined) throw new InputError(`kind: missing; allowed: ${kinds} (or --markdown)`);
+        // An own property only: "constructor" or "toString" is no kind.
+        const load = Object.hasOwn(CONFIG_SCHEMA_LOADERS, kind) ? CONFIG_SCHEMA_LOADERS[kind] : undefined;
+        if (!load) throw new InputError(`kind: got ${JSON.stringify(kind)}; allowed: ${kinds}`);
+        const schema = await load();
         process.stdout.write(`${JSON.stringify(z.toJSONSchema(schema, { io: 'input', unrepresentable: 'any' }), null, 2)}\n`);
       }),
     );

@@ -3,9 +3,8 @@
  * value (io/formats/measurement-fits.ts) with the assumptions χN rests on. The CLI and the
  * tests call this one function.
  */
-import { readFileSync } from 'node:fs';
 import { InputError } from '../../io/errors.js';
-import { fsInputError } from '../../io/fs-errors.js';
+import { readInputText } from '../../io/fs-errors.js';
 import { BRAGG_FIT_VERSION, braggFitFileSchema } from '../../io/formats/measurement-fits.js';
 import type { BraggFitFile } from '../../io/formats/measurement-fits.js';
 import { buildChain } from '../../physics/chain.js';
@@ -26,12 +25,7 @@ export interface BraggRunOptions {
 }
 
 export function runBraggFit(path: string, config: BraggFitConfig, o: BraggRunOptions): BraggFitFile {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (e) {
-    throw fsInputError(e, path, 'the peaks file');
-  }
+  const text = readInputText(path);
   const data = parsePeaksCsv(text, path);
   const rg = config.units.rgNm !== undefined ? { nm: config.units.rgNm, sd: config.units.rgNmSd, source: o.rgSource ?? 'units.rgNm' } : undefined;
   const fit = fitBragg(data, {

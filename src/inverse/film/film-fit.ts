@@ -5,7 +5,8 @@
  * on χ² = Σ ((model_i − y_i)/σ_i)²; then profile-likelihood intervals for χN and the
  * affinities (each fixed on a grid of trial values while every other parameter is refitted;
  * the interval ends are where the profiled χ² rises by the Δχ² level of confidence.ts, found by
- * the root search of profile-likelihood.ts).
+ * the root search of profile-likelihood.ts, whose first trial on each side is the curvature
+ * estimate of the distance from the fit's Jacobian).
  *
  * Units: lengths in Rg (the caller converts nm), affinities in kT per chain × Rg, SLD in Å⁻²,
  * Q in Å⁻¹. Without a sigma column the fit uses unit weights and σ̂² = RSS_min/(n − p), with
@@ -19,7 +20,7 @@ import type { FitStatistics } from '../fit-quality.js';
 import { boundedLeastSquares } from '../../numerics/bounded-least-squares.js';
 import type { StackSlds } from '../../reflectivity/sld-profile.js';
 import { deltaChi2Level, LEVELS } from '../confidence.js';
-import { intervalEnd } from '../profile-likelihood.js';
+import { intervalEnd, quadraticWidth } from '../profile-likelihood.js';
 import type { FilmPoint, FilmState } from './film-model.js';
 import { FilmModel } from './film-model.js';
 import type { FilmModelSpec } from './film-model.js';
@@ -208,7 +209,7 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
       // The main fit counts its iterations; an interval's inner fits count their finished points (below).
       onIteration: (it) => s.onProgress?.(stage, `iteration ${it.iteration}: χ² ${it.cost.toPrecision(7)}, ${free.map((k, i) => `${k} ${it.p[i].toPrecision(5)}`).join(', ')}`, stage === 'fit'),
     });
-    return { params: unvec(r.p), cost: r.cost, iterations: r.iterations, atBound: free.filter((_, i) => r.atBound[i]) };
+    return { params: unvec(r.p), cost: r.cost, iterations: r.iterations, atBound: free.filter((_, i) => r.atBound[i]), jacobian: r.jacobian };
   };
 
   let lmIterations = 0;
@@ -244,8 +245,10 @@ export function fitFilm(data: FilmData, s: FilmFitSettings, model = new FilmMode
     for (const level of LEVELS) {
       const d = deltaChi2Level(level, !data.sigma, dof);
       const bestPt = { chiN: best.params[name], value: best.cost };
-      const hi = intervalEnd(fn, bestPt, d * scale, 1, range, known);
-      const lo = intervalEnd(fn, bestPt, d * scale, -1, range, known);
+      // The first trial on each side at the curvature estimate of the distance to the level.
+      const width = quadraticWidth(best.jacobian, names.indexOf(name), d * scale);
+      const hi = intervalEnd(fn, bestPt, d * scale, 1, range, known, { width });
+      const lo = intervalEnd(fn, bestPt, d * scale, -1, range, known, { width });
       out[level.name] = { lo: lo.chiN, hi: hi.chiN, probability: level.probability, deltaChi2: d, limitedByRange: { lo: lo.limitedByRange, hi: hi.limitedByRange } };
       if (lo.limitedByRange || hi.limitedByRange) notes.push(`the ${level.name} interval of ${name} reaches the search bound [${range[0]}, ${range[1]}]: it is open on that side`);
     }

@@ -2,11 +2,12 @@
  * A `fit-scattering` run as its config says: read each file, fit it, fit χ(T) when the
  * files carry temperatures, and build the result. The CLI calls this; tests may too.
  */
-import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { InputError } from '../../io/errors.js';
+import { readInputText } from '../../io/fs-errors.js';
 import type { ScatteringConfig } from '../../io/schemas/scattering-config.js';
-import type { ScatteringResultFile } from '../../io/schemas/scattering-result.js';
+import type { ScatteringResultFile } from '../../io/formats/scattering-fit.js';
+import type { Provenance } from '../../io/versions.js';
 import type { ScatteringData } from './scattering-csv.js';
 import { parseScatteringCsv } from './scattering-csv.js';
 import type { RgSetting, ScatteringFit } from './scattering-fit.js';
@@ -18,7 +19,7 @@ export interface ScatteringRunOptions {
   baseDir: string;
   /** Where the Rg settings came from (flags or the config path), for messages. */
   rgSource: string;
-  provenance: unknown;
+  provenance: Provenance;
   onFit?: (i: number, total: number, fit: ScatteringFit) => void;
 }
 
@@ -37,14 +38,7 @@ export function rgSetting(u: ScatteringConfig['units'], source: string): RgSetti
 export function runScatteringFit(config: ScatteringConfig, o: ScatteringRunOptions): { result: ScatteringResultFile; datas: ScatteringData[] } {
   const t0 = performance.now();
   const datas = config.files.map((f) => {
-    const path = resolve(o.baseDir, f.file);
-    let text: string;
-    try {
-      text = readFileSync(path, 'utf8');
-    } catch (e) {
-      throw new InputError(`${f.file}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-    }
-    return parseScatteringCsv(text, f.file);
+    return parseScatteringCsv(readInputText(resolve(o.baseDir, f.file), f.file), f.file);
   });
   const units = new Set(datas.map((d) => d.qUnit));
   if (units.size > 1) throw new InputError(`files: the q columns mix units (${[...units].join(', ')}); the resolution is in the files' q units, so give all files in one unit`);

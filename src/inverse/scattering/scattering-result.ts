@@ -1,10 +1,12 @@
 /**
- * What a scattering fit writes: the result JSON (schema in io/schemas/scattering-result.ts),
- * one CSV per file (data, model, residuals) and the text summary. q is given back in the
- * units of the file's q column; Rg in nm.
+ * The value of a scattering fit's result file (its format, and the fit-<k>.csv written from
+ * it, in io/formats/scattering-fit.ts) and the text summary. q is given back in the units of
+ * the file's q column; Rg in nm.
  */
-import { scatteringResultSchema } from '../../io/schemas/scattering-result.js';
-import type { ScatteringResultFile } from '../../io/schemas/scattering-result.js';
+import { SCATTERING_FIT_VERSION, scatteringResultSchema } from '../../io/formats/scattering-fit.js';
+import type { ScatteringResultFile } from '../../io/formats/scattering-fit.js';
+import { throughSchema } from '../../io/formats/file-format.js';
+import type { Provenance } from '../../io/versions.js';
 import type { ScatteringConfig } from '../../io/schemas/scattering-config.js';
 import type { FiellerSet } from '../../numerics/fieller.js';
 import type { ScatteringData } from './scattering-csv.js';
@@ -18,7 +20,7 @@ export const SCATTERING_ASSUMPTIONS = [
   'χ is per reference volume of the chain (χN with N the number of reference segments)',
 ];
 
-export function scatteringResult(datas: ScatteringData[], config: ScatteringConfig, provenance: unknown, r: ScatteringSeriesResult, seconds: number): ScatteringResultFile {
+export function scatteringResult(datas: ScatteringData[], config: ScatteringConfig, provenance: Provenance, r: ScatteringSeriesResult, seconds: number): ScatteringResultFile {
   const fits = r.fits.map((f, i) => {
     const d = datas[i];
     const toFile = 1 / d.toPerNm;
@@ -73,7 +75,7 @@ export function scatteringResult(datas: ScatteringData[], config: ScatteringConf
         seconds: r.seriesSeconds ?? 0,
       }
     : null;
-  return scatteringResultSchema.parse({ kind: 'fit-scattering-result', version: 2, provenance, config, assumptions: SCATTERING_ASSUMPTIONS, fits, series, seconds });
+  return throughSchema(scatteringResultSchema, { kind: 'fit-scattering-result', version: SCATTERING_FIT_VERSION, provenance, config, assumptions: SCATTERING_ASSUMPTIONS, fits, series, seconds });
 }
 
 /** The fitted line and its one-sigma band over the measured temperatures and out to the predicted transition. */
@@ -93,13 +95,6 @@ function bandPoints(r: ScatteringSeriesResult): { T: number; chiN: number; sd: n
     const T = lo - pad + ((hi - lo + 2 * pad) * k) / 40;
     return { T, ...s.band(T) };
   });
-}
-
-export function fitCsvFor(fit: ScatteringResultFile['fits'][number]): string {
-  const p = fit.points;
-  const rows = [`q_${fit.qUnit},I,dI,model,residual,normalised_residual`];
-  for (let i = 0; i < p.q.length; i++) rows.push([p.q[i], p.I[i], p.dI ? p.dI[i] : '', p.model[i], p.residual[i], p.normalisedResidual[i]].join(','));
-  return `${rows.join('\n')}\n`;
 }
 
 const g = (v: number, d = 5) => v.toPrecision(d);

@@ -10,7 +10,7 @@ import { modelAssumptions } from '../../physics/model-assumptions.js';
 /** The model's assumptions from the one list (physics/model-assumptions.ts), as sentences. */
 function assumptions(input: ReportInput): string[] {
   const fitted = input.inversion !== undefined || input.braggFit !== undefined || input.spacingFit !== undefined || input.info.kind === 'invert';
-  return modelAssumptions(input.film ? 'film' : 'periodic', fitted).map((a) => `${a[0].toUpperCase()}${a.slice(1)}.`);
+  return modelAssumptions(input.film || input.sweep?.film ? 'film' : 'periodic', fitted).map((a) => `${a[0].toUpperCase()}${a.slice(1)}.`);
 }
 
 export function appendixPage(input: ReportInput): ReportPage {

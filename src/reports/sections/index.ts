@@ -1,6 +1,7 @@
 /** The sections of a report, in page order. A new section is added to this list. */
 import { appendixSection } from './appendix-section.js';
 import { filmSection } from './film-section.js';
+import { filmSweepSection } from './film-sweep-section.js';
 import { filmFitSection } from './film-fit-section.js';
 import { inversionSection } from './inversion-section.js';
 import { metricsSection } from './metrics-section.js';
@@ -24,6 +25,7 @@ export const REPORT_SECTIONS: readonly ReportSection[] = [
   braggSection,
   measurementFitSection,
   sweepSection,
+  filmSweepSection,
   filmSection,
   filmFitSection,
   profilesSection,

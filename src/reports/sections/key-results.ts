@@ -5,7 +5,7 @@
 import { buildChain } from '../../physics/chain.js';
 import type { ScftSolution } from '../../physics/result.js';
 import { sci, sig } from '../format.js';
-import type { MetricRow, ReportInput } from '../report-inputs.js';
+import type { MetricRow, NetworkMetricsInput, ReportInput } from '../report-inputs.js';
 import { sweepSeries } from './sweep-analysis.js';
 
 /** "lamellar" says more than a 1D cell knows: it compared lamellae with disorder only. */
@@ -22,6 +22,21 @@ function solutionRows(sol: ScftSolution, rgNm: number | undefined, periodToleran
   if (Number.isFinite(sol.period)) rows.push({ name: 'lamellar period L', value: `${periodText(sol.period, rgNm, 5)}${periodTolerance !== undefined ? ` ± ${sci(periodTolerance, 1)} Rg` : ''}` });
   rows.push({ name: 'free energy F', value: sig(sol.freeEnergy, 7), unit: 'kT per chain' });
   if (Number.isFinite(sol.freeEnergyDisordered) && sol.phase !== 'disordered') rows.push({ name: 'F − F of the disordered melt', value: sig(sol.freeEnergy - sol.freeEnergyDisordered, 5), unit: 'kT per chain' });
+  return rows;
+}
+
+function trainingRow(t: NonNullable<ReportInput['training']>): MetricRow {
+  return { name: 'training phases', value: t.phases.map((p) => `${p.name} ${p.iterations}`).join(', ') + ' iterations' };
+}
+
+/** The network's error against the reference and its density verdict (a train run's metrics file), and the phases run. */
+function networkRows(net: NetworkMetricsInput, input: ReportInput): MetricRow[] {
+  const rows: MetricRow[] = [
+    { name: 'network φA error, relative L2 (max)', value: `${sci(net.phiA.relativeL2)} (${sci(net.phiA.maxError)})`, unit: '–' },
+    { name: 'network F − reference F', value: sci(net.freeEnergyError), unit: 'kT per chain' },
+    { name: 'network density', value: phaseText(net.phase) },
+  ];
+  if (input.training?.phases.length) rows.push(trainingRow(input.training));
   return rows;
 }
 
@@ -54,6 +69,15 @@ export function keyResults(input: ReportInput): MetricRow[] {
     rows.push({ name: 'χ² / degrees of freedom', value: `${sig(sf.chi2, 4)} / ${sf.dof}` });
     return rows;
   }
+  if (input.sweep?.film) {
+    rows.push({ name: 'points solved', value: `${input.sweep.points.length} (${input.sweep.points.filter((p) => p.converged).length} converged)` });
+    for (const s of input.sweep.film.scans) {
+      const tag = input.sweep.film.scans.length > 1 ? ` (χN = ${sig(s.chiN, 4)}, walls ${sig(s.walls.bottom, 3)} / ${sig(s.walls.top, 3)})` : '';
+      if (s.bulkPeriod > 0) rows.push({ name: `bulk lamellar period D${tag}`, value: sig(s.bulkPeriod, 5), unit: 'Rg' });
+      rows.push({ name: `F(H) minima${tag}`, value: s.minima.map((m) => `${sig(m.thickness, 4)} Rg${s.bulkPeriod > 0 ? ` = ${sig(m.thickness / s.bulkPeriod, 3)} D` : ''} (${m.layers.length} layers)`).join(', ') || 'none inside the scanned range' });
+    }
+    return rows;
+  }
   if (input.sweep) {
     const series = sweepSeries(input.sweep);
     rows.push({ name: 'points solved', value: `${input.sweep.points.length} (${input.sweep.points.filter((p) => p.converged).length} converged)` });
@@ -65,25 +89,24 @@ export function keyResults(input: ReportInput): MetricRow[] {
     }
     return rows;
   }
+  const net = input.networkMetrics;
   if (input.film) {
     const f = input.film;
+    // A film train run leads with the network's error and verdict, as a periodic one does.
+    if (net) rows.push(...networkRows(net, input));
+    const ref = net ? 'reference ' : '';
     rows.push({ name: 'film thickness H', value: periodText(f.thickness, rgNm, 5) });
     rows.push({ name: 'wall affinities for A, bottom / top', value: `${sig(f.walls.bottom, 4)} / ${sig(f.walls.top, 4)}`, unit: 'kT per chain' });
     rows.push({ name: 'layers (bottom first)', value: `${f.layers.A + f.layers.B}: ${[...f.layers.sequence].join(' ')} (${f.layers.A} A-rich, ${f.layers.B} B-rich)` });
-    rows.push({ name: 'phase', value: phaseText(f.solution.phase) });
-    rows.push({ name: 'free energy F', value: sig(f.solution.freeEnergy, 7), unit: 'kT per chain' });
-    if (f.freeEnergyPerArea !== undefined) rows.push({ name: 'F per area F·H', value: sig(f.freeEnergyPerArea, 6), unit: 'kT ρ₀Rg/N' });
+    rows.push({ name: `${ref}phase`, value: phaseText(f.solution.phase) });
+    rows.push({ name: `${ref}free energy F`, value: sig(f.solution.freeEnergy, 7), unit: 'kT per chain' });
+    if (f.freeEnergyPerArea !== undefined) rows.push({ name: `${ref}F per area F·H`, value: sig(f.freeEnergyPerArea, 6), unit: 'kT ρ₀Rg/N' });
     if (f.scan?.minima.length) rows.push({ name: 'F(H) minima', value: f.scan.minima.map((m) => `${sig(m.thickness, 4)} Rg (${m.layers})`).join(', ') });
     return rows;
   }
-  const net = input.networkMetrics;
   const ref = input.profiles?.reference ?? input.propagators?.reference;
-  if (net) {
-    rows.push({ name: 'network φA error, relative L2 (max)', value: `${sci(net.phiA.relativeL2)} (${sci(net.phiA.maxError)})`, unit: '–' });
-    rows.push({ name: 'network F − reference F', value: sci(net.freeEnergyError), unit: 'kT per chain' });
-    rows.push({ name: 'network density', value: phaseText(net.phase) });
-  }
-  if (input.training?.phases.length) rows.push({ name: 'training phases', value: input.training.phases.map((p) => `${p.name} ${p.iterations}`).join(', ') + ' iterations' });
+  if (net) rows.push(...networkRows(net, input));
+  else if (input.training?.phases.length) rows.push(trainingRow(input.training));
   if (ref) rows.push(...solutionRows(ref, rgNm, input.periodSearch?.periodTolerance).map((r) => (net ? { ...r, name: `reference ${r.name}` } : r)));
   return rows;
 }

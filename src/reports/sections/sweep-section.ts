@@ -118,4 +118,5 @@ function sweepPages(s: SweepInput): ReportPage[] {
   ];
 }
 
-export const sweepSection: ReportSection = { id: 'sweep', pages: (input: ReportInput) => (input.sweep ? sweepPages(input.sweep) : []) };
+// A sweep over film thickness has its own pages (film-sweep-section.ts): its χN axis is not the one to draw.
+export const sweepSection: ReportSection = { id: 'sweep', pages: (input: ReportInput) => (input.sweep && !input.sweep.film ? sweepPages(input.sweep) : []) };

@@ -1,9 +1,14 @@
 /**
- * Result file kind "fit-scattering-result" (result.json of `fit-scattering`): one entry per
- * measured curve and, for a temperature series, the χ(T) line and transition temperatures.
+ * File kind "fit-scattering-result" (version 2): the result.json of `fit-scattering`, one entry
+ * per measured curve and, for a temperature series, the χ(T) line and transition temperatures;
+ * and its one fit-<k>.csv per curve (data, model, residuals), written from the same entry.
  * q in the units of each file's q column (qUnit), Rg in nm, T in K.
  */
 import { z } from 'zod';
+import { scatteringConfigSchema } from '../schemas/scattering-config.js';
+import { formatHeader, formatText, provenanceSchema } from './file-format.js';
+
+export const SCATTERING_FIT_VERSION = 2;
 
 const pair = z.tuple([z.number(), z.number()]);
 const levels = z.object({ '68.3%': pair, '95%': pair }).strict();
@@ -47,10 +52,10 @@ export const scatteringFitEntrySchema = z
 
 export const scatteringResultSchema = z
   .object({
-    kind: z.literal('fit-scattering-result'),
-    version: z.literal(2),
-    provenance: z.unknown(),
-    config: z.unknown(),
+    ...formatHeader('fit-scattering-result', SCATTERING_FIT_VERSION),
+    provenance: provenanceSchema,
+    /** The config the fit ran (flags applied). */
+    config: scatteringConfigSchema,
     assumptions: z.array(z.string()),
     fits: z.array(scatteringFitEntrySchema),
     series: z
@@ -74,3 +79,24 @@ export const scatteringResultSchema = z
   .strict();
 
 export type ScatteringResultFile = z.infer<typeof scatteringResultSchema>;
+
+export type ScatteringFitEntry = ScatteringResultFile['fits'][number];
+
+/** fit-<k>.csv of the k-th curve (1-based, in the order of the result's fits): q in the file's unit, the data, the model and the residuals. */
+export function scatteringFitCsvName(k: number): string {
+  return `fit-${k}.csv`;
+}
+
+export function scatteringFitCsv(fit: ScatteringFitEntry): string {
+  const p = fit.points;
+  const rows = [`q_${fit.qUnit},I,dI,model,residual,normalised_residual`];
+  for (let i = 0; i < p.q.length; i++) rows.push([p.q[i], p.I[i], p.dI ? p.dI[i] : '', p.model[i], p.residual[i], p.normalisedResidual[i]].join(','));
+  return `${rows.join('\n')}\n`;
+}
+
+/** Every file of a fit-scattering --out: result.json through its schema and one fit-<k>.csv per curve. */
+export function scatteringFitFiles(result: ScatteringResultFile): Record<string, string> {
+  const files: Record<string, string> = { 'result.json': formatText(scatteringResultSchema, result) };
+  result.fits.forEach((f, i) => (files[scatteringFitCsvName(i + 1)] = scatteringFitCsv(f)));
+  return files;
+}

@@ -1,0 +1,26 @@
+/**
+ * Every config kind and the module of its schema: the one list the schema command, the docs
+ * and the tests walk. Each schema loads on demand: building a kind's zod schema costs start-up
+ * time, and `mesofield schema solve` needs one kind, not all (config-schemas.ts loads them all).
+ */
+import type { z } from 'zod';
+
+export const CONFIG_SCHEMA_LOADERS: Record<string, () => Promise<z.ZodType>> = {
+  solve: async () => (await import('./solve-config.js')).solveConfigSchema,
+  train: async () => (await import('./train-config.js')).trainConfigSchema,
+  invert: async () => (await import('./invert-config.js')).invertConfigSchema,
+  sweep: async () => (await import('./sweep-config.js')).sweepConfigSchema,
+  surrogate: async () => (await import('./surrogate-config.js')).surrogateConfigSchema,
+  'film-fit': async () => (await import('./film-fit-config.js')).filmFitConfigSchema,
+  'fit-bragg': async () => (await import('./bragg-fit-config.js')).braggFitConfigSchema,
+  'fit-spacing': async () => (await import('./spacing-fit-config.js')).spacingFitConfigSchema,
+};
+
+/** The kind names, in the order of the list. */
+export const CONFIG_KIND_NAMES: readonly string[] = Object.keys(CONFIG_SCHEMA_LOADERS);
+
+/** Every kind's schema, by name, in the order of the list. */
+export async function loadConfigSchemas(): Promise<Record<string, z.ZodType>> {
+  const schemas = await Promise.all(CONFIG_KIND_NAMES.map((k) => CONFIG_SCHEMA_LOADERS[k]()));
+  return Object.fromEntries(CONFIG_KIND_NAMES.map((k, i) => [k, schemas[i]]));
+}

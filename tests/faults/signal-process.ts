@@ -1,0 +1,34 @@
+/**
+ * A CLI run in a process of its own that a test can watch (stderr so far, wait for a line)
+ * and signal: the signal tests' harness.
+ */
+import { spawn } from 'node:child_process';
+import { CLI } from '../helpers/run-cli.js';
+
+export interface Proc {
+  code: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
+  stderr: () => string;
+  kill: (s: NodeJS.Signals) => void;
+  waitFor: (re: RegExp, ms: number) => Promise<void>;
+}
+
+export function start(args: string[]): Proc {
+  const child = spawn(process.execPath, [CLI, ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
+  let err = '';
+  child.stderr.on('data', (d) => (err += String(d)));
+  child.stdout.resume();
+  const code = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on('close', (c, s) => resolve({ code: c, signal: s })));
+  return {
+    code,
+    stderr: () => err,
+    kill: (s) => child.kill(s),
+    waitFor: async (re, ms) => {
+      const t0 = Date.now();
+      while (!re.test(err)) {
+        if (Date.now() - t0 > ms) throw new Error(`timed out waiting for ${re}; stderr so far:\n${err}`);
+        if (child.exitCode !== null) throw new Error(`exited ${child.exitCode} before ${re}; stderr:\n${err}`);
+        await new Promise((r) => setTimeout(r, 100));
+      }
+    },
+  };
+}

@@ -1,0 +1,54 @@
+import { join } from 'node:path';
+import { writeFileSync, truncateSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { selectBackend } from '../../src/autodiff/backend.js';
+import { loadCheckpoint } from '../../src/training/checkpoint.js';
+import { trainRun, TrainingStopped } from '../../src/training/train-run.js';
+import { symmetricDiblock, tmp } from './trainer-configs.js';
+
+// The warm start, checkpoint reload and transfer of the same diblock are in trainer.test.ts.
+describe('trainer: symmetric diblock, seeded repeats, resume and failures', () => {
+  const base = symmetricDiblock;
+
+  it('seeded runs repeat and a resumed run continues the same loss curve', async () => {
+    const short = { ...base, cell: { ...base.cell, nx: 32 }, warmStart: { ...base.warmStart, adamSteps: 50 }, collocation: { ...base.collocation, resampleEvery: 40 }, training: { ...base.training, adamSteps: 90, checkpointEvery: 45, fieldUpdateEvery: 50, logEvery: 10 } };
+    const a = await trainRun({ config: short, backend: 'wasm' });
+    const b = await trainRun({ config: short, backend: 'wasm' });
+    expect(b.history.map((h) => h.total)).toEqual(a.history.map((h) => h.total));
+    const half = join(tmp(), 'half');
+    await trainRun({ config: { ...short, training: { ...short.training, adamSteps: 45 } }, outDir: half, backend: 'wasm' });
+    const resumed = await trainRun({ config: short, resumeDir: half, outDir: half, backend: 'wasm' });
+    // The resume point (45) falls between a resampling (40) and a field update (50): both must carry over.
+    const tail = (h: typeof a.history) => h.filter((e) => e.step > 45).map((e) => e.total);
+    const ta = tail(a.history);
+    const tb = tail(resumed.history);
+    expect(tb.length).toBe(ta.length);
+    for (let i = 0; i < ta.length; i++) expect(Math.abs(tb[i] / ta[i] - 1)).toBeLessThan(1e-5);
+  });
+
+  it('a corrupted or mismatched checkpoint fails with a clear message', async () => {
+    const { tf } = await selectBackend('wasm');
+    const bad = join(tmp(), 'bad');
+    await trainRun({ config: { ...base, warmStart: { ...base.warmStart, adamSteps: 5 }, training: { ...base.training, adamSteps: 2 } }, outDir: bad, backend: 'wasm' });
+    const other = { ...base, networks: { ...base.networks, field: { ...base.networks.field, hidden: [8] } } };
+    await expect(trainRun({ config: other, resumeDir: bad, backend: 'wasm' })).rejects.toThrow(/does not match the config: networks differ/);
+    truncateSync(join(bad, 'weights.bin'), 100);
+    expect(() => loadCheckpoint(tf, bad)).toThrow(/corrupted checkpoint: weights.bin has 100 bytes/);
+    writeFileSync(join(bad, 'checkpoint.json'), '{"kind": "checkpoint"');
+    expect(() => loadCheckpoint(tf, bad)).toThrow(/corrupted checkpoint \(not valid JSON/);
+    expect(() => loadCheckpoint(tf, tmp())).toThrow(/not a checkpoint directory/);
+  });
+
+  it('a diverging run stops, keeps the last good checkpoint and says so', async () => {
+    const out = join(tmp(), 'div');
+    // A huge learning rate and a tight divergence factor make the loss jump above its best.
+    const wild = { ...base, warmStart: { ...base.warmStart, adamSteps: 50 }, training: { ...base.training, adamSteps: 200, learningRate: 0.5, decay: 1, checkpointEvery: 1, divergenceFactor: 1.5 } };
+    const err = await trainRun({ config: wild, outDir: out, backend: 'wasm' }).catch((e) => e);
+    expect(err).toBeInstanceOf(TrainingStopped);
+    expect(err.reason).toBe('diverged');
+    expect(err.message).toMatch(/diverged at step \d+.*last good checkpoint \(step \d+\) is kept/);
+    const { tf } = await selectBackend('wasm');
+    const kept = loadCheckpoint(tf, out);
+    expect(kept.file.step).toBe(err.lastCheckpointStep);
+  });
+});
