@@ -202,6 +202,8 @@ export interface NetworkMetricsInput {
   freshResiduals: Record<string, number>;
   /** The network density's phase verdict. */
   phase: string;
+  /** Largest |φA + φB − 1| of the network's densities on the evaluation grid, when the run recorded it. */
+  incompressibilityMax?: number;
 }
 
 /** One point of a parameter sweep (sweep table file): lengths in Rg, F in kT per chain. */

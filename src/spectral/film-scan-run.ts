@@ -8,7 +8,6 @@ import { buildChain } from '../physics/chain.js';
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { WallsDescription } from '../physics/cell/cell.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
-import { InputError } from '../io/errors.js';
 import { defaultContourSteps, defaultFilmPoints } from './resolution.js';
 import { analyseThickness, scanThickness } from './thickness-scan.js';
 import type { TerracePrediction, ThicknessPoint, ThicknessScan } from './thickness-scan.js';
@@ -32,15 +31,6 @@ export interface FilmScanResult extends ThicknessScan {
   ns: number;
   terraces?: TerracePrediction;
   seconds: number;
-}
-
-/** Parse `FROM:TO:POINTS` (Rg) of `flag`. */
-export function parseScanRange(flag: string, text: string): { from: number; to: number; points: number } {
-  const parts = text.split(':').map((p) => Number(p.trim()));
-  const [from, to, points] = parts;
-  if (parts.length !== 3 || !parts.every(Number.isFinite) || !(from > 0 && to > from) || !(Number.isInteger(points) && points >= 3 && points <= 400))
-    throw new InputError(`${flag}: got "${text}"; expected FROM:TO:POINTS in Rg with 0 < FROM < TO and 3 ≤ POINTS ≤ 400 (an integer), e.g. 3:12:37`);
-  return { from, to, points };
 }
 
 export function runFilmScan(req: FilmScanRequest): FilmScanResult {

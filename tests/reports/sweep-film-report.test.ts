@@ -14,7 +14,7 @@ import { solveFilm } from '../../src/spectral/film-solve.js';
 import { FilmCell } from '../../src/physics/cell/film-cell.js';
 import { scanThickness } from '../../src/spectral/thickness-scan.js';
 import { runInfo } from './fixtures.js';
-import { readFilmSweep } from '../../src/reports/readers/film-sweep.js';
+import { readSweep } from '../../src/reports/readers/sweep-file.js';
 import { commensurateThicknesses } from '../../src/reports/sections/film-sweep-section.js';
 import { sweepConfigSchema } from '../../src/io/schemas/sweep-config.js';
 import type { SweepTable } from '../../src/io/formats/sweep.js';
@@ -101,13 +101,14 @@ describe('film pages', () => {
     const input: ReportInput = {
       info: { ...runInfo('train'), system },
       film: { solution: r.solution, network, thickness: 3.7, walls: { bottom: 1, top: -1, range: 0.25 }, layers: r.layers },
-      networkMetrics: { phiA: { relativeL2: 4.04e-3, maxError: 9.1e-3 }, exchangeField: { relativeL2: 2e-2, maxError: 0.1 }, QRelativeError: 1e-3, freeEnergyError: -2.5e-4, freshResiduals: {}, phase: 'lamellar' },
+      networkMetrics: { phiA: { relativeL2: 4.04e-3, maxError: 9.1e-3 }, exchangeField: { relativeL2: 2e-2, maxError: 0.1 }, QRelativeError: 1e-3, freeEnergyError: -2.5e-4, freshResiduals: {}, phase: 'lamellar', incompressibilityMax: 1.1e-2 },
     };
     const path = pdfFile(renderPdf(buildReport(input)));
     const p1 = pdfText(path, 1);
     expect(p1).toMatch(/network φA error, relative L2 \(max\)\s+4\.04e-3 \(9\.10?e-3\)/);
     expect(p1).toMatch(/network F − reference F\s+-2\.50?e-4/);
     expect(p1).toMatch(/network density\s+lamellar/);
+    expect(p1).toMatch(/network max \|φA \+ φB − 1\|\s+1\.10e-2/);
     expect(p1).toContain('reference free energy F');
     const all = pdfText(path);
     for (const s of ['φA network', 'φA reference', 'φB network', 'φB reference', 'Δφ (–)', 'Δ(wA − wB) (kT)']) expect(all).toContain(s);
@@ -158,7 +159,8 @@ describe('film pages', () => {
       index, chiN: 15, f: 0.5, segmentRatio: 1, thickness: p.thickness, affinityBottom: 2, affinityTop: 2, freeEnergyPerArea: p.freeEnergyPerArea, layers: p.layers,
       phase: p.phase, period: null, periodTolerance: null, freeEnergy: p.freeEnergy, freeEnergyDisordered: null, freeEnergyExcess: null, Q: 1, iterations: 1, totalIterations: 1, evaluations: 1, residual: 0, converged: p.converged, seconds: 0, notes: [],
     }));
-    const film = readFilmSweep({ config, points } as unknown as SweepTable)!;
+    // Through the sweep reader, as `report` reads sweep.json.
+    const film = readSweep({ config, points } as unknown as SweepTable, 'sweep.json').sweep.film!;
     expect(film.scans.length).toBe(1);
     const [sc] = film.scans;
     expect(sc.minima.length).toBe(1);

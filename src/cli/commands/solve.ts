@@ -7,7 +7,7 @@ import { solutionFileSchema } from '../../io/formats/solution.js';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { solveOnWorker } from '../solve-on-worker.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
-import { parseScanRange } from '../../spectral/film-scan-run.js';
+import { parseScanRange } from '../scan-range-flag.js';
 import type { SolveRunOutput, SolveTask } from '../../spectral/solve-run.js';
 import { installStopHandlers, RunStopped } from '../../runtime/stop.js';
 import { action, parseDecimal } from '../run-command.js';

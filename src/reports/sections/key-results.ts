@@ -94,6 +94,8 @@ export function keyResults(input: ReportInput): MetricRow[] {
     const f = input.film;
     // A film train run leads with the network's error and verdict, as a periodic one does.
     if (net) rows.push(...networkRows(net, input));
+    // Between walls the φA error can hide a φB error at a wall: the sum shows it.
+    if (net?.incompressibilityMax !== undefined) rows.push({ name: 'network max |φA + φB − 1|', value: sci(net.incompressibilityMax), unit: '–' });
     const ref = net ? 'reference ' : '';
     rows.push({ name: 'film thickness H', value: periodText(f.thickness, rgNm, 5) });
     rows.push({ name: 'wall affinities for A, bottom / top', value: `${sig(f.walls.bottom, 4)} / ${sig(f.walls.top, 4)}`, unit: 'kT per chain' });
