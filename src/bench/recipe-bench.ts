@@ -15,6 +15,7 @@
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { TrainConfigInput } from '../io/schemas/train-config.js';
 import { trainRun } from '../training/train-run.js';
+import { median } from '../numerics/median.js';
 
 const LEVELS = [1e-3, 1e-4, 1e-5];
 
@@ -63,11 +64,6 @@ export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick
 interface Reach {
   seconds: number;
   steps: number;
-}
-
-function median(v: number[]): number {
-  const s = [...v].sort((a, b) => a - b);
-  return s.length % 2 ? s[(s.length - 1) / 2] : 0.5 * (s[s.length / 2 - 1] + s[s.length / 2]);
 }
 
 function stats(v: number[]): string {

@@ -76,6 +76,13 @@ export function numberFlag(name: string, value: string | undefined): number | un
   return r;
 }
 
+/** A flag that must be given, as a number `ok` accepts: a missing or refused value names the flag and what is allowed. */
+export function requiredFlag(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
+  if (v === undefined) throw new InputError(`${name}: missing; allowed: ${allowed}`);
+  if (!ok(v)) throw new InputError(`${name}: got ${v}; allowed: ${allowed}`);
+  return v;
+}
+
 const MAX_WORKERS = 64;
 
 /** --workers: worker threads, a whole number from 1 to 64; default min(2, cores). */

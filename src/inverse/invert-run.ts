@@ -9,7 +9,7 @@ import { synthTruthPath } from '../io/synth-output.js';
 import { InputError, asInputError } from '../io/errors.js';
 import { readInputText } from '../io/fs-errors.js';
 import type { InvertConfig } from '../io/schemas/invert-config.js';
-import { solutionToFile } from '../io/formats/solution.js';
+import { solutionText, solutionToFile } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
 import { installStopHandlers } from '../runtime/stop.js';
 import { estimateWithAssumedInputs } from './classical-with-inputs.js';
@@ -149,7 +149,7 @@ export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult
         // runSeconds: the wall time of the whole inversion (every estimator), for the report's title page.
         'result.json': inversionResultText({ ...result, runSeconds: (performance.now() - t0) / 1000 }),
         'fit.csv': fitCsv(data, estimate),
-        'solution.json': `${JSON.stringify(solutionToFile(estimate.solution, provenance(), config), null, 1)}\n`,
+        'solution.json': solutionText(solutionToFile(estimate.solution, provenance(), config)),
       }
     : null;
   return { result, files };

@@ -12,7 +12,8 @@
  *  - a surrogate checkpoint (checkpoint.json of kind "surrogate-checkpoint"): the error map
  *    and the training rounds (surrogate-input.ts);
  *  - a measurement fit: fit-bragg's or fit-spacing's result (io/formats/measurement-fits.ts),
- *    fit-scattering's (io/formats/scattering-fit.ts).
+ *    fit-scattering's (io/formats/scattering-fit.ts); a bragg-pattern result with its
+ *    pattern.csv (io/formats/bragg-pattern.ts).
  * The file formats are read in the readers/ files only. Anything missing or inconsistent is
  * an InputError naming the file and field.
  */
@@ -20,6 +21,8 @@ import { braggFitFileSchema, spacingFitFileSchema } from '../io/formats/measurem
 import { scatteringResultSchema } from '../io/formats/scattering-fit.js';
 import type { ScatteringResultFile } from '../io/formats/scattering-fit.js';
 import { scatteringFitInput } from './scattering-fit-report.js';
+import { braggPatternFileSchema, readBraggPatternCsv } from '../io/formats/bragg-pattern.js';
+import { braggPatternInput } from './bragg-pattern-report.js';
 import type { MeasurementFit } from './measurement-fit-input.js';
 import { measurementFitInput } from './measurement-fit-input.js';
 import { readdirSync, statSync } from 'node:fs';
@@ -179,6 +182,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
   let surrogate: ReportInput['surrogate'];
   let measurementFit: MeasurementFit | undefined;
   let scatteringFit: ScatteringResultFile | undefined;
+  let braggPattern: ReportInput | undefined;
   for (const name of names) {
     const path = join(dir, name);
     const raw = readJsonFile(path);
@@ -204,6 +208,9 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       measurementFit = { bragg: parseOrThrow(braggFitFileSchema, raw, path) };
     } else if (kind === 'spacing-fit') {
       measurementFit = { spacing: parseOrThrow(spacingFitFileSchema, raw, path) };
+    } else if (kind === 'bragg-pattern') {
+      // The drawn pattern is the pattern.csv written beside the result (io/formats/bragg-pattern.ts).
+      braggPattern = braggPatternInput(dir, parseOrThrow(braggPatternFileSchema, raw, path), readBraggPatternCsv(join(dir, 'pattern.csv')));
     } else if (kind === 'fit-scattering-result') {
       scatteringFit = parseOrThrow(scatteringResultSchema, raw, path);
     } else if (kind === 'checkpoint') {
@@ -229,6 +236,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
     }
     read.push(path);
   }
+  if (solutions.length === 0 && braggPattern) return { input: braggPattern, read, notes };
   if (solutions.length === 0 && scatteringFit) return { input: scatteringFitInput(dir, scatteringFit), read, notes };
   if (solutions.length === 0 && measurementFit) return { input: measurementFitInput(dir, measurementFit), read, notes };
   if (solutions.length === 0 && sweep) return { input: sweepRun(dir, sweep, sweepProvenance!), read, notes };

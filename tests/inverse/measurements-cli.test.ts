@@ -92,5 +92,9 @@ describe('bragg-pattern', () => {
     expect(pattern.length).toBeGreaterThan(100);
     expect(r.stdout).toMatch(/^lamella at χN = 20: period D = [\d.]+ nm/);
     expect(pdfText(join(out, 'report', 'report.pdf'))).toMatch(/Bragg pattern of the lamella at χN = 20/);
+    // `report DIR` reads result.json and pattern.csv back through their format and draws the same page.
+    const again = runCli(['report', out, '--out', join(out, 'again'), '--format', 'pdf', '--quiet']);
+    expect(again.code, again.stderr).toBe(0);
+    expect(pdfText(join(out, 'again', 'report.pdf'))).toMatch(/Bragg pattern of the lamella at χN = 20/);
   });
 });

@@ -26,6 +26,7 @@ import { provenance } from '../../src/io/versions.js';
 import { BRAGG_PATTERN_VERSION, braggPatternFileSchema, braggPatternFiles } from '../../src/io/formats/bragg-pattern.js';
 import { SCATTERING_FIT_VERSION, scatteringFitFiles, scatteringResultSchema } from '../../src/io/formats/scattering-fit.js';
 import { scatteringConfigSchema } from '../../src/io/schemas/scattering-config.js';
+import { BRAGG_FIT_VERSION, SPACING_FIT_VERSION, braggFitFileSchema, spacingFitFileSchema } from '../../src/io/formats/measurement-fits.js';
 import { runBraggPattern } from '../../src/inverse/bragg/run-bragg-pattern.js';
 import { runScatteringFit } from '../../src/inverse/scattering/run-scattering-fit.js';
 import { scatteringCsv, syntheticScattering } from '../helpers/debye-scattering.js';
@@ -303,5 +304,69 @@ describe('file formats', () => {
     writeFileSync(join(dir, 'result.json'), files['result.json']);
     expect(readFormat(join(dir, 'result.json'), scatteringResultSchema)).toEqual(result);
     roundTrip(scatteringResultSchema, result, 'fit-scattering-result', SCATTERING_FIT_VERSION);
+  });
+
+  // fit-bragg and fit-spacing runs take tens of seconds (tests/inverse run them): here the files are built from the schemas' rules (format checks only).
+  const flags = { lo: false, hi: false };
+  it('bragg-fit', () => {
+    roundTrip(
+      braggFitFileSchema,
+      {
+        kind: 'bragg-fit',
+        version: BRAGG_FIT_VERSION,
+        provenance: provenance(),
+        config: { version: 2, kind: 'fit-bragg' },
+        file: 'peaks.csv',
+        qUnit: 'per_nm',
+        assumptions: ['test'],
+        chiN: 18,
+        intervals: { '68.3%': { lo: 17.9, hi: 18.1, limitedByRange: flags }, '95%': { lo: 17.8, hi: 18.2, limitedByRange: flags } },
+        thresholds: { '68.3%': 1, '95%': 3.84 },
+        periodNm: 20,
+        periodNmSd: 0.1,
+        period: 3.4,
+        impliedRgNm: 5.9,
+        K: 1000,
+        chi2: 1.2,
+        dof: 2,
+        peaks: [{ order: 1, q: 0.31, I: 1000, dI: 30, relative: 1, model: 1000, normalisedResidual: 0 }],
+        profile: [{ chiN: 18, deltaChi2: 0 }],
+        rgTie: null,
+        notes: [],
+        evaluations: 40,
+        seconds: 2,
+      },
+      'bragg-fit',
+      BRAGG_FIT_VERSION,
+    );
+  });
+
+  it('spacing-fit', () => {
+    roundTrip(
+      spacingFitFileSchema,
+      {
+        kind: 'spacing-fit',
+        version: SPACING_FIT_VERSION,
+        provenance: provenance(),
+        config: { version: 2, kind: 'fit-spacing' },
+        file: 'spacing.csv',
+        assumptions: ['test'],
+        chi: 0.1,
+        b: 0.6,
+        intervals: { '68.3%': { chi: [0.09, 0.11], b: [0.59, 0.61], limitedByRange: flags }, '95%': { chi: [0.08, 0.12], b: [0.58, 0.62], limitedByRange: flags } },
+        thresholds: { '68.3%': 1, '95%': 3.84 },
+        chi2: 1,
+        dof: 1,
+        sigma: { source: 'estimated', value: 0.2 },
+        chiRange: [0.05, 0.3],
+        points: [{ N: 200, D: 20, dD: null, chiN: 20, period: 4, model: 20 }],
+        profile: [{ chi: 0.1, deltaChi2: 0 }],
+        notes: [],
+        evaluations: 20,
+        seconds: 1,
+      },
+      'spacing-fit',
+      SPACING_FIT_VERSION,
+    );
   });
 });

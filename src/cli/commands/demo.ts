@@ -13,7 +13,7 @@ import type { OutputDirectory } from '../../io/output-directory.js';
 import { parseOrThrow } from '../../io/errors.js';
 import { solveConfigSchema } from '../../io/schemas/solve-config.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
-import { solutionToFile } from '../../io/formats/solution.js';
+import { solutionText, solutionToFile } from '../../io/formats/solution.js';
 import type { SolutionFile } from '../../io/formats/solution.js';
 import { formatNumber } from '../../io/number-format.js';
 import { formatText } from '../../io/formats/file-format.js';
@@ -171,7 +171,7 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean },
     }),
     'inversion/result.json': inversionResultText(result),
     'inversion/fit.csv': fitCsv(data, est),
-    'inversion/solution.json': `${JSON.stringify(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true }), null, 1)}\n`,
+    'inversion/solution.json': solutionText(solutionToFile(est.solution, provenance(), { kind: 'invert', demo: true })),
   });
   const invReport = report(invDir, join(invDir, 'report'));
   const m = tr.metrics;

@@ -8,7 +8,7 @@ import { formatText, throughSchema } from '../../io/formats/file-format.js';
 import { FILM_REFLECTIVITY_VERSION, filmReflectivitySchema } from '../../io/formats/film.js';
 import { InputError, asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
-import { action, numberFlag } from '../run-command.js';
+import { action, numberFlag, requiredFlag } from '../run-command.js';
 import { claimOut, withOutput } from '../run-output.js';
 import type { FilmFitFlags } from './film-fit-command.js';
 import { numberList, sldFlag } from './film-flags.js';
@@ -18,29 +18,23 @@ interface ReflectivityFlags extends FilmFitFlags {
   points?: string;
 }
 
-function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
-  if (v === undefined) throw new InputError(`${name}: missing; allowed: ${allowed}`);
-  if (!ok(v)) throw new InputError(`${name}: got ${v}; allowed: ${allowed}`);
-  return v;
-}
-
 async function computeCurve(flags: ReflectivityFlags): Promise<void> {
-  const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
-  const chiN = need('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 200, 'a number in (0, 200]');
-  const rgNm = need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0 && v < 1000, 'Rg in nm, a number > 0 (Q is in Å⁻¹, so lengths need nm)');
-  const H = need('--film', numberFlag('--film', flags.film), (v) => v > 0 && v / rgNm <= 500, 'the film thickness in nm, > 0');
+  const f = requiredFlag('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
+  const chiN = requiredFlag('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 200, 'a number in (0, 200]');
+  const rgNm = requiredFlag('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0 && v < 1000, 'Rg in nm, a number > 0 (Q is in Å⁻¹, so lengths need nm)');
+  const H = requiredFlag('--film', numberFlag('--film', flags.film), (v) => v > 0 && v / rgNm <= 500, 'the film thickness in nm, > 0');
   const [bottom, top] = numberList('--affinity', flags.affinity, 2, '1,-0.5 (bottom, top)') ?? [0, 0];
   const sld = sldFlag(flags.sld);
   if (!sld) throw new InputError('--sld: missing; give the SLDs of A, B, the substrate and the medium in 10⁻⁶ Å⁻² (e.g. 6.0,1.0,2.07,0)');
-  const width = need('--resolution', numberFlag('--resolution', flags.resolution ?? '0.5'), (v) => v >= 0 && v < H, 'the interface width in nm, ≥ 0 and below the thickness');
-  const dq = need('--dq-over-q', numberFlag('--dq-over-q', flags.dqOverQ ?? '0.05'), (v) => v >= 0 && v <= 0.5, 'the FWHM of the Q resolution relative to Q, in [0, 0.5]');
-  const bg = need('--background', numberFlag('--background', flags.background ?? '0'), (v) => v >= 0, 'a background ≥ 0');
+  const width = requiredFlag('--resolution', numberFlag('--resolution', flags.resolution ?? '0.5'), (v) => v >= 0 && v < H, 'the interface width in nm, ≥ 0 and below the thickness');
+  const dq = requiredFlag('--dq-over-q', numberFlag('--dq-over-q', flags.dqOverQ ?? '0.05'), (v) => v >= 0 && v <= 0.5, 'the FWHM of the Q resolution relative to Q, in [0, 0.5]');
+  const bg = requiredFlag('--background', numberFlag('--background', flags.background ?? '0'), (v) => v >= 0, 'a background ≥ 0');
   const [q0, q1] = numberList('--q-range', flags.qRange ?? '0.005,0.2', 2, '0.005,0.2 (Å⁻¹)')!;
   if (!(q0 > 0 && q1 > q0)) throw new InputError(`--q-range: got ${flags.qRange}; allowed: 0 < lo < hi, in Å⁻¹`);
-  const points = need('--points', numberFlag('--points', flags.points ?? '300'), (v) => Number.isInteger(v) && v >= 2 && v <= 100000, 'an integer from 2 to 100000');
-  const nx = need('--nx', numberFlag('--nx', flags.nx ?? '64'), (v) => Number.isInteger(v) && v >= 8 && (v & (v - 1)) === 0, 'a power of two ≥ 8');
-  const ns = need('--ns', numberFlag('--ns', flags.ns ?? '100'), (v) => Number.isInteger(v) && v >= 4, 'an integer ≥ 4');
-  const wallRange = need('--wall-range', numberFlag('--wall-range', flags.wallRange ?? '0.25'), (v) => v > 0 && v <= 5, 'the surface-field range in Rg, in (0, 5]');
+  const points = requiredFlag('--points', numberFlag('--points', flags.points ?? '300'), (v) => Number.isInteger(v) && v >= 2 && v <= 100000, 'an integer from 2 to 100000');
+  const nx = requiredFlag('--nx', numberFlag('--nx', flags.nx ?? '64'), (v) => Number.isInteger(v) && v >= 8 && (v & (v - 1)) === 0, 'a power of two ≥ 8');
+  const ns = requiredFlag('--ns', numberFlag('--ns', flags.ns ?? '100'), (v) => Number.isInteger(v) && v >= 4, 'an integer ≥ 4');
+  const wallRange = requiredFlag('--wall-range', numberFlag('--wall-range', flags.wallRange ?? '0.25'), (v) => v > 0 && v <= 5, 'the surface-field range in Rg, in (0, 5]');
   const q = Float64Array.from({ length: points }, (_, i) => q0 + ((q1 - q0) * i) / (points - 1));
   const out = claimOut(flags, 'reflectivity');
   await withOutput(out, () => writeCurve(flags, { f, chiN, rgNm, H, bottom, top, sld, width, dq, bg, q0, q1, points, nx, ns, wallRange, q }, out));

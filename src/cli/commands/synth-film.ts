@@ -10,7 +10,7 @@ import { filmSynthTruthSchema } from '../../io/formats/film.js';
 import { provenance } from '../../io/versions.js';
 import { filmSynthFiles, synthesizeFilm } from '../../inverse/film/film-synth.js';
 import type { FilmSynthSettings } from '../../inverse/film/film-synth.js';
-import { numberFlag } from '../run-command.js';
+import { numberFlag, requiredFlag } from '../run-command.js';
 import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
 import { claimOut, withOutput } from '../run-output.js';
 import { numberList, sldFlag } from './film-flags.js';
@@ -38,37 +38,31 @@ export interface SynthFilmFlags {
   quiet?: boolean;
 }
 
-function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
-  if (v === undefined) throw new InputError(`${name}: missing; allowed: ${allowed}`);
-  if (!ok(v)) throw new InputError(`${name}: got ${v}; allowed: ${allowed}`);
-  return v;
-}
-
 export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
   const kinds = ['phi', 'sld', 'reflectivity'] as const;
   const kind = kinds.find((k) => k === flags.measure);
   if (!kind) throw new InputError(`--measure: got ${JSON.stringify(flags.measure)}; allowed: phi, sld, reflectivity`);
-  const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
-  const chiN = need('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 200, 'a number in (0, 200]');
+  const f = requiredFlag('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
+  const chiN = requiredFlag('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 200, 'a number in (0, 200]');
   // Lengths in the data's units (one convention with invert --film and reflectivity): nm with --rg-nm, else Rg.
-  const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0 && v < 1000, 'Rg in nm, a number > 0');
+  const rgNm = flags.rgNm === undefined ? undefined : requiredFlag('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0 && v < 1000, 'Rg in nm, a number > 0');
   const unit = rgNm === undefined ? 'Rg' : 'nm';
   const scale = rgNm ?? 1;
-  const thickness = need('--film', numberFlag('--film', flags.film), (v) => v > 0 && v / scale <= 500, `a thickness in ${unit}, in (0, ${500 * scale}]`) / scale;
+  const thickness = requiredFlag('--film', numberFlag('--film', flags.film), (v) => v > 0 && v / scale <= 500, `a thickness in ${unit}, in (0, ${500 * scale}]`) / scale;
   const [bottom, top] = numberList('--affinity', flags.affinity, 2, '1,-0.5 (bottom, top)')!;
-  const points = need('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
-  const noise = need('--noise', numberFlag('--noise', flags.noise), (v) => v >= 0 && v < 1, kind === 'reflectivity' ? 'the relative error of R, in (0, 1)' : kind === 'sld' ? 'the SLD noise in 10⁻⁶ Å⁻², in [0, 1)' : 'a standard deviation of φA in [0, 1)');
+  const points = requiredFlag('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
+  const noise = requiredFlag('--noise', numberFlag('--noise', flags.noise), (v) => v >= 0 && v < 1, kind === 'reflectivity' ? 'the relative error of R, in (0, 1)' : kind === 'sld' ? 'the SLD noise in 10⁻⁶ Å⁻², in [0, 1)' : 'a standard deviation of φA in [0, 1)');
   if (kind === 'reflectivity' && !(noise > 0)) throw new InputError('--noise: got 0; a reflectivity curve needs its relative error dR/R > 0 (e.g. 0.05): a fit weighs each point by dR');
-  const seed = need('--seed', numberFlag('--seed', flags.seed), (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'an integer in [0, 4294967295]');
-  const offset = need('--offset', numberFlag('--offset', flags.offset), Number.isFinite, `a position in ${unit}`) / scale;
-  const width = need('--resolution', numberFlag('--resolution', flags.resolution), (v) => v >= 0 && v / scale < thickness / 4, `an interface width in ${unit}, ≥ 0 and below a quarter of the thickness`) / scale;
-  const nx = need('--nx', numberFlag('--nx', flags.nx), (v) => Number.isInteger(v) && v >= 8 && (v & (v - 1)) === 0, 'a power of two ≥ 8');
-  const ns = need('--ns', numberFlag('--ns', flags.ns), (v) => Number.isInteger(v) && v >= 4, 'an integer ≥ 4');
-  const wallRange = need('--wall-range', numberFlag('--wall-range', flags.wallRange), (v) => v > 0 && v <= 5, 'a range in Rg, in (0, 5]');
+  const seed = requiredFlag('--seed', numberFlag('--seed', flags.seed), (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'an integer in [0, 4294967295]');
+  const offset = requiredFlag('--offset', numberFlag('--offset', flags.offset), Number.isFinite, `a position in ${unit}`) / scale;
+  const width = requiredFlag('--resolution', numberFlag('--resolution', flags.resolution), (v) => v >= 0 && v / scale < thickness / 4, `an interface width in ${unit}, ≥ 0 and below a quarter of the thickness`) / scale;
+  const nx = requiredFlag('--nx', numberFlag('--nx', flags.nx), (v) => Number.isInteger(v) && v >= 8 && (v & (v - 1)) === 0, 'a power of two ≥ 8');
+  const ns = requiredFlag('--ns', numberFlag('--ns', flags.ns), (v) => Number.isInteger(v) && v >= 4, 'an integer ≥ 4');
+  const wallRange = requiredFlag('--wall-range', numberFlag('--wall-range', flags.wallRange), (v) => v > 0 && v <= 5, 'a range in Rg, in (0, 5]');
   const sld = sldFlag(flags.sld);
   if (kind !== 'phi' && !sld) throw new InputError(`--sld: missing; --measure ${kind} needs the SLDs of A, B, the substrate and the medium in 10⁻⁶ Å⁻² (e.g. 6.0,1.0,2.07,0)`);
   if (kind === 'reflectivity' && rgNm === undefined) throw new InputError('--rg-nm: missing; --measure reflectivity needs Rg in nm (Q is in Å⁻¹)');
-  const dq = need('--dq-over-q', numberFlag('--dq-over-q', flags.dqOverQ), (v) => v >= 0 && v <= 0.5, 'the FWHM of the Q resolution relative to Q, in [0, 0.5]');
+  const dq = requiredFlag('--dq-over-q', numberFlag('--dq-over-q', flags.dqOverQ), (v) => v >= 0 && v <= 0.5, 'the FWHM of the Q resolution relative to Q, in [0, 0.5]');
   const qRange = numberList('--q-range', flags.qRange, 2, '0.008,0.2 (Å⁻¹)') as [number, number];
   if (!(qRange[0] > 0 && qRange[1] > qRange[0])) throw new InputError(`--q-range: got ${flags.qRange}; allowed: 0 < lo < hi, in Å⁻¹`);
   const S = 1e-6;

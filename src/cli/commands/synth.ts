@@ -5,40 +5,16 @@ import type { SynthTruth } from '../../io/formats/synth-truth.js';
 import type { Command } from 'commander';
 import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
 import { claimOut, withOutput } from '../run-output.js';
-import { InputError, asInputError } from '../../io/errors.js';
+import { asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
-import { action, numberFlag } from '../run-command.js';
+import { action, numberFlag, requiredFlag } from '../run-command.js';
+import type { SynthFilmFlags } from './synth-film.js';
 
-interface SynthFlags {
-  f?: string;
-  chiN?: string;
-  points: string;
-  noise: string;
-  seed: string;
+/** The flags of `synth --film` and the two of the periodic profile only. */
+interface SynthFlags extends SynthFilmFlags {
   periods: string;
-  offset: string;
   period: string;
-  resolution: string;
-  nx: string;
-  ns: string;
-  rgNm?: string;
-  out?: string;
-  overwrite?: boolean;
-  quiet?: boolean;
-  film?: string;
-  affinity?: string;
-  measure?: string;
-  sld?: string;
-  dqOverQ?: string;
-  qRange?: string;
-  wallRange?: string;
-}
-
-function need(name: string, v: number | undefined, ok: (v: number) => boolean, allowed: string): number {
-  if (v === undefined) throw new InputError(`${name}: missing; allowed: ${allowed}`);
-  if (!ok(v)) throw new InputError(`${name}: got ${v}; allowed: ${allowed}`);
-  return v;
 }
 
 export function registerSynth(program: Command): void {
@@ -73,18 +49,18 @@ export function registerSynth(program: Command): void {
           const { synthFilmCommand } = await import('./synth-film.js');
           return synthFilmCommand(flags);
         }
-        const f = need('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
-        const chiN = need('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 500, 'a number in (0, 500]');
-        const points = need('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
-        const noise = need('--noise', numberFlag('--noise', flags.noise), (v) => v >= 0 && v < 1, 'a standard deviation in [0, 1)');
-        const seed = need('--seed', numberFlag('--seed', flags.seed), (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'an integer in [0, 4294967295]');
-        const periods = need('--periods', numberFlag('--periods', flags.periods), (v) => v > 0 && v <= 1000, 'a number of periods > 0');
-        const offset = need('--offset', numberFlag('--offset', flags.offset), Number.isFinite, 'a position in Rg');
-        const period = flags.period === 'equilibrium' ? 'equilibrium' : need('--period', numberFlag('--period', flags.period), (v) => v > 0 && v <= 200, 'a period in Rg in (0, 200], or "equilibrium"');
-        const resolution = need('--resolution', numberFlag('--resolution', flags.resolution), (v) => v >= 0, 'a standard deviation ≥ 0 in Rg');
-        const nx = need('--nx', numberFlag('--nx', flags.nx), Number.isInteger, 'a power of two');
-        const ns = need('--ns', numberFlag('--ns', flags.ns), Number.isInteger, 'an even integer');
-        const rgNm = flags.rgNm === undefined ? undefined : need('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
+        const f = requiredFlag('--f', numberFlag('--f', flags.f), (v) => v > 0 && v < 1, 'the A fraction, 0 < f < 1');
+        const chiN = requiredFlag('--chiN', numberFlag('--chiN', flags.chiN), (v) => v > 0 && v <= 500, 'a number in (0, 500]');
+        const points = requiredFlag('--points', numberFlag('--points', flags.points), (v) => Number.isInteger(v) && v >= 2 && v <= 1_000_000, 'an integer ≥ 2');
+        const noise = requiredFlag('--noise', numberFlag('--noise', flags.noise), (v) => v >= 0 && v < 1, 'a standard deviation in [0, 1)');
+        const seed = requiredFlag('--seed', numberFlag('--seed', flags.seed), (v) => Number.isInteger(v) && v >= 0 && v <= 0xffffffff, 'an integer in [0, 4294967295]');
+        const periods = requiredFlag('--periods', numberFlag('--periods', flags.periods), (v) => v > 0 && v <= 1000, 'a number of periods > 0');
+        const offset = requiredFlag('--offset', numberFlag('--offset', flags.offset), Number.isFinite, 'a position in Rg');
+        const period = flags.period === 'equilibrium' ? 'equilibrium' : requiredFlag('--period', numberFlag('--period', flags.period), (v) => v > 0 && v <= 200, 'a period in Rg in (0, 200], or "equilibrium"');
+        const resolution = requiredFlag('--resolution', numberFlag('--resolution', flags.resolution), (v) => v >= 0, 'a standard deviation ≥ 0 in Rg');
+        const nx = requiredFlag('--nx', numberFlag('--nx', flags.nx), Number.isInteger, 'a power of two');
+        const ns = requiredFlag('--ns', numberFlag('--ns', flags.ns), Number.isInteger, 'an even integer');
+        const rgNm = flags.rgNm === undefined ? undefined : requiredFlag('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
         const chain = { type: 'diblock' as const, f, segmentRatio: 1 };
         const out = claimOut(flags, 'synth');
         await withOutput(out, () => {

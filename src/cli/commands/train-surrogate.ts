@@ -9,13 +9,15 @@ import { formatDuration, Progress, RunProgress } from '../progress.js';
 import { installStopHandlers } from '../../runtime/stop.js';
 import type { TrainFlags } from './train-flags.js';
 import { backendFlag } from './train-flags.js';
+import { PARAMETER_LABELS } from '../../surrogate/parameter-space.js';
+import type { ParameterName } from '../../surrogate/parameter-space.js';
 
 const sci = (v: number) => (Number.isFinite(v) ? v.toExponential(2) : String(v));
 
 function rangeText(m: SurrogateMetrics): string {
-  const names: Record<string, string> = { chiN: 'χN', f: 'f', segmentRatio: 'b_A/b_B' };
-  const varying = m.parameters.map((a) => `${names[a.name]} in [${a.min}, ${a.max}] (${a.anchors} anchors)`);
-  const fixed = Object.entries(m.fixed).map(([k, v]) => `${names[k]} = ${v}`);
+  const names = (k: string) => PARAMETER_LABELS[k as ParameterName]?.symbol ?? k;
+  const varying = m.parameters.map((a) => `${names(a.name)} in [${a.min}, ${a.max}] (${a.anchors} anchors)`);
+  const fixed = Object.entries(m.fixed).map(([k, v]) => `${names(k)} = ${v}`);
   return [...varying, ...fixed].join(', ');
 }
 

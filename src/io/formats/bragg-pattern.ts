@@ -3,10 +3,13 @@
  * a lamella predicted from a solution file; and its two CSV files, written here from the same
  * values: peaks.csv (order, q, I_n/I_1) and pattern.csv (q, I of the drawn pattern of Gaussian
  * peaks of area I_n/I_1). q in `qUnit` (1/Rg, or nm⁻¹ when an Rg in nm was given); the period
- * in Rg (and in nm with an Rg); the peak width is a standard deviation in q's unit.
+ * in Rg (and in nm with an Rg); the peak width is a standard deviation in q's unit. pattern.csv
+ * is read back here too (readBraggPatternCsv), for `report DIR`.
  */
 import { z } from 'zod';
 import { systemSchema } from '../../physics/chain-schema.js';
+import { parseColumnCsv } from '../column-csv.js';
+import { readInputText } from '../fs-errors.js';
 import { formatHeader, formatText, provenanceSchema } from './file-format.js';
 
 export const BRAGG_PATTERN_VERSION = 1;
@@ -46,6 +49,12 @@ export function braggPeaksCsv(file: BraggPatternFile): string {
 
 export function braggPatternCsv(curve: BraggPatternCurve): string {
   return `q,I\n${curve.q.map((q, i) => `${q},${curve.I[i]}`).join('\n')}\n`;
+}
+
+/** pattern.csv read back (what `report DIR` draws). */
+export function readBraggPatternCsv(path: string): BraggPatternCurve {
+  const d = parseColumnCsv(readInputText(path), path, ['q', 'I']);
+  return { q: Array.from(d.columns.q), I: Array.from(d.columns.I) };
 }
 
 /** Every file of a bragg-pattern --out. */

@@ -6,6 +6,7 @@
 import type { EstimatorBlockFile, InversionResultFile } from '../../io/formats/inversion.js';
 import { sig } from '../format.js';
 import type { InversionInput, MetricRow } from '../report-inputs.js';
+import { PARAMETER_LABELS } from '../../surrogate/parameter-space.js';
 
 export interface InversionRead {
   inversion?: InversionInput;
@@ -33,7 +34,7 @@ interface AssumedBlock {
   sensitivity?: { relativeStep: number; chiNAtMinus: number; chiNAtPlus: number };
 }
 
-const INPUT_NAMES: Record<string, string> = { f: 'f', segmentRatio: 'b_A/b_B' };
+const INPUT_NAMES = (key: 'f' | 'segmentRatio') => PARAMETER_LABELS[key].symbol;
 
 /**
  * What the χN rests on, for the title page: each assumed input (Rg when x is in nm, f, the
@@ -53,11 +54,11 @@ function restsOn(file: InversionResultFile, e: EstimatorBlockFile): string[] {
       lines.push(`Rg = ${sig(units.rgNm, 4)} nm taken as exact: Rg ${pct} % smaller gives χN = ${sig(a.sensitivity.chiNAtMinus, 4)}, ${pct} % larger gives ${sig(a.sensitivity.chiNAtPlus, 4)}; the interval does not include this (give --rg-nm-sd, or --period free to remove the dependence).`);
     } else lines.push(`Rg = ${sig(units.rgNm, 4)} nm sets the length scale; with the period ${e.periodMode === 'free' ? 'fitted (free), χN does not depend on it' : 'given, χN depends on it through the period in Rg'}.`);
   } else lines.push('x in Rg: no Rg in nm enters the fit.');
-  for (const key of ['f', 'segmentRatio']) {
+  for (const key of ['f', 'segmentRatio'] as const) {
     const x = effect(key);
     const value = key === 'f' ? chain.f : (chain.segmentRatio ?? 1);
-    if (x) lines.push(`${INPUT_NAMES[key]} = ${sig(x.value, 4)} ± ${sig(x.sd, 2)}: χN = ${sig(x.chiNAtMinus, 4)} at −1 sd and ${sig(x.chiNAtPlus, 4)} at +1 sd; adds an sd of ${sig(x.chiNSd, 2)} to χN, included in the interval.`);
-    else if (value !== undefined) lines.push(`${INPUT_NAMES[key]} = ${sig(value, 4)} taken as exact (an sd with --${key === 'f' ? 'f-sd' : 'segment-ratio-sd'} would enter the interval).`);
+    if (x) lines.push(`${INPUT_NAMES(key)} = ${sig(x.value, 4)} ± ${sig(x.sd, 2)}: χN = ${sig(x.chiNAtMinus, 4)} at −1 sd and ${sig(x.chiNAtPlus, 4)} at +1 sd; adds an sd of ${sig(x.chiNSd, 2)} to χN, included in the interval.`);
+    else if (value !== undefined) lines.push(`${INPUT_NAMES(key)} = ${sig(value, 4)} taken as exact (an sd with --${key === 'f' ? 'f-sd' : 'segment-ratio-sd'} would enter the interval).`);
   }
   if (a?.statisticalInterval && (a.rgProfile || a.effects?.length)) {
     const dataOnly = (e as { chiNDataOnly?: number }).chiNDataOnly;

@@ -12,6 +12,7 @@ import { CONTENT_WIDTH } from '../style.js';
 import { sci, sig } from '../format.js';
 import { phaseText } from './key-results.js';
 import { sweepSeries } from './sweep-analysis.js';
+import { PARAMETER_LABELS } from '../../surrogate/parameter-space.js';
 import type { SweepSeries } from './sweep-analysis.js';
 import type { ReportSection } from './section.js';
 
@@ -28,7 +29,7 @@ function groups(s: SweepInput, x: Axis): { label: string; points: SweepPointInpu
   const others = (['chiN', 'f', 'segmentRatio'] as const).filter((k) => k !== x && distinct(s.points, k) > 1);
   const map = new Map<string, SweepPointInput[]>();
   for (const p of s.points) {
-    const key = others.map((k) => `${k === 'chiN' ? 'χN' : k === 'f' ? 'f' : 'b_A/b_B'} = ${sig(p[k], 4)}`).join(', ');
+    const key = others.map((k) => `${PARAMETER_LABELS[k].symbol} = ${sig(p[k], 4)}`).join(', ');
     if (!map.has(key)) map.set(key, []);
     map.get(key)!.push(p);
   }
