@@ -62,14 +62,18 @@ export interface InvertRunResult {
   files: Record<string, string> | null;
 }
 
+/** The profile CSV, read and checked (InputError naming the file, the line and the column otherwise). */
+export function readProfile(profilePath: string, config: InvertConfig): ReturnType<typeof parseProfileCsv> {
+  return parseProfileCsv(readInputText(profilePath), profilePath, lengthUnits(config.units ?? {}));
+}
+
 export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult> {
   const t0 = performance.now();
   const { config, sources, profilePath } = opts;
   const step = opts.onStep ?? (() => {});
   const done = opts.onEstimator ?? (() => {});
   const units = lengthUnits(config.units ?? {});
-  const text = readInputText(profilePath);
-  const data = parseProfileCsv(text, profilePath, units);
+  const data = readProfile(profilePath, config);
   const toRg = (v: number) => (units.x === 'nm' ? v / units.rgNm! : v);
   const period: PeriodMode = typeof config.cell.period === 'number' ? { mode: 'given', value: toRg(config.cell.period) } : { mode: config.cell.period };
   let evaluations = 0;

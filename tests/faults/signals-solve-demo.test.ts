@@ -3,8 +3,11 @@
  * signals.test.ts):
  * - solve: SIGINT/SIGTERM mid-search → 130/143 at once, nothing written, a previous output untouched.
  * - demo: SIGINT mid-training → 130, the finished parts kept and marked incomplete.
+ * - loops that used to run to their end: a classical invert's χN search (SIGINT → 130 at once,
+ *   a previous output untouched), the surrogate's fit (SIGTERM → 143 within a step), the
+ *   demo's reference solve (SIGINT → 130 at once).
  */
-import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -60,6 +63,66 @@ describe('signals: solve and demo', () => {
     expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
     counts['clear error or stop']++;
   }, 240_000);
+});
+
+describe('signals: loops that ran to their end (classical invert, surrogate fit, the demo\'s solve)', () => {
+  it('invert (classical): SIGINT during the χN search ends it at once, exit 130; nothing written, the previous output untouched', async () => {
+    counts.tried++;
+    const dir = tmp();
+    const synth = start(['synth', '--f', '0.5', '--chiN', '15', '--points', '64', '--nx', '32', '--ns', '40', '--out', join(dir, 'synth')]);
+    expect((await synth.code).code, synth.stderr()).toBe(0);
+    const csv = join(dir, 'synth', 'profile.csv');
+    const out = join(dir, 'inv');
+    const first = start(['invert', csv, '--f', '0.5', '--nx', '16', '--ns', '20', '--out', out, '--quiet']);
+    expect((await first.code).code, first.stderr()).toBe(0);
+    const before = ['result.json', 'fit.csv', 'solution.json', '.mesofield-output.json'].map((n) => readFileSync(join(out, n)));
+    // A fine grid: each χN evaluation takes a while, and the whole fit far longer than the wait for a stop.
+    const p = start(['invert', csv, '--f', '0.5', '--nx', '64', '--ns', '400', '--out', out, '--overwrite']);
+    await p.waitFor(/classical fit \d+\//, 120_000);
+    p.kill('SIGINT');
+    const r = await p.code;
+    expect(r.code, p.stderr()).toBe(130);
+    expect(p.stderr()).toMatch(/invert: Ctrl-C: stopping the fit; nothing will be written/);
+    expect(p.stderr()).toMatch(/invert stopped by a signal during the classical fit; nothing was written \(.*inv was left as it was\)/);
+    // Stopped mid-search: the fit's closing line never came.
+    expect(p.stderr()).not.toMatch(/invert: χN = [\d.]+ in/);
+    ['result.json', 'fit.csv', 'solution.json', '.mesofield-output.json'].forEach((n, i) => expect(readFileSync(join(out, n)).equals(before[i]), n).toBe(true));
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    counts['clear error or stop']++;
+  }, 180_000);
+
+  it('train (surrogate): SIGTERM while fitting the field network stops within a step, exit 143, nothing saved', async () => {
+    counts.tried++;
+    const dir = tmp();
+    const cfg = join(dir, 'su.json');
+    // A fit far longer than the test: only a stop inside it ends the run.
+    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'surrogate', backend: 'wasm', parameters: { chiN: { min: 13, max: 17, anchors: 3 } }, cell: { nx: 16, ns: 20 }, warmStart: { extraSolves: 0, adamSteps: 100000, lbfgsIterations: 0 }, training: { rounds: 1, pointsPerRound: 2 }, evaluation: { random: 0 } }));
+    const out = join(dir, 'ck');
+    const p = start(['train', cfg, '--out', out]);
+    await p.waitFor(/fitting the field network/, 120_000);
+    await new Promise((res) => setTimeout(res, 500));
+    p.kill('SIGTERM');
+    const r = await p.code;
+    expect(r.code, p.stderr()).toBe(143);
+    expect(p.stderr()).toMatch(/surrogate training stopped by a signal while fitting the field network; nothing was saved/);
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    counts['clear error or stop']++;
+  }, 180_000);
+
+  it('demo: SIGINT during the reference solve ends it at once, exit 130', async () => {
+    counts.tried++;
+    const dir = tmp();
+    const out = join(dir, 'demo');
+    const p = start(['demo', '--out', out, '--backend', 'wasm']);
+    await p.waitFor(/1\/3 reference solve/, 120_000);
+    p.kill('SIGINT');
+    const r = await p.code;
+    expect(r.code, p.stderr()).toBe(130);
+    expect(p.stderr()).toMatch(/demo stopped by a signal after nothing \(it was in the reference solve\)/);
+    expect(existsSync(join(out, 'reference', 'solution.json'))).toBe(false);
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    counts['clear error or stop']++;
+  }, 180_000);
 });
 
 afterAll(() => {

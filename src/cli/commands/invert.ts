@@ -160,7 +160,9 @@ export function registerInvert(program: Command): void {
 
 async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<void> {
   const progress = new Progress('invert', flags.quiet);
-  const { invertRun, invertPhases } = await import('../../inverse/invert-run.js');
+  const { invertRun, invertPhases, readProfile } = await import('../../inverse/invert-run.js');
+  // A file that cannot be read or parsed is refused here, before a worker thread starts for it.
+  if (config.method === 'classical') readProfile(profilePath, config);
   const run = new RunProgress(progress, invertPhases(config));
   const onStep = (phase: InvertPhaseName, done: number, detail: string, keep?: boolean) => run.at(phase, done, detail, keep);
   const onEstimator = (t: string) => progress.done(t);
