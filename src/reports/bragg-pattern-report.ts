@@ -6,6 +6,7 @@ import type { BraggPatternCurve, BraggPatternFile } from '../io/formats/bragg-pa
 import { buildReport } from './build-report.js';
 import type { ReportDocument } from './document.js';
 import type { ReportInput } from './report-inputs.js';
+import { sig } from './format.js';
 
 export function braggPatternInput(source: string, r: BraggPatternFile, curve: BraggPatternCurve): ReportInput {
   const periodText = r.periodNm !== undefined ? `${r.periodNm.toPrecision(5)} nm (${r.period.toPrecision(5)} Rg)` : `${r.period.toPrecision(5)} Rg`;
@@ -13,7 +14,7 @@ export function braggPatternInput(source: string, r: BraggPatternFile, curve: Br
     { name: 'solution', value: r.solution },
     { name: 'orders', value: String(r.orders) },
     { name: 'Lorentz factor', value: r.lorentz ? 'yes' : 'no' },
-    { name: 'peak width', value: `${r.width} ${r.qUnit}` },
+    { name: 'peak width', value: `${sig(r.width, 4)} ${r.qUnit}` },
   ];
   const info = { kind: 'bragg-pattern', source, system: r.system, period: r.period, ...(r.rgNm !== undefined ? { rgNm: r.rgNm } : {}), settings, provenance: r.provenance };
   const peaks = r.peaks.map((k) => ({ order: k.order, q: k.q, relative: k.relative ?? Number.NaN }));

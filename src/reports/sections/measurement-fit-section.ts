@@ -81,15 +81,23 @@ function dataFigure(p: DataPanel): Block {
 }
 
 function profileFigure(id: string, symbol: string, points: { x: number; d: number }[], i68: [number, number], i95: [number, number], threshold68: number, what: string): Block {
+  // The scan spans the whole search range, where Δχ² reaches hundreds: drawn whole, the
+  // intervals would be a few pixels wide. The figure shows the 95 % interval and 1.5 of its
+  // widths on each side; the whole scan stays in result.json.
+  const width = i95[1] - i95[0];
+  const zoom = Number.isFinite(width) && width > 0 ? { lo: i95[0] - 1.5 * width, hi: i95[1] + 1.5 * width } : undefined;
+  const shown = zoom ? points.filter((p) => p.x >= zoom.lo && p.x <= zoom.hi) : points;
+  const yTop = shown.length ? Math.max(...shown.map((p) => p.d)) : undefined;
   return {
     type: 'figure',
     id,
     width: CONTENT_WIDTH,
     height: 200,
-    caption: `Figure: profile likelihood Δχ²(${symbol}), ${what} minimised at each ${symbol}; shaded the 68.3 % interval [${sig(i68[0], 5)}, ${sig(i68[1], 5)}], guides at the 95 % ends [${sig(i95[0], 5)}, ${sig(i95[1], 5)}].`,
+    caption: `Figure: profile likelihood Δχ²(${symbol}), ${what} minimised at each ${symbol}; shaded the 68.3 % interval [${sig(i68[0], 5)}, ${sig(i68[1], 5)}], guides at the 95 % ends [${sig(i95[0], 5)}, ${sig(i95[1], 5)}]${zoom ? '; drawn over the 95 % interval and 1.5 of its widths on each side (the whole scan is in result.json)' : ''}.`,
     draw: (r) =>
       drawLineChart(r, {
-        series: [{ label: 'Δχ²', style: 0, markers: true, points: points.map((p) => ({ x: p.x, y: p.d })) }],
+        series: [{ label: 'Δχ²', style: 0, markers: true, points: shown.map((p) => ({ x: p.x, y: p.d })) }],
+        ...(zoom ? { xMin: zoom.lo, xMax: zoom.hi, yMin: 0, ...(yTop !== undefined && yTop > 2 * threshold68 ? { yMax: yTop } : {}) } : {}),
         xLabel: `${symbol} (–)`,
         yLabel: 'Δχ² (–)',
         legend: false,
