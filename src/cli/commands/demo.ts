@@ -8,6 +8,7 @@
  * printing a short summary and the paths.
  */
 import type { Command } from 'commander';
+import { trainProgressHooks } from '../train-progress.js';
 import { join } from 'node:path';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { parseOrThrow } from '../../io/errors.js';
@@ -115,8 +116,7 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean },
     config: trainConfig,
     outDir: netDir,
     shouldStop: stopRequested,
-    onStage: (m) => progress.update(m, true),
-    onProgress: (p) => progress.update(`step ${p.step}/${p.steps} | loss ${p.total.toExponential(2)} | ${p.stepsPerSecond.toFixed(1)} steps/s | ${formatDuration(p.secondsLeft)} left`),
+    ...trainProgressHooks(progress, trainConfig),
   }).catch((e) => {
     throw e instanceof TrainingStopped && e.reason === 'interrupted' ? stopped(`the reference and part of the training (${e.message})`) : e;
   });

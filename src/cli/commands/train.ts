@@ -8,16 +8,15 @@ import { installStopHandlers, stopExitCode, stopRequested } from '../../runtime/
 import { EXIT } from '../exit-codes.js';
 import { claimOut } from '../run-output.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
-import { formatDuration, Progress, RunProgress } from '../progress.js';
+import { formatDuration, Progress } from '../progress.js';
+import { formatLoss, trainProgressHooks } from '../train-progress.js';
 import { backendFlag } from './train-flags.js';
 import type { TrainFlags } from './train-flags.js';
 import { action, numberFlag } from '../run-command.js';
 import type { TransferReport } from '../../training/train-run.js';
 import { checkpointKind } from '../../io/checkpoint-kind.js';
 
-function fmt(v: number): string {
-  return Number.isFinite(v) ? v.toExponential(2) : String(v);
-}
+const fmt = formatLoss;
 
 /** Steps and time a transfer took to its target, and what it saved against a warm start. */
 function transferLines(t: TransferReport, from: string): string[] {
@@ -68,19 +67,6 @@ export function registerTrain(program: Command): void {
         const outDir = flags.out ?? flags.resume ?? join('checkpoints', basename(configPath).replace(/(\.train)?\.json$/, ''));
         const out = claimOut({ out: outDir, overwrite: flags.overwrite }, 'train', { continuePrevious: flags.resume !== undefined && resolve(flags.resume) === resolve(outDir) });
         const progress = new Progress('train', flags.quiet);
-        // The whole run's phases, for the time left: a phase may end early (a target reached), never run longer.
-        const tr = config.training;
-        let resumedStep = 0;
-        const run = new RunProgress(progress, [
-          { name: 'warm start', units: config.warmStart.type !== 'none' && !config.initFrom && !flags.resume ? config.warmStart.adamSteps : 0, unit: 'steps' },
-          { name: 'Adam', units: tr.adamSteps, unit: 'steps' },
-          { name: 'L-BFGS', units: tr.lbfgsIterations, unit: 'iterations' },
-          { name: 'second order', units: tr.secondOrderIterations, unit: 'iterations' },
-        ]);
-        const prop = config.networks.propagator;
-        // Soft constraints are shown only when chosen (they are an exact 0 otherwise).
-        const soft = (t: { periodicity: number; initial: number }) =>
-          `${prop.periodicity === 'soft' ? `, per ${fmt(t.periodicity)}` : ''}${prop.initialCondition === 'soft' ? `, ic ${fmt(t.initial)}` : ''}`;
         const uninstall = installStopHandlers('train');
         const { trainRun, TrainingStopped } = await import('../../training/train-run.js');
         try {
@@ -89,29 +75,8 @@ export function registerTrain(program: Command): void {
             outDir,
             resumeDir: flags.resume,
             backend,
-            onStage: (m) => {
-              // A resumed run's Adam steps count from its checkpoint's step: the rate is of the steps run now.
-              const resumed = /^resumed from .* at step (\d+)$/.exec(m);
-              if (resumed) resumedStep = Number(resumed[1]);
-              // The reference solve and the backend's start-up come first, outside every phase's clock.
-              // Each phase's clock starts with its stage message, so its first report already has a rate.
-              if (m.startsWith('warm start')) run.begin('warm start');
-              else if (m.startsWith('training (')) run.begin('Adam', resumedStep);
-              else if (m.startsWith('L-BFGS polish')) run.begin('L-BFGS');
-              else if (m.startsWith('second-order phase')) run.begin('second order');
-              progress.update(m, true);
-            },
             shouldStop: stopRequested,
-            onWarmStart: (step, steps, loss) => run.at('warm start', step, `loss ${fmt(loss)}`, step === steps),
-            onSecondOrder: (p) => run.at('second order', p.iteration, `loss ${fmt(p.loss)} | μ ${fmt(p.mu)}${p.phiError !== undefined ? ` | φA error ${fmt(p.phiError)}` : ''}`, p.iteration === p.iterations),
-            onLbfgs: (it, its, loss) => run.at('L-BFGS', it, `loss ${fmt(loss)}`, it === its),
-            onProgress: (p) =>
-              run.at(
-                'Adam',
-                p.step,
-                `loss ${fmt(p.total)} (mde ${fmt(p.terms.mde)}${soft(p.terms)}, incomp ${fmt(p.terms.incompressibility)}, sc ${fmt(p.terms.selfConsistency)}, gauge ${fmt(p.terms.gauge)})`,
-                p.step === p.steps,
-              ),
+            ...trainProgressHooks(progress, config, flags.resume !== undefined),
           });
           const m = r.metrics;
           const so = m.training.secondOrder;
