@@ -215,7 +215,7 @@ export function loadRun(dir: string, opts: { rgNm?: number } = {}): LoadedRun {
       scatteringFit = parseOrThrow(scatteringResultSchema, raw, path);
     } else if (kind === 'checkpoint') {
       // A training checkpoint (training/checkpoint.ts), read through its schema: its history is the training page.
-      training = trainingRecords(parseOrThrow(checkpointFileSchema, raw, path).history, path);
+      training = trainingRecords(parseOrThrow(checkpointFileSchema, raw, path).history);
     } else if (kind === 'sweep-table' || kind === 'sweep-shard') {
       // A merged table wins over its shards.
       if (!sweep || kind === 'sweep-table') {

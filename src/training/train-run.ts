@@ -8,7 +8,7 @@ import { TRAIN_METRICS_VERSION, trainMetricsFileSchema, trainMetricsSchema } fro
 import type { TrainMetrics, TransferReport } from '../io/formats/training.js';
 import { InputError, RunFailure } from '../io/errors.js';
 import type { TrainConfig } from '../io/schemas/train-config.js';
-import { solutionToFile, summarize } from '../io/formats/solution.js';
+import { solutionText, solutionToFile, summarize } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
 import { buildChain } from '../physics/chain.js';
 import type { ScftSolution } from '../physics/result.js';
@@ -218,7 +218,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const extra = resumed?.file.extraPoints;
   if (resumed && extra) problem.setExtraPoints(extra, Math.floor(resumed.file.step / config.collocation.resampleEvery));
 
-  const refFile = `${JSON.stringify(solutionToFile(reference, provenance(), config), null, 1)}\n`;
+  const refFile = solutionText(solutionToFile(reference, provenance(), config));
   const prov = () => ({ ...provenance({ backend: handle.backend, tfjs: handle.tfjsVersion }), backend: handle.backend, tfjs: handle.tfjsVersion });
   const save = async (st: LoopState, stageName: CheckpointFile['stage'], extraFiles: Record<string, string> = {}, metrics?: Record<string, unknown>, holds?: HeldState) => {
     if (!opts.outDir) return;
@@ -432,7 +432,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   if (opts.outDir) {
     // The network's own phase stays in its solution file, with the verdict beside it when it is not ok.
     const judged = verdict.ok ? network : { ...network, notes: [...network.notes, `not confirmed against the reference: ${verdict.warnings.join('; ')}`] };
-    const networkFile = `${JSON.stringify(solutionToFile(judged, prov(), config), null, 1)}\n`;
+    const networkFile = solutionText(solutionToFile(judged, prov(), config));
     await save(loop.state, 'done', { 'metrics.json': formatText(trainMetricsFileSchema, { kind: 'train-metrics', version: TRAIN_METRICS_VERSION, ...metrics }, 2), 'network.json': networkFile }, metrics, training.holds);
   }
   problem.dispose();

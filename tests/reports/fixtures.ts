@@ -3,6 +3,7 @@
  * second. The "network" here is a FIXTURE: the spectral reference at a slightly different
  * χN, relabelled — it only exercises the overlay and error plots, it is not a network.
  */
+import type { HistoryEntry } from '../../src/io/formats/training.js';
 import { solveFixedCell } from '../../src/spectral/scft-solver.js';
 import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import type { ScftSolution } from '../../src/physics/result.js';
@@ -64,8 +65,8 @@ export function networkInput(reference: ScftSolution, fixtureNetwork: ScftSoluti
  * A synthetic training history in the checkpoint's format (warm start 50 steps, Adam 100
  * steps, L-BFGS 80 iterations, exponential decays): it only drives the plots and the reader.
  */
-export function checkpointHistoryFixture(): Record<string, unknown>[] {
-  const h: Record<string, unknown>[] = [];
+export function checkpointHistoryFixture(): HistoryEntry[] {
+  const h: HistoryEntry[] = [];
   for (let step = 1; step <= 50; step++) h.push({ stage: 'warm-start', step, total: 0.5 * Math.exp(-step / 20), terms: {}, learningRate: 0.01, seconds: 0.02 * step, wallSeconds: 0.3 + 0.02 * step });
   for (let step = 1; step <= 100; step++) h.push({ stage: 'adam', step, total: 2 * Math.exp(-step / 60), terms: {}, learningRate: 1e-3, seconds: 0.05 * step, wallSeconds: 1.3 + 0.05 * step, ...(step % 50 === 0 ? { phiError: 0.2 * Math.exp(-step / 80) } : {}) });
   for (let it = 1; it <= 80; it++) h.push({ stage: 'lbfgs', step: 100, total: 0.3 * Math.exp(-it / 20), terms: {}, learningRate: 0, seconds: 5 + 0.04 * it, wallSeconds: 6.3 + 0.04 * it, lbfgsIterations: it, ...(it % 40 === 0 ? { phiError: 0.05 * Math.exp(-it / 30) } : {}) });
@@ -73,7 +74,7 @@ export function checkpointHistoryFixture(): Record<string, unknown>[] {
 }
 
 export function trainingFixture(): TrainingInput {
-  const t = trainingRecords(checkpointHistoryFixture(), 'fixture');
+  const t = trainingRecords(checkpointHistoryFixture());
   const steps = Array.from({ length: 60 }, (_, i) => 10 * i);
   return { ...t, chiNTrajectory: steps.map((step) => ({ step, chiN: 15 + 3 * Math.exp(-step / 150) })), chiNReference: { value: 15, label: 'true χN' } };
 }

@@ -6,11 +6,11 @@ import { trainingRecords } from '../../src/reports/readers/training-history.js';
 describe('training history on one iteration axis', () => {
   it('counts a second-order phase by its own iterations, after the warm start and Adam', () => {
     const history = [
-      ...[1, 2, 3].map((step) => ({ stage: 'warm-start', step, total: 1 / step, seconds: step })),
-      ...[1, 2].map((step) => ({ stage: 'adam', step, total: 0.1 / step, seconds: 3 + step })),
-      ...[1, 2, 3, 4].map((i) => ({ stage: 'second-order', step: 2, secondOrderIterations: i, total: 0.01 / i, seconds: 5 + i })),
+      ...[1, 2, 3].map((step) => ({ stage: 'warm-start' as const, step, total: 1 / step, terms: {}, learningRate: 0.01, seconds: step })),
+      ...[1, 2].map((step) => ({ stage: 'adam' as const, step, total: 0.1 / step, terms: {}, learningRate: 1e-3, seconds: 3 + step })),
+      ...[1, 2, 3, 4].map((i) => ({ stage: 'second-order' as const, step: 2, secondOrderIterations: i, total: 0.01 / i, terms: {}, learningRate: 0, seconds: 5 + i })),
     ];
-    const { phases, records } = trainingRecords(history, 'test');
+    const { phases, records } = trainingRecords(history);
     expect(phases.map((p) => [p.name, p.iterations])).toEqual([
       ['warm start', 3],
       ['Adam', 2],

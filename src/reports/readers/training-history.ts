@@ -4,22 +4,13 @@
  * and any later phase such as a second-order one), the run's wall time, the loss and the
  * φA error where measured.
  *
- * Accepts two entry shapes, so a run written before or after the second-order trainer reads:
- *  - {stage, step, total, seconds, wallSeconds?, phiError?, lbfgsIterations?, secondOrderIterations?}
- *    (stage 'warm-start' | 'adam' | 'lbfgs' | 'second-order');
- *  - {phase, step, loss, wallSeconds, referenceError?} (any phase name; step counted within the run or the phase).
+ * The entries are the checkpoint's, already read through its format (io/formats/training.ts
+ * historyEntrySchema): this file only lays them out on one axis.
  */
-import { z } from 'zod';
-import { parseOrThrow } from '../../io/errors.js';
+import type { HistoryEntry } from '../../io/formats/training.js';
 import type { TrainingInput, TrainingPhase, TrainingRecord } from '../report-inputs.js';
 
-const stageEntry = z
-  .object({ stage: z.string(), step: z.number(), total: z.number(), seconds: z.number().optional(), wallSeconds: z.number().optional(), phiError: z.number().optional(), lbfgsIterations: z.number().optional(), secondOrderIterations: z.number().optional() })
-  .passthrough();
-const phaseEntry = z.object({ phase: z.string(), step: z.number(), loss: z.number(), wallSeconds: z.number().optional(), referenceError: z.number().optional() }).passthrough();
-const historySchema = z.array(z.union([phaseEntry, stageEntry]));
-
-const PHASE_NAMES: Record<string, string> = { 'warm-start': 'warm start', adam: 'Adam', lbfgs: 'L-BFGS', 'second-order': 'second order', 'gauss-newton': 'Gauss–Newton', lm: 'Levenberg–Marquardt' };
+const PHASE_NAMES: Record<HistoryEntry['stage'], string> = { 'warm-start': 'warm start', adam: 'Adam', lbfgs: 'L-BFGS', 'second-order': 'second order' };
 
 interface Raw {
   phase: string;
@@ -31,21 +22,16 @@ interface Raw {
   referenceError?: number;
 }
 
-function toRaw(e: z.infer<typeof historySchema>[number]): Raw {
-  if ('phase' in e && typeof e.phase === 'string') {
-    const p = e as z.infer<typeof phaseEntry>;
-    return { phase: PHASE_NAMES[p.phase] ?? p.phase, local: p.step, wallSeconds: p.wallSeconds, loss: p.loss, referenceError: p.referenceError };
-  }
-  const s = e as z.infer<typeof stageEntry>;
+function toRaw(s: HistoryEntry): Raw {
   // L-BFGS and second-order entries keep the Adam step count in `step`; their own count is
   // lbfgsIterations / secondOrderIterations.
   const local = s.stage === 'lbfgs' ? (s.lbfgsIterations ?? s.step) : s.stage === 'second-order' ? (s.secondOrderIterations ?? s.step) : s.step;
-  return { phase: PHASE_NAMES[s.stage] ?? s.stage, local, wallSeconds: s.wallSeconds, seconds: s.seconds, loss: s.total, referenceError: s.phiError };
+  return { phase: PHASE_NAMES[s.stage], local, wallSeconds: s.wallSeconds, seconds: s.seconds, loss: s.total, referenceError: s.phiError };
 }
 
 /** Records on one iteration axis: each phase starts where the previous one ended. */
-export function trainingRecords(history: unknown, path: string): Pick<TrainingInput, 'records' | 'phases' | 'wallClock'> {
-  const raw = parseOrThrow(historySchema, history, `${path}: history`).map(toRaw);
+export function trainingRecords(history: HistoryEntry[]): Pick<TrainingInput, 'records' | 'phases' | 'wallClock'> {
+  const raw = history.map(toRaw);
   const wallClock = raw.length > 0 && raw.every((r) => r.wallSeconds !== undefined);
   const records: TrainingRecord[] = [];
   const phases: TrainingPhase[] = [];
