@@ -50,3 +50,8 @@ export function deltaChi2Level(level: ConfidenceLevel, sigmaEstimated: boolean, 
   const t = studentT(level.upper, level.z, dof);
   return t * t;
 }
+
+/** The Δχ² threshold of every level, by its name (what a result file records beside its intervals). */
+export function deltaChi2Levels(sigmaEstimated: boolean, dof: number): Record<'68.3%' | '95%', number> {
+  return Object.fromEntries(LEVELS.map((l) => [l.name, deltaChi2Level(l, sigmaEstimated, dof)])) as Record<'68.3%' | '95%', number>;
+}

@@ -11,7 +11,7 @@ import { formatNumber } from '../io/number-format.js';
 import { throughSchema } from '../io/formats/file-format.js';
 import type { SpacingFitConfig } from '../io/schemas/spacing-fit-config.js';
 import type { Provenance } from '../io/versions.js';
-import { deltaChi2Level, LEVELS } from './confidence.js';
+import { deltaChi2Levels } from './confidence.js';
 import { parseSpacingCsv } from './spacing-csv.js';
 import { fitSpacingSeries } from './spacing-series.js';
 
@@ -28,7 +28,7 @@ export function runSpacingFit(path: string, config: SpacingFitConfig, o: { prove
   });
   const chain = config.system.chain as { segmentRatio?: number };
   const estimated = fit.sigma.source === 'estimated';
-  const thresholds = Object.fromEntries(LEVELS.map((l) => [l.name, deltaChi2Level(l, estimated, fit.dof)])) as Record<'68.3%' | '95%', number>;
+  const thresholds = deltaChi2Levels(estimated, fit.dof);
   return throughSchema(spacingFitFileSchema, {
     kind: 'spacing-fit',
     version: SPACING_FIT_VERSION,

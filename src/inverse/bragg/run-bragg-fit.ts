@@ -12,7 +12,7 @@ import { formatNumber } from '../../io/number-format.js';
 import { throughSchema } from '../../io/formats/file-format.js';
 import type { BraggFitConfig } from '../../io/schemas/bragg-fit-config.js';
 import type { Provenance } from '../../io/versions.js';
-import { deltaChi2Level, LEVELS } from '../confidence.js';
+import { deltaChi2Levels } from '../confidence.js';
 import { fitBragg } from './bragg-fit.js';
 import { parsePeaksCsv } from './bragg-inputs.js';
 
@@ -58,7 +58,7 @@ export function runBraggFit(path: string, config: BraggFitConfig, o: BraggRunOpt
     model: fit.model[i].intensity,
     normalisedResidual: (data.intensity[i] - fit.model[i].intensity) / data.dI[i],
   }));
-  const thresholds = Object.fromEntries(LEVELS.map((l) => [l.name, deltaChi2Level(l, false, fit.dof)])) as Record<'68.3%' | '95%', number>;
+  const thresholds = deltaChi2Levels(false, fit.dof);
   return throughSchema(braggFitFileSchema, {
     kind: 'bragg-fit',
     version: BRAGG_FIT_VERSION,
