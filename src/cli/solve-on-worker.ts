@@ -4,7 +4,7 @@
  * would otherwise hold the main thread and the signal handler with it. On a stop the worker is
  * ended and `stopped()` says what the caller kept; the exit is then 130 or 143.
  */
-import type { SolveRunOutput, SolveStep, SolveTask } from '../spectral/solve-run.js';
+import type { SolveRunOutput, SolveStep, SolveTask } from '../spectral/solve-task.js';
 import { RunStopped, stopAbortSignal } from '../runtime/stop.js';
 import { errorFromWorker } from './worker-errors.js';
 

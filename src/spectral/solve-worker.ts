@@ -4,6 +4,6 @@
  */
 import { serveTasks } from '../threads/task-worker.js';
 import { solveRun } from './solve-run.js';
-import type { SolveRunOutput, SolveStep, SolveTask } from './solve-run.js';
+import type { SolveRunOutput, SolveStep, SolveTask } from './solve-task.js';
 
 serveTasks<SolveTask, SolveRunOutput, SolveStep>((task, progress) => solveRun(task, progress));

@@ -8,7 +8,7 @@ import type { OutputDirectory } from '../../io/output-directory.js';
 import { solveOnWorker } from '../solve-on-worker.js';
 import { claimOut, withOutput, writeFailedOutput } from '../run-output.js';
 import { parseScanRange } from '../scan-range-flag.js';
-import type { SolveRunOutput, SolveTask } from '../../spectral/solve-run.js';
+import type { SolveRunOutput, SolveTask } from '../../spectral/solve-task.js';
 import { installStopHandlers, RunStopped } from '../../runtime/stop.js';
 import { action, parseDecimal } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
@@ -126,7 +126,7 @@ async function solveCommand(config: SolveConfig, configPath: string | undefined,
   }
   const progress = new Progress('solve', flags.quiet);
   const task: SolveTask = { config, source: configPath ?? 'flags', initial, thicknessScan, files: flags.out !== undefined, json: Boolean(flags.json) };
-  const { solvePhases } = await import('../../spectral/solve-run.js');
+  const { solvePhases } = await import('../../spectral/solve-task.js');
   const run = new RunProgress(progress, solvePhases(task));
   const uninstall = installStopHandlers('solve', `stopping the solve; nothing will be written${flags.out ? ` (${flags.out} is left as it was)` : ''}`);
   let r: SolveRunOutput;
