@@ -24,7 +24,6 @@ import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { Tf } from '../autodiff/tf.js';
 import { buildScftNetworks } from '../network/scft-networks.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
-import { groupedNormalEquations, shiftedGroups } from '../numerics/grouped-normal-equations.js';
 import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
 import { NetworkInverseProblem } from './network-least-squares.js';
@@ -128,26 +127,13 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     }
     for (const side of sides) {
       if (s.mdeStartIterations <= 0) break;
-      const { first, count } = sys.columnsOf(side);
-      const embed = (xs: Float64Array) => {
-        const full = Float64Array.from(theta);
-        full.set(xs, first);
-        return full;
-      };
+      const problem = sys.partProblem(theta, side);
       const r = levenbergMarquardt(
-        {
-          size: count,
-          cost: (xs) => sys.evaluate(embed(xs), false, side).cost,
-          linearise: (xs) => {
-            const e = sys.evaluate(embed(xs), true, side);
-            const { A, g } = groupedNormalEquations(count, shiftedGroups(e.groups!, first));
-            return { kind: 'normal', cost: e.cost, A, g };
-          },
-        },
-        theta.slice(first, first + count),
+        problem,
+        theta.slice(problem.first, problem.first + problem.size),
         { maxIterations: s.mdeStartIterations, onIteration: () => !s.shouldStop?.() },
       );
-      theta = embed(r.x);
+      theta = problem.embed(r.x);
     }
     const tStart = (performance.now() - t0) / 1000;
     // 2. The joint problem: every parameter and χN, physics and data rows.

@@ -22,7 +22,6 @@ import type { ScftNetworks } from '../network/scft-networks.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
 import type { ResidualPart } from '../network/least-squares/scft-residual-system.js';
-import { groupedNormalEquations, shiftedGroups } from '../numerics/grouped-normal-equations.js';
 import { levenbergMarquardt, levenbergMarquardtYielding } from '../numerics/levenberg-marquardt.js';
 import { yieldToEvents } from '../runtime/stop.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
@@ -180,24 +179,11 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
   const lastMu = new Map<ResidualPart, number>();
   /** LM on one part: the whole system, or one propagator's columns in the current fields. */
   const solvePart = async (part: ResidualPart, iterations: number) => {
-    const { first, count } = part === 'all' ? { first: 0, count: sys.size } : sys.columnsOf(part);
-    const embed = (xs: Float64Array) => {
-      if (part === 'all') return xs;
-      const full = Float64Array.from(theta);
-      full.set(xs, first);
-      return full;
-    };
+    const problem = sys.partProblem(theta, part);
+    const { first, embed } = problem;
     const r = await levenbergMarquardtYielding(
-      {
-        size: count,
-        cost: (xs) => sys.evaluate(embed(xs), false, part).cost,
-        linearise: (xs) => {
-          const e = sys.evaluate(embed(xs), true, part);
-          const { A, g } = groupedNormalEquations(count, shiftedGroups(e.groups!, first));
-          return { kind: 'normal', cost: e.cost, A, g };
-        },
-      },
-      theta.slice(first, first + count),
+      problem,
+      theta.slice(first, first + problem.size),
       // Each part resumes from the damping its previous solve ended with: after a field step
       // the problem is a nearby one, and restarting from τ·max diag(JᵀJ) would spend the
       // first iterations of every cycle re-learning μ.

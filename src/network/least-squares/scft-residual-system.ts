@@ -36,6 +36,7 @@ import type { Contour } from '../../physics/contour.js';
 import { fieldAtPoints } from '../../physics/fields.js';
 import { JetMlp64 } from '../../autodiff/jet-mlp64.js';
 import type { Mlp } from '../../autodiff/mlp.js';
+import { groupedNormalEquations, shiftedGroups } from '../../numerics/grouped-normal-equations.js';
 import type { ResidualGroup } from '../../numerics/grouped-normal-equations.js';
 import type { LeastSquaresProblem } from '../../numerics/levenberg-marquardt.js';
 import type { SpeciesArrays } from '../../physics/fields.js';
@@ -276,6 +277,32 @@ export class ScftResidualSystem {
   columnsOf(side: 'q' | 'qDagger'): { first: number; count: number } {
     const s = this.sides[side === 'q' ? 0 : 1];
     return { first: s.first, count: s.count };
+  }
+
+  /**
+   * Least squares over one part's columns (the whole system, or one propagator's in the
+   * current fields) with the other parameters held at `theta`, linearised through the grouped
+   * normal equations; `embed` puts a part's values back into the whole parameter vector.
+   */
+  partProblem(theta: Float64Array, part: ResidualPart): LeastSquaresProblem & { first: number; embed: (xs: Float64Array) => Float64Array } {
+    const { first, count } = part === 'all' ? { first: 0, count: this.size } : this.columnsOf(part);
+    const embed = (xs: Float64Array) => {
+      if (part === 'all') return xs;
+      const full = Float64Array.from(theta);
+      full.set(xs, first);
+      return full;
+    };
+    return {
+      first,
+      embed,
+      size: count,
+      cost: (xs) => this.evaluate(embed(xs), false, part).cost,
+      linearise: (xs) => {
+        const e = this.evaluate(embed(xs), true, part);
+        const { A, g } = groupedNormalEquations(count, shiftedGroups(e.groups!, first));
+        return { kind: 'normal', cost: e.cost, A, g };
+      },
+    };
   }
 
   /** Residuals (cost, terms) of the part and, when asked, its Jacobian in groups of rows. */
