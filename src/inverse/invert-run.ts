@@ -7,7 +7,6 @@
  */
 import { synthTruthPath } from '../io/synth-output.js';
 import { InputError, asInputError } from '../io/errors.js';
-import { readInputText } from '../io/fs-errors.js';
 import type { InvertConfig } from '../io/schemas/invert-config.js';
 import { solutionText, solutionToFile } from '../io/formats/solution.js';
 import { provenance } from '../io/versions.js';
@@ -17,7 +16,9 @@ import { assumedInputs } from './assumed-inputs.js';
 import type { PeriodMode } from './objective.js';
 import { fitCsv, classicalBlock, inversionResult, inversionResultText, networkBlock } from './inversion-result.js';
 import type { EstimatorBlock, InversionResult } from './inversion-result.js';
-import { lengthUnits, parseProfileCsv } from './profile-csv.js';
+import { lengthUnits } from './profile-csv.js';
+import { readProfile } from './invert-task.js';
+import type { InvertPhaseName } from './invert-task.js';
 import type { NetworkEstimate } from './network-estimator.js';
 import { compareWithTruth, readTruthSidecar } from './truth-comparison.js';
 
@@ -38,24 +39,6 @@ export interface InvertRunOptions {
   onEstimator?: (text: string) => void;
 }
 
-export type InvertPhaseName = 'classical fit' | 'assumed inputs' | 'network';
-
-/** The run's counted phases, for a whole-run time left: their sizes follow from the config alone. */
-export function invertPhases(config: InvertConfig): { name: InvertPhaseName; units: number; unit: string; estimated?: boolean }[] {
-  const units = lengthUnits(config.units ?? {});
-  // A classical fit takes about 50 χN evaluations (measured: 49 on the measurement CLI test's
-  // profile); each uncertain f or segment ratio takes two refits, and the Rg sensitivity two more.
-  const rgSensitivity = units.x === 'nm' && config.cell.period === 'equilibrium' && config.units?.rgNmSd === undefined;
-  const refits = 2 * ((config.uncertainty?.f !== undefined ? 1 : 0) + (config.uncertainty?.segmentRatio !== undefined ? 1 : 0)) + (rgSensitivity ? 2 : 0);
-  const classical = config.method !== 'network';
-  const network = config.method !== 'classical';
-  return [
-    { name: 'classical fit', units: classical ? 50 : 0, unit: 'evaluations', estimated: true },
-    { name: 'assumed inputs', units: classical ? refits : 0, unit: 'refits' },
-    { name: 'network', units: network ? config.network.seeds * (config.network.adamSteps + config.network.lbfgsIterations) : 0, unit: 'steps' },
-  ];
-}
-
 export interface InvertRunResult {
   result: InversionResult;
   /** result.json, fit.csv and solution.json, when asked for. */
@@ -63,10 +46,6 @@ export interface InvertRunResult {
 }
 
 /** The profile CSV, read and checked (InputError naming the file, the line and the column otherwise). */
-export function readProfile(profilePath: string, config: InvertConfig): ReturnType<typeof parseProfileCsv> {
-  return parseProfileCsv(readInputText(profilePath), profilePath, lengthUnits(config.units ?? {}));
-}
-
 export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult> {
   const t0 = performance.now();
   const { config, sources, profilePath } = opts;

@@ -6,7 +6,8 @@
  */
 import { serveTasks } from '../threads/task-worker.js';
 import { invertRun } from './invert-run.js';
-import type { InvertPhaseName, InvertRunOptions, InvertRunResult } from './invert-run.js';
+import type { InvertRunOptions, InvertRunResult } from './invert-run.js';
+import type { InvertPhaseName } from './invert-task.js';
 
 /** What crosses the thread boundary: the run's options without its callbacks. */
 export type InvertTask = Omit<InvertRunOptions, 'onStep' | 'onEstimator'>;

@@ -10,7 +10,8 @@ import { inversionResultText, summaryText } from '../../inverse/inversion-result
 import { action, parseDecimal, workersFlag } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
 import { Progress, RunProgress } from '../progress.js';
-import type { InvertPhaseName, InvertRunResult } from '../../inverse/invert-run.js';
+import type { InvertRunResult } from '../../inverse/invert-run.js';
+import type { InvertPhaseName } from '../../inverse/invert-task.js';
 import type { InvertStep, InvertTask } from '../../inverse/invert-worker.js';
 
 interface InvertFlags {
@@ -160,7 +161,7 @@ export function registerInvert(program: Command): void {
 
 async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<void> {
   const progress = new Progress('invert', flags.quiet);
-  const { invertRun, invertPhases, readProfile } = await import('../../inverse/invert-run.js');
+  const { invertPhases, readProfile } = await import('../../inverse/invert-task.js');
   // A file that cannot be read or parsed is refused here, before a worker thread starts for it.
   if (config.method === 'classical') readProfile(profilePath, config);
   const run = new RunProgress(progress, invertPhases(config));
@@ -170,7 +171,7 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   // A classical fit runs on a worker thread, so a signal ends it at once (its χN search is
   // synchronous: on this thread the handler would wait for the whole fit). The network
   // estimator stops within its own steps and stays here (tfjs and its seed workers).
-  const { result, files } = config.method === 'classical' ? await classicalOnWorker(task, flags.out, onStep, onEstimator) : await invertRun({ ...task, onStep, onEstimator });
+  const { result, files } = config.method === 'classical' ? await classicalOnWorker(task, flags.out, onStep, onEstimator) : await (await import('../../inverse/invert-run.js')).invertRun({ ...task, onStep, onEstimator });
   if (flags.out && files) {
     const written = out!.write(files);
     if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
