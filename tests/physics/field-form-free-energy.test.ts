@@ -4,6 +4,7 @@ import { systemSchema } from '../../src/physics/chain-schema.js';
 import { fieldFormFreeEnergy, freeEnergy } from '../../src/physics/scft-equations.js';
 import { solveFixedCell, solveInFields } from '../../src/spectral/scft-solver.js';
 import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
+import { compareSolutions } from '../../src/physics/solution-metrics.js';
 
 // The field form of the SCFT free energy, F[w] = −ln Q[w] + ⟨(w_A − w_B)²/(4χN) − (w_A + w_B)/2⟩
 // + χN/4, is the mean-field Hamiltonian of the incompressible A/B melt after the pressure is
@@ -51,5 +52,15 @@ describe('field form of the free energy', () => {
     const w = { A: Float64Array.from(cell.x, (t) => 0.3 + Math.cos(t)), B: new Float64Array(64) };
     expect(fieldFormFreeEnergy(homo, cell, 0, 2, w)).toBeCloseTo(-Math.log(2) - cell.mean(w.A), 14);
     expect(fieldFormFreeEnergy(chain, cell, 0, 2, w)).toBeNull();
+  });
+
+  it('both are unchanged by a constant shift of the fields (the gauge), and so is the Q error', () => {
+    // w → w + c multiplies Q by e^{−c} (the Boltzmann weight of every path; common practice, no source).
+    const c = 0.37;
+    const w = { A: sol.w.A.map((v) => v + c), B: sol.w.B.map((v) => v + c) };
+    const shifted = { ...sol, w, Q: sol.Q * Math.exp(-c) };
+    expect(fieldFormFreeEnergy(chain, cell, 15, shifted.Q, w)!).toBeCloseTo(sol.freeEnergy, 8);
+    expect(compareSolutions(shifted, sol).QRelativeError).toBeLessThan(1e-12);
+    expect(compareSolutions({ ...sol, Q: sol.Q * 1.001 }, sol).QRelativeError).toBeCloseTo(1e-3, 9);
   });
 });
