@@ -4,13 +4,13 @@
  * shared with the fits). Units: Q in Å⁻¹, SLD in Å⁻² (files: 10⁻⁶ Å⁻²), depths in nm, the
  * thickness and width given in Rg here (the caller converts nm with Rg in nm).
  */
-import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
-import type { ChainSpec } from '../physics/chain-schema.js';
-import { FilmModel } from '../inverse/film/film-model.js';
-import type { FilmPoint } from '../inverse/film/film-model.js';
-import { filmStack, filmSteps, predictReflectivity } from '../inverse/film/film-measurement.js';
-import type { StackSlds } from './sld-profile.js';
-import { smoothedSld } from './sld-profile.js';
+import type { SpectralOptions } from '../../io/schemas/spectral-schema.js';
+import type { ChainSpec } from '../../physics/chain-schema.js';
+import { FilmModel } from './film-model.js';
+import type { FilmPoint } from './film-model.js';
+import { filmStack, filmSteps, predictReflectivity } from './film-measurement.js';
+import type { StackSlds } from '../../reflectivity/sld-profile.js';
+import { smoothedSld } from '../../reflectivity/sld-profile.js';
 
 export interface FilmReflectivitySettings {
   chain: ChainSpec;
