@@ -161,7 +161,7 @@ describe('mesofield invert', () => {
     ['outside [0, 1] without sigma', `x,phiA\n${rows(20, (i) => `${i * 0.1},${0.5 + 0.3 * Math.cos(0.3 * i)}`)}\n2.0,-0.4\n`, [], /line 22, column 2 \(phiA\): got -0\.4; a volume fraction lies in \[0, 1\].*estimated from the data/],
     ['non-positive sigma', `${header}0,0.5,0\n`, [], /line 2, column 3 \(sigma\): got 0; allowed: a standard deviation > 0/],
     ['no header', `${rows(5, good)}\n`, [], /line 1, column 1 \("0\.00"\): the first line must be a header row/],
-    ['unknown column', `x,phi,sigma\n${rows(5, good)}\n`, [], /line 1, column 2 \("phi"\): unknown column; allowed columns: x, phiA/],
+    ['unknown column', `x,phi,sigma\n${rows(5, good)}\n`, [], /line 1, column 2 \("phi"\): unknown column; allowed columns: x or x_nm or x_Rg, phiA/],
     ['fewer points than unknowns', `${header}0,0.9,0.02\n0.5,0.1,0.02\n`, [], /2 data point\(s\), but the fit has 2 unknowns \(χN and the offset\).*at least 3 points/],
     ['fewer points than unknowns (free period)', `${header}0,0.9,0.02\n0.5,0.1,0.02\n1.0,0.9,0.02\n`, ['--period', 'free'], /3 data point\(s\), but the fit has 3 unknowns \(χN, the offset and the period\)/],
     ['empty file', '', [], /the file is empty/],
