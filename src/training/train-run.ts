@@ -221,6 +221,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const problem = new ScftProblem(tf, nets, config.system, config.collocation, config.training.strategy === 'alternating' ? 'detached' : config.losses.fieldInMde);
   problem.fieldsFrozen = config.training.strategy === 'alternating';
   const fieldUpdater = new FieldUpdater(tf, nets, config.system, { ...fieldUpdateSettings(config), periods: reference.periods });
+  // The run it continues pinned the lamella's phase at its first field update: hold the same one.
+  if (resumed) fieldUpdater.keepPin(resumed.file.fieldPin);
   const extra = resumed?.file.extraPoints;
   if (resumed && extra) problem.setExtraPoints(extra, Math.floor(resumed.file.step / config.collocation.resampleEvery));
 
@@ -240,6 +242,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       history: st.history,
       ...(metrics ? { metrics } : {}),
       extraPoints: problem.extraPoints(),
+      fieldPin: fieldUpdater.lamellarPin,
     };
     await saveCheckpoint(tf, opts.outDir, meta as Parameters<typeof saveCheckpoint>[2], [...nets.parameters.namedWeights(), ...adam.state()], { 'reference.json': refFile, ...extraFiles });
   };
