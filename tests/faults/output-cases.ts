@@ -16,6 +16,9 @@ import { smallSolveConfig } from './config-cases.js';
 const SOLVE = ['solve', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--quiet'];
 const SYNTH = ['synth', '--f', '0.5', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--points', '8'];
 
+/** A film's R(Q) on a small grid at few Q points: seconds. */
+const REFLECTIVITY = ['reflectivity', '--f', '0.5', '--film', '35', '--affinity', '1,-0.6', '--rg-nm', '5', '--sld', '6.0,1.0,2.07,0', '--nx', '16', '--ns', '20', '--points', '20', '--quiet'];
+
 async function previous(s: Sandbox, argv: string[], dir: string): Promise<void> {
   const r = await runCli([...argv, '--out', s.path(dir)], { capture: true });
   expect(r.code, r.stderr).toBe(0);
@@ -129,6 +132,28 @@ export const OUTPUT_CASES: FaultCase[] = [
       expect(existsSync(s.path('D/propagators.csv'))).toBe(false);
     },
   },
+  {
+    // The refusal of a previous output names --overwrite: every command that writes takes it (reflectivity did not).
+    group: 'output paths',
+    name: 'reflectivity --overwrite replaces a previous reflectivity output and keeps files mesofield did not write',
+    setup: async (s) => {
+      await previous(s, [...REFLECTIVITY, '--chiN', '16'], 'R');
+      s.write('R/notes.txt', 'mine\n');
+    },
+    argv: (s) => [...REFLECTIVITY, '--chiN', '17', '--out', s.path('R'), '--overwrite'],
+    code: 0,
+    mayChange: ['R/reflectivity.csv', 'R/sld-profile.csv', 'R/result.json', 'R/.mesofield-output.json'],
+    check: (_r, s) => {
+      expect(readFileSync(s.path('R/notes.txt'), 'utf8')).toBe('mine\n');
+      expect(JSON.parse(readFileSync(s.path('R/result.json'), 'utf8')).settings.chiN).toBe(17);
+    },
+  },
+  refused(
+    'reflectivity --out a previous reflectivity output without --overwrite: the message names --overwrite',
+    (s) => previous(s, [...REFLECTIVITY, '--chiN', '16'], 'R'),
+    (s) => [...REFLECTIVITY, '--chiN', '16', '--out', s.path('R')],
+    /--out .*R: holds a previous reflectivity output; give --overwrite to replace it/,
+  ),
   {
     group: 'output paths',
     name: 'a failed solve leaves the good result in place and puts its files in DIR.failed',

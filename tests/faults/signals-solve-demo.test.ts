@@ -5,7 +5,7 @@
  * - demo: SIGINT mid-training → 130, the finished parts kept and marked incomplete.
  * - loops that used to run to their end: invert in each phase of each method (the χN search,
  *   the assumed inputs' refits, the network estimator: 130/143 at once, a previous output
- *   untouched), the surrogate's fit (SIGTERM → 143 within a step), the
+ *   untouched), a film's R(Q) (its film solve), the surrogate's fit (SIGTERM → 143 within a step), the
  *   demo's reference solve (SIGINT → 130 at once).
  */
 import { cpSync, existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
@@ -19,16 +19,23 @@ const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
 const counts = { tried: 0, 'clear error or stop': 0, 'correct answer': 0 };
 
 describe('signals: solve and demo', () => {
+  // One previous solve output serves both signals (each case copies it).
+  let previousSolve: Promise<string> | undefined;
+  const solveOutput = () =>
+    (previousSolve ??= (async () => {
+      const out = join(tmp(), 'sol');
+      const first = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
+      expect((await first.code).code, first.stderr()).toBe(0);
+      return out;
+    })());
   for (const [sig, exit] of [
     ['SIGINT', 130],
     ['SIGTERM', 143],
   ] as const) {
     it(`solve: ${sig} during the period search ends at once with exit ${exit}; the previous output in --out is untouched`, async () => {
       counts.tried++;
-      const dir = tmp();
-      const out = join(dir, 'sol');
-      const first = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
-      expect((await first.code).code, first.stderr()).toBe(0);
+      const out = join(tmp(), 'sol');
+      cpSync(await solveOutput(), out, { recursive: true });
       const before = ['solution.json', 'profile.csv', '.mesofield-output.json'].map((n) => readFileSync(join(out, n)));
       const p = start(['solve', '--chiN', '40', '--period', 'equilibrium', '--nx', '64', '--ns', '400', '--out', out, '--overwrite']);
       await p.waitFor(/period search 1\//, 120_000);
@@ -117,6 +124,22 @@ describe('signals: loops that ran to their end (invert, surrogate fit, the demo\
       counts['clear error or stop']++;
     }, 180_000);
   }
+
+  it('reflectivity (a film\'s R(Q)): SIGINT during the film solve ends it at once, exit 130; nothing written, no lock left', async () => {
+    counts.tried++;
+    const out = join(tmp(), 'curve');
+    // The default grid: the film solve takes far longer than the wait for a stop.
+    const p = start(['reflectivity', '--f', '0.5', '--chiN', '16', '--film', '35', '--affinity', '1,-0.6', '--rg-nm', '5', '--sld', '6.0,1.0,2.07,0', '--out', out]);
+    await p.waitFor(/reflectivity: solving the film/, 120_000);
+    p.kill('SIGINT');
+    const r = await p.code;
+    expect(r.code, p.stderr()).toBe(130);
+    expect(p.stderr()).toMatch(/reflectivity: Ctrl-C: stopping the film solve; nothing will be written/);
+    expect(p.stderr()).toMatch(/reflectivity stopped by a signal during the film solve; nothing was written/);
+    expect(existsSync(join(out, 'reflectivity.csv'))).toBe(false);
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    counts['clear error or stop']++;
+  }, 180_000);
 
   it('train (surrogate): SIGTERM while fitting the field network stops within a step, exit 143, nothing saved', async () => {
     counts.tried++;

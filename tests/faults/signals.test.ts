@@ -113,7 +113,7 @@ describe('signals', () => {
 describe('resume fidelity', () => {
   // One uninterrupted run serves every stop below: the Adam phase with field updates every 10
   // steps (the lamella pinned at the first, step 10), then an L-BFGS polish.
-  const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 40, fieldUpdateEvery: 10, lbfgsIterations: 16, lbfgsCycles: 1 } });
+  const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 40, fieldUpdateEvery: 10, fieldFitSteps: 30, lbfgsIterations: 10, lbfgsCycles: 1 } });
   let wholeRun: ReturnType<typeof trainRun> | undefined;
   const uninterrupted = () => (wholeRun ??= trainRun({ config: base, backend: 'wasm' }));
   let whole: Awaited<ReturnType<typeof trainRun>>;
@@ -157,12 +157,12 @@ describe('resume fidelity', () => {
     counts['clear error or stop']++;
   });
 
-  it('a run stopped at L-BFGS iteration 6 by the stop flag and resumed ends where the uninterrupted run ends', async () => {
+  it('a run stopped at L-BFGS iteration 4 by the stop flag and resumed ends where the uninterrupted run ends', async () => {
     counts.tried++;
     whole = await uninterrupted();
     const dir = join(tmp(), 'run');
     resetStop();
-    const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onLbfgs: (it) => it >= 6 && !stopRequested() && requestStop('SIGTERM') }).catch((e) => e);
+    const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onLbfgs: (it) => it >= 4 && !stopRequested() && requestStop('SIGTERM') }).catch((e) => e);
     resetStop();
     expect(stopped).toBeInstanceOf(TrainingStopped);
     expect(String(stopped.message)).toMatch(/interrupted in the L-BFGS polish after \d+ iterations .*a resume repeats the polish from there/);
