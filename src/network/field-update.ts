@@ -88,7 +88,7 @@ export class FieldUpdater {
   update(): FieldUpdateResult {
     const { tf, nets, settings: st } = this;
     if (!nets.field) return { residual: 0, fitLoss: 0 };
-    const sol = networkSolution(tf, nets, this.system, { periods: st.periods, nx: st.nx, nodesPerBlock: st.nodesPerBlock, placeInConvention: false });
+    const sol = networkSolution(tf, nets, this.system, { periods: st.periods, nx: st.nx, nodesPerBlock: st.nodesPerBlock, placeInConvention: false, correctQ: false });
     if (nets.cell.translation) this.pin ??= { periods: st.periods, phase: lamellarPhase(sol.w, st.periods).phase };
     return refitFieldsToUpdate(tf, nets, this.system.chiN, sol.x, sol.w, sol.phi, st.mixing, st.fitSteps, st.learningRate, this.pin ?? undefined);
   }

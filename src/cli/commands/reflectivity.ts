@@ -10,8 +10,8 @@ import { InputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { action, numberFlag, requiredFlag } from '../run-command.js';
 import { claimOut, withOutput } from '../run-output.js';
-import type { FilmReflectivitySettings } from '../../reflectivity/film-reflectivity.js';
-import type { ReflectivityCurve } from '../../reflectivity/reflectivity-worker.js';
+import type { FilmReflectivitySettings } from '../../inverse/film/film-reflectivity.js';
+import type { ReflectivityCurve } from '../../inverse/film/film-reflectivity-worker.js';
 import type { FilmFitFlags } from './film-fit-command.js';
 import { numberList, sldFlag } from './film-flags.js';
 
@@ -95,7 +95,7 @@ async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: Retur
 }
 
 /**
- * The film solve and R(Q) on a worker thread (reflectivity/reflectivity-worker.ts): SIGINT/SIGTERM
+ * The film solve and R(Q) on a worker thread (inverse/film/film-reflectivity-worker.ts): SIGINT/SIGTERM
  * end it at once, nothing written, 130/143; a model error is bad input (exit 2), named as flags.
  */
 async function curveOnWorker(settings: FilmReflectivitySettings, flags: ReflectivityFlags): Promise<ReflectivityCurve> {
@@ -107,7 +107,7 @@ async function curveOnWorker(settings: FilmReflectivitySettings, flags: Reflecti
   // The film solve reports no steps: one line says what runs (it takes seconds to minutes).
   if (!flags.quiet) process.stderr.write(`reflectivity: solving the film (χN = ${settings.chiN}, ${settings.nx} × ${settings.ns}), then R(Q) at ${settings.q.length} points; Ctrl-C stops it\n`);
   try {
-    const [r] = await runInWorkers<FilmReflectivitySettings, ReflectivityCurve>([settings], { entry: 'reflectivity/reflectivity-worker.js', workerData: null, workers: 1, toError: errorFromWorker, signal: stopAbortSignal() });
+    const [r] = await runInWorkers<FilmReflectivitySettings, ReflectivityCurve>([settings], { entry: 'inverse/film/film-reflectivity-worker.js', workerData: null, workers: 1, toError: errorFromWorker, signal: stopAbortSignal() });
     return r;
   } catch (e) {
     if (e instanceof PoolStopped) throw new RunStopped(`reflectivity stopped by a signal during the film solve; nothing was written${flags.out ? ` (${flags.out} was left as it was)` : ''}`);

@@ -4,8 +4,8 @@
  * answered (the process died without a word and left its output folder's lock behind); here
  * the main thread stays free and ends the worker at once. Only plain data crosses back.
  */
-import { asInputError } from '../io/errors.js';
-import { serveTasks } from '../threads/task-worker.js';
+import { asInputError } from '../../io/errors.js';
+import { serveTasks } from '../../threads/task-worker.js';
 import { filmReflectivity } from './film-reflectivity.js';
 import type { FilmReflectivitySettings } from './film-reflectivity.js';
 
