@@ -5,7 +5,7 @@
  * - demo: SIGINT mid-training → 130, the finished parts kept and marked incomplete.
  * - loops that used to run to their end: invert in each phase of each method (the χN search,
  *   the assumed inputs' refits, the network estimator: 130/143 at once, a previous output
- *   untouched), a film's R(Q) (its film solve), the surrogate's fit (SIGTERM → 143 within a step), the
+ *   untouched), a film's R(Q) (its film solve), fit-bragg and fit-spacing, the surrogate's fit (SIGTERM → 143 within a step), the
  *   demo's reference solve (SIGINT → 130 at once).
  */
 import { cpSync, existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
@@ -140,6 +140,31 @@ describe('signals: loops that ran to their end (invert, surrogate fit, the demo\
     expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
     counts['clear error or stop']++;
   }, 180_000);
+
+  // A measurement fit is tens of reference solves: even on a small grid far longer than the wait for a stop.
+  const measurementFits = [
+    { command: 'fit-bragg', sig: 'SIGINT', file: 'peaks.csv', csv: 'order,q_per_nm,I,dI\n1,0.2853,1,0.05\n2,0.5706,0.1286,0.0064\n3,0.8559,0.00271,0.000135\n4,1.1412,0.000458,0.000023\n', f: '0.3' },
+    { command: 'fit-spacing', sig: 'SIGTERM', file: 'spacing.csv', csv: 'N,D_nm,dD_nm\n100,10.5,0.1\n150,13.6,0.14\n200,16.4,0.16\n300,21.5,0.2\n', f: '0.5' },
+  ] as const;
+  for (const c of measurementFits) {
+    it(`${c.command}: ${c.sig} during the fit ends it at once, exit ${c.sig === 'SIGINT' ? 130 : 143}; nothing written, no lock left`, async () => {
+      counts.tried++;
+      const dir = tmp();
+      const data = join(dir, c.file);
+      writeFileSync(data, c.csv);
+      const out = join(dir, 'fit');
+      const p = start([c.command, data, '--f', c.f, '--nx', '32', '--ns', '40', '--out', out]);
+      await p.waitFor(new RegExp(`${c.command}: [^\\n]* \\d+/~\\d+`), 120_000);
+      p.kill(c.sig);
+      const r = await p.code;
+      expect(r.code, p.stderr()).toBe(c.sig === 'SIGINT' ? 130 : 143);
+      expect(p.stderr()).toMatch(new RegExp(`${c.command}: ${c.sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping the fit; nothing will be written`));
+      expect(p.stderr()).toMatch(new RegExp(`${c.command} stopped by a signal during the fit; nothing was written`));
+      expect(existsSync(join(out, 'result.json'))).toBe(false);
+      expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+      counts['clear error or stop']++;
+    }, 180_000);
+  }
 
   it('train (surrogate): SIGTERM while fitting the field network stops within a step, exit 143, nothing saved', async () => {
     counts.tried++;
