@@ -148,12 +148,6 @@ export const OUTPUT_CASES: FaultCase[] = [
       expect(JSON.parse(readFileSync(s.path('R/result.json'), 'utf8')).settings.chiN).toBe(17);
     },
   },
-  refused(
-    'reflectivity --out a previous reflectivity output without --overwrite: the message names --overwrite',
-    (s) => previous(s, [...REFLECTIVITY, '--chiN', '16'], 'R'),
-    (s) => [...REFLECTIVITY, '--chiN', '16', '--out', s.path('R')],
-    /--out .*R: holds a previous reflectivity output; give --overwrite to replace it/,
-  ),
   {
     group: 'output paths',
     name: 'a failed solve leaves the good result in place and puts its files in DIR.failed',
