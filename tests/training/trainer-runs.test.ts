@@ -9,17 +9,21 @@ import { symmetricDiblock, tmp } from './trainer-configs.js';
 // The warm start, checkpoint reload and transfer of the same diblock are in trainer.test.ts.
 describe('trainer: symmetric diblock, seeded repeats, resume and failures', () => {
   const base = symmetricDiblock;
+  // What these tests check (seeded repeats, resume continuity, checkpoint refusal, the divergence
+  // stop) does not depend on the network size: smaller networks and fewer random collocation
+  // points than the warm-start accuracy test keep them cheap.
+  const small = { ...base, cell: { ...base.cell, nx: 32 }, networks: { ...base.networks, field: { ...base.networks.field, hidden: [16, 16] }, propagator: { ...base.networks.propagator, hidden: [16, 16] } }, collocation: { ...base.collocation, random: 64 } };
 
   it('seeded runs repeat and a resumed run continues the same loss curve', async () => {
-    const short = { ...base, cell: { ...base.cell, nx: 32 }, warmStart: { ...base.warmStart, adamSteps: 50 }, collocation: { ...base.collocation, resampleEvery: 40 }, training: { ...base.training, adamSteps: 90, checkpointEvery: 45, fieldUpdateEvery: 50, logEvery: 10 } };
+    const short = { ...small, warmStart: { ...base.warmStart, adamSteps: 20 }, collocation: { ...small.collocation, resampleEvery: 25 }, training: { ...base.training, adamSteps: 60, checkpointEvery: 30, fieldUpdateEvery: 35, logEvery: 5 } };
     const a = await trainRun({ config: short, backend: 'wasm' });
     const b = await trainRun({ config: short, backend: 'wasm' });
     expect(b.history.map((h) => h.total)).toEqual(a.history.map((h) => h.total));
     const half = join(tmp(), 'half');
-    await trainRun({ config: { ...short, training: { ...short.training, adamSteps: 45 } }, outDir: half, backend: 'wasm' });
+    await trainRun({ config: { ...short, training: { ...short.training, adamSteps: 30 } }, outDir: half, backend: 'wasm' });
     const resumed = await trainRun({ config: short, resumeDir: half, outDir: half, backend: 'wasm' });
-    // The resume point (45) falls between a resampling (40) and a field update (50): both must carry over.
-    const tail = (h: typeof a.history) => h.filter((e) => e.step > 45).map((e) => e.total);
+    // The resume point (30) falls between a resampling (25) and a field update (35): both must carry over.
+    const tail = (h: typeof a.history) => h.filter((e) => e.step > 30).map((e) => e.total);
     const ta = tail(a.history);
     const tb = tail(resumed.history);
     expect(tb.length).toBe(ta.length);
@@ -42,7 +46,7 @@ describe('trainer: symmetric diblock, seeded repeats, resume and failures', () =
   it('a diverging run stops, keeps the last good checkpoint and says so', async () => {
     const out = join(tmp(), 'div');
     // A huge learning rate and a tight divergence factor make the loss jump above its best.
-    const wild = { ...base, warmStart: { ...base.warmStart, adamSteps: 50 }, training: { ...base.training, adamSteps: 200, learningRate: 0.5, decay: 1, checkpointEvery: 1, divergenceFactor: 1.5 } };
+    const wild = { ...small, warmStart: { ...base.warmStart, adamSteps: 50 }, training: { ...base.training, adamSteps: 200, learningRate: 0.5, decay: 1, checkpointEvery: 1, divergenceFactor: 1.5 } };
     const err = await trainRun({ config: wild, outDir: out, backend: 'wasm' }).catch((e) => e);
     expect(err).toBeInstanceOf(TrainingStopped);
     expect(err.reason).toBe('diverged');

@@ -13,7 +13,9 @@ import { cfg, fieldSystem, tmp } from './trainer-configs.js';
 describe('trainer: single-chain and homopolymer problems', () => {
   it('homopolymer in a cosine field: the network propagator matches the spectral one', async () => {
     // Reference: the spectral MDE solver, itself checked against analytic solutions (tests/spectral).
-    const r = await trainRun({ config: cfg({ system: fieldSystem, cell: { period: 4, nx: 64, ns: 100 }, warmStart: { type: 'none' }, training: { adamSteps: 600, learningRate: 2e-3 } }), backend: 'wasm' });
+    // Measured (wasm): φA relative L2 9.5e-2 at step 50, 3.4e-2 at 250, 7.6e-3 at 300 (learning rate
+    // 5e-3; at 2e-3 the same fall takes 600 steps).
+    const r = await trainRun({ config: cfg({ system: fieldSystem, cell: { period: 4, nx: 64, ns: 100 }, warmStart: { type: 'none' }, training: { adamSteps: 300, learningRate: 5e-3 } }), backend: 'wasm' });
     expect(r.metrics.phase).toBe('single-chain');
     expect(r.metrics.sharedPropagator).toBe(true);
     expect(r.metrics.errors.phiA.relativeL2).toBeLessThan(3e-2);
@@ -23,7 +25,8 @@ describe('trainer: single-chain and homopolymer problems', () => {
 
   it('homopolymer melt: φ ≡ 1 and a flat field', async () => {
     // SCFT-NOTES.md: a one-species melt has φ ≡ 1, w ≡ const, q ≡ 1 after the gauge.
-    const r = await trainRun({ config: cfg({ system: { chain: { type: 'homopolymer', species: 'A' } }, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { adamSteps: 400, learningRate: 2e-3, fieldUpdateEvery: 20 } }), backend: 'wasm' });
+    const r = await trainRun({ config: cfg({ system: { chain: { type: 'homopolymer', species: 'A' } }, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { adamSteps: 400, learningRate: 2e-3, fieldUpdateEvery: 20, fieldFitSteps: 50 } }), backend: 'wasm' });
+    // Measured (wasm): max |φA + φB − 1| 1.6e-2, φA relative L2 8.2e-3 (250 steps leave 2.3e-2: the bound fails there).
     expect(r.metrics.phase).toBe('homogeneous-melt');
     expect(r.metrics.errors.incompressibilityMax).toBeLessThan(2e-2);
     for (const v of r.network.phi.A) expect(Math.abs(v - 1)).toBeLessThan(2e-2);
