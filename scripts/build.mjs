@@ -1,17 +1,39 @@
 #!/usr/bin/env node
 /**
  * `npm run build` (also scripts/setup.sh and the test setup): tsc compiles src/ into dist/,
- * then zod and commander are bundled for start-up (scripts/bundle-dependencies.mjs).
+ * then zod and commander are bundled for start-up (scripts/bundle-dependencies.mjs), and each
+ * config kind's JSON Schema is written into dist/config-schemas/ for `mesofield schema KIND`
+ * (src/io/schemas/config-json-schema.ts makes the text; the command prints the file).
  * A plain `tsc -p tsconfig.json` also gives a working dist/, only with the slower start-up.
  */
 import { spawnSync } from 'node:child_process';
-import { fileURLToPath } from 'node:url';
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { bundleDependencies } from './bundle-dependencies.mjs';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
+const dist = join(root, 'dist');
+// A previous build's schema texts go first: if this build fails they must not outlive it.
+rmSync(join(dist, 'config-schemas'), { recursive: true, force: true });
 const tsc = spawnSync(process.execPath, [fileURLToPath(new URL('../node_modules/typescript/bin/tsc', import.meta.url)), '-p', 'tsconfig.json'], {
   cwd: root,
   stdio: 'inherit',
 });
 if (tsc.status !== 0) process.exit(tsc.status ?? 1);
 await bundleDependencies(root);
+
+/** Each kind's JSON Schema text, written last (the command trusts a file newer than the compiled schemas). */
+async function writeSchemaTexts() {
+  const { configJsonSchemaText, BUILT_SCHEMA_FOLDER } = await import(pathToFileURL(join(dist, 'io/schemas/config-json-schema.js')).href);
+  const { CONFIG_KIND_NAMES } = await import(pathToFileURL(join(dist, 'io/schemas/config-schema-loaders.js')).href);
+  const folder = join(dist, BUILT_SCHEMA_FOLDER);
+  mkdirSync(folder, { recursive: true });
+  for (const kind of CONFIG_KIND_NAMES) writeFileSync(join(folder, `${kind}.json`), await configJsonSchemaText(kind));
+}
+try {
+  await writeSchemaTexts();
+} catch (e) {
+  rmSync(join(dist, 'config-schemas'), { recursive: true, force: true });
+  process.stderr.write(`build: writing the config kinds' JSON Schemas failed (${e?.message ?? e}); \`mesofield schema\` generates them at each call instead\n`);
+}

@@ -84,8 +84,8 @@ function runFilmIntervalBench(chain: ChainSpec): void {
 }
 
 /**
- * The network estimator's convergence from a start 10 % low (the long run that
- * tests/inverse/network.test.ts keeps only the first 400 iterations of): noiseless f = 0.5,
+ * The network estimator's convergence from a start 10 % low (the long run of which
+ * tests/inverse/network.test.ts keeps a short version on a coarser grid): noiseless f = 0.5,
  * χN = 15, 64 points on the 64 × 100 grid, started at χN = 13.5, 200 Adam steps then 12 cycles of
  * 100 L-BFGS iterations. Prints the χN trajectory, the final χN error (target: within 1 %) and
  * the relative L2 error of the discovered w_A − w_B against the self-consistent one (target 5 %).

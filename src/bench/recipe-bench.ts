@@ -9,7 +9,8 @@
  * over the seeds that reached it, and how many did. Errors are measured every 100 Adam
  * steps, after every L-BFGS cycle, and every 5 LM iterations (so the times are upper bounds
  * at that resolution). Options: --seeds=N (default 5), --systems=name,name (default all),
- * --budget=quick (shorter runs).
+ * --budget=quick (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only).
+ * Besides the levels: the median final φA error and F error (kT per chain) over the seeds.
  * The machine is shared while it runs: timings are wall-clock on whatever load there is.
  */
 import { trainConfigSchema } from '../io/schemas/train-config.js';
@@ -80,23 +81,28 @@ export async function runRecipeBench(): Promise<void> {
   const names = arg('systems')?.split(',');
   const quick = arg('budget') === 'quick';
   const systems = RECIPE_SYSTEMS.filter((s) => !names || names.includes(s.name));
+  const only = arg('recipe');
+  const recipes = (['adam+lbfgs', 'second-order'] as Recipe[]).filter((r) => !only || r === only);
+  if (recipes.length === 0) throw new Error(`--recipe=${only}: allowed: adam+lbfgs, second-order`);
   console.log(`\ntraining recipes: time (s of training, after reference and warm start) and steps to φA relative L2 < 1e-3, 1e-4, 1e-5; ${seeds} seed(s)${quick ? ', quick budget' : ''}`);
-  const rows: string[] = ['| system | recipe | level | reached | seconds min / median / max | steps min / median / max | final φA error (median) |', '|---|---|---|---|---|---|---|'];
+  const rows: string[] = ['| system | recipe | level | reached | seconds min / median / max | steps min / median / max | final φA error (median) | final F error (median, kT) |', '|---|---|---|---|---|---|---|---|'];
   for (const b of systems) {
-    for (const recipe of ['adam+lbfgs', 'second-order'] as Recipe[]) {
+    for (const recipe of recipes) {
       const reach: Reach[][] = LEVELS.map(() => []);
       const finals: number[] = [];
+      const energies: number[] = [];
       for (let seed = 1; seed <= seeds; seed++) {
         const r = await trainRun({ config: trainConfigSchema.parse(recipeConfig(b, recipe, seed, quick)), backend: 'wasm' });
         finals.push(r.metrics.errors.phiA.relativeL2);
+        energies.push(r.metrics.errors.freeEnergyError);
         LEVELS.forEach((level, li) => {
           const hit = r.history.find((h) => h.phiError !== undefined && h.phiError < level);
           if (hit) reach[li].push({ seconds: hit.seconds, steps: hit.step + (hit.lbfgsIterations ?? 0) + (hit.secondOrderIterations ?? 0) });
         });
-        process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, ${r.metrics.training.seconds.toFixed(1)} s\n`);
+        process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT, ${r.metrics.training.seconds.toFixed(1)} s\n`);
       }
       LEVELS.forEach((level, li) => {
-        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seeds} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} |`);
+        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seeds} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} | ${li === 0 ? median(energies).toExponential(2) : ''} |`);
       });
     }
   }

@@ -1,8 +1,9 @@
 /**
- * Worker-thread entry of a classical `invert` (inverse/invert-run.ts): runs the one task the
- * CLI sends and posts its progress steps and its result back. The χN search is synchronous
- * (each χN evaluation is a solve), so on the main thread a Ctrl-C could not be answered until
- * the whole fit ended; here the main thread stays free and ends the worker at once.
+ * Worker-thread entry of an `invert` run of any method (inverse/invert-run.ts): runs the one
+ * task the CLI sends and posts its progress steps and its result back. The χN search and its
+ * refits are synchronous (each χN evaluation is a solve), so on the main thread a Ctrl-C could
+ * not be answered until they ended; here the main thread stays free and ends the worker (and
+ * the network estimator's seed workers it started) at once, in whichever phase it is.
  */
 import { serveTasks } from '../threads/task-worker.js';
 import { invertRun } from './invert-run.js';

@@ -232,7 +232,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
     const trajectory: { step: number; chiN: number }[] = [{ step: 0, chiN }];
     /** The field/χN update made after `step` optimisation steps (Adam steps, then L-BFGS iterations). */
     const fieldUpdateAt = (step: number) => {
-      const sol = networkSolution(tf, nets, { chain: s.chain, chiN }, { periods: 1, nx, nodesPerBlock: config.collocation.nodesPerBlock });
+      const sol = networkSolution(tf, nets, { chain: s.chain, chiN }, { periods: 1, nx, nodesPerBlock: config.collocation.nodesPerBlock, correctQ: false });
       let num = 0;
       let den = 0;
       for (let j = 0; j < nx; j++) {

@@ -28,6 +28,9 @@ import { levenbergMarquardt } from '../numerics/levenberg-marquardt.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
 import { NetworkInverseProblem } from './network-least-squares.js';
 
+/** x points of the aliasing check per residual-grid point. */
+const ALIAS_CHECK = 4;
+
 export interface JointFitSettings {
   chain: ChainSpec;
   seed: number;
@@ -71,6 +74,13 @@ export interface JointFitResult {
   lossEnd: number;
   /** φ_A amplitude (max − min) of the network at the end over the start's: near 1 when the ordered profile held. */
   amplitudeRatio: number;
+  /**
+   * The propagators' MDE mean square at the end on the residual grid and on ALIAS_CHECK × its
+   * x points at the same contour nodes: a ratio far above 1 means the networks fit the MDE at
+   * the grid points and not between them (aliasing in x, docs/second-order-training.md).
+   */
+  mdeOnGrid: number;
+  mdeBetween: number;
   iterations: number;
   reason: LmStop | 'interrupted';
   seconds: { start: number; joint: number };
@@ -187,6 +197,7 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     sys.chiN = chiN;
     const state = sys.state(thetaEnd);
     nets.parameters.unflatten(thetaEnd);
+    const fine = new ScftResidualSystem(nets, { chain: s.chain, chiN }, { nx: ALIAS_CHECK * s.nx, nodesPerBlock: s.nodesPerBlock }, config.losses.weights);
     // w_A − w_B on the requested grid: the band-limited interpolant of the residual grid's values.
     const ex = Float64Array.from(state.w.A, (a, j) => a - state.w.B[j]);
     const exchange = grid.interpolate(ex, exchangeGrid);
@@ -198,6 +209,8 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
       lossStart: physicsLoss(e0),
       lossEnd: physicsLoss(eEnd),
       amplitudeRatio: amplitude(state.phi.A) / amp0,
+      mdeOnGrid: eEnd.terms.mde,
+      mdeBetween: fine.evaluate(thetaEnd, false, 'q').terms.mde + (nets.shared ? 0 : fine.evaluate(thetaEnd, false, 'qDagger').terms.mde),
       iterations: r.iterations,
       reason: interrupted ? 'interrupted' : r.reason,
       seconds: { start: tStart, joint: (performance.now() - t0) / 1000 - tStart },

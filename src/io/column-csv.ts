@@ -1,6 +1,6 @@
 /**
- * A numeric CSV with a header row naming its columns (case-insensitive), for measured data
- * other than composition profiles (inverse/profile-csv.ts reads those): SLD depth profiles
+ * A numeric CSV with a header row naming its columns (case-insensitive), for every measured
+ * data file: composition profiles (through inverse/profile-csv.ts), SLD depth profiles
  * (x, sld[, sigma]), reflectivity curves (Q, R, dR), scattering curves (q with its unit, I,
  * dI), Bragg peaks (order, q with its unit, I, dI, dq) and domain spacings (N, D_nm, dD_nm).
  * Hand-parsed so that every error names the file, the line and the column. Blank lines and
@@ -19,6 +19,8 @@ export interface ColumnData {
   header: string[];
   /** File line (1-based) of each data row. */
   lines: number[];
+  /** File line (1-based) of the header row. */
+  headerLine: number;
 }
 
 /** A column that can be written under one of several names (q with its unit): exactly one must appear. */
@@ -48,6 +50,8 @@ export function parseColumnCsv(text: string, source: string, required: string[],
   const rows = text.replace(/^\uFEFF/, '').split(/\r?\n/);
   let header: string[] | undefined;
   let headerLine = 0;
+  let inc = -1;
+  let incLabel = '';
   const values: number[][] = [];
   const lines: number[] = [];
   for (let r = 0; r < rows.length; r++) {
@@ -57,30 +61,51 @@ export function parseColumnCsv(text: string, source: string, required: string[],
     const cells = raw.split(',').map((c) => c.trim());
     if (!header) {
       headerLine = line;
-      header = cells.map((c, i) => {
+      header = [];
+      for (let i = 0; i < cells.length; i++) {
+        const c = cells[i];
         const bare = c.replace(/^"|"$/g, '');
         const name = all.find((a) => a.toLowerCase() === bare.toLowerCase());
         if (!name) {
           const hint = NUMBER.test(c) ? 'the first line must be a header row' : `unknown column${o.hints?.[bare.toLowerCase()] ? `; ${o.hints[bare.toLowerCase()]}` : ''}`;
           throw new InputError(`${source}: line ${line}, column ${i + 1} (${JSON.stringify(c)}): ${hint}; allowed columns: ${allowed}`);
         }
-        return name;
-      });
+        if (header.includes(name)) throw new InputError(`${source}: line ${line}, column ${i + 1} (${name}): column named twice in the header`);
+        header.push(name);
+      }
       for (const need of required) if (!header.includes(need)) throw new InputError(`${source}: line ${line}: the header has no ${need} column; allowed columns: ${allowed}`);
       for (const c of choices) {
         const present = c.names.filter((n) => header!.includes(n));
         if (present.length === 0) throw new InputError(`${source}: line ${line}: the header has no ${c.label} column; allowed columns: ${allowed}`);
         if (present.length > 1) throw new InputError(`${source}: line ${line}: both ${present.join(' and ')} columns; give one ${c.label} column`);
       }
-      if (new Set(header).size !== header.length) throw new InputError(`${source}: line ${line}: a column is named twice in the header`);
+      const wanted = o.increasing === undefined ? required[0] : o.increasing;
+      if (wanted !== null) {
+        const choice = choices.find((c) => c.label === wanted);
+        inc = header.indexOf(choice?.names.find((n) => header!.includes(n)) ?? wanted);
+        incLabel = choice?.label ?? wanted;
+      }
       continue;
     }
-    if (cells.length !== header.length) throw new InputError(`${source}: line ${line}: ${cells.length} values, but the header on line ${headerLine} names ${header.length} columns (${header.join(', ')})`);
+    if (cells.length > header.length) {
+      throw new InputError(`${source}: line ${line}, column ${header.length + 1} (extra value ${JSON.stringify(cells[header.length])}): ${cells.length} values, but the header on line ${headerLine} names ${header.length} columns (${header.join(', ')})`);
+    }
+    if (cells.length < header.length) {
+      throw new InputError(`${source}: line ${line}, column ${cells.length + 1} (${header[cells.length]}): missing value; every row needs ${header.length} comma-separated values (${header.join(', ')})`);
+    }
     const row = cells.map((c, i) => {
+      if (c === '') throw new InputError(`${source}: line ${line}, column ${i + 1} (${header![i]}): missing value; allowed: a finite number`);
       const v = Number(c);
       if (!NUMBER.test(c) || !Number.isFinite(v)) throw new InputError(`${source}: line ${line}, column ${i + 1} (${header![i]}): got ${JSON.stringify(c)}; allowed: a finite number`);
       return v;
     });
+    if (inc >= 0 && values.length > 0) {
+      // The value as typed (0.30, not 0.3): the user finds it in the file.
+      const prev = values[values.length - 1][inc];
+      const place = `${source}: line ${line}, column ${inc + 1} (${header[inc]})`;
+      if (row[inc] === prev) throw new InputError(`${place}: got ${cells[inc]}, the same ${incLabel} as line ${lines[lines.length - 1]}; ${incLabel} must increase strictly (merge or remove repeated rows)`);
+      if (row[inc] < prev) throw new InputError(`${place}: got ${cells[inc]} after ${prev} on line ${lines[lines.length - 1]}; ${incLabel} must increase strictly (sort the rows by ${incLabel})`);
+    }
     values.push(row);
     lines.push(line);
   }
@@ -88,16 +113,7 @@ export function parseColumnCsv(text: string, source: string, required: string[],
   if (values.length === 0) throw new InputError(`${source}: no data rows after the header on line ${headerLine}`);
   const columns: Record<string, Float64Array> = {};
   header.forEach((name, i) => (columns[name] = Float64Array.from(values, (row) => row[i])));
-  const data = { source, columns, header, lines };
-  const wanted = o.increasing === undefined ? required[0] : o.increasing;
-  const inc = wanted === null ? undefined : (choices.find((c) => c.label === wanted)?.names.find((n) => header!.includes(n)) ?? wanted);
-  if (inc !== undefined) {
-    const col = columns[inc];
-    const label = choices.find((c) => c.names.includes(inc))?.label ?? inc;
-    for (let i = 1; i < col.length; i++) {
-      if (!(col[i] > col[i - 1])) throw new InputError(`${cellPlace(data, i, inc)}: got ${col[i]} after ${col[i - 1]} on line ${lines[i - 1]}; ${label} must increase strictly (sort the rows by ${label})`);
-    }
-  }
+  const data = { source, columns, header, lines, headerLine };
   return data;
 }
 

@@ -60,11 +60,23 @@ export function fieldUpdateSettings(config: Pick<TrainConfig, 'collocation' | 't
 
 /**
  * The forward field step of alternating training, with the lamella's translation mode
- * pinned at the phase the fields had at the first update (after the warm start, a
- * transfer or a resume), so the iteration cannot wander along it.
+ * pinned at the phase the fields had at the first update (after the warm start or a
+ * transfer), so the iteration cannot wander along it. The pin is part of a checkpoint
+ * (`lamellarPin`, `keepPin`): a resumed run holds the phase of the run it continues, not the
+ * phase its fields happen to have at its own first update.
  */
 export class FieldUpdater {
   private pin: LamellarPin | null = null;
+
+  /** The pin the updates hold (null before the first update, or where there is no translation mode). */
+  get lamellarPin(): LamellarPin | null {
+    return this.pin;
+  }
+
+  /** Hold `pin` (from a checkpoint) instead of taking one at the next update. */
+  keepPin(pin: LamellarPin | null): void {
+    this.pin = pin;
+  }
 
   constructor(
     readonly tf: Tf,
@@ -76,7 +88,7 @@ export class FieldUpdater {
   update(): FieldUpdateResult {
     const { tf, nets, settings: st } = this;
     if (!nets.field) return { residual: 0, fitLoss: 0 };
-    const sol = networkSolution(tf, nets, this.system, { periods: st.periods, nx: st.nx, nodesPerBlock: st.nodesPerBlock, placeInConvention: false });
+    const sol = networkSolution(tf, nets, this.system, { periods: st.periods, nx: st.nx, nodesPerBlock: st.nodesPerBlock, placeInConvention: false, correctQ: false });
     if (nets.cell.translation) this.pin ??= { periods: st.periods, phase: lamellarPhase(sol.w, st.periods).phase };
     return refitFieldsToUpdate(tf, nets, this.system.chiN, sol.x, sol.w, sol.phi, st.mixing, st.fitSteps, st.learningRate, this.pin ?? undefined);
   }

@@ -1,8 +1,20 @@
 /**
  * A trained network as an ScftSolution on a given grid, so it is judged exactly like the
  * reference: in the networks' cell (periodic or film), φ by Simpson quadrature in float64 of the network propagators (evaluated in
- * float32) on `nodesPerBlock` nodes per block, Q = mean q(x, 1), w from the field network
- * (or the prescribed fields), F from physics/scft-equations.ts.
+ * float32) on `nodesPerBlock` nodes per block, normalised by mean q(x, 1); w from the field
+ * network (or the prescribed fields); F from physics/scft-equations.ts.
+ *
+ * Q and F: mean q(x, 1) carries the networks' MDE residual integrated along the whole
+ * contour, first order in it, and F read from it and the densities inherits that (measured on
+ * the χN = 15 recipe: −ln Q off by 3.2e-4, F by −1.7e-4 kT at φ_A 8.4e-5). With the exact
+ * forms of the propagator constraints, Q is therefore corrected by the networks' own MDE
+ * residual in float64 (network/partition-function.ts, the adjoint correction: second order in
+ * the propagators' errors; Q from q's end, QDagger from q†'s) and F is the field form
+ * (fieldFormFreeEnergy: from w and Q, stationary in w), so neither the densities' error nor
+ * the uncorrected Q enters it (the same run: F off by −1.0e-6 kT). The residual is integrated
+ * on the same `nodesPerBlock` nodes: the networks fit the MDE at their collocation nodes and
+ * not between them, so the nodes must be finer than training's (16 per block gave −3.2e-4 kT,
+ * 32 −2.9e-5, 64 −1.0e-6 on that run).
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
 import { PeriodicCell } from '../physics/cell/periodic-cell.js';
@@ -16,6 +28,9 @@ import { buildSolution, DISORDER_SPREAD, spreadOf } from '../physics/solution-re
 import type { Tf } from '../autodiff/tf.js';
 import type { PropagatorNet } from './propagator-net.js';
 import type { ScftNetworks } from './scft-networks.js';
+import { ScftResidualSystem } from './least-squares/scft-residual-system.js';
+import { correctedPartitionFunction } from './partition-function.js';
+import type { CorrectedPartitionFunction } from './partition-function.js';
 
 function logQOnGrid(tf: Tf, net: PropagatorNet, x: Float64Array, s: Float64Array): Float64Array[] {
   const nx = x.length;
@@ -51,6 +66,21 @@ export interface NetworkSolutionOptions {
   keepPropagators?: boolean;
   /** Contour points on which to keep the propagators (default: the quadrature nodes); pass the reference's to compare them point by point. */
   propagatorS?: Float64Array;
+  /**
+   * Correct Q by the MDE residual and take F in its field form (default; see the header).
+   * Off where only the densities are read (the trainer's own field updates), to save its cost.
+   */
+  correctQ?: boolean;
+}
+
+/** The adjoint-corrected Q on the evaluation grid, or null where the float64 residual system does not apply (soft constraints). */
+function correctedQ(nets: ScftNetworks, system: SystemSpec, cell: Cell, nodesPerBlock: number): CorrectedPartitionFunction | null {
+  const c = nets.q.config;
+  if (c.periodicity !== 'exact' || c.initialCondition !== 'exact' || nodesPerBlock % 2 !== 0) return null;
+  const unit = { mde: 1, periodicity: 0, initial: 0, incompressibility: 0, selfConsistency: 0, gauge: 0 };
+  const sys = new ScftResidualSystem(nets, system, { nx: cell.n, nodesPerBlock }, unit);
+  const { sides } = sys.propagatorResiduals(nets.parameters.flatten());
+  return correctedPartitionFunction(sides[0], sides[1], (u) => cell.mean(u));
 }
 
 export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, opts: NetworkSolutionOptions): ScftSolution {
@@ -67,9 +97,11 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
   const nx = opts.nx;
   const q = u.map((r) => r.map(Math.exp));
   const qd = ud.map((r) => r.map(Math.exp));
-  const Q = cell.mean(q[nn - 1]);
-  const QDagger = cell.mean(qd[nn - 1]);
-  const phi = densitiesFromPropagators(contour, q, qd, Q);
+  const endQ = cell.mean(q[nn - 1]);
+  const phi = densitiesFromPropagators(contour, q, qd, endQ);
+  const corrected = opts.correctQ === false ? null : correctedQ(nets, system, cell, opts.nodesPerBlock);
+  const Q = corrected ? corrected.fromQ : endQ;
+  const QDagger = corrected ? corrected.fromQDagger : cell.mean(qd[nn - 1]);
   let w: SpeciesArrays;
   const fixed = externalFields(system, cell);
   if (nets.field) {
@@ -92,6 +124,7 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
     notes.push(`the network collapsed to the homogeneous (disordered) state: φ_A varies by only ${amplitude.toExponential(2)}`);
   }
   notes.push(`φ by Simpson quadrature on ${opts.nodesPerBlock} contour intervals per block`);
+  if (corrected) notes.push(`Q corrected by the networks' MDE residual (adjoint correction; read off q(x, 1): ${endQ.toPrecision(10)}), F in its field form`);
   // The network's own SCFT residual max |w_out − w_in| (kT), as the spectral solver reports it.
   const residual = fixed ? 0 : fieldDeviation(nets.chain, system.chiN, w, phi, cell).residual;
   const propagators = opts.keepPropagators ? keptPropagators(tf, nets, x, opts.propagatorS, contour.s, u, ud) : undefined;
@@ -114,6 +147,7 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
     propagators,
     disorderSpread: DISORDER_SPREAD.network,
     placeInConvention: opts.placeInConvention,
+    freeEnergyForm: corrected ? 'fields' : 'densities',
   });
   // ns describes the contour grid of the stored propagators when they are kept on the reference's.
   if (opts.keepPropagators && opts.propagatorS) sol.ns = opts.propagatorS.length - 1;

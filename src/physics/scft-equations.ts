@@ -80,6 +80,34 @@ export function freeEnergy(cell: FieldCell, chiN: number, Q: number, w: SpeciesA
   return -Math.log(Q) + cell.mean(terms);
 }
 
+/**
+ * F per chain in kT from the fields alone (the field form of the same free energy): with
+ * w_A − w_B = χN(φ_B − φ_A) − 2h, φ_A + φ_B = 1 and ξ = (w_A + w_B − χN)/2 eliminated,
+ *   F = −ln Q + ⟨(w_A − w_B + 2h)²/(4χN) − (w_A + w_B)/2⟩ + χN/4
+ * (a one-species melt: F = −ln Q − ⟨w⟩). It equals freeEnergy at a solution and, unlike it,
+ * is stationary in w there (δF/δw_A = φ_A[w] − φ_A at the self-consistency relation), so an
+ * error in the densities does not enter and an error in w enters at second order: the form
+ * for a solution whose densities carry an approximation error of their own (a network's),
+ * with Q from network/partition-function.ts. Needs χN > 0 for two species (null otherwise:
+ * use freeEnergy).
+ */
+export function fieldFormFreeEnergy(chain: Chain, cell: FieldCell, chiN: number, Q: number, w: SpeciesArrays): number | null {
+  const nx = w.A.length;
+  const terms = new Float64Array(nx);
+  if (chain.species.length === 1) {
+    const k = chain.species[0];
+    for (let j = 0; j < nx; j++) terms[j] = -w[k][j];
+    return -Math.log(Q) + cell.mean(terms);
+  }
+  if (!(chiN > 0)) return null;
+  const h = cell.surfaceField;
+  for (let j = 0; j < nx; j++) {
+    const ex = w.A[j] - w.B[j] + (h ? 2 * h[j] : 0);
+    terms[j] = (ex * ex) / (4 * chiN) - 0.5 * (w.A[j] + w.B[j]);
+  }
+  return -Math.log(Q) + cell.mean(terms) + chiN / 4;
+}
+
 /** Fields that reproduce a target A composition profile φ_A at the self-consistency relation (gauge fixed). */
 export function fieldsFromComposition(chain: Chain, chiN: number, phiA: Float64Array, cell?: FieldCell): SpeciesArrays {
   const nx = phiA.length;

@@ -44,6 +44,19 @@ export function gridMismatch(a: Pick<ScftSolution, 'nx' | 'length' | 'cell'>, b:
   return null;
 }
 
+/**
+ * ln Q + the gauge (the mean of the fields of the species present): a constant shift c of
+ * every field multiplies Q by e^{−c} and adds c to the mean, so this is the gauge-free Q of a
+ * self-consistent solution. Prescribed fields have no gauge freedom: plain ln Q.
+ */
+function gaugeFreeLogQ(s: ScftSolution): number {
+  if (s.system.externalField) return Math.log(s.Q);
+  const present = (['A', 'B'] as const).filter((k) => s.phi[k].some((v) => v !== 0));
+  let g = 0;
+  for (const k of present) g += s.w[k].reduce((a, v) => a + v, 0) / s.w[k].length;
+  return Math.log(s.Q) + (present.length > 0 ? g / present.length : 0);
+}
+
 export function compareSolutions(candidate: ScftSolution, reference: ScftSolution): SolutionMetrics {
   const mismatch = gridMismatch(candidate, reference);
   if (mismatch) throw new Error(`compareSolutions: grids differ (${mismatch})`);
@@ -59,7 +72,7 @@ export function compareSolutions(candidate: ScftSolution, reference: ScftSolutio
   return {
     phiA: { relativeL2: relL2(candidate.phi.A, reference.phi.A), maxError: maxAbs(candidate.phi.A, reference.phi.A) },
     exchangeField: { relativeL2: relL2(exC, exR), maxError: maxAbs(exC, exR) },
-    QRelativeError: Math.abs(candidate.Q / reference.Q - 1),
+    QRelativeError: Math.abs(Math.exp(gaugeFreeLogQ(candidate) - gaugeFreeLogQ(reference)) - 1),
     freeEnergyError: candidate.freeEnergy - reference.freeEnergy,
     ...(reference.system.externalField ? {} : { incompressibilityMax }),
   };

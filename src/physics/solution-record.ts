@@ -14,7 +14,7 @@ import type { Contour } from './contour.js';
 import type { SpeciesArrays } from './fields.js';
 import { inConvention } from './phase-convention.js';
 import type { Phase, Propagators, ScftSolution } from './result.js';
-import { freeEnergy } from './scft-equations.js';
+import { fieldFormFreeEnergy, freeEnergy } from './scft-equations.js';
 
 /**
  * How flat φ_A must be to call a melt disordered, by the precision of the solver that made it:
@@ -69,6 +69,18 @@ export interface SolutionParts {
    * of its own iterate (a network's field update must see the fields where its propagators are).
    */
   placeInConvention?: boolean;
+  /**
+   * Which form of F (physics/scft-equations.ts): 'densities' (default: freeEnergy, from φ and
+   * w) or 'fields' (fieldFormFreeEnergy: from w and Q alone, stationary in w; for densities
+   * that carry an approximation error of their own, with an adjoint-corrected Q).
+   */
+  freeEnergyForm?: 'densities' | 'fields';
+}
+
+function freeEnergyOf(p: SolutionParts): number {
+  if (p.prescribedFields) return -Math.log(p.Q);
+  const plain = () => freeEnergy(p.cell, p.system.chiN, p.Q, p.w, p.phi);
+  return p.freeEnergyForm === 'fields' ? (fieldFormFreeEnergy(p.chain, p.cell, p.system.chiN, p.Q, p.w) ?? plain()) : plain();
 }
 
 export function buildSolution(p: SolutionParts): ScftSolution {
@@ -90,7 +102,7 @@ export function buildSolution(p: SolutionParts): ScftSolution {
     w: placed.w,
     Q: p.Q,
     QDagger: p.QDagger,
-    freeEnergy: p.prescribedFields ? -Math.log(p.Q) : freeEnergy(p.cell, chiN, p.Q, p.w, p.phi),
+    freeEnergy: freeEnergyOf(p),
     freeEnergyDisordered: p.prescribedFields ? Number.NaN : disorderedFreeEnergy(p.chain, chiN),
     phase,
     amplitude: spreadOf(p.phi.A),

@@ -67,7 +67,8 @@ export function predictAt(model: SurrogateModel, p: ParameterPoint, opts: { poin
   const nx = Math.max(model.config.cell.nx, nextPowerOfTwo(n));
   const [sol] = model.solutions([p], nx);
   const L = sol.period;
-  const x = Float64Array.from({ length: n }, (_, j) => (j * L) / n);
+  // One period per surrogate cell (its solutions are single-period lamellae), so L is the cell length.
+  const x = sol.cell.gridWith(n);
   const at = (u: Float64Array) => Array.from(n === nx ? u : sol.cell.interpolate(u, x));
   const out = {
     phiA: at(sol.phi.A),

@@ -116,6 +116,12 @@ export function evaluateNetworks(tf: Tf, nets: ScftNetworks, config: TrainConfig
   return { network, errors: compareSolutions(network, reference) };
 }
 
+/** φ_A relative L2 against the reference (the measure of the history and the kept state): no Q correction, which it does not read. */
+function phiErrorOf(tf: Tf, nets: ScftNetworks, config: TrainConfig, reference: ScftSolution): number {
+  const network = networkSolution(tf, nets, config.system, { periods: reference.periods, nx: reference.nx, nodesPerBlock: EVALUATION_NODES_PER_BLOCK, correctQ: false });
+  return compareSolutions(network, reference).phiA.relativeL2;
+}
+
 export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const t0 = performance.now();
   let config = opts.config;
@@ -215,6 +221,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
   const problem = new ScftProblem(tf, nets, config.system, config.collocation, config.training.strategy === 'alternating' ? 'detached' : config.losses.fieldInMde);
   problem.fieldsFrozen = config.training.strategy === 'alternating';
   const fieldUpdater = new FieldUpdater(tf, nets, config.system, { ...fieldUpdateSettings(config), periods: reference.periods });
+  // The run it continues pinned the lamella's phase at its first field update: hold the same one.
+  if (resumed) fieldUpdater.keepPin(resumed.file.fieldPin);
   const extra = resumed?.file.extraPoints;
   if (resumed && extra) problem.setExtraPoints(extra, Math.floor(resumed.file.step / config.collocation.resampleEvery));
 
@@ -234,6 +242,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       history: st.history,
       ...(metrics ? { metrics } : {}),
       extraPoints: problem.extraPoints(),
+      fieldPin: fieldUpdater.lamellarPin,
     };
     await saveCheckpoint(tf, opts.outDir, meta as Parameters<typeof saveCheckpoint>[2], [...nets.parameters.namedWeights(), ...adam.state()], { 'reference.json': refFile, ...extraFiles });
   };
@@ -244,7 +253,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     fieldUpdate: () => void fieldUpdater.update(),
     onProgress: opts.onProgress,
     checkpoint: (st) => save(st, 'adam'),
-    evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
+    evaluate: () => phiErrorOf(tf, nets, config, reference),
     shouldStop: opts.shouldStop,
     wallSeconds: () => (performance.now() - t0) / 1000,
   });
@@ -320,7 +329,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
       // A stop asked inside a cycle lands after the current L-BFGS iteration: saved as a stop between cycles is.
       if (r.reason === 'interrupted') throw await stopInPolish(c);
       // Measured after every cycle, like the Adam steps every evaluateEvery, for the history and the target.
-      const phiError = tr.evaluateEvery > 0 ? evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2 : undefined;
+      const phiError = tr.evaluateEvery > 0 ? phiErrorOf(tf, nets, config, reference) : undefined;
       loop.state.history.push({ step: loop.state.step, stage: 'lbfgs', total: r.f, terms: {}, learningRate: 0, seconds: trainingSeconds(), wallSeconds: (performance.now() - t0) / 1000, lbfgsIterations: iterations, ...(phiError !== undefined ? { phiError } : {}) });
       stage(`L-BFGS cycle ${c + 1}/${cycles}: ${iterations} iterations, loss ${r.f.toExponential(3)}${phiError !== undefined ? `, φA error ${phiError.toExponential(3)}` : ''}`);
       last = { stage: 'lbfgs', step: loop.state.step, lbfgsIterations: iterations };
@@ -359,7 +368,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         periods: reference.periods,
       },
       {
-        evaluate: () => evaluateNetworks(tf, nets, config, reference).errors.phiA.relativeL2,
+        evaluate: () => phiErrorOf(tf, nets, config, reference),
         shouldStop: opts.shouldStop,
         onFieldStep: (f) => stage(`second-order field step ${f.cycle}: SCFT deviation max |d| ${f.residual.toExponential(2)} kT, field refit RMS ${f.fitRms.toExponential(2)} kT`),
         onProgress: opts.onSecondOrder ?? ((p) => stage(`second-order ${p.iteration}/${p.iterations}: loss ${p.loss.toExponential(3)}, μ ${p.mu.toExponential(2)}${p.phiError !== undefined ? `, φA error ${p.phiError.toExponential(3)}` : ''}`)),

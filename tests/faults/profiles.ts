@@ -66,27 +66,40 @@ export const CSV_CASES: FaultCase[] = [
   csvCase('--segments without --segment-length-nm', PROFILE_CSV, /--segment-length-nm: missing/, ['--segments', '96']),
 ];
 
-/** Read-past cases: a byte-order mark and Windows line endings change nothing about the answer. */
+/**
+ * Read-past cases: a byte-order mark and Windows line endings change nothing about the answer.
+ * One synthetic profile and its plain inversion serve both cases (made once, outside the sandboxes).
+ */
+const grid = ['--nx', '16', '--ns', '20'];
+let plainRun: Promise<{ csv: string; chiN: number }> | undefined;
+const plainInversion = () =>
+  (plainRun ??= (async () => {
+    const { mkdtempSync } = await import('node:fs');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const dir = mkdtempSync(join(tmpdir(), 'mesofield-plain-'));
+    const r = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '24', ...grid, '--out', join(dir, 'synth')], { capture: true });
+    expect(r.code).toBe(0);
+    const csv = join(dir, 'synth', 'profile.csv');
+    const plain = await runCli(['invert', csv, '--f', '0.5', ...grid, '--json', '--quiet'], { capture: true });
+    expect(plain.code).toBe(0);
+    return { csv, chiN: JSON.parse(plain.stdout).estimators.classical.chiN as number };
+  })());
+
 function sameAnswer(name: string, edit: (csv: string) => string): FaultCase {
-  let synthCsv = '';
   let edited = '';
-  const grid = ['--nx', '16', '--ns', '20'];
   return {
     group: 'profile CSVs',
     name,
     setup: async (s) => {
-      const r = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '24', ...grid, '--out', s.path('synth')], { capture: true });
-      expect(r.code).toBe(0);
-      synthCsv = s.path('synth/profile.csv');
       const { readFileSync } = await import('node:fs');
-      edited = s.write('edited.csv', edit(readFileSync(synthCsv, 'utf8')));
+      edited = s.write('edited.csv', edit(readFileSync((await plainInversion()).csv, 'utf8')));
     },
     argv: () => ['invert', edited, '--f', '0.5', ...grid, '--json', '--quiet'],
     code: 0,
     check: async (r) => {
-      const plain = await runCli(['invert', synthCsv, '--f', '0.5', ...grid, '--json', '--quiet'], { capture: true });
       const a = JSON.parse(r.stdout).estimators.classical.chiN;
-      const b = JSON.parse(plain.stdout).estimators.classical.chiN;
+      const b = (await plainInversion()).chiN;
       expect(a).toBe(b);
       // The profile is noiseless and made on the same grid: χN comes back to the truth (synth's own χN = 15).
       expect(Math.abs(a - 15)).toBeLessThan(1e-3);

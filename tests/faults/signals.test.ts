@@ -5,8 +5,9 @@
  * - train: SIGINT → exit 130, SIGTERM → exit 143, each after saving a checkpoint it names;
  *   SIGKILL → no handler runs, the last periodic checkpoint stays and --resume finishes it.
  * - sweep: SIGINT → exit 130 with the solved points saved; the same command again resumes.
- * - resume: a run stopped at step k by requestStop (the signal's own code path) and resumed
- *   reproduces the uninterrupted run's loss curve and final metrics.
+ * - resume: a run stopped at step k (in the field-update phase) or in the L-BFGS polish by
+ *   requestStop (the signal's own code path) and resumed reproduces the uninterrupted run's
+ *   loss curve and final metrics; one uninterrupted run serves both.
  *
  * solve and demo are in signals-solve-demo.test.ts, a file of its own that the runner runs beside this one.
  */
@@ -70,7 +71,8 @@ describe('signals', () => {
     writeFileSync(cfg, JSON.stringify({ ...TRAIN, training: { ...TRAIN.training, adamSteps: 60 } }));
     const out = join(dir, 'run');
     const p = start(['train', cfg, '--out', out]);
-    await p.waitFor(/Adam (1\d|[2-9]\d)\/60 steps/, 120_000);
+    // Past step 20: the step-10 checkpoint is written whole (a kill at step 10 could land before it).
+    await p.waitFor(/Adam ([2-5]\d)\/60 steps/, 120_000);
     p.kill('SIGKILL');
     expect((await p.code).signal).toBe('SIGKILL');
     const saved = checkpointStep(out);
@@ -89,48 +91,64 @@ describe('signals', () => {
     counts.tried++;
     const dir = tmp();
     const cfg = join(dir, 's.json');
-    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: { from: 12, to: 20, count: 40 }, f: [0.5], segmentRatio: [1] }, cell: { period: 'equilibrium', nx: 32, ns: 40 } }));
+    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: { from: 12, to: 20, count: 10 }, f: [0.5], segmentRatio: [1] }, cell: { period: 'equilibrium', nx: 32, ns: 40 } }));
     const out = join(dir, 'sw');
     const p = start(['sweep', cfg, '--out', out, '--workers', '1']);
-    await p.waitFor(/point [2-9]\d*\/40/, 120_000);
+    await p.waitFor(/point [2-5]\/10/, 120_000);
     p.kill('SIGINT');
     const r = await p.code;
     expect(r.code, p.stderr()).toBe(130);
-    expect(p.stderr()).toMatch(/stopped after (\d+) of 40 points; they are saved in .*shard-1-of-1\.json; run the same command again/);
-    const done = Number(/stopped after (\d+) of 40/.exec(p.stderr())![1]);
+    expect(p.stderr()).toMatch(/stopped after (\d+) of 10 points; they are saved in .*shard-1-of-1\.json; run the same command again/);
+    const done = Number(/stopped after (\d+) of 10/.exec(p.stderr())![1]);
     expect(done).toBeGreaterThan(0);
     expect(JSON.parse(readFileSync(join(out, 'shard-1-of-1.json'), 'utf8')).points.length).toBe(done);
     const q = start(['sweep', cfg, '--out', out, '--workers', '1', '--json']);
     const r2 = await q.code;
     expect(r2.code, q.stderr()).toBe(0);
-    expect(q.stderr()).toMatch(new RegExp(`resuming .* ${done} of 40 points already saved`));
+    expect(q.stderr()).toMatch(new RegExp(`resuming .* ${done} of 10 points already saved`));
     counts['clear error or stop']++;
   });
 });
 
 describe('resume fidelity', () => {
-  it('a run stopped at step 25 by the stop flag and resumed reproduces the uninterrupted run', async () => {
+  // One uninterrupted run serves every stop below: the Adam phase with field updates every 10
+  // steps (the lamella pinned at the first, step 10), then an L-BFGS polish.
+  const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 40, fieldUpdateEvery: 10, lbfgsIterations: 16, lbfgsCycles: 1 } });
+  let wholeRun: ReturnType<typeof trainRun> | undefined;
+  const uninterrupted = () => (wholeRun ??= trainRun({ config: base, backend: 'wasm' }));
+  let whole: Awaited<ReturnType<typeof trainRun>>;
+  const rel = (x: number, y: number) => Math.abs(x / y - 1);
+  const sameEnd = (resumed: typeof whole) => {
+    expect(rel(resumed.metrics.errors.phiA.relativeL2, whole.metrics.errors.phiA.relativeL2)).toBeLessThan(1e-6);
+    expect(rel(resumed.metrics.errors.freeEnergyError, whole.metrics.errors.freeEnergyError)).toBeLessThan(1e-6);
+  };
+  const curve = (h: typeof whole.history, keep: (e: (typeof whole.history)[number]) => boolean) => h.filter(keep).map((e) => e.total);
+  const sameCurve = (a: number[], b: number[]) => {
+    expect(b.length).toBe(a.length);
+    for (let i = 0; i < a.length; i++) expect(Math.abs(b[i] / a[i] - 1)).toBeLessThan(1e-6);
+  };
+
+  it('a run stopped at step 25, in the field-update phase, by the stop flag and resumed reproduces the uninterrupted run', async () => {
     counts.tried++;
-    const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 50, lbfgsIterations: 20, lbfgsCycles: 1 } });
-    const whole = await trainRun({ config: base, backend: 'wasm' });
+    whole = await uninterrupted();
     const dir = join(tmp(), 'run');
     resetStop();
     const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onProgress: (p) => p.step >= 25 && !stopRequested() && requestStop('SIGINT') }).catch((e) => e);
     resetStop();
     expect(stopped).toBeInstanceOf(TrainingStopped);
     expect(checkpointStep(dir)).toBe(25);
+    // The field updates' pin (taken at step 10) is in the checkpoint: the resume holds the same phase.
+    const saved = JSON.parse(readFileSync(join(dir, 'checkpoint.json'), 'utf8')) as { fieldPin: { periods: number; phase: number } | null };
+    expect(saved.fieldPin).not.toBeNull();
     const resumed = await trainRun({ config: base, resumeDir: dir, outDir: dir, backend: 'wasm' });
-    // The loss curve after the stop, to float32 rounding (the networks run in float32).
-    const tail = (h: typeof whole.history) => h.filter((e) => e.stage === 'adam' && e.step > 25).map((e) => e.total);
-    const a = tail(whole.history);
-    const b = tail(resumed.history);
-    expect(b.length).toBe(a.length);
-    for (let i = 0; i < a.length; i++) expect(Math.abs(b[i] / a[i] - 1)).toBeLessThan(1e-6);
+    // The loss curve after the stop (field updates at steps 30 and 40 included) and the polish, to float32 rounding (the networks run in float32).
+    sameCurve(
+      curve(whole.history, (e) => (e.stage === 'adam' && e.step > 25) || e.stage === 'lbfgs'),
+      curve(resumed.history, (e) => (e.stage === 'adam' && e.step > 25) || e.stage === 'lbfgs'),
+    );
     // The reference it is judged by is the same lamella (same phase), so the final metrics agree.
     expect(resumed.reference.phi.A[0]).toBeCloseTo(whole.reference.phi.A[0], 9);
-    const rel = (x: number, y: number) => Math.abs(x / y - 1);
-    expect(rel(resumed.metrics.errors.phiA.relativeL2, whole.metrics.errors.phiA.relativeL2)).toBeLessThan(1e-6);
-    expect(rel(resumed.metrics.errors.freeEnergyError, whole.metrics.errors.freeEnergyError)).toBeLessThan(1e-6);
+    sameEnd(resumed);
     counts['correct answer']++;
     // Changed settings on resume are refused with the differences listed, never silently ignored.
     counts.tried++;
@@ -138,30 +156,24 @@ describe('resume fidelity', () => {
     await expect(trainRun({ config: changed, resumeDir: dir, outDir: dir, backend: 'wasm' })).rejects.toThrow(/the config differs from the one the checkpoint was trained with[\s\S]*training\.learningRate: checkpoint 0\.002, config 0\.004/);
     counts['clear error or stop']++;
   });
-});
 
-describe('resume fidelity after a stop in the L-BFGS polish', () => {
   it('a run stopped at L-BFGS iteration 6 by the stop flag and resumed ends where the uninterrupted run ends', async () => {
     counts.tried++;
-    const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 30, lbfgsIterations: 16, lbfgsCycles: 1 } });
-    const whole = await trainRun({ config: base, backend: 'wasm' });
+    whole = await uninterrupted();
     const dir = join(tmp(), 'run');
     resetStop();
     const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onLbfgs: (it) => it >= 6 && !stopRequested() && requestStop('SIGTERM') }).catch((e) => e);
     resetStop();
     expect(stopped).toBeInstanceOf(TrainingStopped);
     expect(String(stopped.message)).toMatch(/interrupted in the L-BFGS polish after \d+ iterations .*a resume repeats the polish from there/);
-    expect(checkpointStep(dir)).toBe(30);
+    expect(checkpointStep(dir)).toBe(40);
     const resumed = await trainRun({ config: base, resumeDir: dir, outDir: dir, backend: 'wasm' });
     // The polish's loss curve, iteration by iteration, to float32 rounding.
-    const polish = (h: typeof whole.history) => h.filter((e) => e.stage === 'lbfgs').map((e) => e.total);
-    const a = polish(whole.history);
-    const b = polish(resumed.history);
-    expect(b.length).toBe(a.length);
-    for (let i = 0; i < a.length; i++) expect(Math.abs(b[i] / a[i] - 1)).toBeLessThan(1e-6);
-    const rel = (x: number, y: number) => Math.abs(x / y - 1);
-    expect(rel(resumed.metrics.errors.phiA.relativeL2, whole.metrics.errors.phiA.relativeL2)).toBeLessThan(1e-6);
-    expect(rel(resumed.metrics.errors.freeEnergyError, whole.metrics.errors.freeEnergyError)).toBeLessThan(1e-6);
+    sameCurve(
+      curve(whole.history, (e) => e.stage === 'lbfgs'),
+      curve(resumed.history, (e) => e.stage === 'lbfgs'),
+    );
+    sameEnd(resumed);
     counts['correct answer']++;
   });
 });

@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -12,11 +12,19 @@ describe('mesofield invert --method both', () => {
     const csv = join(d, 'p', 'profile.csv');
     expect(runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', join(d, 'p')]).code).toBe(0);
     const out = join(d, 'run');
-    const r = runCli(['invert', csv, '--f', '0.5', '--method', 'both', '--seeds', '2', '--adam-steps', '100', '--lbfgs-iterations', '100', '--nx', '32', '--ns', '60', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
+    // The plumbing of both estimators, not their accuracy (network.test.ts, network-noise.test.ts):
+    // a 16 × 40 model grid and 50 Adam steps with a field/χN update after 25 of them (a config
+    // file, under the flags), so that the network's χN moves off the classical one.
+    const cfg = join(d, 'invert.json');
+    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, network: { fieldUpdateEvery: 25 } }));
+    const r = runCli(['invert', csv, cfg, '--method', 'both', '--seeds', '2', '--adam-steps', '50', '--lbfgs-iterations', '0', '--nx', '16', '--ns', '40', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);
     expect(Object.keys(res.estimators).sort()).toEqual(['classical', 'network']);
     expect(res.estimators.network.runs.length).toBe(2);
+    // The update after 25 steps ran: χN left the classical estimate it started from.
+    expect(res.estimators.network.chiN).not.toBe(res.estimators.classical.chiN);
+    expect(res.estimators.network.runs[0].trajectory.length).toBeGreaterThan(1);
     expect(res.estimators.network.intervalMethod).toMatch(/seed/);
     expect(res.agreement.compared).toBe(true);
     expect(JSON.parse(readFileSync(join(out, 'result.json'), 'utf8')).estimators.network.backend).toBe('wasm');

@@ -160,6 +160,7 @@ describe('file formats', () => {
         history: [{ step: 10, stage: 'adam', total: 1e-3, terms: { mde: 1e-3 }, learningRate: 1e-3, seconds: 1 }],
         metrics,
         extraPoints: null,
+        fieldPin: { periods: 1, phase: 0.25 },
         weightSpecs: [{ name: 'field/w0', shape: [1, 8], dtype: 'float32' }],
         weightBytes: 32,
       },

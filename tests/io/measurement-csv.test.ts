@@ -23,7 +23,7 @@ describe('spacing CSV (N, D_nm, dD_nm)', () => {
     expect(() => parseSpacingCsv('N,dD_nm\n50,1\n', 's.csv')).toThrow(/s\.csv: line 1: the header has no D_nm column/);
     expect(() => parseSpacingCsv('N,D_nm\n50,14\n100,-2\n', 's.csv')).toThrow(/^s\.csv: line 3, column 2 \(D_nm\): got -2; allowed: a number > 0$/);
     expect(() => parseSpacingCsv('N,D_nm\n50,abc\n', 's.csv')).toThrow(/^s\.csv: line 2, column 2 \(D_nm\): got "abc"; allowed: a finite number$/);
-    expect(() => parseSpacingCsv('N,D_nm\n50,14,3\n', 's.csv')).toThrow(/s\.csv: line 2: 3 values, but the header on line 1 names 2 columns/);
+    expect(() => parseSpacingCsv('N,D_nm\n50,14,3\n', 's.csv')).toThrow(/s\.csv: line 2, column 3 \(extra value "3"\): 3 values, but the header on line 1 names 2 columns/);
     expect(() => parseSpacingCsv('N,D_nm\n', 's.csv')).toThrow(/s\.csv: no data rows after the header on line 1/);
   });
 });
@@ -64,7 +64,8 @@ describe('scattering CSV (q_per_nm | q_per_A, I, dI)', () => {
   });
 
   it('names the file, line, column and what is allowed', () => {
-    expect(() => parseScatteringCsv('q_per_nm,I\n0.2,5\n0.2,4\n', 'i.csv')).toThrow(/^i\.csv: line 3, column 1 \(q_per_nm\): got 0\.2 after 0\.2 on line 2; q must increase strictly \(sort the rows by q\)$/);
+    expect(() => parseScatteringCsv('q_per_nm,I\n0.2,5\n0.2,4\n', 'i.csv')).toThrow(/^i\.csv: line 3, column 1 \(q_per_nm\): got 0\.2, the same q as line 2; q must increase strictly \(merge or remove repeated rows\)$/);
+    expect(() => parseScatteringCsv('q_per_nm,I\n0.30,5\n0.20,4\n', 'i.csv')).toThrow(/^i\.csv: line 3, column 1 \(q_per_nm\): got 0\.20 after 0\.3 on line 2; q must increase strictly \(sort the rows by q\)$/);
     expect(() => parseScatteringCsv('q_per_nm,I\n0,5\n', 'i.csv')).toThrow(/^i\.csv: line 2, column 1 \(q_per_nm\): got 0; allowed: q > 0$/);
     expect(() => parseScatteringCsv('q_per_nm,I,dI\n0.1,5,-1\n', 'i.csv')).toThrow(/^i\.csv: line 2, column 3 \(dI\): got -1; allowed: a standard deviation > 0$/);
     expect(() => parseScatteringCsv('I,dI\n5,1\n', 'i.csv')).toThrow(/i\.csv: line 1: the header has no q column; allowed columns: q_per_nm or q_per_A, I, and optionally dI/);

@@ -163,15 +163,15 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   const progress = new Progress('invert', flags.quiet);
   const { invertPhases, readProfile } = await import('../../inverse/invert-task.js');
   // A file that cannot be read or parsed is refused here, before a worker thread starts for it.
-  if (config.method === 'classical') readProfile(profilePath, config);
+  readProfile(profilePath, config);
   const run = new RunProgress(progress, invertPhases(config));
   const onStep = (phase: InvertPhaseName, done: number, detail: string, keep?: boolean) => run.at(phase, done, detail, keep);
   const onEstimator = (t: string) => progress.done(t);
   const task: InvertTask = { profilePath, config, sources, configSource: configPath ?? 'flags', workers, files: flags.out !== undefined };
-  // A classical fit runs on a worker thread, so a signal ends it at once (its χN search is
-  // synchronous: on this thread the handler would wait for the whole fit). The network
-  // estimator stops within its own steps and stays here (tfjs and its seed workers).
-  const { result, files } = config.method === 'classical' ? await classicalOnWorker(task, flags.out, onStep, onEstimator) : await (await import('../../inverse/invert-run.js')).invertRun({ ...task, onStep, onEstimator });
+  // Every method runs on a worker thread, so a signal ends every phase at once: the classical
+  // fit and its refits are synchronous χN searches (on this thread the handler would wait for
+  // them), and the network estimator's truth check and start are solves of their own.
+  const { result, files } = await invertOnWorker(task, flags.out, onStep, onEstimator);
   if (flags.out && files) {
     const written = out!.write(files);
     if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
@@ -184,25 +184,37 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   process.stdout.write(flags.json ? inversionResultText(result, 2) : summaryText(result));
 }
 
-/** The classical `invert` on a worker thread (inverse/invert-worker.ts): SIGINT/SIGTERM end it at once, nothing written, 130/143. */
-async function classicalOnWorker(task: InvertTask, outDir: string | undefined, onStep: (phase: InvertPhaseName, done: number, detail: string, keep?: boolean) => void, onEstimator: (t: string) => void): Promise<InvertRunResult> {
+/** The `invert` run on a worker thread (inverse/invert-worker.ts): SIGINT/SIGTERM end it in any phase at once, nothing written, 130/143. */
+async function invertOnWorker(task: InvertTask, outDir: string | undefined, onStep: (phase: InvertPhaseName, done: number, detail: string, keep?: boolean) => void, onEstimator: (t: string) => void): Promise<InvertRunResult> {
   const { runInWorkers, PoolStopped } = await import('../../threads/worker-pool.js');
   const { errorFromWorker } = await import('../worker-errors.js');
   const { installStopHandlers, stopAbortSignal, RunStopped } = await import('../../runtime/stop.js');
   const kept = outDir ? ` (${outDir} is left as it was)` : '';
-  const uninstall = installStopHandlers('invert', `stopping the fit; nothing will be written${kept}`);
+  // The phase the run last reported, named in the stop message.
+  let phase = 'classical fit';
+  let estimators = 0;
+  const uninstall = installStopHandlers('invert', `stopping the ${task.config.method === 'classical' ? 'fit' : 'inversion'}; nothing will be written${kept}`);
   try {
     const [r] = await runInWorkers<InvertTask, InvertRunResult, InvertStep>([task], {
       entry: 'inverse/invert-worker.js',
       workerData: null,
       workers: 1,
-      onProgress: (s) => (s.kind === 'step' ? onStep(s.phase, s.done, s.detail, s.keep) : onEstimator(s.text)),
+      onProgress: (s) => {
+        if (s.kind === 'step') {
+          phase = s.phase === 'network' ? 'network estimator' : s.phase === 'assumed inputs' ? "assumed inputs' refits" : s.phase;
+          onStep(s.phase, s.done, s.detail, s.keep);
+        } else {
+          // The classical estimate ends the fit; the network estimator (its warm start first) follows.
+          phase = ++estimators === 1 && task.config.method !== 'classical' ? 'network estimator' : 'last checks';
+          onEstimator(s.text);
+        }
+      },
       toError: errorFromWorker,
       signal: stopAbortSignal(),
     });
     return r;
   } catch (e) {
-    if (e instanceof PoolStopped) throw new RunStopped(`invert stopped by a signal during the classical fit; nothing was written${outDir ? ` (${outDir} was left as it was)` : ''}`);
+    if (e instanceof PoolStopped) throw new RunStopped(`invert stopped by a signal during the ${phase}; nothing was written${outDir ? ` (${outDir} was left as it was)` : ''}`);
     throw e;
   } finally {
     uninstall();

@@ -62,7 +62,7 @@ interface CurveSettings {
 
 async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: ReturnType<typeof claimOut>): Promise<void> {
   const { f, chiN, rgNm, H, bottom, top, sld, width, dq, bg, q0, q1, points, nx, ns, wallRange, q } = c;
-  const { filmReflectivity } = await import('../../reflectivity/film-reflectivity.js');
+  const { filmReflectivity } = await import('../../inverse/film/film-reflectivity.js');
   const { SLD_UNIT } = await import('../../inverse/film/film-fit-run.js');
   let r;
   try {

@@ -1,13 +1,32 @@
 /**
  * `mesofield schema KIND`: the JSON Schema of a config file kind, generated from the zod
  * schema the tool itself validates with, so the reference cannot drift from the code.
- * Start-up: only the asked kind's schema is built; --markdown builds them all.
+ * Start-up: the build wrote each kind's text (io/schemas/config-json-schema.ts), so a kind is
+ * printed from its file without zod; without the file only the asked kind's schema is built.
+ * --markdown builds them all.
  */
+import { readFileSync, statSync } from 'node:fs';
 import type { Command } from 'commander';
-import { z } from 'zod';
 import { InputError } from '../../io/errors.js';
 import { CONFIG_KIND_NAMES, CONFIG_SCHEMA_LOADERS, loadConfigSchemas } from '../../io/schemas/config-schema-loaders.js';
 import { action } from '../run-command.js';
+
+/**
+ * The build's text of a kind's JSON Schema (dist/config-schemas/KIND.json), or null without it.
+ * A file older than the compiled schema list is stale (a plain tsc ran after the build, and tsc
+ * rewrites every file it emits): then the schema is generated instead.
+ */
+export function builtSchemaText(kind: string, dist = new URL('../../', import.meta.url)): string | null {
+  try {
+    // This module is dist/cli/commands/schema.js; the folder is dist/config-schemas (BUILT_SCHEMA_FOLDER).
+    const file = new URL(`config-schemas/${kind}.json`, dist);
+    const compiled = new URL('io/schemas/config-schema-loaders.js', dist);
+    if (statSync(file).mtimeMs < statSync(compiled).mtimeMs) return null;
+    return readFileSync(file, 'utf8');
+  } catch {
+    return null;
+  }
+}
 
 export function registerSchema(program: Command): void {
   const kinds = CONFIG_KIND_NAMES.join(', ');
@@ -32,10 +51,8 @@ export function registerSchema(program: Command): void {
         }
         if (kind === undefined) throw new InputError(`kind: missing; allowed: ${kinds} (or --markdown)`);
         // An own property only: "constructor" or "toString" is no kind.
-        const load = Object.hasOwn(CONFIG_SCHEMA_LOADERS, kind) ? CONFIG_SCHEMA_LOADERS[kind] : undefined;
-        if (!load) throw new InputError(`kind: got ${JSON.stringify(kind)}; allowed: ${kinds}`);
-        const schema = await load();
-        process.stdout.write(`${JSON.stringify(z.toJSONSchema(schema, { io: 'input', unrepresentable: 'any' }), null, 2)}\n`);
+        if (!Object.hasOwn(CONFIG_SCHEMA_LOADERS, kind)) throw new InputError(`kind: got ${JSON.stringify(kind)}; allowed: ${kinds}`);
+        process.stdout.write(builtSchemaText(kind) ?? (await (await import('../../io/schemas/config-json-schema.js')).configJsonSchemaText(kind)));
       }),
     );
 }

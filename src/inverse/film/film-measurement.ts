@@ -23,7 +23,7 @@ import type { ScftSolution } from '../../physics/result.js';
 import type { FilmCell } from '../../physics/cell/film-cell.js';
 import { parrattReflectivity } from '../../reflectivity/parratt.js';
 import { smearedReflectivity } from '../../reflectivity/q-resolution.js';
-import type { StackSlds } from '../../reflectivity/sld-profile.js';
+import type { SldSteps, StackSlds } from '../../reflectivity/sld-profile.js';
 import { filmSldSteps, slicedStack, smoothedSld } from '../../reflectivity/sld-profile.js';
 
 export type FilmDataKind = 'phi' | 'sld' | 'reflectivity';
@@ -50,11 +50,12 @@ const STEP_REFINE = 4;
 /** Parratt slices no thicker than this (nm): a tenth of a typical SCFT interface width. */
 export const MAX_SLICE_NM = 0.2;
 
-/** φ_A on a finer set of equal cells (for SLD steps), from the film's spectral interpolant. */
-function finePhi(cell: FilmCell, phiA: Float64Array): Float64Array {
-  const m = cell.n * STEP_REFINE;
-  const z = Float64Array.from({ length: m }, (_, k) => ((k + 0.5) * cell.length) / m);
-  return cell.interpolate(phiA, z);
+/**
+ * The film's SLD steps (depths in Rg × `unit`: 1 for Rg, Rg in nm for nm): φ_A resampled by the
+ * film's spectral interpolant onto STEP_REFINE times the solve's cells, one step per cell.
+ */
+export function filmSteps(cell: FilmCell, phiA: Float64Array, slds: StackSlds, unit = 1): SldSteps {
+  return filmSldSteps(cell.interpolate(phiA, cell.gridWith(cell.n * STEP_REFINE)), cell.length * unit, slds);
 }
 
 export function predictPhi(cell: FilmCell, sol: ScftSolution, m: MeasurementParams, x: Float64Array): Float64Array {
@@ -62,13 +63,13 @@ export function predictPhi(cell: FilmCell, sol: ScftSolution, m: MeasurementPara
 }
 
 export function predictSld(cell: FilmCell, sol: ScftSolution, m: MeasurementParams, x: Float64Array, slds: StackSlds): Float64Array {
-  const steps = filmSldSteps(finePhi(cell, sol.phi.A), cell.length, slds);
+  const steps = filmSteps(cell, sol.phi.A, slds);
   return smoothedSld(steps, m.width, x.map((v) => v - m.offset));
 }
 
 /** The stack Parratt sees (lengths in nm). */
 export function filmStack(cell: FilmCell, sol: ScftSolution, width: number, slds: StackSlds, rgNm: number) {
-  const steps = filmSldSteps(finePhi(cell, sol.phi.A), cell.length * rgNm, slds);
+  const steps = filmSteps(cell, sol.phi.A, slds, rgNm);
   return slicedStack(steps, width * rgNm, MAX_SLICE_NM);
 }
 

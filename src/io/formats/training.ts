@@ -1,7 +1,8 @@
 /**
  * The files of a training run (training/checkpoint.ts writes them, reports read them):
- *   checkpoint.json  kind "checkpoint" (version 2): config, provenance, step, stage, loss
- *                    weights, the loss history of every phase, the metrics, the weight manifest
+ *   checkpoint.json  kind "checkpoint" (version 3): config, provenance, step, stage, loss
+ *                    weights, the loss history of every phase, the metrics, the field
+ *                    updates' lamella pin, the weight manifest
  *   metrics.json     the run's metrics (`trainMetricsSchema`): errors against the reference,
  *                    the two solutions' summaries, what each training phase did
  * Losses are dimensionless mean squares; seconds are wall time since the run started.
@@ -11,7 +12,8 @@ import { trainConfigSchema } from '../schemas/train-config.js';
 import { formatHeader } from './file-format.js';
 import { solutionSummarySchema } from './solution.js';
 
-export const CHECKPOINT_VERSION = 2;
+/** 3: the field updates' lamella pin (`fieldPin`), so a resume pins where the run it continues did. */
+export const CHECKPOINT_VERSION = 3;
 
 /** The named loss terms of a network run (network/losses/terms.ts builds one per name). */
 export const LOSS_TERMS = ['mde', 'periodicity', 'initial', 'incompressibility', 'selfConsistency', 'gauge'] as const;
@@ -176,6 +178,12 @@ export const checkpointFileSchema = z
       .strict()
       .nullable()
       .optional(),
+    /**
+     * The alternating strategy's field updates hold the lamella's phase (radians of the
+     * harmonic with `periods` periods in the cell) fixed from their first update on
+     * (network/field-update.ts); null before the first update or without a translation mode.
+     */
+    fieldPin: z.object({ periods: z.number().int().min(1), phase: z.number() }).strict().nullable(),
     /** tfjs weight manifest of weights.bin (tf.io.encodeWeights). */
     weightSpecs: z.array(weightSpecSchema),
     weightBytes: z.number().int().min(0),

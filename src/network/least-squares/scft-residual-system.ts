@@ -194,6 +194,20 @@ export class ScftResidualSystem {
   }
 
   /**
+   * ln q and ln q† on the contour nodes × grid, and each block's MDE residual r (unscaled,
+   * at that block's own nodes, a junction node once per block with the block's D and w), at
+   * theta in float64: what the adjoint correction of Q needs (network/partition-function.ts).
+   */
+  propagatorResiduals(theta: Float64Array): { w: SpeciesArrays | null; sides: { contour: Contour; logQ: Float64Array[]; residual: Float64Array[] }[] } {
+    const field = this.field ? this.fieldAt(theta, false) : null;
+    const sides = this.sides.map((side) => {
+      const out = this.computeSide(theta, side, field, true, false, 1, false);
+      return { contour: side.contour, logQ: out.u, residual: out.blockResiduals };
+    });
+    return { w: field ? { A: field.w[0], B: field.w[1] } : null, sides };
+  }
+
+  /**
    * The field network fitted to target fields on the grid, as least squares over its own
    * columns: r_{c,j} = (w_c(x_j) − target_c(x_j)) / √(2 nx) for the species on the chain.
    */
@@ -430,6 +444,7 @@ export class ScftResidualSystem {
     const u = Array.from({ length: ns + 1 }, () => new Float64Array(nx));
     const valueRows = jacobian && values ? Array.from({ length: (ns + 1) * nx }, () => new Float64Array(side.count)) : null;
     const groups: ResidualGroup[] = [];
+    const blockResiduals: Float64Array[] = [];
     let sumSq = 0;
     const row = new Float64Array(this.size);
     const speciesChannel = (b: number) => (side.chain.blocks[b].species === 'A' ? 0 : 1);
@@ -461,6 +476,7 @@ export class ScftResidualSystem {
         }
       }
       const r = new Float64Array(withMde ? rows : 0);
+      blockResiduals.push(r);
       for (let i = 0; i <= cb.steps; i++) {
         const node = cb.offset + i;
         const s = side.contour.s[node];
@@ -530,7 +546,7 @@ export class ScftResidualSystem {
         groups.push({ columns: sortedColumns(columns, J, rows), J, r, ...(factored ? { factored } : {}) });
       }
     });
-    return { u, valueRows, groups, sumSq };
+    return { u, valueRows, groups, sumSq, blockResiduals };
   }
 
   private fieldEquations(field: { w: Float64Array[]; dw: Float64Array[][] | null }, logQ: Float64Array[][], valueRows: (Float64Array[] | null)[], jacobian: boolean) {

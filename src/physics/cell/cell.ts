@@ -66,8 +66,10 @@ export interface Cell {
   readonly length: number;
   /** Grid points. */
   readonly n: number;
-  /** The grid x_j (Rg). */
+  /** The grid x_j (Rg): gridWith(n). */
   readonly x: Float64Array;
+  /** Where this kind of cell puts n grid points (Rg), for any n ≥ 1: output and resampling grids share the solver's convention. */
+  gridWith(n: number): Float64Array;
   /** Whole lamellar periods the cell is set up for (periodic), 0 when the cell does not fix them (film). */
   readonly periods: number;
   /** Cell average (1/L)∫u dx from grid values (spectrally exact on both kinds of grid). */

@@ -52,8 +52,7 @@ export class FilmCell implements Cell {
     if (!(length > 0) || !Number.isFinite(length)) throw new ModelError(`${field}.thickness`, length, 'allowed: a finite thickness > 0 (in Rg)');
     if (!Number.isInteger(n) || n < 4 || (n & (n - 1)) !== 0) throw new ModelError(`${field}.nx`, n, 'allowed: a power of two ≥ 4 (the cosine transform goes through the FFT)');
     if (!(walls.range > 0)) throw new ModelError(`${field}.walls.range`, walls.range, 'allowed: a range > 0 (Rg)');
-    const dz = length / n;
-    this.x = Float64Array.from({ length: n }, (_, j) => (j + 0.5) * dz);
+    this.x = this.gridWith(n);
     this.mirror = new PeriodicCell(2 * length, 2 * n, 1, field);
     this.features = { kind: 'cosine', waveNumber: (m) => (Math.PI * m) / length, extra: { count: 2, at: (z) => this.wallProfiles(z) } };
     this.surfaceField = this.surfaceFieldAt(this.x);
@@ -101,7 +100,8 @@ export class FilmCell implements Cell {
     return FourierSeries.fromGrid(this.extend(u), 2 * this.length);
   }
 
-  private gridOf(n: number): Float64Array {
+  /** z_j = (j + ½)·H/n: cell centres, half a step from each wall (the cosine transform's grid). */
+  gridWith(n: number): Float64Array {
     return Float64Array.from({ length: n }, (_, j) => ((j + 0.5) * this.length) / n);
   }
 
@@ -171,12 +171,12 @@ export class FilmCell implements Cell {
 
   resample(u: ArrayLike<number>, n: number): Float64Array {
     if (u.length === n) return Float64Array.from(u);
-    return this.interpolate(u, this.gridOf(n));
+    return this.interpolate(u, this.gridWith(n));
   }
 
   blur(u: ArrayLike<number>, width: number): Float64Array {
     if (!(width > 0)) return Float64Array.from(u);
-    return this.interpolate(u, this.gridOf(u.length), width);
+    return this.interpolate(u, this.gridWith(u.length), width);
   }
 
   withLength(length: number): FilmCell {

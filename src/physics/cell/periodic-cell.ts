@@ -117,7 +117,7 @@ export class PeriodicCell implements Cell {
     }
     this.field = field;
     if (!Number.isInteger(periods) || periods < 1) throw new ModelError(`${field}.periods`, periods, 'allowed: a whole number of periods ≥ 1');
-    this.x = Float64Array.from({ length: n }, (_, j) => (j * length) / n);
+    this.x = this.gridWith(n);
     const k = (m: number) => (2 * Math.PI * m) / length;
     this.translation = {
       mode: (u, m) => FourierSeries.fromGrid(u, length).mode(m),
@@ -130,6 +130,11 @@ export class PeriodicCell implements Cell {
   startPattern(): { pattern: Float64Array; waveNumber: number } {
     const k = (2 * Math.PI * this.periods) / this.length;
     return { pattern: Float64Array.from(this.x, (x) => Math.cos(k * x)), waveNumber: k };
+  }
+
+  /** x_j = j·L/n: the first point on x = 0. */
+  gridWith(n: number): Float64Array {
+    return Float64Array.from({ length: n }, (_, j) => (j * this.length) / n);
   }
 
   /** A shift by a whole number of grid steps is a roll (exact); any other goes through the interpolant. */

@@ -4,13 +4,13 @@
  * shared with the fits). Units: Q in Å⁻¹, SLD in Å⁻² (files: 10⁻⁶ Å⁻²), depths in nm, the
  * thickness and width given in Rg here (the caller converts nm with Rg in nm).
  */
-import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
-import type { ChainSpec } from '../physics/chain-schema.js';
-import { FilmModel } from '../inverse/film/film-model.js';
-import type { FilmPoint } from '../inverse/film/film-model.js';
-import { filmStack, predictReflectivity } from '../inverse/film/film-measurement.js';
-import type { StackSlds } from './sld-profile.js';
-import { filmSldSteps, smoothedSld } from './sld-profile.js';
+import type { SpectralOptions } from '../../io/schemas/spectral-schema.js';
+import type { ChainSpec } from '../../physics/chain-schema.js';
+import { FilmModel } from './film-model.js';
+import type { FilmPoint } from './film-model.js';
+import { filmStack, filmSteps, predictReflectivity } from './film-measurement.js';
+import type { StackSlds } from '../../reflectivity/sld-profile.js';
+import { smoothedSld } from '../../reflectivity/sld-profile.js';
 
 export interface FilmReflectivitySettings {
   chain: ChainSpec;
@@ -52,8 +52,7 @@ export function filmReflectivity(s: FilmReflectivitySettings): FilmReflectivity 
   const margin = Math.max(2, 4 * s.width * s.rgNm);
   const count = 400;
   const z = Float64Array.from({ length: count + 1 }, (_, k) => -margin + ((Hnm + 2 * margin) * k) / count);
-  const fine = point.cell.interpolate(point.solution.phi.A, Float64Array.from({ length: 4 * point.cell.n }, (_, k) => ((k + 0.5) * s.thickness) / (4 * point.cell.n)));
-  const sld = smoothedSld(filmSldSteps(fine, Hnm, s.slds), s.width * s.rgNm, z);
+  const sld = smoothedSld(filmSteps(point.cell, point.solution.phi.A, s.slds, s.rgNm), s.width * s.rgNm, z);
   const slices = filmStack(point.cell, point.solution, s.width, s.slds, s.rgNm).layers.length;
   return { point, q: s.q, R, z, sld, slices, seconds: (performance.now() - t0) / 1000 };
 }
