@@ -14,7 +14,7 @@ import type * as TfModule from '@tensorflow/tfjs';
 import { writeDirectoryAtomic } from '../io/atomic-write.js';
 import { InputError } from '../io/errors.js';
 import { formatZodError } from '../io/errors.js';
-import { CHECKPOINT_VERSION, checkpointFileSchema } from '../io/formats/training.js';
+import { CHECKPOINT_VERSION, checkpointFileSchema, checkpointWrittenSchema } from '../io/formats/training.js';
 import { throughSchema } from '../io/formats/file-format.js';
 import type { CheckpointFile } from '../io/formats/training.js';
 import type { Tf } from '../autodiff/tf.js';
@@ -28,8 +28,8 @@ export interface LoadedCheckpoint {
   weights: TfModule.NamedTensorMap;
 }
 
-export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<z.input<typeof checkpointFileSchema>, 'kind' | 'version' | 'weightSpecs' | 'weightBytes'>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
-  await writeWeightsDirectory(tf, dir, checkpointFileSchema, { kind: 'checkpoint', version: CHECKPOINT_VERSION, ...meta }, tensors, extraFiles);
+export async function saveCheckpoint(tf: Tf, dir: string, meta: Omit<z.input<typeof checkpointWrittenSchema>, 'kind' | 'version' | 'weightSpecs' | 'weightBytes'>, tensors: NamedWeight[], extraFiles: Record<string, string> = {}): Promise<void> {
+  await writeWeightsDirectory(tf, dir, checkpointWrittenSchema, { kind: 'checkpoint', version: CHECKPOINT_VERSION, ...meta }, tensors, extraFiles);
 }
 
 /**

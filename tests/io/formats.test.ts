@@ -169,6 +169,32 @@ describe('file formats', () => {
     );
   });
 
+  it('a version-2 checkpoint (no lamella pin saved) reads as version 3 with no pin; version 1 is refused', () => {
+    const path = join(tmp(), 'checkpoint.json');
+    const v3 = {
+      kind: 'checkpoint',
+      version: CHECKPOINT_VERSION,
+      provenance: netProvenance,
+      config: trainConfigSchema.parse({ version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }),
+      length: 3.8,
+      periods: 1,
+      step: 10,
+      stage: 'adam',
+      lossWeights: zeros,
+      history: [],
+      fieldPin: null,
+      weightSpecs: [],
+      weightBytes: 0,
+    };
+    const { fieldPin: _dropped, ...v2 } = { ...JSON.parse(formatText(checkpointFileSchema, v3 as never)), version: 2 };
+    writeFileSync(path, JSON.stringify(v2));
+    const read = readFormat(path, checkpointFileSchema);
+    expect(read.version).toBe(CHECKPOINT_VERSION);
+    expect(read.fieldPin).toBeNull();
+    writeFileSync(path, JSON.stringify({ ...v2, version: 1 }));
+    expect(() => readFormat(path, checkpointFileSchema)).toThrow(/version: got 1; this version of mesofield reads "checkpoint" files of version 3/);
+  });
+
   const point = { chiN: 15, f: 0.5, segmentRatio: 1 };
   const stat = { max: 1e-3, mean: 5e-4 };
   const surrogateMetrics = surrogateMetricsSchema.parse({

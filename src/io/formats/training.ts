@@ -156,7 +156,8 @@ export type TransferReport = z.infer<typeof transferReportSchema>;
 const weightSpecSchema = z.object({ name: z.string(), shape: z.array(z.number().int()), dtype: z.string() }).loose();
 const networkProvenanceSchema = z.object({ tool: z.literal('mesofield'), version: z.string(), node: z.string(), createdAt: z.string(), backend: z.string(), tfjs: z.string() }).strict();
 
-export const checkpointFileSchema = z
+/** checkpoint.json as this version writes it. */
+export const checkpointWrittenSchema = z
   .object({
     ...formatHeader('checkpoint', CHECKPOINT_VERSION),
     provenance: networkProvenanceSchema,
@@ -190,6 +191,19 @@ export const checkpointFileSchema = z
   })
   .strict();
 
-export type CheckpointFile = z.infer<typeof checkpointFileSchema>;
+/**
+ * A version-2 checkpoint (before the pin was saved) reads as version 3 with no pin: a resume of
+ * it takes the pin at its first field update, as version 2 runs did. Any other version is refused.
+ */
+function fromVersion2(raw: unknown): unknown {
+  if (raw === null || typeof raw !== 'object') return raw;
+  const r = raw as Record<string, unknown>;
+  return r.kind === 'checkpoint' && r.version === 2 && !('fieldPin' in r) ? { ...r, version: CHECKPOINT_VERSION, fieldPin: null } : raw;
+}
+
+/** checkpoint.json as every reader takes it (versions 2 and 3); writers go through checkpointWrittenSchema. */
+export const checkpointFileSchema = z.preprocess(fromVersion2, checkpointWrittenSchema);
+
+export type CheckpointFile = z.infer<typeof checkpointWrittenSchema>;
 export type HistoryEntry = z.infer<typeof historyEntrySchema>;
 export { weightSpecSchema, networkProvenanceSchema };
