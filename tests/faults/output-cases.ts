@@ -196,6 +196,26 @@ export const OUTPUT_CASES: FaultCase[] = [
   },
   {
     group: 'output paths',
+    name: 'a folder a killed run had only claimed (its marker lists no files, its lock is stale) is used without --overwrite',
+    setup: (s) => {
+      // As a short command killed by Ctrl-C between its claim and its first file leaves it
+      // (the claim marks the folder at once; a pid that cannot exist holds the lock).
+      s.mkdir('K');
+      s.write('K/.mesofield-output.json', `${JSON.stringify({ tool: 'mesofield', command: 'synth', files: [], complete: false, updatedAt: '2026-01-01T00:00:00.000Z' }, null, 1)}\n`);
+      s.write('K/.mesofield-lock', `${JSON.stringify({ pid: 2 ** 22 + 1, host: hostname(), command: 'synth', startedAt: '2026-01-01T00:00:00.000Z' })}\n`);
+    },
+    argv: (s) => [...SYNTH, '--out', s.path('K')],
+    code: 0,
+    mayChange: ['K'],
+    check: (_r, s) => {
+      const marker = JSON.parse(readFileSync(s.path('K/.mesofield-output.json'), 'utf8'));
+      expect(marker).toMatchObject({ tool: 'mesofield', command: 'synth', complete: true });
+      expect(marker.files.sort()).toEqual(['profile.csv', 'truth.json']);
+      expect(existsSync(s.path('K/.mesofield-lock'))).toBe(false);
+    },
+  },
+  {
+    group: 'output paths',
     name: 'an empty folder is used (and marked as the output)',
     setup: (s) => void s.mkdir('E'),
     argv: (s) => [...SYNTH, '--out', s.path('E')],
