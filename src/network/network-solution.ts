@@ -73,6 +73,13 @@ export interface NetworkSolutionOptions {
   correctQ?: boolean;
 }
 
+/** Largest relative change of Q the first-order correction is trusted with (common practice, no source: a correction of the size of the value is no longer small). */
+const MAX_Q_CORRECTION = 0.5;
+
+function correctionApplies(c: CorrectedPartitionFunction, endQ: number): boolean {
+  return [c.fromQ, c.fromQDagger].every((v) => Number.isFinite(v) && v > 0 && Math.abs(v / endQ - 1) <= MAX_Q_CORRECTION);
+}
+
 /** The adjoint-corrected Q on the evaluation grid, or null where the float64 residual system does not apply (soft constraints). */
 function correctedQ(nets: ScftNetworks, system: SystemSpec, cell: Cell, nodesPerBlock: number): CorrectedPartitionFunction | null {
   const c = nets.q.config;
@@ -99,7 +106,10 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
   const qd = ud.map((r) => r.map(Math.exp));
   const endQ = cell.mean(q[nn - 1]);
   const phi = densitiesFromPropagators(contour, q, qd, endQ);
-  const corrected = opts.correctQ === false ? null : correctedQ(nets, system, cell, opts.nodesPerBlock);
+  const candidate = opts.correctQ === false ? null : correctedQ(nets, system, cell, opts.nodesPerBlock);
+  // The correction is first order in the residual: it holds for a trained network, not for one
+  // a few steps old, whose corrected Q can come out negative (F = NaN). Then Q is read off the end.
+  const corrected = candidate && correctionApplies(candidate, endQ) ? candidate : null;
   const Q = corrected ? corrected.fromQ : endQ;
   const QDagger = corrected ? corrected.fromQDagger : cell.mean(qd[nn - 1]);
   let w: SpeciesArrays;
@@ -125,6 +135,7 @@ export function networkSolution(tf: Tf, nets: ScftNetworks, system: SystemSpec, 
   }
   notes.push(`φ by Simpson quadrature on ${opts.nodesPerBlock} contour intervals per block`);
   if (corrected) notes.push(`Q corrected by the networks' MDE residual (adjoint correction; read off q(x, 1): ${endQ.toPrecision(10)}), F in its field form`);
+  else if (candidate) notes.push(`Q read off q(x, 1): the networks' MDE residual is too large for the adjoint correction (it gave Q = ${candidate.fromQ.toPrecision(4)} against ${endQ.toPrecision(4)})`);
   // The network's own SCFT residual max |w_out − w_in| (kT), as the spectral solver reports it.
   const residual = fixed ? 0 : fieldDeviation(nets.chain, system.chiN, w, phi, cell).residual;
   const propagators = opts.keepPropagators ? keptPropagators(tf, nets, x, opts.propagatorS, contour.s, u, ud) : undefined;

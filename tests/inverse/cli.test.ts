@@ -80,7 +80,7 @@ describe('mesofield synth', () => {
 });
 
 describe('mesofield invert', () => {
-  it('recovers χN from a synthetic profile and writes result.json, fit.csv and solution.json', async () => {
+  it('recovers χN from a synthetic profile and writes result.json, fit.csv and solution.json', () => {
     const dir = tmp();
     const p = synth(dir, ['--noise', '0.02', '--seed', '2']);
     const out = join(dir, 'res');
@@ -111,11 +111,6 @@ describe('mesofield invert', () => {
     const sol = JSON.parse(readFileSync(join(out, 'solution.json'), 'utf8'));
     expect(sol.kind).toBe('solution');
     expect(sol.system.chiN).toBe(c.chiN);
-    // The text summary states the assumptions too.
-    const text = await inProcess(['invert', p, '--f', '0.5', ...grid, '--quiet']);
-    expect(text.code).toBe(0);
-    expect(text.stdout).toMatch(/χN = .*\n.*68\.3% interval/);
-    expect(text.stdout).toMatch(/mean-field SCFT: no fluctuation corrections/);
   });
 
   it('reads x in nm with --rg-nm or --segments/--segment-length-nm, and a config file with flags on top', async () => {
@@ -123,7 +118,12 @@ describe('mesofield invert', () => {
     // Rg = 0.7·sqrt(96/6) = 2.8 nm.
     const p = join(dir, 'nm', 'profile.csv');
     expect((await inProcess(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--rg-nm', '2.8', '--out', dirname(p), '--quiet'])).code).toBe(0);
-    const a = JSON.parse(runCli(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--json', '--quiet']).stdout).estimators.classical;
+    // Without --json: the text summary on stdout (it states the assumptions too), the result in --out.
+    const text = runCli(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--out', join(dir, 'nm-res'), '--quiet']);
+    expect(text.code, text.stderr).toBe(0);
+    expect(text.stdout).toMatch(/χN = .*\n.*68\.3% interval/);
+    expect(text.stdout).toMatch(/mean-field SCFT: no fluctuation corrections/);
+    const a = JSON.parse(readFileSync(join(dir, 'nm-res', 'result.json'), 'utf8')).estimators.classical;
     expect(Math.abs(a.chiN / 15 - 1)).toBeLessThan(1e-4);
     expect(a.periodNm).toBeCloseTo(a.period * 2.8, 10);
     const cfg = write(dir, 'cfg.json', JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, cell: { nx: 32, ns: 60 }, units: { segments: 96, segmentLengthNm: 0.7 }, chiNRange: [11, 30] }));

@@ -6,6 +6,7 @@ import { readFormat } from '../../src/io/formats/file-format.js';
 import { scatteringFitCsv, scatteringResultSchema } from '../../src/io/formats/scattering-fit.js';
 import { pdfText } from '../reports/pdf-tools.js';
 import { scatteringCsv, syntheticScattering } from '../helpers/debye-scattering.js';
+import { runCli as runInProcess } from '../../src/cli/run-cli.js';
 import { runCli } from '../helpers/run-cli.js';
 
 // Scenario of our own: χN(T) = 4000 K/T − 3 for a symmetric diblock, Rg = 6 nm, 2 % noise on I.
@@ -57,11 +58,13 @@ describe('fit-scattering from the command line', () => {
     expect(r.stderr).not.toMatch(/at .*\.js:\d+/);
   });
 
-  it('names the flag for bad input', () => {
-    const r = runCli(['fit-scattering', files[0], '--f', '0.5', '--temperatures', '400,410']);
+  it('names the flag for bad input', async () => {
+    // Refusals before any fit: the command line in this process (src/cli/run-cli.ts, as tests/faults does).
+    const inProcess = (args: string[]) => runInProcess(args, { capture: true });
+    const r = await inProcess(['fit-scattering', files[0], '--f', '0.5', '--temperatures', '400,410']);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--temperatures: got 2 temperature\(s\) for 1 file/);
-    const s = runCli(['fit-scattering', files[0], '--f', '0.5', '--rg-nm-sd', '0.3']);
+    const s = await inProcess(['fit-scattering', files[0], '--f', '0.5', '--rg-nm-sd', '0.3']);
     expect(s.code).toBe(2);
     expect(s.stderr).toMatch(/--rg-nm-sd\) = 0.3 needs an Rg/);
   });

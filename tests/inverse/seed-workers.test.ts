@@ -28,5 +28,5 @@ describe('network estimator seeds on worker threads', () => {
     expect(threads.backend).toBe('wasm');
     // Progress crosses the thread boundary for every seed.
     expect(new Set(progress)).toEqual(new Set([1, 2, 3]));
-  }, 120_000);
+  });
 });

@@ -32,7 +32,9 @@ describe('fit-spacing (CLI)', () => {
     writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'fit-spacing', system: { chain: { type: 'diblock', f: 0.5 } }, cell: { nx: 64 }, chiRange: [0.08, 0.13] }));
     const out = join(dir, 'out');
     // --nx overrides the config's 64.
-    const r = runCli(['fit-spacing', csv, cfg, '--nx', '32', '--ns', '60', '--out', out, '--report']);
+    // A longer limit than runCli's 60 s: under a load of ~20 on two cores this run was killed at
+    // 60 s (exit −1) after 1 of ~40 χ values, measured.
+    const r = runCli(['fit-spacing', csv, cfg, '--nx', '32', '--ns', '60', '--out', out, '--report'], { timeoutMs: 300_000 });
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).toMatch(/^χ = [\d.]+ {3}68\.3 % \[/);
     expect(r.stderr).toMatch(/fit-spacing: χ values \d+\/~\d+ .* left/);
