@@ -107,7 +107,10 @@ export function claimOutputDirectory(dir: string, command: string, opts: ClaimOp
       if (!st.isDirectory()) throw new InputError(`${say}: is a file, not a directory; allowed: a new or empty directory — the file was left as it is`);
       const entries = readdirSync(abs).filter((n) => n !== OUTPUT_LOCK);
       const marker = readMarker(abs) ?? (opts.nestedInRun ? markerFromParent(abs, command) : null);
-      if (entries.length > 0) {
+      // Only a marker that lists no files: a run killed before it wrote anything (a short
+      // command has no stop handler, so SIGINT ends it where it stands). Nothing to keep: empty.
+      const claimedOnly = marker !== null && marker.files.length === 0 && entries.every((n) => n === OUTPUT_MARKER);
+      if (entries.length > 0 && !claimedOnly) {
         if (!marker) {
           throw new InputError(`${say}: is not empty and was not written by mesofield (it holds ${shortList(entries)}); allowed: a new or empty directory, or a previous ${command} output — nothing was written or deleted`);
         }

@@ -16,6 +16,9 @@ import { smallSolveConfig } from './config-cases.js';
 const SOLVE = ['solve', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--quiet'];
 const SYNTH = ['synth', '--f', '0.5', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--points', '8'];
 
+/** A film's R(Q) on a small grid at few Q points: seconds. */
+const REFLECTIVITY = ['reflectivity', '--f', '0.5', '--film', '35', '--affinity', '1,-0.6', '--rg-nm', '5', '--sld', '6.0,1.0,2.07,0', '--nx', '16', '--ns', '20', '--points', '20', '--quiet'];
+
 async function previous(s: Sandbox, argv: string[], dir: string): Promise<void> {
   const r = await runCli([...argv, '--out', s.path(dir)], { capture: true });
   expect(r.code, r.stderr).toBe(0);
@@ -130,6 +133,22 @@ export const OUTPUT_CASES: FaultCase[] = [
     },
   },
   {
+    // The refusal of a previous output names --overwrite: every command that writes takes it (reflectivity did not).
+    group: 'output paths',
+    name: 'reflectivity --overwrite replaces a previous reflectivity output and keeps files mesofield did not write',
+    setup: async (s) => {
+      await previous(s, [...REFLECTIVITY, '--chiN', '16'], 'R');
+      s.write('R/notes.txt', 'mine\n');
+    },
+    argv: (s) => [...REFLECTIVITY, '--chiN', '17', '--out', s.path('R'), '--overwrite'],
+    code: 0,
+    mayChange: ['R/reflectivity.csv', 'R/sld-profile.csv', 'R/result.json', 'R/.mesofield-output.json'],
+    check: (_r, s) => {
+      expect(readFileSync(s.path('R/notes.txt'), 'utf8')).toBe('mine\n');
+      expect(JSON.parse(readFileSync(s.path('R/result.json'), 'utf8')).settings.chiN).toBe(17);
+    },
+  },
+  {
     group: 'output paths',
     name: 'a failed solve leaves the good result in place and puts its files in DIR.failed',
     setup: (s) => previous(s, SOLVE, 'D'),
@@ -174,6 +193,26 @@ export const OUTPUT_CASES: FaultCase[] = [
     code: 2,
     message: /the reference is disordered at χN = 5/,
     check: (_r, s) => expect(existsSync(s.path('D/.mesofield-lock'))).toBe(false),
+  },
+  {
+    group: 'output paths',
+    name: 'a folder a killed run had only claimed (its marker lists no files, its lock is stale) is used without --overwrite',
+    setup: (s) => {
+      // As a short command killed by Ctrl-C between its claim and its first file leaves it
+      // (the claim marks the folder at once; a pid that cannot exist holds the lock).
+      s.mkdir('K');
+      s.write('K/.mesofield-output.json', `${JSON.stringify({ tool: 'mesofield', command: 'synth', files: [], complete: false, updatedAt: '2026-01-01T00:00:00.000Z' }, null, 1)}\n`);
+      s.write('K/.mesofield-lock', `${JSON.stringify({ pid: 2 ** 22 + 1, host: hostname(), command: 'synth', startedAt: '2026-01-01T00:00:00.000Z' })}\n`);
+    },
+    argv: (s) => [...SYNTH, '--out', s.path('K')],
+    code: 0,
+    mayChange: ['K'],
+    check: (_r, s) => {
+      const marker = JSON.parse(readFileSync(s.path('K/.mesofield-output.json'), 'utf8'));
+      expect(marker).toMatchObject({ tool: 'mesofield', command: 'synth', complete: true });
+      expect(marker.files.sort()).toEqual(['profile.csv', 'truth.json']);
+      expect(existsSync(s.path('K/.mesofield-lock'))).toBe(false);
+    },
   },
   {
     group: 'output paths',

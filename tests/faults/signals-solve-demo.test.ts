@@ -5,7 +5,7 @@
  * - demo: SIGINT mid-training → 130, the finished parts kept and marked incomplete.
  * - loops that used to run to their end: invert in each phase of each method (the χN search,
  *   the assumed inputs' refits, the network estimator: 130/143 at once, a previous output
- *   untouched), the surrogate's fit (SIGTERM → 143 within a step), the
+ *   untouched), a film's R(Q) (its film solve), fit-bragg and fit-spacing, the surrogate's fit (SIGTERM → 143 within a step), the
  *   demo's reference solve (SIGINT → 130 at once).
  */
 import { cpSync, existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
@@ -19,16 +19,23 @@ const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
 const counts = { tried: 0, 'clear error or stop': 0, 'correct answer': 0 };
 
 describe('signals: solve and demo', () => {
+  // One previous solve output serves both signals (each case copies it).
+  let previousSolve: Promise<string> | undefined;
+  const solveOutput = () =>
+    (previousSolve ??= (async () => {
+      const out = join(tmp(), 'sol');
+      const first = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
+      expect((await first.code).code, first.stderr()).toBe(0);
+      return out;
+    })());
   for (const [sig, exit] of [
     ['SIGINT', 130],
     ['SIGTERM', 143],
   ] as const) {
     it(`solve: ${sig} during the period search ends at once with exit ${exit}; the previous output in --out is untouched`, async () => {
       counts.tried++;
-      const dir = tmp();
-      const out = join(dir, 'sol');
-      const first = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
-      expect((await first.code).code, first.stderr()).toBe(0);
+      const out = join(tmp(), 'sol');
+      cpSync(await solveOutput(), out, { recursive: true });
       const before = ['solution.json', 'profile.csv', '.mesofield-output.json'].map((n) => readFileSync(join(out, n)));
       const p = start(['solve', '--chiN', '40', '--period', 'equilibrium', '--nx', '64', '--ns', '400', '--out', out, '--overwrite']);
       await p.waitFor(/period search 1\//, 120_000);
@@ -113,6 +120,47 @@ describe('signals: loops that ran to their end (invert, surrogate fit, the demo\
       // Stopped mid-phase: the phase's closing line never came.
       expect(p.stderr()).not.toMatch(c.closing);
       INVERT_FILES.forEach((n, i) => expect(readFileSync(join(out, n)).equals(before[i]), n).toBe(true));
+      expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+      counts['clear error or stop']++;
+    }, 180_000);
+  }
+
+  it('reflectivity (a film\'s R(Q)): SIGINT during the film solve ends it at once, exit 130; nothing written, no lock left', async () => {
+    counts.tried++;
+    const out = join(tmp(), 'curve');
+    // The default grid: the film solve takes far longer than the wait for a stop.
+    const p = start(['reflectivity', '--f', '0.5', '--chiN', '16', '--film', '35', '--affinity', '1,-0.6', '--rg-nm', '5', '--sld', '6.0,1.0,2.07,0', '--out', out]);
+    await p.waitFor(/reflectivity: solving the film/, 120_000);
+    p.kill('SIGINT');
+    const r = await p.code;
+    expect(r.code, p.stderr()).toBe(130);
+    expect(p.stderr()).toMatch(/reflectivity: Ctrl-C: stopping the film solve; nothing will be written/);
+    expect(p.stderr()).toMatch(/reflectivity stopped by a signal during the film solve; nothing was written/);
+    expect(existsSync(join(out, 'reflectivity.csv'))).toBe(false);
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    counts['clear error or stop']++;
+  }, 180_000);
+
+  // A measurement fit is tens of reference solves: even on a small grid far longer than the wait for a stop.
+  const measurementFits = [
+    { command: 'fit-bragg', sig: 'SIGINT', file: 'peaks.csv', csv: 'order,q_per_nm,I,dI\n1,0.2853,1,0.05\n2,0.5706,0.1286,0.0064\n3,0.8559,0.00271,0.000135\n4,1.1412,0.000458,0.000023\n', f: '0.3' },
+    { command: 'fit-spacing', sig: 'SIGTERM', file: 'spacing.csv', csv: 'N,D_nm,dD_nm\n100,10.5,0.1\n150,13.6,0.14\n200,16.4,0.16\n300,21.5,0.2\n', f: '0.5' },
+  ] as const;
+  for (const c of measurementFits) {
+    it(`${c.command}: ${c.sig} during the fit ends it at once, exit ${c.sig === 'SIGINT' ? 130 : 143}; nothing written, no lock left`, async () => {
+      counts.tried++;
+      const dir = tmp();
+      const data = join(dir, c.file);
+      writeFileSync(data, c.csv);
+      const out = join(dir, 'fit');
+      const p = start([c.command, data, '--f', c.f, '--nx', '32', '--ns', '40', '--out', out]);
+      await p.waitFor(new RegExp(`${c.command}: [^\\n]* \\d+/~\\d+`), 120_000);
+      p.kill(c.sig);
+      const r = await p.code;
+      expect(r.code, p.stderr()).toBe(c.sig === 'SIGINT' ? 130 : 143);
+      expect(p.stderr()).toMatch(new RegExp(`${c.command}: ${c.sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping the fit; nothing will be written`));
+      expect(p.stderr()).toMatch(new RegExp(`${c.command} stopped by a signal during the fit; nothing was written`));
+      expect(existsSync(join(out, 'result.json'))).toBe(false);
       expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
       counts['clear error or stop']++;
     }, 180_000);

@@ -68,11 +68,11 @@ describe('signals', () => {
     counts.tried++;
     const dir = tmp();
     const cfg = join(dir, 't.json');
-    writeFileSync(cfg, JSON.stringify({ ...TRAIN, training: { ...TRAIN.training, adamSteps: 60 } }));
+    writeFileSync(cfg, JSON.stringify({ ...TRAIN, training: { ...TRAIN.training, adamSteps: 40 } }));
     const out = join(dir, 'run');
     const p = start(['train', cfg, '--out', out]);
     // Past step 20: the step-10 checkpoint is written whole (a kill at step 10 could land before it).
-    await p.waitFor(/Adam ([2-5]\d)\/60 steps/, 120_000);
+    await p.waitFor(/Adam ([23]\d)\/40 steps/, 120_000);
     p.kill('SIGKILL');
     expect((await p.code).signal).toBe('SIGKILL');
     const saved = checkpointStep(out);
@@ -83,7 +83,7 @@ describe('signals', () => {
     const r = await q.code;
     expect(r.code, q.stderr()).toBe(0);
     expect(q.stderr()).toMatch(new RegExp(`resumed from .*run at step ${saved}`));
-    expect(checkpointStep(out)).toBe(60);
+    expect(checkpointStep(out)).toBe(40);
     counts['correct answer']++;
   });
 
@@ -113,7 +113,7 @@ describe('signals', () => {
 describe('resume fidelity', () => {
   // One uninterrupted run serves every stop below: the Adam phase with field updates every 10
   // steps (the lamella pinned at the first, step 10), then an L-BFGS polish.
-  const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 40, fieldUpdateEvery: 10, lbfgsIterations: 16, lbfgsCycles: 1 } });
+  const base = trainConfigSchema.parse({ ...TRAIN, cell: { period: 'equilibrium', nx: 32, ns: 40 }, training: { ...TRAIN.training, adamSteps: 30, fieldUpdateEvery: 10, fieldFitSteps: 30, lbfgsIterations: 10, lbfgsCycles: 1 } });
   let wholeRun: ReturnType<typeof trainRun> | undefined;
   const uninterrupted = () => (wholeRun ??= trainRun({ config: base, backend: 'wasm' }));
   let whole: Awaited<ReturnType<typeof trainRun>>;
@@ -128,23 +128,23 @@ describe('resume fidelity', () => {
     for (let i = 0; i < a.length; i++) expect(Math.abs(b[i] / a[i] - 1)).toBeLessThan(1e-6);
   };
 
-  it('a run stopped at step 25, in the field-update phase, by the stop flag and resumed reproduces the uninterrupted run', async () => {
+  it('a run stopped at step 15, in the field-update phase, by the stop flag and resumed reproduces the uninterrupted run', async () => {
     counts.tried++;
     whole = await uninterrupted();
     const dir = join(tmp(), 'run');
     resetStop();
-    const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onProgress: (p) => p.step >= 25 && !stopRequested() && requestStop('SIGINT') }).catch((e) => e);
+    const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onProgress: (p) => p.step >= 15 && !stopRequested() && requestStop('SIGINT') }).catch((e) => e);
     resetStop();
     expect(stopped).toBeInstanceOf(TrainingStopped);
-    expect(checkpointStep(dir)).toBe(25);
+    expect(checkpointStep(dir)).toBe(15);
     // The field updates' pin (taken at step 10) is in the checkpoint: the resume holds the same phase.
     const saved = JSON.parse(readFileSync(join(dir, 'checkpoint.json'), 'utf8')) as { fieldPin: { periods: number; phase: number } | null };
     expect(saved.fieldPin).not.toBeNull();
     const resumed = await trainRun({ config: base, resumeDir: dir, outDir: dir, backend: 'wasm' });
-    // The loss curve after the stop (field updates at steps 30 and 40 included) and the polish, to float32 rounding (the networks run in float32).
+    // The loss curve after the stop (field updates at steps 20 and 30 included) and the polish, to float32 rounding (the networks run in float32).
     sameCurve(
-      curve(whole.history, (e) => (e.stage === 'adam' && e.step > 25) || e.stage === 'lbfgs'),
-      curve(resumed.history, (e) => (e.stage === 'adam' && e.step > 25) || e.stage === 'lbfgs'),
+      curve(whole.history, (e) => (e.stage === 'adam' && e.step > 15) || e.stage === 'lbfgs'),
+      curve(resumed.history, (e) => (e.stage === 'adam' && e.step > 15) || e.stage === 'lbfgs'),
     );
     // The reference it is judged by is the same lamella (same phase), so the final metrics agree.
     expect(resumed.reference.phi.A[0]).toBeCloseTo(whole.reference.phi.A[0], 9);
@@ -157,16 +157,16 @@ describe('resume fidelity', () => {
     counts['clear error or stop']++;
   });
 
-  it('a run stopped at L-BFGS iteration 6 by the stop flag and resumed ends where the uninterrupted run ends', async () => {
+  it('a run stopped at L-BFGS iteration 4 by the stop flag and resumed ends where the uninterrupted run ends', async () => {
     counts.tried++;
     whole = await uninterrupted();
     const dir = join(tmp(), 'run');
     resetStop();
-    const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onLbfgs: (it) => it >= 6 && !stopRequested() && requestStop('SIGTERM') }).catch((e) => e);
+    const stopped = await trainRun({ config: base, outDir: dir, backend: 'wasm', shouldStop: stopRequested, onLbfgs: (it) => it >= 4 && !stopRequested() && requestStop('SIGTERM') }).catch((e) => e);
     resetStop();
     expect(stopped).toBeInstanceOf(TrainingStopped);
     expect(String(stopped.message)).toMatch(/interrupted in the L-BFGS polish after \d+ iterations .*a resume repeats the polish from there/);
-    expect(checkpointStep(dir)).toBe(40);
+    expect(checkpointStep(dir)).toBe(30);
     const resumed = await trainRun({ config: base, resumeDir: dir, outDir: dir, backend: 'wasm' });
     // The polish's loss curve, iteration by iteration, to float32 rounding.
     sameCurve(

@@ -20,7 +20,6 @@ import { periodicityLoss } from '../../src/network/losses/periodicity.js';
 import { PropagatorNet } from '../../src/network/propagator-net.js';
 import { buildScftNetworks } from '../../src/network/scft-networks.js';
 import { ScftProblem } from '../../src/network/problem/scft-problem.js';
-import { trainRun } from '../../src/training/train-run.js';
 import { contourFromSteps } from '../../src/physics/contour.js';
 import { PeriodicCell } from '../../src/physics/cell/periodic-cell.js';
 import { buildChain } from '../../src/physics/chain.js';
@@ -28,15 +27,6 @@ import { expectClose } from '../helpers/expect-close.js';
 import { fd, logQ64, readMlp } from './reference64.js';
 
 const L = 3.2; // cell length in Rg
-// Short training runs below (150 Adam steps after a 300-step warm start, 2×32 networks), measured
-// here: total loss fell to 0.29 (soft periodicity) and 0.11 (soft IC) of its first logged value;
-// φA relative L2 error 0.10 and 0.23 (exact forms on the same budget: 0.027; these runs are
-// far from converged, the README compares the variants on the full budget). Since every solution
-// puts an A-domain centre at x = 0 (physics/phase-convention.ts), the cell's ends cut an A domain,
-// and a soft periodicity misses there: φA relative L2 0.32 on the same run (the ends fell in a B
-// domain before, where φA is small and its error counts for little). The bound says so.
-const LOSS_FALL = 0.5;
-const PHI_BOUND = { periodicity: 0.4, initial: 0.35 };
 const F = 0.4; // junction of an A0.4-B0.6 diblock
 
 /** A channel read out at full [rows, cols] size (broadcast rows expanded; null is zero). */
@@ -250,34 +240,4 @@ describe.each(['cpu', 'wasm'] as BackendName[])('soft constraints on the %s back
     exact.problem.dispose();
     exact.nets.dispose();
   });
-});
-
-describe('the soft variants train (wasm)', () => {
-  for (const [periodicity, initialCondition, term] of [
-    ['soft', 'exact', 'periodicity'],
-    ['exact', 'soft', 'initial'],
-  ] as const) {
-    it(`periodicity ${periodicity}, initial condition ${initialCondition}: the loss and the ${term} term fall, φA stays near the reference`, async () => {
-      // Symmetric diblock at χN = 15 in a cell of its equilibrium period (3.71369 Rg, README),
-      // warm-started from the spectral reference; small networks and a short budget.
-      const config = trainConfigSchema.parse({
-        version: 2,
-        kind: 'train',
-        system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 },
-        cell: { period: 3.71369, nx: 32, ns: 100 },
-        networks: { field: { hidden: [32, 32] }, propagator: { hidden: [32, 32], periodicity, initialCondition } },
-        collocation: { nx: 24, random: 128 },
-        warmStart: { adamSteps: 300, learningRate: 0.01 },
-        training: { adamSteps: 150, learningRate: 1e-3, logEvery: 10 },
-      });
-      const r = await trainRun({ config, backend: 'wasm' });
-      const adam = r.history.filter((h) => h.stage === 'adam' && Object.keys(h.terms).length > 0); // the logged steps, with their terms
-      const first = adam[0];
-      const last = adam[adam.length - 1];
-      expect(last.total).toBeLessThan(LOSS_FALL * first.total);
-      expect(last.terms[term]!).toBeLessThan(LOSS_FALL * first.terms[term]!);
-      expect(r.metrics.phase).toBe('lamellar');
-      expect(r.metrics.errors.phiA.relativeL2).toBeLessThan(PHI_BOUND[term]);
-    }, 120_000);
-  }
 });

@@ -73,10 +73,19 @@ describe('sweep analysis', () => {
 });
 
 describe('film pages', () => {
+  // Solved once, used by several pages below: the film between two A-preferring walls (affinity 2)
+  // at H = 3.7 Rg, and its F(H) scan over four thicknesses of five-layer films.
+  const likeWalls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
+  const symmetric15 = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
+  let likeFilm: ReturnType<typeof solveFilm> | undefined;
+  const likeFilmAt37 = () => (likeFilm ??= solveFilm({ system: symmetric15, cell: new FilmCell(3.7, 32, likeWalls), contour: 40 }));
+  let likeScan: ReturnType<typeof scanThickness> | undefined;
+  const likeScanThicknesses = [5.6, 6.4, 7.2, 8.0];
+  const likeScan4 = () => (likeScan ??= scanThickness({ system: symmetric15, walls: likeWalls, thicknesses: likeScanThicknesses, nx: 32, ns: 40 }));
+
   it('draw the profiles between the walls and count the layers', () => {
     const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
-    const walls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
-    const r = solveFilm({ system, cell: new FilmCell(3.7, 32, walls), contour: 40 });
+    const r = likeFilmAt37();
     const input: ReportInput = {
       info: { ...runInfo('solve'), system },
       film: { solution: r.solution, thickness: 3.7, walls: { bottom: 2, top: 2, range: 0.25 }, layers: r.layers, freeEnergyPerArea: r.freeEnergyPerArea },
@@ -123,7 +132,7 @@ describe('film pages', () => {
 
   it('draw R(Q) against data when a reflectivity fit fills the hook', () => {
     const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
-    const r = solveFilm({ system, cell: new FilmCell(3.7, 32, { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 }), contour: 40 });
+    const r = likeFilmAt37();
     // Fresnel reflectivity of a bare substrate, R = |(Q − √(Q² − Qc²))/(Q + √(Q² − Qc²))|², Qc = 0.02 (Parratt 1954 limit; common practice).
     const q = Array.from({ length: 40 }, (_, i) => 0.025 + 0.005 * i);
     const model = q.map((Q) => ((Q - Math.sqrt(Q * Q - 0.0004)) / (Q + Math.sqrt(Q * Q - 0.0004))) ** 2);
@@ -138,8 +147,8 @@ describe('film pages', () => {
   it('draw F(H) from a thickness scan with its minima marked', () => {
     const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
     const walls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
-    // Three thicknesses of five-layer films; the middle one is lowest (measured: F 2.946, 2.924, 2.937 kT per chain), so one minimum.
-    const scan = scanThickness({ system, walls, thicknesses: [5.6, 6.4, 7.2], nx: 32, ns: 40 });
+    // Four thicknesses of five-layer films; the one at 6.4 Rg is lowest (measured: F 2.946, 2.924, 2.937 kT per chain at 5.6, 6.4, 7.2), so one minimum.
+    const scan = likeScan4();
     expect(scan.minima.length).toBe(1);
     const r = solveFilm({ system, cell: new FilmCell(3.8, 16, walls), contour: 40 });
     const input: ReportInput = { info: { ...runInfo('solve'), system }, film: { solution: r.solution, thickness: 3.8, walls: { bottom: 2, top: 2, range: 0.25 }, layers: r.layers, scan } };
@@ -150,11 +159,11 @@ describe('film pages', () => {
 
   it('of a sweep over thickness: F(H) per chain with its minima, layer counts and the bulk period', () => {
     const system = { chain: { type: 'diblock' as const, f: 0.5, segmentRatio: 1 }, chiN: 15 };
-    const walls = { bottom: { affinity: 2 }, top: { affinity: 2 }, range: 0.25 };
-    const hs = [5.6, 6.4, 7.2, 8.0];
+    const walls = likeWalls;
+    const hs = likeScanThicknesses;
     const config = sweepConfigSchema.parse({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: [15], thickness: hs }, cell: { kind: 'film', thickness: 6.8, walls, nx: 32, ns: 40 } });
     // The sweep's points, solved here by the film solver directly (as a sweep solves each point).
-    const scan = scanThickness({ system, walls, thicknesses: hs, nx: 32, ns: 40 });
+    const scan = likeScan4();
     const points = scan.points.map((p, index) => ({
       index, chiN: 15, f: 0.5, segmentRatio: 1, thickness: p.thickness, affinityBottom: 2, affinityTop: 2, freeEnergyPerArea: p.freeEnergyPerArea, layers: p.layers,
       phase: p.phase, period: null, periodTolerance: null, freeEnergy: p.freeEnergy, freeEnergyDisordered: null, freeEnergyExcess: null, Q: 1, iterations: 1, totalIterations: 1, evaluations: 1, residual: 0, converged: p.converged, seconds: 0, notes: [],

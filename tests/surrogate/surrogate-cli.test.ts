@@ -4,7 +4,7 @@
  * The surrogate here is tiny (3 anchors, 2 held-out points): these tests check the commands,
  * tests/surrogate/surrogate.test.ts checks the accuracy.
  */
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -101,8 +101,9 @@ describe('surrogate commands', () => {
   });
 
   it('predict on something that is not a surrogate checkpoint says so, and evaluate on a surrogate (exit 2)', () => {
+    // A directory whose checkpoint.json is of the single-point kind (predict reads the kind first).
     const other = join(work, 'other');
-    runCli(['solve', '--f', '0.5', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', other]);
+    mkdirSync(other);
     writeFileSync(join(other, 'checkpoint.json'), JSON.stringify({ kind: 'checkpoint' }));
     const r = runCli(['predict', other, '--chiN', '15']);
     expect(r.code).toBe(2);

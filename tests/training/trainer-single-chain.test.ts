@@ -1,5 +1,3 @@
-import { existsSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { selectBackend } from '../../src/autodiff/backend.js';
 import { networkSolution } from '../../src/network/network-solution.js';
@@ -7,8 +5,7 @@ import { buildScftNetworks } from '../../src/network/scft-networks.js';
 import { trainRun } from '../../src/training/train-run.js';
 import { warmStart } from '../../src/network/warm-start.js';
 import { buildChain } from '../../src/physics/chain.js';
-import { runCli } from '../helpers/run-cli.js';
-import { cfg, fieldSystem, tmp } from './trainer-configs.js';
+import { cfg, fieldSystem } from './trainer-configs.js';
 
 describe('trainer: single-chain and homopolymer problems', () => {
   it('homopolymer in a cosine field: the network propagator matches the spectral one', async () => {
@@ -44,39 +41,11 @@ describe('trainer: collapse to the disordered state is detected', () => {
     // In those fields the exact propagators are q ≡ 1 (analytic: uniform zero field); fit both nets to that state.
     const s = Float64Array.from({ length: 21 }, (_, i) => i / 20);
     const ones = Array.from({ length: 21 }, () => new Float64Array(32).fill(1));
-    warmStart(tf, nets, { x, w: { A: new Float64Array(32), B: new Float64Array(32) }, chiN: 15, propagators: { s, q: ones, qDagger: ones } }, 300, 1e-2);
+    // 100 fitting steps (measured: φA then varies by 5.0e-3 across the cell; after 1 step the networks still read as lamellar, and the check fails).
+    warmStart(tf, nets, { x, w: { A: new Float64Array(32), B: new Float64Array(32) }, chiN: 15, propagators: { s, q: ones, qDagger: ones } }, 100, 1e-2);
     const sol = networkSolution(tf, nets, config.system, { periods: 1, nx: 32, nodesPerBlock: 16 });
     nets.dispose();
     expect(sol.phase).toBe('disordered');
     expect(sol.notes.join(' ')).toMatch(/collapsed to the homogeneous/);
-  });
-});
-
-describe('mesofield train / evaluate CLI', () => {
-  it('trains from a config file, writes a checkpoint and evaluates it', () => {
-    const d = tmp();
-    const p = join(d, 'field.train.json');
-    writeFileSync(p, JSON.stringify({ version: 2, kind: 'train', system: fieldSystem, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { adamSteps: 30 }, backend: 'wasm' }));
-    const out = join(d, 'ck');
-    const r = runCli(['train', p, '--out', out, '--json', '--report'], { timeoutMs: 120_000 });
-    expect(r.code).toBe(0);
-    expect(existsSync(join(out, 'report', 'report.pdf'))).toBe(true);
-    expect(r.stderr).toMatch(/Adam 30\/30 steps \| loss .* steps\/s \| .* left/);
-    const m = JSON.parse(r.stdout);
-    expect(m.backend).toBe('wasm');
-    const ev = runCli(['evaluate', out, '--json', '--backend', 'wasm'], { timeoutMs: 120_000 });
-    expect(ev.code).toBe(0);
-    expect(JSON.parse(ev.stdout).phiA.relativeL2).toBe(m.errors.phiA.relativeL2);
-  });
-
-  it('bad train input exits 2 naming the field', () => {
-    const d = tmp();
-    const p = join(d, 'bad.json');
-    writeFileSync(p, JSON.stringify({ version: 2, kind: 'train', system: fieldSystem, collocation: { nodesPerBlock: 7 } }));
-    const r = runCli(['train', p]);
-    expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/collocation\.nodesPerBlock: got 7; must be even/);
-    const r2 = runCli(['train', p, '--backend', 'gpu']);
-    expect(r2.code).toBe(2);
   });
 });

@@ -2,7 +2,8 @@
 import type { Command } from 'commander';
 import type { ConfigInput } from '../config-input.js';
 import type { FitCommandFlags } from './fit-command.js';
-import { fitConfigInput, writeFitOutput } from './fit-command.js';
+import type { BraggFitFile } from '../../io/formats/measurement-fits.js';
+import { fitConfigInput, measurementFitOnWorker, writeFitOutput } from './fit-command.js';
 import { action } from '../run-command.js';
 import { numberList } from './film-flags.js';
 
@@ -48,11 +49,9 @@ export function registerFitBragg(program: Command): void {
     .action(
       action(async (peaksPath: string, configPath: string | undefined, flags: FitBraggFlags) => {
         const { braggFitConfigSchema } = await import('../../io/schemas/bragg-fit-config.js');
-        const { runBraggFit } = await import('../../inverse/bragg/run-bragg-fit.js');
         const { braggFitText } = await import('../../inverse/measurement-fit-text.js');
         const { formatText } = await import('../../io/formats/file-format.js');
         const { braggFitFileSchema } = await import('../../io/formats/measurement-fits.js');
-        const { asInputError } = await import('../../io/errors.js');
         const { provenance } = await import('../../io/versions.js');
         const { claimOut, withOutput } = await import('../run-output.js');
         const { Progress } = await import('../progress.js');
@@ -62,18 +61,20 @@ export function registerFitBragg(program: Command): void {
         const out = claimOut(flags, 'fit-bragg');
         return withOutput(out, async () => {
           const progress = new Progress('fit-bragg', flags.quiet);
-          let result;
-          try {
-            result = runBraggFit(peaksPath, config, {
-              provenance: provenance(),
-              rgSource: where('units.rgNm', '--rg-nm', flags.rgNm),
-              rangeSource: where('chiNRange', '--chiN-range', flags.chiNRange),
-              // The scan, the refinement and four interval ends take about 40 evaluations (measured on the test's peaks).
-              onEvaluation: (k, chiN, chi2) => progress.step(k, EXPECTED_EVALUATIONS, `χN = ${chiN.toPrecision(6)}, χ² ${chi2.toPrecision(5)}`, 'evaluations', true),
-            });
-          } catch (e) {
-            throw asInputError(e, configPath ?? 'flags');
-          }
+          // The fit runs on a worker thread, so a signal ends it at once.
+          const result = await measurementFitOnWorker<BraggFitFile>(
+            'fit-bragg',
+            {
+              kind: 'bragg',
+              path: peaksPath,
+              config,
+              options: { provenance: provenance(), rgSource: where('units.rgNm', '--rg-nm', flags.rgNm), rangeSource: where('chiNRange', '--chiN-range', flags.chiNRange) },
+              source: configPath ?? 'flags',
+            },
+            flags.out,
+            // The scan, the refinement and four interval ends take about 40 evaluations (measured on the test's peaks).
+            ([k, chiN, chi2]) => progress.step(k, EXPECTED_EVALUATIONS, `χN = ${chiN.toPrecision(6)}, χ² ${chi2.toPrecision(5)}`, 'evaluations', true),
+          );
           progress.done(`χN = ${result.chiN.toPrecision(5)} in ${result.seconds.toFixed(2)} s (${result.evaluations} model evaluations)`);
           const fit = result;
           await writeFitOutput('fit-bragg', out, flags, { 'result.json': formatText(braggFitFileSchema, fit) }, async () => (await import('../../reports/measurement-fit-input.js')).measurementFitReport(flags.out!, { bragg: fit }));

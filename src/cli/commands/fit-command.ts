@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import type { ReportDocument } from '../../reports/document.js';
 import { InputError } from '../../io/errors.js';
+import type { MeasurementFitStep, MeasurementFitTask } from '../../inverse/measurement-fit-worker.js';
 import { ConfigInput } from '../config-input.js';
 
 export interface FitCommandFlags {
@@ -49,4 +50,24 @@ export async function writeFitOutput(command: string, out: OutputDirectory | und
   const { renderReport, writeReportFiles } = await import('../../reports/write-report.js');
   const reportFiles = writeReportFiles(join(flags.out!, 'report'), renderReport(await report(), ['pdf', 'png'], 150));
   if (!flags.quiet) process.stderr.write(`${command}: wrote ${reportFiles.join(', ')}\n`);
+}
+
+/**
+ * The fit on a worker thread (inverse/measurement-fit-worker.ts): SIGINT/SIGTERM end it at
+ * once with 130/143, nothing written (a previous output in --out stays as it was).
+ */
+export async function measurementFitOnWorker<R>(command: FitCommand, task: MeasurementFitTask, outDir: string | undefined, onStep: (s: MeasurementFitStep) => void): Promise<R> {
+  const { runInWorkers, PoolStopped } = await import('../../threads/worker-pool.js');
+  const { errorFromWorker } = await import('../worker-errors.js');
+  const { installStopHandlers, stopAbortSignal, RunStopped } = await import('../../runtime/stop.js');
+  const uninstall = installStopHandlers(command, `stopping the fit; nothing will be written${outDir ? ` (${outDir} is left as it was)` : ''}`);
+  try {
+    const [r] = await runInWorkers<MeasurementFitTask, R, MeasurementFitStep>([task], { entry: 'inverse/measurement-fit-worker.js', workerData: null, workers: 1, onProgress: onStep, toError: errorFromWorker, signal: stopAbortSignal() });
+    return r;
+  } catch (e) {
+    if (e instanceof PoolStopped) throw new RunStopped(`${command} stopped by a signal during the fit; nothing was written${outDir ? ` (${outDir} was left as it was)` : ''}`);
+    throw e;
+  } finally {
+    uninstall();
+  }
 }

@@ -2,7 +2,8 @@
 import type { Command } from 'commander';
 import type { ConfigInput } from '../config-input.js';
 import type { FitCommandFlags } from './fit-command.js';
-import { fitConfigInput, writeFitOutput } from './fit-command.js';
+import type { SpacingFitFile } from '../../io/formats/measurement-fits.js';
+import { fitConfigInput, measurementFitOnWorker, writeFitOutput } from './fit-command.js';
 import { action } from '../run-command.js';
 import { numberList } from './film-flags.js';
 
@@ -40,11 +41,9 @@ export function registerFitSpacing(program: Command): void {
     .action(
       action(async (path: string, configPath: string | undefined, flags: FitSpacingFlags) => {
         const { spacingFitConfigSchema } = await import('../../io/schemas/spacing-fit-config.js');
-        const { runSpacingFit } = await import('../../inverse/run-spacing-fit.js');
         const { spacingFitText } = await import('../../inverse/measurement-fit-text.js');
         const { formatText } = await import('../../io/formats/file-format.js');
         const { spacingFitFileSchema } = await import('../../io/formats/measurement-fits.js');
-        const { asInputError } = await import('../../io/errors.js');
         const { provenance } = await import('../../io/versions.js');
         const { claimOut, withOutput } = await import('../run-output.js');
         const { Progress } = await import('../progress.js');
@@ -52,15 +51,10 @@ export function registerFitSpacing(program: Command): void {
         const out = claimOut(flags, 'fit-spacing');
         return withOutput(out, async () => {
           const progress = new Progress('fit-spacing', flags.quiet);
-          let result;
-          try {
-            result = runSpacingFit(path, config, {
-              provenance: provenance(),
-              onEvaluation: (k, chi, chi2) => progress.step(k, EXPECTED_EVALUATIONS, `χ = ${chi.toPrecision(6)}, χ² ${chi2.toPrecision(5)}`, 'χ values', true),
-            });
-          } catch (e) {
-            throw asInputError(e, configPath ?? 'flags');
-          }
+          // The fit runs on a worker thread, so a signal ends it at once.
+          const result = await measurementFitOnWorker<SpacingFitFile>('fit-spacing', { kind: 'spacing', path, config, options: { provenance: provenance() }, source: configPath ?? 'flags' }, flags.out, ([k, chi, chi2]) =>
+            progress.step(k, EXPECTED_EVALUATIONS, `χ = ${chi.toPrecision(6)}, χ² ${chi2.toPrecision(5)}`, 'χ values', true),
+          );
           progress.done(`χ = ${result.chi.toPrecision(5)} in ${result.seconds.toFixed(2)} s (${result.evaluations} χ values)`);
           const fit = result;
           await writeFitOutput('fit-spacing', out, flags, { 'result.json': formatText(spacingFitFileSchema, fit) }, async () => (await import('../../reports/measurement-fit-input.js')).measurementFitReport(flags.out!, { spacing: fit }));

@@ -6,10 +6,12 @@
 import type { Command } from 'commander';
 import { formatText, throughSchema } from '../../io/formats/file-format.js';
 import { FILM_REFLECTIVITY_VERSION, filmReflectivitySchema } from '../../io/formats/film.js';
-import { InputError, asInputError } from '../../io/errors.js';
+import { InputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { action, numberFlag, requiredFlag } from '../run-command.js';
 import { claimOut, withOutput } from '../run-output.js';
+import type { FilmReflectivitySettings } from '../../inverse/film/film-reflectivity.js';
+import type { ReflectivityCurve } from '../../inverse/film/film-reflectivity-worker.js';
 import type { FilmFitFlags } from './film-fit-command.js';
 import { numberList, sldFlag } from './film-flags.js';
 
@@ -62,15 +64,12 @@ interface CurveSettings {
 
 async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: ReturnType<typeof claimOut>): Promise<void> {
   const { f, chiN, rgNm, H, bottom, top, sld, width, dq, bg, q0, q1, points, nx, ns, wallRange, q } = c;
-  const { filmReflectivity } = await import('../../inverse/film/film-reflectivity.js');
   const { SLD_UNIT } = await import('../../inverse/film/film-fit-run.js');
-  let r;
-  try {
-    r = filmReflectivity({ chain: { type: 'diblock', f, segmentRatio: 1 }, chiN, bottom, top, thickness: H / rgNm, width: width / rgNm, wallRange, rgNm, slds: { A: sld.A * SLD_UNIT, B: sld.B * SLD_UNIT, substrate: sld.substrate * SLD_UNIT, medium: sld.medium * SLD_UNIT }, dQoverQ: dq, background: bg, q, nx, ns });
-  } catch (e) {
-    throw asInputError(e, 'flags');
-  }
-  const sol = r.point.solution;
+  const r = await curveOnWorker(
+    { chain: { type: 'diblock', f, segmentRatio: 1 }, chiN, bottom, top, thickness: H / rgNm, width: width / rgNm, wallRange, rgNm, slds: { A: sld.A * SLD_UNIT, B: sld.B * SLD_UNIT, substrate: sld.substrate * SLD_UNIT, medium: sld.medium * SLD_UNIT }, dQoverQ: dq, background: bg, q, nx, ns },
+    flags,
+  );
+  const sol = r;
   // Built through its schema (io/formats/film.ts): printed and written exactly as result.json holds it.
   const result = throughSchema(filmReflectivitySchema, {
     kind: 'film-reflectivity',
@@ -78,7 +77,7 @@ async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: Retur
     provenance: provenance(),
     settings: { f, chiN, affinity: { bottom, top }, thicknessNm: H, thickness: H / rgNm, rgNm, resolutionNm: width, sld, sldUnits: '1e-6 Å⁻²', dQoverQ: dq, background: bg, qRange: [q0, q1], points, nx, ns, wallRange },
     phase: sol.phase,
-    layers: r.point.layers.sequence,
+    layers: r.layers,
     freeEnergy: sol.freeEnergy,
     converged: sol.converged,
     slices: r.slices,
@@ -93,6 +92,29 @@ async function writeCurve(flags: ReflectivityFlags, c: CurveSettings, out: Retur
   if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
   else if (!out) process.stdout.write(curve);
   else process.stdout.write(`film ${H} nm (${(H / rgNm).toPrecision(5)} Rg), χN = ${chiN}: layers ${result.layers}, F = ${sol.freeEnergy.toFixed(5)} kT per chain; R(Q) at ${points} points from ${q0} to ${q1} Å⁻¹ (dQ/Q ${dq} FWHM, ${r.slices} slices) in ${r.seconds.toFixed(1)} s\n`);
+}
+
+/**
+ * The film solve and R(Q) on a worker thread (inverse/film/film-reflectivity-worker.ts): SIGINT/SIGTERM
+ * end it at once, nothing written, 130/143; a model error is bad input (exit 2), named as flags.
+ */
+async function curveOnWorker(settings: FilmReflectivitySettings, flags: ReflectivityFlags): Promise<ReflectivityCurve> {
+  const { runInWorkers, PoolStopped } = await import('../../threads/worker-pool.js');
+  const { errorFromWorker } = await import('../worker-errors.js');
+  const { installStopHandlers, stopAbortSignal, RunStopped } = await import('../../runtime/stop.js');
+  const kept = flags.out ? ` (${flags.out} is left as it was)` : '';
+  const uninstall = installStopHandlers('reflectivity', `stopping the film solve; nothing will be written${kept}`);
+  // The film solve reports no steps: one line says what runs (it takes seconds to minutes).
+  if (!flags.quiet) process.stderr.write(`reflectivity: solving the film (χN = ${settings.chiN}, ${settings.nx} × ${settings.ns}), then R(Q) at ${settings.q.length} points; Ctrl-C stops it\n`);
+  try {
+    const [r] = await runInWorkers<FilmReflectivitySettings, ReflectivityCurve>([settings], { entry: 'inverse/film/film-reflectivity-worker.js', workerData: null, workers: 1, toError: errorFromWorker, signal: stopAbortSignal() });
+    return r;
+  } catch (e) {
+    if (e instanceof PoolStopped) throw new RunStopped(`reflectivity stopped by a signal during the film solve; nothing was written${flags.out ? ` (${flags.out} was left as it was)` : ''}`);
+    throw e;
+  } finally {
+    uninstall();
+  }
 }
 
 export function registerReflectivity(program: Command): void {
@@ -121,6 +143,7 @@ export function registerReflectivity(program: Command): void {
     .option('--ns <n>', 'contour steps (default 100 for a curve, 60 for a fit)')
     .option('--json', 'print the result JSON on stdout')
     .option('--out <dir>', 'write the result files into this directory')
+    .option('--overwrite', 'replace a previous reflectivity output in --out (only the files mesofield wrote there)')
     .option('--quiet', 'no progress on stderr')
     .option('--report', 'with DATA: also write a PDF/PNG report into <out>/report (needs --out)')
     .action(
