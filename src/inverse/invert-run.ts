@@ -98,6 +98,7 @@ export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult
         chain: config.system.chain,
         seeds: Array.from({ length: net.seeds }, (_, i) => i + 1),
         steps: net.adamSteps,
+        warmStartSteps: net.warmStartSteps,
         fieldUpdateEvery: net.fieldUpdateEvery,
         lbfgsIterations: net.lbfgsIterations,
         lbfgsPerUpdate: net.lbfgsPerUpdate,

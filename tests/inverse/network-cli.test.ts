@@ -14,9 +14,10 @@ describe('mesofield invert --method both', () => {
     const out = join(d, 'run');
     // The plumbing of both estimators, not their accuracy (network.test.ts, network-noise.test.ts):
     // a 16 × 40 model grid and 50 Adam steps with a field/χN update after 25 of them (a config
-    // file, under the flags), so that the network's χN moves off the classical one.
+    // file, under the flags), so that the network's χN moves off the classical one; a 100-step
+    // warm start (network.warmStartSteps, default 400).
     const cfg = join(d, 'invert.json');
-    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, network: { fieldUpdateEvery: 25 } }));
+    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, network: { fieldUpdateEvery: 25, warmStartSteps: 100 } }));
     const r = runCli(['invert', csv, cfg, '--method', 'both', '--seeds', '2', '--adam-steps', '50', '--lbfgs-iterations', '0', '--nx', '16', '--ns', '40', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
     expect(r.code).toBe(0);
     const res = JSON.parse(r.stdout);

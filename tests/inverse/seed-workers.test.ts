@@ -10,9 +10,7 @@ describe('network estimator seeds on worker threads', () => {
   it('two workers give the same runs, in seed order, as this thread alone', async () => {
     const chain = diblock(0.5);
     const { data } = synthData({ chain, chiN: 15, nx: 32, ns: 60, noise: 0.02, seed: 9 });
-    // A 16 × 40 model grid (the networks' grid is the classical solution's): the runs are compared
-    // with each other, so the smallest grid that trains serves as well as a fine one.
-    const cl = invert(data, { chain, nx: 16, ns: 40 });
+    const cl = invert(data, { chain, nx: 32, ns: 60 });
     const settings = { chain, seeds: [2, 1, 3], steps: 20, fieldUpdateEvery: 10, lbfgsIterations: 0, warmStartSteps: 20, resolution: 0, backend: 'wasm' as const };
     const progress: number[] = [];
     const threads = await estimateNetwork(data, cl, { ...settings, workers: 2, onProgress: (seed) => progress.push(seed) });
