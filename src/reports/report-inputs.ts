@@ -204,6 +204,8 @@ export interface NetworkMetricsInput {
   phase: string;
   /** Largest |φA + φB − 1| of the network's densities on the evaluation grid, when the run recorded it. */
   incompressibilityMax?: number;
+  /** How the network solution was evaluated (its notes: the φ quadrature, how Q and F were formed). */
+  notes?: string[];
 }
 
 /** One point of a parameter sweep (sweep table file): lengths in Rg, F in kT per chain. */

@@ -36,6 +36,8 @@ function networkRows(net: NetworkMetricsInput, input: ReportInput): MetricRow[] 
     { name: 'network F − reference F', value: sci(net.freeEnergyError), unit: 'kT per chain' },
     { name: 'network density', value: phaseText(net.phase) },
   ];
+  // How the network's F was formed (the F error above depends on it: Q corrected by the MDE residual or read off q(x, 1)).
+  if (net.notes?.length) rows.push({ name: 'network solution evaluated', value: net.notes.join('; ') });
   if (input.training?.phases.length) rows.push(trainingRow(input.training));
   return rows;
 }
