@@ -144,53 +144,36 @@ describe('file formats', () => {
     roundTrip(trainMetricsFileSchema, { kind: 'train-metrics', version: TRAIN_METRICS_VERSION, ...metrics }, 'train-metrics', TRAIN_METRICS_VERSION);
   });
 
+  const checkpoint = {
+    kind: 'checkpoint' as const,
+    version: CHECKPOINT_VERSION,
+    provenance: netProvenance,
+    config: trainConfigSchema.parse({ version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }),
+    length: 3.8,
+    periods: 1,
+    step: 10,
+    stage: 'done' as const,
+    lossWeights: zeros,
+    history: [{ step: 10, stage: 'adam' as const, total: 1e-3, terms: { mde: 1e-3 }, learningRate: 1e-3, seconds: 1 }],
+    metrics,
+    extraPoints: null,
+    fieldPin: { periods: 1, phase: 0.25 },
+    weightSpecs: [{ name: 'field/w0', shape: [1, 8], dtype: 'float32' }],
+    weightBytes: 32,
+  };
+
   it('training checkpoint', () => {
-    roundTrip(
-      checkpointFileSchema,
-      {
-        kind: 'checkpoint',
-        version: CHECKPOINT_VERSION,
-        provenance: netProvenance,
-        config: trainConfigSchema.parse({ version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }),
-        length: 3.8,
-        periods: 1,
-        step: 10,
-        stage: 'done',
-        lossWeights: zeros,
-        history: [{ step: 10, stage: 'adam', total: 1e-3, terms: { mde: 1e-3 }, learningRate: 1e-3, seconds: 1 }],
-        metrics,
-        extraPoints: null,
-        fieldPin: { periods: 1, phase: 0.25 },
-        weightSpecs: [{ name: 'field/w0', shape: [1, 8], dtype: 'float32' }],
-        weightBytes: 32,
-      },
-      'checkpoint',
-      CHECKPOINT_VERSION,
-    );
+    roundTrip(checkpointFileSchema, checkpoint, 'checkpoint', CHECKPOINT_VERSION);
   });
 
   it('a version-2 checkpoint (no lamella pin saved) reads as version 3 with no pin; version 1 is refused', () => {
     const path = join(tmp(), 'checkpoint.json');
-    const v3 = {
-      kind: 'checkpoint',
-      version: CHECKPOINT_VERSION,
-      provenance: netProvenance,
-      config: trainConfigSchema.parse({ version: 2, kind: 'train', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 } }),
-      length: 3.8,
-      periods: 1,
-      step: 10,
-      stage: 'adam',
-      lossWeights: zeros,
-      history: [],
-      fieldPin: null,
-      weightSpecs: [],
-      weightBytes: 0,
-    };
-    const { fieldPin: _dropped, ...v2 } = { ...JSON.parse(formatText(checkpointFileSchema, v3 as never)), version: 2 };
+    const { fieldPin: _dropped, ...v2 } = { ...JSON.parse(formatText(checkpointFileSchema, checkpoint)), version: 2 };
     writeFileSync(path, JSON.stringify(v2));
     const read = readFormat(path, checkpointFileSchema);
     expect(read.version).toBe(CHECKPOINT_VERSION);
     expect(read.fieldPin).toBeNull();
+    expect(read.step).toBe(10);
     writeFileSync(path, JSON.stringify({ ...v2, version: 1 }));
     expect(() => readFormat(path, checkpointFileSchema)).toThrow(/version: got 1; this version of mesofield reads "checkpoint" files of version 3/);
   });
