@@ -32,3 +32,11 @@ export function start(args: string[]): Proc {
     },
   };
 }
+
+/** Start `args`, wait for a stderr line matching `at`, send `sig`, and wait for the exit: what most signal cases do. */
+export async function stopAt(args: string[], at: RegExp, sig: NodeJS.Signals, ms = 120_000): Promise<{ p: Proc; r: { code: number | null; signal: NodeJS.Signals | null } }> {
+  const p = start(args);
+  await p.waitFor(at, ms);
+  p.kill(sig);
+  return { p, r: await p.code };
+}

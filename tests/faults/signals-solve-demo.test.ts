@@ -12,7 +12,7 @@ import { cpSync, existsSync, mkdtempSync, readFileSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { start } from './signal-process.js';
+import { start, stopAt } from './signal-process.js';
 import { writeTally } from './tally.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
@@ -37,10 +37,7 @@ describe('signals: solve and demo', () => {
       const out = join(tmp(), 'sol');
       cpSync(await solveOutput(), out, { recursive: true });
       const before = ['solution.json', 'profile.csv', '.mesofield-output.json'].map((n) => readFileSync(join(out, n)));
-      const p = start(['solve', '--chiN', '40', '--period', 'equilibrium', '--nx', '64', '--ns', '400', '--out', out, '--overwrite']);
-      await p.waitFor(/period search 1\//, 120_000);
-      p.kill(sig);
-      const r = await p.code;
+      const { p, r } = await stopAt(['solve', '--chiN', '40', '--period', 'equilibrium', '--nx', '64', '--ns', '400', '--out', out, '--overwrite'], /period search 1\//, sig);
       expect(r.code, p.stderr()).toBe(exit);
       expect(p.stderr()).toMatch(new RegExp(`solve: ${sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping the solve; nothing will be written`));
       expect(p.stderr()).toMatch(/solve stopped by a signal before it finished; nothing was written \(.*sol was left as it was\)/);
@@ -55,10 +52,7 @@ describe('signals: solve and demo', () => {
     counts.tried++;
     const dir = tmp();
     const out = join(dir, 'demo');
-    const p = start(['demo', '--out', out, '--backend', 'wasm']);
-    await p.waitFor(/2\/3 training/, 180_000);
-    p.kill('SIGINT');
-    const r = await p.code;
+    const { p, r } = await stopAt(['demo', '--out', out, '--backend', 'wasm'], /2\/3 training/, 'SIGINT', 180_000);
     expect(r.code, p.stderr()).toBe(130);
     expect(p.stderr()).toMatch(/demo: Ctrl-C: stopping after the current stage/);
     expect(p.stderr()).toMatch(/demo stopped by a signal after the reference and part of the training/);
@@ -129,10 +123,7 @@ describe('signals: loops that ran to their end (invert, surrogate fit, the demo\
     counts.tried++;
     const out = join(tmp(), 'curve');
     // The default grid: the film solve takes far longer than the wait for a stop.
-    const p = start(['reflectivity', '--f', '0.5', '--chiN', '16', '--film', '35', '--affinity', '1,-0.6', '--rg-nm', '5', '--sld', '6.0,1.0,2.07,0', '--out', out]);
-    await p.waitFor(/reflectivity: solving the film/, 120_000);
-    p.kill('SIGINT');
-    const r = await p.code;
+    const { p, r } = await stopAt(['reflectivity', '--f', '0.5', '--chiN', '16', '--film', '35', '--affinity', '1,-0.6', '--rg-nm', '5', '--sld', '6.0,1.0,2.07,0', '--out', out], /reflectivity: solving the film/, 'SIGINT');
     expect(r.code, p.stderr()).toBe(130);
     expect(p.stderr()).toMatch(/reflectivity: Ctrl-C: stopping the film solve; nothing will be written/);
     expect(p.stderr()).toMatch(/reflectivity stopped by a signal during the film solve; nothing was written/);
@@ -153,10 +144,7 @@ describe('signals: loops that ran to their end (invert, surrogate fit, the demo\
       const data = join(dir, c.file);
       writeFileSync(data, c.csv);
       const out = join(dir, 'fit');
-      const p = start([c.command, data, '--f', c.f, '--nx', '32', '--ns', '40', '--out', out]);
-      await p.waitFor(new RegExp(`${c.command}: [^\\n]* \\d+/~\\d+`), 120_000);
-      p.kill(c.sig);
-      const r = await p.code;
+      const { p, r } = await stopAt([c.command, data, '--f', c.f, '--nx', '32', '--ns', '40', '--out', out], new RegExp(`${c.command}: [^\\n]* \\d+/~\\d+`), c.sig);
       expect(r.code, p.stderr()).toBe(c.sig === 'SIGINT' ? 130 : 143);
       expect(p.stderr()).toMatch(new RegExp(`${c.command}: ${c.sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping the fit; nothing will be written`));
       expect(p.stderr()).toMatch(new RegExp(`${c.command} stopped by a signal during the fit; nothing was written`));
@@ -188,10 +176,7 @@ describe('signals: loops that ran to their end (invert, surrogate fit, the demo\
     counts.tried++;
     const dir = tmp();
     const out = join(dir, 'demo');
-    const p = start(['demo', '--out', out, '--backend', 'wasm']);
-    await p.waitFor(/1\/3 reference solve/, 120_000);
-    p.kill('SIGINT');
-    const r = await p.code;
+    const { p, r } = await stopAt(['demo', '--out', out, '--backend', 'wasm'], /1\/3 reference solve/, 'SIGINT');
     expect(r.code, p.stderr()).toBe(130);
     expect(p.stderr()).toMatch(/demo stopped by a signal after nothing \(it was in the reference solve\)/);
     expect(existsSync(join(out, 'reference', 'solution.json'))).toBe(false);

@@ -18,7 +18,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import { requestStop, resetStop, stopRequested } from '../../src/runtime/stop.js';
 import { trainRun, TrainingStopped } from '../../src/training/train-run.js';
-import { start } from './signal-process.js';
+import { start, stopAt } from './signal-process.js';
 import { writeTally } from './tally.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
@@ -50,10 +50,7 @@ describe('signals', () => {
       const cfg = join(dir, 't.json');
       writeFileSync(cfg, JSON.stringify(TRAIN));
       const out = join(dir, 'run');
-      const p = start(['train', cfg, '--out', out]);
-      await p.waitFor(/Adam \d+\/4000 steps/, 120_000);
-      p.kill(sig);
-      const r = await p.code;
+      const { p, r } = await stopAt(['train', cfg, '--out', out], /Adam \d+\/4000 steps/, sig);
       expect(r.code, p.stderr()).toBe(exit);
       expect(p.stderr()).toMatch(new RegExp(`${sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping after this step and saving a checkpoint`));
       expect(p.stderr()).toMatch(/interrupted at step (\d+); checkpoint saved at step \1 \(checkpoint: .*run, step \1\)/);
@@ -93,12 +90,9 @@ describe('signals', () => {
     const cfg = join(dir, 's.json');
     writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: { from: 12, to: 20, count: 40 }, f: [0.5], segmentRatio: [1] }, cell: { period: 'equilibrium', nx: 32, ns: 40 } }));
     const out = join(dir, 'sw');
-    const p = start(['sweep', cfg, '--out', out, '--workers', '1']);
     // The first progress line comes after point 1; on an idle machine 40 points take about 5 s
     // (10 had ended before the signal: the progress lines are throttled and skipped points 2–5).
-    await p.waitFor(/point \d+\/40/, 120_000);
-    p.kill('SIGINT');
-    const r = await p.code;
+    const { p, r } = await stopAt(['sweep', cfg, '--out', out, '--workers', '1'], /point \d+\/40/, 'SIGINT');
     expect(r.code, p.stderr()).toBe(130);
     expect(p.stderr()).toMatch(/stopped after (\d+) of 40 points; they are saved in .*shard-1-of-1\.json; run the same command again/);
     const done = Number(/stopped after (\d+) of 40/.exec(p.stderr())![1]);
