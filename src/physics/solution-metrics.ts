@@ -53,7 +53,7 @@ function gaugeFreeLogQ(s: ScftSolution): number {
   if (s.system.externalField) return Math.log(s.Q);
   const present = (['A', 'B'] as const).filter((k) => s.phi[k].some((v) => v !== 0));
   let g = 0;
-  for (const k of present) g += s.w[k].reduce((a, v) => a + v, 0) / s.w[k].length;
+  for (const k of present) g += s.cell.mean(s.w[k]);
   return Math.log(s.Q) + (present.length > 0 ? g / present.length : 0);
 }
 
