@@ -14,8 +14,10 @@ import { bundleDependencies } from './bundle-dependencies.mjs';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 const dist = join(root, 'dist');
-// A previous build's schema texts go first: if this build fails they must not outlive it.
-rmSync(join(dist, 'config-schemas'), { recursive: true, force: true });
+// BUILT_SCHEMA_FOLDER of src/io/schemas/config-schema-loaders.ts, named here because the old
+// build's texts go before tsc runs: if this build fails they must not outlive it.
+const schemaTexts = join(dist, 'config-schemas');
+rmSync(schemaTexts, { recursive: true, force: true });
 const tsc = spawnSync(process.execPath, [fileURLToPath(new URL('../node_modules/typescript/bin/tsc', import.meta.url)), '-p', 'tsconfig.json'], {
   cwd: root,
   stdio: 'inherit',
@@ -25,15 +27,15 @@ await bundleDependencies(root);
 
 /** Each kind's JSON Schema text, written last (the command trusts a file newer than the compiled schemas). */
 async function writeSchemaTexts() {
-  const { configJsonSchemaText, BUILT_SCHEMA_FOLDER } = await import(pathToFileURL(join(dist, 'io/schemas/config-json-schema.js')).href);
-  const { CONFIG_KIND_NAMES } = await import(pathToFileURL(join(dist, 'io/schemas/config-schema-loaders.js')).href);
-  const folder = join(dist, BUILT_SCHEMA_FOLDER);
-  mkdirSync(folder, { recursive: true });
-  for (const kind of CONFIG_KIND_NAMES) writeFileSync(join(folder, `${kind}.json`), await configJsonSchemaText(kind));
+  const { configJsonSchemaText } = await import(pathToFileURL(join(dist, 'io/schemas/config-json-schema.js')).href);
+  const { CONFIG_KIND_NAMES, BUILT_SCHEMA_FOLDER } = await import(pathToFileURL(join(dist, 'io/schemas/config-schema-loaders.js')).href);
+  if (join(dist, BUILT_SCHEMA_FOLDER) !== schemaTexts) throw new Error(`the schema folder is ${BUILT_SCHEMA_FOLDER} in the sources but ${schemaTexts} here`);
+  mkdirSync(schemaTexts, { recursive: true });
+  for (const kind of CONFIG_KIND_NAMES) writeFileSync(join(schemaTexts, `${kind}.json`), await configJsonSchemaText(kind));
 }
 try {
   await writeSchemaTexts();
 } catch (e) {
-  rmSync(join(dist, 'config-schemas'), { recursive: true, force: true });
+  rmSync(schemaTexts, { recursive: true, force: true });
   process.stderr.write(`build: writing the config kinds' JSON Schemas failed (${e?.message ?? e}); \`mesofield schema\` generates them at each call instead\n`);
 }

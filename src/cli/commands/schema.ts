@@ -8,7 +8,7 @@
 import { readFileSync, statSync } from 'node:fs';
 import type { Command } from 'commander';
 import { InputError } from '../../io/errors.js';
-import { CONFIG_KIND_NAMES, CONFIG_SCHEMA_LOADERS, loadConfigSchemas } from '../../io/schemas/config-schema-loaders.js';
+import { BUILT_SCHEMA_FOLDER, CONFIG_KIND_NAMES, CONFIG_SCHEMA_LOADERS, loadConfigSchemas } from '../../io/schemas/config-schema-loaders.js';
 import { action } from '../run-command.js';
 
 /**
@@ -18,8 +18,7 @@ import { action } from '../run-command.js';
  */
 export function builtSchemaText(kind: string, dist = new URL('../../', import.meta.url)): string | null {
   try {
-    // This module is dist/cli/commands/schema.js; the folder is dist/config-schemas (BUILT_SCHEMA_FOLDER).
-    const file = new URL(`config-schemas/${kind}.json`, dist);
+    const file = new URL(`${BUILT_SCHEMA_FOLDER}/${kind}.json`, dist);
     const compiled = new URL('io/schemas/config-schema-loaders.js', dist);
     if (statSync(file).mtimeMs < statSync(compiled).mtimeMs) return null;
     return readFileSync(file, 'utf8');

@@ -10,9 +10,6 @@
 import { z } from 'zod';
 import { CONFIG_SCHEMA_LOADERS } from './config-schema-loaders.js';
 
-/** Folder of the built schema texts, relative to dist/ (the build and the command agree on it). */
-export const BUILT_SCHEMA_FOLDER = 'config-schemas';
-
 /** The JSON Schema of `kind` as the text `mesofield schema KIND` prints (indented, one final newline). */
 export async function configJsonSchemaText(kind: string): Promise<string> {
   const schema = await CONFIG_SCHEMA_LOADERS[kind]();

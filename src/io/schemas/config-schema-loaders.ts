@@ -16,6 +16,9 @@ export const CONFIG_SCHEMA_LOADERS: Record<string, () => Promise<z.ZodType>> = {
   'fit-spacing': async () => (await import('./spacing-fit-config.js')).spacingFitConfigSchema,
 };
 
+/** Folder of the build's JSON Schema texts, relative to dist/ (config-json-schema.ts): the build writes there, `schema KIND` reads there. */
+export const BUILT_SCHEMA_FOLDER = 'config-schemas';
+
 /** The kind names, in the order of the list. */
 export const CONFIG_KIND_NAMES: readonly string[] = Object.keys(CONFIG_SCHEMA_LOADERS);
 
