@@ -68,6 +68,9 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
       run.size('reference solves', total);
       run.at('reference solves', done, `${role}, ${seconds.toFixed(2)} s`, done === total);
     },
+    onFitStep: (step, loss) => {
+      if (config.warmStart.method === 'levenberg-marquardt' || step % 100 === 0) progress.update(`fit to the reference solutions: step ${step} | fit loss ${sci(loss)}`);
+    },
     onRound: (h) => {
       if (h.round === 0) {
         progress.update(`fit to the reference solutions: fit loss ${sci(h.fitLoss)}${h.phiError !== undefined ? ` | held-out φA error ${sci(h.phiError)}` : ''}`, true);
