@@ -59,6 +59,7 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
     { name: 'physics rounds', units: config.training.rounds, unit: 'rounds' },
   ]);
   run.begin('reference solves');
+  let fitStart: number | undefined;
   const r = await surrogateRun({
     config,
     outDir,
@@ -69,7 +70,13 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
       run.at('reference solves', done, `${role}, ${seconds.toFixed(2)} s`, done === total);
     },
     onFitStep: (step, loss) => {
-      if (config.warmStart.method === 'levenberg-marquardt' || step % 100 === 0) progress.update(`fit to the reference solutions: step ${step} | fit loss ${sci(loss)}`);
+      fitStart ??= performance.now();
+      const lm = config.warmStart.method === 'levenberg-marquardt';
+      if (!lm && step % 100 !== 0) return;
+      const total = lm ? config.warmStart.lmIterations : config.warmStart.adamSteps + config.warmStart.lbfgsIterations;
+      const perStep = (performance.now() - fitStart) / 1000 / step;
+      // At most `total` steps (LM and L-BFGS may stop early): the time left is an upper estimate.
+      progress.update(`fit to the reference solutions: ${lm ? 'LM iteration' : 'step'} ${step}/${total} | fit loss ${sci(loss)} | ${(1 / perStep).toFixed(2)} ${lm ? 'iterations' : 'steps'}/s | ≤ ${formatDuration(perStep * Math.max(0, total - step))} left`);
     },
     onRound: (h) => {
       if (h.round === 0) {
