@@ -64,13 +64,18 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
     config,
     outDir,
     backend,
-    onStage: (m) => progress.update(m, true),
+    onStage: (m) => {
+      // The fit starts right after its stage line: its rate counts from here.
+      if (m.startsWith('fitting the field network')) fitStart = performance.now();
+      progress.update(m, true);
+    },
     onSolve: (done, total, role, seconds) => {
       run.size('reference solves', total);
       run.at('reference solves', done, `${role}, ${seconds.toFixed(2)} s`, done === total);
     },
     onFitStep: (step, loss) => {
       fitStart ??= performance.now();
+      if (performance.now() === fitStart) return;
       const lm = config.warmStart.method === 'levenberg-marquardt';
       if (!lm && step % 100 !== 0) return;
       const total = lm ? config.warmStart.lmIterations : config.warmStart.adamSteps + config.warmStart.lbfgsIterations;
