@@ -75,7 +75,6 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
     },
     onFitStep: (step, loss) => {
       fitStart ??= performance.now();
-      if (performance.now() === fitStart) return;
       const lm = config.warmStart.method === 'levenberg-marquardt';
       if (!lm && step % 100 !== 0) return;
       const total = lm ? config.warmStart.lmIterations : config.warmStart.adamSteps + config.warmStart.lbfgsIterations;
