@@ -75,6 +75,7 @@ async function predictCommand(dir: string, flags: PredictFlags, points: number |
     throw new InputError(`${dir}: checkpoint kind ${JSON.stringify(kind)}; predict needs a surrogate checkpoint (kind "surrogate-checkpoint", from mesofield train on a config of kind "surrogate"); for a single-point network use mesofield evaluate`);
   }
   const t0 = performance.now();
+  say(`loading the surrogate in ${dir} (tfjs start-up and weights); Ctrl-C stops it before anything is written`);
   const { selectBackend } = await import('../../autodiff/backend.js');
   const { loadSurrogate } = await import('../../surrogate/surrogate-checkpoint.js');
   const handle = await selectBackend(backend);
