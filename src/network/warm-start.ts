@@ -132,13 +132,18 @@ function* warmStartSteps(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets, 
  */
 export function fitLinearField(field: FieldNet, x: Float64Array, w: SpeciesArrays): void {
   const layer = field.mlp.layers[0];
-  // The features of the network's own cell (a film: cosines; films train hidden-layer field networks, so this fit meets periodic cells).
+  // The features of the network's own cell (a film: cosines and the two wall profiles).
   const f = cellFeatureArrays(x, field.cell.features, field.config.fourierModes);
   const p = f.width + 1;
+  // The network's outputs get the film's surface-field offsets (−h, +h) added after the layer
+  // (field-net.ts), so the layer is fitted to w minus those offsets; fitting w itself would
+  // count the wall's field twice.
+  const offset = field.offsetAt(x);
+  const smooth = offset ? [Float64Array.from(w.A, (v, j) => v - offset[0][j]), Float64Array.from(w.B, (v, j) => v - offset[1][j])] : [w.A, w.B];
   const coef = linearLeastSquares(x.length, p, (j, row) => {
     row.set(f.v.subarray(j * f.width, (j + 1) * f.width));
     row[f.width] = 1;
-  }, [w.A, w.B]);
+  }, smooth);
   if (!coef[0] || !coef[1]) throw new Error(`field network: ${field.config.fourierModes} Fourier modes are not determined by ${x.length} grid points`);
   const outputs = field.options.outputs;
   const kernel = new Float32Array(f.width * outputs);
