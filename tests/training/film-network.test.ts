@@ -20,6 +20,7 @@ import { buildScftNetworks } from '../../src/network/scft-networks.js';
 import { buildChain } from '../../src/physics/chain.js';
 import { evaluateCheckpoint } from '../../src/training/evaluate-checkpoint.js';
 import { trainRun } from '../../src/training/train-run.js';
+import { fitLinearField } from '../../src/network/warm-start.js';
 
 const H = 3.7;
 const walls = { bottom: { affinity: 1 }, top: { affinity: -1 }, range: 0.25 };
@@ -62,6 +63,27 @@ describe('film network features', () => {
       expect(withWalls[2 * j + 1]).toBeCloseTo(plain[2 * j + 1] + hz[j], 5);
     }
     q.dispose();
+    field.dispose();
+  });
+
+  it('a linear field network is fitted exactly to fields that include the surface field (the layer gets w minus (−h, +h))', async () => {
+    const { tf } = await selectBackend('wasm');
+    const cell = new FilmCell(H, 32, walls);
+    const M = 12;
+    const field = new FieldNet(tf, fieldNetworkSchema.parse({ hidden: [], fourierModes: M }), { cell, outputs: 2 });
+    // Target: a smooth part inside the network's span (cosines m ≤ M, a wall profile, a constant) plus the walls' field, as the
+    // reference's fields are built (w_A = n_A − h, w_B = n_B + h; physics/scft-equations.ts). The exact fit must reproduce it.
+    const hz = cell.surfaceField!;
+    const k = Math.PI / H;
+    const nA = Float64Array.from(cell.x, (z) => 0.4 + 2 * Math.cos(3 * k * z) - 0.5 * Math.cos(11 * k * z) + 0.7 * Math.exp(-(z * z) / (2 * 0.25 ** 2)));
+    const nB = Float64Array.from(cell.x, (z) => -0.4 - 2 * Math.cos(3 * k * z) + 0.3 * Math.cos(7 * k * z));
+    const w = { A: nA.map((v, j) => v - hz[j]), B: nB.map((v, j) => v + hz[j]) };
+    fitLinearField(field, cell.x, w);
+    const out = field.forward(field.features(Array.from(cell.x), false)).v.dataSync();
+    let worst = 0;
+    for (let j = 0; j < cell.n; j++) worst = Math.max(worst, Math.abs(out[2 * j] - w.A[j]), Math.abs(out[2 * j + 1] - w.B[j]));
+    // float32 weights and features: rounding of order 1e-6 of fields of order 3 kT (h peaks at 3.2 kT; counted twice it misses by that).
+    expect(worst).toBeLessThan(1e-4);
     field.dispose();
   });
 
