@@ -17,6 +17,7 @@ import { yieldToEvents } from '../runtime/stop.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
 import { linearLeastSquares } from '../numerics/dense-solve.js';
+import { InputError } from '../io/errors.js';
 import { cellFeatureArrays } from './features.js';
 import type { FieldNet } from './field-net.js';
 import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
@@ -144,7 +145,12 @@ export function fitLinearField(field: FieldNet, x: Float64Array, w: SpeciesArray
     row.set(f.v.subarray(j * f.width, (j + 1) * f.width));
     row[f.width] = 1;
   }, smooth);
-  if (!coef[0] || !coef[1]) throw new Error(`field network: ${field.config.fourierModes} Fourier modes are not determined by ${x.length} grid points`);
+  if (!coef[0] || !coef[1]) {
+    // A config choice, not a bug: too many columns for the grid (a film's wall profiles are nearly cosine combinations on a coarse one).
+    throw new InputError(
+      `networks.field.fourierModes: got ${field.config.fourierModes}; a field network with no hidden layers has ${p} columns here (modes${f.width > field.config.fourierModes * (field.cell.features.kind === 'fourier' ? 2 : 1) ? ', wall profiles' : ''} and a constant), which the ${x.length}-point grid does not determine; allowed: fewer modes or more grid points (cell.nx, collocation.nx)`,
+    );
+  }
   const outputs = field.options.outputs;
   const kernel = new Float32Array(f.width * outputs);
   const bias = new Float32Array(outputs);
