@@ -141,12 +141,30 @@ export function fitLinearField(field: FieldNet, x: Float64Array, w: SpeciesArray
   // count the wall's field twice.
   const offset = field.offsetAt(x);
   const smooth = offset ? [Float64Array.from(w.A, (v, j) => v - offset[0][j]), Float64Array.from(w.B, (v, j) => v - offset[1][j])] : [w.A, w.B];
-  const coef = linearLeastSquares(x.length, p, (j, row) => {
+  const fill = (j: number, row: Float64Array) => {
     row.set(f.v.subarray(j * f.width, (j + 1) * f.width));
     row[f.width] = 1;
-  }, smooth);
+  };
+  let coef = linearLeastSquares(x.length, p, fill, smooth);
   if (!coef[0] || !coef[1]) {
-    // A config choice, not a bug: too many columns for the grid (a film's wall profiles are nearly cosine combinations on a coarse one).
+    // Nearly dependent columns (a film's wall profiles are close to combinations of the higher
+    // cosines on a coarse grid, or more columns than points): any least-squares solution fits
+    // as well, so take the one a tiny ridge picks: rows √ε·I with zero targets, ε = 1e-10·nx,
+    // about 1e-10 of each column's sum of squares (the fit moves by about that fraction). Only
+    // when the plain normal equations fail, so every fit they determine is unchanged.
+    const ridge = Math.sqrt(1e-10 * x.length);
+    const rowOf = (j: number, row: Float64Array) => {
+      if (j < x.length) fill(j, row);
+      else {
+        row.fill(0);
+        row[j - x.length] = ridge;
+      }
+    };
+    const padded = smooth.map((y) => Float64Array.from({ length: x.length + p }, (_, j) => (j < x.length ? y[j] : 0)));
+    coef = linearLeastSquares(x.length + p, p, rowOf, padded);
+  }
+  if (!coef[0] || !coef[1]) {
+    // A config choice, not a bug: more columns than the grid can determine.
     throw new InputError(
       `networks.field.fourierModes: got ${field.config.fourierModes}; a field network with no hidden layers has ${p} columns here (modes${f.width > field.config.fourierModes * (field.cell.features.kind === 'fourier' ? 2 : 1) ? ', wall profiles' : ''} and a constant), which the ${x.length}-point grid does not determine; allowed: fewer modes or more grid points (cell.nx, collocation.nx)`,
     );
