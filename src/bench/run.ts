@@ -8,9 +8,11 @@
  * systems; only when asked, it is long: see recipe-bench.ts), `--propagator-floor` (the
  * propagator networks alone in the reference's field: the floor of the second-order recipe;
  * only when asked, see propagator-floor.ts), `--lm-profile` (CPU time of the parts of one
- * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts).
+ * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts),
+ * `--network-least-squares` (the least-squares network χN estimator end to end; only when
+ * asked, see network-least-squares-bench.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--network-least-squares'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -43,6 +45,11 @@ if (parts.includes('--propagator-floor')) {
 if (parts.includes('--lm-profile')) {
   const { runLmProfile } = await import('./lm-profile.js');
   await runLmProfile();
+}
+// Opt-in only: the least-squares network χN estimator end to end (minutes).
+if (parts.includes('--network-least-squares')) {
+  const { runNetworkLeastSquaresBench } = await import('./network-least-squares-bench.js');
+  await runNetworkLeastSquaresBench();
 }
 // Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
 if (parts.includes('--recipes')) {
