@@ -33,6 +33,14 @@ import { PeriodicCell } from '../physics/cell/periodic-cell.js';
 /** LM iterations of each field-network fit (a small least-squares problem over the field network alone). */
 const FIELD_FIT_ITERATIONS = 20;
 
+/**
+ * Iterations over which a propagator's stall is judged (settings.stallRatio). Measured on the
+ * symmetric χN = 15 recipe: after the warm start q carries about 2 % of the loss and its
+ * cost stops falling within 10–15 iterations, while q† falls by 2–5 times per 5 iterations
+ * for its first 40 (docs/second-order-training.md, "Where the time goes").
+ */
+const STALL_WINDOW = 5;
+
 export interface SecondOrderSettings {
   iterations: number;
   nx: number;
@@ -55,6 +63,12 @@ export interface SecondOrderSettings {
   firstCycleIterations: number;
   /** Joint iterations after the alternating cycles (on top of `iterations`). */
   jointIterations: number;
+  /**
+   * Alternating: a propagator's solve in a cycle ends early once its own MDE cost has fallen
+   * by less than this factor over the last STALL_WINDOW iterations (cost now > stallRatio ×
+   * cost then; 0 or absent: never). The iterations it leaves go to the later cycles.
+   */
+  stallRatio?: number;
   /** λ of the field step's update: w + λ d (simple), or x̄ + λ d̄ (Anderson). */
   fieldMixing: number;
   /**
@@ -181,13 +195,19 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
   const solvePart = async (part: ResidualPart, iterations: number) => {
     const problem = sys.partProblem(theta, part);
     const { first, embed } = problem;
+    const costs: number[] = [];
+    const stallRatio = part === 'all' ? 0 : (settings.stallRatio ?? 0);
+    const stalled = (cost: number) => {
+      costs.push(cost);
+      return stallRatio > 0 && costs.length > STALL_WINDOW && cost > stallRatio * costs[costs.length - 1 - STALL_WINDOW];
+    };
     const r = await levenbergMarquardtYielding(
       problem,
       theta.slice(first, first + problem.size),
       // Each part resumes from the damping its previous solve ended with: after a field step
       // the problem is a nearby one, and restarting from τ·max diag(JᵀJ) would spend the
       // first iterations of every cycle re-learning μ.
-      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) },
+      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) && !stalled(it.cost) },
       yieldToEvents,
       () => hooks.shouldStop?.() ?? false,
     );
@@ -242,11 +262,10 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
       // moves the fields by the propagators' error (measured at f = 0.35, χN = 22: max |d|
       // stayed near 1 kT and φ_A drifted away, docs/second-order-training.md).
       const first = settings.firstCycleIterations > 0 ? Math.min(settings.firstCycleIterations, Math.floor(settings.iterations / sides.length)) : 0;
-      const rest = first > 0 ? settings.iterations - first * sides.length : settings.iterations;
-      const restCycles = first > 0 ? Math.max(1, settings.cycles - 1) : settings.cycles;
-      const perCycle = Math.max(1, Math.ceil(rest / (restCycles * sides.length)));
       for (let c = 0; c < settings.cycles && !stopped && done < settings.iterations; c++) {
         if (c > 0 && nets.field) fieldStep();
+        // The cycles after the first share what is left (a solve that ended early leaves its iterations to them).
+        const perCycle = Math.max(1, Math.ceil((settings.iterations - done) / ((settings.cycles - c) * sides.length)));
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
           await solvePart(side, Math.min(c === 0 && first > 0 ? first : perCycle, settings.iterations - done));

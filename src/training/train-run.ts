@@ -361,6 +361,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         strategy: tr.secondOrder.strategy,
         cycles: tr.secondOrder.cycles,
         firstCycleIterations: tr.secondOrder.firstCycleIterations,
+        stallRatio: tr.secondOrder.stallRatio,
         jointIterations: tr.secondOrder.jointIterations,
         fieldMixing: tr.fieldMixing,
         fieldStep: tr.secondOrder.fieldStep,
