@@ -1,28 +1,31 @@
 #!/usr/bin/env node
 /**
- * `npm run build` (also scripts/setup.sh and the test setup): tsc compiles src/ into dist/,
- * then zod and commander are bundled for start-up (scripts/bundle-dependencies.mjs), and each
+ * `npm run build` (also scripts/setup.sh and the test setup): src/ is compiled into dist/ file
+ * by file without type checking (scripts/transpile-sources.mjs; the type check is
+ * `npm run typecheck` and a file of the test suite), then zod and commander are bundled for
+ * start-up (scripts/bundle-dependencies.mjs), and each
  * config kind's JSON Schema is written into dist/config-schemas/ for `mesofield schema KIND`
  * (src/io/schemas/config-json-schema.ts makes the text; the command prints the file).
  * A plain `tsc -p tsconfig.json` also gives a working dist/, only with the slower start-up.
  */
-import { spawnSync } from 'node:child_process';
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { bundleDependencies } from './bundle-dependencies.mjs';
+import { transpileSources } from './transpile-sources.mjs';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 const dist = join(root, 'dist');
 // BUILT_SCHEMA_FOLDER of src/io/schemas/config-schema-loaders.ts, named here because the old
-// build's texts go before tsc runs: if this build fails they must not outlive it.
+// build's texts go before the compile: if this build fails they must not outlive it.
 const schemaTexts = join(dist, 'config-schemas');
 rmSync(schemaTexts, { recursive: true, force: true });
-const tsc = spawnSync(process.execPath, [fileURLToPath(new URL('../node_modules/typescript/bin/tsc', import.meta.url)), '-p', 'tsconfig.json'], {
-  cwd: root,
-  stdio: 'inherit',
-});
-if (tsc.status !== 0) process.exit(tsc.status ?? 1);
+try {
+  transpileSources(root);
+} catch (e) {
+  process.stderr.write(`build: ${e?.message ?? e}\n`);
+  process.exit(1);
+}
 await bundleDependencies(root);
 
 /** Each kind's JSON Schema text, written last (the command trusts a file newer than the compiled schemas). */

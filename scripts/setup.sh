@@ -31,6 +31,9 @@ fi
 stamp=node_modules/.mesofield-lock-stamp
 if [ ! -f "$stamp" ] || ! cmp -s package-lock.json "$stamp"; then
   echo "setup: npm ci" >&2
+  # canvas compiles from source here (its prebuilt binary is a download): node-gyp's make on
+  # every core instead of one (JOBS is node-gyp's setting; "max" is the core count).
+  export JOBS=max
   npm ci --no-audit --no-fund >&2
   cp package-lock.json "$stamp"
 fi

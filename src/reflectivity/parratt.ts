@@ -37,19 +37,6 @@ export interface LayerStack {
 
 const NM = 10; // Å per nm
 
-/** Principal complex square root of (re + i·im) with Im ≥ 0. */
-function csqrt(re: number, im: number): [number, number] {
-  const m = Math.hypot(re, im);
-  let a = Math.sqrt(Math.max(0, (m + re) / 2));
-  let b = Math.sqrt(Math.max(0, (m - re) / 2));
-  if (im < 0) b = -b;
-  if (b < 0) {
-    a = -a;
-    b = -b;
-  }
-  return [a, b];
-}
-
 /** R(Q) of the stack at each Q (Å⁻¹). */
 export function parrattReflectivity(stack: LayerStack, q: ArrayLike<number>): Float64Array {
   const sld = [stack.ambient, ...stack.layers.map((l) => l.sld), stack.substrate.sld];
@@ -60,12 +47,14 @@ export function parrattReflectivity(stack: LayerStack, q: ArrayLike<number>): Fl
   const out = new Float64Array(q.length);
   const kr = new Float64Array(n);
   const ki = new Float64Array(n);
+  const edge = Float64Array.from(sld, (v) => 4 * Math.PI * (v - sld[0]));
   for (let iq = 0; iq < q.length; iq++) {
     const half = Math.abs(q[iq]) / 2;
     for (let j = 0; j < n; j++) {
-      const [a, b] = csqrt(half * half - 4 * Math.PI * (sld[j] - sld[0]), 0);
-      kr[j] = a;
-      ki[j] = b;
+      // k_j² is real (no absorption): k_j is real above layer j's edge, imaginary below it.
+      const k2 = half * half - edge[j];
+      kr[j] = k2 >= 0 ? Math.sqrt(k2) : 0;
+      ki[j] = k2 >= 0 ? 0 : Math.sqrt(-k2);
     }
     // X of the substrate is 0; climb to the top.
     let xr = 0;
