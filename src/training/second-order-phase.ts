@@ -33,14 +33,6 @@ import { PeriodicCell } from '../physics/cell/periodic-cell.js';
 /** LM iterations of each field-network fit (a small least-squares problem over the field network alone). */
 const FIELD_FIT_ITERATIONS = 20;
 
-/**
- * Iterations over which a propagator's stall is judged (settings.stallRatio). Measured on the
- * symmetric χN = 15 recipe: after the warm start q carries about 2 % of the loss and its
- * cost stops falling within 10–15 iterations, while q† falls by 2–5 times per 5 iterations
- * for its first 40 (docs/second-order-training.md, "Where the time goes").
- */
-const STALL_WINDOW = 5;
-
 export interface SecondOrderSettings {
   iterations: number;
   nx: number;
@@ -63,12 +55,6 @@ export interface SecondOrderSettings {
   firstCycleIterations: number;
   /** Joint iterations after the alternating cycles (on top of `iterations`). */
   jointIterations: number;
-  /**
-   * Alternating: a propagator's solve in a cycle ends early once its own MDE cost has fallen
-   * by less than this factor over the last STALL_WINDOW iterations (cost now > stallRatio ×
-   * cost then; 0 or absent: never). The iterations it leaves go to the later cycles.
-   */
-  stallRatio?: number;
   /** λ of the field step's update: w + λ d (simple), or x̄ + λ d̄ (Anderson). */
   fieldMixing: number;
   /**
@@ -195,19 +181,13 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
   const solvePart = async (part: ResidualPart, iterations: number) => {
     const problem = sys.partProblem(theta, part);
     const { first, embed } = problem;
-    const costs: number[] = [];
-    const stallRatio = part === 'all' ? 0 : (settings.stallRatio ?? 0);
-    const stalled = (cost: number) => {
-      costs.push(cost);
-      return stallRatio > 0 && costs.length > STALL_WINDOW && cost > stallRatio * costs[costs.length - 1 - STALL_WINDOW];
-    };
     const r = await levenbergMarquardtYielding(
       problem,
       theta.slice(first, first + problem.size),
       // Each part resumes from the damping its previous solve ended with: after a field step
       // the problem is a nearby one, and restarting from τ·max diag(JᵀJ) would spend the
       // first iterations of every cycle re-learning μ.
-      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) && !stalled(it.cost) },
+      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) },
       yieldToEvents,
       () => hooks.shouldStop?.() ?? false,
     );

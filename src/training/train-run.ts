@@ -361,7 +361,6 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         strategy: tr.secondOrder.strategy,
         cycles: tr.secondOrder.cycles,
         firstCycleIterations: tr.secondOrder.firstCycleIterations,
-        stallRatio: tr.secondOrder.stallRatio,
         jointIterations: tr.secondOrder.jointIterations,
         fieldMixing: tr.fieldMixing,
         fieldStep: tr.secondOrder.fieldStep,

@@ -190,12 +190,6 @@ export const trainConfigSchema = z
              * the other cycles share what is left.
              */
             firstCycleIterations: z.number().int().min(0).max(100000).default(0),
-            /**
-             * Alternating: a propagator's solve in a cycle ends early once its MDE cost has
-             * fallen by less than this factor over its last 5 iterations (0: never); the
-             * iterations it leaves go to the later cycles.
-             */
-            stallRatio: z.number().min(0).max(1).default(0),
             /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
             jointIterations: z.number().int().min(0).max(100000).default(0),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */
