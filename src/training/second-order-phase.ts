@@ -242,10 +242,11 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
       // moves the fields by the propagators' error (measured at f = 0.35, χN = 22: max |d|
       // stayed near 1 kT and φ_A drifted away, docs/second-order-training.md).
       const first = settings.firstCycleIterations > 0 ? Math.min(settings.firstCycleIterations, Math.floor(settings.iterations / sides.length)) : 0;
+      const rest = first > 0 ? settings.iterations - first * sides.length : settings.iterations;
+      const restCycles = first > 0 ? Math.max(1, settings.cycles - 1) : settings.cycles;
+      const perCycle = Math.max(1, Math.ceil(rest / (restCycles * sides.length)));
       for (let c = 0; c < settings.cycles && !stopped && done < settings.iterations; c++) {
         if (c > 0 && nets.field) fieldStep();
-        // The cycles after the first share what is left (a solve that ended early leaves its iterations to them).
-        const perCycle = Math.max(1, Math.ceil((settings.iterations - done) / ((settings.cycles - c) * sides.length)));
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
           await solvePart(side, Math.min(c === 0 && first > 0 ? first : perCycle, settings.iterations - done));
