@@ -8,9 +8,11 @@
  * systems; only when asked, it is long: see recipe-bench.ts), `--propagator-floor` (the
  * propagator networks alone in the reference's field: the floor of the second-order recipe;
  * only when asked, see propagator-floor.ts), `--lm-profile` (CPU time of the parts of one
- * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts).
+ * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts),
+ * `--discretisation-floor` (what the recipe's field modes and contour nodes alone cost in φ_A;
+ * only when asked, see discretisation-floor.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--discretisation-floor'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -43,6 +45,11 @@ if (parts.includes('--propagator-floor')) {
 if (parts.includes('--lm-profile')) {
   const { runLmProfile } = await import('./lm-profile.js');
   await runLmProfile();
+}
+// Opt-in only: the spectral solver alone (seconds).
+if (parts.includes('--discretisation-floor')) {
+  const { runDiscretisationFloor } = await import('./discretisation-floor.js');
+  runDiscretisationFloor();
 }
 // Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
 if (parts.includes('--recipes')) {
