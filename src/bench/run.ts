@@ -10,9 +10,10 @@
  * only when asked, see propagator-floor.ts), `--lm-profile` (CPU time of the parts of one
  * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts),
  * `--network-least-squares` (the least-squares network χN estimator end to end; only when
- * asked, see network-least-squares-bench.ts).
+ * asked, see network-least-squares-bench.ts), `--discretisation-floor` (what the recipe's field
+ * modes and contour nodes alone cost in φ_A; only when asked, see discretisation-floor.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--network-least-squares'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--network-least-squares', '--discretisation-floor'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -50,6 +51,11 @@ if (parts.includes('--lm-profile')) {
 if (parts.includes('--network-least-squares')) {
   const { runNetworkLeastSquaresBench } = await import('./network-least-squares-bench.js');
   await runNetworkLeastSquaresBench();
+}
+// Opt-in only: the spectral solver alone (seconds).
+if (parts.includes('--discretisation-floor')) {
+  const { runDiscretisationFloor } = await import('./discretisation-floor.js');
+  runDiscretisationFloor();
 }
 // Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
 if (parts.includes('--recipes')) {

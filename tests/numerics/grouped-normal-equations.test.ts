@@ -112,4 +112,37 @@ describe('groupedNormalEquations, factored columns (Jacobian C·E)', () => {
     expect(Array.from(shifted.A)).toEqual(Array.from(A));
     expect(Array.from(shifted.g)).toEqual(Array.from(g));
   });
+  it('equals the expanded dense JᵀJ for odd widths and more intermediates (the edges of the blocked products)', () => {
+    const rng = new Xorshift128(5);
+    const m = 70;
+    const t = 10;
+    const n = 20;
+    // Columns 0, 2, 4, … up to 18 factored (kf = 9, odd), the rest own (k = 11, odd).
+    const fcols = Int32Array.from([0, 2, 4, 6, 8, 10, 12, 14, 16]);
+    const own = Int32Array.from([1, 3, 5, 7, 9, 11, 13, 15, 17, 18, 19]);
+    const k = own.length;
+    const kf = fcols.length;
+    const J = Float64Array.from({ length: m * k }, () => rng.next() - 0.5);
+    const r = Float64Array.from({ length: m }, () => rng.next() - 0.5);
+    const C = new Float64Array(m * t);
+    for (let i = 0; i < m; i++) {
+      const u = i % (t / 2);
+      C[i * t + 2 * u] = rng.next() - 0.5;
+      C[i * t + 2 * u + 1] = rng.next() - 0.5;
+    }
+    const E = Float64Array.from({ length: t * kf }, () => rng.next() - 0.5);
+    const grp = { columns: own, J, r, factored: { columns: fcols, t, C, E } };
+    const { A, g } = groupedNormalEquations(n, [grp]);
+    const entry = (i: number, c: number) => groupJacobianEntry(grp, i, c);
+    for (let a = 0; a < n; a++) {
+      let ga = 0;
+      for (let i = 0; i < m; i++) ga += entry(i, a) * r[i];
+      expect(g[a]).toBeCloseTo(ga, 12);
+      for (let b = 0; b < n; b++) {
+        let s = 0;
+        if (b <= a) for (let i = 0; i < m; i++) s += entry(i, a) * entry(i, b);
+        expect(A[a * n + b]).toBeCloseTo(s, 12);
+      }
+    }
+  });
 });
