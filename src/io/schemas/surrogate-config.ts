@@ -65,7 +65,7 @@ export const surrogateConfigSchema = z
          */
         method: z.enum(['adam-lbfgs', 'levenberg-marquardt']).default('adam-lbfgs'),
         /** Levenberg–Marquardt iterations of the fit to the reference fields (method 'levenberg-marquardt'). */
-        lmIterations: z.number().int().min(0).max(100000).default(200),
+        lmIterations: z.number().int().min(1).max(100000).default(200),
         /** Adam steps, then L-BFGS iterations, fitting the field network to the reference fields (anchors and extra solves). */
         adamSteps: z.number().int().min(0).max(100000).default(200),
         learningRate: z.number().gt(0).lt(1).default(5e-3),
