@@ -9,10 +9,11 @@
  * propagator networks alone in the reference's field: the floor of the second-order recipe;
  * only when asked, see propagator-floor.ts), `--lm-profile` (CPU time of the parts of one
  * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts),
- * `--discretisation-floor` (what the recipe's field modes and contour nodes alone cost in φ_A;
- * only when asked, see discretisation-floor.ts).
+ * `--network-least-squares` (the least-squares network χN estimator end to end; only when
+ * asked, see network-least-squares-bench.ts), `--discretisation-floor` (what the recipe's field
+ * modes and contour nodes alone cost in φ_A; only when asked, see discretisation-floor.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--discretisation-floor'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--network-least-squares', '--discretisation-floor'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -45,6 +46,11 @@ if (parts.includes('--propagator-floor')) {
 if (parts.includes('--lm-profile')) {
   const { runLmProfile } = await import('./lm-profile.js');
   await runLmProfile();
+}
+// Opt-in only: the least-squares network χN estimator end to end (minutes).
+if (parts.includes('--network-least-squares')) {
+  const { runNetworkLeastSquaresBench } = await import('./network-least-squares-bench.js');
+  await runNetworkLeastSquaresBench();
 }
 // Opt-in only: the spectral solver alone (seconds).
 if (parts.includes('--discretisation-floor')) {

@@ -10,7 +10,7 @@ import type { z } from 'zod';
 import { InputError, describeValue, issueMessage } from '../io/errors.js';
 import { version1Message } from '../io/config-renames.js';
 import { readRawConfig } from './raw-config.js';
-import { parseDecimal } from './run-command.js';
+import { parseDecimal } from './decimal-text.js';
 
 /** Flag → config path, per command. */
 export const FLAG_CONFIG_PATHS = {

@@ -127,7 +127,7 @@ export function formatDuration(seconds: number): string {
   return `${m} min ${Math.round(seconds - 60 * m)} s`;
 }
 
-function formatRate(rate: number): string {
+export function formatRate(rate: number): string {
   if (!Number.isFinite(rate)) return '?';
   return rate >= 10 ? rate.toFixed(0) : rate >= 1 ? rate.toFixed(1) : rate.toPrecision(2);
 }

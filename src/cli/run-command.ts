@@ -10,6 +10,7 @@ import { ModelError } from '../physics/chain.js';
 import { RunStopped, stopExitCode } from '../runtime/stop.js';
 import { invocation, reproduceLine } from './cli-context.js';
 import { writeCrashFile } from './crash-file.js';
+import { parseDecimal } from './decimal-text.js';
 import { EXIT } from './exit-codes.js';
 
 export function reportError(e: unknown): number {
@@ -48,24 +49,6 @@ export function action<A extends unknown[]>(fn: (...args: A) => Promise<number |
       process.exitCode = reportError(e);
     }
   };
-}
-
-// A decimal number as people type it: no hex/octal/binary forms, no "Infinity", no blanks.
-const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
-
-/**
- * Parse a decimal number as a user typed it, or say what is wrong with it. Strings that
- * JavaScript would quietly turn into something else (0x10 → 16, "" → 0, 1e999 → Infinity,
- * 1e-400 → 0) are refused. Returns the message for `name`, or the value.
- */
-export function parseDecimal(name: string, value: string): number | string {
-  const t = value.trim();
-  if (t === '') return `${name}: got ${JSON.stringify(value)} (empty); allowed: a number`;
-  if (!DECIMAL.test(t)) return `${name}: got ${JSON.stringify(value)}; allowed: a number in decimal notation (e.g. 15, 0.5, 1e-6)`;
-  const v = Number(t);
-  if (!Number.isFinite(v)) return `${name}: got ${value}, which is beyond the range of a double (got Infinity); allowed: a finite number`;
-  if (v === 0 && /[1-9]/.test(t.replace(/[eE].*$/, ''))) return `${name}: got ${value}, which is too small to represent (it underflows to 0); allowed: a number ≥ 1e-300 in size, or 0`;
-  return v;
 }
 
 /** Parse a numeric flag, naming the flag on failure. */

@@ -75,7 +75,7 @@ export interface NetworkEstimatorSettings {
    * dataWeight, not the Adam/L-BFGS budgets.
    */
   strategy?: 'adam-lbfgs' | 'least-squares';
-  /** Joint LM iterations of the 'least-squares' strategy with χN free (default 25; 8 with χN held come first). */
+  /** Joint LM iterations of the 'least-squares' strategy with χN free (default 60; 8 with χN held come first). */
   secondOrderIterations?: number;
   /** λ of the data rows of the 'least-squares' strategy (default 30). */
   dataWeight?: number;
@@ -121,9 +121,11 @@ export interface NetworkEstimate {
 /**
  * Networks, grid and start fits of the 'least-squares' strategy (the sizes of the second-order
  * train recipe, docs/second-order-training.md; the start iterations as measured in
- * docs/inverse.md).
+ * docs/inverse.md). The residual grid has 64 x points: on 32 the networks fitted the MDE at
+ * the points and not between them (mean square 5.8e-4 there, 7.9e-2 on 4 × as many; on 64
+ * points 5.0e-4 on both; docs/inverse.md).
  */
-const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 32, nodesPerBlock: 32, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 3, tau: 1e-7, holdChiNIterations: 8 };
+const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 64, nodesPerBlock: 32, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 3, tau: 1e-7, holdChiNIterations: 8 };
 
 function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   const L = est.period;
@@ -202,11 +204,11 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
         ...LEAST_SQUARES_RECIPE,
         chain: s.chain,
         seed,
-        iterations: s.secondOrderIterations ?? 25,
+        iterations: s.secondOrderIterations ?? 60,
         dataWeight: s.dataWeight ?? 30,
         resolution: s.resolution,
         shouldStop: stopRequested,
-        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 25), chiN),
+        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 60), chiN),
       }, start.x);
       if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
       runs.push({ seed, chiN: run.chiN, trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
@@ -308,7 +310,7 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
     `seed spread over ${values.length} run(s): it measures how far independent trainings land apart, not the statistical error of the data; read the classical profile-likelihood interval for that`,
     `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
     ...runs.flatMap((r) => (r.aliasing ? [`seed ${r.seed}: the networks' MDE mean square ${r.aliasing.onGrid.toExponential(2)} on the ${r.aliasing.nx} x points of the fit, ${r.aliasing.between.toExponential(2)} on 4 × as many (far above the first: the networks fit the MDE at the points and not between them)`] : [])),
-    ...(strategy === 'least-squares' ? ['strategy least-squares (experimental): χN fitted with the networks as one Levenberg–Marquardt problem; in the measured runs (f = 0.5, χN = 15, 64 points) it ended 1.3–1.7 % below the truth, outside the classical 95 % interval with 2 % noise (docs/inverse.md): use the classical estimate'] : []),
+    ...(strategy === 'least-squares' ? ['strategy least-squares (experimental): χN fitted with the networks as one Levenberg–Marquardt problem; in the measured runs (f = 0.5, χN = 15, 64 points) it ended 0.11 % below the truth without noise from a start 10 % low, and 1.6–1.7 % below, outside the classical 95 % interval, with 2 % noise (an older recipe: 32 x points, 10–15 iterations; not measured since) (docs/inverse.md): use the classical estimate'] : []),
   ];
   return {
     chiN: mean,

@@ -17,6 +17,7 @@ import { yieldToEvents } from '../runtime/stop.js';
 import type { Tf } from '../autodiff/tf.js';
 import type { ParameterSet } from '../autodiff/parameters.js';
 import { linearLeastSquares } from '../numerics/dense-solve.js';
+import { InputError } from '../io/errors.js';
 import { cellFeatureArrays } from './features.js';
 import type { FieldNet } from './field-net.js';
 import type { PropagatorNet, PropagatorPoints } from './propagator-net.js';
@@ -132,14 +133,42 @@ function* warmStartSteps(tf: Tf, nets: ScftNetworks, targets: WarmStartTargets, 
  */
 export function fitLinearField(field: FieldNet, x: Float64Array, w: SpeciesArrays): void {
   const layer = field.mlp.layers[0];
-  // The features of the network's own cell (a film: cosines; films train hidden-layer field networks, so this fit meets periodic cells).
+  // The features of the network's own cell (a film: cosines and the two wall profiles).
   const f = cellFeatureArrays(x, field.cell.features, field.config.fourierModes);
   const p = f.width + 1;
-  const coef = linearLeastSquares(x.length, p, (j, row) => {
+  // The network's outputs get the film's surface-field offsets (−h, +h) added after the layer
+  // (field-net.ts), so the layer is fitted to w minus those offsets; fitting w itself would
+  // count the wall's field twice.
+  const offset = field.offsetAt(x);
+  const smooth = offset ? [Float64Array.from(w.A, (v, j) => v - offset[0][j]), Float64Array.from(w.B, (v, j) => v - offset[1][j])] : [w.A, w.B];
+  const fill = (j: number, row: Float64Array) => {
     row.set(f.v.subarray(j * f.width, (j + 1) * f.width));
     row[f.width] = 1;
-  }, [w.A, w.B]);
-  if (!coef[0] || !coef[1]) throw new Error(`field network: ${field.config.fourierModes} Fourier modes are not determined by ${x.length} grid points`);
+  };
+  let coef = linearLeastSquares(x.length, p, fill, smooth);
+  if (!coef[0] || !coef[1]) {
+    // Nearly dependent columns (a film's wall profiles are close to combinations of the higher
+    // cosines on a coarse grid, or more columns than points): any least-squares solution fits
+    // as well, so take the one a tiny ridge picks: rows √ε·I with zero targets, ε = 1e-10·nx,
+    // about 1e-10 of each column's sum of squares (the fit moves by about that fraction). Only
+    // when the plain normal equations fail, so every fit they determine is unchanged.
+    const ridge = Math.sqrt(1e-10 * x.length);
+    const rowOf = (j: number, row: Float64Array) => {
+      if (j < x.length) fill(j, row);
+      else {
+        row.fill(0);
+        row[j - x.length] = ridge;
+      }
+    };
+    const padded = smooth.map((y) => Float64Array.from({ length: x.length + p }, (_, j) => (j < x.length ? y[j] : 0)));
+    coef = linearLeastSquares(x.length + p, p, rowOf, padded);
+  }
+  if (!coef[0] || !coef[1]) {
+    // A config choice, not a bug: more columns than the grid can determine.
+    throw new InputError(
+      `networks.field.fourierModes: got ${field.config.fourierModes}; a field network with no hidden layers has ${p} columns here (modes${f.width > field.config.fourierModes * (field.cell.features.kind === 'fourier' ? 2 : 1) ? ', wall profiles' : ''} and a constant), which the ${x.length}-point grid does not determine; allowed: fewer modes or more grid points (cell.nx, collocation.nx)`,
+    );
+  }
   const outputs = field.options.outputs;
   const kernel = new Float32Array(f.width * outputs);
   const bias = new Float32Array(outputs);

@@ -14,7 +14,8 @@
  * least squares problems" (IMM, 2nd ed. 2004), Algorithm 3.16:
  *     ρ = (F(x) − F(x + h)) / (L(0) − L(h)),   L(h) = ½‖r + J h‖²,
  *     ρ > 0: accept, μ ← μ · max(1/3, 1 − (2ρ − 1)³), ν ← 2;   else μ ← μ ν, ν ← 2ν;
- * first μ = τ · max_i A_ii. A rejected step re-solves with the larger μ on the same J.
+ * first μ = τ · max_i A_ii. A rejected step re-solves with the larger μ on the same J; a
+ * damped system that does not factorise, or gives a non-finite step, counts as a rejected step.
  * The linear systems are factorised by Cholesky (numerics/cholesky.ts).
  *
  * Units: whatever the caller's r and x carry. F = ½‖r‖² throughout ("cost").
@@ -230,6 +231,17 @@ function normalSystem(lin: NormalLinearisation, n: number, damping: 'marquardt' 
   };
 }
 
+/** The step at μ, or null when its system does not factorise (cholesky.ts throws a RangeError). */
+function trySolve(sys: StepSystem, mu: number): Float64Array | null {
+  try {
+    const h = sys.solve(mu);
+    return h.every(Number.isFinite) ? h : null;
+  } catch (e) {
+    if (e instanceof RangeError && e.message.startsWith('cholesky:')) return null;
+    throw e;
+  }
+}
+
 export function levenbergMarquardt(problem: LeastSquaresProblem, x0: Float64Array, options: LmOptions = {}): LmResult {
   return runToEnd(levenbergMarquardtSteps(problem, x0, options));
 }
@@ -268,7 +280,15 @@ export function* levenbergMarquardtSteps(problem: LeastSquaresProblem, x0: Float
     let accepted = false;
     let small = false;
     while (!accepted && rejected <= maxRejections) {
-      const h = sys.solve(mu);
+      const h = trySolve(sys, mu);
+      if (!h) {
+        // A + μD did not factorise (a normal matrix with non-finite entries, or one so far
+        // from positive definite that Cholesky's shifts gave up): a rejected step, μ grows.
+        mu *= nu;
+        nu *= 2;
+        rejected++;
+        continue;
+      }
       if (norm(h) <= tolX * (norm(x) + tolX)) {
         small = true;
         break;

@@ -16,6 +16,17 @@ export function reportRunDirectory(runDir: string, outDir: string, formats: read
   return writeReportFiles(outDir, renderReport(buildReport(run.input), formats, dpi));
 }
 
+/**
+ * reportRunDirectory with a stop point between the drawing and the first write, for a command
+ * that answers signals there (cli/short-run-stop.ts): a stop at that point writes nothing.
+ */
+export async function reportRunDirectoryWithStop(runDir: string, outDir: string, beforeWriting: () => Promise<void>, formats: readonly ReportFormat[] = ['pdf', 'png'], dpi = 150): Promise<string[]> {
+  const run = loadRun(runDir);
+  const rendered = renderReport(buildReport(run.input), formats, dpi);
+  await beforeWriting();
+  return writeReportFiles(outDir, rendered);
+}
+
 export interface RunReportOptions {
   formats: readonly ReportFormat[];
   dpi: number;
@@ -26,6 +37,8 @@ export interface RunReportOptions {
   insideRun?: boolean;
   /** How the user named outDir in messages (default "--out"). */
   flag?: string;
+  /** Called after the rendering, before the first file is written (a stop there leaves nothing written). */
+  beforeWriting?: () => Promise<void>;
 }
 
 export interface RunReport {
@@ -35,11 +48,12 @@ export interface RunReport {
 }
 
 /** The `report` command: read the run, claim `outDir`, render and write; nothing is written on a failure. */
-export function writeRunReport(runDir: string, outDir: string, opts: RunReportOptions): RunReport {
+export async function writeRunReport(runDir: string, outDir: string, opts: RunReportOptions): Promise<RunReport> {
   const run = loadRun(runDir, { rgNm: opts.rgNm });
   const out = claimOutputDirectory(outDir, 'report', { overwrite: opts.overwrite, flag: opts.flag, nestedInRun: opts.insideRun });
   try {
     const rendered = renderReport(buildReport(run.input), opts.formats, opts.dpi);
+    await opts.beforeWriting?.();
     const written = out.write(rendered.files);
     out.finish();
     return { written, read: run.read, notes: run.notes };

@@ -46,6 +46,11 @@ export function installStopHandlers(commandLabel: string, stopping: string = SAV
   };
 }
 
+/** Change what a first signal's message says will happen, as a run moves to another stage (its writes, say). */
+export function setStoppingText(stopping: string): void {
+  stoppingText = stopping;
+}
+
 export function stopRequested(): boolean {
   return requested !== null;
 }

@@ -23,7 +23,7 @@ import type { ScftSolution } from '../physics/result.js';
 import { fieldsFromComposition } from '../physics/scft-equations.js';
 import { spinodal } from '../physics/rpa.js';
 import type { SpectralOptions } from '../io/schemas/spectral-schema.js';
-import { bulkPeriodGuess, contourOf, solveFixedCell } from './scft-solver.js';
+import { bulkPeriodGuess, contourOf, defaultSpectralOptions, solveFixedCell } from './scft-solver.js';
 import { solveByNewton } from './newton-solve.js';
 
 export interface FilmLayers {
@@ -56,6 +56,24 @@ export interface FilmRequest {
   /** Fields of an earlier film solution to try as one more start (a thickness scan's neighbour). */
   initial?: SpeciesArrays;
   keepPropagators?: boolean;
+  /** Progress: called at each field iteration of each start (and each continuation stage of the disordered film). */
+  onStep?: (step: FilmSolveStep) => void;
+}
+
+/** Where a film solve is, for a progress line: which start, its iteration and residual. */
+export interface FilmSolveStep {
+  /** This start (from 1; the disordered film is the first) and how many the solve tries. */
+  start: number;
+  starts: number;
+  /** What the start is: the disordered film, or a lamellar start with m half-periods. */
+  label: string;
+  /** Step of this start: its field iteration (the disordered film: its field iterations, then one per Newton stage). */
+  iteration: number;
+  /** The most iterations this start may take. */
+  maxIterations: number;
+  /** Residual max |w_out − w|, kT; the start has converged below `tolerance`. */
+  residual: number;
+  tolerance: number;
 }
 
 /** Below this |φ_A − φ_B| a point belongs to no layer (a mixed melt, or an interface). */
@@ -90,22 +108,26 @@ function lamellarStart(chain: Chain, chiN: number, cell: FilmCell, halfPeriods: 
 /** Largest χN ratio of one continuation stage of the disordered film. */
 const MAX_STEP_RATIO = 1.5;
 
-export function disorderedFilm(req: FilmRequest, chain: Chain, contour: Contour): ScftSolution {
+export function disorderedFilm(req: FilmRequest, chain: Chain, contour: Contour, progressStarts = 1): ScftSolution {
   const cell = req.cell;
   const chiN = req.system.chiN;
   const f = chain.speciesFraction.A;
   const uniform = (x: number) => fieldsFromComposition(chain, x, new Float64Array(cell.n).fill(f), cell);
   const stable = chain.species.length < 2 ? chiN : Math.min(chiN, 0.5 * spinodal(chain).chiN);
-  let sol = solveFixedCell({ ...req, contour, system: { ...req.system, chiN: stable }, initial: uniform(stable) });
+  const tolerance = req.options?.tolerance ?? 1e-9;
+  const { maxIterations } = defaultSpectralOptions(req.options);
+  const report = (label: string) => (iteration: number, residual: number) => req.onStep?.({ start: 1, starts: progressStarts, label: `the disordered film: ${label}`, iteration, maxIterations, residual, tolerance });
+  let sol = solveFixedCell({ ...req, contour, system: { ...req.system, chiN: stable }, initial: uniform(stable), onIteration: report(`field iterations at χN = ${+stable.toPrecision(4)}`) });
   let at = stable;
   let ratio = MAX_STEP_RATIO;
-  const tolerance = req.options?.tolerance ?? 1e-9;
+  let stage = sol.iterations;
   while (at < chiN && sol.converged) {
     const next = Math.min(chiN, at * ratio);
     const start = { A: sol.w.A.map((v) => (v * next) / at), B: sol.w.B.map((v) => (v * next) / at) };
     // Intermediate stages need only be close enough to start the next one.
     const options = { ...req.options, tolerance: next < chiN ? Math.max(tolerance, 1e-6) : tolerance };
     const trial = solveByNewton({ ...req, options, contour, system: { ...req.system, chiN: next }, start });
+    report(`Newton continuation, χN = ${+next.toPrecision(4)} of ${chiN}`)(++stage, trial.residual);
     if (trial.converged) {
       sol = trial;
       at = next;
@@ -139,23 +161,29 @@ export function solveFilm(req: FilmRequest): FilmSolve {
   const contour = contourOf(chain, req.contour);
   const chiN = req.system.chiN;
   const cell = req.cell;
-  const solve = (initial: SpeciesArrays, maxIterations?: number) => solveFixedCell({ ...req, contour, initial, options: maxIterations ? { ...req.options, maxIterations } : req.options });
-  const disordered = disorderedFilm(req, chain, contour);
-  const starts: FilmSolve['starts'] = [{ halfPeriods: 0, freeEnergy: disordered.freeEnergy, converged: disordered.converged, phase: 'disordered' }];
-  const candidates: ScftSolution[] = disordered.converged ? [disordered] : [];
+  const solve = (initial: SpeciesArrays, maxIterations: number | undefined, onIteration: (iteration: number, residual: number) => void) =>
+    solveFixedCell({ ...req, contour, initial, options: maxIterations ? { ...req.options, maxIterations } : req.options, onIteration });
+  // The lamellar starts are chosen first, so that progress can count them from the start.
+  const tries: [number, SpeciesArrays, number | undefined][] = [];
   if (chain.species.length === 2 && !req.system.externalField) {
     const base = cell.startPattern(bulkPeriodGuess(chain, chiN));
     const m0 = Math.round((base.waveNumber * cell.length) / Math.PI);
     const sign = Math.sign(base.pattern[0]) || 1;
     const fixedParity = cell.walls.bottom.affinity !== 0 && cell.walls.top.affinity !== 0;
     const step = fixedParity ? 2 : 1;
-    const tries: [number, SpeciesArrays, number | undefined][] = [m0, m0 + step, m0 - step].filter((v) => v >= 1).map((m, i) => [m, lamellarStart(chain, chiN, cell, m, sign), i === 0 ? undefined : NEIGHBOUR_ITERATIONS]);
+    tries.push(...[m0, m0 + step, m0 - step].filter((v) => v >= 1).map((m, i): [number, SpeciesArrays, number | undefined] => [m, lamellarStart(chain, chiN, cell, m, sign), i === 0 ? undefined : NEIGHBOUR_ITERATIONS]));
     if (req.initial) tries.push([-1, req.initial, undefined]);
-    for (const [m, w0, cap] of tries) {
-      const sol = solve(w0, cap);
-      starts.push({ halfPeriods: m, freeEnergy: sol.freeEnergy, converged: sol.converged, phase: sol.phase });
-      if (sol.converged) candidates.push(sol);
-    }
+  }
+  const disordered = disorderedFilm(req, chain, contour, 1 + tries.length);
+  const starts: FilmSolve['starts'] = [{ halfPeriods: 0, freeEnergy: disordered.freeEnergy, converged: disordered.converged, phase: 'disordered' }];
+  const candidates: ScftSolution[] = disordered.converged ? [disordered] : [];
+  const { tolerance, maxIterations: iterationCap } = defaultSpectralOptions(req.options);
+  for (const [i, [m, w0, cap]] of tries.entries()) {
+    const maxIterations = cap ?? iterationCap;
+    const label = m < 0 ? 'the given start' : `a start with ${m} half-periods`;
+    const sol = solve(w0, cap, (iteration, residual) => req.onStep?.({ start: i + 2, starts: 1 + tries.length, label, iteration, maxIterations, residual, tolerance }));
+    starts.push({ halfPeriods: m, freeEnergy: sol.freeEnergy, converged: sol.converged, phase: sol.phase });
+    if (sol.converged) candidates.push(sol);
   }
   const chosen = [...candidates].sort((a, b) => a.freeEnergy - b.freeEnergy)[0] ?? disordered;
   const sameState = (a: ScftSolution, b: ScftSolution) => a.phi.A.every((v, j) => Math.abs(v - b.phi.A[j]) < 1e-4);

@@ -39,6 +39,8 @@ export interface FixedCellRequest {
   /** Warm start: fields of an earlier solution (resampled by the cell when the grid differs; L may differ). */
   initial?: SpeciesArrays;
   keepPropagators?: boolean;
+  /** Called after each field iteration with its number and residual max |w_out − w| (kT): progress only. */
+  onIteration?: (iteration: number, residual: number) => void;
 }
 
 /**
@@ -247,6 +249,7 @@ export function solveFixedCell(req: FixedCellRequest): ScftSolution {
       const dens = solver.solve();
       const upd = fieldDeviation(chain, chiN, w, dens.phi, cell);
       residual = upd.residual;
+      req.onIteration?.(it, residual);
       const diverging = !Number.isFinite(residual) || !(dens.Q > 0) || (it > simpleSteps && residual > DIVERGENCE_GROWTH * best.residual);
       if (diverging && restarts < MAX_RESTARTS && Number.isFinite(best.residual)) {
         restarts++;

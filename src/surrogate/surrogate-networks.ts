@@ -43,8 +43,19 @@ export class SurrogateFieldNet {
     this.parameters = new ParameterSet(tf, this.mlp.entries);
   }
 
+  /** Width of one input row: the periodic features and θ̂. */
+  get inputWidth(): number {
+    return periodicWidth(this.config.fourierModes) + this.parameterCount;
+  }
+
   /** Input rows [sin, cos(2πm t) … | θ̂] of the groups' points as a value-only jet, kept out of tf.tidy: dispose when done. */
   features(groups: ParameterGroup[]): Jet {
+    const v = this.featureRows(groups);
+    return Jet.constant(this.tf, this.tf.tensor2d(f32(v), [v.length / this.inputWidth, this.inputWidth])).keep();
+  }
+
+  /** The same input rows in float64, row-major (n · inputWidth): the float64 fit (surrogate-lm-fit.ts) reads them. */
+  featureRows(groups: ParameterGroup[]): Float64Array {
     const pw = periodicWidth(this.config.fourierModes);
     const width = pw + this.parameterCount;
     const n = groups.reduce((k, g) => k + g.t.length, 0);
@@ -58,7 +69,7 @@ export class SurrogateFieldNet {
         v.set(g.hat, row * width + pw);
       }
     }
-    return Jet.constant(this.tf, this.tf.tensor2d(f32(v), [n, width])).keep();
+    return v;
   }
 
   /** χN per row of `features` ([n, 1], kept): the output scale w = χN · n. */

@@ -36,6 +36,8 @@ export interface SurrogateRunOptions {
   onRound?: (r: SurrogateHistoryEntry & { rounds: number }) => void;
   /** Each reference solve (anchors, held-out points, extra fit points) as it finishes: `done` of `total`. */
   onSolve?: (done: number, total: number, role: string, seconds: number) => void;
+  /** Each step of the fit to the reference solutions (Adam step, L-BFGS or Levenberg–Marquardt iteration) and its fit loss. */
+  onFitStep?: (step: number, loss: number) => void;
 }
 
 export type { SurrogateMetrics } from '../io/formats/surrogate.js';
@@ -141,7 +143,7 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     const evaluate = () => Math.max(...heldOutErrors(space, model.solutions(heldPoints), heldOut, anchors).map((e) => e.phiA.relativeL2));
     const trainer = new SurrogateTrainer(tf, model, config);
     stage(`fitting the field network to ${anchors.length + extra.length} reference solutions (${handle.backend} backend, tfjs ${handle.tfjsVersion})`);
-    const fit = await trainer.fit([...anchors, ...extra]);
+    const fit = await trainer.fit([...anchors, ...extra], opts.onFitStep);
     const tr = config.training;
     const fitEntry = { round: 0, residual: null, fitLoss: fit.finalLoss, seconds: elapsed(), ...(tr.evaluateEvery > 0 ? { phiError: evaluate() } : {}) };
     history.push(fitEntry);

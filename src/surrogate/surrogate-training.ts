@@ -4,7 +4,8 @@
  * propagators solved exactly in the network's fields):
  *   fit     least squares of w/χN to reference fields on their x grid (the anchors, and extra
  *           solves if configured): Adam (Kingma & Ba, ICLR 2015; autodiff/adam.ts), then L-BFGS
- *           (numerics/lbfgs.ts) on the flattened parameters;
+ *           (numerics/lbfgs.ts) on the flattened parameters; or, with warmStart.method
+ *           'levenberg-marquardt', float64 Levenberg–Marquardt (surrogate-lm-fit.ts);
  *   rounds  at the anchors and `pointsPerRound` random θ: the surrogate's solution (one
  *           spectral propagator solve in its fields, surrogate-model.ts) gives φ, the simple-
  *           mixing SCFT update of physics/scft-equations.ts gives w' = w + λ d (gauge fixed),
@@ -14,7 +15,7 @@
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { SurrogateConfig } from '../io/schemas/surrogate-config.js';
-import type { SpeciesArrays } from '../physics/fields.js';
+import type { SurrogateMetrics } from '../io/formats/surrogate.js';
 import type { ScftSolution } from '../physics/result.js';
 import { mixedFieldUpdate } from '../physics/scft-equations.js';
 import { lbfgsYielding } from '../numerics/lbfgs.js';
@@ -26,6 +27,8 @@ import { childSeed, Xorshift128 } from '../numerics/random.js';
 import type { ParameterPoint } from './parameter-space.js';
 import { fractionalGrid } from './surrogate-model.js';
 import type { SurrogateModel } from './surrogate-model.js';
+import { fitFieldsLm } from './surrogate-lm-fit.js';
+import type { FieldTarget } from './surrogate-lm-fit.js';
 
 /** A reference solution at a parameter point. */
 export interface ReferencePoint {
@@ -92,6 +95,9 @@ export interface RoundResult {
 }
 
 export class SurrogateTrainer {
+  /** Levenberg–Marquardt iterations of the last LM fit. */
+  private lmIterationsRun = 0;
+
   constructor(
     readonly tf: Tf,
     readonly model: SurrogateModel,
@@ -99,16 +105,24 @@ export class SurrogateTrainer {
   ) {}
 
   /** Least squares of the network's n = w/χN to target fields at points (each on its own t_j = j/nx grid). */
-  private async fitFields(targets: { point: ParameterPoint; w: SpeciesArrays }[], adam: { steps: number; learningRate: number }, lbfgsIterations: number, onStep?: (step: number, loss: number) => void): Promise<number> {
+  private async fitFields(targets: FieldTarget[], adam: { steps: number; learningRate: number }, lbfgsIterations: number, onStep?: (step: number, loss: number) => void, lm?: number): Promise<number> {
     const tf = this.tf;
     const field = this.model.field;
-    const features = field.features(targets.map((d) => this.model.group(d.point, fractionalGrid(d.w.A.length))));
+    const groups = targets.map((d) => this.model.group(d.point, fractionalGrid(d.w.A.length)));
+    const features = field.features(groups);
     const values = tf.tensor2d(
       Float32Array.from(targets.flatMap((d) => Array.from({ length: 2 * d.w.A.length }, (_, k) => (k % 2 === 0 ? d.w.A[k >> 1] : d.w.B[k >> 1]) / d.point.chiN))),
       [features.v.shape[0], 2],
     );
     const loss = () => tf.mean(tf.square(tf.sub(field.forward(features), values))) as TfModule.Scalar;
     try {
+      if (this.config.warmStart.method === 'levenberg-marquardt') {
+        const iterations = lm ?? this.config.training.fitIterations;
+        const r = await fitFieldsLm(field, groups, targets, iterations, yieldToEvents, stopRequested, onStep);
+        if (r.reason === 'interrupted') throw new RunStopped(STOPPED);
+        this.lmIterationsRun = r.iterations;
+        return r.loss;
+      }
       let last = await adamSteps(tf, field.parameters, adam.steps, adam.learningRate, loss, onStep);
       if (lbfgsIterations > 0) last = await lbfgsSteps(tf, field.parameters, lbfgsIterations, loss, (it, f) => onStep?.(adam.steps + it, f));
       return last;
@@ -119,7 +133,7 @@ export class SurrogateTrainer {
   }
 
   /** Warm start: fit to the reference fields of `data`. */
-  async fit(data: ReferencePoint[], onStep?: (step: number, loss: number) => void): Promise<{ adamSteps: number; lbfgsIterations: number; points: number; finalLoss: number; seconds: number }> {
+  async fit(data: ReferencePoint[], onStep?: (step: number, loss: number) => void): Promise<SurrogateMetrics['training']['fit']> {
     const t0 = performance.now();
     const ws = this.config.warmStart;
     const finalLoss = await this.fitFields(
@@ -127,8 +141,11 @@ export class SurrogateTrainer {
       { steps: ws.adamSteps, learningRate: ws.learningRate },
       ws.lbfgsIterations,
       onStep,
+      ws.lmIterations,
     );
-    return { adamSteps: ws.adamSteps, lbfgsIterations: ws.lbfgsIterations, points: data.length, finalLoss, seconds: (performance.now() - t0) / 1000 };
+    const seconds = (performance.now() - t0) / 1000;
+    if (ws.method === 'levenberg-marquardt') return { method: ws.method, adamSteps: 0, lbfgsIterations: 0, lmIterations: this.lmIterationsRun, points: data.length, finalLoss, seconds };
+    return { method: ws.method, adamSteps: ws.adamSteps, lbfgsIterations: ws.lbfgsIterations, points: data.length, finalLoss, seconds };
   }
 
   /** Physics round number `index` (seeded by it) at the anchors and freshly drawn points. */

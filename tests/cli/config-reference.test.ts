@@ -40,7 +40,7 @@ describe('the JSON Schema texts of the build', () => {
     const { tmpdir } = await import('node:os');
     const { join } = await import('node:path');
     const { pathToFileURL } = await import('node:url');
-    const { builtSchemaText } = await import('../../src/cli/commands/schema.js');
+    const { builtSchemaText } = await import('../../src/io/schemas/built-schema-text.js');
     const dist = mkdtempSync(join(tmpdir(), 'mesofield-schema-texts-'));
     mkdirSync(join(dist, 'config-schemas'));
     mkdirSync(join(dist, 'io', 'schemas'), { recursive: true });

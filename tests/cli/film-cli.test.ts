@@ -53,5 +53,7 @@ describe('film measurement commands', () => {
     const result = JSON.parse(readFileSync(join(out, 'result.json'), 'utf8'));
     expect(result.kind).toBe('film-reflectivity');
     expect(result.converged).toBe(true);
+    // The film solve's progress on stderr (src/cli/film-solve-progress.ts; its time left is checked in film-solve-progress.test.ts).
+    expect(r.stderr).toMatch(/reflectivity: film solve: start 1\/\d \(the disordered film: field iterations at χN = [\d.]+\), step \d+ \| residual [\d.]+e[+-]\d+ kT \(tolerance 1e-9\)/);
   });
 });

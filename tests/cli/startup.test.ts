@@ -44,25 +44,33 @@ describe('start-up loads only what the command needs', () => {
     expect(modules.filter((m) => /\/cli\/commands\//.test(m))).toEqual([]);
   });
 
-  it('spinodal: no solver, report, chart or tfjs code; zod and commander as one file each, not their packages', () => {
+  it('spinodal: no solver, report, chart or tfjs code, and neither zod nor commander (cli/quick-answer.ts)', () => {
     const { stdout, modules, builtins } = loaded(['spinodal', '--f', '0.5']);
     expect(stdout).toMatch(/\(χN\)_s = 10\.49/);
     expect(modules.filter((m) => /\/(spectral|reports|training|network|autodiff)\/|chart\.js|@tensorflow|canvas/.test(m))).toEqual([]);
-    // The build bundles both packages (scripts/bundle-dependencies.mjs): no file of theirs under node_modules loads.
-    expect(modules.filter((m) => /node_modules\/(zod|commander)\//.test(m))).toEqual([]);
-    expect(own(modules, 'vendor').sort()).toEqual(['vendor/commander.js', 'vendor/zod.js']);
-    // commander's child_process (and with it dgram) loads only for executable subcommands (net loads
-    // anyway here: stdout and stderr are pipes). The list is of the process's built-ins: check it has some.
+    expect(modules.filter((m) => /(commander|zod)(\/|\.js$)/.test(m))).toEqual([]);
+    expect(modules.filter((m) => /\/cli\/(commands\/|run-cli|run-command)/.test(m))).toEqual([]);
+    expect([...new Set(own(modules, 'physics'))].sort()).toEqual(['physics/chain.js', 'physics/rpa.js']);
+    // The list is of the process's built-ins: check it has some; the socket code of child_process is not among them.
     expect(builtins.some((b) => /^NativeModule fs$/.test(b))).toBe(true);
     expect(builtins.filter((b) => /^NativeModule (child_process|internal\/child_process|dgram)$/.test(b))).toEqual([]);
   });
 
-  it('schema solve: the text the build wrote (dist/config-schemas), without zod, any config schema or the reference generator', () => {
+  it('a spinodal call the quick path does not take (a bad value) loads the command, zod and commander as one file each', () => {
+    const r = spawnSync(process.execPath, ['--import', pathToFileURL(register).href, CLI, 'spinodal', '--f', '1.5'], { encoding: 'utf8', timeout: 60_000 });
+    expect(r.status).toBe(2);
+    const modules = [...r.stderr.matchAll(/^RESOLVED (.*)$/gm)].map((m) => m[1]);
+    expect(modules.filter((m) => /node_modules\/(zod|commander)\//.test(m))).toEqual([]);
+    expect(own(modules, 'vendor').sort()).toEqual(['vendor/commander.js', 'vendor/zod.js']);
+    expect(own(modules, 'cli/commands')).toEqual(['cli/commands/spinodal.js']);
+  });
+
+  it('schema solve: the text the build wrote (dist/config-schemas), without zod, commander, any config schema or the reference generator', () => {
     const { stdout, modules } = loaded(['schema', 'solve']);
     expect(JSON.parse(stdout).properties.kind).toBeDefined();
     expect(stdout).toBe(readFileSync('dist/config-schemas/solve.json', 'utf8'));
-    expect(modules.filter((m) => /(commander|zod)(\/|\.js$)/.test(m))).toEqual(modules.filter((m) => /vendor\/commander\.js$/.test(m)));
-    expect([...new Set(own(modules, 'io/schemas'))]).toEqual(['io/schemas/config-schema-loaders.js']);
-    expect(modules.filter((m) => /config-reference\.js$|\/(spectral|reports|training|network|autodiff)\//.test(m))).toEqual([]);
+    expect(modules.filter((m) => /(commander|zod)(\/|\.js$)/.test(m))).toEqual([]);
+    expect([...new Set(own(modules, 'io/schemas'))].sort()).toEqual(['io/schemas/built-schema-text.js', 'io/schemas/config-schema-loaders.js']);
+    expect(modules.filter((m) => /config-reference\.js$|\/cli\/commands\/|\/(spectral|reports|training|network|autodiff)\//.test(m))).toEqual([]);
   });
 });

@@ -9,6 +9,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../helpers/run-cli.js';
+import { stopAt } from '../faults/signal-process.js';
 
 const work = mkdtempSync(join(tmpdir(), 'mesofield-surrogate-cli-'));
 const configPath = join(work, 'tiny.surrogate.json');
@@ -99,6 +100,16 @@ describe('surrogate commands', () => {
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/--points: got 0; allowed: a whole number from 2 to 8192/);
   });
+
+  it('predict: SIGINT while it loads stops it before it writes, exit 130; --out is not created (fault case, src/cli/short-run-stop.ts)', async () => {
+    const out = join(work, 'p-stopped');
+    // The tfjs start-up and the weights take far longer than the wait for the signal after the loading line.
+    const { p, r } = await stopAt(['predict', ck, '--chiN', '14', '--out', out], /predict: loading the surrogate/, 'SIGINT');
+    expect(r.code, p.stderr()).toBe(130);
+    expect(p.stderr()).toMatch(/predict: Ctrl-C: stopping the predict; nothing will be written/);
+    expect(p.stderr()).toMatch(/predict stopped by a signal before it finished; nothing was written \(.*p-stopped was left as it was\)/);
+    expect(existsSync(out)).toBe(false);
+  }, 120_000);
 
   it('predict on something that is not a surrogate checkpoint says so, and evaluate on a surrogate (exit 2)', () => {
     // A directory whose checkpoint.json is of the single-point kind (predict reads the kind first).

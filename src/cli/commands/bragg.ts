@@ -1,6 +1,7 @@
 /** `mesofield bragg-pattern`: the Bragg peaks of a solved or fitted lamella (a solution file). */
 import type { Command } from 'commander';
 import { claimOut, withOutput } from '../run-output.js';
+import { nothingWritten, withStopPoint } from '../short-run-stop.js';
 import { InputError } from '../../io/errors.js';
 import { action, numberFlag } from '../run-command.js';
 import { writeFitOutput } from './fit-command.js';
@@ -43,10 +44,13 @@ export function registerBragg(program: Command): void {
         const { result, curve } = runBraggPattern(settings, provenance());
         // --out claimed (io/output-directory.ts); the pattern is cheap, so it is claimed when the result is ready.
         const claimed = claimOut(flags, 'bragg-pattern');
-        return withOutput(claimed, async () => {
-          await writeFitOutput('bragg-pattern', claimed, flags, braggPatternFiles(result, curve), async () => (await import('../../reports/bragg-pattern-report.js')).braggPatternReport(flags.out!, result, curve));
-          process.stdout.write(flags.json ? formatText(braggPatternFileSchema, result, 2) : braggPatternText(result));
-        });
+        return withStopPoint('bragg-pattern', nothingWritten('bragg-pattern', flags.out), (stop) =>
+          withOutput(claimed, async () => {
+            await stop.beforeWriting();
+            await writeFitOutput('bragg-pattern', claimed, flags, braggPatternFiles(result, curve), async () => (await import('../../reports/bragg-pattern-report.js')).braggPatternReport(flags.out!, result, curve));
+            process.stdout.write(flags.json ? formatText(braggPatternFileSchema, result, 2) : braggPatternText(result));
+          }),
+        );
       }),
     );
 }

@@ -1,6 +1,7 @@
 /** `mesofield fit-scattering`: χN of a disordered melt from I(q) (Leibler's RPA), and χ(T) from a temperature series. */
 import type { Command } from 'commander';
 import { claimOut, withOutput } from '../run-output.js';
+import { nothingWritten, withStopPoint } from '../short-run-stop.js';
 import { dirname } from 'node:path';
 import { InputError, parseOrThrow } from '../../io/errors.js';
 import { action, numberFlag } from '../run-command.js';
@@ -111,24 +112,27 @@ export function registerFitScattering(program: Command): void {
         // --out is claimed before the fits run (io/output-directory.ts: new, empty or a previous fit-scattering output).
         const claimed = claimOut(flags, 'fit-scattering');
         const { Progress } = await import('../progress.js');
-        return withOutput(claimed, async () => {
-          const progress = new Progress('fit-scattering', flags.quiet, 0);
-          let run;
-          try {
-            run = runScatteringFit(config, {
-              baseDir,
-              rgSource: flags.config ? `${flags.config}: units` : 'flags',
-              provenance: provenance(),
-              // Every file is a fit of about the same cost: the time left is the files left at the rate so far.
-              onFit: (i, total, fit) => progress.step(i + 1, total, `${fit.source}: χN = ${fit.chiN.toPrecision(5)}, reduced χ² ${fit.reducedChi2.toPrecision(3)}, ${fit.seconds.toFixed(2)} s`, 'files'),
-            });
-          } catch (e) {
-            throw asInputError(e, flags.config ?? 'flags');
-          }
-          const { result } = run;
-          await writeFitOutput('fit-scattering', claimed, flags, scatteringFitFiles(result), async () => (await import('../../reports/scattering-fit-report.js')).scatteringFitReport(flags.out!, result));
-          process.stdout.write(flags.json ? formatText(scatteringResultSchema, result, 2) : scatteringSummary(result));
-        });
+        return withStopPoint('fit-scattering', nothingWritten('fit-scattering', flags.out), (stop) =>
+          withOutput(claimed, async () => {
+            const progress = new Progress('fit-scattering', flags.quiet, 0);
+            let run;
+            try {
+              run = runScatteringFit(config, {
+                baseDir,
+                rgSource: flags.config ? `${flags.config}: units` : 'flags',
+                provenance: provenance(),
+                // Every file is a fit of about the same cost: the time left is the files left at the rate so far.
+                onFit: (i, total, fit) => progress.step(i + 1, total, `${fit.source}: χN = ${fit.chiN.toPrecision(5)}, reduced χ² ${fit.reducedChi2.toPrecision(3)}, ${fit.seconds.toFixed(2)} s`, 'files'),
+              });
+            } catch (e) {
+              throw asInputError(e, flags.config ?? 'flags');
+            }
+            const { result } = run;
+            await stop.beforeWriting();
+            await writeFitOutput('fit-scattering', claimed, flags, scatteringFitFiles(result), async () => (await import('../../reports/scattering-fit-report.js')).scatteringFitReport(flags.out!, result));
+            process.stdout.write(flags.json ? formatText(scatteringResultSchema, result, 2) : scatteringSummary(result));
+          }),
+        );
       }),
     );
 }

@@ -7,7 +7,8 @@ import { InputError } from '../../io/errors.js';
 import { invertConfigSchema } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
 import { inversionResultText, summaryText } from '../../inverse/inversion-result.js';
-import { action, parseDecimal, workersFlag } from '../run-command.js';
+import { parseDecimal } from '../decimal-text.js';
+import { action, workersFlag } from '../run-command.js';
 import { ConfigInput } from '../config-input.js';
 import { Progress, RunProgress } from '../progress.js';
 import type { InvertRunResult } from '../../inverse/invert-run.js';
@@ -159,7 +160,8 @@ export function registerInvert(program: Command): void {
     );
 }
 
-async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<void> {
+async function invertCommand(profilePath: string, configPath: string | undefined, flags: InvertFlags, config: InvertConfig, sources: Record<string, string>, workers: number, out: OutputDirectory | undefined): Promise<number | void> {
+  let stopCode: number | void = undefined;
   const progress = new Progress('invert', flags.quiet);
   const { invertPhases, readProfile } = await import('../../inverse/invert-task.js');
   // A file that cannot be read or parsed is refused here, before a worker thread starts for it.
@@ -175,13 +177,29 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   if (flags.out && files) {
     const written = out!.write(files);
     if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
-    if (flags.report) {
-      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
-      const written = reportRunDirectory(flags.out, join(flags.out, 'report'));
-      if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
-    }
+    if (flags.report) stopCode = await reportAfterInvert(flags.out, flags.quiet);
   }
   process.stdout.write(flags.json ? inversionResultText(result, 2) : summaryText(result));
+  return stopCode;
+}
+
+/**
+ * The report after the results are written, drawn on this thread in one stretch: a signal
+ * during it stops the run before the report's first file (short-run-stop.ts), exit 130/143;
+ * the results stay, complete, in an output marked incomplete (its report is missing).
+ */
+async function reportAfterInvert(outDir: string, quiet: boolean | undefined): Promise<number | void> {
+  const { reportRunDirectoryWithStop } = await import('../../reports/report-run-directory.js');
+  const { withStopPoint } = await import('../short-run-stop.js');
+  const texts = {
+    stopping: `stopping before the report is written; the results in ${outDir} are complete`,
+    stopped: `invert stopped by a signal before its report was written; the results in ${outDir} are complete (the output is marked incomplete; write the report with: mesofield report ${outDir})`,
+  };
+  if (!quiet) process.stderr.write('invert: drawing the report; Ctrl-C stops it before the report is written (the results are kept)\n');
+  return withStopPoint('invert', texts, async (stop) => {
+    const written = await reportRunDirectoryWithStop(outDir, join(outDir, 'report'), stop.beforeWriting);
+    if (!quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
+  });
 }
 
 /** The `invert` run on a worker thread (inverse/invert-worker.ts): SIGINT/SIGTERM end it in any phase at once, nothing written, 130/143. */

@@ -2,6 +2,8 @@
 import type { Command } from 'commander';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput } from '../run-output.js';
+import { nothingWritten, withStopPoint } from '../short-run-stop.js';
+import type { StopPoint } from '../short-run-stop.js';
 import { InputError } from '../../io/errors.js';
 import { formatNumber } from '../../io/number-format.js';
 import { PREDICTION_VERSION, predictionSchema } from '../../io/formats/surrogate.js';
@@ -61,17 +63,19 @@ export function registerPredict(program: Command): void {
         checkPointCount(points);
         const backend = backendFlag(flags.backend);
         const out = claimOut(flags, 'predict');
-        return withOutput(out, () => predictCommand(dir, flags, points, backend, out, say));
+        // The query runs on this thread in one stretch: a signal stops the run before it writes (short-run-stop.ts).
+        return withStopPoint('predict', nothingWritten('predict', flags.out), (stop) => withOutput(out, () => predictCommand(dir, flags, points, backend, out, say, stop)));
       }),
     );
 }
 
-async function predictCommand(dir: string, flags: PredictFlags, points: number | undefined, backend: ReturnType<typeof backendFlag>, out: OutputDirectory | undefined, say: (m: string) => void): Promise<void> {
+async function predictCommand(dir: string, flags: PredictFlags, points: number | undefined, backend: ReturnType<typeof backendFlag>, out: OutputDirectory | undefined, say: (m: string) => void, stop: StopPoint): Promise<void> {
   const kind = checkpointKind(dir);
   if (kind !== undefined && kind !== 'surrogate-checkpoint') {
     throw new InputError(`${dir}: checkpoint kind ${JSON.stringify(kind)}; predict needs a surrogate checkpoint (kind "surrogate-checkpoint", from mesofield train on a config of kind "surrogate"); for a single-point network use mesofield evaluate`);
   }
   const t0 = performance.now();
+  say(`loading the surrogate in ${dir} (tfjs start-up and weights); Ctrl-C stops it before anything is written`);
   const { selectBackend } = await import('../../autodiff/backend.js');
   const { loadSurrogate } = await import('../../surrogate/surrogate-checkpoint.js');
   const handle = await selectBackend(backend);
@@ -109,6 +113,7 @@ async function predictCommand(dir: string, flags: PredictFlags, points: number |
         `F = ${fmt(p.freeEnergy, 10)} kT/chain (disordered ${fmt(p.freeEnergyDisordered)}), Q = ${fmt(p.Q, 10)} (from q†: ${fmt(p.QDagger, 10)}); SCFT residual of the surrogate's fields ${p.residual.toExponential(2)} kT`,
         ...(errors ? [`held-out check at training: φA relative L2 ≤ ${formatNumber(errors.phiARelativeL2.max, 3)}, |F error| ≤ ${formatNumber(errors.freeEnergyError.max, 3)} kT/chain`] : []),
       ];
+      await stop.beforeWriting();
       if (out) say(`wrote ${out.write({ 'prediction.json': `${JSON.stringify(result, null, 2)}\n`, 'profile.csv': profileCsv(p) }).join(', ')}`);
       if (flags.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
       else if (flags.out) process.stdout.write(`${summary.join('\n')}\n`);

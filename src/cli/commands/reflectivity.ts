@@ -12,6 +12,7 @@ import { action, numberFlag, requiredFlag } from '../run-command.js';
 import { claimOut, withOutput } from '../run-output.js';
 import type { FilmReflectivitySettings } from '../../inverse/film/film-reflectivity.js';
 import type { ReflectivityCurve } from '../../inverse/film/film-reflectivity-worker.js';
+import type { FilmSolveStep } from '../../spectral/film-solve.js';
 import type { FilmFitFlags } from './film-fit-command.js';
 import { numberList, sldFlag } from './film-flags.js';
 
@@ -104,10 +105,22 @@ async function curveOnWorker(settings: FilmReflectivitySettings, flags: Reflecti
   const { installStopHandlers, stopAbortSignal, RunStopped } = await import('../../runtime/stop.js');
   const kept = flags.out ? ` (${flags.out} is left as it was)` : '';
   const uninstall = installStopHandlers('reflectivity', `stopping the film solve; nothing will be written${kept}`);
-  // The film solve reports no steps: one line says what runs (it takes seconds to minutes).
+  // One line says what runs (seconds to minutes), then the film solve's progress: start, iteration, residual, rate, time left.
   if (!flags.quiet) process.stderr.write(`reflectivity: solving the film (χN = ${settings.chiN}, ${settings.nx} × ${settings.ns}), then R(Q) at ${settings.q.length} points; Ctrl-C stops it\n`);
+  const { Progress } = await import('../progress.js');
+  const { FilmSolveProgress } = await import('../film-solve-progress.js');
+  const progress = new Progress('reflectivity', flags.quiet);
+  const film = new FilmSolveProgress();
   try {
-    const [r] = await runInWorkers<FilmReflectivitySettings, ReflectivityCurve>([settings], { entry: 'inverse/film/film-reflectivity-worker.js', workerData: null, workers: 1, toError: errorFromWorker, signal: stopAbortSignal() });
+    const [r] = await runInWorkers<FilmReflectivitySettings, ReflectivityCurve, FilmSolveStep>([settings], {
+      entry: 'inverse/film/film-reflectivity-worker.js',
+      workerData: null,
+      workers: 1,
+      // The line is built at each step (its rate needs every report); Progress throttles what is printed.
+      onProgress: (step) => progress.update(film.line(step)),
+      toError: errorFromWorker,
+      signal: stopAbortSignal(),
+    });
     return r;
   } catch (e) {
     if (e instanceof PoolStopped) throw new RunStopped(`reflectivity stopped by a signal during the film solve; nothing was written${flags.out ? ` (${flags.out} was left as it was)` : ''}`);

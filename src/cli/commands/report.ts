@@ -5,6 +5,7 @@ import { InputError } from '../../io/errors.js';
 import { writeRunReport } from '../../reports/report-run-directory.js';
 import type { ReportFormat } from '../../reports/write-report.js';
 import { action, numberFlag } from '../run-command.js';
+import { nothingWritten, withStopPoint } from '../short-run-stop.js';
 
 interface ReportFlags {
   out?: string;
@@ -43,11 +44,16 @@ export function registerReport(program: Command): void {
         if (!Number.isInteger(dpi) || dpi < DPI_RANGE[0] || dpi > DPI_RANGE[1]) throw new InputError(`--dpi: got ${flags.dpi}; allowed: a whole number from ${DPI_RANGE[0]} to ${DPI_RANGE[1]}`);
         const rgNm = numberFlag('--rg-nm', flags.rgNm);
         if (rgNm !== undefined && !(rgNm > 0)) throw new InputError(`--rg-nm: got ${flags.rgNm}; allowed: Rg in nm, a number > 0`);
-        const r = writeRunReport(runDir, flags.out ?? join(runDir, 'report'), { formats, dpi, rgNm, overwrite: flags.overwrite, insideRun: flags.out === undefined, flag: flags.out === undefined ? 'the report folder' : '--out' });
-        if (!flags.quiet) {
-          for (const n of r.notes) process.stderr.write(`report: note: ${n}\n`);
-          process.stderr.write(`report: read ${r.read.join(', ')}\nreport: wrote ${r.written.join(', ')}\n`);
-        }
+        const outDir = flags.out ?? join(runDir, 'report');
+        // The drawing runs on this thread in one stretch: a signal stops the run before it writes (short-run-stop.ts).
+        return withStopPoint('report', nothingWritten('report', outDir), async (stop) => {
+          if (!flags.quiet) process.stderr.write(`report: drawing the report of ${runDir} (${formats.join(', ')}); Ctrl-C stops it before anything is written\n`);
+          const r = await writeRunReport(runDir, outDir, { formats, dpi, rgNm, overwrite: flags.overwrite, insideRun: flags.out === undefined, flag: flags.out === undefined ? 'the report folder' : '--out', beforeWriting: stop.beforeWriting });
+          if (!flags.quiet) {
+            for (const n of r.notes) process.stderr.write(`report: note: ${n}\n`);
+            process.stderr.write(`report: read ${r.read.join(', ')}\nreport: wrote ${r.written.join(', ')}\n`);
+          }
+        });
       }),
     );
 }

@@ -3,29 +3,13 @@
  * schema the tool itself validates with, so the reference cannot drift from the code.
  * Start-up: the build wrote each kind's text (io/schemas/config-json-schema.ts), so a kind is
  * printed from its file without zod; without the file only the asked kind's schema is built.
- * --markdown builds them all.
+ * --markdown builds them all. `schema KIND` alone is answered before commander loads (quick-answer.ts).
  */
-import { readFileSync, statSync } from 'node:fs';
 import type { Command } from 'commander';
 import { InputError } from '../../io/errors.js';
-import { BUILT_SCHEMA_FOLDER, CONFIG_KIND_NAMES, CONFIG_SCHEMA_LOADERS, loadConfigSchemas } from '../../io/schemas/config-schema-loaders.js';
+import { builtSchemaText } from '../../io/schemas/built-schema-text.js';
+import { CONFIG_KIND_NAMES, CONFIG_SCHEMA_LOADERS, loadConfigSchemas } from '../../io/schemas/config-schema-loaders.js';
 import { action } from '../run-command.js';
-
-/**
- * The build's text of a kind's JSON Schema (dist/config-schemas/KIND.json), or null without it.
- * A file older than the compiled schema list is stale (a plain tsc ran after the build, and tsc
- * rewrites every file it emits): then the schema is generated instead.
- */
-export function builtSchemaText(kind: string, dist = new URL('../../', import.meta.url)): string | null {
-  try {
-    const file = new URL(`${BUILT_SCHEMA_FOLDER}/${kind}.json`, dist);
-    const compiled = new URL('io/schemas/config-schema-loaders.js', dist);
-    if (statSync(file).mtimeMs < statSync(compiled).mtimeMs) return null;
-    return readFileSync(file, 'utf8');
-  } catch {
-    return null;
-  }
-}
 
 export function registerSchema(program: Command): void {
   const kinds = CONFIG_KIND_NAMES.join(', ');

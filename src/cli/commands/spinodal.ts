@@ -1,10 +1,13 @@
-/** `mesofield spinodal`: Leibler's RPA spinodal of a linear A/B block chain. */
+/**
+ * `mesofield spinodal`: Leibler's RPA spinodal of a linear A/B block chain. Its common
+ * well-formed calls are answered before commander and zod load (quick-answer.ts); everything
+ * else, every error included, comes here.
+ */
 import type { Command } from 'commander';
 import { parseOrThrow } from '../../io/errors.js';
 import { chainSchema } from '../../physics/chain-schema.js';
-import { buildChain } from '../../physics/chain.js';
-import { spinodal } from '../../physics/rpa.js';
 import { action, numberFlag } from '../run-command.js';
+import { spinodalAnswer } from '../spinodal-answer.js';
 
 export function registerSpinodal(program: Command): void {
   program
@@ -24,12 +27,7 @@ export function registerSpinodal(program: Command): void {
           segmentRatio: numberFlag('--segment-ratio', flags.segmentRatio),
         };
         if (flags.chain === 'triblock') raw.firstBlockShare = numberFlag('--first-block-share', flags.firstBlockShare);
-        const spec = parseOrThrow(chainSchema, raw, 'flags');
-        const chain = buildChain(spec);
-        const sp = spinodal(chain);
-        const out = { chain: chain.label, f: chain.speciesFraction.A, chiNSpinodal: sp.chiN, qStarRg: sp.qRg, period: sp.period };
-        if (flags.json) process.stdout.write(`${JSON.stringify(out, null, 2)}\n`);
-        else process.stdout.write(`chain ${out.chain}: (χN)_s = ${sp.chiN.toFixed(6)}, q*·Rg = ${sp.qRg.toFixed(6)}, period 2π/q* = ${sp.period.toFixed(6)} Rg\n`);
+        process.stdout.write(spinodalAnswer(parseOrThrow(chainSchema, raw, 'flags'), flags.json === true));
       }),
     );
 }

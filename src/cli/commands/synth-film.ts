@@ -13,6 +13,7 @@ import type { FilmSynthSettings } from '../../inverse/film/film-synth.js';
 import { numberFlag, requiredFlag } from '../run-command.js';
 import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
 import { claimOut, withOutput } from '../run-output.js';
+import { nothingWritten, withStopPoint } from '../short-run-stop.js';
 import { numberList, sldFlag } from './film-flags.js';
 
 export interface SynthFilmFlags {
@@ -38,7 +39,7 @@ export interface SynthFilmFlags {
   quiet?: boolean;
 }
 
-export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
+export async function synthFilmCommand(flags: SynthFilmFlags): Promise<number | void> {
   const kinds = ['phi', 'sld', 'reflectivity'] as const;
   const kind = kinds.find((k) => k === flags.measure);
   if (!kind) throw new InputError(`--measure: got ${JSON.stringify(flags.measure)}; allowed: phi, sld, reflectivity`);
@@ -85,19 +86,24 @@ export async function synthFilmCommand(flags: SynthFilmFlags): Promise<void> {
     ns,
   };
   const out = claimOut(flags, 'synth');
-  await withOutput(out, () => {
-    let files;
-    try {
-      const d = synthesizeFilm(settings);
-      files = filmSynthFiles(settings, d, rgNm);
-    } catch (e) {
-      throw asInputError(e, 'flags');
-    }
-    if (!out) {
-      process.stdout.write(files.csv);
-      return;
-    }
-    const written = out.write({ [SYNTH_PROFILE]: files.csv, [SYNTH_TRUTH]: formatText(filmSynthTruthSchema, { ...files.truth, provenance: provenance() }) });
-    if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (film ${+(thickness * scale).toPrecision(6)} ${unit}${rgNm ? ` = ${+thickness.toPrecision(6)} Rg` : ''}, χN = ${chiN}, layers ${files.truth.layers})\n`);
-  });
+  // The film solve runs on this thread in one stretch: a signal stops the run before it writes (short-run-stop.ts).
+  return withStopPoint('synth', nothingWritten('synth', flags.out), (stop) =>
+    withOutput(out, async () => {
+      if (!flags.quiet) process.stderr.write(`synth: solving the film (χN = ${chiN}, ${nx} × ${ns}); Ctrl-C stops it before anything is written\n`);
+      let files;
+      try {
+        const d = synthesizeFilm(settings);
+        files = filmSynthFiles(settings, d, rgNm);
+      } catch (e) {
+        throw asInputError(e, 'flags');
+      }
+      await stop.beforeWriting();
+      if (!out) {
+        process.stdout.write(files.csv);
+        return;
+      }
+      const written = out.write({ [SYNTH_PROFILE]: files.csv, [SYNTH_TRUTH]: formatText(filmSynthTruthSchema, { ...files.truth, provenance: provenance() }) });
+      if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (film ${+(thickness * scale).toPrecision(6)} ${unit}${rgNm ? ` = ${+thickness.toPrecision(6)} Rg` : ''}, χN = ${chiN}, layers ${files.truth.layers})\n`);
+    }),
+  );
 }

@@ -5,6 +5,7 @@ import type { SynthTruth } from '../../io/formats/synth-truth.js';
 import type { Command } from 'commander';
 import { SYNTH_PROFILE, SYNTH_TRUTH } from '../../io/synth-output.js';
 import { claimOut, withOutput } from '../run-output.js';
+import { nothingWritten, withStopPoint } from '../short-run-stop.js';
 import { asInputError } from '../../io/errors.js';
 import { provenance } from '../../io/versions.js';
 import { synthCsv, synthesize } from '../../inverse/synth.js';
@@ -63,43 +64,48 @@ export function registerSynth(program: Command): void {
         const rgNm = flags.rgNm === undefined ? undefined : requiredFlag('--rg-nm', numberFlag('--rg-nm', flags.rgNm), (v) => v > 0, 'Rg in nm, a number > 0');
         const chain = { type: 'diblock' as const, f, segmentRatio: 1 };
         const out = claimOut(flags, 'synth');
-        await withOutput(out, () => {
-          let profile;
-          try {
-            profile = synthesize({ chain, chiN, points, noise, seed, periods, offset, period, resolution, nx, ns });
-          } catch (e) {
-            throw asInputError(e, 'flags');
-          }
-          const csv = synthCsv(profile, noise, rgNm ?? 1);
-          if (!out) {
-            process.stdout.write(csv);
-            return;
-          }
-          const truth: SynthTruth = {
-            kind: 'synth-truth',
-            version: SYNTH_TRUTH_VERSION,
-            provenance: provenance(),
-            chain,
-            f,
-            chiN,
-            period: profile.period,
-            periodMode: period === 'equilibrium' ? 'equilibrium' : 'given',
-            offset,
-            points,
-            periods,
-            noise,
-            seed,
-            resolution,
-            nx,
-            ns,
-            xUnits: rgNm ? 'nm' : 'Rg',
-            ...(rgNm ? { rgNm } : {}),
-            freeEnergy: profile.point.solution.freeEnergy,
-            note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
-          };
-          const written = out.write({ [SYNTH_PROFILE]: csv, [SYNTH_TRUTH]: formatText(synthTruthSchema, truth) });
-          if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
-        });
+        // The solve runs on this thread in one stretch: a signal stops the run before it writes (short-run-stop.ts).
+        return withStopPoint('synth', nothingWritten('synth', flags.out), (stop) =>
+          withOutput(out, async () => {
+            if (!flags.quiet) process.stderr.write(`synth: solving the lamella (f = ${f}, χN = ${chiN}, ${nx} × ${ns}${period === 'equilibrium' ? ', stress-free period' : ''}); Ctrl-C stops it before anything is written\n`);
+            let profile;
+            try {
+              profile = synthesize({ chain, chiN, points, noise, seed, periods, offset, period, resolution, nx, ns });
+            } catch (e) {
+              throw asInputError(e, 'flags');
+            }
+            const csv = synthCsv(profile, noise, rgNm ?? 1);
+            await stop.beforeWriting();
+            if (!out) {
+              process.stdout.write(csv);
+              return;
+            }
+            const truth: SynthTruth = {
+              kind: 'synth-truth',
+              version: SYNTH_TRUTH_VERSION,
+              provenance: provenance(),
+              chain,
+              f,
+              chiN,
+              period: profile.period,
+              periodMode: period === 'equilibrium' ? 'equilibrium' : 'given',
+              offset,
+              points,
+              periods,
+              noise,
+              seed,
+              resolution,
+              nx,
+              ns,
+              xUnits: rgNm ? 'nm' : 'Rg',
+              ...(rgNm ? { rgNm } : {}),
+              freeEnergy: profile.point.solution.freeEnergy,
+              note: 'lengths (period, offset, resolution) in Rg; offset is the data position of the centre of an A-rich domain',
+            };
+            const written = out.write({ [SYNTH_PROFILE]: csv, [SYNTH_TRUTH]: formatText(synthTruthSchema, truth) });
+            if (!flags.quiet) process.stderr.write(`synth: wrote ${written.join(' and ')} (χN = ${chiN}, period ${profile.period.toPrecision(7)} Rg)\n`);
+          }),
+        );
       }),
     );
 }

@@ -25,7 +25,7 @@ function summaryLines(m: SurrogateMetrics, outDir: string | undefined): string[]
   const e = m.errors;
   const t = m.timing;
   return [
-    `trained surrogate over ${rangeText(m)} on ${m.backend} (tfjs ${m.tfjs}): ${m.training.fit.points} reference solutions fitted (${t.extraSolves.count} extra), ${m.training.rounds} physics rounds`,
+    `trained surrogate over ${rangeText(m)} on ${m.backend} (tfjs ${m.tfjs}): ${m.training.fit.points} reference solutions fitted (${t.extraSolves.count} extra)${m.training.fit.method === 'levenberg-marquardt' ? ` by Levenberg–Marquardt (${m.training.fit.lmIterations} iterations, fit loss ${sci(m.training.fit.finalLoss)})` : ''}, ${m.training.rounds} physics rounds`,
     `held-out (${e.points} points): φA relative L2 max ${sci(e.phiARelativeL2.max)} (mean ${sci(e.phiARelativeL2.mean)}), |F error| max ${sci(e.freeEnergyError.max)} kT/chain, period error max ${sci(e.periodRelativeError.max)}`,
     `baseline, the anchors' reference profiles interpolated (no network): φA relative L2 max ${sci(e.anchorInterpolationPhiA.max)} (mean ${sci(e.anchorInterpolationPhiA.mean)})`,
     `query ${(1000 * t.querySeconds).toFixed(2)} ms after start-up against ${(1000 * t.referenceSolveSeconds).toFixed(0)} ms for one reference solve at the equilibrium period (×${t.speedup.toFixed(0)}); building took ${t.buildSeconds.toFixed(1)} s = ${t.equivalentReferenceSolves.toFixed(1)} reference solves`,
@@ -67,6 +67,9 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
     onSolve: (done, total, role, seconds) => {
       run.size('reference solves', total);
       run.at('reference solves', done, `${role}, ${seconds.toFixed(2)} s`, done === total);
+    },
+    onFitStep: (step, loss) => {
+      if (config.warmStart.method === 'levenberg-marquardt' || step % 100 === 0) progress.update(`fit to the reference solutions: step ${step} | fit loss ${sci(loss)}`);
     },
     onRound: (h) => {
       if (h.round === 0) {

@@ -16,6 +16,7 @@ import type { ChainSpec } from '../../physics/chain-schema.js';
 import { FilmCell } from '../../physics/cell/film-cell.js';
 import type { ScftSolution } from '../../physics/result.js';
 import { solveFilm } from '../../spectral/film-solve.js';
+import type { FilmSolveStep } from '../../spectral/film-solve.js';
 import type { FilmLayers } from '../../spectral/film-solve.js';
 import { countLayers } from '../../spectral/film-solve.js';
 import { solveFixedCell } from '../../spectral/scft-solver.js';
@@ -68,11 +69,11 @@ export class FilmModel {
     return { chain: this.spec.chain, chiN: s.chiN };
   }
 
-  /** The state solved from scratch (the full film solve). */
-  confirm(s: FilmState): FilmPoint {
+  /** The state solved from scratch (the full film solve); `onStep` follows its starts and iterations (progress). */
+  confirm(s: FilmState, onStep?: (step: FilmSolveStep) => void): FilmPoint {
     const t0 = performance.now();
     const cell = this.cellOf(s);
-    const r = solveFilm({ system: this.system(s), cell, contour: this.spec.ns, options: this.spec.solver });
+    const r = solveFilm({ system: this.system(s), cell, contour: this.spec.ns, options: this.spec.solver, onStep });
     this.counters.fullSolves++;
     this.counters.iterations += r.solution.iterations;
     this.counters.seconds += (performance.now() - t0) / 1000;

@@ -8,6 +8,7 @@ import { asInputError } from '../../io/errors.js';
 import { serveTasks } from '../../threads/task-worker.js';
 import { filmReflectivity } from './film-reflectivity.js';
 import type { FilmReflectivitySettings } from './film-reflectivity.js';
+import type { FilmSolveStep } from '../../spectral/film-solve.js';
 
 /** What `reflectivity` writes, as plain data (a film point's cell and solution stay here). */
 export interface ReflectivityCurve {
@@ -22,10 +23,23 @@ export interface ReflectivityCurve {
   seconds: number;
 }
 
-serveTasks<FilmReflectivitySettings, ReflectivityCurve>((s) => {
+/** At most this often a progress step crosses to the main thread (a film iteration takes milliseconds). */
+const POST_EVERY_MS = 250;
+
+serveTasks<FilmReflectivitySettings, ReflectivityCurve, FilmSolveStep>((s, progress) => {
+  let last = 0;
+  let lastStart = 0;
+  const onStep = (step: FilmSolveStep) => {
+    const now = performance.now();
+    // A new start always crosses (its first line), the iterations within one at most every POST_EVERY_MS.
+    if (step.start === lastStart && now - last < POST_EVERY_MS) return;
+    last = now;
+    lastStart = step.start;
+    progress(step);
+  };
   let r;
   try {
-    r = filmReflectivity(s);
+    r = filmReflectivity(s, onStep);
   } catch (e) {
     // A model error is bad input given as flags (exit 2), as it was on the main thread.
     throw asInputError(e, 'flags');

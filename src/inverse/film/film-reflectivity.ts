@@ -6,6 +6,7 @@
  */
 import type { SpectralOptions } from '../../io/schemas/spectral-schema.js';
 import type { ChainSpec } from '../../physics/chain-schema.js';
+import type { FilmSolveStep } from '../../spectral/film-solve.js';
 import { FilmModel } from './film-model.js';
 import type { FilmPoint } from './film-model.js';
 import { filmStack, filmSteps, predictReflectivity } from './film-measurement.js';
@@ -42,10 +43,10 @@ export interface FilmReflectivity {
   seconds: number;
 }
 
-export function filmReflectivity(s: FilmReflectivitySettings): FilmReflectivity {
+export function filmReflectivity(s: FilmReflectivitySettings, onStep?: (step: FilmSolveStep) => void): FilmReflectivity {
   const t0 = performance.now();
   const model = new FilmModel({ chain: s.chain, nx: s.nx, ns: s.ns, wallRange: s.wallRange, solver: s.solver });
-  const point = model.confirm({ chiN: s.chiN, bottom: s.bottom, top: s.top, thickness: s.thickness });
+  const point = model.confirm({ chiN: s.chiN, bottom: s.bottom, top: s.top, thickness: s.thickness }, onStep);
   const inst = { slds: s.slds, rgNm: s.rgNm, dQoverQ: s.dQoverQ, background: s.background };
   const R = predictReflectivity(point.cell, point.solution, s.width, s.q, inst);
   const Hnm = s.thickness * s.rgNm;

@@ -80,7 +80,19 @@ export const surrogateMetricsSchema = z
       .strict(),
     training: z
       .object({
-        fit: z.object({ adamSteps: z.number().int(), lbfgsIterations: z.number().int(), points: z.number().int(), finalLoss: z.number(), seconds: z.number() }).strict(),
+        fit: z
+          .object({
+            /** The fit's optimiser (absent in files written before it was selectable: 'adam-lbfgs'). */
+            method: z.enum(['adam-lbfgs', 'levenberg-marquardt']).optional(),
+            adamSteps: z.number().int(),
+            lbfgsIterations: z.number().int(),
+            /** Levenberg–Marquardt iterations run (method 'levenberg-marquardt'). */
+            lmIterations: z.number().int().optional(),
+            points: z.number().int(),
+            finalLoss: z.number(),
+            seconds: z.number(),
+          })
+          .strict(),
         rounds: z.number().int(),
         lastResidual: z.number().nullable(),
       })

@@ -1,6 +1,6 @@
 /**
  * Config file kind "surrogate": one field network for a range of parameters (χN, and
- * optionally b_A/b_B; f is fixed), fitted to reference solutions at anchor points and trained on
+ * optionally f and b_A/b_B), fitted to reference solutions at anchor points and trained on
  * the SCFT self-consistency everywhere in the range, then checked at held-out points
  * (src/surrogate/).
  *
@@ -57,6 +57,15 @@ export const surrogateConfigSchema = z
       .prefault({}),
     warmStart: z
       .object({
+        /**
+         * How the field network is fitted to target fields (here and in every physics round):
+         * 'adam-lbfgs' (Adam steps, then L-BFGS iterations, float32 gradients), or
+         * 'levenberg-marquardt' (damped Gauss–Newton in float64 on the misfit of every value,
+         * `lmIterations` here and training.fitIterations per round; docs/surrogate.md).
+         */
+        method: z.enum(['adam-lbfgs', 'levenberg-marquardt']).default('adam-lbfgs'),
+        /** Levenberg–Marquardt iterations of the fit to the reference fields (method 'levenberg-marquardt'). */
+        lmIterations: z.number().int().min(0).max(100000).default(200),
         /** Adam steps, then L-BFGS iterations, fitting the field network to the reference fields (anchors and extra solves). */
         adamSteps: z.number().int().min(0).max(100000).default(200),
         learningRate: z.number().gt(0).lt(1).default(5e-3),
@@ -75,7 +84,8 @@ export const surrogateConfigSchema = z
          * Physics rounds: at the anchors and `pointsPerRound` parameter points drawn afresh each
          * round, the single-chain solve in the network's fields gives φ, the SCFT update
          * w + mixing·d of physics/scft-equations.ts gives the new fields, and the field network
-         * is refitted to them (fitIterations of L-BFGS).
+         * is refitted to them (fitIterations of L-BFGS, or of Levenberg–Marquardt with
+         * warmStart.method 'levenberg-marquardt').
          */
         rounds: z.number().int().min(0).max(100000).default(10),
         pointsPerRound: z.number().int().min(0).max(1000).default(16),
