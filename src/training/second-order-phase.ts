@@ -67,6 +67,13 @@ export interface SecondOrderSettings {
   andersonHistory: number;
   /** Lamellar periods in the cell (the harmonic whose phase the field step pins). */
   periods: number;
+  /**
+   * Contour steps per block of the φ that the field steps read (absent: nodesPerBlock). The
+   * networks are evaluated there (values only), so φ's quadrature error need not be that of
+   * the collocation nodes: Simpson's rule on 16 steps per block alone costs 4–6e-5 in φ_A
+   * (`npm run bench -- --discretisation-floor`), a floor under the fields the steps reach.
+   */
+  stateNodesPerBlock?: number;
 }
 
 export interface SecondOrderProgress {
@@ -204,12 +211,13 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
   // A film has no translation mode (its walls fix the layers): nothing to pin there.
   const pinPhase = nets.field && twoSpecies && nets.cell.translation ? lamellarPhase(sys.state(theta).w, settings.periods).phase : null;
   const gridCell = nets.cell.withPoints(sys.nx);
+  const stateSys = settings.stateNodesPerBlock && settings.stateNodesPerBlock !== settings.nodesPerBlock ? new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.stateNodesPerBlock }, weights) : sys;
   const mixer = new AndersonMixer(settings.fieldStep === 'anderson' ? settings.andersonHistory : 0, settings.fieldMixing);
   const onChain = nets.chain.species;
   let cycle = 0;
   const fieldSteps: FieldStepReport[] = [];
   const fieldStep = () => {
-    const { phi, w } = sys.state(theta);
+    const { phi, w } = stateSys.state(theta);
     const { deviation, residual } = fieldDeviation(nets.chain, system.chiN, w, phi, gridCell);
     // x = (w_K) and d = (d_K) over the species on the chain, concatenated on the grid.
     const nx = sys.nx;

@@ -190,6 +190,17 @@ export const trainConfigSchema = z
              * the other cycles share what is left.
              */
             firstCycleIterations: z.number().int().min(0).max(100000).default(0),
+            /**
+             * Alternating: contour steps per block of the φ the field steps read (the networks
+             * evaluated there, values only; default nodesPerBlock). Even.
+             */
+            stateNodesPerBlock: z
+              .number()
+              .int()
+              .min(4)
+              .max(256)
+              .refine((n) => n % 2 === 0, { message: "must be even (Simpson's rule for φ)" })
+              .optional(),
             /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
             jointIterations: z.number().int().min(0).max(100000).default(0),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */

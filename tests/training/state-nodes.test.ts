@@ -1,0 +1,45 @@
+/**
+ * secondOrder.stateNodesPerBlock (training/second-order-phase.ts): the φ that the field steps of
+ * the alternating strategy read is taken on that many contour steps per block. Wiring only (no
+ * physics claim; the effect on accuracy is measured in docs/second-order-training.md): the
+ * collocation's own count gives the run without the setting to the last digit, and a finer
+ * count changes the SCFT deviation the first field step sees. Common practice, no source.
+ */
+import { describe, expect, it } from 'vitest';
+import { selectBackend } from '../../src/autodiff/backend.js';
+import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
+import { buildChain } from '../../src/physics/chain.js';
+import { buildScftNetworks } from '../../src/network/scft-networks.js';
+import { runSecondOrder } from '../../src/training/second-order-phase.js';
+
+async function firstDeviation(stateNodesPerBlock: number | undefined) {
+  const config = trainConfigSchema.parse({
+    version: 2,
+    kind: 'train',
+    system: { chain: { type: 'diblock', f: 0.5 }, chiN: 12 },
+    cell: { period: 4, nx: 32, ns: 40 },
+    networks: { field: { hidden: [], fourierModes: 4 }, propagator: { hidden: [6, 6] } },
+  });
+  const { tf } = await selectBackend('wasm');
+  const nets = buildScftNetworks(tf, config, buildChain(config.system.chain), 4, true);
+  const so = await runSecondOrder(
+    nets,
+    config.system,
+    config.losses.weights,
+    { iterations: 8, nx: 16, nodesPerBlock: 8, damping: 'marquardt', evaluateEvery: 0, lossTolerance: 0, strategy: 'alternating', cycles: 2, firstCycleIterations: 0, jointIterations: 0, fieldMixing: 0.5, fieldStep: 'simple', andersonHistory: 1, periods: 1, ...(stateNodesPerBlock !== undefined ? { stateNodesPerBlock } : {}) },
+    {},
+  );
+  nets.dispose();
+  expect(so.fieldSteps.length).toBe(1);
+  return so.fieldSteps[0].residual;
+}
+
+describe('the contour steps of the field steps’ φ', () => {
+  it('the collocation count equals no setting; a finer count changes the first field step’s deviation', async () => {
+    const none = await firstDeviation(undefined);
+    expect(await firstDeviation(8)).toBe(none);
+    const finer = await firstDeviation(32);
+    expect(Number.isFinite(finer)).toBe(true);
+    expect(Math.abs(finer - none)).toBeGreaterThan(1e-9 * Math.abs(none));
+  }, 60_000);
+});
