@@ -3,11 +3,12 @@
  * Types are inferred from it; the resolved model lives in chain.ts.
  */
 import { z } from 'zod';
+import { FIRST_BLOCK_SHARE_BOUND, FIRST_BLOCK_SHARE_DEFAULT, FRACTION_BOUND, SEGMENT_RATIO_BOUND, SEGMENT_RATIO_DEFAULT } from './chain-bounds.js';
 
 export const speciesSchema = z.enum(['A', 'B']);
 
-const fraction = z.number().gt(0, 'must be > 0').lt(1, 'must be < 1');
-const segmentLength = z.number().gt(0).lte(10).default(1);
+const fraction = z.number().gt(FRACTION_BOUND.above, `must be > ${FRACTION_BOUND.above}`).lt(FRACTION_BOUND.below, `must be < ${FRACTION_BOUND.below}`);
+const segmentLength = z.number().gt(SEGMENT_RATIO_BOUND.above).lte(SEGMENT_RATIO_BOUND.atMost).default(SEGMENT_RATIO_DEFAULT);
 
 export const blockSchema = z
   .object({
@@ -21,7 +22,7 @@ export const blockSchema = z
  * Conformational asymmetry b_A/b_B. Lengths are in Rg of a chain whose segments all have the
  * reference length b = b_B, so the blocks get segment lengths { A: r, B: 1 }.
  */
-const segmentRatioSchema = z.number().gt(0).lte(10).default(1);
+const segmentRatioSchema = z.number().gt(SEGMENT_RATIO_BOUND.above).lte(SEGMENT_RATIO_BOUND.atMost).default(SEGMENT_RATIO_DEFAULT);
 
 export const chainSchema = z.discriminatedUnion('type', [
   z
@@ -38,7 +39,7 @@ export const chainSchema = z.discriminatedUnion('type', [
       /** Total A fraction, split over the two end blocks. */
       f: fraction,
       /** Share of the A material in the first A block; 0.5 is the symmetric ABA. */
-      firstBlockShare: z.number().gt(0).lt(1).default(0.5),
+      firstBlockShare: z.number().gt(FIRST_BLOCK_SHARE_BOUND.above).lt(FIRST_BLOCK_SHARE_BOUND.below).default(FIRST_BLOCK_SHARE_DEFAULT),
       segmentRatio: segmentRatioSchema,
     })
     .strict(),

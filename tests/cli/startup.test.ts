@@ -50,7 +50,7 @@ describe('start-up loads only what the command needs', () => {
     expect(modules.filter((m) => /\/(spectral|reports|training|network|autodiff)\/|chart\.js|@tensorflow|canvas/.test(m))).toEqual([]);
     expect(modules.filter((m) => /(commander|zod)(\/|\.js$)/.test(m))).toEqual([]);
     expect(modules.filter((m) => /\/cli\/(commands\/|run-cli|run-command)/.test(m))).toEqual([]);
-    expect([...new Set(own(modules, 'physics'))].sort()).toEqual(['physics/chain.js', 'physics/rpa.js']);
+    expect([...new Set(own(modules, 'physics'))].sort()).toEqual(['physics/chain-bounds.js', 'physics/chain.js', 'physics/rpa.js']);
     // The list is of the process's built-ins: check it has some; the socket code of child_process is not among them.
     expect(builtins.some((b) => /^NativeModule fs$/.test(b))).toBe(true);
     expect(builtins.filter((b) => /^NativeModule (child_process|internal\/child_process|dgram)$/.test(b))).toEqual([]);

@@ -93,6 +93,25 @@ describe('signals: short commands, real processes', () => {
     expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
     counts['clear error or stop']++;
   }, 180_000);
+
+  it('train --report: SIGTERM while drawing the report keeps the checkpoint, writes no report, exit 143; the output is marked incomplete', async () => {
+    counts.tried++;
+    const dir = tmp();
+    // A single-chain problem trained for a few steps: the training is over in seconds, the report is what is stopped.
+    const config = join(dir, 'field.train.json');
+    writeFileSync(config, JSON.stringify({ version: 2, kind: 'train', system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2, mode: 1, offset: 0 } } }, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { adamSteps: 10 }, backend: 'wasm' }));
+    const out = join(dir, 'ck');
+    const { p, r } = await stopAt(['train', config, '--out', out, '--report'], /train: drawing the report/, 'SIGTERM');
+    expect(r.code, p.stderr()).toBe(143);
+    expect(p.stderr()).toMatch(/train: SIGTERM: stopping before the report is written; the checkpoint in .*ck is complete/);
+    expect(p.stderr()).toMatch(/train stopped by a signal before its report was written; the checkpoint in .*ck is complete .*mesofield report .*ck/);
+    expect(JSON.parse(readFileSync(join(out, 'checkpoint.json'), 'utf8')).config.training.adamSteps).toBe(10);
+    expect(existsSync(join(out, 'report'))).toBe(false);
+    const marker = JSON.parse(readFileSync(join(out, '.mesofield-output.json'), 'utf8')) as { command: string; complete: boolean };
+    expect(marker).toMatchObject({ command: 'train', complete: false });
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    counts['clear error or stop']++;
+  }, 180_000);
 });
 
 describe('signals: short commands stopped at their stop point (the stop asked as a signal asks it)', () => {

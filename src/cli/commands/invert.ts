@@ -1,6 +1,5 @@
 /** `mesofield invert`: recover χN (and the fields) from a measured composition profile; a thin layer over inverse/invert-run.ts. */
 import type { Command } from 'commander';
-import { join } from 'node:path';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput } from '../run-output.js';
 import { InputError } from '../../io/errors.js';
@@ -177,29 +176,10 @@ async function invertCommand(profilePath: string, configPath: string | undefined
   if (flags.out && files) {
     const written = out!.write(files);
     if (!flags.quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
-    if (flags.report) stopCode = await reportAfterInvert(flags.out, flags.quiet);
+    if (flags.report) stopCode = await (await import('../report-after-run.js')).reportAfterRun('invert', flags.out, 'the results', flags.quiet);
   }
   process.stdout.write(flags.json ? inversionResultText(result, 2) : summaryText(result));
   return stopCode;
-}
-
-/**
- * The report after the results are written, drawn on this thread in one stretch: a signal
- * during it stops the run before the report's first file (short-run-stop.ts), exit 130/143;
- * the results stay, complete, in an output marked incomplete (its report is missing).
- */
-async function reportAfterInvert(outDir: string, quiet: boolean | undefined): Promise<number | void> {
-  const { reportRunDirectoryWithStop } = await import('../../reports/report-run-directory.js');
-  const { withStopPoint } = await import('../short-run-stop.js');
-  const texts = {
-    stopping: `stopping before the report is written; the results in ${outDir} are complete`,
-    stopped: `invert stopped by a signal before its report was written; the results in ${outDir} are complete (the output is marked incomplete; write the report with: mesofield report ${outDir})`,
-  };
-  if (!quiet) process.stderr.write('invert: drawing the report; Ctrl-C stops it before the report is written (the results are kept)\n');
-  return withStopPoint('invert', texts, async (stop) => {
-    const written = await reportRunDirectoryWithStop(outDir, join(outDir, 'report'), stop.beforeWriting);
-    if (!quiet) process.stderr.write(`invert: wrote ${written.join(', ')}\n`);
-  });
 }
 
 /** The `invert` run on a worker thread (inverse/invert-worker.ts): SIGINT/SIGTERM end it in any phase at once, nothing written, 130/143. */

@@ -4,7 +4,7 @@ import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { InputError, RunFailure, asInputError, parseOrThrow } from '../../io/errors.js';
 import { formatNumber } from '../../io/number-format.js';
 import { readJsonObject } from '../../io/load-json.js';
-import { installStopHandlers, stopExitCode, stopRequested } from '../../runtime/stop.js';
+import { installStopHandlers, RunStopped, stopExitCode, stopRequested } from '../../runtime/stop.js';
 import { EXIT } from '../exit-codes.js';
 import { claimOut } from '../run-output.js';
 import { trainConfigSchema } from '../../io/schemas/train-config.js';
@@ -99,19 +99,19 @@ export function registerTrain(program: Command): void {
               ].join('\n') + '\n',
             );
           }
-          if (flags.report) {
-            const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
-            const written = reportRunDirectory(outDir, join(outDir, 'report'));
-            if (!flags.quiet) process.stderr.write(`train: wrote ${written.join(', ')}\n`);
-          }
+          // The run's own stop handler stays installed under the report's (they nest): a signal
+          // now stops the report, not the finished training.
+          const stopCode = flags.report ? await (await import('../report-after-run.js')).reportAfterRun('train', outDir, 'the checkpoint', flags.quiet) : undefined;
           out?.finish();
+          if (stopCode !== undefined) return stopCode;
           if (flags.json) for (const w of m.verdict.warnings) process.stderr.write(`train: warning: ${w}\n`);
           if (m.verdict.aboveTarget) throw new RunFailure(`the run ended above its target: ${m.verdict.warnings[0]} (checkpoint ${outDir} holds it)`);
           if (m.collapsed) throw new RunFailure('the network collapsed to the disordered state (φA is flat); start from the spectral solution (warmStart.type "reference")');
         } catch (e) {
           // A stopped run keeps what it wrote (the last good checkpoint) as its output; anything else only drops the lock.
           // One stopped before its first checkpoint (in the warm start) wrote nothing: the folder is left as it was.
-          if (e instanceof TrainingStopped && e.lastCheckpointStep !== null) out?.finish(false);
+          // A report stopped by a signal (RunStopped) leaves the finished checkpoint: marked incomplete, its report missing.
+          if ((e instanceof TrainingStopped && e.lastCheckpointStep !== null) || e instanceof RunStopped) out?.finish(false);
           else out?.abandon();
           if (e instanceof TrainingStopped) {
             process.stderr.write(`train: ${e.message}\n`);
