@@ -11,9 +11,11 @@
  * Levenberg–Marquardt iteration of the second-order phase; only when asked, see lm-profile.ts),
  * `--network-least-squares` (the least-squares network χN estimator end to end; only when
  * asked, see network-least-squares-bench.ts), `--discretisation-floor` (what the recipe's field
- * modes and contour nodes alone cost in φ_A; only when asked, see discretisation-floor.ts).
+ * modes and contour nodes alone cost in φ_A; only when asked, see discretisation-floor.ts),
+ * `--film-field-floor` (the same two floors for a film's linear field network; only when asked,
+ * see film-field-floor.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--network-least-squares', '--discretisation-floor'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--network-least-squares', '--discretisation-floor', '--film-field-floor'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -56,6 +58,11 @@ if (parts.includes('--network-least-squares')) {
 if (parts.includes('--discretisation-floor')) {
   const { runDiscretisationFloor } = await import('./discretisation-floor.js');
   runDiscretisationFloor();
+}
+// Opt-in only: the spectral solver alone on a film (seconds).
+if (parts.includes('--film-field-floor')) {
+  const { runFilmFieldFloor } = await import('./film-field-floor.js');
+  runFilmFieldFloor();
 }
 // Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
 if (parts.includes('--recipes')) {
