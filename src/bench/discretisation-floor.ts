@@ -19,6 +19,7 @@ import type { SpeciesArrays } from '../physics/fields.js';
 import { PropagatorSolver } from '../spectral/propagator-solver.js';
 import { solveFromConfig } from '../spectral/solve-from-config.js';
 import { RECIPE_SYSTEMS, recipeConfig } from './recipe-bench.js';
+import { relL2 } from '../physics/solution-metrics.js';
 
 /** u on the grid with its Fourier modes above M removed (n points, a discrete Fourier sum). */
 function truncated(u: Float64Array, M: number): Float64Array {
@@ -41,16 +42,6 @@ function truncated(u: Float64Array, M: number): Float64Array {
   return out;
 }
 
-function relativeL2(a: ArrayLike<number>, ref: ArrayLike<number>): number {
-  let num = 0;
-  let den = 0;
-  for (let j = 0; j < ref.length; j++) {
-    num += (a[j] - ref[j]) ** 2;
-    den += ref[j] ** 2;
-  }
-  return Math.sqrt(num / den);
-}
-
 export function runDiscretisationFloor(): void {
   const FINE = 16;
   console.log('\ndiscretisation floors of the second-order recipe: φA relative L2 against the spectral reference');
@@ -65,12 +56,12 @@ export function runDiscretisationFloor(): void {
       s.setFields(w);
       return s.solve();
     };
-    const field = [8, 12, 16, 20].map((M) => relativeL2(phiIn({ A: truncated(ref.w.A, M), B: truncated(ref.w.B, M) }, 64).phi.A, ref.phi.A));
+    const field = [8, 12, 16, 20].map((M) => relL2(phiIn({ A: truncated(ref.w.A, M), B: truncated(ref.w.B, M) }, 64).phi.A, ref.phi.A));
     const quadrature = [8, 16, 24, 32].map((K) => {
       const d = phiIn(ref.w, K * FINE);
       const coarse = contourFromSteps(chain, chain.blocks.map(() => K));
       const every = (q: Float64Array[]) => Array.from({ length: coarse.ns + 1 }, (_, i) => q[i * FINE]);
-      return relativeL2(densitiesFromPropagators(coarse, every(d.q), every(d.qDagger), d.Q).A, ref.phi.A);
+      return relL2(densitiesFromPropagators(coarse, every(d.q), every(d.qDagger), d.Q).A, ref.phi.A);
     });
     const f = (v: number[]) => v.map((x) => x.toExponential(1)).join(' / ');
     rows.push(`| ${b.name} | ${f(field)} | ${f(quadrature)} |`);

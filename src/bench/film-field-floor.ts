@@ -21,16 +21,7 @@ import type { NetworkFeatures } from '../physics/cell/cell.js';
 import { PropagatorSolver } from '../spectral/propagator-solver.js';
 import { solveInFields } from '../spectral/scft-solver.js';
 import { solveFromConfig } from '../spectral/solve-from-config.js';
-
-function relativeL2(a: ArrayLike<number>, ref: ArrayLike<number>): number {
-  let num = 0;
-  let den = 0;
-  for (let j = 0; j < ref.length; j++) {
-    num += (a[j] - ref[j]) ** 2;
-    den += ref[j] ** 2;
-  }
-  return Math.sqrt(num / den);
-}
+import { relL2 } from '../physics/solution-metrics.js';
 
 function maxAbs(a: ArrayLike<number>, b: ArrayLike<number>, from = 0, to = a.length): number {
   let m = 0;
@@ -67,7 +58,7 @@ export function runFilmFieldFloor(): void {
       }));
       const w = { A: fit[0].map((v, j) => v - h[j]), B: fit[1].map((v, j) => v + h[j]) };
       const s = solveInFields({ system: config.system, cell, contour: ref.contour, fields: w });
-      return { field: Math.max(maxAbs(w.A, ref.w.A), maxAbs(w.B, ref.w.B)), phi: relativeL2(s.phi.A, ref.phi.A) };
+      return { field: Math.max(maxAbs(w.A, ref.w.A), maxAbs(w.B, ref.w.B)), phi: relL2(s.phi.A, ref.phi.A) };
     });
     const show = (k: 'field' | 'phi') => cells.map((c) => (c ? c[k].toExponential(1) : 'singular')).join(' / ');
     rows.push(`| ${M} | ${show('field')} | ${show('phi')} |`);
@@ -90,7 +81,7 @@ export function runFilmFieldFloor(): void {
     const coarse = contourFromSteps(chain, chain.blocks.map(() => K));
     const every = (u: Float64Array[]) => Array.from({ length: coarse.ns + 1 }, (_, k) => u[k * FINE]);
     const c = densitiesFromPropagators(coarse, every(d.q), every(d.qDagger), d.Q);
-    q.push(`| ${K} | ${relativeL2(c.A, fine.A).toExponential(1)} | ${maxAbs(c.A, fine.A, 0, e).toExponential(1)} / ${maxAbs(c.A, fine.A, n - e, n).toExponential(1)} |`);
+    q.push(`| ${K} | ${relL2(c.A, fine.A).toExponential(1)} | ${maxAbs(c.A, fine.A, 0, e).toExponential(1)} / ${maxAbs(c.A, fine.A, n - e, n).toExponential(1)} |`);
   }
   console.log('\ncontour quadrature of φ on the film (Simpson on K nodes per block against 16·K, exact fields)');
   console.log(q.join('\n'));

@@ -57,7 +57,7 @@ const CHUNK = 64;
  * G += Jcᵀ Jc (lower triangle, k × k) for the rows [i0, i0 + rows) of J (row-major m × k), and
  * gl += Jcᵀ r. The chunk is transposed into T (k × rows) so each product is a dot product
  * over contiguous memory, and the products are formed two columns a × four columns b at a
- * time (eight sums in registers, each value read once per block): about twice the rate of
+ * time by addRowProducts (eight sums in registers, each value read once per block): about twice the rate of
  * one whole-height dot product at a time at k ≈ 800, m ≈ 1000 (measured), where the
  * transposed J no longer fits in cache (common practice, no source).
  */
@@ -73,74 +73,8 @@ function addChunk(J: Float64Array, r: Float64Array, k: number, i0: number, rows:
     for (let i = 0; i < R; i++) s += T[ta + i] * r[i0 + i];
     gl[a] += s;
   }
-  let a = 0;
-  for (; a + 1 < k; a += 2) {
-    const ta = a * R;
-    const tb = ta + R;
-    const ga = a * k;
-    const gb = ga + k;
-    let b = 0;
-    for (; b + 3 <= a; b += 4) {
-      const t0 = b * R;
-      const t1 = t0 + R;
-      const t2 = t1 + R;
-      const t3 = t2 + R;
-      let s00 = 0;
-      let s01 = 0;
-      let s02 = 0;
-      let s03 = 0;
-      let s10 = 0;
-      let s11 = 0;
-      let s12 = 0;
-      let s13 = 0;
-      for (let i = 0; i < R; i++) {
-        const u = T[ta + i];
-        const v = T[tb + i];
-        const x0 = T[t0 + i];
-        const x1 = T[t1 + i];
-        const x2 = T[t2 + i];
-        const x3 = T[t3 + i];
-        s00 += u * x0;
-        s01 += u * x1;
-        s02 += u * x2;
-        s03 += u * x3;
-        s10 += v * x0;
-        s11 += v * x1;
-        s12 += v * x2;
-        s13 += v * x3;
-      }
-      G[ga + b] += s00;
-      G[ga + b + 1] += s01;
-      G[ga + b + 2] += s02;
-      G[ga + b + 3] += s03;
-      G[gb + b] += s10;
-      G[gb + b + 1] += s11;
-      G[gb + b + 2] += s12;
-      G[gb + b + 3] += s13;
-    }
-    // The rest of rows a and a + 1 up to the diagonal (b ≤ a + 1).
-    for (; b <= a + 1; b++) {
-      const tc = b * R;
-      let s0 = 0;
-      let s1 = 0;
-      for (let i = 0; i < R; i++) {
-        const x = T[tc + i];
-        s0 += T[ta + i] * x;
-        s1 += T[tb + i] * x;
-      }
-      if (b <= a) G[ga + b] += s0;
-      G[gb + b] += s1;
-    }
-  }
-  for (; a < k; a++) {
-    const ta = a * R;
-    for (let b = 0; b <= a; b++) {
-      const tc = b * R;
-      let s = 0;
-      for (let i = 0; i < R; i++) s += T[ta + i] * T[tc + i];
-      G[a * k + b] += s;
-    }
-  }
+  // Gᵢⱼ += Σ_rows T[i]·T[j], the lower triangle.
+  addRowProducts(T, k, T, k, R, true, G, k);
 }
 
 export function groupedNormalEquations(n: number, groups: readonly ResidualGroup[]): { A: Float64Array; g: Float64Array; cost: number } {
@@ -170,7 +104,7 @@ export function groupedNormalEquations(n: number, groups: readonly ResidualGroup
 /**
  * Out[a·ldo + b] += Σ_u P[a·t + u] · Q[b·t + u] for a < rowsP and b < (lower ? a + 1 : rowsQ):
  * products of rows of two row-major matrices over their common length t, two rows of P × four
- * rows of Q at a time (eight sums in registers, contiguous reads), as in addChunk. With
+ * rows of Q at a time (eight sums in registers, contiguous reads). With
  * `lower` only b ≤ a is formed (P = Q: a lower triangle). Common practice, no source.
  */
 function addRowProducts(P: Float64Array, rowsP: number, Q: Float64Array, rowsQ: number, t: number, lower: boolean, Out: Float64Array, ldo: number): void {

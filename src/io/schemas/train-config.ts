@@ -38,6 +38,14 @@ export const lossWeightsSchema = z
   })
   .strict();
 
+/** Contour steps per block of a quadrature of φ: even, for Simpson's rule. */
+const simpsonNodesPerBlock = z
+  .number()
+  .int()
+  .min(4)
+  .max(256)
+  .refine((n) => n % 2 === 0, { message: "must be even (Simpson's rule for φ)" });
+
 export const trainConfigSchema = z
   .object({
     version: configVersionSchema,
@@ -161,13 +169,7 @@ export const trainConfigSchema = z
               .refine((n) => n % 2 === 0, { message: 'must be even (the grid of the periodic cell)' })
               .optional(),
             /** Contour steps per block of the phase's residuals (default: collocation.nodesPerBlock). */
-            nodesPerBlock: z
-              .number()
-              .int()
-              .min(4)
-              .max(256)
-              .refine((n) => n % 2 === 0, { message: "must be even (Simpson's rule for φ)" })
-              .optional(),
+            nodesPerBlock: simpsonNodesPerBlock.optional(),
             /**
              * 'alternating': cycles of (field-network refit to the SCFT update, then LM on each
              * propagator's MDE in those fields, one normal matrix per propagator); 'joint': LM on
@@ -194,13 +196,7 @@ export const trainConfigSchema = z
              * Alternating: contour steps per block of the φ the field steps read (the networks
              * evaluated there, values only; default nodesPerBlock). Even.
              */
-            stateNodesPerBlock: z
-              .number()
-              .int()
-              .min(4)
-              .max(256)
-              .refine((n) => n % 2 === 0, { message: "must be even (Simpson's rule for φ)" })
-              .optional(),
+            stateNodesPerBlock: simpsonNodesPerBlock.optional(),
             /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
             jointIterations: z.number().int().min(0).max(100000).default(0),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */
