@@ -25,7 +25,7 @@ function propagatorsOf(sol: ScftSolution, who: string): NonNullable<ScftSolution
 
 /** A film's grid points are cell centres between walls: its map fills [0, H] exactly, with no periodic repeat. */
 function filmBox(sol: ScftSolution): Partial<HeatMapSpec> {
-  return sol.cell.kind === 'film' ? { box: { x: [0, sol.length], y: [0, 1] }, xLabel: 'z / Rg' } : {};
+  return sol.cell.kind === 'film' ? { box: { x: [0, sol.length], y: [0, 1] }, xLabel: 'depth z / Rg' } : {};
 }
 
 function gridFigure(id: string, caption: string, panels: HeatMapSpec[]): FigureBlock {
@@ -80,10 +80,10 @@ function propagatorPage(p: PropagatorInput): ReportPage {
     heading: 'Chain propagators',
     blocks: [
       gridFigure('propagators', `Figure: forward propagator q(x, s), reference and ${label} on one colour scale, and their differences (${label} − reference, diverging scale centred on 0)${diffDagger ? ' for q and q†' : ''}; max |Δq| = ${sci(worst)}.`, [
-        { title: 'q(x, s), reference', rows: rq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)' },
-        { title: `q(x, s), ${label}`, rows: nq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)' },
-        { title: `q difference, ${label} − reference`, rows: diff, length: ref.length, map: 'diverging', colourBarLabel: 'Δq (–)' },
-        ...(diffDagger ? [{ title: `q† difference, ${label} − reference`, rows: diffDagger, length: ref.length, map: 'diverging' as const, colourBarLabel: 'Δq† (–)' }] : []),
+        { title: 'q(x, s), reference', rows: rq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)', ...filmBox(ref) },
+        { title: `q(x, s), ${label}`, rows: nq.q, length: ref.length, map: 'sequential', range, colourBarLabel: 'q (–)', ...filmBox(ref) },
+        { title: `q difference, ${label} − reference`, rows: diff, length: ref.length, map: 'diverging', colourBarLabel: 'Δq (–)', ...filmBox(ref) },
+        ...(diffDagger ? [{ title: `q† difference, ${label} − reference`, rows: diffDagger, length: ref.length, map: 'diverging' as const, colourBarLabel: 'Δq† (–)', ...filmBox(ref) }] : []),
       ]),
     ],
   };
