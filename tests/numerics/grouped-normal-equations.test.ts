@@ -68,6 +68,20 @@ describe('groupedNormalEquations, large groups (the chunked, register-blocked pr
   });
 });
 
+/** A group with random own columns J and factored columns C·E, C with two non-zeros per row like the junction channels of one grid point. */
+function randomFactoredGroup(rng: Xorshift128, m: number, t: number, own: Int32Array, fcols: Int32Array) {
+  const J = Float64Array.from({ length: m * own.length }, () => rng.next() - 0.5);
+  const r = Float64Array.from({ length: m }, () => rng.next() - 0.5);
+  const C = new Float64Array(m * t);
+  for (let i = 0; i < m; i++) {
+    const u = i % (t / 2);
+    C[i * t + 2 * u] = rng.next() - 0.5;
+    C[i * t + 2 * u + 1] = rng.next() - 0.5;
+  }
+  const E = Float64Array.from({ length: t * fcols.length }, () => rng.next() - 0.5);
+  return { columns: own, J, r, factored: { columns: fcols, t, C, E } };
+}
+
 describe('groupedNormalEquations, factored columns (Jacobian C·E)', () => {
   it('equals JᵀJ and Jᵀr of the expanded dense J (C·E multiplied out here), C mostly zero', () => {
     const rng = new Xorshift128(21);
@@ -78,17 +92,8 @@ describe('groupedNormalEquations, factored columns (Jacobian C·E)', () => {
     const n = 13;
     const k = own.length;
     const kf = fcols.length;
-    const J = Float64Array.from({ length: m * k }, () => rng.next() - 0.5);
-    const r = Float64Array.from({ length: m }, () => rng.next() - 0.5);
-    // Two non-zeros per row, like the junction channels of one grid point.
-    const C = new Float64Array(m * t);
-    for (let i = 0; i < m; i++) {
-      const u = i % (t / 2);
-      C[i * t + 2 * u] = rng.next() - 0.5;
-      C[i * t + 2 * u + 1] = rng.next() - 0.5;
-    }
-    const E = Float64Array.from({ length: t * kf }, () => rng.next() - 0.5);
-    const grp = { columns: own, J, r, factored: { columns: fcols, t, C, E } };
+    const grp = randomFactoredGroup(rng, m, t, own, fcols);
+    const { J, r, factored: { C, E } } = grp;
     const dense: number[][] = [];
     for (let i = 0; i < m; i++) {
       const row = new Array(n).fill(0);
@@ -120,18 +125,8 @@ describe('groupedNormalEquations, factored columns (Jacobian C·E)', () => {
     // Columns 0, 2, 4, … up to 18 factored (kf = 9, odd), the rest own (k = 11, odd).
     const fcols = Int32Array.from([0, 2, 4, 6, 8, 10, 12, 14, 16]);
     const own = Int32Array.from([1, 3, 5, 7, 9, 11, 13, 15, 17, 18, 19]);
-    const k = own.length;
-    const kf = fcols.length;
-    const J = Float64Array.from({ length: m * k }, () => rng.next() - 0.5);
-    const r = Float64Array.from({ length: m }, () => rng.next() - 0.5);
-    const C = new Float64Array(m * t);
-    for (let i = 0; i < m; i++) {
-      const u = i % (t / 2);
-      C[i * t + 2 * u] = rng.next() - 0.5;
-      C[i * t + 2 * u + 1] = rng.next() - 0.5;
-    }
-    const E = Float64Array.from({ length: t * kf }, () => rng.next() - 0.5);
-    const grp = { columns: own, J, r, factored: { columns: fcols, t, C, E } };
+    const grp = randomFactoredGroup(rng, m, t, own, fcols);
+    const { r } = grp;
     const { A, g } = groupedNormalEquations(n, [grp]);
     const entry = (i: number, c: number) => groupJacobianEntry(grp, i, c);
     for (let a = 0; a < n; a++) {
