@@ -114,8 +114,7 @@ export function disorderedFilm(req: FilmRequest, chain: Chain, contour: Contour,
   const f = chain.speciesFraction.A;
   const uniform = (x: number) => fieldsFromComposition(chain, x, new Float64Array(cell.n).fill(f), cell);
   const stable = chain.species.length < 2 ? chiN : Math.min(chiN, 0.5 * spinodal(chain).chiN);
-  const tolerance = req.options?.tolerance ?? 1e-9;
-  const { maxIterations } = defaultSpectralOptions(req.options);
+  const { tolerance, maxIterations } = defaultSpectralOptions(req.options);
   const report = (label: string) => (iteration: number, residual: number) => req.onStep?.({ start: 1, starts: progressStarts, label: `the disordered film: ${label}`, iteration, maxIterations, residual, tolerance });
   let sol = solveFixedCell({ ...req, contour, system: { ...req.system, chiN: stable }, initial: uniform(stable), onIteration: report(`field iterations at χN = ${+stable.toPrecision(4)}`) });
   let at = stable;
