@@ -3,7 +3,8 @@
  * it claims the report folder like every command's --out (io/output-directory.ts: a new or
  * empty folder, or a previous report with --overwrite; marker, lock, only its own files
  * replaced), renders, then writes. `reportRunDirectory` writes a report inside a run's own
- * output, which that run has already claimed (`demo`, `train`/`invert --report`).
+ * output, which that run has already claimed (`demo`; the `--report` of train, invert and
+ * reflectivity through cli/report-after-run.ts, with a stop point).
  */
 import { claimOutputDirectory } from '../io/output-directory.js';
 import { buildReport } from './build-report.js';
@@ -11,18 +12,21 @@ import { loadRun } from './load-run.js';
 import { renderReport, writeReportFiles } from './write-report.js';
 import type { ReportFormat } from './write-report.js';
 
+/** A run's report, drawn (nothing written yet). */
+function renderRunDirectory(runDir: string, formats: readonly ReportFormat[], dpi: number) {
+  return renderReport(buildReport(loadRun(runDir).input), formats, dpi);
+}
+
 export function reportRunDirectory(runDir: string, outDir: string, formats: readonly ReportFormat[] = ['pdf', 'png'], dpi = 150): string[] {
-  const run = loadRun(runDir);
-  return writeReportFiles(outDir, renderReport(buildReport(run.input), formats, dpi));
+  return writeReportFiles(outDir, renderRunDirectory(runDir, formats, dpi));
 }
 
 /**
  * reportRunDirectory with a stop point between the drawing and the first write, for a command
- * that answers signals there (cli/short-run-stop.ts): a stop at that point writes nothing.
+ * that answers signals there (cli/report-after-run.ts): a stop at that point writes nothing.
  */
 export async function reportRunDirectoryWithStop(runDir: string, outDir: string, beforeWriting: () => Promise<void>, formats: readonly ReportFormat[] = ['pdf', 'png'], dpi = 150): Promise<string[]> {
-  const run = loadRun(runDir);
-  const rendered = renderReport(buildReport(run.input), formats, dpi);
+  const rendered = renderRunDirectory(runDir, formats, dpi);
   await beforeWriting();
   return writeReportFiles(outDir, rendered);
 }

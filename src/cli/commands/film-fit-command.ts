@@ -6,7 +6,6 @@
 import { formatText } from '../../io/formats/file-format.js';
 import { filmFitResultSchema } from '../../io/formats/film.js';
 import { solutionText } from '../../io/formats/solution.js';
-import { join } from 'node:path';
 import { InputError, asInputError, parseOrThrow } from '../../io/errors.js';
 import { readInputText } from '../../io/fs-errors.js';
 import { filmFitConfigSchema } from '../../io/schemas/film-fit-config.js';
@@ -87,13 +86,13 @@ export function buildFilmFitConfig(configPath: string | undefined, flags: FilmFi
 }
 
 /** Read, fit, write; prints the summary (or JSON) on stdout. */
-export async function runFilmFitCommand(command: string, dataPath: string, config: FilmFitConfig, flags: FilmFitFlags): Promise<void> {
+export async function runFilmFitCommand(command: string, dataPath: string, config: FilmFitConfig, flags: FilmFitFlags): Promise<number | void> {
   if (flags.report && !flags.out) throw new InputError('--report: needs --out DIR (the report is written into DIR/report)');
   const text = readInputText(dataPath);
   const data = readFilmData(text, dataPath, config.units.rgNm);
   if (command === 'reflectivity' && data.kind !== 'reflectivity') throw new InputError(`${dataPath}: the header is that of a depth profile (${data.kind}); reflectivity fits a Q,R,dR curve: fit depth profiles with invert --film`);
   const out = claimOut(flags, command);
-  await withOutput(out, async () => {
+  return withOutput(out, async (): Promise<number | void> => {
     const progress = new Progress(command, flags.quiet);
     // The fit's phases for the time left, each an expectation (the data decide their length;
     // measured on a 5 Rg film depth profile: 28 starts, 4 iterations, 57 profiled χN points).
@@ -118,10 +117,7 @@ export async function runFilmFitCommand(command: string, dataPath: string, confi
       if (!flags.quiet) process.stderr.write(`${command}: wrote ${written.join(', ')}\n`);
     }
     process.stdout.write(flags.json ? `${JSON.stringify(run.result, null, 2)}\n` : run.summary);
-    if (out && flags.report) {
-      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
-      const reported = reportRunDirectory(flags.out!, join(flags.out!, 'report'));
-      if (!flags.quiet) process.stderr.write(`${command}: wrote ${reported.join(', ')}\n`);
-    }
+    // A signal while the report is drawn stops it; the results stay (cli/report-after-run.ts).
+    if (out && flags.report) return (await import('../report-after-run.js')).reportAfterRun(command, flags.out!, 'the results', flags.quiet);
   });
 }

@@ -166,7 +166,7 @@ export function registerReflectivity(program: Command): void {
         if (flags.rgNm === undefined && !configPath) throw new InputError('--rg-nm: missing; a reflectivity fit needs Rg in nm (Q is in Å⁻¹)');
         const { buildFilmFitConfig, runFilmFitCommand } = await import('./film-fit-command.js');
         const config = buildFilmFitConfig(configPath, flags);
-        await runFilmFitCommand('reflectivity', dataPath, config, flags);
+        return runFilmFitCommand('reflectivity', dataPath, config, flags);
       }),
     );
 }

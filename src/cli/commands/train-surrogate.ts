@@ -33,7 +33,7 @@ function summaryLines(m: SurrogateMetrics, outDir: string | undefined): string[]
   ];
 }
 
-export async function trainSurrogate(configPath: string, raw: unknown, flags: TrainFlags): Promise<void> {
+export async function trainSurrogate(configPath: string, raw: unknown, flags: TrainFlags): Promise<number | void> {
   if (flags.resume !== undefined) throw new InputError(`--resume: got ${JSON.stringify(flags.resume)}; a surrogate run cannot be resumed (it is short): run it again`);
   if (flags.adamSteps !== undefined) throw new InputError(`--adam-steps: got ${JSON.stringify(flags.adamSteps)}; a surrogate's Adam steps are warmStart.adamSteps in ${configPath} (its physics training is training.rounds)`);
   if (flags.lbfgsIterations !== undefined) throw new InputError(`--lbfgs-iterations: got ${JSON.stringify(flags.lbfgsIterations)}; a surrogate's L-BFGS iterations are warmStart.lbfgsIterations in ${configPath}`);
@@ -51,7 +51,7 @@ export async function trainSurrogate(configPath: string, raw: unknown, flags: Tr
 /** What `out` holds: a surrogate checkpoint, told apart from a network run's (`train`). */
 export const SURROGATE_OUTPUT = 'train (surrogate)';
 
-async function runAndReport(config: SurrogateConfig, outDir: string, flags: TrainFlags, progress: Progress, surrogateRun: typeof SurrogateRun): Promise<void> {
+async function runAndReport(config: SurrogateConfig, outDir: string, flags: TrainFlags, progress: Progress, surrogateRun: typeof SurrogateRun): Promise<number | void> {
   const backend = backendFlag(flags.backend);
   // The run's counted phases (the network fit between them reports once, when it ends).
   const run = new RunProgress(progress, [
@@ -95,11 +95,8 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
     const m = r.metrics;
     progress.done(`surrogate trained in ${formatDuration(m.timing.buildSeconds)} on ${m.backend}; checkpoint in ${outDir}`);
     process.stdout.write(flags.json ? `${JSON.stringify({ checkpoint: outDir, ...m }, null, 2)}\n` : `${summaryLines(m, outDir).join('\n')}\n`);
-    if (flags.report) {
-      const { reportRunDirectory } = await import('../../reports/report-run-directory.js');
-      const written = reportRunDirectory(outDir, join(outDir, 'report'));
-      if (!flags.quiet) process.stderr.write(`train: wrote ${written.join(', ')}\n`);
-    }
+    // A signal while the report is drawn stops it; the checkpoint stays (cli/report-after-run.ts).
+    if (flags.report) return (await import('../report-after-run.js')).reportAfterRun('train', outDir, 'the checkpoint', flags.quiet);
   } finally {
     r.model.dispose();
   }
