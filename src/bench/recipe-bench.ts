@@ -26,6 +26,19 @@ interface BenchSystem {
   cell: TrainConfigInput['cell'];
   /** Cold start (no reference fit): a chain in a prescribed field. */
   cold?: boolean;
+  /**
+   * This system's changes to the second-order recipe, merged into its config (objects
+   * recursively): chosen by measurement for the system (docs/second-order-training.md).
+   */
+  secondOrderRecipe?: Record<string, unknown>;
+}
+
+/** a with b merged in (objects recursively; arrays and scalars of b replace a's). */
+export function mergedConfig(a: unknown, b: unknown): unknown {
+  if (b === null || typeof b !== 'object' || Array.isArray(b) || a === null || typeof a !== 'object' || Array.isArray(a)) return b;
+  const out: Record<string, unknown> = { ...(a as Record<string, unknown>) };
+  for (const [k, v] of Object.entries(b as Record<string, unknown>)) out[k] = mergedConfig(out[k], v);
+  return out;
 }
 
 export const RECIPE_SYSTEMS: BenchSystem[] = [
@@ -54,12 +67,13 @@ export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick
       training: { adamSteps: b.cold ? 600 : 300, learningRate: b.cold ? 0.002 : 0.001, evaluateEvery: 100, lbfgsIterations: quick ? 600 : 1500, lbfgsCycles: quick ? 2 : 5 },
     };
   }
-  return {
+  const shared: TrainConfigInput = {
     ...base,
     networks: { field: { hidden: [], fourierModes: 12, seed }, propagator: { hidden: [16, 16], seed } },
     collocation: { nx: 64, nodesPerBlock: 16, random: 0 },
     training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson' } },
   };
+  return quick || !b.secondOrderRecipe ? shared : (mergedConfig(shared, b.secondOrderRecipe) as TrainConfigInput);
 }
 
 interface Reach {

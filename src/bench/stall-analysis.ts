@@ -20,15 +20,7 @@ import { trainRun } from '../training/train-run.js';
 import { buildChain } from '../physics/chain.js';
 import { PropagatorSolver } from '../spectral/propagator-solver.js';
 import { relL2 } from '../physics/solution-metrics.js';
-import { RECIPE_SYSTEMS, recipeConfig } from './recipe-bench.js';
-
-/** a with b merged in (objects recursively; arrays and scalars replaced). */
-function merged(a: unknown, b: unknown): unknown {
-  if (b === null || typeof b !== 'object' || Array.isArray(b) || a === null || typeof a !== 'object' || Array.isArray(a)) return b;
-  const out: Record<string, unknown> = { ...(a as Record<string, unknown>) };
-  for (const [k, v] of Object.entries(b as Record<string, unknown>)) out[k] = merged(out[k], v);
-  return out;
-}
+import { RECIPE_SYSTEMS, mergedConfig, recipeConfig } from './recipe-bench.js';
 
 function rms(v: number[]): number {
   return Math.sqrt(v.reduce((a, x) => a + x * x, 0) / Math.max(1, v.length));
@@ -41,7 +33,7 @@ export async function runStallAnalysis(): Promise<void> {
   const system = RECIPE_SYSTEMS.find((s) => s.name === name);
   if (!system) throw new Error(`--systems=${name}: allowed: ${RECIPE_SYSTEMS.map((s) => s.name).join(', ')}`);
   const override = arg('override') ? JSON.parse(arg('override')!) : {};
-  const input = merged(recipeConfig(system, 'second-order', seed, false), override) as TrainConfigInput;
+  const input = mergedConfig(recipeConfig(system, 'second-order', seed, false), override) as TrainConfigInput;
   const config = trainConfigSchema.parse(input);
   const t0 = performance.now();
   const r = await trainRun({
