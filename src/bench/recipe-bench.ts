@@ -13,6 +13,7 @@
  * Besides the levels: the median final φA error and F error (kT per chain) over the seeds.
  * The machine is shared while it runs: timings are wall-clock on whatever load there is.
  */
+import { loadavg } from 'node:os';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { TrainConfigInput } from '../io/schemas/train-config.js';
 import { trainRun } from '../training/train-run.js';
@@ -45,7 +46,15 @@ export const RECIPE_SYSTEMS: BenchSystem[] = [
   { name: 'diblock-f0.5-chiN15', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 'equilibrium', nx: 64, ns: 100 } },
   { name: 'diblock-f0.35-chiN22', system: { chain: { type: 'diblock', f: 0.35 }, chiN: 22 }, cell: { period: 'equilibrium', nx: 64, ns: 120 } },
   { name: 'triblock-ABA-chiN20', system: { chain: { type: 'triblock', f: 0.5 }, chiN: 20 }, cell: { period: 'equilibrium', nx: 64, ns: 120 } },
-  { name: 'diblock-bA/bB1.5-chiN15', system: { chain: { type: 'diblock', f: 0.5, segmentRatio: 1.5 }, chiN: 15 }, cell: { period: 'equilibrium', nx: 64, ns: 100 } },
+  {
+    name: 'diblock-bA/bB1.5-chiN15',
+    system: { chain: { type: 'diblock', f: 0.5, segmentRatio: 1.5 }, chiN: 15 },
+    cell: { period: 'equilibrium', nx: 64, ns: 100 },
+    // Seed 3 of the shared recipe, taken apart (bench --stall-analysis): q's loss flat after
+    // 15 of its 40 first-cycle iterations, ln q† off 3–5 times more than ln q at the end (its
+    // second block, A); so q† gets the first cycle's iterations q does not need, and 40 more in all.
+    secondOrderRecipe: { training: { secondOrderIterations: 200, secondOrder: { firstCycleIterations: 60, firstCyclePlateau: 0.02, cycles: 7 } } },
+  },
   {
     name: 'homopolymer-external-field',
     system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2, mode: 1, offset: 0 } } },
@@ -106,7 +115,11 @@ export async function runRecipeBench(): Promise<void> {
       const finals: number[] = [];
       const energies: number[] = [];
       for (let seed = 1; seed <= seeds; seed++) {
+        const cpu0 = process.cpuUsage();
+        const wall0 = performance.now();
         const r = await trainRun({ config: trainConfigSchema.parse(recipeConfig(b, recipe, seed, quick)), backend: 'wasm' });
+        const cpu = process.cpuUsage(cpu0);
+        const cost = `${((cpu.user + cpu.system) / 1e6).toFixed(0)} s CPU, ${((performance.now() - wall0) / 1000).toFixed(0)} s wall, load average ${loadavg()[0].toFixed(1)} at the end`;
         finals.push(r.metrics.errors.phiA.relativeL2);
         energies.push(r.metrics.errors.freeEnergyError);
         const warm = r.metrics.training.warmStart?.seconds ?? 0;
@@ -118,7 +131,7 @@ export async function runRecipeBench(): Promise<void> {
           const h = r.history.find((e) => e.phiError !== undefined && e.phiError < level);
           return `${level}: ${h ? `${(warm + h.seconds).toFixed(1)} s` : '—'}`;
         }).join(', ');
-        process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT, warm start ${warm.toFixed(1)} s, below ${firstBelow}, ${r.metrics.training.seconds.toFixed(1)} s in all\n`);
+        process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT, warm start ${warm.toFixed(1)} s, below ${firstBelow}, ${r.metrics.training.seconds.toFixed(1)} s in all; ${cost}\n`);
       }
       LEVELS.forEach((level, li) => {
         rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seeds} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} | ${li === 0 ? median(energies).toExponential(2) : ''} |`);
