@@ -9,7 +9,8 @@
  * over the seeds that reached it, and how many did. Errors are measured every 100 Adam
  * steps, after every L-BFGS cycle, and every 5 LM iterations (so the times are upper bounds
  * at that resolution). Options: --seeds=N (default 5), --systems=name,name (default all),
- * --budget=quick (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only).
+ * --budget=quick (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only),
+ * --seed-order=3,2 (these seeds first).
  * Besides the levels: the median final φA error and F error (kT per chain) over the seeds.
  * The machine is shared while it runs: timings are wall-clock on whatever load there is.
  */
@@ -101,6 +102,9 @@ function stats(v: number[]): string {
 export async function runRecipeBench(): Promise<void> {
   const arg = (k: string) => process.argv.find((a) => a.startsWith(`--${k}=`))?.slice(k.length + 3);
   const seeds = Number(arg('seeds') ?? 5);
+  // --seed-order=3,2: these network seeds first (then the rest of 1..seeds), so that a run cut short has the seeds asked for.
+  const first = (arg('seed-order') ?? '').split(',').filter(Boolean).map(Number);
+  const order = [...first.filter((s) => s >= 1 && s <= seeds), ...Array.from({ length: seeds }, (_, i) => i + 1).filter((s) => !first.includes(s))];
   const names = arg('systems')?.split(',');
   const quick = arg('budget') === 'quick';
   const systems = RECIPE_SYSTEMS.filter((s) => !names || names.includes(s.name));
@@ -114,7 +118,7 @@ export async function runRecipeBench(): Promise<void> {
       const reach: Reach[][] = LEVELS.map(() => []);
       const finals: number[] = [];
       const energies: number[] = [];
-      for (let seed = 1; seed <= seeds; seed++) {
+      for (const seed of order) {
         const cpu0 = process.cpuUsage();
         const wall0 = performance.now();
         const r = await trainRun({ config: trainConfigSchema.parse(recipeConfig(b, recipe, seed, quick)), backend: 'wasm' });
