@@ -55,6 +55,14 @@ export interface SecondOrderSettings {
   firstCycleIterations: number;
   /** Joint iterations after the alternating cycles (on top of `iterations`). */
   jointIterations: number;
+  /**
+   * Alternating: LM iterations on a propagator's output layers alone before its LM in each
+   * cycle (absent or 0: none). For fixed hidden layers the output layer is a small set of
+   * columns (17 per 2×16 piece): each such iteration costs the Jacobian's evaluation and a
+   * tiny normal matrix, a fraction of a whole propagator's iteration. They are not counted in
+   * `iterations`; their time is in the history's seconds.
+   */
+  outputLayerIterations?: number;
   /** λ of the field step's update: w + λ d (simple), or x̄ + λ d̄ (Anderson). */
   fieldMixing: number;
   /**
@@ -183,6 +191,16 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
     return loss > settings.lossTolerance;
   };
 
+  /** LM on one propagator's output layers alone (settings.outputLayerIterations). */
+  const solveOutputLayer = (side: 'q' | 'qDagger') => {
+    const n = settings.outputLayerIterations ?? 0;
+    if (n <= 0) return;
+    const cols = sys.outputLayerColumns(side);
+    const problem = sys.columnProblem(theta, side, cols);
+    const r = levenbergMarquardt(problem, Float64Array.from(cols, (c) => theta[c]), { maxIterations: n, damping: settings.damping });
+    theta = problem.embed(r.x);
+  };
+
   const lastMu = new Map<ResidualPart, number>();
   /** LM on one part: the whole system, or one propagator's columns in the current fields. */
   const solvePart = async (part: ResidualPart, iterations: number) => {
@@ -257,6 +275,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
         if (c > 0 && nets.field) fieldStep();
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
+          if (side !== 'all') solveOutputLayer(side);
           await solvePart(side, Math.min(c === 0 && first > 0 ? first : perCycle, settings.iterations - done));
         }
       }

@@ -363,6 +363,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         firstCycleIterations: tr.secondOrder.firstCycleIterations,
         ...(tr.secondOrder.stateNodesPerBlock !== undefined ? { stateNodesPerBlock: tr.secondOrder.stateNodesPerBlock } : {}),
         jointIterations: tr.secondOrder.jointIterations,
+        outputLayerIterations: tr.secondOrder.outputLayerIterations,
         fieldMixing: tr.fieldMixing,
         fieldStep: tr.secondOrder.fieldStep,
         andersonHistory: tr.secondOrder.andersonHistory,

@@ -197,6 +197,12 @@ export const trainConfigSchema = z
              * evaluated there, values only; default nodesPerBlock). Even.
              */
             stateNodesPerBlock: simpsonNodesPerBlock.optional(),
+            /**
+             * Alternating: before each propagator's LM in a cycle, this many LM iterations on
+             * its networks' output layers alone (the hidden layers held; a small normal matrix).
+             * 0: none.
+             */
+            outputLayerIterations: z.number().int().min(0).max(1000).default(0),
             /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
             jointIterations: z.number().int().min(0).max(100000).default(0),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */

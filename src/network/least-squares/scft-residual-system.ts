@@ -36,6 +36,7 @@ import type { Contour } from '../../physics/contour.js';
 import { fieldAtPoints } from '../../physics/fields.js';
 import { JetMlp64 } from '../../autodiff/jet-mlp64.js';
 import type { Mlp } from '../../autodiff/mlp.js';
+import { groupsOnColumns } from '../../numerics/column-subset.js';
 import { groupedNormalEquations, shiftedGroups } from '../../numerics/grouped-normal-equations.js';
 import type { ResidualGroup } from '../../numerics/grouped-normal-equations.js';
 import type { LeastSquaresProblem } from '../../numerics/levenberg-marquardt.js';
@@ -314,6 +315,43 @@ export class ScftResidualSystem {
       linearise: (xs) => {
         const e = this.evaluate(embed(xs), true, part);
         const { A, g } = groupedNormalEquations(count, shiftedGroups(e.groups!, first));
+        return { kind: 'normal', cost: e.cost, A, g };
+      },
+    };
+  }
+
+  /**
+   * Global columns of the output layers (last kernel and bias) of one propagator's pieces,
+   * ascending: for fixed hidden layers the network is linear in them.
+   */
+  outputLayerColumns(side: 'q' | 'qDagger'): Int32Array {
+    const cols: number[] = [];
+    for (const p of this.sides[side === 'q' ? 0 : 1].pieces) {
+      const w = p.mlp.widths;
+      const n = (w[w.length - 2] + 1) * w[w.length - 1];
+      for (let c = p.mlp.offset + p.mlp.size - n; c < p.mlp.offset + p.mlp.size; c++) cols.push(c);
+    }
+    return Int32Array.from(cols);
+  }
+
+  /**
+   * One propagator's least squares (as partProblem) over a subset of its columns (`columns`,
+   * global, ascending), the rest held at `theta`: the Jacobian is evaluated whole and
+   * restricted (numerics/column-subset.ts), so only the normal matrix is smaller.
+   */
+  columnProblem(theta: Float64Array, side: 'q' | 'qDagger', columns: Int32Array): LeastSquaresProblem & { embed: (xs: Float64Array) => Float64Array } {
+    const embed = (xs: Float64Array) => {
+      const full = Float64Array.from(theta);
+      columns.forEach((c, i) => (full[c] = xs[i]));
+      return full;
+    };
+    return {
+      embed,
+      size: columns.length,
+      cost: (xs) => this.evaluate(embed(xs), false, side).cost,
+      linearise: (xs) => {
+        const e = this.evaluate(embed(xs), true, side);
+        const { A, g } = groupedNormalEquations(columns.length, groupsOnColumns(e.groups!, columns));
         return { kind: 'normal', cost: e.cost, A, g };
       },
     };
