@@ -63,6 +63,11 @@ export interface SecondOrderSettings {
    * `iterations`; their time is in the history's seconds.
    */
   outputLayerIterations?: number;
+  /**
+   * Extra steps per accepted propagator LM step with the same factorisation (Fan's modified
+   * LM, numerics/levenberg-marquardt.ts LmOptions.extraSteps); absent or 0: none.
+   */
+  extraSteps?: number;
   /** λ of the field step's update: w + λ d (simple), or x̄ + λ d̄ (Anderson). */
   fieldMixing: number;
   /**
@@ -212,7 +217,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
       // Each part resumes from the damping its previous solve ended with: after a field step
       // the problem is a nearby one, and restarting from τ·max diag(JᵀJ) would spend the
       // first iterations of every cycle re-learning μ.
-      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) },
+      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), extraSteps: part === 'all' ? 0 : (settings.extraSteps ?? 0), onIteration: (it, xs) => record(it.mu, embed(xs)) },
       yieldToEvents,
       () => hooks.shouldStop?.() ?? false,
     );

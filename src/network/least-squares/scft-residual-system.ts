@@ -37,7 +37,7 @@ import { fieldAtPoints } from '../../physics/fields.js';
 import { JetMlp64 } from '../../autodiff/jet-mlp64.js';
 import type { Mlp } from '../../autodiff/mlp.js';
 import { groupsOnColumns } from '../../numerics/column-subset.js';
-import { groupedNormalEquations, shiftedGroups } from '../../numerics/grouped-normal-equations.js';
+import { groupedGradient, groupedNormalEquations, shiftedGroups } from '../../numerics/grouped-normal-equations.js';
 import type { ResidualGroup } from '../../numerics/grouped-normal-equations.js';
 import type { LeastSquaresProblem } from '../../numerics/levenberg-marquardt.js';
 import type { SpeciesArrays } from '../../physics/fields.js';
@@ -301,6 +301,7 @@ export class ScftResidualSystem {
    */
   partProblem(theta: Float64Array, part: ResidualPart): LeastSquaresProblem & { first: number; embed: (xs: Float64Array) => Float64Array } {
     const { first, count } = part === 'all' ? { first: 0, count: this.size } : this.columnsOf(part);
+    let last: ResidualGroup[] | null = null;
     const embed = (xs: Float64Array) => {
       if (part === 'all') return xs;
       const full = Float64Array.from(theta);
@@ -314,10 +315,20 @@ export class ScftResidualSystem {
       cost: (xs) => this.evaluate(embed(xs), false, part).cost,
       linearise: (xs) => {
         const e = this.evaluate(embed(xs), true, part);
-        const { A, g } = groupedNormalEquations(count, shiftedGroups(e.groups!, first));
+        last = shiftedGroups(e.groups!, first);
+        const { A, g } = groupedNormalEquations(count, last);
         return { kind: 'normal', cost: e.cost, A, g };
       },
+      // One propagator's rows are its blocks' MDE residuals, one group per block in order.
+      ...(part === 'all' ? {} : { gradientWithLastJacobian: (xs: Float64Array) => groupedGradient(count, last!, this.blockResidualsOf(embed(xs), part)) }),
     };
+  }
+
+  /** The scaled MDE residuals of one propagator's blocks at theta (the rows of its part, in order). */
+  private blockResidualsOf(theta: Float64Array, part: 'q' | 'qDagger'): Float64Array[] {
+    const field = this.field ? this.fieldAt(theta, false) : null;
+    const side = this.sides[part === 'q' ? 0 : 1];
+    return this.sideResiduals(theta, side, field && { w: field.w, dw: null }, true, false, Math.sqrt(this.weights.mde / this.mdePoints), false).blockResiduals;
   }
 
   /**
