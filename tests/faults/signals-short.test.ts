@@ -5,7 +5,9 @@
  * work lasts long enough to be caught (synth on a fine grid, report at a high resolution, the
  * report after invert); bragg-pattern and fit-scattering take milliseconds, so there the stop is
  * asked in this process before the run by the path a signal takes (runtime/stop.ts requestStop)
- * and the run must end at its stop point. Exit codes: common practice, no source (128 + signal
+ * and the run must end at its stop point. The report step after invert --film (and reflectivity,
+ * the same command code) and after a surrogate's train is stopped in this process too, the stop
+ * asked when the command announces the drawing. Exit codes: common practice, no source (128 + signal
  * number, as a shell reports a process a signal ended).
  */
 import { cpSync, existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
@@ -150,6 +152,70 @@ describe('signals: short commands stopped at their stop point (the stop asked as
     expect(r.stderr).toMatch(/fit-scattering stopped by a signal before it finished; nothing was written \(.*fit was left as it was\)/);
     expect(readFileSync(join(out, 'result.json')).equals(before)).toBe(true);
     expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    counts['clear error or stop']++;
+  }, 60_000);
+});
+
+describe('signals: the report after a run, stopped at its stop point (the stop asked when drawing begins)', () => {
+  /**
+   * Run a command line in this process and ask the stop, by the path a signal takes, when the
+   * command says it is drawing the report: the results are on disk by then, so what is checked
+   * is the report step's stop in the command's own wiring (invert --film and reflectivity share
+   * cli/commands/film-fit-command.ts; the surrogate's train is cli/commands/train-surrogate.ts).
+   */
+  async function stoppedWhileDrawing(args: string[]) {
+    const out = process.stdout.write;
+    const err = process.stderr.write;
+    let stdout = '';
+    let stderr = '';
+    process.stdout.write = ((s: string | Uint8Array) => ((stdout += String(s)), true)) as typeof process.stdout.write;
+    process.stderr.write = ((s: string | Uint8Array) => {
+      stderr += String(s);
+      if (/drawing the report/.test(String(s))) requestStop('SIGINT');
+      return true;
+    }) as typeof process.stderr.write;
+    try {
+      const r = await runCli(args);
+      return { code: r.code, stdout, stderr };
+    } finally {
+      process.stdout.write = out;
+      process.stderr.write = err;
+      resetStop();
+    }
+  }
+
+  const expectKeptAndMarked = (out: string, command: string, marked: string, kept: string, files: string[]) => {
+    for (const f of files) expect(existsSync(join(out, f)), f).toBe(true);
+    expect(existsSync(join(out, 'report'))).toBe(false);
+    const marker = JSON.parse(readFileSync(join(out, '.mesofield-output.json'), 'utf8')) as { command: string; complete: boolean };
+    expect(marker).toMatchObject({ command: marked, complete: false });
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
+    return new RegExp(`${command} stopped by a signal before its report was written; ${kept} in .* complete .*mesofield report`);
+  };
+
+  it('invert --film --report: the results of the fit stay, no report, exit 130, the output marked incomplete', async () => {
+    counts.tried++;
+    const dir = tmp();
+    // A 6 Rg film's depth profile on a coarse model (the fit's accuracy is checked in tests/inverse/film-fit.test.ts).
+    const synth = await runCli(['synth', '--film', '6', '--f', '0.5', '--chiN', '15', '--affinity', '1,-0.5', '--measure', 'phi', '--points', '24', '--noise', '0.01', '--nx', '32', '--ns', '40', '--quiet', '--out', join(dir, 's')], { capture: true });
+    expect(synth.code, synth.stderr).toBe(0);
+    const out = join(dir, 'inv');
+    const r = await stoppedWhileDrawing(['invert', join(dir, 's', 'profile.csv'), '--f', '0.5', '--film', '6', '--nx', '16', '--ns', '20', '--intervals', 'none', '--out', out, '--report']);
+    expect(r.code, r.stderr).toBe(130);
+    expect(r.stderr).toMatch(expectKeptAndMarked(out, 'invert', 'invert', 'the results', ['result.json', 'fit.csv', 'solution.json']));
+    counts['clear error or stop']++;
+  }, 60_000);
+
+  it('train --report on a surrogate config: the checkpoint stays, no report, exit 130, the output marked incomplete', async () => {
+    counts.tried++;
+    const dir = tmp();
+    const config = join(dir, 'tiny.surrogate.json');
+    // Three anchors, a short fit, no physics round: seconds; the surrogate's accuracy is tests/surrogate's.
+    writeFileSync(config, JSON.stringify({ version: 2, kind: 'surrogate', backend: 'wasm', parameters: { chiN: { min: 13, max: 17, anchors: 3 } }, cell: { nx: 32, ns: 60 }, warmStart: { extraSolves: 0, lbfgsIterations: 20 }, training: { rounds: 0 }, evaluation: { random: 0 } }));
+    const out = join(dir, 'ck');
+    const r = await stoppedWhileDrawing(['train', config, '--out', out, '--report']);
+    expect(r.code, r.stderr).toBe(130);
+    expect(r.stderr).toMatch(expectKeptAndMarked(out, 'train', 'train (surrogate)', 'the checkpoint', ['checkpoint.json', 'weights.bin', 'metrics.json']));
     counts['clear error or stop']++;
   }, 60_000);
 });
