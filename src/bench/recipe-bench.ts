@@ -8,9 +8,9 @@
  * against the spectral reference first fell below 1e-3, 1e-4 and 1e-5: min / median / max
  * over the seeds that reached it, and how many did. Errors are measured every 100 Adam
  * steps, after every L-BFGS cycle, and every 5 LM iterations (so the times are upper bounds
- * at that resolution). Options: --seeds=N (default 5), --systems=name,name (default all),
- * --budget=quick (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only),
- * --seed-order=3,2 (these seeds first).
+ * at that resolution). Options: --seeds=N (default 5), --seed=K (network seed K alone),
+ * --seed-order=3,2 (these seeds first), --systems=name,name (default all), --budget=quick
+ * (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only).
  * Besides the levels: the median final φA error and F error (kT per chain) over the seeds.
  * The machine is shared while it runs: timings are wall-clock on whatever load there is.
  */
@@ -81,7 +81,7 @@ export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick
     ...base,
     networks: { field: { hidden: [], fourierModes: 12, seed }, propagator: { hidden: [16, 16], seed } },
     collocation: { nx: 64, nodesPerBlock: 16, random: 0 },
-    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson' } },
+    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson', extraSteps: 5 } },
   };
   return quick || !b.secondOrderRecipe ? shared : (mergedConfig(shared, b.secondOrderRecipe) as TrainConfigInput);
 }
@@ -105,20 +105,24 @@ export async function runRecipeBench(): Promise<void> {
   // --seed-order=3,2: these network seeds first (then the rest of 1..seeds), so that a run cut short has the seeds asked for.
   const first = (arg('seed-order') ?? '').split(',').filter(Boolean).map(Number);
   const order = [...first.filter((s) => s >= 1 && s <= seeds), ...Array.from({ length: seeds }, (_, i) => i + 1).filter((s) => !first.includes(s))];
+  // --seed=K: that network seed alone (several commands can then run side by side).
+  const only1 = arg('seed') !== undefined ? Number(arg('seed')) : null;
+  if (only1 !== null && !(Number.isInteger(only1) && only1 >= 1)) throw new Error(`--seed=${arg('seed')}: allowed: a whole number ≥ 1`);
+  const seedList = only1 !== null ? [only1] : order;
   const names = arg('systems')?.split(',');
   const quick = arg('budget') === 'quick';
   const systems = RECIPE_SYSTEMS.filter((s) => !names || names.includes(s.name));
   const only = arg('recipe');
   const recipes = (['adam+lbfgs', 'second-order'] as Recipe[]).filter((r) => !only || r === only);
   if (recipes.length === 0) throw new Error(`--recipe=${only}: allowed: adam+lbfgs, second-order`);
-  console.log(`\ntraining recipes: time (s of warm start + training, after the reference solve) and steps to φA relative L2 < 1e-3, 1e-4, 1e-5; ${seeds} seed(s)${quick ? ', quick budget' : ''}`);
+  console.log(`\ntraining recipes: time (s of warm start + training, after the reference solve) and steps to φA relative L2 < 1e-3, 1e-4, 1e-5; ${only1 !== null ? `network seed ${only1}` : `${seeds} seed(s)`}${quick ? ', quick budget' : ''}`);
   const rows: string[] = ['| system | recipe | level | reached | seconds min / median / max | steps min / median / max | final φA error (median) | final F error (median, kT) |', '|---|---|---|---|---|---|---|---|'];
   for (const b of systems) {
     for (const recipe of recipes) {
       const reach: Reach[][] = LEVELS.map(() => []);
       const finals: number[] = [];
       const energies: number[] = [];
-      for (const seed of order) {
+      for (const seed of seedList) {
         const cpu0 = process.cpuUsage();
         const wall0 = performance.now();
         const r = await trainRun({ config: trainConfigSchema.parse(recipeConfig(b, recipe, seed, quick)), backend: 'wasm' });
@@ -138,7 +142,7 @@ export async function runRecipeBench(): Promise<void> {
         process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT, warm start ${warm.toFixed(1)} s, below ${firstBelow}, ${r.metrics.training.seconds.toFixed(1)} s in all; ${cost}\n`);
       }
       LEVELS.forEach((level, li) => {
-        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seeds} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} | ${li === 0 ? median(energies).toExponential(2) : ''} |`);
+        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seedList.length} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} | ${li === 0 ? median(energies).toExponential(2) : ''} |`);
       });
     }
   }

@@ -63,6 +63,19 @@ export interface SecondOrderSettings {
   firstCyclePlateau?: number;
   /** Joint iterations after the alternating cycles (on top of `iterations`). */
   jointIterations: number;
+  /**
+   * Alternating: LM iterations on a propagator's output layers alone before its LM in each
+   * cycle (absent or 0: none). For fixed hidden layers the output layer is a small set of
+   * columns (17 per 2×16 piece): each such iteration costs the Jacobian's evaluation and a
+   * tiny normal matrix, a fraction of a whole propagator's iteration. They are not counted in
+   * `iterations`; their time is in the history's seconds.
+   */
+  outputLayerIterations?: number;
+  /**
+   * Extra steps per accepted propagator LM step with the same factorisation (Fan's modified
+   * LM, numerics/levenberg-marquardt.ts LmOptions.extraSteps); absent or 0: none.
+   */
+  extraSteps?: number;
   /** λ of the field step's update: w + λ d (simple), or x̄ + λ d̄ (Anderson). */
   fieldMixing: number;
   /**
@@ -191,6 +204,16 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
     return loss > settings.lossTolerance;
   };
 
+  /** LM on one propagator's output layers alone (settings.outputLayerIterations). */
+  const solveOutputLayer = (side: 'q' | 'qDagger') => {
+    const n = settings.outputLayerIterations ?? 0;
+    if (n <= 0) return;
+    const cols = sys.outputLayerColumns(side);
+    const problem = sys.columnProblem(theta, side, cols);
+    const r = levenbergMarquardt(problem, Float64Array.from(cols, (c) => theta[c]), { maxIterations: n, damping: settings.damping });
+    theta = problem.embed(r.x);
+  };
+
   const lastMu = new Map<ResidualPart, number>();
   /** LM on one part: the whole system, or one propagator's columns in the current fields. */
   const solvePart = async (part: ResidualPart, iterations: number, plateau = 0) => {
@@ -210,7 +233,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
       // Each part resumes from the damping its previous solve ended with: after a field step
       // the problem is a nearby one, and restarting from τ·max diag(JᵀJ) would spend the
       // first iterations of every cycle re-learning μ.
-      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) && !flat(it.cost) },
+      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), extraSteps: part === 'all' ? 0 : (settings.extraSteps ?? 0), onIteration: (it, xs) => record(it.mu, embed(xs)) && !flat(it.cost) },
       yieldToEvents,
       () => hooks.shouldStop?.() ?? false,
     );
@@ -274,6 +297,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
         if (c === 1 && first > 0) perCycle = Math.max(1, Math.ceil((settings.iterations - done) / (restCycles * sides.length)));
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
+          if (side !== 'all') solveOutputLayer(side);
           await solvePart(side, Math.min(c === 0 && first > 0 ? first : perCycle, settings.iterations - done), c === 0 && first > 0 ? (settings.firstCyclePlateau ?? 0) : 0);
         }
       }

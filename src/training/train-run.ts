@@ -364,6 +364,8 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         firstCyclePlateau: tr.secondOrder.firstCyclePlateau,
         ...(tr.secondOrder.stateNodesPerBlock !== undefined ? { stateNodesPerBlock: tr.secondOrder.stateNodesPerBlock } : {}),
         jointIterations: tr.secondOrder.jointIterations,
+        outputLayerIterations: tr.secondOrder.outputLayerIterations,
+        extraSteps: tr.secondOrder.extraSteps,
         fieldMixing: tr.fieldMixing,
         fieldStep: tr.secondOrder.fieldStep,
         andersonHistory: tr.secondOrder.andersonHistory,
