@@ -26,7 +26,7 @@ async function run(firstCyclePlateau: number | undefined) {
     config.system,
     config.losses.weights,
     {
-      iterations: 40,
+      iterations: 28,
       nx: 16,
       nodesPerBlock: 8,
       damping: 'marquardt',
@@ -34,7 +34,7 @@ async function run(firstCyclePlateau: number | undefined) {
       lossTolerance: 0,
       strategy: 'alternating',
       cycles: 3,
-      firstCycleIterations: 15,
+      firstCycleIterations: 10,
       jointIterations: 0,
       fieldMixing: 0.5,
       fieldStep: 'simple',
@@ -53,13 +53,13 @@ describe('the first cycle ends where a propagator’s loss stops falling', () =>
     const none = await run(undefined);
     const zero = await run(0);
     expect(zero.fieldSteps.map((s) => s.afterIteration)).toEqual(none.fieldSteps.map((s) => s.afterIteration));
-    expect(none.fieldSteps[0].afterIteration).toBe(30);
+    expect(none.fieldSteps[0].afterIteration).toBe(20);
     expect(zero.loss).toBe(none.loss);
     // A fall of less than all but 1e-9 of the loss in 5 iterations ends the part after its 6th.
     const early = await run(1 - 1e-9);
     expect(early.fieldSteps[0].afterIteration).toBe(12);
-    expect(early.iterations).toBe(40);
-    // 28 iterations left over 2 cycles of 2 propagators: 7 each, so the second field step comes after 26.
-    expect(early.fieldSteps[1].afterIteration).toBe(26);
+    expect(early.iterations).toBe(28);
+    // 16 iterations left over 2 cycles of 2 propagators: 4 each, so the second field step comes after 20.
+    expect(early.fieldSteps[1].afterIteration).toBe(20);
   }, 60_000);
 });
