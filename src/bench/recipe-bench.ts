@@ -60,11 +60,11 @@ export const RECIPE_SYSTEMS: BenchSystem[] = [
     name: 'diblock-bA/bB1.5-chiN15',
     system: { chain: { type: 'diblock', f: 0.5, segmentRatio: 1.5 }, chiN: 15 },
     cell: { period: 'equilibrium', nx: 64, ns: 100 },
-    // Seed 3 of the shared recipe, taken apart (bench --stall-analysis): the whole loss hardly
-    // moves in q's 40 first-cycle iterations, q†'s still falls fast at the end of its 40, and
-    // ln q† is off 3–5 times more than ln q at the end (its second block, A); so a longer first
-    // cycle, ended early for a propagator whose own loss stops falling, and 40 more in all.
-    secondOrderRecipe: { training: { secondOrderIterations: 200, secondOrder: { firstCycleIterations: 60, firstCyclePlateau: 0.02, cycles: 7 } } },
+    // Seed 3, taken apart (bench --stall-analysis, docs/second-order-training.md): a longer
+    // first cycle and 200 iterations gave 3.2e-4 (shared recipe 3.7e-4); 32 contour steps per
+    // block with the shared iterations gave 8.0e-5 (kept), as at f = 0.35 the contour spacing
+    // being the limit.
+    secondOrderRecipe: { collocation: { nodesPerBlock: 32 } },
   },
   {
     name: 'homopolymer-external-field',
