@@ -361,6 +361,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         strategy: tr.secondOrder.strategy,
         cycles: tr.secondOrder.cycles,
         firstCycleIterations: tr.secondOrder.firstCycleIterations,
+        firstCyclePlateau: tr.secondOrder.firstCyclePlateau,
         ...(tr.secondOrder.stateNodesPerBlock !== undefined ? { stateNodesPerBlock: tr.secondOrder.stateNodesPerBlock } : {}),
         jointIterations: tr.secondOrder.jointIterations,
         outputLayerIterations: tr.secondOrder.outputLayerIterations,

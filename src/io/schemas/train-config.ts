@@ -193,6 +193,12 @@ export const trainConfigSchema = z
              */
             firstCycleIterations: z.number().int().min(0).max(100000).default(0),
             /**
+             * Alternating, with firstCycleIterations: a propagator's first cycle ends early once
+             * its MDE loss fell by less than this fraction over its last 5 LM iterations (0:
+             * never); the later cycles share the iterations saved.
+             */
+            firstCyclePlateau: z.number().min(0).lt(1).default(0),
+            /**
              * Alternating: contour steps per block of the φ the field steps read (the networks
              * evaluated there, values only; default nodesPerBlock). Even.
              */
