@@ -21,9 +21,11 @@ function unrepresentableNumber(text: string): string | null {
     if (!m) continue;
     const literal = m[0];
     const v = Number(literal);
-    const line = text.slice(0, i).split('\n').length;
-    if (!Number.isFinite(v)) return `line ${line}: the number ${literal} is beyond the range of a double (it would read as Infinity); allowed: finite numbers`;
-    if (v === 0 && /[1-9]/.test(literal.replace(/[eE].*$/, ''))) return `line ${line}: the number ${literal} is too small to represent (it would read as 0); allowed: numbers ≥ 1e-300 in size, or 0`;
+    // The line is counted only for a message: counting it for every number made reading a
+    // solution file of a few hundred kB take seconds (quadratic in the file's length).
+    const line = () => text.slice(0, i).split('\n').length;
+    if (!Number.isFinite(v)) return `line ${line()}: the number ${literal} is beyond the range of a double (it would read as Infinity); allowed: finite numbers`;
+    if (v === 0 && /[1-9]/.test(literal.replace(/[eE].*$/, ''))) return `line ${line()}: the number ${literal} is too small to represent (it would read as 0); allowed: numbers ≥ 1e-300 in size, or 0`;
     i += literal.length - 1;
   }
   return null;

@@ -105,16 +105,17 @@ describe('films between walls', () => {
   it('keeps the periodic cell’s checks: fourth order in the contour step, Q from both ends, incompressible up to the walls', () => {
     const system = diblock(0.3, 20);
     const chain = buildChain(system.chain);
-    const cell = new FilmCell(4, 64, walls(0.5, -0.3));
+    const cell = new FilmCell(4, 32, walls(0.5, -0.3));
     const at = (ns: number) => solveFixedCell({ system, cell, contour: ns, options: { tolerance: 1e-12 } });
     const [a, b, c] = [at(100), at(200), at(400)];
     // Richardson-extrapolated splitting (Ranjan, Qin & Morse 2008): the error falls towards
-    // sixteen-fold per halving of the step (measured 13.2 from 100 → 200 → 400 steps here).
+    // sixteen-fold per halving of the step (measured 13.2 from 100 → 200 → 400 steps here, on 32
+    // points as on 64: the ratio is of the contour error, so the smaller grid serves).
     const ratio = (a.freeEnergy - b.freeEnergy) / (b.freeEnergy - c.freeEnergy);
     expect(ratio).toBeGreaterThan(10);
     expect(ratio).toBeLessThan(20);
     expect(Math.abs(c.Q / c.QDagger - 1)).toBeLessThan(1e-11);
-    for (let j = 0; j < 64; j++) expect(Math.abs(c.phi.A[j] + c.phi.B[j] - 1)).toBeLessThan(1e-8);
+    for (let j = 0; j < cell.n; j++) expect(Math.abs(c.phi.A[j] + c.phi.B[j] - 1)).toBeLessThan(1e-8);
     // Both ends of an asymmetric chain agree in arbitrary fields too (common practice, no source).
     const solver = new PropagatorSolver(chain, cell, contourWithTotal(chain, 100));
     solver.setFields({ A: Float64Array.from(cell.x, (z) => Math.sin(z)), B: Float64Array.from(cell.x, (z) => Math.cos(2 * z)) });

@@ -2,18 +2,34 @@
  * `mesofield train` on a surrogate config, `predict` (range refusal, extrapolation warning,
  * JSON and CSV output, bad flags) and `report` on the checkpoint, run as a user would.
  * The surrogate here is tiny (3 anchors, 2 held-out points): these tests check the commands,
- * tests/surrogate/surrogate.test.ts checks the accuracy.
+ * tests/surrogate/surrogate.test.ts checks the accuracy. One predict runs as a process (its
+ * start-up, output and exit code as a user sees them, and the Ctrl-C case); the others run
+ * through the same command-line function in this process (src/cli/run-cli.ts, as the fault
+ * suite does), because each predict process spends about 1.9 s of CPU loading tfjs (measured)
+ * before it reads a flag.
  */
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { runCli as runCliInProcess } from '../../src/cli/run-cli.js';
+import { resetStop } from '../../src/runtime/stop.js';
 import { runCli } from '../helpers/run-cli.js';
 import { stopAt } from '../faults/signal-process.js';
 
 const work = mkdtempSync(join(tmpdir(), 'mesofield-surrogate-cli-'));
 const configPath = join(work, 'tiny.surrogate.json');
 const ck = join(work, 'ck');
+
+/** The command line in this process, output captured (tfjs then loads once for the file). */
+async function here(args: string[]) {
+  resetStop();
+  try {
+    return await runCliInProcess(args, { capture: true });
+  } finally {
+    resetStop();
+  }
+}
 
 describe('surrogate commands', () => {
   let train: ReturnType<typeof runCli>;
@@ -66,12 +82,12 @@ describe('surrogate commands', () => {
     expect(r.stderr).toMatch(/predict: loaded in [\d.]+ s .*; query [\d.]+ ms/);
   });
 
-  it('predict refuses a point outside the trained range (exit 2) and warns with --allow-extrapolation', () => {
-    const out = runCli(['predict', ck, '--chiN', '18']);
+  it('predict refuses a point outside the trained range (exit 2) and warns with --allow-extrapolation', async () => {
+    const out = await here(['predict', ck, '--chiN', '18']);
     expect(out.code).toBe(2);
     expect(out.stderr).toMatch(/--chiN: got 18; the surrogate was trained for χN in \[13, 17\]/);
     expect(out.stderr).toMatch(/--allow-extrapolation/);
-    const ex = runCli(['predict', ck, '--chiN', '18', '--allow-extrapolation', '--json']);
+    const ex = await here(['predict', ck, '--chiN', '18', '--allow-extrapolation', '--json']);
     expect(ex.code, ex.stderr).toBe(0);
     expect(ex.stderr).toMatch(/warning: extrapolating: --chiN: got 18/);
     const j = JSON.parse(ex.stdout);
@@ -80,23 +96,23 @@ describe('surrogate commands', () => {
     expect(j.phiA.length).toBe(32);
   });
 
-  it('predict writes prediction.json and profile.csv into --out DIR and checks its flags', () => {
+  it('predict writes prediction.json and profile.csv into --out DIR and checks its flags', async () => {
     const json = join(work, 'p', 'prediction.json');
     const csv = join(work, 'p5', 'profile.csv');
-    expect(runCli(['predict', ck, '--chiN', '14', '--out', join(work, 'p')]).code).toBe(0);
+    expect((await here(['predict', ck, '--chiN', '14', '--out', join(work, 'p')])).code).toBe(0);
     const j = JSON.parse(readFileSync(json, 'utf8'));
     expect(j.point.chiN).toBe(14);
     expect(j.trainedRange).toEqual([{ name: 'chiN', min: 13, max: 17 }]);
-    expect(runCli(['predict', ck, '--chiN', '14', '--points', '5', '--out', join(work, 'p5')]).code).toBe(0);
+    expect((await here(['predict', ck, '--chiN', '14', '--points', '5', '--out', join(work, 'p5')])).code).toBe(0);
     const lines = readFileSync(csv, 'utf8').trim().split('\n');
     expect(lines[0]).toBe('x,t,phiA,phiB,wA,wB');
     expect(lines.length).toBe(6);
     // Five points are read off the 32-point solve by trigonometric interpolation: the JSON of 32 points holds the same φA at x = 0.
     expect(Number(lines[1].split(',')[2])).toBeCloseTo(j.phiA[0], 10);
-    const missing = runCli(['predict', ck]);
+    const missing = await here(['predict', ck]);
     expect(missing.code).toBe(2);
     expect(missing.stderr).toMatch(/--chiN: missing; the surrogate was trained for χN in \[13, 17\]: give a value/);
-    const bad = runCli(['predict', ck, '--chiN', '15', '--points', '0']);
+    const bad = await here(['predict', ck, '--chiN', '15', '--points', '0']);
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/--points: got 0; allowed: a whole number from 2 to 8192/);
   });
