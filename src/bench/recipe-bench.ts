@@ -8,11 +8,13 @@
  * against the spectral reference first fell below 1e-3, 1e-4 and 1e-5: min / median / max
  * over the seeds that reached it, and how many did. Errors are measured every 100 Adam
  * steps, after every L-BFGS cycle, and every 5 LM iterations (so the times are upper bounds
- * at that resolution). Options: --seeds=N (default 5), --systems=name,name (default all),
- * --budget=quick (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only).
+ * at that resolution). Options: --seeds=N (default 5), --seed=K (network seed K alone),
+ * --seed-order=3,2 (these seeds first), --systems=name,name (default all), --budget=quick
+ * (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only).
  * Besides the levels: the median final φA error and F error (kT per chain) over the seeds.
  * The machine is shared while it runs: timings are wall-clock on whatever load there is.
  */
+import { loadavg } from 'node:os';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { TrainConfigInput } from '../io/schemas/train-config.js';
 import { trainRun } from '../training/train-run.js';
@@ -26,13 +28,34 @@ interface BenchSystem {
   cell: TrainConfigInput['cell'];
   /** Cold start (no reference fit): a chain in a prescribed field. */
   cold?: boolean;
+  /**
+   * This system's changes to the second-order recipe, merged into its config (objects
+   * recursively): chosen by measurement for the system (docs/second-order-training.md).
+   */
+  secondOrderRecipe?: Record<string, unknown>;
+}
+
+/** a with b merged in (objects recursively; arrays and scalars of b replace a's). */
+export function mergedConfig(a: unknown, b: unknown): unknown {
+  if (b === null || typeof b !== 'object' || Array.isArray(b) || a === null || typeof a !== 'object' || Array.isArray(a)) return b;
+  const out: Record<string, unknown> = { ...(a as Record<string, unknown>) };
+  for (const [k, v] of Object.entries(b as Record<string, unknown>)) out[k] = mergedConfig(out[k], v);
+  return out;
 }
 
 export const RECIPE_SYSTEMS: BenchSystem[] = [
   { name: 'diblock-f0.5-chiN15', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 'equilibrium', nx: 64, ns: 100 } },
   { name: 'diblock-f0.35-chiN22', system: { chain: { type: 'diblock', f: 0.35 }, chiN: 22 }, cell: { period: 'equilibrium', nx: 64, ns: 120 } },
   { name: 'triblock-ABA-chiN20', system: { chain: { type: 'triblock', f: 0.5 }, chiN: 20 }, cell: { period: 'equilibrium', nx: 64, ns: 120 } },
-  { name: 'diblock-bA/bB1.5-chiN15', system: { chain: { type: 'diblock', f: 0.5, segmentRatio: 1.5 }, chiN: 15 }, cell: { period: 'equilibrium', nx: 64, ns: 100 } },
+  {
+    name: 'diblock-bA/bB1.5-chiN15',
+    system: { chain: { type: 'diblock', f: 0.5, segmentRatio: 1.5 }, chiN: 15 },
+    cell: { period: 'equilibrium', nx: 64, ns: 100 },
+    // Seed 3 of the shared recipe, taken apart (bench --stall-analysis): q's loss flat after
+    // 15 of its 40 first-cycle iterations, ln q† off 3–5 times more than ln q at the end (its
+    // second block, A); so q† gets the first cycle's iterations q does not need, and 40 more in all.
+    secondOrderRecipe: { training: { secondOrderIterations: 200, secondOrder: { firstCycleIterations: 60, firstCyclePlateau: 0.02, cycles: 7 } } },
+  },
   {
     name: 'homopolymer-external-field',
     system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2, mode: 1, offset: 0 } } },
@@ -54,12 +77,13 @@ export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick
       training: { adamSteps: b.cold ? 600 : 300, learningRate: b.cold ? 0.002 : 0.001, evaluateEvery: 100, lbfgsIterations: quick ? 600 : 1500, lbfgsCycles: quick ? 2 : 5 },
     };
   }
-  return {
+  const shared: TrainConfigInput = {
     ...base,
     networks: { field: { hidden: [], fourierModes: 12, seed }, propagator: { hidden: [16, 16], seed } },
     collocation: { nx: 64, nodesPerBlock: 16, random: 0 },
-    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson' } },
+    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson', extraSteps: 5 } },
   };
+  return quick || !b.secondOrderRecipe ? shared : (mergedConfig(shared, b.secondOrderRecipe) as TrainConfigInput);
 }
 
 interface Reach {
@@ -78,21 +102,32 @@ function stats(v: number[]): string {
 export async function runRecipeBench(): Promise<void> {
   const arg = (k: string) => process.argv.find((a) => a.startsWith(`--${k}=`))?.slice(k.length + 3);
   const seeds = Number(arg('seeds') ?? 5);
+  // --seed-order=3,2: these network seeds first (then the rest of 1..seeds), so that a run cut short has the seeds asked for.
+  const first = (arg('seed-order') ?? '').split(',').filter(Boolean).map(Number);
+  const order = [...first.filter((s) => s >= 1 && s <= seeds), ...Array.from({ length: seeds }, (_, i) => i + 1).filter((s) => !first.includes(s))];
+  // --seed=K: that network seed alone (several commands can then run side by side).
+  const only1 = arg('seed') !== undefined ? Number(arg('seed')) : null;
+  if (only1 !== null && !(Number.isInteger(only1) && only1 >= 1)) throw new Error(`--seed=${arg('seed')}: allowed: a whole number ≥ 1`);
+  const seedList = only1 !== null ? [only1] : order;
   const names = arg('systems')?.split(',');
   const quick = arg('budget') === 'quick';
   const systems = RECIPE_SYSTEMS.filter((s) => !names || names.includes(s.name));
   const only = arg('recipe');
   const recipes = (['adam+lbfgs', 'second-order'] as Recipe[]).filter((r) => !only || r === only);
   if (recipes.length === 0) throw new Error(`--recipe=${only}: allowed: adam+lbfgs, second-order`);
-  console.log(`\ntraining recipes: time (s of warm start + training, after the reference solve) and steps to φA relative L2 < 1e-3, 1e-4, 1e-5; ${seeds} seed(s)${quick ? ', quick budget' : ''}`);
+  console.log(`\ntraining recipes: time (s of warm start + training, after the reference solve) and steps to φA relative L2 < 1e-3, 1e-4, 1e-5; ${only1 !== null ? `network seed ${only1}` : `${seeds} seed(s)`}${quick ? ', quick budget' : ''}`);
   const rows: string[] = ['| system | recipe | level | reached | seconds min / median / max | steps min / median / max | final φA error (median) | final F error (median, kT) |', '|---|---|---|---|---|---|---|---|'];
   for (const b of systems) {
     for (const recipe of recipes) {
       const reach: Reach[][] = LEVELS.map(() => []);
       const finals: number[] = [];
       const energies: number[] = [];
-      for (let seed = 1; seed <= seeds; seed++) {
+      for (const seed of seedList) {
+        const cpu0 = process.cpuUsage();
+        const wall0 = performance.now();
         const r = await trainRun({ config: trainConfigSchema.parse(recipeConfig(b, recipe, seed, quick)), backend: 'wasm' });
+        const cpu = process.cpuUsage(cpu0);
+        const cost = `${((cpu.user + cpu.system) / 1e6).toFixed(0)} s CPU, ${((performance.now() - wall0) / 1000).toFixed(0)} s wall, load average ${loadavg()[0].toFixed(1)} at the end`;
         finals.push(r.metrics.errors.phiA.relativeL2);
         energies.push(r.metrics.errors.freeEnergyError);
         const warm = r.metrics.training.warmStart?.seconds ?? 0;
@@ -104,10 +139,10 @@ export async function runRecipeBench(): Promise<void> {
           const h = r.history.find((e) => e.phiError !== undefined && e.phiError < level);
           return `${level}: ${h ? `${(warm + h.seconds).toFixed(1)} s` : '—'}`;
         }).join(', ');
-        process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT, warm start ${warm.toFixed(1)} s, below ${firstBelow}, ${r.metrics.training.seconds.toFixed(1)} s in all\n`);
+        process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT, warm start ${warm.toFixed(1)} s, below ${firstBelow}, ${r.metrics.training.seconds.toFixed(1)} s in all; ${cost}\n`);
       }
       LEVELS.forEach((level, li) => {
-        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seeds} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} | ${li === 0 ? median(energies).toExponential(2) : ''} |`);
+        rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seedList.length} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} | ${li === 0 ? median(energies).toExponential(2) : ''} |`);
       });
     }
   }

@@ -13,9 +13,10 @@
  * asked, see network-least-squares-bench.ts), `--discretisation-floor` (what the recipe's field
  * modes and contour nodes alone cost in φ_A; only when asked, see discretisation-floor.ts),
  * `--film-field-floor` (the same two floors for a film's linear field network; only when asked,
- * see film-field-floor.ts).
+ * see film-field-floor.ts), `--stall-analysis` (where one run's error sits: field or propagators,
+ * which block, interface or domain; only when asked, see stall-analysis.ts).
  */
-const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--network-least-squares', '--discretisation-floor', '--film-field-floor'].filter((p) => process.argv.includes(p));
+const parts = ['--step-profile', '--trainer', '--inverse', '--surrogate', '--startup', '--recipes', '--propagator-floor', '--lm-profile', '--network-least-squares', '--discretisation-floor', '--film-field-floor', '--stall-analysis'].filter((p) => process.argv.includes(p));
 const want = (p: string) => parts.length === 0 || parts.includes(p);
 
 if (parts.length === 0) {
@@ -63,6 +64,11 @@ if (parts.includes('--discretisation-floor')) {
 if (parts.includes('--film-field-floor')) {
   const { runFilmFieldFloor } = await import('./film-field-floor.js');
   runFilmFieldFloor();
+}
+// Opt-in only: one training run of a bench system taken apart (minutes).
+if (parts.includes('--stall-analysis')) {
+  const { runStallAnalysis } = await import('./stall-analysis.js');
+  await runStallAnalysis();
 }
 // Opt-in only: it trains 2 recipes × 5 systems × 5 seeds (an hour or more here).
 if (parts.includes('--recipes')) {

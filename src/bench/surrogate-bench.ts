@@ -77,6 +77,7 @@ export async function runSurrogateBench(): Promise<void> {
     ['anchors only, fit + 30 physics rounds', {}, { rounds: 30 }],
     ['anchors + 16 extra solves, fit only', { extraSolves: 16 }, { rounds: 0 }],
     ['anchors + 16 extra solves, fit + 10 rounds', { extraSolves: 16 }, {}],
+    ['anchors + 8 adaptive solves, fit only', { adaptiveSolves: 8 }, { rounds: 0 }],
   ];
   for (const [label, ws, tr] of variants) {
     const v = await surrogateRun({ config: { ...config, warmStart: { ...config.warmStart, ...ws }, training: { ...config.training, ...tr } } });

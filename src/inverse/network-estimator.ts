@@ -75,7 +75,7 @@ export interface NetworkEstimatorSettings {
    * dataWeight, not the Adam/L-BFGS budgets.
    */
   strategy?: 'adam-lbfgs' | 'least-squares';
-  /** Joint LM iterations of the 'least-squares' strategy with χN free (default 60; 8 with χN held come first). */
+  /** Joint LM iterations of the 'least-squares' strategy with χN free (default 100; 8 with χN held come first). */
   secondOrderIterations?: number;
   /** λ of the data rows of the 'least-squares' strategy (default 30). */
   dataWeight?: number;
@@ -204,11 +204,11 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
         ...LEAST_SQUARES_RECIPE,
         chain: s.chain,
         seed,
-        iterations: s.secondOrderIterations ?? 60,
+        iterations: s.secondOrderIterations ?? 100,
         dataWeight: s.dataWeight ?? 30,
         resolution: s.resolution,
         shouldStop: stopRequested,
-        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 60), chiN),
+        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 100), chiN),
       }, start.x);
       if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
       runs.push({ seed, chiN: run.chiN, trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });

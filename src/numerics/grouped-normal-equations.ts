@@ -252,3 +252,42 @@ export function shiftedGroups(groups: readonly ResidualGroup[], first: number): 
   const shift = (c: Int32Array) => c.map((v) => v - first);
   return groups.map((g) => ({ ...g, columns: shift(g.columns), ...(g.factored ? { factored: { ...g.factored, columns: shift(g.factored.columns) } } : {}) }));
 }
+
+/**
+ * g = Jᵀr for the groups' Jacobian and other residuals r (rs[i]: one array per group, the
+ * group's rows in order): the gradient of ½‖r‖² through a Jacobian taken elsewhere. Costs
+ * rows·columns per group, no normal matrix.
+ */
+export function groupedGradient(n: number, groups: readonly ResidualGroup[], rs: readonly Float64Array[]): Float64Array {
+  const g = new Float64Array(n);
+  groups.forEach((grp, gi) => {
+    const r = rs[gi];
+    const k = grp.columns.length;
+    const m = grp.r.length;
+    if (r.length !== m) throw new RangeError(`groupedGradient: group ${gi} has ${m} rows, its residuals ${r.length}`);
+    const gl = new Float64Array(k);
+    for (let i = 0; i < m; i++) {
+      const ri = r[i];
+      if (ri === 0) continue;
+      const o = i * k;
+      for (let a = 0; a < k; a++) gl[a] += grp.J[o + a] * ri;
+    }
+    for (let a = 0; a < k; a++) g[grp.columns[a]] += gl[a];
+    const f = grp.factored;
+    if (!f) return;
+    const t = f.t;
+    const kf = f.columns.length;
+    const Cr = new Float64Array(t);
+    for (let i = 0; i < m; i++) {
+      const ri = r[i];
+      if (ri === 0) continue;
+      for (let u = 0; u < t; u++) Cr[u] += f.C[i * t + u] * ri;
+    }
+    for (let u = 0; u < t; u++) {
+      const cu = Cr[u];
+      if (cu === 0) continue;
+      for (let a = 0; a < kf; a++) g[f.columns[a]] += f.E[u * kf + a] * cu;
+    }
+  });
+  return g;
+}

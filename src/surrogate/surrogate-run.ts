@@ -26,6 +26,7 @@ import { saveSurrogate } from './surrogate-checkpoint.js';
 import type { SurrogateHistoryEntry } from './surrogate-checkpoint.js';
 import { SurrogateModel } from './surrogate-model.js';
 import { SurrogateTrainer } from './surrogate-training.js';
+import { adaptivePoints } from './adaptive-points.js';
 import type { ReferencePoint } from './surrogate-training.js';
 
 export interface SurrogateRunOptions {
@@ -92,7 +93,7 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
 
   const anchorPoints = space.anchors();
   const heldPoints = space.heldOut(config.evaluation.random, config.evaluation.seed);
-  const totalSolves = anchorPoints.length + heldPoints.length + config.warmStart.extraSolves;
+  const totalSolves = anchorPoints.length + heldPoints.length + config.warmStart.extraSolves + config.warmStart.adaptiveSolves;
   let solvesDone = 0;
   const solved = (role: string, seconds: number) => opts.onSolve?.(++solvesDone, totalSolves, role, seconds);
   stage(`reference solves at ${anchorPoints.length} anchors (equilibrium period)`);
@@ -144,6 +145,30 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     const trainer = new SurrogateTrainer(tf, model, config);
     stage(`fitting the field network to ${anchors.length + extra.length} reference solutions (${handle.backend} backend, tfjs ${handle.tfjsVersion})`);
     const fit = await trainer.fit([...anchors, ...extra], opts.onFitStep);
+    let adaptive: SurrogateMetrics['timing']['adaptiveSolves'];
+    if (ws.adaptiveSolves > 0) {
+      // Adaptive sampling (adaptive-points.ts): reference solves where the fitted network's
+      // SCFT residual is largest, then the fit continued on every reference solution.
+      const picked = adaptivePoints(space, model, ws.adaptiveSolves, ws.adaptiveCandidates, childSeed(config.training.seed, 0xad));
+      stage(`${picked.length} adaptive reference solves where the network's residual is largest (of ${ws.adaptiveCandidates} candidates; largest max|d|/χN ${picked[0]?.residual.toExponential(2)})`);
+      const [added, addedSeconds] = await timedAsync(() =>
+        solvesBetweenStops(
+          picked.map((r) => r.point),
+          (p) => {
+            const [solution, s] = timed(() => solveReference(space, config, p, { period: model.period(p), initial: nearest(space, anchors, p).solution.w, role: 'adaptive fit point' }));
+            solved('adaptive fit point', s);
+            return { point: p, solution };
+          },
+        ),
+      );
+      extra = [...extra, ...added];
+      stage(`continuing the fit on ${anchors.length + extra.length} reference solutions (${ws.adaptiveIterations} iterations)`);
+      const t1 = performance.now();
+      fit.finalLoss = await trainer.refit([...anchors, ...extra], ws.adaptiveIterations, opts.onFitStep);
+      const refitSeconds = (performance.now() - t1) / 1000;
+      fit.points = anchors.length + extra.length;
+      adaptive = { count: added.length, seconds: addedSeconds, fitSeconds: refitSeconds, points: added.map((a) => a.point) };
+    }
     const tr = config.training;
     const fitEntry = { round: 0, residual: null, fitLoss: fit.finalLoss, seconds: elapsed(), ...(tr.evaluateEvery > 0 ? { phiError: evaluate() } : {}) };
     history.push(fitEntry);
@@ -171,7 +196,7 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
     const queries = heldPoints.map((p) => timed(() => model.solutions([p]))[1]);
     const referenceSolveSeconds = median(anchorTimes);
     const querySeconds = median(queries);
-    const buildSeconds = anchorSeconds + extraSeconds + fit.seconds + roundsSeconds;
+    const buildSeconds = anchorSeconds + extraSeconds + fit.seconds + (adaptive ? adaptive.seconds + adaptive.fitSeconds : 0) + roundsSeconds;
     const metrics: SurrogateMetrics = {
       kind: 'surrogate-metrics',
     version: SURROGATE_METRICS_VERSION,
@@ -186,7 +211,8 @@ export async function surrogateRun(opts: SurrogateRunOptions): Promise<Surrogate
         querySeconds,
         speedup: referenceSolveSeconds / querySeconds,
         anchorSeconds,
-        extraSolves: { count: extra.length, seconds: extraSeconds },
+        extraSolves: { count: extra.length - (adaptive?.count ?? 0), seconds: extraSeconds },
+        ...(adaptive ? { adaptiveSolves: adaptive } : {}),
         fitSeconds: fit.seconds,
         roundsSeconds,
         buildSeconds,

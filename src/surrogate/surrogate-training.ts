@@ -148,6 +148,21 @@ export class SurrogateTrainer {
     return { method: ws.method, adamSteps: ws.adamSteps, lbfgsIterations: ws.lbfgsIterations, points: data.length, finalLoss, seconds };
   }
 
+  /**
+   * The fit continued (from the network's current parameters) on more data: `iterations` LM
+   * iterations, or L-BFGS iterations with 'adam-lbfgs' (no Adam steps: the network is already
+   * near). The final fit loss.
+   */
+  async refit(data: ReferencePoint[], iterations: number, onStep?: (step: number, loss: number) => void): Promise<number> {
+    return this.fitFields(
+      data.map((d) => ({ point: d.point, w: d.solution.w })),
+      { steps: 0, learningRate: 0 },
+      iterations,
+      onStep,
+      iterations,
+    );
+  }
+
   /** Physics round number `index` (seeded by it) at the anchors and freshly drawn points. */
   async round(index: number, anchors: ParameterPoint[]): Promise<RoundResult> {
     const tr = this.config.training;

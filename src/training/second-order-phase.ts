@@ -53,8 +53,29 @@ export interface SecondOrderSettings {
   cycles: number;
   /** Alternating: LM iterations of each propagator in the first cycle (0: the same share as the other cycles). */
   firstCycleIterations: number;
+  /**
+   * Alternating: a propagator's first-cycle LM ends early once its MDE loss fell by less than
+   * this fraction over its last 5 iterations (0: never). After a warm start one propagator can
+   * be converged in a few iterations while the other needs many (f = 0.35, χN = 22: q's loss
+   * flat after 15 of its 40, q†'s still falling fast at 40); the iterations saved go to the
+   * later cycles.
+   */
+  firstCyclePlateau?: number;
   /** Joint iterations after the alternating cycles (on top of `iterations`). */
   jointIterations: number;
+  /**
+   * Alternating: LM iterations on a propagator's output layers alone before its LM in each
+   * cycle (absent or 0: none). For fixed hidden layers the output layer is a small set of
+   * columns (17 per 2×16 piece): each such iteration costs the Jacobian's evaluation and a
+   * tiny normal matrix, a fraction of a whole propagator's iteration. They are not counted in
+   * `iterations`; their time is in the history's seconds.
+   */
+  outputLayerIterations?: number;
+  /**
+   * Extra steps per accepted propagator LM step with the same factorisation (Fan's modified
+   * LM, numerics/levenberg-marquardt.ts LmOptions.extraSteps); absent or 0: none.
+   */
+  extraSteps?: number;
   /** λ of the field step's update: w + λ d (simple), or x̄ + λ d̄ (Anderson). */
   fieldMixing: number;
   /**
@@ -183,18 +204,36 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
     return loss > settings.lossTolerance;
   };
 
+  /** LM on one propagator's output layers alone (settings.outputLayerIterations). */
+  const solveOutputLayer = (side: 'q' | 'qDagger') => {
+    const n = settings.outputLayerIterations ?? 0;
+    if (n <= 0) return;
+    const cols = sys.outputLayerColumns(side);
+    const problem = sys.columnProblem(theta, side, cols);
+    const r = levenbergMarquardt(problem, Float64Array.from(cols, (c) => theta[c]), { maxIterations: n, damping: settings.damping });
+    theta = problem.embed(r.x);
+  };
+
   const lastMu = new Map<ResidualPart, number>();
   /** LM on one part: the whole system, or one propagator's columns in the current fields. */
-  const solvePart = async (part: ResidualPart, iterations: number) => {
+  const solvePart = async (part: ResidualPart, iterations: number, plateau = 0) => {
     const problem = sys.partProblem(theta, part);
     const { first, embed } = problem;
+    const PLATEAU_WINDOW = 5;
+    const costs: number[] = [];
+    const flat = (cost: number) => {
+      costs.push(cost);
+      if (plateau <= 0 || costs.length <= PLATEAU_WINDOW) return false;
+      const before = costs[costs.length - 1 - PLATEAU_WINDOW];
+      return before - cost < plateau * before;
+    };
     const r = await levenbergMarquardtYielding(
       problem,
       theta.slice(first, first + problem.size),
       // Each part resumes from the damping its previous solve ended with: after a field step
       // the problem is a nearby one, and restarting from τ·max diag(JᵀJ) would spend the
       // first iterations of every cycle re-learning μ.
-      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), onIteration: (it, xs) => record(it.mu, embed(xs)) },
+      { maxIterations: iterations, damping: settings.damping, initialMu: lastMu.get(part), extraSteps: part === 'all' ? 0 : (settings.extraSteps ?? 0), onIteration: (it, xs) => record(it.mu, embed(xs)) && !flat(it.cost) },
       yieldToEvents,
       () => hooks.shouldStop?.() ?? false,
     );
@@ -250,14 +289,16 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
       // moves the fields by the propagators' error (measured at f = 0.35, χN = 22: max |d|
       // stayed near 1 kT and φ_A drifted away, docs/second-order-training.md).
       const first = settings.firstCycleIterations > 0 ? Math.min(settings.firstCycleIterations, Math.floor(settings.iterations / sides.length)) : 0;
-      const rest = first > 0 ? settings.iterations - first * sides.length : settings.iterations;
       const restCycles = first > 0 ? Math.max(1, settings.cycles - 1) : settings.cycles;
-      const perCycle = Math.max(1, Math.ceil(rest / (restCycles * sides.length)));
+      // The later cycles share what the first left (all of it when the first has no length of its own).
+      let perCycle = Math.max(1, Math.ceil(settings.iterations / (restCycles * sides.length)));
       for (let c = 0; c < settings.cycles && !stopped && done < settings.iterations; c++) {
         if (c > 0 && nets.field) fieldStep();
+        if (c === 1 && first > 0) perCycle = Math.max(1, Math.ceil((settings.iterations - done) / (restCycles * sides.length)));
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
-          await solvePart(side, Math.min(c === 0 && first > 0 ? first : perCycle, settings.iterations - done));
+          if (side !== 'all') solveOutputLayer(side);
+          await solvePart(side, Math.min(c === 0 && first > 0 ? first : perCycle, settings.iterations - done), c === 0 && first > 0 ? (settings.firstCyclePlateau ?? 0) : 0);
         }
       }
       if (!stopped && settings.jointIterations > 0) {

@@ -118,4 +118,41 @@ describe('ScftResidualSystem (float64 residuals and Jacobian of the SCFT equatio
     expect(sys.evaluate(x0, false).cost).toBe(new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit).evaluate(x0, false).cost);
     expect(again.cost).not.toBe(sys.evaluate(x0, false).cost);
   });
+  it('one propagator’s part: its gradient through the last Jacobian, and its output layer’s problem, equal the definitions', async () => {
+    const { nets, config, x0 } = await setup({ type: 'diblock', f: 0.4 }, 14, true);
+    const sys = new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit);
+    for (const side of ['q', 'qDagger'] as const) {
+      const { first, count } = sys.columnsOf(side);
+      const problem = sys.partProblem(x0, side);
+      const xs = x0.slice(first, first + count);
+      const lin = problem.linearise(xs);
+      if (lin.kind !== 'normal') throw new Error('expected normal equations');
+      // At the linearisation point: Jᵀr itself.
+      const g0 = problem.gradientWithLastJacobian!(xs);
+      for (let a = 0; a < count; a++) expect(g0[a]).toBeCloseTo(lin.g[a], 12);
+      // At a moved point: the old J (entries read by their definition) times the new residuals.
+      const moved = Float64Array.from(xs, (v, i) => v + 0.01 * Math.cos(i));
+      const oldGroups = sys.evaluate(x0, true, side).groups!;
+      const full = Float64Array.from(x0);
+      full.set(moved, first);
+      const newR = sys.evaluate(full, true, side).groups!.map((g) => g.r);
+      const g1 = problem.gradientWithLastJacobian!(moved);
+      for (const a of [0, 5, Math.floor(count / 2), count - 1]) {
+        let ga = 0;
+        oldGroups.forEach((g, gi) => {
+          for (let i = 0; i < g.r.length; i++) ga += groupJacobianEntry(g, i, first + a) * newR[gi][i];
+        });
+        expect(g1[a]).toBeCloseTo(ga, 12);
+      }
+      // The output layers' problem: the part's g and diagonal on those columns.
+      const cols = sys.outputLayerColumns(side);
+      expect(cols.length).toBe(nets[side === 'q' ? 'q' : 'qDagger'].pieces.length * 5);
+      const sub = sys.columnProblem(x0, side, cols).linearise(Float64Array.from(cols, (c) => x0[c]));
+      if (sub.kind !== 'normal') throw new Error('expected normal equations');
+      cols.forEach((c, k) => {
+        expect(sub.g[k]).toBeCloseTo(lin.g[c - first], 12);
+        expect(sub.A[k * cols.length + k]).toBeCloseTo(lin.A[(c - first) * count + (c - first)], 12);
+      });
+    }
+  });
 });

@@ -92,3 +92,50 @@ describe('levenbergMarquardt', () => {
     expect(r.iterations).toBe(3);
   });
 });
+
+/** The problem with J kept from its last linearisation, for Fan's extra steps. */
+function withLastJacobian(n: number, m: number, r: (x: Float64Array) => Float64Array, J: (x: Float64Array) => Float64Array): LeastSquaresProblem {
+  let last: Float64Array | null = null;
+  const base = denseProblem(n, m, r, J);
+  return {
+    ...base,
+    linearise: (x) => {
+      last = J(x);
+      return base.linearise(x);
+    },
+    gradientWithLastJacobian: (x) => {
+      const rx = r(x);
+      const g = new Float64Array(n);
+      for (let i = 0; i < m; i++) for (let a = 0; a < n; a++) g[a] += last![i * n + a] * rx[i];
+      return g;
+    },
+  };
+}
+
+// Fan's modified LM (extra steps with the same factorisation): the same minimum, certified
+// values of NIST StRD Misra1a (from memory, as above) and Rosenbrock's (1, 1).
+describe('levenbergMarquardt with extra steps', () => {
+  it('reaches the certified Misra1a parameters and Rosenbrock’s minimum in no more iterations', () => {
+    const misraR = (b: Float64Array) => Float64Array.from(misraX, (x, i) => b[0] * (1 - Math.exp(-b[1] * x)) - misraY[i]);
+    const misraJ = (b: Float64Array) => {
+      const Jm = new Float64Array(28);
+      misraX.forEach((x, i) => {
+        Jm[2 * i] = 1 - Math.exp(-b[1] * x);
+        Jm[2 * i + 1] = b[0] * x * Math.exp(-b[1] * x);
+      });
+      return Jm;
+    };
+    let taken = 0;
+    const plain = levenbergMarquardt(misra, new Float64Array([500, 1e-4]), { maxIterations: 500, gradientTolerance: 1e-9 });
+    const extra = levenbergMarquardt(withLastJacobian(2, 14, misraR, misraJ), new Float64Array([500, 1e-4]), { maxIterations: 500, gradientTolerance: 1e-9, extraSteps: 2, onIteration: (it) => void (taken += it.extraSteps ?? 0) });
+    expect(taken).toBeGreaterThan(0);
+    expect(Math.abs(extra.x[0] / 2.3894212918e2 - 1)).toBeLessThan(1e-7);
+    expect(Math.abs(extra.x[1] / 5.5015643181e-4 - 1)).toBeLessThan(1e-7);
+    expect(extra.iterations).toBeLessThanOrEqual(plain.iterations);
+    const rosR = (x: Float64Array) => new Float64Array([10 * (x[1] - x[0] * x[0]), 1 - x[0]]);
+    const rosJ = (x: Float64Array) => new Float64Array([-20 * x[0], 10, -1, 0]);
+    const ros = levenbergMarquardt(withLastJacobian(2, 2, rosR, rosJ), new Float64Array([-1.2, 1]), { maxIterations: 200, costTolerance: 1e-24, extraSteps: 1 });
+    expect(Math.abs(ros.x[0] - 1)).toBeLessThan(1e-8);
+    expect(Math.abs(ros.x[1] - 1)).toBeLessThan(1e-8);
+  });
+});

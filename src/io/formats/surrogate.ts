@@ -71,6 +71,8 @@ export const surrogateMetricsSchema = z
         speedup: z.number(),
         anchorSeconds: z.number(),
         extraSolves: z.object({ count: z.number().int(), seconds: z.number() }).strict(),
+        /** Reference solves placed by the network's residual after the first fit, and the continued fit (absent before adaptive sampling existed). */
+        adaptiveSolves: z.object({ count: z.number().int(), seconds: z.number(), fitSeconds: z.number(), points: z.array(parameterPointSchema) }).strict().optional(),
         fitSeconds: z.number(),
         roundsSeconds: z.number(),
         buildSeconds: z.number(),

@@ -74,9 +74,9 @@ export const invertConfigSchema = z
         strategy: z.enum(['adam-lbfgs', 'least-squares']).default('adam-lbfgs'),
         /**
          * Levenberg–Marquardt iterations of the 'least-squares' strategy with χN free (after 8 with χN held).
-         * 60: χN from 13.5 reached −0.11 % of a noiseless χN = 15 in 60, −0.59 % in 25 (docs/inverse.md).
+         * 100: χN from 13.5 reached −0.059 % of a noiseless χN = 15 in 100, −0.109 % in 60 (docs/inverse.md).
          */
-        secondOrderIterations: z.number().int().min(1).max(10000).default(60),
+        secondOrderIterations: z.number().int().min(1).max(10000).default(100),
         /** Weight λ of the data rows beside the SCFT residuals ('least-squares'). */
         dataWeight: positive.default(30),
         backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),

@@ -75,6 +75,16 @@ export const surrogateConfigSchema = z
          * period interpolation), fitted like the anchors: the surrogate is then partly a fit.
          */
         extraSolves: z.number().int().min(0).max(10000).default(0),
+        /**
+         * Adaptive sampling: after the fit, reference solves at this many points where the
+         * network's SCFT residual is largest (ranked over `adaptiveCandidates` seeded uniform
+         * draws, spread at least half an anchor cell apart), then the fit continued on all the
+         * data for `adaptiveIterations` (LM iterations, or L-BFGS iterations after the Adam
+         * steps with 'adam-lbfgs'). The held-out points play no part in the choice.
+         */
+        adaptiveSolves: z.number().int().min(0).max(10000).default(0),
+        adaptiveCandidates: z.number().int().min(1).max(100000).default(256),
+        adaptiveIterations: z.number().int().min(1).max(100000).default(50),
       })
       .strict()
       .prefault({}),

@@ -193,10 +193,28 @@ export const trainConfigSchema = z
              */
             firstCycleIterations: z.number().int().min(0).max(100000).default(0),
             /**
+             * Alternating, with firstCycleIterations: a propagator's first cycle ends early once
+             * its MDE loss fell by less than this fraction over its last 5 LM iterations (0:
+             * never); the later cycles share the iterations saved.
+             */
+            firstCyclePlateau: z.number().min(0).lt(1).default(0),
+            /**
              * Alternating: contour steps per block of the φ the field steps read (the networks
              * evaluated there, values only; default nodesPerBlock). Even.
              */
             stateNodesPerBlock: simpsonNodesPerBlock.optional(),
+            /**
+             * Alternating: before each propagator's LM in a cycle, this many LM iterations on
+             * its networks' output layers alone (the hidden layers held; a small normal matrix).
+             * 0: none.
+             */
+            outputLayerIterations: z.number().int().min(0).max(1000).default(0),
+            /**
+             * Extra steps per accepted LM step of a propagator, with the same damped normal
+             * matrix and Jacobian (Fan's modified Levenberg–Marquardt): each costs a residual
+             * evaluation and two triangular solves, not a new normal matrix. 0: none.
+             */
+            extraSteps: z.number().int().min(0).max(10).default(0),
             /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
             jointIterations: z.number().int().min(0).max(100000).default(0),
             /** Damping μD of the normal equations: D = diag(JᵀJ) ('marquardt') or I ('identity'). */

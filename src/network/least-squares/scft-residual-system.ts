@@ -36,7 +36,8 @@ import type { Contour } from '../../physics/contour.js';
 import { fieldAtPoints } from '../../physics/fields.js';
 import { JetMlp64 } from '../../autodiff/jet-mlp64.js';
 import type { Mlp } from '../../autodiff/mlp.js';
-import { groupedNormalEquations, shiftedGroups } from '../../numerics/grouped-normal-equations.js';
+import { groupsOnColumns } from '../../numerics/column-subset.js';
+import { groupedGradient, groupedNormalEquations, shiftedGroups } from '../../numerics/grouped-normal-equations.js';
 import type { ResidualGroup } from '../../numerics/grouped-normal-equations.js';
 import type { LeastSquaresProblem } from '../../numerics/levenberg-marquardt.js';
 import type { SpeciesArrays } from '../../physics/fields.js';
@@ -300,6 +301,7 @@ export class ScftResidualSystem {
    */
   partProblem(theta: Float64Array, part: ResidualPart): LeastSquaresProblem & { first: number; embed: (xs: Float64Array) => Float64Array } {
     const { first, count } = part === 'all' ? { first: 0, count: this.size } : this.columnsOf(part);
+    let last: ResidualGroup[] | null = null;
     const embed = (xs: Float64Array) => {
       if (part === 'all') return xs;
       const full = Float64Array.from(theta);
@@ -313,7 +315,54 @@ export class ScftResidualSystem {
       cost: (xs) => this.evaluate(embed(xs), false, part).cost,
       linearise: (xs) => {
         const e = this.evaluate(embed(xs), true, part);
-        const { A, g } = groupedNormalEquations(count, shiftedGroups(e.groups!, first));
+        last = shiftedGroups(e.groups!, first);
+        const { A, g } = groupedNormalEquations(count, last);
+        return { kind: 'normal', cost: e.cost, A, g };
+      },
+      // One propagator's rows are its blocks' MDE residuals, one group per block in order.
+      ...(part === 'all' ? {} : { gradientWithLastJacobian: (xs: Float64Array) => groupedGradient(count, last!, this.blockResidualsOf(embed(xs), part)) }),
+    };
+  }
+
+  /** The scaled MDE residuals of one propagator's blocks at theta (the rows of its part, in order). */
+  private blockResidualsOf(theta: Float64Array, part: 'q' | 'qDagger'): Float64Array[] {
+    const field = this.field ? this.fieldAt(theta, false) : null;
+    const side = this.sides[part === 'q' ? 0 : 1];
+    return this.sideResiduals(theta, side, field && { w: field.w, dw: null }, true, false, Math.sqrt(this.weights.mde / this.mdePoints), false).blockResiduals;
+  }
+
+  /**
+   * Global columns of the output layers (last kernel and bias) of one propagator's pieces,
+   * ascending: for fixed hidden layers the network is linear in them.
+   */
+  outputLayerColumns(side: 'q' | 'qDagger'): Int32Array {
+    const cols: number[] = [];
+    for (const p of this.sides[side === 'q' ? 0 : 1].pieces) {
+      const w = p.mlp.widths;
+      const n = (w[w.length - 2] + 1) * w[w.length - 1];
+      for (let c = p.mlp.offset + p.mlp.size - n; c < p.mlp.offset + p.mlp.size; c++) cols.push(c);
+    }
+    return Int32Array.from(cols);
+  }
+
+  /**
+   * One propagator's least squares (as partProblem) over a subset of its columns (`columns`,
+   * global, ascending), the rest held at `theta`: the Jacobian is evaluated whole and
+   * restricted (numerics/column-subset.ts), so only the normal matrix is smaller.
+   */
+  columnProblem(theta: Float64Array, side: 'q' | 'qDagger', columns: Int32Array): LeastSquaresProblem & { embed: (xs: Float64Array) => Float64Array } {
+    const embed = (xs: Float64Array) => {
+      const full = Float64Array.from(theta);
+      columns.forEach((c, i) => (full[c] = xs[i]));
+      return full;
+    };
+    return {
+      embed,
+      size: columns.length,
+      cost: (xs) => this.evaluate(embed(xs), false, side).cost,
+      linearise: (xs) => {
+        const e = this.evaluate(embed(xs), true, side);
+        const { A, g } = groupedNormalEquations(columns.length, groupsOnColumns(e.groups!, columns));
         return { kind: 'normal', cost: e.cost, A, g };
       },
     };
