@@ -91,7 +91,7 @@ export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick
     ...base,
     networks: { field: { hidden: [], fourierModes: 12, seed }, propagator: { hidden: [16, 16], seed } },
     collocation: { nx: 64, nodesPerBlock: 16, random: 0 },
-    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson', extraSteps: 5 } },
+    training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson' } },
   };
   return quick || !b.secondOrderRecipe ? shared : (mergedConfig(shared, b.secondOrderRecipe) as TrainConfigInput);
 }

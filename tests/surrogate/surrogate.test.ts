@@ -49,7 +49,7 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
   let run: SurrogateRunResult;
   const config = cfg({
     parameters: { chiN: { min: 12, max: 20, anchors: 5 } },
-    cell: { nx: 64, ns: 64 },
+    cell: { nx: 64, ns: 100 },
     networks: { field: { fourierModes: 4 } },
     warmStart: { extraSolves: 8, lbfgsIterations: 300 },
     training: { rounds: 2, fitIterations: 20, evaluateEvery: 0 },
@@ -61,9 +61,8 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
   });
 
   it('reaches φA relative L2 < 1e-2 and |F error| < 1e-2 kT at every held-out point', () => {
-    // Measured here with this config (wasm): φA ≤ 4.3e-3, |F error| ≤ 1.8e-3 kT, period ≤ 3.1e-4 (64 contour steps;
-    // with 100: 4.8e-3, 1.1e-3 kT, 3.1e-4; with 100 steps, 500 L-BFGS iterations and 4 rounds: φA ≤ 4.2e-3,
-    // |F error| ≤ 2.4e-3 kT); the target 1e-2 is the bound.
+    // Measured here with this config (wasm): φA ≤ 4.8e-3, |F error| ≤ 1.1e-3 kT, period ≤ 3.1e-4 (with 500 L-BFGS
+    // iterations and 4 rounds: φA ≤ 4.2e-3, |F error| ≤ 2.4e-3 kT); the target 1e-2 is the bound.
     const m = run.metrics;
     expect(m.heldOut.length).toBe(5);
     for (const e of m.heldOut) {

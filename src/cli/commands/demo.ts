@@ -56,7 +56,7 @@ export const DEMO_TRAIN_CONFIG = {
   networks: { field: { hidden: [], fourierModes: 12 }, propagator: { hidden: [16, 16] } },
   collocation: { nx: 64, nodesPerBlock: 16, random: 0 },
   warmStart: { type: 'reference', adamSteps: 400, learningRate: 0.01 },
-  training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: 160, secondOrder: { strategy: 'alternating', cycles: 6, firstCycleIterations: 40, fieldStep: 'anderson', extraSteps: 5, evaluateEvery: 5 } },
+  training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: 160, secondOrder: { strategy: 'alternating', cycles: 6, firstCycleIterations: 40, fieldStep: 'anderson', evaluateEvery: 5 } },
 } as const;
 
 const report = (runDir: string, outDir: string) => reportRunDirectory(runDir, outDir);

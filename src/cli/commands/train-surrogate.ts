@@ -25,7 +25,7 @@ function summaryLines(m: SurrogateMetrics, outDir: string | undefined): string[]
   const e = m.errors;
   const t = m.timing;
   return [
-    `trained surrogate over ${rangeText(m)} on ${m.backend} (tfjs ${m.tfjs}): ${m.training.fit.points} reference solutions fitted (${t.extraSolves.count} extra)${m.training.fit.method === 'levenberg-marquardt' ? ` by Levenberg–Marquardt (${m.training.fit.lmIterations} iterations, fit loss ${sci(m.training.fit.finalLoss)})` : ''}, ${m.training.rounds} physics rounds`,
+    `trained surrogate over ${rangeText(m)} on ${m.backend} (tfjs ${m.tfjs}): ${m.training.fit.points} reference solutions fitted (${t.extraSolves.count} extra${t.adaptiveSolves ? `, ${t.adaptiveSolves.count} adaptive where the first fit's SCFT residual was largest` : ''})${m.training.fit.method === 'levenberg-marquardt' ? ` by Levenberg–Marquardt (${m.training.fit.lmIterations}${t.adaptiveSolves ? ' + continued' : ''} iterations, fit loss ${sci(m.training.fit.finalLoss)})` : ''}, ${m.training.rounds} physics rounds`,
     `held-out (${e.points} points): φA relative L2 max ${sci(e.phiARelativeL2.max)} (mean ${sci(e.phiARelativeL2.mean)}), |F error| max ${sci(e.freeEnergyError.max)} kT/chain, period error max ${sci(e.periodRelativeError.max)}`,
     `baseline, the anchors' reference profiles interpolated (no network): φA relative L2 max ${sci(e.anchorInterpolationPhiA.max)} (mean ${sci(e.anchorInterpolationPhiA.mean)})`,
     `query ${(1000 * t.querySeconds).toFixed(2)} ms after start-up against ${(1000 * t.referenceSolveSeconds).toFixed(0)} ms for one reference solve at the equilibrium period (×${t.speedup.toFixed(0)}); building took ${t.buildSeconds.toFixed(1)} s = ${t.equivalentReferenceSolves.toFixed(1)} reference solves`,
@@ -60,6 +60,8 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
   ]);
   run.begin('reference solves');
   let fitStart: number | undefined;
+  // The continued fit after the adaptive solves counts its own iterations (warmStart.adaptiveIterations).
+  let refit = false;
   const r = await surrogateRun({
     config,
     outDir,
@@ -67,6 +69,10 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
     onStage: (m) => {
       // The fit starts right after its stage line: its rate counts from here.
       if (m.startsWith('fitting the field network')) fitStart = performance.now();
+      if (m.startsWith('continuing the fit')) {
+        refit = true;
+        fitStart = performance.now();
+      }
       progress.update(m, true);
     },
     onSolve: (done, total, role, seconds) => {
@@ -77,10 +83,10 @@ async function runAndReport(config: SurrogateConfig, outDir: string, flags: Trai
       fitStart ??= performance.now();
       const lm = config.warmStart.method === 'levenberg-marquardt';
       if (!lm && step % 100 !== 0) return;
-      const total = lm ? config.warmStart.lmIterations : config.warmStart.adamSteps + config.warmStart.lbfgsIterations;
+      const total = refit ? config.warmStart.adaptiveIterations : lm ? config.warmStart.lmIterations : config.warmStart.adamSteps + config.warmStart.lbfgsIterations;
       const perStep = (performance.now() - fitStart) / 1000 / step;
       // At most `total` steps (LM and L-BFGS may stop early): the time left is an upper estimate.
-      progress.update(`fit to the reference solutions: ${lm ? 'LM iteration' : 'step'} ${step}/${total} | fit loss ${sci(loss)} | ${(1 / perStep).toFixed(2)} ${lm ? 'iterations' : 'steps'}/s | ≤ ${formatDuration(perStep * Math.max(0, total - step))} left`);
+      progress.update(`${refit ? 'fit continued after the adaptive solves' : 'fit to the reference solutions'}: ${lm ? 'LM iteration' : 'step'} ${step}/${total} | fit loss ${sci(loss)} | ${(1 / perStep).toFixed(2)} ${lm ? 'iterations' : 'steps'}/s | ≤ ${formatDuration(perStep * Math.max(0, total - step))} left`);
     },
     onRound: (h) => {
       if (h.round === 0) {
