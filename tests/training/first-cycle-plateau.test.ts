@@ -5,22 +5,11 @@
  * accuracy is measured in docs/second-order-training.md). Common practice, no source.
  */
 import { describe, expect, it } from 'vitest';
-import { selectBackend } from '../../src/autodiff/backend.js';
-import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
-import { buildChain } from '../../src/physics/chain.js';
-import { buildScftNetworks } from '../../src/network/scft-networks.js';
 import { runSecondOrder } from '../../src/training/second-order-phase.js';
+import { smallDiblockNetworks } from '../helpers/small-diblock-networks.js';
 
 async function run(firstCyclePlateau: number | undefined) {
-  const config = trainConfigSchema.parse({
-    version: 2,
-    kind: 'train',
-    system: { chain: { type: 'diblock', f: 0.4 }, chiN: 12 },
-    cell: { period: 4, nx: 32, ns: 40 },
-    networks: { field: { hidden: [], fourierModes: 4 }, propagator: { hidden: [6, 6] } },
-  });
-  const { tf } = await selectBackend('wasm');
-  const nets = buildScftNetworks(tf, config, buildChain(config.system.chain), 4, true);
+  const { config, nets } = await smallDiblockNetworks(0.4);
   const so = await runSecondOrder(
     nets,
     config.system,
