@@ -211,8 +211,8 @@ export const trainConfigSchema = z
             outputLayerIterations: z.number().int().min(0).max(1000).default(0),
             /**
              * Extra steps per accepted LM step of a propagator, with the same damped normal
-             * matrix and Jacobian (Fan's modified Levenberg–Marquardt): each costs a residual
-             * evaluation and two triangular solves, not a new normal matrix. 0: none.
+             * matrix and Jacobian (Fan's modified Levenberg–Marquardt): each costs two residual
+             * evaluations and two triangular solves, not a new normal matrix. 0: none.
              */
             extraSteps: z.number().int().min(0).max(10).default(0),
             /** Alternating: joint iterations after the cycles (on top of secondOrderIterations), field network included. */
