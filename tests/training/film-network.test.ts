@@ -25,6 +25,20 @@ import { fitLinearField } from '../../src/network/warm-start.js';
 const H = 3.7;
 const walls = { bottom: { affinity: 1 }, top: { affinity: -1 }, range: 0.25 };
 
+/**
+ * The largest misfit (kT) of the exact linear fit of `field` to the fields n_A − h, n_B + h on
+ * the film's grid (h: the walls' surface field), as the reference's fields are built.
+ */
+function exactFitMisfit(field: FieldNet, film: FilmCell, nA: Float64Array, nB: Float64Array): number {
+  const hz = film.surfaceField!;
+  const w = { A: nA.map((v, j) => v - hz[j]), B: nB.map((v, j) => v + hz[j]) };
+  fitLinearField(field, film.x, w);
+  const out = field.forward(field.features(Array.from(film.x), false)).v.dataSync();
+  let worst = 0;
+  for (let j = 0; j < film.n; j++) worst = Math.max(worst, Math.abs(out[2 * j] - w.A[j]), Math.abs(out[2 * j + 1] - w.B[j]));
+  return worst;
+}
+
 describe('film network features', () => {
   it('cosine features and wall profiles: derivative channels match central differences, zero slope at both walls', () => {
     const cell = new FilmCell(H, 32, walls);
@@ -73,15 +87,10 @@ describe('film network features', () => {
     const field = new FieldNet(tf, fieldNetworkSchema.parse({ hidden: [], fourierModes: M }), { cell, outputs: 2 });
     // Target: a smooth part inside the network's span (cosines m ≤ M, a wall profile, a constant) plus the walls' field, as the
     // reference's fields are built (w_A = n_A − h, w_B = n_B + h; physics/scft-equations.ts). The exact fit must reproduce it.
-    const hz = cell.surfaceField!;
     const k = Math.PI / H;
     const nA = Float64Array.from(cell.x, (z) => 0.4 + 2 * Math.cos(3 * k * z) - 0.5 * Math.cos(11 * k * z) + 0.7 * Math.exp(-(z * z) / (2 * 0.25 ** 2)));
     const nB = Float64Array.from(cell.x, (z) => -0.4 - 2 * Math.cos(3 * k * z) + 0.3 * Math.cos(7 * k * z));
-    const w = { A: nA.map((v, j) => v - hz[j]), B: nB.map((v, j) => v + hz[j]) };
-    fitLinearField(field, cell.x, w);
-    const out = field.forward(field.features(Array.from(cell.x), false)).v.dataSync();
-    let worst = 0;
-    for (let j = 0; j < cell.n; j++) worst = Math.max(worst, Math.abs(out[2 * j] - w.A[j]), Math.abs(out[2 * j + 1] - w.B[j]));
+    const worst = exactFitMisfit(field, cell, nA, nB);
     // float32 weights and features: rounding of order 1e-6 of fields of order 3 kT (h peaks at 3.2 kT; counted twice it misses by that).
     expect(worst).toBeLessThan(1e-4);
     field.dispose();
@@ -92,15 +101,10 @@ describe('film network features', () => {
     // Measured: the plain normal equations are singular here (a run with these settings was refused before the ridge fallback).
     const film = new FilmCell(1.9, 32, walls);
     const field = new FieldNet(tf, fieldNetworkSchema.parse({ hidden: [], fourierModes: 20 }), { cell: film, outputs: 2 });
-    const hz = film.surfaceField!;
     const k = Math.PI / 1.9;
     const nA = Float64Array.from(film.x, (z) => 1 + 1.5 * Math.cos(k * z) + 0.4 * Math.cos(5 * k * z));
     const nB = Float64Array.from(film.x, (z) => -1 - 1.5 * Math.cos(k * z) + 0.2 * Math.exp(-((1.9 - z) ** 2) / (2 * 0.25 ** 2)));
-    const w = { A: nA.map((v, j) => v - hz[j]), B: nB.map((v, j) => v + hz[j]) };
-    fitLinearField(field, film.x, w);
-    const out = field.forward(field.features(Array.from(film.x), false)).v.dataSync();
-    let worst = 0;
-    for (let j = 0; j < film.n; j++) worst = Math.max(worst, Math.abs(out[2 * j] - w.A[j]), Math.abs(out[2 * j + 1] - w.B[j]));
+    const worst = exactFitMisfit(field, film, nA, nB);
     // The ridge moves the fit by about 1e-10 of the columns' scale; float32 weights of nearly cancelling columns add rounding.
     expect(worst).toBeLessThan(1e-3);
     field.dispose();
