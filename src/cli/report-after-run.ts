@@ -22,8 +22,9 @@ export async function reportAfterRun(command: string, outDir: string, what: Kept
     stopping: `stopping before the report is written; ${kept}`,
     stopped: `${command} stopped by a signal before its report was written; ${kept} (the output is marked incomplete; write the report with: mesofield report ${outDir})`,
   };
-  if (!quiet) process.stderr.write(`${command}: drawing the report; Ctrl-C stops it before the report is written (${what} ${are} kept)\n`);
   return withStopPoint(command, texts, async (stop) => {
+    // Said once the stop handlers are in place: a Ctrl-C on seeing this line is always handled.
+    if (!quiet) process.stderr.write(`${command}: drawing the report; Ctrl-C stops it before the report is written (${what} ${are} kept)\n`);
     const written = await reportRunDirectoryWithStop(outDir, join(outDir, 'report'), stop.beforeWriting);
     if (!quiet) process.stderr.write(`${command}: wrote ${written.join(', ')}\n`);
   });
