@@ -10,18 +10,31 @@ export interface Proc {
   stderr: () => string;
   kill: (s: NodeJS.Signals) => void;
   waitFor: (re: RegExp, ms: number) => Promise<void>;
+  /** Send `sig` as soon as stderr matches `re` (from the data event, not a poll: a short stretch of work is not missed). */
+  killOn: (re: RegExp, sig: NodeJS.Signals) => void;
 }
 
 export function start(args: string[]): Proc {
   const child = spawn(process.execPath, [CLI, ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
   let err = '';
-  child.stderr.on('data', (d) => (err += String(d)));
+  let trigger: { re: RegExp; sig: NodeJS.Signals } | null = null;
+  child.stderr.on('data', (d) => {
+    err += String(d);
+    if (trigger && trigger.re.test(err)) {
+      child.kill(trigger.sig);
+      trigger = null;
+    }
+  });
   child.stdout.resume();
   const code = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on('close', (c, s) => resolve({ code: c, signal: s })));
   return {
     code,
     stderr: () => err,
     kill: (s) => child.kill(s),
+    killOn: (re, sig) => {
+      if (re.test(err)) child.kill(sig);
+      else trigger = { re, sig };
+    },
     waitFor: async (re, ms) => {
       const t0 = Date.now();
       while (!re.test(err)) {
@@ -36,7 +49,7 @@ export function start(args: string[]): Proc {
 /** Start `args`, wait for a stderr line matching `at`, send `sig`, and wait for the exit: what most signal cases do. */
 export async function stopAt(args: string[], at: RegExp, sig: NodeJS.Signals, ms = 120_000): Promise<{ p: Proc; r: { code: number | null; signal: NodeJS.Signals | null } }> {
   const p = start(args);
+  p.killOn(at, sig);
   await p.waitFor(at, ms);
-  p.kill(sig);
   return { p, r: await p.code };
 }
