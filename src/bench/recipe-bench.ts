@@ -65,8 +65,10 @@ export const RECIPE_SYSTEMS: BenchSystem[] = [
     // Seed 3, taken apart (bench --stall-analysis, docs/second-order-training.md): a longer
     // first cycle and 200 iterations gave 3.2e-4 (shared recipe 3.7e-4); 32 contour steps per
     // block with the shared iterations gave 8.0e-5 (kept), as at f = 0.35 the contour spacing
-    // being the limit.
-    secondOrderRecipe: { collocation: { nodesPerBlock: 32 } },
+    // being the limit. Seed 1 (1.26e-4 with 160 iterations) with 320: kept 7.04e-5, first
+    // < 1e-4 at iteration 220. (Its blocks are of equal length: collocation.contourSpread
+    // 'by-length' gives the same steps as 'equal'.)
+    secondOrderRecipe: { collocation: { nodesPerBlock: 32 }, training: { secondOrderIterations: 320 } },
   },
   {
     name: 'homopolymer-external-field',
