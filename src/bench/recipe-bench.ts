@@ -67,7 +67,7 @@ export const RECIPE_SYSTEMS: BenchSystem[] = [
     // first cycle and 200 iterations gave 3.2e-4 (shared recipe 3.7e-4); 32 contour steps per
     // block with the shared iterations gave 8.0e-5 (kept), as at f = 0.35 the contour spacing
     // being the limit. Seed 1 (1.26e-4 with 160 iterations) with 320: kept 7.04e-5, first
-    // < 1e-4 at iteration 220. (Its blocks are of equal length: collocation.contourSpread
+    // < 1e-4 at iteration 220; seed 2: 4.87e-5 (160 iterations: 8.06e-5). (Its blocks are of equal length: collocation.contourSpread
     // 'by-length' gives the same steps as 'equal'.)
     secondOrderRecipe: { collocation: { nodesPerBlock: 32 }, training: { secondOrderIterations: 320 } },
   },
