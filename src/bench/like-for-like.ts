@@ -7,7 +7,7 @@
  *   points   a tensor grid x_j = j·L/nx (j < nx = 64), s_i = (i + ½)/ns, n = nx·ns
  *            (ns = 32 for 2048 points, 64 for 4096), L = 4 Rg;
  *   loss     mean over the points of r², r = ∂s u − ∂xx u − (∂x u)² + w(x),
- *            w(x) = 2 cos(2π x / L) (the MDE in ln q form, SCFT-NOTES.md, D = 1);
+ *            w(x) = 2 cos(2π x / L) (the MDE in ln q form, docs/physics.md, D = 1);
  *   update   Adam (src/autodiff/adam.ts), learning rate 1e-3.
  *
  * Two builds of the same loss on the same variables:
@@ -130,7 +130,7 @@ export function likeForLikeProblem(tf: Tf, width: number, allPoints: number, see
         [v, dx, dxx, ds] = [z, zx, zxx, zs];
         return;
       }
-      // tanh' = 1 − t², tanh'' = −2t(1 − t²) (SCFT-NOTES.md).
+      // tanh' = 1 − t², tanh'' = −2t(1 − t²).
       const t = tf.tanh(z);
       const d1 = tf.sub(1, tf.square(t));
       const d2 = tf.mul(-2, tf.mul(t, d1));

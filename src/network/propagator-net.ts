@@ -2,7 +2,7 @@
  * Propagator network for q(x, s), s ∈ [0, 1] the contour variable, x in Rg, obeying the cell's
  * boundary condition through its features (features.ts: L-periodic, or even about a film's walls).
  *
- * Hard initial condition (SCFT-NOTES.md, "Neural-network solution"): the network gives
+ * Hard initial condition (docs/physics.md, "Network solutions"): the network gives
  *     u(x, s) = ln q(x, s),   q = exp(u) > 0,   u(x, 0) = 0 exactly,
  * so a loss may use the MDE in terms of u: ∂u/∂s = D(∂xx u + (∂x u)²) − w.
  *

@@ -1,11 +1,13 @@
 /**
  * Warm start: fit the networks to given targets by least squares before physics training.
  * From the spectral reference this places the networks on the ordered branch, so physics
- * training cannot slide into the disordered trap (SCFT-NOTES.md); from a cosine guess it
+ * training cannot slide into the disordered trap (docs/physics.md); from a cosine guess it
  * gives an ordered initial field only (a "cold start", whose collapse is then detected).
  *
  * Targets: w_A, w_B on the reference x grid (scaled by max(1, χN)², like the field terms),
- * and ln q, ln q† at the reference's contour points (every k-th, at most ~64 of them).
+ * and ln q, ln q† at the reference's ns + 1 contour points: every k-th, k = max(1, ⌊ns/64⌋), and
+ * the last. That is all of them up to ns = 127 and 65 to 128 rows beyond; the shipped results were
+ * measured with this choice, so a sparser one would have to be measured again.
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { SpeciesArrays } from '../physics/fields.js';

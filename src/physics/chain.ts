@@ -1,7 +1,7 @@
 /**
  * The polymer model, defined once for every solver (spectral, network, inverse, reports).
  *
- * Units and conventions (SCFT-NOTES.md): contour s ∈ [0, 1] from one chain end; lengths
+ * Units and conventions (docs/physics.md): contour s ∈ [0, 1] from one chain end; lengths
  * in Rg of the whole chain; block K carries the Laplacian factor (b_K/b)², stored here as
  * `diffusivity`. A chain is a linear sequence of blocks; diblock, triblock and homopolymer
  * are presets that resolve to the same block list.
@@ -128,7 +128,7 @@ export function reverseChain(chain: Chain): Chain {
   return { ...chain, blocks, junctions: blocks.slice(0, -1).map((b) => b.end), label: blocks.map((b) => b.species).join('-') };
 }
 
-/** Free energy per chain of the homogeneous melt, in kT: χN φ̄_A φ̄_B (SCFT-NOTES.md). */
+/** Free energy per chain of the homogeneous melt, in kT: χN φ̄_A φ̄_B (docs/physics.md). */
 export function disorderedFreeEnergy(chain: Chain, chiN: number): number {
   return chiN * chain.speciesFraction.A * chain.speciesFraction.B;
 }

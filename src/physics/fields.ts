@@ -1,6 +1,6 @@
 /**
  * Species fields and densities on the grid, and prescribed external fields.
- * Fields are in kT per chain (w = N × per-segment field), as in SCFT-NOTES.md.
+ * Fields are in kT per chain (w = N × per-segment field), as in docs/physics.md.
  */
 import type { FieldSpec, Species, SystemSpec } from './chain-schema.js';
 import { ModelError } from './chain.js';

@@ -1,6 +1,6 @@
 /**
  * Random-phase approximation for a melt of linear A/B block chains (Leibler,
- * Macromolecules 13, 1602 (1980); SCFT-NOTES.md).
+ * Macromolecules 13, 1602 (1980); docs/physics.md, "Weak and strong segregation").
  *
  * Units: x = (q Rg)², Rg of the whole chain with the reference segment length; block K
  * has mean-square extension per unit contour (b_K/b)², so its decay rate is y = x (b_K/b)².

@@ -3,7 +3,7 @@
  * input is present and is left out otherwise, so one report kind serves solve, train,
  * evaluate and invert runs: the run loader (load-run.ts) fills in what the directory holds.
  *
- * Units follow SCFT-NOTES.md: x and periods in Rg, fields and free energies in kT per chain.
+ * Units follow docs/physics.md: x and periods in Rg, fields and free energies in kT per chain.
  */
 import type { SystemSpec } from '../physics/chain-schema.js';
 import type { ScftSolution } from '../physics/result.js';

@@ -7,7 +7,7 @@
  * no two closer than half an anchor cell on every axis (so one badly fitted corner does not
  * take every solve). The residual needs no reference solution, so the choice never looks at
  * the held-out points or their errors: those stay an independent check.
- * Units: χN and f as in SCFT-NOTES.md; residuals dimensionless (w/χN).
+ * Units: χN and f as in docs/physics.md; residuals dimensionless (w/χN).
  */
 import { fieldDeviation } from '../physics/scft-equations.js';
 import { Xorshift128 } from '../numerics/random.js';

@@ -2,7 +2,7 @@
  * The parameter box of a surrogate: which of χN, f, b_A/b_B vary, their ranges, the anchor
  * grid (reference solves), held-out points, uniform draws, and the networks' normalised
  * inputs θ̂ = (θ − mid)/half-range ∈ [−1, 1] per varying parameter.
- * χN and f as in SCFT-NOTES.md; a ratio r = b_A/b_B is the chain's segmentRatio (segment lengths { A: r, B: 1 }).
+ * χN and f as in docs/physics.md; a ratio r = b_A/b_B is the chain's segmentRatio (segment lengths { A: r, B: 1 }).
  */
 import { InputError } from '../io/errors.js';
 import { formatNumber } from '../io/number-format.js';

@@ -4,7 +4,7 @@
  *   fields  w_K(x_j; θ) from the network on x_j = j·L(θ)/nx (one period per cell), the
  *           pressure gauge then fixed exactly (mean (w_A + w_B)/2 = 0, as the reference);
  *   φ, Q    one float64 pseudo-spectral propagator solve in those fields, no iteration
- *           (spectral/scft-solver.ts solveInFields; SCFT-NOTES.md "Pseudo-spectral MDE step");
+ *           (spectral/scft-solver.ts solveInFields; docs/physics.md "Numerical methods");
  *   F       physics/scft-equations.ts, from that Q, w and φ.
  * The network learns the hard part (the self-consistent fields as a function of θ); the
  * single-chain problem in given fields is linear and costs about a millisecond exactly.

@@ -2,7 +2,7 @@
  * The points of a sweep grid and the system each one solves. Points are ordered f
  * outermost, then b_A/b_B, then χN, then (a film sweep) the bottom and top walls' affinities,
  * then the thickness innermost (a run of points is one F(H)); a point's index is its place in that order, and
- * shards, saved files and merges all name points by it. χN and f as in SCFT-NOTES.md;
+ * shards, saved files and merges all name points by it. χN and f as in docs/physics.md;
  * a ratio r = b_A/b_B gives the chain segment lengths { A: r, B: 1 } (b_B = b of Rg).
  */
 import { InputError } from '../io/errors.js';

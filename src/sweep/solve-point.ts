@@ -1,7 +1,7 @@
 /**
  * One sweep point: a reference solve through the library (solveFromConfig), reduced to
  * the row the sweep table keeps. Lengths in Rg, free energies in kT per chain
- * (SCFT-NOTES.md). The solve depends on the config and the point only, never on what
+ * (docs/physics.md). The solve depends on the config and the point only, never on what
  * was solved before, so every shard and worker gets the same numbers to the bit.
  */
 import type { SweepConfig } from '../io/schemas/sweep-config.js';

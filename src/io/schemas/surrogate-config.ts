@@ -5,7 +5,7 @@
  * (src/surrogate/).
  *
  * Lengths in Rg of a chain whose segments have the reference length b = b_B
- * (SCFT-NOTES.md): a ratio r = b_A/b_B gives segment lengths { A: r, B: 1 }, as in a sweep.
+ * (docs/physics.md): a ratio r = b_A/b_B gives segment lengths { A: r, B: 1 }, as in a sweep.
  */
 import { z } from 'zod';
 import { fieldNetworkSchema } from './network-schema.js';

@@ -1,5 +1,5 @@
 /**
- * Densities from the network propagators on the fixed tensor grid (SCFT-NOTES.md):
+ * Densities from the network propagators on the fixed tensor grid (docs/physics.md):
  *   Q = (1/L) ∫ q(x, 1) dx,   φ_K(x) = (1/Q) Σ_i c^K_i q(x, s_i) q†(x, 1 − s_i),
  * with c^K the Simpson weights of physics/contour.ts (the one quadrature; tests/network check
  * these tensor densities against its float64 form). Grid values are laid out s-major:

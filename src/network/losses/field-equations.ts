@@ -1,5 +1,5 @@
 /**
- * The melt's field equations as loss terms (SCFT-NOTES.md, "Self-consistency"), on the x
+ * The melt's field equations as loss terms (docs/physics.md, "The equations"), on the x
  * grid, in kT per chain. The self-consistency and gauge terms are divided by max(1, χN)²
  * so that every term is O(φ²) whatever χN is (they compare fields of size ~χN).
  *   incompressibility:  mean (φ_A + φ_B − 1)²

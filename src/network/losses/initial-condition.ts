@@ -1,5 +1,5 @@
 /**
- * Soft initial condition of a propagator (SCFT-NOTES.md: q(x, 0) = 1), in ln q form:
+ * Soft initial condition of a propagator (docs/physics.md: q(x, 0) = 1), in ln q form:
  *   initial = mean over the x grid of u(x, 0)²,   u = ln q,
  * used when the network does not satisfy it by construction. Units: u dimensionless.
  */

@@ -1,5 +1,5 @@
 /**
- * Residual of the MDE in ln q form (SCFT-NOTES.md, with u = ln q):
+ * Residual of the MDE in ln q form (docs/physics.md, "Network solutions", with u = ln q):
  *   ∂q/∂s = D ∂²q/∂x² − w q   ⇔   r = ∂u/∂s − D (∂²u/∂x² + (∂u/∂x)²) + w = 0.
  * Units: s ∈ [0, 1], x in Rg, w in kT per chain, D = (b_K/b)² of the block at each point.
  */

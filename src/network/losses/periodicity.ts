@@ -1,5 +1,5 @@
 /**
- * Soft periodicity of a propagator (SCFT-NOTES.md, "Neural-network solution"): with the
+ * Soft periodicity of a propagator (docs/physics.md, "Network solutions"): with the
  * scaled x input the network is not periodic by construction, so the cell's two ends are
  * tied by a penalty on the values and slopes of u = ln q there,
  *   periodicity = mean over contour points s_i of

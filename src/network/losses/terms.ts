@@ -1,6 +1,6 @@
 /**
  * The named terms of the physics-informed loss, each a scalar built from the equations in
- * the files beside this one (SCFT-NOTES.md). Units: x in Rg, s ∈ [0, 1], w in kT per chain.
+ * the files beside this one (docs/physics.md). Units: x in Rg, s ∈ [0, 1], w in kT per chain.
  *
  *   mde               mean over every collocation point of both propagators of r²,
  *                     r = ∂u/∂s − D(∂²u/∂x² + (∂u/∂x)²) + w, u = ln q   (mde-residual.ts)

@@ -9,7 +9,7 @@
  * when frozen). With the exact forms of periodicity and the initial condition those terms
  * are an exact 0 (the networks satisfy them by construction).
  *
- * Units: x in Rg, s ∈ [0, 1], fields in kT per chain. Equations: SCFT-NOTES.md.
+ * Units: x in Rg, s ∈ [0, 1], fields in kT per chain. Equations: docs/physics.md.
  */
 import type * as TfModule from '@tensorflow/tfjs';
 import type { Tf } from '../../autodiff/tf.js';
@@ -50,7 +50,7 @@ export class ScftProblem {
   ) {
     this.chiN = system.chiN;
     this.species = nets.chain.species.length;
-    this.grid = new TensorGrid(tf, nets, system, collocation.nx, collocation.nodesPerBlock);
+    this.grid = new TensorGrid(tf, nets, system, collocation.nx, collocation.nodesPerBlock, collocation.contourSpread);
     this.fields = new PointFields(tf, nets, fieldInMde);
     this.merged = new MergedPoints(tf, nets, system, this.fields);
   }
