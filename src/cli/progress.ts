@@ -6,11 +6,14 @@ export class Progress {
   private last = 0;
   private readonly started = performance.now();
   private readonly tty = Boolean(process.stderr.isTTY);
+  private readonly minIntervalMs: number;
   constructor(
     private readonly label: string,
     private readonly quiet = false,
-    private readonly minIntervalMs = 1000,
-  ) {}
+    minIntervalMs = 1000,
+  ) {
+    this.minIntervalMs = testIntervalMs() ?? minIntervalMs;
+  }
 
   update(text: string, force = false): void {
     if (this.quiet) return;
@@ -40,6 +43,18 @@ export class Progress {
     if (this.tty) process.stderr.write(`\r\x1b[K${this.label}: ${text}\n`);
     else process.stderr.write(`${this.label}: ${text}\n`);
   }
+}
+
+/**
+ * A test hook, not a user setting: MESOFIELD_TEST_PROGRESS_MS sets the throttle of the lines
+ * written to a pipe (0: every update). The signal tests send a signal when a given step's line
+ * appears; with the one-second throttle a short run could end between two lines, so those
+ * tests had to run far longer than the stop they check.
+ */
+function testIntervalMs(): number | undefined {
+  const text = process.env.MESOFIELD_TEST_PROGRESS_MS;
+  if (text === undefined || !/^\d+$/.test(text)) return undefined;
+  return Number(text);
 }
 
 /** One phase of a run, in the order the run goes through them: its size in units (steps, iterations, evaluations). */

@@ -17,6 +17,25 @@ export const BLOCK_GAP = 10;
 const TABLE_ROW = TEXT.small * 1.75;
 const CAPTION_LEAD = TEXT.small * 1.35;
 
+/**
+ * Widths already measured, per drawing context and font. Pagination asks for each block's
+ * height several times (the block, the heading kept with it, the table split) and drawing
+ * wraps it once more, and each measureText is a call into the text shaper: a PDF report spent
+ * most of its layout time measuring the same strings again. The width of a string in a font
+ * on a context does not change, so the cache gives the same numbers.
+ */
+const measured = new WeakMap<CanvasRenderingContext2D, Map<string, number>>();
+
+/** ctx.measureText(text).width in ctx's current font, measured once per context, font and text. */
+export function textWidth(ctx: CanvasRenderingContext2D, text: string): number {
+  let widths = measured.get(ctx);
+  if (!widths) measured.set(ctx, (widths = new Map()));
+  const key = `${ctx.font}\u0000${text}`;
+  let w = widths.get(key);
+  if (w === undefined) widths.set(key, (w = ctx.measureText(text).width));
+  return w;
+}
+
 /** Greedy word wrap to a width. */
 export function wrapText(ctx: CanvasRenderingContext2D, text: string, width: number): string[] {
   const words = text.split(' ');
@@ -24,7 +43,7 @@ export function wrapText(ctx: CanvasRenderingContext2D, text: string, width: num
   let line = '';
   for (const w of words) {
     const trial = line ? `${line} ${w}` : w;
-    if (line && ctx.measureText(trial).width > width) {
+    if (line && textWidth(ctx, trial) > width) {
       out.push(line);
       line = w;
     } else line = trial;
@@ -92,11 +111,24 @@ function columnWidths(b: TableBlock, width: number): number[] {
 
 /** Each cell's lines: long text wraps inside its column (nothing is cut off); a single word too long for it is shortened with an ellipsis. */
 function cellLines(ctx: CanvasRenderingContext2D, text: string, w: number, bold: boolean): string[] {
+  // A table's heights are asked for several times while paginating (see textWidth): its cells are wrapped once.
+  let done = wrappedCells.get(ctx);
+  if (!done) wrappedCells.set(ctx, (done = new Map()));
+  const key = `${bold ? 'b' : ''}${w}\u0000${text}`;
+  const known = done.get(key);
+  if (known) return known;
+  const lines = wrapCell(ctx, text, w, bold);
+  done.set(key, lines);
+  return lines;
+}
+const wrappedCells = new WeakMap<CanvasRenderingContext2D, Map<string, string[]>>();
+
+function wrapCell(ctx: CanvasRenderingContext2D, text: string, w: number, bold: boolean): string[] {
   ctx.save();
   ctx.font = `${bold ? 'bold ' : ''}${TEXT.small}px "${FONT_FAMILY}"`;
   const lines = wrapText(ctx, text, w - 6).map((l) => {
     let t = l;
-    while (t.length > 1 && ctx.measureText(t).width > w - 6) t = `${t.slice(0, -2)}…`;
+    while (t.length > 1 && textWidth(ctx, t) > w - 6) t = `${t.slice(0, -2)}…`;
     return t;
   });
   ctx.restore();

@@ -14,8 +14,14 @@ export interface Proc {
   killOn: (re: RegExp, sig: NodeJS.Signals) => void;
 }
 
-export function start(args: string[]): Proc {
-  const child = spawn(process.execPath, [CLI, ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
+/**
+ * `everyLine`: the run writes a progress line at every update instead of one a second
+ * (src/cli/progress.ts's test hook), so a signal sent on "step k" lands at step k, not
+ * wherever the next throttled line happens to fall: the run then need only be a little longer than k.
+ */
+export function start(args: string[], opts: { everyLine?: boolean } = {}): Proc {
+  const env = opts.everyLine ? { ...process.env, MESOFIELD_TEST_PROGRESS_MS: '0' } : process.env;
+  const child = spawn(process.execPath, [CLI, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env });
   let err = '';
   let trigger: { re: RegExp; sig: NodeJS.Signals } | null = null;
   child.stderr.on('data', (d) => {
@@ -47,8 +53,8 @@ export function start(args: string[]): Proc {
 }
 
 /** Start `args`, wait for a stderr line matching `at`, send `sig`, and wait for the exit: what most signal cases do. */
-export async function stopAt(args: string[], at: RegExp, sig: NodeJS.Signals, ms = 120_000): Promise<{ p: Proc; r: { code: number | null; signal: NodeJS.Signals | null } }> {
-  const p = start(args);
+export async function stopAt(args: string[], at: RegExp, sig: NodeJS.Signals, ms = 120_000, opts: { everyLine?: boolean } = {}): Promise<{ p: Proc; r: { code: number | null; signal: NodeJS.Signals | null } }> {
+  const p = start(args, opts);
   p.killOn(at, sig);
   await p.waitFor(at, ms);
   return { p, r: await p.code };

@@ -39,8 +39,10 @@ describe('signals: short commands, real processes', () => {
   it('synth: SIGINT during the solve stops it before it writes, exit 130; --out is not created', async () => {
     counts.tried++;
     const out = join(tmp(), 'synth');
-    // A fine contour and the stress-free period: the solve lasts far longer than the wait for a stop.
-    const { p, r } = await stopAt(['synth', '--f', '0.5', '--chiN', '15', '--nx', '64', '--ns', '400', '--out', out], /synth: solving the lamella/, 'SIGINT');
+    // A fine contour and the stress-free period: the solve (about 0.7 s of CPU on 64 × 200, all of it
+    // run before the stop point, as a signal cannot cut a synchronous stretch) lasts far longer than
+    // the signal takes to arrive once its line is read.
+    const { p, r } = await stopAt(['synth', '--f', '0.5', '--chiN', '15', '--nx', '64', '--ns', '200', '--out', out], /synth: solving the lamella/, 'SIGINT');
     expect(r.code, p.stderr()).toBe(130);
     expect(p.stderr()).toMatch(stopLine('synth', 'SIGINT'));
     expect(p.stderr()).toMatch(/synth stopped by a signal before it finished; nothing was written \(.*synth was left as it was\)/);
@@ -51,7 +53,7 @@ describe('signals: short commands, real processes', () => {
 
   it('synth to stdout: SIGTERM during the solve stops it with nothing printed, exit 143', async () => {
     counts.tried++;
-    const { p, r } = await stopAt(['synth', '--f', '0.5', '--chiN', '15', '--nx', '64', '--ns', '400'], /synth: solving the lamella/, 'SIGTERM');
+    const { p, r } = await stopAt(['synth', '--f', '0.5', '--chiN', '15', '--nx', '64', '--ns', '200'], /synth: solving the lamella/, 'SIGTERM');
     expect(r.code, p.stderr()).toBe(143);
     expect(p.stderr()).toMatch(stopLine('synth', 'SIGTERM'));
     expect(p.stderr()).toMatch(/synth stopped by a signal before it finished; nothing was written/);
@@ -66,8 +68,8 @@ describe('signals: short commands, real processes', () => {
     const first = start(['report', run, '--out', out, '--format', 'pdf', '--quiet']);
     expect((await first.code).code, first.stderr()).toBe(0);
     const before = new Map(readdirSync(out, { recursive: true, withFileTypes: true }).filter((e) => e.isFile()).map((e) => [join(e.parentPath, e.name), readFileSync(join(e.parentPath, e.name))]));
-    // PNGs at 600 dpi: the drawing lasts far longer than the wait for a stop.
-    const { p, r } = await stopAt(['report', run, '--out', out, '--overwrite', '--dpi', '600'], /report: drawing the report/, 'SIGTERM');
+    // PNGs at 300 dpi: the drawing (about 0.6 s of CPU, run whole before the stop point) lasts far longer than the signal takes to arrive.
+    const { p, r } = await stopAt(['report', run, '--out', out, '--overwrite', '--dpi', '300'], /report: drawing the report/, 'SIGTERM');
     expect(r.code, p.stderr()).toBe(143);
     expect(p.stderr()).toMatch(stopLine('report', 'SIGTERM'));
     expect(p.stderr()).toMatch(/report stopped by a signal before it finished; nothing was written \(.*rep was left as it was\)/);
@@ -197,7 +199,7 @@ describe('signals: the report after a run, stopped at its stop point (the stop a
     counts.tried++;
     const dir = tmp();
     // A 6 Rg film's depth profile on a coarse model (the fit's accuracy is checked in tests/inverse/film-fit.test.ts).
-    const synth = await runCli(['synth', '--film', '6', '--f', '0.5', '--chiN', '15', '--affinity', '1,-0.5', '--measure', 'phi', '--points', '24', '--noise', '0.01', '--nx', '32', '--ns', '40', '--quiet', '--out', join(dir, 's')], { capture: true });
+    const synth = await runCli(['synth', '--film', '6', '--f', '0.5', '--chiN', '15', '--affinity', '1,-0.5', '--measure', 'phi', '--points', '24', '--noise', '0.01', '--nx', '16', '--ns', '20', '--quiet', '--out', join(dir, 's')], { capture: true });
     expect(synth.code, synth.stderr).toBe(0);
     const out = join(dir, 'inv');
     const r = await stoppedWhileDrawing(['invert', join(dir, 's', 'profile.csv'), '--f', '0.5', '--film', '6', '--nx', '16', '--ns', '20', '--intervals', 'none', '--out', out, '--report']);
@@ -211,7 +213,7 @@ describe('signals: the report after a run, stopped at its stop point (the stop a
     const dir = tmp();
     const config = join(dir, 'tiny.surrogate.json');
     // Three anchors, a short fit, no physics round: seconds; the surrogate's accuracy is tests/surrogate's.
-    writeFileSync(config, JSON.stringify({ version: 2, kind: 'surrogate', backend: 'wasm', parameters: { chiN: { min: 13, max: 17, anchors: 3 } }, cell: { nx: 32, ns: 60 }, warmStart: { extraSolves: 0, lbfgsIterations: 20 }, training: { rounds: 0 }, evaluation: { random: 0 } }));
+    writeFileSync(config, JSON.stringify({ version: 2, kind: 'surrogate', backend: 'wasm', parameters: { chiN: { min: 13, max: 17, anchors: 3 } }, cell: { nx: 16, ns: 40 }, warmStart: { extraSolves: 0, lbfgsIterations: 20 }, training: { rounds: 0 }, evaluation: { random: 0 } }));
     const out = join(dir, 'ck');
     const r = await stoppedWhileDrawing(['train', config, '--out', out, '--report']);
     expect(r.code, r.stderr).toBe(130);

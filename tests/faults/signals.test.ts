@@ -24,7 +24,10 @@ import { writeTally } from './tally.js';
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
 const counts = { tried: 0, 'clear error or stop': 0, 'correct answer': 0 };
 
-/** A small train config: a fixed cell on a coarse grid, small networks, no L-BFGS: seconds per run. */
+/**
+ * A small train config: a fixed cell on a coarse grid, small networks, a short warm start (what
+ * is checked is the stop and the resume, not the fit), no L-BFGS: seconds per run.
+ */
 const TRAIN = {
   version: 2,
   kind: 'train',
@@ -33,7 +36,7 @@ const TRAIN = {
   backend: 'wasm',
   networks: { field: { hidden: [16, 16] }, propagator: { hidden: [16, 16] } },
   collocation: { random: 64, resampleEvery: 40 },
-  warmStart: { type: 'reference', adamSteps: 20 },
+  warmStart: { type: 'reference', adamSteps: 5 },
   training: { adamSteps: 4000, checkpointEvery: 10, logEvery: 10, lbfgsIterations: 0, evaluateEvery: 0 },
 };
 
@@ -65,12 +68,13 @@ describe('signals', () => {
     counts.tried++;
     const dir = tmp();
     const cfg = join(dir, 't.json');
-    writeFileSync(cfg, JSON.stringify({ ...TRAIN, training: { ...TRAIN.training, adamSteps: 200 } }));
+    writeFileSync(cfg, JSON.stringify({ ...TRAIN, training: { ...TRAIN.training, adamSteps: 40 } }));
     const out = join(dir, 'run');
-    const p = start(['train', cfg, '--out', out]);
+    // A progress line at every step (the test hook): the kill lands at the step it names, and
+    // 40 steps leave 19 after it (with the one-second throttle a short run could end between two lines).
+    const p = start(['train', cfg, '--out', out], { everyLine: true });
     // Past step 20: the step-10 checkpoint is written whole (a kill at step 10 could land before it).
-    // Killed on the progress line itself, well before the end (the progress lines are throttled).
-    const pastStep20 = /Adam ([2-9]\d|1\d\d)\/200 steps/;
+    const pastStep20 = /Adam (2[1-9]|3\d)\/40 steps/;
     p.killOn(pastStep20, 'SIGKILL');
     await p.waitFor(pastStep20, 120_000);
     expect((await p.code).signal).toBe('SIGKILL');
@@ -82,7 +86,7 @@ describe('signals', () => {
     const r = await q.code;
     expect(r.code, q.stderr()).toBe(0);
     expect(q.stderr()).toMatch(new RegExp(`resumed from .*run at step ${saved}`));
-    expect(checkpointStep(out)).toBe(200);
+    expect(checkpointStep(out)).toBe(40);
     counts['correct answer']++;
   });
 
@@ -90,20 +94,21 @@ describe('signals', () => {
     counts.tried++;
     const dir = tmp();
     const cfg = join(dir, 's.json');
-    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: { from: 12, to: 20, count: 40 }, f: [0.5], segmentRatio: [1] }, cell: { period: 'equilibrium', nx: 32, ns: 40 } }));
+    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'sweep', system: { chain: { type: 'diblock' } }, parameters: { chiN: { from: 12, to: 20, count: 20 }, f: [0.5], segmentRatio: [1] }, cell: { period: 'equilibrium', nx: 16, ns: 20 } }));
     const out = join(dir, 'sw');
-    // The first progress line comes after point 1; on an idle machine 40 points take about 5 s
-    // (10 had ended before the signal: the progress lines are throttled and skipped points 2–5).
-    const { p, r } = await stopAt(['sweep', cfg, '--out', out, '--workers', '1'], /point \d+\/40/, 'SIGINT');
+    // A progress line after every point (the test hook): the signal is sent after point 1, and 19
+    // period searches are left (about 1 s of work; with the one-second throttle the first line
+    // could come after many points, so the sweep had to be far longer).
+    const { p, r } = await stopAt(['sweep', cfg, '--out', out, '--workers', '1'], /point \d+\/20/, 'SIGINT', 120_000, { everyLine: true });
     expect(r.code, p.stderr()).toBe(130);
-    expect(p.stderr()).toMatch(/stopped after (\d+) of 40 points; they are saved in .*shard-1-of-1\.json; run the same command again/);
-    const done = Number(/stopped after (\d+) of 40/.exec(p.stderr())![1]);
+    expect(p.stderr()).toMatch(/stopped after (\d+) of 20 points; they are saved in .*shard-1-of-1\.json; run the same command again/);
+    const done = Number(/stopped after (\d+) of 20/.exec(p.stderr())![1]);
     expect(done).toBeGreaterThan(0);
     expect(JSON.parse(readFileSync(join(out, 'shard-1-of-1.json'), 'utf8')).points.length).toBe(done);
     const q = start(['sweep', cfg, '--out', out, '--workers', '1', '--json']);
     const r2 = await q.code;
     expect(r2.code, q.stderr()).toBe(0);
-    expect(q.stderr()).toMatch(new RegExp(`resuming .* ${done} of 40 points already saved`));
+    expect(q.stderr()).toMatch(new RegExp(`resuming .* ${done} of 20 points already saved`));
     counts['clear error or stop']++;
   });
 });

@@ -66,18 +66,18 @@ describe('file formats', () => {
 
   it('films: synth --film truth, a film fit result and a reflectivity result, from the real writers (small grids)', async () => {
     const dir = tmp();
-    const synth = await runCli(['synth', '--film', '4', '--f', '0.5', '--chiN', '15', '--points', '40', '--noise', '0.02', '--nx', '16', '--ns', '40', '--affinity', '1,-1', '--out', join(dir, 's'), '--quiet'], { capture: true });
+    const synth = await runCli(['synth', '--film', '4', '--f', '0.5', '--chiN', '15', '--points', '40', '--noise', '0.02', '--nx', '16', '--ns', '20', '--affinity', '1,-1', '--out', join(dir, 's'), '--quiet'], { capture: true });
     expect(synth.code, synth.stderr).toBe(0);
     const truth = readFormat(join(dir, 's', 'truth.json'), filmSynthTruthSchema);
     expect(truth.measurement).toBe('phi');
     roundTrip(filmSynthTruthSchema, truth, 'film-synth-truth', FILM_SYNTH_TRUTH_VERSION);
-    const fit = await runCli(['invert', join(dir, 's', 'profile.csv'), '--film', '4', '--f', '0.5', '--nx', '16', '--ns', '40', '--intervals', 'none', '--out', join(dir, 'f'), '--quiet'], { capture: true });
+    const fit = await runCli(['invert', join(dir, 's', 'profile.csv'), '--film', '4', '--f', '0.5', '--nx', '16', '--ns', '20', '--intervals', 'none', '--out', join(dir, 'f'), '--quiet'], { capture: true });
     expect(fit.code, fit.stderr).toBe(0);
     const result = readFormat(join(dir, 'f', 'result.json'), filmFitResultSchema);
     expect(result.input.points).toBe(40);
     roundTrip(filmFitResultSchema, result, 'film-fit-result', FILM_FIT_RESULT_VERSION);
     expect(() => filmFitResultSchema.parse({ ...result, chiNGuess: 1 })).toThrow(/chiNGuess/);
-    const refl = await runCli(['reflectivity', '--f', '0.5', '--chiN', '15', '--film', '20', '--rg-nm', '5', '--sld', '1.5,1.0,2.07,0', '--points', '30', '--nx', '16', '--ns', '40', '--out', join(dir, 'r'), '--quiet'], { capture: true });
+    const refl = await runCli(['reflectivity', '--f', '0.5', '--chiN', '15', '--film', '20', '--rg-nm', '5', '--sld', '1.5,1.0,2.07,0', '--points', '30', '--nx', '16', '--ns', '20', '--out', join(dir, 'r'), '--quiet'], { capture: true });
     expect(refl.code, refl.stderr).toBe(0);
     roundTrip(filmReflectivitySchema, readFormat(join(dir, 'r', 'result.json'), filmReflectivitySchema), 'film-reflectivity', FILM_REFLECTIVITY_VERSION);
   }, 120_000);

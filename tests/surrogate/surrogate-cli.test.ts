@@ -63,11 +63,11 @@ describe('surrogate commands', () => {
     expect(file.metrics.heldOut.map((h: { point: { chiN: number } }) => h.point.chiN)).toEqual([14, 16]);
   });
 
-  it('train refuses --adam-steps and --resume for a surrogate config (exit 2, naming the flag)', () => {
+  it('train refuses --adam-steps and --resume for a surrogate config (exit 2, naming the flag)', async () => {
     const r = runCli(['train', configPath, '--adam-steps', '10', '--out', join(work, 'x')]);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--adam-steps: got "10"; a surrogate's Adam steps are warmStart.adamSteps/);
-    const resume = runCli(['train', configPath, '--resume', ck]);
+    const resume = await here(['train', configPath, '--resume', ck]);
     expect(resume.code).toBe(2);
     expect(resume.stderr).toMatch(/--resume: got ".*"; a surrogate run cannot be resumed/);
   });
@@ -127,7 +127,7 @@ describe('surrogate commands', () => {
     expect(existsSync(out)).toBe(false);
   }, 120_000);
 
-  it('predict on something that is not a surrogate checkpoint says so, and evaluate on a surrogate (exit 2)', () => {
+  it('predict on something that is not a surrogate checkpoint says so, and evaluate on a surrogate (exit 2)', async () => {
     // A directory whose checkpoint.json is of the single-point kind (predict reads the kind first).
     const other = join(work, 'other');
     mkdirSync(other);
@@ -136,13 +136,13 @@ describe('surrogate commands', () => {
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/predict needs a surrogate checkpoint/);
     // And the other way round: evaluate (single-point networks) points a surrogate to predict and report.
-    const ev = runCli(['evaluate', ck]);
+    const ev = await here(['evaluate', ck]);
     expect(ev.code).toBe(2);
     expect(ev.stderr).toMatch(/a surrogate checkpoint; its error map .* is in .*metrics\.json/);
   });
 
-  it('report draws the error map of the checkpoint', () => {
-    const r = runCli(['report', ck, '--out', join(work, 'report'), '--format', 'png']);
+  it('report draws the error map of the checkpoint', async () => {
+    const r = await here(['report', ck, '--out', join(work, 'report'), '--format', 'png']);
     expect(r.code, r.stderr).toBe(0);
     for (const f of ['surrogate-error', 'surrogate-free-energy-error', 'surrogate-period', 'surrogate-rounds', 'profiles-phi']) expect(existsSync(join(work, 'report', 'figures', `${f}.png`)), f).toBe(true);
   });

@@ -5,9 +5,12 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
+import { runCli as runInProcess } from '../../src/cli/run-cli.js';
 import { runCli } from '../helpers/run-cli.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-sweep-cli-'));
+/** The same command code in this process through the CLI's entry function (no node start-up); each kind of refusal keeps one case through the built program. */
+const inProcess = (args: string[]) => runInProcess(args, { capture: true });
 
 function writeConfig(dir: string, parameters: unknown, extra: Record<string, unknown> = {}): string {
   const p = join(dir, 'grid.sweep.json');
@@ -47,11 +50,12 @@ describe('mesofield sweep', () => {
   });
 
   const badShards = ['0/2', '3/2', '2', 'a/b', '1/0', '-1/2'];
-  it(`bad --shard values (${badShards.join(', ')}) exit 2 naming the flag, the value and what is allowed`, () => {
+  it(`bad --shard values (${badShards.join(', ')}) exit 2 naming the flag, the value and what is allowed`, async () => {
     const dir = tmp();
     const cfg = writeConfig(dir, { chiN: [12] });
-    for (const s of badShards) {
-      const r = runCli(['sweep', cfg, `--shard=${s}`, '--out', join(dir, 'out')]);
+    for (const [i, s] of badShards.entries()) {
+      const args = ['sweep', cfg, `--shard=${s}`, '--out', join(dir, 'out')];
+      const r = i === 0 ? runCli(args) : await inProcess(args);
       expect(r.code, s).toBe(2);
       expect(r.stderr).toContain(`--shard: got ${JSON.stringify(s)}; allowed: I/N with whole numbers 1 ≤ I ≤ N`);
       expect(r.stdout).toBe('');
@@ -59,24 +63,24 @@ describe('mesofield sweep', () => {
     expect(existsSync(join(dir, 'out'))).toBe(false);
   });
 
-  it('other bad input exits 2: workers, a file start, flag mixes; any f is solved (each block takes its own contour steps)', () => {
+  it('other bad input exits 2: workers, a file start, flag mixes; any f is solved (each block takes its own contour steps)', async () => {
     const dir = tmp();
     const cfg = writeConfig(dir, { chiN: [12] });
-    const workers = runCli(['sweep', cfg, '--workers', '1.5']);
+    const workers = await inProcess(['sweep', cfg, '--workers', '1.5']);
     expect(workers.code).toBe(2);
     expect(workers.stderr).toMatch(/--workers: got 1\.5; allowed: a whole number from 1 to 64/);
     // f = 0.33 gives no even whole number of steps of one size on both blocks; per-block steps solve it.
-    const anyF = runCli(['sweep', writeConfig(dir, { chiN: [14], f: [0.5, 0.33] }), '--out', join(dir, 'f033'), '--json']);
+    const anyF = await inProcess(['sweep', writeConfig(dir, { chiN: [14], f: [0.5, 0.33] }), '--out', join(dir, 'f033'), '--json']);
     expect(anyF.code).toBe(0);
     expect(JSON.parse(anyF.stdout).points.map((p: { phase: string }) => p.phase)).toEqual(['lamellar', 'lamellar']);
-    const range = runCli(['sweep', writeConfig(dir, { chiN: { from: 10, to: 12, count: 0 } })]);
+    const range = await inProcess(['sweep', writeConfig(dir, { chiN: { from: 10, to: 12, count: 0 } })]);
     expect(range.code).toBe(2);
     expect(range.stderr).toMatch(/parameters\.chiN/);
-    const file = runCli(['sweep', writeConfig(dir, { chiN: [12] }, { solver: { start: { type: 'file', path: 'x.json' } } })]);
+    const file = await inProcess(['sweep', writeConfig(dir, { chiN: [12] }, { solver: { start: { type: 'file', path: 'x.json' } } })]);
     expect(file.code).toBe(2);
     expect(file.stderr).toMatch(/solver\.start\.type: got "file"; start "file" is not allowed in a sweep/);
-    expect(runCli(['sweep', cfg, '--merge', dir, '--out', dir]).stderr).toMatch(/config: got .* with --merge/);
-    expect(runCli(['sweep', '--merge', dir]).stderr).toMatch(/--out: missing; --merge needs/);
+    expect((await inProcess(['sweep', cfg, '--merge', dir, '--out', dir])).stderr).toMatch(/config: got .* with --merge/);
+    expect((await inProcess(['sweep', '--merge', dir])).stderr).toMatch(/--out: missing; --merge needs/);
     expect(runCli(['sweep']).code).toBe(2);
     expect(existsSync(join(dir, 'o'))).toBe(false);
   });

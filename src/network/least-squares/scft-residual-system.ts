@@ -31,8 +31,8 @@
 import { InputError } from '../../io/errors.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
 import type { Chain } from '../../physics/chain.js';
-import { contourFromSteps, densitiesFromPropagators } from '../../physics/contour.js';
-import type { Contour } from '../../physics/contour.js';
+import { collocationContours, densitiesFromPropagators } from '../../physics/contour.js';
+import type { Contour, ContourSpread } from '../../physics/contour.js';
 import { fieldAtPoints } from '../../physics/fields.js';
 import { JetMlp64 } from '../../autodiff/jet-mlp64.js';
 import type { Mlp } from '../../autodiff/mlp.js';
@@ -48,8 +48,10 @@ import type { ScftNetworks } from '../scft-networks.js';
 export interface ResidualGrid {
   /** Cell grid points (the MDE and the field equations share them). */
   nx: number;
-  /** Contour steps per block (even). */
+  /** Contour steps per block (even); with spread 'by-length', the mean over the blocks. */
   nodesPerBlock: number;
+  /** How the steps are spread over the blocks (physics/contour.ts; absent: 'equal'). */
+  spread?: ContourSpread;
 }
 
 interface Piece {
@@ -147,7 +149,7 @@ export class ScftResidualSystem {
     this.fieldFirst = this.field ? this.field.offset : 0;
     this.fieldCount = this.field ? this.field.size : 0;
     this.featField = nets.field ? cellFeatureArrays(this.x, nets.cell.features, nets.field.config.fourierModes) : null;
-    const steps = (c: Chain) => c.blocks.map(() => grid.nodesPerBlock);
+    const contours = collocationContours(nets.chain, nets.reversed, grid.nodesPerBlock, grid.spread ?? 'equal', 'training.secondOrder.nodesPerBlock');
     const makeSide = (name: Side['name'], chain: Chain): Side => {
       const net = name === 'q' ? nets.q : nets.qDagger;
       const pieces = net.pieces.map((p) => ({ start: p.start, length: p.length, mlp: jetOf(nets, p.mlp) }));
@@ -167,11 +169,11 @@ export class ScftResidualSystem {
           return spec ? fieldAtPoints(spec, nets.length, this.x) : new Float64Array(this.nx);
         });
       }
-      return { name, chain, contour: contourFromSteps(chain, steps(chain), 'training.secondOrder.nodesPerBlock'), pieces, first, count: upTo[upTo.length - 1], upTo, pieceOfBlock, prescribed };
+      return { name, chain, contour: name === 'q' ? contours.q : contours.qDagger, pieces, first, count: upTo[upTo.length - 1], upTo, pieceOfBlock, prescribed };
     };
     this.sides = [makeSide('q', nets.chain), makeSide('qDagger', nets.reversed)];
     const mdeSides = this.shared ? 1 : 2;
-    this.mdePoints = mdeSides * nets.chain.blocks.reduce((s) => s + (grid.nodesPerBlock + 1) * grid.nx, 0);
+    this.mdePoints = mdeSides * contours.q.blocks.reduce((s, b) => s + (b.steps + 1) * grid.nx, 0);
   }
 
   /** ½‖r‖² (no Jacobian). */
