@@ -6,15 +6,20 @@
  * matrix, the Cholesky factorisation and solve, a trial cost, the whole-system loss after it,
  * and the evaluation against the reference. Printed: wall and CPU seconds (user + sys of this
  * process; the machine may be shared, CPU time is the steadier figure). Options:
- * --config=FILE (default the shipped χN = 15 config), --seed=N (network seed).
+ * --config=FILE (default the shipped χN = 15 config), --seed=N (network seed), --passes=N
+ * (default 2; the first pass includes the JIT's warm-up), --js (the JS forms of the normal
+ * matrix and Cholesky instead of the f64x2 kernels of numerics/float64-kernels.ts), --part=all
+ * (the joint system's iteration instead of each propagator's).
  */
 import { readFileSync } from 'node:fs';
 import { selectBackend } from '../autodiff/backend.js';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
+import type { ResidualPart } from '../network/least-squares/scft-residual-system.js';
 import { buildScftNetworks } from '../network/scft-networks.js';
 import { warmStart } from '../network/warm-start.js';
 import { cholesky, choleskySolve } from '../numerics/cholesky.js';
+import { loadFloat64Kernels } from '../numerics/float64-kernels.js';
 import { groupedNormalEquations, shiftedGroups } from '../numerics/grouped-normal-equations.js';
 import { buildChain } from '../physics/chain.js';
 import { solveFromConfig } from '../spectral/solve-from-config.js';
@@ -41,6 +46,8 @@ export async function runLmProfile(): Promise<void> {
   const seed = arg('seed');
   if (seed !== undefined) raw.networks = { ...raw.networks, field: { ...raw.networks?.field, seed: Number(seed) }, propagator: { ...raw.networks?.propagator, seed: Number(seed) } };
   const config = trainConfigSchema.parse(raw);
+  // --js: the JS forms of the normal matrix and Cholesky (the f64x2 kernels otherwise).
+  if (!process.argv.includes('--js')) await loadFloat64Kernels();
   const { tf } = await selectBackend('wasm');
   const chain = buildChain(config.system.chain);
   const reference = solveFromConfig({ system: config.system, cell: config.cell, solver: config.solver, output: { propagators: true } }).solution;
@@ -51,10 +58,13 @@ export async function runLmProfile(): Promise<void> {
   const sys = new ScftResidualSystem(nets, config.system, grid, config.losses.weights);
   const theta = nets.parameters.flatten();
   console.log(`LM iteration profile: ${file}, ${sys.size} parameters, grid ${grid.nx} × ${grid.nodesPerBlock} steps per block, load average ${(await import('node:os')).loadavg()[0].toFixed(1)}`);
-  const sides: ('q' | 'qDagger')[] = nets.shared ? ['q'] : ['q', 'qDagger'];
-  for (let rep = 0; rep < 2; rep++) {
+  // --part=all: the joint system (every network, the field equations: the joint strategy's and
+  // the least-squares network estimator's normal matrix).
+  const sides: ResidualPart[] = arg('part') === 'all' ? ['all'] : nets.shared ? ['q'] : ['q', 'qDagger'];
+  const passes = Number(arg('passes') ?? 2);
+  for (let rep = 0; rep < passes; rep++) {
     for (const part of sides) {
-      const { first, count } = sys.columnsOf(part);
+      const { first, count } = part === 'all' ? { first: 0, count: sys.size } : sys.columnsOf(part);
       console.log(` ${part} (${count} parameters), pass ${rep + 1}`);
       const e = timed('Jacobian (float64 jets)', () => sys.evaluate(theta, true, part));
       const groups = shiftedGroups(e.groups!, first);

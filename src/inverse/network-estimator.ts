@@ -45,6 +45,7 @@ import { RunFailure } from '../io/errors.js';
 import { refitFieldsToUpdate } from '../network/field-update.js';
 import { warmStartYielding } from '../network/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
+import { loadFloat64Kernels } from '../numerics/float64-kernels.js';
 import { jointFitSeed } from './network-joint-fit.js';
 import type { ProfileData } from './profile-csv.js';
 
@@ -178,6 +179,9 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   }
   const handle = await selectBackend(s.backend);
   const tf = handle.tf;
+  // The least-squares strategy's normal matrices and factorisations in the f64x2 kernels (the
+  // JS forms' results to the last bit).
+  if (s.strategy === 'least-squares') await loadFloat64Kernels();
   const chain = buildChain(s.chain);
   const L = classical.period;
   const nx = classical.solution.nx;

@@ -10,6 +10,8 @@
  * (Nocedal & Wright, "Numerical Optimization", 2nd ed., §3.4, "Modified Cholesky"), and
  * the caller is told the shift it got.
  */
+import { float64Kernels } from './float64-kernels.js';
+import type { Float64Kernels } from './float64-kernels.js';
 
 export interface CholeskyFactor {
   n: number;
@@ -49,6 +51,8 @@ function factorRows(A: Float64Array, L: Float64Array, n: number, shift: number, 
  * additions in every sum is unchanged, so the factor is the same to the last bit).
  */
 function factorWithShift(A: Float64Array, n: number, shift: number): Float64Array | null {
+  const kernels = float64Kernels();
+  if (kernels && n >= 8) return factorWithShiftWasm(kernels, A, n, shift);
   const L = new Float64Array(n * n);
   let i0 = 0;
   for (; i0 + 3 < n; i0 += 4) {
@@ -123,6 +127,28 @@ function factorWithShift(A: Float64Array, n: number, shift: number): Float64Arra
     if (!factorRows(A, L, n, shift, i0, i0 + 4, i0)) return null;
   }
   return factorRows(A, L, n, shift, i0, n, 0) ? L : null;
+}
+
+/**
+ * factorWithShift with the four-row blocks' off-diagonal part in the f64x2 kernel
+ * (numerics/float64-kernels.ts: the same sums in the same order, lane by lane, so the same
+ * factor to the last bit); the 4 × 4 diagonal blocks and the last rows by factorRows on views
+ * of the kernels' memory.
+ */
+function factorWithShiftWasm(kernels: Float64Kernels, A: Float64Array, n: number, shift: number): Float64Array | null {
+  kernels.reset();
+  const As = kernels.scratch(n * n);
+  const Ls = kernels.scratch(n * n);
+  const Ps = kernels.scratch(4 * n);
+  const Av = kernels.view(As);
+  Av.set(A);
+  const Lv = kernels.view(Ls);
+  let i0 = 0;
+  for (; i0 + 3 < n; i0 += 4) {
+    kernels.cholRows4(As.offset, Ls.offset, Ps.offset, n, i0);
+    if (!factorRows(Av, Lv, n, shift, i0, i0 + 4, i0)) return null;
+  }
+  return factorRows(Av, Lv, n, shift, i0, n, 0) ? Lv.slice() : null;
 }
 
 export interface CholeskyOptions {

@@ -8,6 +8,8 @@
  * whose blocks then cost about t·k'·(k + k') instead of rows·k'·(k + k'/2).
  * A is row-major n·n with only the lower triangle filled (what numerics/cholesky.ts reads).
  */
+import { float64Kernels } from './float64-kernels.js';
+import type { Float64Kernels } from './float64-kernels.js';
 
 /**
  * Columns of a group whose Jacobian block is a product C·E of a (mostly zero) m × t matrix C
@@ -77,6 +79,43 @@ function addChunk(J: Float64Array, r: Float64Array, k: number, i0: number, rows:
   addRowProducts(T, k, T, k, R, true, G, k);
 }
 
+/** A group's JᵀJ (lower triangle, row stride k) and Jᵀr (into gl) by the JS chunks. */
+function groupProductJs(J: Float64Array, r: Float64Array, k: number, m: number, gl: Float64Array): { G: Float64Array; ld: number } {
+  const G = new Float64Array(k * k);
+  const T = new Float64Array(k * Math.min(CHUNK, m));
+  for (let i0 = 0; i0 < m; i0 += CHUNK) addChunk(J, r, k, i0, Math.min(CHUNK, m - i0), T, G, gl);
+  return { G, ld: k };
+}
+
+/**
+ * The same by the f64x2 kernel (numerics/float64-kernels.ts): J copied into the kernels'
+ * memory with its rows padded to a multiple of 8 columns (zeros), the same chunks of CHUNK
+ * rows, each entry summed over a chunk in the same order as addChunk and then added to G, so
+ * G is the JS form's to the last bit. G is a view of the kernels' memory, row stride kp,
+ * valid until the kernels' next use; Jᵀr is summed here in addChunk's order.
+ */
+function groupProductWasm(kernels: Float64Kernels, J: Float64Array, r: Float64Array, k: number, m: number, gl: Float64Array): { G: Float64Array; ld: number } {
+  const kp = Math.ceil(k / 8) * 8;
+  kernels.reset();
+  const Js = kernels.scratch(m * kp);
+  const Gs = kernels.scratch(kp * kp);
+  const Jv = kernels.view(Js);
+  for (let i = 0; i < m; i++) Jv.set(J.subarray(i * k, (i + 1) * k), i * kp);
+  const s = new Float64Array(k);
+  for (let i0 = 0; i0 < m; i0 += CHUNK) {
+    const rows = Math.min(CHUNK, m - i0);
+    kernels.syrkLower(Js.offset + i0 * kp * 8, kp, rows, Gs.offset);
+    s.fill(0);
+    for (let i = i0; i < i0 + rows; i++) {
+      const ri = r[i];
+      const o = i * k;
+      for (let a = 0; a < k; a++) s[a] += J[o + a] * ri;
+    }
+    for (let a = 0; a < k; a++) gl[a] += s[a];
+  }
+  return { G: kernels.view(Gs), ld: kp };
+}
+
 export function groupedNormalEquations(n: number, groups: readonly ResidualGroup[]): { A: Float64Array; g: Float64Array; cost: number } {
   const A = new Float64Array(n * n);
   const g = new Float64Array(n);
@@ -86,15 +125,15 @@ export function groupedNormalEquations(n: number, groups: readonly ResidualGroup
     const m = grp.r.length;
     if (grp.J.length !== m * k) throw new RangeError(`group has ${grp.J.length} Jacobian entries, expected ${m}·${k}`);
     for (let i = 0; i < m; i++) sumSq += grp.r[i] * grp.r[i];
-    const G = new Float64Array(k * k);
     const gl = new Float64Array(k);
-    const T = new Float64Array(k * Math.min(CHUNK, m));
-    for (let i0 = 0; i0 < m; i0 += CHUNK) addChunk(grp.J, grp.r, k, i0, Math.min(CHUNK, m - i0), T, G, gl);
+    const kernels = float64Kernels();
+    const { G, ld } = kernels && k >= 8 ? groupProductWasm(kernels, grp.J, grp.r, k, m, gl) : groupProductJs(grp.J, grp.r, k, m, gl);
     const c = grp.columns;
     for (let a = 0; a < k; a++) {
       g[c[a]] += gl[a];
       const ra = c[a] * n;
-      for (let b = 0; b <= a; b++) A[ra + c[b]] += G[a * k + b];
+      const ga = a * ld;
+      for (let b = 0; b <= a; b++) A[ra + c[b]] += G[ga + b];
     }
     if (grp.factored) addFactored(n, grp, A, g);
   }
@@ -196,6 +235,11 @@ function addFactored(n: number, grp: ResidualGroup, A: Float64Array, g: Float64A
   const kf = f.columns.length;
   const t = f.t;
   if (f.C.length !== m * t || f.E.length !== t * kf) throw new RangeError(`factored columns: C has ${f.C.length} entries and E ${f.E.length}, expected ${m}·${t} and ${t}·${kf}`);
+  const kernels = float64Kernels();
+  if (kernels && k >= 8 && kf >= 8) {
+    addFactoredWasm(kernels, n, grp, A, g);
+    return;
+  }
   // HT = (CᵀJ)ᵀ (k × t), S = CᵀC (t × t), Cr = Cᵀr: one pass over the rows, zeros of C skipped.
   const HT = new Float64Array(k * t);
   const S = new Float64Array(t * t);
@@ -242,6 +286,74 @@ function addFactored(n: number, grp: ResidualGroup, A: Float64Array, g: Float64A
       const cb = grp.columns[b];
       if (ca > cb) A[ca * n + cb] += X[a * k + b];
       else A[cb * n + ca] += X[a * k + b];
+    }
+  }
+}
+
+/**
+ * addFactored with its two products over the intermediates in the f64x2 kernel
+ * (numerics/float64-kernels.ts), on the untransposed E, S·E and CᵀJ (t rows each, columns
+ * padded to 8): each entry summed over u in the order addRowProducts sums it, and S·E and CᵀJ
+ * accumulated in addFactored's order, so the blocks are the JS form's to the last bit.
+ */
+function addFactoredWasm(kernels: Float64Kernels, n: number, grp: ResidualGroup, A: Float64Array, g: Float64Array): void {
+  const f = grp.factored!;
+  const m = grp.r.length;
+  const k = grp.columns.length;
+  const kf = f.columns.length;
+  const t = f.t;
+  const kp = Math.ceil(k / 8) * 8;
+  const kfp = Math.ceil(kf / 8) * 8;
+  kernels.reset();
+  const Es = kernels.scratch(t * kfp);
+  const SEs = kernels.scratch(t * kfp);
+  const Hs = kernels.scratch(t * kp);
+  const Fs = kernels.scratch(kfp * kfp);
+  const Xs = kernels.scratch(kfp * kp);
+  const E = kernels.view(Es);
+  const SE = kernels.view(SEs);
+  const H = kernels.view(Hs);
+  // H = CᵀJ (t × k), S = CᵀC, Cr = Cᵀr: one pass over the rows, zeros of C skipped.
+  const S = new Float64Array(t * t);
+  const Cr = new Float64Array(t);
+  for (let i = 0; i < m; i++) {
+    const ci = i * t;
+    const ji = i * k;
+    for (let u = 0; u < t; u++) {
+      const cu = f.C[ci + u];
+      if (cu === 0) continue;
+      Cr[u] += cu * grp.r[i];
+      const hu = u * kp;
+      for (let b = 0; b < k; b++) H[hu + b] += cu * grp.J[ji + b];
+      for (let v = 0; v < t; v++) S[u * t + v] += cu * f.C[ci + v];
+    }
+  }
+  for (let u = 0; u < t; u++) E.set(f.E.subarray(u * kf, (u + 1) * kf), u * kfp);
+  for (let u = 0; u < t; u++) {
+    const su = u * kfp;
+    for (let v = 0; v < t; v++) {
+      const s = S[u * t + v];
+      if (s === 0) continue;
+      const ev = v * kf;
+      for (let a = 0; a < kf; a++) SE[su + a] += s * f.E[ev + a];
+    }
+  }
+  for (let a = 0; a < kf; a++) {
+    let s = 0;
+    for (let u = 0; u < t; u++) s += f.E[u * kf + a] * Cr[u];
+    g[f.columns[a]] += s;
+  }
+  kernels.productTn(Es.offset, kfp, SEs.offset, kfp, t, Fs.offset, kfp, kf, kf, true);
+  kernels.productTn(Es.offset, kfp, Hs.offset, kp, t, Xs.offset, kp, kf, k, false);
+  const F = kernels.view(Fs);
+  const X = kernels.view(Xs);
+  for (let a = 0; a < kf; a++) {
+    const ca = f.columns[a];
+    for (let b = 0; b <= a; b++) A[ca * n + f.columns[b]] += F[a * kfp + b];
+    for (let b = 0; b < k; b++) {
+      const cb = grp.columns[b];
+      if (ca > cb) A[ca * n + cb] += X[a * kp + b];
+      else A[cb * n + ca] += X[a * kp + b];
     }
   }
 }

@@ -76,8 +76,36 @@ export function contourFromSteps(chain: Chain, steps: readonly number[], field =
  */
 export function contourWithTotal(chain: Chain, total: number, field = 'cell.ns'): Contour {
   if (!Number.isInteger(total) || total < 2) throw new ModelError(field, total, 'allowed: a whole number of contour steps ≥ 2 (or "auto")');
-  const steps = chain.blocks.map((b) => Math.max(2, 2 * Math.round((b.fraction * total) / 2)));
-  return contourFromSteps(chain, steps, field);
+  return contourFromSteps(chain, stepsByLength(chain, total), field);
+}
+
+/** About `total` steps spread over the blocks in proportion to their lengths (each even, ≥ 2). */
+function stepsByLength(chain: Chain, total: number): number[] {
+  return chain.blocks.map((b) => Math.max(2, 2 * Math.round((b.fraction * total) / 2)));
+}
+
+/**
+ * How a network's collocation spreads its contour steps over the blocks: 'equal' gives every
+ * block `perBlock` steps (a short block is then sampled more finely than a long one);
+ * 'by-length' spreads the same total, `perBlock` × blocks, in proportion to the blocks'
+ * lengths (each even, ≥ 2), so every block has nearly the same step h. The networks' MDE
+ * error grows with h on the long block (measured at f = 0.35, χN = 22:
+ * docs/second-order-training.md).
+ */
+export type ContourSpread = 'equal' | 'by-length';
+
+/** The steps on each block of the chain, in chain order, for a collocation's spread. */
+export function collocationSteps(chain: Chain, perBlock: number, spread: ContourSpread): number[] {
+  return spread === 'by-length' ? stepsByLength(chain, perBlock * chain.blocks.length) : chain.blocks.map(() => perBlock);
+}
+
+/**
+ * The collocation contours of q (along the chain) and of q† (along the reversed chain, the
+ * same steps in reverse order, so q†'s node ns − i sits at s = 1 − s_i exactly).
+ */
+export function collocationContours(chain: Chain, reversed: Chain, perBlock: number, spread: ContourSpread, field: string): { q: Contour; qDagger: Contour } {
+  const steps = collocationSteps(chain, perBlock, spread);
+  return { q: contourFromSteps(chain, steps, field), qDagger: contourFromSteps(reversed, [...steps].reverse(), field) };
 }
 
 /** The same contour read from the other chain end (the contour of q†). */

@@ -23,12 +23,14 @@ import type { LossValues } from '../network/losses/terms.js';
 import { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
 import type { ResidualPart } from '../network/least-squares/scft-residual-system.js';
 import { levenbergMarquardt, levenbergMarquardtYielding } from '../numerics/levenberg-marquardt.js';
+import { loadFloat64Kernels } from '../numerics/float64-kernels.js';
 import { yieldToEvents } from '../runtime/stop.js';
 import type { LmStop } from '../numerics/levenberg-marquardt.js';
 import { fieldDeviation, fixGauge } from '../physics/scft-equations.js';
 import { AndersonMixer } from '../spectral/anderson-mixer.js';
 import { lamellarPhase, pinLamellarPhase } from '../physics/translation.js';
 import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import type { ContourSpread } from '../physics/contour.js';
 
 /** LM iterations of each field-network fit (a small least-squares problem over the field network alone). */
 const FIELD_FIT_ITERATIONS = 20;
@@ -37,6 +39,8 @@ export interface SecondOrderSettings {
   iterations: number;
   nx: number;
   nodesPerBlock: number;
+  /** How the contour steps are spread over the blocks (physics/contour.ts; absent: 'equal'). */
+  contourSpread?: ContourSpread;
   damping: 'marquardt' | 'identity';
   /** Evaluate against the reference every this many iterations (0: at the end only). */
   evaluateEvery: number;
@@ -157,7 +161,10 @@ export interface SecondOrderResult {
 export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, weights: LossValues, settings: SecondOrderSettings, hooks: SecondOrderHooks = {}): Promise<SecondOrderResult> {
   const t0 = performance.now();
   const seconds = () => (performance.now() - t0) / 1000;
-  const sys = new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.nodesPerBlock }, weights);
+  // The f64x2 kernels of the normal matrices and factorisations (the same results as their JS
+  // forms, to the last bit, about twice as fast); without them the JS forms run.
+  await loadFloat64Kernels();
+  const sys = new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.nodesPerBlock, spread: settings.contourSpread }, weights);
   let theta = nets.parameters.flatten();
   const lossOf = (x: Float64Array) => sys.evaluate(x, false);
   const evaluated = Boolean(hooks.evaluate);
@@ -250,7 +257,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
   // A film has no translation mode (its walls fix the layers): nothing to pin there.
   const pinPhase = nets.field && twoSpecies && nets.cell.translation ? lamellarPhase(sys.state(theta).w, settings.periods).phase : null;
   const gridCell = nets.cell.withPoints(sys.nx);
-  const stateSys = settings.stateNodesPerBlock && settings.stateNodesPerBlock !== settings.nodesPerBlock ? new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.stateNodesPerBlock }, weights) : sys;
+  const stateSys = settings.stateNodesPerBlock && settings.stateNodesPerBlock !== settings.nodesPerBlock ? new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.stateNodesPerBlock, spread: settings.contourSpread }, weights) : sys;
   const mixer = new AndersonMixer(settings.fieldStep === 'anderson' ? settings.andersonHistory : 0, settings.fieldMixing);
   const onChain = nets.chain.species;
   let cycle = 0;

@@ -354,6 +354,7 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         iterations: tr.secondOrderIterations,
         nx: tr.secondOrder.nx ?? config.collocation.nx,
         nodesPerBlock: tr.secondOrder.nodesPerBlock ?? config.collocation.nodesPerBlock,
+        contourSpread: config.collocation.contourSpread,
         damping: tr.secondOrder.damping,
         evaluateEvery: tr.secondOrder.evaluateEvery,
         targetPhiError: tr.targetPhiError,

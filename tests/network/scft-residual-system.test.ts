@@ -90,6 +90,36 @@ describe('ScftResidualSystem (float64 residuals and Jacobian of the SCFT equatio
     }
   });
 
+  it("contour steps spread by the blocks' lengths: the field-equation terms (φ by Simpson's rule on those nodes) equal the tfjs ones on the same spread, and differ from the equal spread's", async () => {
+    const { tf, nets } = await setup({ type: 'diblock', f: 0.35 }, 20, true);
+    // Far off Glorot's draw: propagators that curve in s, so that the two spreads' quadratures differ.
+    const x0 = nets.parameters.flatten().map((v, i) => v + 2 * Math.sin(1.7 * i));
+    nets.parameters.unflatten(x0);
+    const config = trainConfigSchema.parse({
+      version: 2,
+      kind: 'train',
+      system: { chain: { type: 'diblock', f: 0.35 }, chiN: 20 },
+      networks: { field: { hidden: [5] }, propagator: { hidden: [5, 4], fourierModes: 2 } },
+      collocation: { nx: 8, nodesPerBlock: 4, random: 0, contourSpread: 'by-length' },
+    });
+    // 8 steps: 0.35 · 8 = 2.8 → 2 on A, 6 on B (equal: 4 and 4).
+    const sys = new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4, spread: 'by-length' }, unit);
+    const mine = sys.evaluate(x0, false).terms;
+    const equal = new ScftResidualSystem(nets, config.system, { nx: 8, nodesPerBlock: 4 }, unit).evaluate(x0, false).terms;
+    const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
+    const theirs = tf.tidy(() => {
+      const t = problem.terms();
+      return { incompressibility: t.incompressibility.dataSync()[0], selfConsistency: t.selfConsistency.dataSync()[0] };
+    });
+    problem.dispose();
+    for (const k of ['incompressibility', 'selfConsistency'] as const) {
+      expect(mine[k]).toBeGreaterThan(1e-6);
+      expect(Math.abs(mine[k] - theirs[k])).toBeLessThan(1e-4 * mine[k]);
+      expect(Math.abs(mine[k] - equal[k])).toBeGreaterThan(1e-3 * mine[k]);
+      expect(Math.abs(equal[k] - theirs[k])).toBeGreaterThan(1e-3 * mine[k]);
+    }
+  });
+
   it('one-block chain in an external field: the MDE term equals the tfjs one (same points: no junctions)', async () => {
     const ext = { externalField: { A: { type: 'cosine', amplitude: 2, mode: 1, offset: 0 } } };
     const { tf, nets, config, x0 } = await setup({ type: 'homopolymer', species: 'A' }, 0, false, ext);

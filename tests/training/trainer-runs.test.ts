@@ -17,10 +17,12 @@ describe('trainer: symmetric diblock, seeded repeats, resume and failures', () =
   it('seeded runs repeat and a resumed run continues the same loss curve', async () => {
     const short = { ...small, warmStart: { ...base.warmStart, adamSteps: 20 }, collocation: { ...small.collocation, resampleEvery: 25 }, training: { ...base.training, adamSteps: 60, checkpointEvery: 30, fieldUpdateEvery: 35, logEvery: 5 } };
     const a = await trainRun({ config: short, backend: 'wasm' });
-    const b = await trainRun({ config: short, backend: 'wasm' });
-    expect(b.history.map((h) => h.total)).toEqual(a.history.map((h) => h.total));
     const half = join(tmp(), 'half');
-    await trainRun({ config: { ...short, training: { ...short.training, adamSteps: 30 } }, outDir: half, backend: 'wasm' });
+    const b = await trainRun({ config: { ...short, training: { ...short.training, adamSteps: 30 } }, outDir: half, backend: 'wasm' });
+    // The seeded repeat: the 30-step run that the resume starts from retraces the first 30 steps
+    // of the 60-step run exactly (one run fewer than repeating the 60 steps).
+    expect(b.history[b.history.length - 1].step).toBe(30);
+    expect(b.history.map((h) => h.total)).toEqual(a.history.slice(0, b.history.length).map((h) => h.total));
     const resumed = await trainRun({ config: short, resumeDir: half, outDir: half, backend: 'wasm' });
     // The resume point (30) falls between a resampling (25) and a field update (35): both must carry over.
     const tail = (h: typeof a.history) => h.filter((e) => e.step > 30).map((e) => e.total);

@@ -83,6 +83,13 @@ export const trainConfigSchema = z
           .refine((n) => n % 2 === 0, { message: 'must be even (Simpson intervals come in pairs)' })
           .meta({ constraint: 'even' })
           .default(16),
+        /**
+         * How the contour steps are spread over the blocks: 'equal' (nodesPerBlock on every
+         * block) or 'by-length' (nodesPerBlock × blocks in all, in proportion to the blocks'
+         * lengths, each even: every block nearly the same step). Applies to every grid the
+         * networks are trained on (the tensor grid, the second-order phase's).
+         */
+        contourSpread: z.enum(['equal', 'by-length']).default('equal'),
         /** Extra MDE collocation points, redrawn every resampleEvery steps. */
         random: z.number().int().min(0).max(100000).default(256),
         /** Of those, the share drawn where the MDE residual is largest (residual-based). */

@@ -31,8 +31,8 @@
 import { InputError } from '../../io/errors.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
 import type { Chain } from '../../physics/chain.js';
-import { contourFromSteps, densitiesFromPropagators } from '../../physics/contour.js';
-import type { Contour } from '../../physics/contour.js';
+import { collocationContours, densitiesFromPropagators } from '../../physics/contour.js';
+import type { Contour, ContourSpread } from '../../physics/contour.js';
 import { fieldAtPoints } from '../../physics/fields.js';
 import { JetMlp64 } from '../../autodiff/jet-mlp64.js';
 import type { Mlp } from '../../autodiff/mlp.js';
@@ -48,8 +48,10 @@ import type { ScftNetworks } from '../scft-networks.js';
 export interface ResidualGrid {
   /** Cell grid points (the MDE and the field equations share them). */
   nx: number;
-  /** Contour steps per block (even). */
+  /** Contour steps per block (even); with spread 'by-length', the mean over the blocks. */
   nodesPerBlock: number;
+  /** How the steps are spread over the blocks (physics/contour.ts; absent: 'equal'). */
+  spread?: ContourSpread;
 }
 
 interface Piece {
@@ -147,7 +149,7 @@ export class ScftResidualSystem {
     this.fieldFirst = this.field ? this.field.offset : 0;
     this.fieldCount = this.field ? this.field.size : 0;
     this.featField = nets.field ? cellFeatureArrays(this.x, nets.cell.features, nets.field.config.fourierModes) : null;
-    const steps = (c: Chain) => c.blocks.map(() => grid.nodesPerBlock);
+    const contours = collocationContours(nets.chain, nets.reversed, grid.nodesPerBlock, grid.spread ?? 'equal', 'training.secondOrder.nodesPerBlock');
     const makeSide = (name: Side['name'], chain: Chain): Side => {
       const net = name === 'q' ? nets.q : nets.qDagger;
       const pieces = net.pieces.map((p) => ({ start: p.start, length: p.length, mlp: jetOf(nets, p.mlp) }));
@@ -167,11 +169,11 @@ export class ScftResidualSystem {
           return spec ? fieldAtPoints(spec, nets.length, this.x) : new Float64Array(this.nx);
         });
       }
-      return { name, chain, contour: contourFromSteps(chain, steps(chain), 'training.secondOrder.nodesPerBlock'), pieces, first, count: upTo[upTo.length - 1], upTo, pieceOfBlock, prescribed };
+      return { name, chain, contour: name === 'q' ? contours.q : contours.qDagger, pieces, first, count: upTo[upTo.length - 1], upTo, pieceOfBlock, prescribed };
     };
     this.sides = [makeSide('q', nets.chain), makeSide('qDagger', nets.reversed)];
     const mdeSides = this.shared ? 1 : 2;
-    this.mdePoints = mdeSides * nets.chain.blocks.reduce((s) => s + (grid.nodesPerBlock + 1) * grid.nx, 0);
+    this.mdePoints = mdeSides * contours.q.blocks.reduce((s, b) => s + (b.steps + 1) * grid.nx, 0);
   }
 
   /** ½‖r‖² (no Jacobian). */
@@ -505,24 +507,41 @@ export class ScftResidualSystem {
       const rows = (cb.steps + 1) * nx;
       const sideCols = side.upTo[p];
       const fieldCols = field?.dw ? this.fieldCount : 0;
-      // The rows' own columns: the field network's (when joint) and this block's piece. The
-      // earlier pieces enter only through their junction values' ∂x and ∂xx channels at each
-      // x_j, so their columns are a factored block C·E with E the 2·nx·p channel gradients
-      // (numerics/grouped-normal-equations.ts): that cuts the normal-matrix cost of a later
-      // block about threefold (measured, 2×16 pieces on 32 × 33 points).
+      // The rows' own columns: this block's piece. The earlier pieces enter only through their
+      // junction values' ∂x and ∂xx channels at each x_j, and the field network (when joint)
+      // only through w_c(x_j) of the block's species (the residual's ∂/∂w is 1), so their
+      // columns are a factored block C·E (numerics/grouped-normal-equations.ts): E holds the
+      // 2·nx·p channel gradients, then the nx field gradients ∂w_c(x_j)/∂θ. That cuts the
+      // normal-matrix cost of a later block about threefold (measured, 2×16 pieces on 32 × 33
+      // points), and of every block of the joint system by the field's columns.
       const pieceLo = P[p].mlp.offset - side.first;
       const ownCols = sideCols - pieceLo;
-      const k = fieldCols + ownCols;
+      const k = ownCols;
       const J = jacobian && withMde ? new Float64Array(rows * k) : null;
-      const t = 2 * nx * p;
-      const factored = J && p > 0 ? { columns: Int32Array.from({ length: pieceLo }, (_, c) => side.first + c), t, C: new Float64Array(rows * t), E: new Float64Array(t * pieceLo) } : null;
+      const tJunction = 2 * nx * p;
+      const t = tJunction + (fieldCols > 0 ? nx : 0);
+      // Factored columns ascending: the field network's and the earlier pieces', in parameter order.
+      const fieldFirstInE = fieldCols > 0 && this.fieldFirst < side.first;
+      const kf = pieceLo + fieldCols;
+      const sideAt = fieldFirstInE ? fieldCols : 0;
+      const fieldAt = fieldFirstInE ? 0 : pieceLo;
+      const factored =
+        J && t > 0
+          ? {
+              columns: Int32Array.from({ length: kf }, (_, c) => (c >= sideAt && c < sideAt + pieceLo ? side.first + c - sideAt : this.fieldFirst + c - fieldAt)),
+              t,
+              C: new Float64Array(rows * t),
+              E: new Float64Array(t * kf),
+            }
+          : null;
       if (factored) {
         for (let q = 0; q < p; q++) {
-          const at = P[q].mlp.offset - side.first;
+          const at = sideAt + P[q].mlp.offset - side.first;
           for (let j = 0; j < nx; j++) {
-            for (let ch = 0; ch < 2; ch++) factored.E.set(endGrad[q][j][1 + ch], ((q * nx + j) * 2 + ch) * pieceLo + at);
+            for (let ch = 0; ch < 2; ch++) factored.E.set(endGrad[q][j][1 + ch], ((q * nx + j) * 2 + ch) * kf + at);
           }
         }
+        if (fieldCols > 0) for (let j = 0; j < nx; j++) factored.E.set(field!.dw![speciesChannel(b)][j], (tJunction + j) * kf + fieldAt);
       }
       const r = new Float64Array(withMde ? rows : 0);
       blockResiduals.push(r);
@@ -579,20 +598,15 @@ export class ScftResidualSystem {
               factored.C[cRow + (q * nx + j) * 2] = sc * P[q].length * (-2 * D * ux);
               factored.C[cRow + (q * nx + j) * 2 + 1] = sc * P[q].length * -D;
             }
+            if (fieldCols > 0) factored.C[cRow + tJunction + j] = sc;
           }
           const out = J.subarray(rIndex * k, (rIndex + 1) * k);
-          if (fieldCols > 0) {
-            const dw = field!.dw![speciesChannel(b)][j];
-            for (let c = 0; c < fieldCols; c++) out[c] = sc * dw[c];
-          }
-          for (let c = 0; c < ownCols; c++) out[fieldCols + c] = sc * row[own + c];
+          for (let c = 0; c < ownCols; c++) out[c] = sc * row[own + c];
         }
       }
       if (J) {
-        const columns = new Int32Array(k);
-        for (let c = 0; c < fieldCols; c++) columns[c] = this.fieldFirst + c;
-        for (let c = 0; c < ownCols; c++) columns[fieldCols + c] = side.first + pieceLo + c;
-        groups.push({ columns: sortedColumns(columns, J, rows), J, r, ...(factored ? { factored } : {}) });
+        const columns = Int32Array.from({ length: k }, (_, c) => side.first + pieceLo + c);
+        groups.push({ columns, J, r, ...(factored ? { factored } : {}) });
       }
     });
     return { u, valueRows, groups, sumSq, blockResiduals };
@@ -694,22 +708,6 @@ export class ScftResidualSystem {
 function axpy(y: Float64Array, offset: number, a: number, x: Float64Array): void {
   if (a === 0) return;
   for (let i = 0; i < x.length; i++) y[offset + i] += a * x[i];
-}
-
-/** The group's columns in ascending order (field before or after the side), J permuted to match. */
-function sortedColumns(columns: Int32Array, J: Float64Array, rows: number): Int32Array {
-  const k = columns.length;
-  let sorted = true;
-  for (let c = 1; c < k; c++) if (columns[c] <= columns[c - 1]) sorted = false;
-  if (sorted) return columns;
-  const order = Array.from({ length: k }, (_, i) => i).sort((a, b) => columns[a] - columns[b]);
-  const tmp = new Float64Array(k);
-  for (let i = 0; i < rows; i++) {
-    const o = i * k;
-    for (let c = 0; c < k; c++) tmp[c] = J[o + order[c]];
-    J.set(tmp, o);
-  }
-  return Int32Array.from(order, (i) => columns[i]);
 }
 
 /** A least-squares problem over `count` columns from `first` whose residuals (and dense Jacobian, m rows) a function gives. */

@@ -50,7 +50,7 @@ export class ScftProblem {
   ) {
     this.chiN = system.chiN;
     this.species = nets.chain.species.length;
-    this.grid = new TensorGrid(tf, nets, system, collocation.nx, collocation.nodesPerBlock);
+    this.grid = new TensorGrid(tf, nets, system, collocation.nx, collocation.nodesPerBlock, collocation.contourSpread);
     this.fields = new PointFields(tf, nets, fieldInMde);
     this.merged = new MergedPoints(tf, nets, system, this.fields);
   }

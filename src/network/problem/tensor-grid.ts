@@ -2,7 +2,7 @@
  * The fixed points of one SCFT problem, prepared once:
  *   - a tensor grid per propagator, the cell's grid (x_j = jL/nx, j < nx, periodic; the cell
  *     centres of a film) × the contour nodes
- *     of physics/contour.ts (nodesPerBlock Simpson intervals per block), laid out s-major (row i holds the nx points at node s_i); it carries
+ *     of physics/contour.ts (nodesPerBlock Simpson intervals per block, or their total spread by the blocks' lengths), laid out s-major (row i holds the nx points at node s_i); it carries
  *     both the MDE residual and the quadrature of φ (losses/densities.ts), so one forward
  *     pass with derivative channels gives every term;
  *   - the field network's features at the grid's x;
@@ -14,8 +14,8 @@ import type * as TfModule from '@tensorflow/tfjs';
 import type { Jet } from '../../autodiff/jet.js';
 import type { Tf } from '../../autodiff/tf.js';
 import type { SystemSpec } from '../../physics/chain-schema.js';
-import { contourFromSteps } from '../../physics/contour.js';
-import type { Contour } from '../../physics/contour.js';
+import { collocationContours } from '../../physics/contour.js';
+import type { Contour, ContourSpread } from '../../physics/contour.js';
 import type { PropagatorNet, PropagatorPoints } from '../propagator-net.js';
 import type { ScftNetworks } from '../scft-networks.js';
 import { preparePointSet } from './point-set.js';
@@ -37,9 +37,10 @@ export class TensorGrid {
   /** Soft periodicity: the points (0, s_i) then (L, s_i) at the grid's contour nodes, per propagator. */
   readonly ends: { q: PropagatorPoints; qDagger: PropagatorPoints } | null;
 
-  constructor(tf: Tf, nets: ScftNetworks, system: SystemSpec, nx: number, nodesPerBlock: number) {
-    this.nodes = contourFromSteps(nets.chain, nets.chain.blocks.map(() => nodesPerBlock), 'collocation.nodesPerBlock');
-    this.nodesReversed = contourFromSteps(nets.reversed, nets.reversed.blocks.map(() => nodesPerBlock), 'collocation.nodesPerBlock');
+  constructor(tf: Tf, nets: ScftNetworks, system: SystemSpec, nx: number, nodesPerBlock: number, spread: ContourSpread = 'equal') {
+    const contours = collocationContours(nets.chain, nets.reversed, nodesPerBlock, spread, 'collocation.nodesPerBlock');
+    this.nodes = contours.q;
+    this.nodesReversed = contours.qDagger;
     this.x = nets.cell.withPoints(nx).x;
     const h = nets.cell.surfaceFieldAt(this.x);
     this.surfaceField = h ? tf.keep(tf.tensor2d(Float32Array.from(h), [1, nx])) : null;
