@@ -162,7 +162,7 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
   const t0 = performance.now();
   const seconds = () => (performance.now() - t0) / 1000;
   // The f64x2 kernels of the normal matrices and factorisations (the same results as their JS
-  // forms, to the last bit, about twice as fast); without them the JS forms run.
+  // forms, to the last bit, three to four times as fast); without them the JS forms run.
   await loadFloat64Kernels();
   const sys = new ScftResidualSystem(nets, system, { nx: settings.nx, nodesPerBlock: settings.nodesPerBlock, spread: settings.contourSpread }, weights);
   let theta = nets.parameters.flatten();

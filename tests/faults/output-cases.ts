@@ -17,7 +17,7 @@ const SOLVE = ['solve', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns',
 const SYNTH = ['synth', '--f', '0.5', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--points', '8'];
 
 /** A film's R(Q) on a small grid at few Q points: seconds. */
-const REFLECTIVITY = ['reflectivity', '--f', '0.5', '--film', '35', '--affinity', '1,-0.6', '--rg-nm', '5', '--sld', '6.0,1.0,2.07,0', '--nx', '16', '--ns', '20', '--points', '20', '--quiet'];
+const REFLECTIVITY = ['reflectivity', '--f', '0.5', '--film', '20', '--affinity', '1,-0.6', '--rg-nm', '5', '--sld', '6.0,1.0,2.07,0', '--nx', '16', '--ns', '20', '--points', '20', '--quiet'];
 
 async function previous(s: Sandbox, argv: string[], dir: string): Promise<void> {
   const r = await runCli([...argv, '--out', s.path(dir)], { capture: true });

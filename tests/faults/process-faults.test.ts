@@ -10,6 +10,7 @@ import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { runCli } from '../../src/cli/run-cli.js';
 import { reportError } from '../../src/cli/run-command.js';
 import { setInvocation } from '../../src/cli/cli-context.js';
 import { runInWorkers } from '../../src/threads/worker-pool.js';
@@ -49,7 +50,8 @@ describe('a closed stdout (EPIPE)', () => {
   it('invert --json data.csv | (closed): exit 0, quiet', async () => {
     counts.tried++;
     const synth = join(dir, 'synth');
-    const s = await runWithClosedStdout(['synth', '--f', '0.5', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--points', '24', '--out', synth]);
+    // The profile is set-up, made in this process; the invert is the run whose reader goes away.
+    const s = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--period', '3.7', '--nx', '16', '--ns', '20', '--points', '24', '--out', synth, '--quiet'], { capture: true });
     expect(s.code, s.stderr).toBe(0);
     const r = await runWithClosedStdout(['invert', join(synth, 'profile.csv'), '--f', '0.5', '--nx', '16', '--ns', '20', '--json', '--quiet']);
     expect(r.stderr).not.toMatch(/internal error|EPIPE/);

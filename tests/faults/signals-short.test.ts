@@ -23,13 +23,14 @@ import { writeTally } from './tally.js';
 const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-short-'));
 const counts = { tried: 0, 'clear error or stop': 0, 'correct answer': 0 };
 
-// One small solve output serves report, bragg-pattern and invert (each copies what it changes).
+// One small solve output serves report, bragg-pattern and invert (each copies what it changes);
+// set-up, not a check: made in this process through the CLI entry function (no node start-up).
 let solved: Promise<string> | undefined;
 const solveOutput = () =>
   (solved ??= (async () => {
     const out = join(tmp(), 'sol');
-    const p = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
-    expect((await p.code).code, p.stderr()).toBe(0);
+    const r = await runCli(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet'], { capture: true });
+    expect(r.code, r.stderr).toBe(0);
     return out;
   })());
 
@@ -82,8 +83,9 @@ describe('signals: short commands, real processes', () => {
   it('invert --report: SIGINT while drawing the report keeps the results, writes no report, exit 130; the output is marked incomplete', async () => {
     counts.tried++;
     const dir = tmp();
-    const synth = start(['synth', '--f', '0.5', '--chiN', '15', '--points', '64', '--nx', '32', '--ns', '40', '--out', join(dir, 'synth'), '--quiet']);
-    expect((await synth.code).code, synth.stderr()).toBe(0);
+    // Set-up in this process; the invert is the process that is signalled.
+    const synth = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '64', '--nx', '32', '--ns', '40', '--out', join(dir, 'synth'), '--quiet'], { capture: true });
+    expect(synth.code, synth.stderr).toBe(0);
     const out = join(dir, 'inv');
     const { p, r } = await stopAt(['invert', join(dir, 'synth', 'profile.csv'), '--f', '0.5', '--nx', '16', '--ns', '20', '--out', out, '--report'], /invert: drawing the report/, 'SIGINT');
     expect(r.code, p.stderr()).toBe(130);

@@ -12,6 +12,7 @@ import { cpSync, existsSync, mkdtempSync, readFileSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { runCli } from '../../src/cli/run-cli.js';
 import { start, stopAt } from './signal-process.js';
 import { writeTally } from './tally.js';
 
@@ -19,13 +20,14 @@ const tmp = () => mkdtempSync(join(tmpdir(), 'mesofield-signal-'));
 const counts = { tried: 0, 'clear error or stop': 0, 'correct answer': 0 };
 
 describe('signals: solve and demo', () => {
-  // One previous solve output serves both signals (each case copies it).
+  // One previous solve output serves both signals (each case copies it); set-up, not a check:
+  // made in this process through the CLI entry function (no node start-up).
   let previousSolve: Promise<string> | undefined;
   const solveOutput = () =>
     (previousSolve ??= (async () => {
       const out = join(tmp(), 'sol');
-      const first = start(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet']);
-      expect((await first.code).code, first.stderr()).toBe(0);
+      const first = await runCli(['solve', '--chiN', '15', '--period', '3.7', '--nx', '32', '--ns', '40', '--out', out, '--quiet'], { capture: true });
+      expect(first.code, first.stderr).toBe(0);
       return out;
     })());
   for (const [sig, exit] of [
@@ -68,17 +70,18 @@ describe('signals: solve and demo', () => {
 });
 
 describe('signals: loops that ran to their end (invert, surrogate fit, the demo\'s solve)', () => {
-  // One synthetic profile and one previous invert output serve every invert case (each copies the output).
+  // One synthetic profile and one previous invert output serve every invert case (each copies the
+  // output); set-up made in this process, the signalled runs are processes of their own.
   let shared: Promise<{ csv: string; previous: string }> | undefined;
   const invertInputs = () =>
     (shared ??= (async () => {
       const dir = tmp();
-      const synth = start(['synth', '--f', '0.5', '--chiN', '15', '--points', '64', '--nx', '32', '--ns', '40', '--out', join(dir, 'synth')]);
-      expect((await synth.code).code, synth.stderr()).toBe(0);
+      const synth = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '64', '--nx', '32', '--ns', '40', '--out', join(dir, 'synth')], { capture: true });
+      expect(synth.code, synth.stderr).toBe(0);
       const csv = join(dir, 'synth', 'profile.csv');
       const previous = join(dir, 'inv');
-      const first = start(['invert', csv, '--f', '0.5', '--nx', '16', '--ns', '20', '--out', previous, '--quiet']);
-      expect((await first.code).code, first.stderr()).toBe(0);
+      const first = await runCli(['invert', csv, '--f', '0.5', '--nx', '16', '--ns', '20', '--out', previous, '--quiet'], { capture: true });
+      expect(first.code, first.stderr).toBe(0);
       return { csv, previous };
     })());
   const INVERT_FILES = ['result.json', 'fit.csv', 'solution.json', '.mesofield-output.json'];

@@ -40,7 +40,7 @@ function makePeaks(): string {
 describe('fit-bragg (CLI)', () => {
   const peaks = makePeaks();
 
-  it('recovers χN within its intervals and the Rg the peaks were made with; writes result.json through its schema and the report', () => {
+  it('recovers χN within its intervals and the Rg the peaks were made with; writes result.json through its schema and the report', async () => {
     const out = join(dir, 'fit');
     const r = runCli(['fit-bragg', peaks, ...fit, '--out', out, '--report']);
     expect(r.code, r.stderr).toBe(0);
@@ -61,20 +61,21 @@ describe('fit-bragg (CLI)', () => {
     expect(text).toMatch(/Bragg-peak fit/);
     expect(text).toMatch(/What this χN rests on/);
     // `report DIR` reads the result file again (kind bragg-fit) and draws the same pages.
-    const again = runCli(['report', out, '--out', join(out, 'again'), '--quiet']);
+    const again = await inProcess(['report', out, '--out', join(out, 'again'), '--quiet']);
     expect(again.code, again.stderr).toBe(0);
     expect(pdfText(join(out, 'again', 'report.pdf'))).toMatch(/Bragg-peak fit: χN = /);
   });
 
-  it('ties D to a given Rg: the right Rg keeps the truth inside, an Rg 5 % too large pulls χN down (L_eq grows with χN)', () => {
-    const right = runCli(['fit-bragg', peaks, ...fit, '--rg-nm', String(RG_NM), '--rg-nm-sd', '0.06', '--json', '--quiet']);
+  it('ties D to a given Rg: the right Rg keeps the truth inside, an Rg 5 % too large pulls χN down (L_eq grows with χN)', async () => {
+    // In this process through the CLI entry function (the built program runs the fit above).
+    const right = await inProcess(['fit-bragg', peaks, ...fit, '--rg-nm', String(RG_NM), '--rg-nm-sd', '0.06', '--json', '--quiet']);
     expect(right.code, right.stderr).toBe(0);
     const a = JSON.parse(right.stdout);
     expect(a.rgTie.rgNm).toBe(RG_NM);
     expect(a.intervals['95%'].lo).toBeLessThan(TRUE_CHIN);
     expect(a.intervals['95%'].hi).toBeGreaterThan(TRUE_CHIN);
     expect(right.stderr).toBe('');
-    const wrong = runCli(['fit-bragg', peaks, ...fit, '--rg-nm', String(RG_NM * 1.05), '--rg-nm-sd', '0.03', '--json', '--quiet']);
+    const wrong = await inProcess(['fit-bragg', peaks, ...fit, '--rg-nm', String(RG_NM * 1.05), '--rg-nm-sd', '0.03', '--json', '--quiet']);
     expect(wrong.code, wrong.stderr).toBe(0);
     const b = JSON.parse(wrong.stdout);
     expect(b.chiN).toBeLessThan(a.chiN);

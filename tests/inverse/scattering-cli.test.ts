@@ -19,7 +19,7 @@ const files = temps.map((T, i) => {
 });
 
 describe('fit-scattering from the command line', () => {
-  it('fits a temperature series, prints χ(T) and the transition, and writes result.json that its schema reads', () => {
+  it('fits a temperature series, prints χ(T) and the transition, and writes result.json that its schema reads', async () => {
     const out = join(dir, 'run');
     const r = runCli(['fit-scattering', ...files, '--f', '0.5', '--temperatures', temps.join(','), '--segments', '200', '--nbar', '1000', '--out', out, '--quiet']);
     expect(r.stderr).toBe('');
@@ -36,7 +36,8 @@ describe('fit-scattering from the command line', () => {
     // Each fit-<k>.csv is written from its entry of result.json (one writer, io/formats/scattering-fit.ts).
     expect(readFileSync(join(out, 'fit-3.csv'), 'utf8')).toBe(scatteringFitCsv(res.fits[2]));
     // `report DIR` reads the result through the same format and draws the scattering pages.
-    const rep = runCli(['report', out, '--format', 'pdf', '--quiet']);
+    // In this process through the CLI entry function (the built program runs the fit above).
+    const rep = await runInProcess(['report', out, '--format', 'pdf', '--quiet'], { capture: true });
     expect(rep.code, rep.stderr).toBe(0);
     const text = pdfText(join(out, 'report', 'report.pdf'));
     expect(text).toMatch(/Scattering fit: /);

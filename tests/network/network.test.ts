@@ -21,7 +21,7 @@ import { fieldNetworkSchema, propagatorNetworkSchema } from '../../src/io/schema
 import { fd, features64, logQ64, mlp64, readMlp } from './reference64.js';
 import { expectClose } from '../helpers/expect-close.js';
 
-const L = 3.2; // cell length in Rg (about the lamellar period at the ODT, SCFT-NOTES.md)
+const L = 3.2; // cell length in Rg (about the lamellar period at the mean-field ODT, 2π/q* ≈ 3.23 Rg: Leibler 1980)
 const F = 0.4; // block junction of an A0.4-B0.6 diblock
 
 function arr(t: TfModule.Tensor | null, rows: number, cols: number): Float64Array {

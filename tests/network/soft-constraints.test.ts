@@ -4,8 +4,8 @@
  * with a free first piece, the two loss terms, and their wiring in ScftProblem.
  *
  * Oracles: central finite differences of float64 re-implementations (reference64.ts); the
- * analytic linear response of a homopolymer in a weak cosine field (SCFT-NOTES.md, derived
- * below); hand evaluation of the loss formulas of losses/periodicity.ts and
+ * analytic linear response of a homopolymer in a weak cosine field (derived
+ * below; first-order perturbation theory, common practice); hand evaluation of the loss formulas of losses/periodicity.ts and
  * losses/initial-condition.ts. float32 tolerances as in network.test.ts.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -152,7 +152,7 @@ describe.each(['cpu', 'wasm'] as BackendName[])('soft constraints on the %s back
   });
 
   it('both terms vanish on the analytic weak-field propagator and equal the hand formula elsewhere', () => {
-    // Homopolymer, D = 1, in w(x) = ε cos(kx) (SCFT-NOTES.md linear response): to first
+    // Homopolymer, D = 1, in w(x) = ε cos(kx) (linear response, derived here): to first
     // order q = 1 + ε q₁ with ∂s q₁ = ∂xx q₁ − cos(kx), q₁(x, 0) = 0, so
     //   q₁ = −cos(kx)(1 − e^{−k²s})/k²,   u = ln q,   ∂x u = ∂x q / q.
     // The cell holds two wavelengths (k = 4π/L): q is L-periodic and q(x, 0) = 1 exactly.

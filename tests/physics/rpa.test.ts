@@ -27,7 +27,7 @@ describe('RPA spinodal (Leibler, Macromolecules 13, 1602, 1980)', () => {
     }
   });
 
-  it('block-sum correlations equal the diblock Debye expressions of SCFT-NOTES.md', () => {
+  it('block-sum correlations equal the diblock Debye expressions of Leibler 1980', () => {
     // Handbook form (Leibler 1980 eqs. for the diblock): S_AA = g(f,x), S_BB = g(1−f,x), S_AB = [g(1,x) − g(f,x) − g(1−f,x)]/2.
     const g = (h: number, x: number) => (2 * (h * x + Math.exp(-h * x) - 1)) / (x * x);
     for (const f of [0.3, 0.5]) {

@@ -14,7 +14,7 @@ const walls = (bottom: number, top: number) => ({ bottom: { affinity: bottom }, 
 /** Equilibrium period of the symmetric diblock at χN = 15 on 64 × 100 (README, mesofield solve). */
 const D = 3.7136907;
 
-/** Debye function of a block of contour length h at x = (qRg)² (SCFT-NOTES / Leibler 1980), written out here independently. */
+/** Debye function of a block of contour length h at x = (qRg)² (Leibler 1980), written out here independently. */
 const g = (h: number, x: number) => (2 * (h * x + Math.exp(-h * x) - 1)) / (x * x);
 
 describe('films between walls', () => {

@@ -22,7 +22,7 @@ function cosField(nx: number, eps: number, mode = 1, offset = 0): Float64Array {
 
 describe('pseudo-spectral MDE', () => {
   it('uniform field: q(x, s) = exp(−w s) and Q = exp(−w) exactly', () => {
-    // Analytic solution of ∂q/∂s = ∇²q − w q with uniform w (SCFT-NOTES.md).
+    // Analytic solution of ∂q/∂s = ∇²q − w q with uniform w: q = e^{−w s} (exact; common practice, no source).
     const w = 1.7;
     const r = solveIn(new Float64Array(32).fill(w), 3, 40);
     expect(r.Q).toBeCloseTo(Math.exp(-w), 14);
@@ -31,7 +31,7 @@ describe('pseudo-spectral MDE', () => {
   });
 
   it('weak cosine field: linear response of q(x,1), ln Q and φ (Debye function)', () => {
-    // Standard linear-response results quoted in SCFT-NOTES.md. With X = (k Rg)², g_D = 2(e^{−X} + X − 1)/X²:
+    // Standard linear-response results (the Debye function: Leibler 1980; the rest common practice, no source). With X = (k Rg)², g_D = 2(e^{−X} + X − 1)/X²:
     //   q(x,1) ≈ 1 − ε cos(kx)(1 − e^{−X})/X,  ln Q ≈ (ε²/4) g_D(X),  φ ≈ 1 − ε g_D(X) cos(kx).
     // Derivation: first order in ε, each Fourier mode of w decays as e^{−X s}; integrate over s.
     // Odd/even parts in ε (runs at ±ε) isolate each order, so the residual is O(ε³) (O(ε⁴) for ln Q).

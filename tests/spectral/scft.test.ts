@@ -14,7 +14,7 @@ const diblock = (f: number, chiN: number, bA = 1, bB = 1): SystemSpec => ({
 
 describe('SCFT fixed-cell solve', () => {
   it('homopolymer melt: φ ≡ 1, Q = 1, F = 0 from a non-uniform start', () => {
-    // SCFT-NOTES.md: a one-species incompressible melt has a uniform field; with the gauge fixed q ≡ 1.
+    // Exact (common practice, no source): a one-species incompressible melt has a uniform field; with the gauge fixed q ≡ 1.
     const nx = 32;
     const start = Float64Array.from({ length: nx }, (_, j) => 2 * Math.cos((2 * Math.PI * j) / nx));
     const r = solveFixedCell({ system: { chain: { type: 'homopolymer', species: 'A', segmentLength: 1 }, chiN: 0 }, cell: new PeriodicCell(3, nx, 1), contour: 50, initial: { A: start, B: new Float64Array(nx) } });
@@ -35,7 +35,7 @@ describe('SCFT fixed-cell solve', () => {
       expect(Math.abs(r.phi.A[j] + r.phi.B[j] - 1)).toBeLessThan(1e-9);
       // Common practice, no source: for f = 1/2 the B profile is the A profile shifted by half a period.
       expect(Math.abs(r.phi.A[j] - r.phi.B[(j + 32) % 64])).toBeLessThan(1e-8);
-      // Self-consistency, SCFT-NOTES.md: w_A − w_B = χN(φ_B − φ_A).
+      // Self-consistency (the SCFT field equations, common practice, no source): w_A − w_B = χN(φ_B − φ_A).
       expect(Math.abs(r.w.A[j] - r.w.B[j] - 15 * (r.phi.B[j] - r.phi.A[j]))).toBeLessThan(1e-8);
     }
     expect(r.freeEnergy).toBeLessThan(r.freeEnergyDisordered);
@@ -142,7 +142,7 @@ describe('equilibrium period', () => {
 
   it('follows the strong-segregation trend: D grows with χN, below Semenov and approaching it', () => {
     // Semenov, Sov. Phys. JETP 61, 733 (1985): D = 1.099 (χN)^{1/6} b N^{1/2}, with b N^{1/2} = √6 Rg.
-    // SCFT-NOTES.md: use it for the trend of the period only.
+    // An asymptotic law that converged SCFT approaches slowly: use it for the trend of the period only.
     const ssl = (chiN: number) => 1.099 * Math.pow(chiN, 1 / 6) * Math.sqrt(6);
     const d25 = findEquilibriumPeriod({ system: diblock(0.5, 25), cell: new PeriodicCell(1, 64, 1), contour: 100 }).period;
     const d50 = findEquilibriumPeriod({ system: diblock(0.5, 50), cell: new PeriodicCell(1, 64, 1), contour: 100 }).period;

@@ -37,7 +37,7 @@ describe('monotone cubic period model', () => {
   });
 
   it('follows a smooth power law between five nodes to 1e-4', () => {
-    // The period grows roughly as (χN)^{1/6} at strong segregation (Semenov, SCFT-NOTES.md): a smooth law of that shape.
+    // The period grows roughly as (χN)^{1/6} at strong segregation (Semenov, Sov. Phys. JETP 61, 733, 1985): a smooth law of that shape.
     const x = [12, 14, 16, 18, 20];
     const f = (v: number) => 1.1 * v ** (1 / 6);
     for (let t = 12; t <= 20; t += 0.25) expect(Math.abs(monotoneCubic(x, x.map(f), t) / f(t) - 1)).toBeLessThan(1e-4);
@@ -77,7 +77,7 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
   });
 
   it('the anchors\' periods grow with χN with a local exponent falling towards 1/6 from above', () => {
-    // Semenov's strong-segregation limit L ∝ (χN)^{1/6}, approached slowly from above by converged SCFT (SCFT-NOTES.md): a trend check only.
+    // Semenov's strong-segregation limit L ∝ (χN)^{1/6}, approached slowly from above by converged SCFT (Semenov 1985; common practice, no source, for the approach): a trend check only.
     const a = run.anchors.map((r) => ({ chiN: r.point.chiN, L: r.solution.period }));
     const exps = a.slice(1).map((r, i) => Math.log(r.L / a[i].L) / Math.log(r.chiN / a[i].chiN));
     for (let i = 0; i < exps.length; i++) {
@@ -107,7 +107,7 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
   });
 
   it('a prediction is a consistent SCFT state: F = −ln Q + ⟨χN φAφB − wAφA − wBφB⟩, Q from q and q† agree, φA + φB ≈ 1', () => {
-    // F formula and Q = Q† from SCFT-NOTES.md, evaluated here independently of physics/scft-equations.ts.
+    // The SCFT free energy and Q = Q† (the standard mean-field expressions, common practice, no source), evaluated here independently of physics/scft-equations.ts.
     const p = predictAt(run.model, { chiN: 17.3, f: 0.5, segmentRatio: 1 });
     const n = p.phiA.length;
     let mean = 0;
@@ -165,7 +165,7 @@ describe('surrogate over χN and b_A/b_B (two parameters)', () => {
       expect(run.metrics.heldOut.map((e) => [e.point.chiN, e.point.segmentRatio])).toEqual([[16, 1]]);
       // Measured here: 2.1e-3 at the one cell centre (4 anchors, 4 extra solves, 200 L-BFGS iterations; the anchors' interpolated profiles: 2.3e-2).
       expect(run.metrics.heldOut[0].phiA.relativeL2).toBeLessThan(1e-2);
-      // ⟨φ_A⟩ = f: the A segments of every chain add up to the fraction f (SCFT-NOTES.md, densities normalised by Q).
+      // ⟨φ_A⟩ = f: the A segments of every chain add up to the fraction f (exact, densities normalised by Q; common practice, no source).
       for (const ratio of [0.85, 1.13]) {
         const p = predictAt(run.model, { chiN: 15, f: 0.4, segmentRatio: ratio });
         expect(p.phiA.reduce((a, b) => a + b, 0) / p.phiA.length).toBeCloseTo(0.4, 6);

@@ -21,7 +21,7 @@ describe('trainer: single-chain and homopolymer problems', () => {
   });
 
   it('homopolymer melt: φ ≡ 1 and a flat field', async () => {
-    // SCFT-NOTES.md: a one-species melt has φ ≡ 1, w ≡ const, q ≡ 1 after the gauge.
+    // Exact (common practice, no source): a one-species melt has φ ≡ 1, w ≡ const, q ≡ 1 after the gauge.
     const r = await trainRun({ config: cfg({ system: { chain: { type: 'homopolymer', species: 'A' } }, cell: { period: 4, nx: 32, ns: 50 }, warmStart: { type: 'none' }, training: { adamSteps: 400, learningRate: 2e-3, fieldUpdateEvery: 20, fieldFitSteps: 50 } }), backend: 'wasm' });
     // Measured (wasm): max |φA + φB − 1| 1.6e-2, φA relative L2 8.2e-3 (250 steps leave 2.3e-2: the bound fails there).
     expect(r.metrics.phase).toBe('homogeneous-melt');

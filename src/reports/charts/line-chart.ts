@@ -262,7 +262,7 @@ export function drawLineChart(region: Region, spec: LineChartSpec): void {
     },
     plugins: [overlayPlugin(spec)],
   };
-  const chart = new Chart(region.canvas as unknown as HTMLCanvasElement, config);
+  const chart = new Chart<'line'>(region.canvas as unknown as HTMLCanvasElement, config);
   chart.destroy();
   ctx.save();
   if (spec.title) {
