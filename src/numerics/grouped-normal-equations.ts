@@ -240,8 +240,35 @@ function addFactored(n: number, grp: ResidualGroup, A: Float64Array, g: Float64A
     addFactoredWasm(kernels, n, grp, A, g);
     return;
   }
-  // HT = (CᵀJ)ᵀ (k × t), S = CᵀC (t × t), Cr = Cᵀr: one pass over the rows, zeros of C skipped.
+  // HT = (CᵀJ)ᵀ (k × t), S = CᵀC (t × t), Cr = Cᵀr.
   const HT = new Float64Array(k * t);
+  const { S, Cr } = intermediateProducts(grp, HT, t, 1);
+  // ET = Eᵀ (kf × t); SET = (S·E)ᵀ (kf × t).
+  const ET = new Float64Array(kf * t);
+  for (let u = 0; u < t; u++) {
+    const eu = u * kf;
+    for (let a = 0; a < kf; a++) ET[a * t + u] = f.E[eu + a];
+  }
+  const SET = new Float64Array(kf * t);
+  addSE(f, S, SET, t, 1);
+  addECr(f, Cr, g);
+  const F = new Float64Array(kf * kf);
+  const X = new Float64Array(kf * k);
+  addRowProducts(ET, kf, SET, kf, t, true, F, kf);
+  addRowProducts(ET, kf, HT, k, t, false, X, k);
+  scatterFactored(n, grp, F, kf, X, k, A);
+}
+
+/**
+ * One pass over a group's rows, zeros of C skipped: S = CᵀC (t × t), Cr = Cᵀr, and H += CᵀJ
+ * with entry (u, b) at H[b·hb + u·hu] (the JS form keeps it transposed, the kernel not). Each
+ * entry is summed over the rows in order, so both layouts hold the same numbers to the bit.
+ */
+function intermediateProducts(grp: ResidualGroup, H: Float64Array, hb: number, hu: number): { S: Float64Array; Cr: Float64Array } {
+  const f = grp.factored!;
+  const m = grp.r.length;
+  const k = grp.columns.length;
+  const t = f.t;
   const S = new Float64Array(t * t);
   const Cr = new Float64Array(t);
   for (let i = 0; i < m; i++) {
@@ -251,41 +278,50 @@ function addFactored(n: number, grp: ResidualGroup, A: Float64Array, g: Float64A
       const cu = f.C[ci + u];
       if (cu === 0) continue;
       Cr[u] += cu * grp.r[i];
-      for (let b = 0; b < k; b++) HT[b * t + u] += cu * grp.J[ji + b];
+      const hoff = u * hu;
+      for (let b = 0; b < k; b++) H[b * hb + hoff] += cu * grp.J[ji + b];
       for (let v = 0; v < t; v++) S[u * t + v] += cu * f.C[ci + v];
     }
   }
-  // ET = Eᵀ (kf × t); SET = (S·E)ᵀ (kf × t), zeros of S skipped (S = CᵀC is sparse).
-  const ET = new Float64Array(kf * t);
+  return { S, Cr };
+}
+
+/** SE += S·E (t × kf) with entry (u, a) at SE[a·sa + u·su], zeros of S skipped (S = CᵀC is sparse). */
+function addSE(f: FactoredColumns, S: Float64Array, SE: Float64Array, sa: number, su: number): void {
+  const t = f.t;
+  const kf = f.columns.length;
   for (let u = 0; u < t; u++) {
-    const eu = u * kf;
-    for (let a = 0; a < kf; a++) ET[a * t + u] = f.E[eu + a];
-  }
-  const SET = new Float64Array(kf * t);
-  for (let u = 0; u < t; u++) {
+    const uoff = u * su;
     for (let v = 0; v < t; v++) {
       const s = S[u * t + v];
       if (s === 0) continue;
       const ev = v * kf;
-      for (let a = 0; a < kf; a++) SET[a * t + u] += s * f.E[ev + a];
+      for (let a = 0; a < kf; a++) SE[a * sa + uoff] += s * f.E[ev + a];
     }
   }
+}
+
+/** g_F += Eᵀ(Cᵀr), each entry summed over the intermediates in order. */
+function addECr(f: FactoredColumns, Cr: Float64Array, g: Float64Array): void {
+  const kf = f.columns.length;
   for (let a = 0; a < kf; a++) {
     let s = 0;
-    for (let u = 0; u < t; u++) s += ET[a * t + u] * Cr[u];
+    for (let u = 0; u < f.t; u++) s += f.E[u * kf + a] * Cr[u];
     g[f.columns[a]] += s;
   }
-  const F = new Float64Array(kf * kf);
-  const X = new Float64Array(kf * k);
-  addRowProducts(ET, kf, SET, kf, t, true, F, kf);
-  addRowProducts(ET, kf, HT, k, t, false, X, k);
-  for (let a = 0; a < kf; a++) {
+}
+
+/** A_FF += F (kf × kf, leading dimension ldf) and A_FJ += X (kf × k, ldx), each cross entry in the lower triangle. */
+function scatterFactored(n: number, grp: ResidualGroup, F: Float64Array, ldf: number, X: Float64Array, ldx: number, A: Float64Array): void {
+  const f = grp.factored!;
+  const k = grp.columns.length;
+  for (let a = 0; a < f.columns.length; a++) {
     const ca = f.columns[a];
-    for (let b = 0; b <= a; b++) A[ca * n + f.columns[b]] += F[a * kf + b];
+    for (let b = 0; b <= a; b++) A[ca * n + f.columns[b]] += F[a * ldf + b];
     for (let b = 0; b < k; b++) {
       const cb = grp.columns[b];
-      if (ca > cb) A[ca * n + cb] += X[a * k + b];
-      else A[cb * n + ca] += X[a * k + b];
+      if (ca > cb) A[ca * n + cb] += X[a * ldx + b];
+      else A[cb * n + ca] += X[a * ldx + b];
     }
   }
 }
@@ -298,7 +334,6 @@ function addFactored(n: number, grp: ResidualGroup, A: Float64Array, g: Float64A
  */
 function addFactoredWasm(kernels: Float64Kernels, n: number, grp: ResidualGroup, A: Float64Array, g: Float64Array): void {
   const f = grp.factored!;
-  const m = grp.r.length;
   const k = grp.columns.length;
   const kf = f.columns.length;
   const t = f.t;
@@ -313,49 +348,14 @@ function addFactoredWasm(kernels: Float64Kernels, n: number, grp: ResidualGroup,
   const E = kernels.view(Es);
   const SE = kernels.view(SEs);
   const H = kernels.view(Hs);
-  // H = CᵀJ (t × k), S = CᵀC, Cr = Cᵀr: one pass over the rows, zeros of C skipped.
-  const S = new Float64Array(t * t);
-  const Cr = new Float64Array(t);
-  for (let i = 0; i < m; i++) {
-    const ci = i * t;
-    const ji = i * k;
-    for (let u = 0; u < t; u++) {
-      const cu = f.C[ci + u];
-      if (cu === 0) continue;
-      Cr[u] += cu * grp.r[i];
-      const hu = u * kp;
-      for (let b = 0; b < k; b++) H[hu + b] += cu * grp.J[ji + b];
-      for (let v = 0; v < t; v++) S[u * t + v] += cu * f.C[ci + v];
-    }
-  }
+  // H = CᵀJ (t × k), S = CᵀC, Cr = Cᵀr; E copied in; SE = S·E (t × kf).
+  const { S, Cr } = intermediateProducts(grp, H, 1, kp);
   for (let u = 0; u < t; u++) E.set(f.E.subarray(u * kf, (u + 1) * kf), u * kfp);
-  for (let u = 0; u < t; u++) {
-    const su = u * kfp;
-    for (let v = 0; v < t; v++) {
-      const s = S[u * t + v];
-      if (s === 0) continue;
-      const ev = v * kf;
-      for (let a = 0; a < kf; a++) SE[su + a] += s * f.E[ev + a];
-    }
-  }
-  for (let a = 0; a < kf; a++) {
-    let s = 0;
-    for (let u = 0; u < t; u++) s += f.E[u * kf + a] * Cr[u];
-    g[f.columns[a]] += s;
-  }
+  addSE(f, S, SE, 1, kfp);
+  addECr(f, Cr, g);
   kernels.productTn(Es.offset, kfp, SEs.offset, kfp, t, Fs.offset, kfp, kf, kf, true);
   kernels.productTn(Es.offset, kfp, Hs.offset, kp, t, Xs.offset, kp, kf, k, false);
-  const F = kernels.view(Fs);
-  const X = kernels.view(Xs);
-  for (let a = 0; a < kf; a++) {
-    const ca = f.columns[a];
-    for (let b = 0; b <= a; b++) A[ca * n + f.columns[b]] += F[a * kfp + b];
-    for (let b = 0; b < k; b++) {
-      const cb = grp.columns[b];
-      if (ca > cb) A[ca * n + cb] += X[a * kp + b];
-      else A[cb * n + ca] += X[a * kp + b];
-    }
-  }
+  scatterFactored(n, grp, kernels.view(Fs), kfp, kernels.view(Xs), kp, A);
 }
 
 /** The groups with every column index (own and factored) lowered by `first`: a part's columns counted from 0. */
