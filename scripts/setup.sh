@@ -34,7 +34,10 @@ if [ ! -f "$stamp" ] || ! cmp -s package-lock.json "$stamp"; then
   # canvas compiles from source here (its prebuilt binary is a download): node-gyp's make on
   # every core instead of one (JOBS is node-gyp's setting; "max" is the core count).
   export JOBS=max
-  npm ci --no-audit --no-fund >&2
+  # --prefer-offline: packages already in npm's cache are not revalidated with the registry
+  # (falls back to the registry for anything missing). Measured here, a fresh node_modules:
+  # 45.6 and 54.5 s against 45.3, 67.5 and 61.1 s without it.
+  npm ci --no-audit --no-fund --prefer-offline >&2
   cp package-lock.json "$stamp"
 fi
 
