@@ -16,8 +16,9 @@
  *
  * Why not nested tf.grad: in tfjs 4.22 a second-order tf.grad through tanh inside
  * tf.variableGrads silently returns wrong parameter gradients (docs/physics.md, "Network
- * solutions"). Here every channel is an ordinary first-order tfjs expression of the parameters, so one
- * tf.variableGrads pass over a loss built from jets gives correct parameter gradients.
+ * solutions"). Here every channel is an ordinary first-order tfjs expression of the
+ * parameters, so one tf.variableGrads pass over a loss built from jets gives correct
+ * parameter gradients.
  *
  * Each op states the forward rule of every channel next to it (chain rule; Faà di Bruno's
  * formula to second order: (g∘f)'' = g''(f)·f'² + g'(f)·f'').
