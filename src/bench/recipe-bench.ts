@@ -55,7 +55,8 @@ export const RECIPE_SYSTEMS: BenchSystem[] = [
     // 32 steps per block: 6.8e-4 at the last of 160 iterations and still falling (seed 1).
     // Seed 1 with 320 iterations: 2.98e-4 kept (equal spread), 1.21e-4 with the 64 steps
     // spread by the blocks' lengths (22 on A, 42 on B), the same rows; seed 3 the same way:
-    // 7.79e-5 kept (iteration 290), 2.24e-4 at the last iteration. Seeds 2, 4, 5 not run.
+    // 7.79e-5 kept (iteration 290), 2.24e-4 at the last iteration; seeds 2, 4, 5: 1.04e-4,
+    // 1.26e-4, 2.25e-4 (docs/second-order-training.md, "Five seeds with the 320-iteration recipes").
     secondOrderRecipe: { collocation: { nodesPerBlock: 32, contourSpread: 'by-length' }, training: { secondOrderIterations: 320 } },
   },
   { name: 'triblock-ABA-chiN20', system: { chain: { type: 'triblock', f: 0.5 }, chiN: 20 }, cell: { period: 'equilibrium', nx: 64, ns: 120 } },
@@ -67,7 +68,8 @@ export const RECIPE_SYSTEMS: BenchSystem[] = [
     // first cycle and 200 iterations gave 3.2e-4 (shared recipe 3.7e-4); 32 contour steps per
     // block with the shared iterations gave 8.0e-5 (kept), as at f = 0.35 the contour spacing
     // being the limit. Seed 1 (1.26e-4 with 160 iterations) with 320: kept 7.04e-5, first
-    // < 1e-4 at iteration 220; seed 2: 4.87e-5 (160 iterations: 8.06e-5). (Its blocks are of equal length: collocation.contourSpread
+    // < 1e-4 at iteration 220; seed 2: 4.87e-5 (160 iterations: 8.06e-5); seeds 3–5: 2.86e-5,
+    // 6.25e-5, 7.82e-5. (Its blocks are of equal length: collocation.contourSpread
     // 'by-length' gives the same steps as 'equal'.)
     secondOrderRecipe: { collocation: { nodesPerBlock: 32 }, training: { secondOrderIterations: 320 } },
   },
