@@ -109,7 +109,11 @@ function columnWidths(b: TableBlock, width: number): number[] {
   return rel.map((r) => (r / total) * width);
 }
 
-/** Each cell's lines: long text wraps inside its column (nothing is cut off); a single word too long for it is shortened with an ellipsis. */
+/**
+ * Each cell's lines: long text wraps inside its column, and a single word too long for it (a
+ * dotted setting name) is broken after a '.' or '/' where it can be, else between characters:
+ * nothing is cut off, so every setting name in the appendix stays readable in full.
+ */
 function cellLines(ctx: CanvasRenderingContext2D, text: string, w: number, bold: boolean): string[] {
   // A table's heights are asked for several times while paginating (see textWidth): its cells are wrapped once.
   let done = wrappedCells.get(ctx);
@@ -126,13 +130,26 @@ const wrappedCells = new WeakMap<CanvasRenderingContext2D, Map<string, string[]>
 function wrapCell(ctx: CanvasRenderingContext2D, text: string, w: number, bold: boolean): string[] {
   ctx.save();
   ctx.font = `${bold ? 'bold ' : ''}${TEXT.small}px "${FONT_FAMILY}"`;
-  const lines = wrapText(ctx, text, w - 6).map((l) => {
-    let t = l;
-    while (t.length > 1 && textWidth(ctx, t) > w - 6) t = `${t.slice(0, -2)}…`;
-    return t;
-  });
+  const lines = wrapText(ctx, text, w - 6).flatMap((l) => breakToWidth(ctx, l, w - 6));
   ctx.restore();
   return lines;
+}
+
+/** A line wider than `width` in pieces that fit: the longest prefix that fits, cut after its last '.' or '/' if it has one. */
+function breakToWidth(ctx: CanvasRenderingContext2D, line: string, width: number): string[] {
+  const out: string[] = [];
+  let rest = line;
+  while (rest.length > 1 && textWidth(ctx, rest) > width) {
+    let n = rest.length - 1;
+    while (n > 1 && textWidth(ctx, rest.slice(0, n)) > width) n--;
+    const head = rest.slice(0, n);
+    const cut = Math.max(head.lastIndexOf('.'), head.lastIndexOf('/'));
+    const at = cut > 0 ? cut + 1 : n;
+    out.push(rest.slice(0, at));
+    rest = rest.slice(at);
+  }
+  out.push(rest);
+  return out;
 }
 
 /** Header first, then one height per row: one line's row, plus a line's lead per extra wrapped line. */
