@@ -114,7 +114,7 @@ function columnWidths(b: TableBlock, width: number): number[] {
  * dotted setting name) is broken after a '.' or '/' where it can be, else between characters:
  * nothing is cut off, so every setting name in the appendix stays readable in full.
  */
-function cellLines(ctx: CanvasRenderingContext2D, text: string, w: number, bold: boolean): string[] {
+export function cellLines(ctx: CanvasRenderingContext2D, text: string, w: number, bold: boolean): string[] {
   // A table's heights are asked for several times while paginating (see textWidth): its cells are wrapped once.
   let done = wrappedCells.get(ctx);
   if (!done) wrappedCells.set(ctx, (done = new Map()));
