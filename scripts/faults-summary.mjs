@@ -12,8 +12,12 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
 const dir = mkdtempSync(join(tmpdir(), 'mesofield-fault-tally-'));
+// The suite's stderr is kept and shown only when it failed or reported nothing: the in-process
+// signal cases write the tool's own stop messages there, which are not part of the table.
 const run = spawnSync('npx', ['vitest', 'run', 'tests/faults', ...process.argv.slice(2)], {
-  stdio: ['ignore', 'ignore', 'inherit'],
+  stdio: ['ignore', 'ignore', 'pipe'],
+  encoding: 'utf8',
+  maxBuffer: 64 * 1024 * 1024,
   env: { ...process.env, MESOFIELD_FAULT_TALLY: dir, MESOFIELD_SKIP_BUILD: process.env.MESOFIELD_SKIP_BUILD ?? '1' },
 });
 const groups = new Map();
@@ -31,5 +35,7 @@ const rows = [...groups].map(([g, t]) => {
   return `| ${g} | ${t.tried} | ${t['clear error']} | ${t['correct answer']} | ${t.wrong} |`;
 });
 process.stdout.write(['| group | tried | clear error | correct answer | wrong |', '| --- | ---: | ---: | ---: | ---: |', ...rows, `| all | ${total.tried} | ${total['clear error']} | ${total['correct answer']} | ${total.wrong} |`, ''].join('\n'));
+if (run.status !== 0 || groups.size === 0) process.stderr.write(run.stderr ?? '');
+if (run.error) process.stderr.write(`faults:summary: could not run the suite: ${run.error.message}\n`);
 if (groups.size === 0) process.stderr.write('faults:summary: the suite reported no counts (did it run? see above)\n');
 process.exit(run.status ?? 1);
