@@ -51,104 +51,107 @@ function factorRows(A: Float64Array, L: Float64Array, n: number, shift: number, 
  * additions in every sum is unchanged, so the factor is the same to the last bit).
  */
 function factorWithShift(A: Float64Array, n: number, shift: number): Float64Array | null {
-  const kernels = float64Kernels();
-  if (kernels && n >= 8) return factorWithShiftWasm(kernels, A, n, shift);
-  const L = new Float64Array(n * n);
+  // With the f64x2 kernel (numerics/float64-kernels.ts: the same sums in the same order, lane by
+  // lane, so the same factor to the last bit) A and L live in the kernels' memory and the
+  // off-diagonal part of each four-row block runs there; factorRows does the 4 × 4 diagonal
+  // blocks and the last rows in either case.
+  const kernels = n >= 8 ? float64Kernels() : null;
+  let Aw = A;
+  let L: Float64Array;
+  let offDiagonal: (i0: number) => void;
+  if (kernels) {
+    kernels.reset();
+    const As = kernels.scratch(n * n);
+    const Ls = kernels.scratch(n * n);
+    const Ps = kernels.scratch(4 * n);
+    Aw = kernels.view(As);
+    Aw.set(A);
+    L = kernels.view(Ls);
+    offDiagonal = (i0) => kernels.cholRows4(As.offset, Ls.offset, Ps.offset, n, i0);
+  } else {
+    const Lj = (L = new Float64Array(n * n));
+    offDiagonal = (i0) => offDiagonalRows4(A, Lj, n, i0);
+  }
   let i0 = 0;
   for (; i0 + 3 < n; i0 += 4) {
-    const r0 = i0 * n;
-    const r1 = r0 + n;
-    const r2 = r1 + n;
-    const r3 = r2 + n;
-    let j = 0;
-    for (; j + 1 < i0; j += 2) {
-      const rj = j * n;
-      const rk = rj + n;
-      let s0 = A[r0 + j];
-      let s1 = A[r1 + j];
-      let s2 = A[r2 + j];
-      let s3 = A[r3 + j];
-      let t0 = A[r0 + j + 1];
-      let t1 = A[r1 + j + 1];
-      let t2 = A[r2 + j + 1];
-      let t3 = A[r3 + j + 1];
-      for (let k = 0; k < j; k++) {
-        const l = L[rj + k];
-        const m = L[rk + k];
-        const a0 = L[r0 + k];
-        const a1 = L[r1 + k];
-        const a2 = L[r2 + k];
-        const a3 = L[r3 + k];
-        s0 -= a0 * l;
-        s1 -= a1 * l;
-        s2 -= a2 * l;
-        s3 -= a3 * l;
-        t0 -= a0 * m;
-        t1 -= a1 * m;
-        t2 -= a2 * m;
-        t3 -= a3 * m;
-      }
-      const d = L[rj + j];
-      s0 /= d;
-      s1 /= d;
-      s2 /= d;
-      s3 /= d;
-      L[r0 + j] = s0;
-      L[r1 + j] = s1;
-      L[r2 + j] = s2;
-      L[r3 + j] = s3;
-      const lkj = L[rk + j];
-      const e = L[rk + j + 1];
-      L[r0 + j + 1] = (t0 - s0 * lkj) / e;
-      L[r1 + j + 1] = (t1 - s1 * lkj) / e;
-      L[r2 + j + 1] = (t2 - s2 * lkj) / e;
-      L[r3 + j + 1] = (t3 - s3 * lkj) / e;
-    }
-    for (; j < i0; j++) {
-      const rj = j * n;
-      let s0 = A[r0 + j];
-      let s1 = A[r1 + j];
-      let s2 = A[r2 + j];
-      let s3 = A[r3 + j];
-      for (let k = 0; k < j; k++) {
-        const l = L[rj + k];
-        s0 -= L[r0 + k] * l;
-        s1 -= L[r1 + k] * l;
-        s2 -= L[r2 + k] * l;
-        s3 -= L[r3 + k] * l;
-      }
-      const d = L[rj + j];
-      L[r0 + j] = s0 / d;
-      L[r1 + j] = s1 / d;
-      L[r2 + j] = s2 / d;
-      L[r3 + j] = s3 / d;
-    }
+    offDiagonal(i0);
     // The 4 × 4 diagonal block: its rows depend on each other, one at a time.
-    if (!factorRows(A, L, n, shift, i0, i0 + 4, i0)) return null;
+    if (!factorRows(Aw, L, n, shift, i0, i0 + 4, i0)) return null;
   }
-  return factorRows(A, L, n, shift, i0, n, 0) ? L : null;
+  if (!factorRows(Aw, L, n, shift, i0, n, 0)) return null;
+  // The kernels' memory is reused by the next call: the factor is copied out of it.
+  return kernels ? L.slice() : L;
 }
 
-/**
- * factorWithShift with the four-row blocks' off-diagonal part in the f64x2 kernel
- * (numerics/float64-kernels.ts: the same sums in the same order, lane by lane, so the same
- * factor to the last bit); the 4 × 4 diagonal blocks and the last rows by factorRows on views
- * of the kernels' memory.
- */
-function factorWithShiftWasm(kernels: Float64Kernels, A: Float64Array, n: number, shift: number): Float64Array | null {
-  kernels.reset();
-  const As = kernels.scratch(n * n);
-  const Ls = kernels.scratch(n * n);
-  const Ps = kernels.scratch(4 * n);
-  const Av = kernels.view(As);
-  Av.set(A);
-  const Lv = kernels.view(Ls);
-  let i0 = 0;
-  for (; i0 + 3 < n; i0 += 4) {
-    kernels.cholRows4(As.offset, Ls.offset, Ps.offset, n, i0);
-    if (!factorRows(Av, Lv, n, shift, i0, i0 + 4, i0)) return null;
+/** Rows i0 … i0+3 of L against the earlier rows 0 … i0−1, two of those at a time (the JS form of the kernel's chol_rows4). */
+function offDiagonalRows4(A: Float64Array, L: Float64Array, n: number, i0: number): void {
+  const r0 = i0 * n;
+  const r1 = r0 + n;
+  const r2 = r1 + n;
+  const r3 = r2 + n;
+  let j = 0;
+  for (; j + 1 < i0; j += 2) {
+    const rj = j * n;
+    const rk = rj + n;
+    let s0 = A[r0 + j];
+    let s1 = A[r1 + j];
+    let s2 = A[r2 + j];
+    let s3 = A[r3 + j];
+    let t0 = A[r0 + j + 1];
+    let t1 = A[r1 + j + 1];
+    let t2 = A[r2 + j + 1];
+    let t3 = A[r3 + j + 1];
+    for (let k = 0; k < j; k++) {
+      const l = L[rj + k];
+      const m = L[rk + k];
+      const a0 = L[r0 + k];
+      const a1 = L[r1 + k];
+      const a2 = L[r2 + k];
+      const a3 = L[r3 + k];
+      s0 -= a0 * l;
+      s1 -= a1 * l;
+      s2 -= a2 * l;
+      s3 -= a3 * l;
+      t0 -= a0 * m;
+      t1 -= a1 * m;
+      t2 -= a2 * m;
+      t3 -= a3 * m;
+    }
+    const d = L[rj + j];
+    s0 /= d;
+    s1 /= d;
+    s2 /= d;
+    s3 /= d;
+    L[r0 + j] = s0;
+    L[r1 + j] = s1;
+    L[r2 + j] = s2;
+    L[r3 + j] = s3;
+    const lkj = L[rk + j];
+    const e = L[rk + j + 1];
+    L[r0 + j + 1] = (t0 - s0 * lkj) / e;
+    L[r1 + j + 1] = (t1 - s1 * lkj) / e;
+    L[r2 + j + 1] = (t2 - s2 * lkj) / e;
+    L[r3 + j + 1] = (t3 - s3 * lkj) / e;
   }
-  return factorRows(Av, Lv, n, shift, i0, n, 0) ? Lv.slice() : null;
+  for (; j < i0; j++) {
+    const rj = j * n;
+    let s0 = A[r0 + j];
+    let s1 = A[r1 + j];
+    let s2 = A[r2 + j];
+    let s3 = A[r3 + j];
+    for (let k = 0; k < j; k++) {
+      const l = L[rj + k];
+      s0 -= L[r0 + k] * l;
+      s1 -= L[r1 + k] * l;
+      s2 -= L[r2 + k] * l;
+      s3 -= L[r3 + k] * l;
+    }
+    const d = L[rj + j];
+    L[r0 + j] = s0 / d;
+    L[r1 + j] = s1 / d;
+    L[r2 + j] = s2 / d;
+    L[r3 + j] = s3 / d;
+  }
 }
 
 export interface CholeskyOptions {
