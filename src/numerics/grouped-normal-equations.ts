@@ -69,14 +69,20 @@ function addChunk(J: Float64Array, r: Float64Array, k: number, i0: number, rows:
     const o = (i0 + i) * k;
     for (let a = 0; a < k; a++) T[a * R + i] = J[o + a];
   }
-  for (let a = 0; a < k; a++) {
-    const ta = a * R;
-    let s = 0;
-    for (let i = 0; i < R; i++) s += T[ta + i] * r[i0 + i];
-    gl[a] += s;
-  }
+  addChunkGradient(J, r, k, i0, R, gl);
   // Gᵢⱼ += Σ_rows T[i]·T[j], the lower triangle.
   addRowProducts(T, k, T, k, R, true, G, k);
+}
+
+/** gl += Jcᵀ r over the rows [i0, i0 + rows): each entry summed over the chunk's rows in order, then added (both forms of the normal matrix). */
+function addChunkGradient(J: Float64Array, r: Float64Array, k: number, i0: number, rows: number, gl: Float64Array): void {
+  const s = new Float64Array(k);
+  for (let i = i0; i < i0 + rows; i++) {
+    const ri = r[i];
+    const o = i * k;
+    for (let a = 0; a < k; a++) s[a] += J[o + a] * ri;
+  }
+  for (let a = 0; a < k; a++) gl[a] += s[a];
 }
 
 /** A group's JᵀJ (lower triangle, row stride k) and Jᵀr (into gl) by the JS chunks. */
@@ -92,7 +98,7 @@ function groupProductJs(J: Float64Array, r: Float64Array, k: number, m: number, 
  * memory with its rows padded to a multiple of 8 columns (zeros), the same chunks of CHUNK
  * rows, each entry summed over a chunk in the same order as addChunk and then added to G, so
  * G is the JS form's to the last bit. G is a view of the kernels' memory, row stride kp,
- * valid until the kernels' next use; Jᵀr is summed here in addChunk's order.
+ * valid until the kernels' next use; Jᵀr by addChunkGradient, as in addChunk.
  */
 function groupProductWasm(kernels: Float64Kernels, J: Float64Array, r: Float64Array, k: number, m: number, gl: Float64Array): { G: Float64Array; ld: number } {
   const kp = Math.ceil(k / 8) * 8;
@@ -101,17 +107,10 @@ function groupProductWasm(kernels: Float64Kernels, J: Float64Array, r: Float64Ar
   const Gs = kernels.scratch(kp * kp);
   const Jv = kernels.view(Js);
   for (let i = 0; i < m; i++) Jv.set(J.subarray(i * k, (i + 1) * k), i * kp);
-  const s = new Float64Array(k);
   for (let i0 = 0; i0 < m; i0 += CHUNK) {
     const rows = Math.min(CHUNK, m - i0);
     kernels.syrkLower(Js.offset + i0 * kp * 8, kp, rows, Gs.offset);
-    s.fill(0);
-    for (let i = i0; i < i0 + rows; i++) {
-      const ri = r[i];
-      const o = i * k;
-      for (let a = 0; a < k; a++) s[a] += J[o + a] * ri;
-    }
-    for (let a = 0; a < k; a++) gl[a] += s[a];
+    addChunkGradient(J, r, k, i0, rows, gl);
   }
   return { G: kernels.view(Gs), ld: kp };
 }
