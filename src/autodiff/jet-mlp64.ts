@@ -20,6 +20,8 @@
  * Units: whatever the inputs carry (the features of network/features.ts).
  */
 import type { Activation } from './mlp.js';
+import { instantiateJetKernel, jetKernelModule } from './jet-mlp64-kernel.js';
+import type { JetKernelInstance } from './jet-mlp64-kernel.js';
 
 /** Which channels a pass carries: values only, or value, ∂x, ∂xx and ∂s. */
 export type JetChannels = 'value' | 'full';
@@ -46,6 +48,15 @@ export class JetMlp64 {
   private readonly t: Float64Array[] = [];
   private readonly abar: Float64Array[] = [];
   private readonly zbar: Float64Array;
+  /**
+   * The f64x2 passes (jet-mlp64-kernel.ts) when their module was loaded before this network
+   * was made and the activation is tanh: the same results, bit for bit. Doubles of its memory:
+   * θ [0, size), the gradient [size, 2·size), then per layer a, z, t, ā (4 × width each), z̄.
+   */
+  private readonly kernel: { k: JetKernelInstance; a: number[]; z: number[]; t: number[]; abar: number[]; zbar: number; output: Float64Array; gradient: Float64Array } | null = null;
+  /** Views of the last θ and gradient vectors handed in (by identity): one allocation per vector, not per point. */
+  private thetaView: { of: Float64Array; view: Float64Array } | null = null;
+  private gradView: { of: Float64Array; view: Float64Array } | null = null;
 
   constructor(
     inputs: number,
@@ -72,6 +83,20 @@ export class JetMlp64 {
       this.abar.push(new Float64Array(CHANNELS * w));
     }
     this.zbar = new Float64Array(CHANNELS * maxW);
+    const module = jetKernelModule();
+    if (module && activation === 'tanh') {
+      let top = 2 * this.size;
+      const take = (w: number) => ((top += CHANNELS * w), top - CHANNELS * w);
+      const a = this.widths.map(take);
+      const z = this.widths.map(take);
+      const t = this.widths.map(take);
+      const abar = this.widths.map(take);
+      const zbar = take(maxW);
+      const k = instantiateJetKernel(module, top);
+      const L = this.widths.length - 1;
+      // The memory never grows, so views into it stay valid.
+      this.kernel = { k, a, z, t, abar, zbar, output: k.memory.subarray(a[L], a[L] + CHANNELS * this.widths[L]), gradient: k.memory.subarray(this.size, 2 * this.size) };
+    }
   }
 
   /**
@@ -79,6 +104,7 @@ export class JetMlp64 {
    * a view valid until the next call). With channels 'value' only the first block is filled.
    */
   forward(theta: Float64Array, input: PointJet, channels: JetChannels): Float64Array {
+    if (this.kernel) return this.forwardKernel(theta, input, channels);
     const W = this.widths;
     const full = channels === 'full';
     const a0 = this.a[0];
@@ -153,6 +179,7 @@ export class JetMlp64 {
    * with a 'value' forward only its value block may be non-zero.
    */
   backward(theta: Float64Array, seed: ArrayLike<number>, grad: Float64Array, scale = 1): void {
+    if (this.kernel) return this.backwardKernel(theta, seed, grad, scale);
     const W = this.widths;
     const L = W.length - 1;
     let ybar = this.abar[L];
@@ -206,5 +233,67 @@ export class JetMlp64 {
       }
       ybar = abar;
     }
+  }
+
+  /** forward() on the f64x2 passes: the same steps on the kernel's memory (byte offsets = 8 × index). */
+  private forwardKernel(theta: Float64Array, input: PointJet, channels: JetChannels): Float64Array {
+    const { k, a, z, t } = this.kernel!;
+    const m = k.memory;
+    const W = this.widths;
+    const full = channels === 'full';
+    m.set(this.slice(theta, 'theta'), 0);
+    const n0 = W[0];
+    const a0 = a[0];
+    m.fill(0, a0, a0 + CHANNELS * n0);
+    for (let i = 0; i < n0; i++) {
+      m[a0 + i] = input.v[i];
+      if (full) {
+        if (input.dx) m[a0 + n0 + i] = input.dx[i];
+        if (input.dxx) m[a0 + 2 * n0 + i] = input.dxx[i];
+        if (input.ds) m[a0 + 3 * n0 + i] = input.ds[i];
+      }
+    }
+    const last = W.length - 2;
+    const nc = full ? CHANNELS : 1;
+    for (let l = 0; l <= last; l++) {
+      const nout = W[l + 1];
+      k.exports.dense(8 * a[l], W[l], 8 * this.kernelAt[l], 8 * this.biasAt[l], nout, 8 * z[l + 1], nc);
+      if (l === last) {
+        m.copyWithin(a[l + 1], z[l + 1], z[l + 1] + nc * nout);
+        break;
+      }
+      const zl = z[l + 1];
+      const al = a[l + 1];
+      for (let o = 0; o < nout; o++) m[al + o] = Math.tanh(m[zl + o]);
+      k.exports.activate(8 * zl, 8 * t[l + 1], 8 * al, nout, full ? 1 : 0);
+    }
+    return this.kernel!.output;
+  }
+
+  /** backward() on the f64x2 passes: the gradient slice is copied in, added to and copied back. */
+  private backwardKernel(theta: Float64Array, seed: ArrayLike<number>, grad: Float64Array, scale: number): void {
+    const { k, a, z, t, abar, zbar, gradient } = this.kernel!;
+    const m = k.memory;
+    const W = this.widths;
+    const L = W.length - 1;
+    const size = this.size;
+    m.set(this.slice(theta, 'theta'), 0);
+    m.set(this.slice(grad, 'grad'), size);
+    for (let c = 0; c < CHANNELS * W[L]; c++) m[abar[L] + c] = scale * seed[c];
+    for (let l = L - 1; l >= 0; l--) {
+      const K = this.kernelAt[l];
+      k.exports.reverse(8 * t[l + 1], 8 * z[l + 1], 8 * abar[l + 1], 8 * zbar, 8 * a[l], W[l], W[l + 1], 8 * K, 8 * (size + K), 8 * (size + this.biasAt[l]), 8 * abar[l], l === L - 1 ? 1 : 0, l > 0 ? 1 : 0);
+    }
+    grad.set(gradient, this.offset);
+  }
+
+  /** This network's slice of a θ-sized vector, as a view kept while the same vector comes back. */
+  private slice(v: Float64Array, which: 'theta' | 'grad'): Float64Array {
+    const held = which === 'theta' ? this.thetaView : this.gradView;
+    if (held && held.of === v) return held.view;
+    const view = v.subarray(this.offset, this.offset + this.size);
+    if (which === 'theta') this.thetaView = { of: v, view };
+    else this.gradView = { of: v, view };
+    return view;
   }
 }

@@ -19,7 +19,7 @@ import type { ResidualPart } from '../network/least-squares/scft-residual-system
 import { buildScftNetworks } from '../network/scft-networks.js';
 import { warmStart } from '../network/warm-start.js';
 import { cholesky, choleskySolve } from '../numerics/cholesky.js';
-import { loadFloat64Kernels } from '../numerics/float64-kernels.js';
+import { loadFloat64Passes } from '../autodiff/float64-passes.js';
 import { groupedNormalEquations, shiftedGroups } from '../numerics/grouped-normal-equations.js';
 import { buildChain } from '../physics/chain.js';
 import { solveFromConfig } from '../spectral/solve-from-config.js';
@@ -46,8 +46,8 @@ export async function runLmProfile(): Promise<void> {
   const seed = arg('seed');
   if (seed !== undefined) raw.networks = { ...raw.networks, field: { ...raw.networks?.field, seed: Number(seed) }, propagator: { ...raw.networks?.propagator, seed: Number(seed) } };
   const config = trainConfigSchema.parse(raw);
-  // --js: the JS forms of the normal matrix and Cholesky (the f64x2 kernels otherwise).
-  if (!process.argv.includes('--js')) await loadFloat64Kernels();
+  // --js: the JS forms of the normal matrix, Cholesky and the jet passes (the f64x2 kernels otherwise).
+  if (!process.argv.includes('--js')) await loadFloat64Passes();
   const { tf } = await selectBackend('wasm');
   const chain = buildChain(config.system.chain);
   const reference = solveFromConfig({ system: config.system, cell: config.cell, solver: config.solver, output: { propagators: true } }).solution;

@@ -45,7 +45,7 @@ import { RunFailure } from '../io/errors.js';
 import { refitFieldsToUpdate } from '../network/field-update.js';
 import { warmStartYielding } from '../network/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
-import { loadFloat64Kernels } from '../numerics/float64-kernels.js';
+import { loadFloat64Passes } from '../autodiff/float64-passes.js';
 import { jointFitSeed } from './network-joint-fit.js';
 import type { ProfileData } from './profile-csv.js';
 
@@ -179,9 +179,9 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   }
   const handle = await selectBackend(s.backend);
   const tf = handle.tf;
-  // The least-squares strategy's normal matrices and factorisations in the f64x2 kernels (the
-  // JS forms' results to the last bit).
-  if (s.strategy === 'least-squares') await loadFloat64Kernels();
+  // The least-squares strategy's normal matrices, factorisations and jet passes in the f64x2
+  // kernels (the JS forms' results to the last bit).
+  if (s.strategy === 'least-squares') await loadFloat64Passes();
   const chain = buildChain(s.chain);
   const L = classical.period;
   const nx = classical.solution.nx;

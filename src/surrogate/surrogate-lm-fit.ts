@@ -19,6 +19,7 @@ import { JetMlp64 } from '../autodiff/jet-mlp64.js';
 import type { PointJet } from '../autodiff/jet-mlp64.js';
 import { levenbergMarquardtYielding } from '../numerics/levenberg-marquardt.js';
 import type { DenseLinearisation, LeastSquaresProblem, LmResult } from '../numerics/levenberg-marquardt.js';
+import { loadFloat64Passes } from '../autodiff/float64-passes.js';
 import type { ParameterPoint } from './parameter-space.js';
 import type { SurrogateFieldNet, ParameterGroup } from './surrogate-networks.js';
 
@@ -88,6 +89,8 @@ export async function fitFieldsLm(
   shouldStop: () => boolean,
   onIteration?: (iteration: number, loss: number, mu: number) => void,
 ): Promise<LmResult & { loss: number }> {
+  // The jet passes (and the normal matrices) in f64x2 kernels: the JS forms' results, bit for bit.
+  await loadFloat64Passes();
   const problem = fieldFitProblem(field, groups, targets);
   const x0 = field.parameters.flatten();
   const r = await levenbergMarquardtYielding(
