@@ -493,7 +493,10 @@ export class ScftResidualSystem {
     }
     const ns = side.contour.ns;
     const u = Array.from({ length: ns + 1 }, () => new Float64Array(nx));
-    const valueRows = jacobian && values ? Array.from({ length: (ns + 1) * nx }, () => new Float64Array(side.count)) : null;
+    // One buffer for all value rows, each row a view: thousands of separate row arrays (each
+    // with a store of its own) made the garbage collector a tenth of the estimator's time.
+    const valueStore = jacobian && values ? new Float64Array((ns + 1) * nx * side.count) : null;
+    const valueRows = valueStore ? Array.from({ length: (ns + 1) * nx }, (_, r) => valueStore.subarray(r * side.count, (r + 1) * side.count)) : null;
     const groups: ResidualGroup[] = [];
     const blockResiduals: Float64Array[] = [];
     let sumSq = 0;
