@@ -160,7 +160,7 @@ describe('surrogate over χN and b_A/b_B (two parameters)', () => {
     const dir = join(mkdtempSync(join(tmpdir(), 'mesofield-surrogate-2d-')), 'ck');
     const config = cfg({
       parameters: { chiN: { min: 14, max: 18, anchors: 2 }, f: 0.4, segmentRatio: { min: 0.8, max: 1.2, anchors: 2 } },
-      cell: { nx: 64, ns: 60 },
+      cell: { nx: 32, ns: 60 },
       warmStart: { extraSolves: 4, lbfgsIterations: 200 },
       training: { rounds: 1, pointsPerRound: 4, evaluateEvery: 0 },
       evaluation: { random: 0 },
