@@ -11,7 +11,7 @@ import { cfg, symmetricDiblock, tmp } from './trainer-configs.js';
 // L2 8.1e-2 at Adam step 25 (the first physics steps jolt the fit), 2.4e-2 at 100, 7.7e-3 at 125;
 // wA − wB 1.5e-2; F error 4.6e-3 kT. 128 random collocation points, not the default 256, and 125
 // steps, not 150 (a sixth less CPU): with 256 and 150 steps it was 1.2e-1, 3.8e-2, 9.5e-3 at
-// steps 25, 100, 150. The warm-start fit alone gives 3.5e-2 (measured with the learning rate set
+// steps 25, 100, 150. The warm-start fit alone gives 3.3e-2 (measured with the learning rate set
 // to 1e-7, when the halving check below fails): the φA bound needs the physics steps.
 describe('trainer: symmetric diblock, warm start, checkpoints', () => {
   const base = { ...symmetricDiblock, collocation: { ...symmetricDiblock.collocation, random: 128 }, warmStart: { ...symmetricDiblock.warmStart, adamSteps: 200 }, training: { ...symmetricDiblock.training, adamSteps: 125, checkpointEvery: 50, evaluateEvery: 25 } };
