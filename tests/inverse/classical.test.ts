@@ -55,14 +55,18 @@ describe('classical estimator on synthetic profiles', () => {
 
   it('free period (1.5 periods) and a given period', () => {
     const chain = diblock(0.5);
-    const models = createModels({ chain, nx: 32, ns: 60 });
-    const free = synthData({ chain, chiN: 15, periods: 1.5, offset: 0.4, points: 72 }, models);
-    const f = invert(free.data, { chain, period: { mode: 'free' } }, models);
+    // Data and fit on one model of 16 × 40 (not 32 × 60; half the CPU): the check is that the
+    // estimator recovers its own model's χN and period. Measured: χN within 3e-8 relative (free
+    // and given), the free period within 2.8e-7 (on 32 × 60: χN 3.6e-8, period 2.2e-9).
+    const grid = { nx: 16, ns: 40 };
+    const models = createModels({ chain, ...grid });
+    const free = synthData({ chain, chiN: 15, periods: 1.5, offset: 0.4, points: 72, ...grid }, models);
+    const f = invert(free.data, { chain, period: { mode: 'free' }, ...grid }, models);
     expect(Math.abs(f.chiN / 15 - 1)).toBeLessThan(1e-4);
     expect(Math.abs(f.period / free.truth.period - 1)).toBeLessThan(1e-5);
     expect(f.p).toBe(3);
-    const given = synthData({ chain, chiN: 15, period: 4.2, offset: 1.0 }, models);
-    const g = invert(given.data, { chain, period: { mode: 'given', value: 4.2 } }, models);
+    const given = synthData({ chain, chiN: 15, period: 4.2, offset: 1.0, ...grid }, models);
+    const g = invert(given.data, { chain, period: { mode: 'given', value: 4.2 }, ...grid }, models);
     expect(Math.abs(g.chiN / 15 - 1)).toBeLessThan(1e-4);
     expect(g.period).toBe(4.2);
   });

@@ -49,7 +49,11 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
   let run: SurrogateRunResult;
   const config = cfg({
     parameters: { chiN: { min: 12, max: 20, anchors: 5 } },
-    cell: { nx: 64, ns: 100 },
+    // The spectral solves of the anchors, extra and held-out points were two thirds of this run's
+    // CPU on 64 × 100; with 60 contour steps the run costs three quarters as much (measured), the
+    // surrogate being checked against references on the same grid. Not 32 points: there the
+    // prediction's F and the mean-field expression below differ by 1.7e-9 (measured), not < 5e-11.
+    cell: { nx: 64, ns: 60 },
     networks: { field: { fourierModes: 4 } },
     warmStart: { extraSolves: 8, lbfgsIterations: 300 },
     training: { rounds: 2, fitIterations: 20, evaluateEvery: 0 },
@@ -61,8 +65,9 @@ describe('surrogate over χN ∈ [12, 20] at f = 0.5', () => {
   });
 
   it('reaches φA relative L2 < 1e-2 and |F error| < 1e-2 kT at every held-out point', () => {
-    // Measured here with this config (wasm): φA ≤ 4.8e-3, |F error| ≤ 1.1e-3 kT, period ≤ 3.1e-4 (with 500 L-BFGS
-    // iterations and 4 rounds: φA ≤ 4.2e-3, |F error| ≤ 2.4e-3 kT); the target 1e-2 is the bound.
+    // Measured here with this config (wasm): φA ≤ 4.9e-3, |F error| ≤ 1.2e-3 kT, period ≤ 3.1e-4 (on 64 × 100:
+    // 4.8e-3, 1.1e-3 kT, 3.1e-4; with 500 L-BFGS iterations and 4 rounds there: φA ≤ 4.2e-3, |F error| ≤ 2.4e-3 kT);
+    // the target 1e-2 is the bound.
     const m = run.metrics;
     expect(m.heldOut.length).toBe(5);
     for (const e of m.heldOut) {
