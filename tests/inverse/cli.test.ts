@@ -119,7 +119,7 @@ describe('mesofield invert', () => {
     const p = join(dir, 'nm', 'profile.csv');
     expect((await inProcess(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--rg-nm', '2.8', '--out', dirname(p), '--quiet'])).code).toBe(0);
     // Without --json: the text summary on stdout (it states the assumptions too), the result in --out.
-    const text = runCli(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--out', join(dir, 'nm-res'), '--quiet']);
+    const text = await inProcess(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--out', join(dir, 'nm-res'), '--quiet']);
     expect(text.code, text.stderr).toBe(0);
     expect(text.stdout).toMatch(/χN = .*\n.*68\.3% interval/);
     expect(text.stdout).toMatch(/mean-field SCFT: no fluctuation corrections/);
