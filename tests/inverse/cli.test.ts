@@ -80,9 +80,12 @@ describe('mesofield synth', () => {
 });
 
 describe('mesofield invert', () => {
-  it('recovers χN from a synthetic profile and writes result.json, fit.csv and solution.json', () => {
+  it('recovers χN from a synthetic profile and writes result.json, fit.csv and solution.json', async () => {
     const dir = tmp();
-    const p = synth(dir, ['--noise', '0.02', '--seed', '2']);
+    // The profile is set-up, made in this process (synth's process case is the one above); the invert is the built program's.
+    const p = join(dir, 'synth', 'profile.csv');
+    const made = await inProcess(['synth', '--f', '0.5', '--chiN', '15', '--offset', '0.6', ...grid, '--noise', '0.02', '--seed', '2', '--out', dirname(p), '--quiet']);
+    expect(made.code, made.stderr).toBe(0);
     const out = join(dir, 'res');
     const r = runCli(['invert', p, '--f', '0.5', ...grid, '--json', '--out', out]);
     expect(r.code).toBe(0);
