@@ -28,9 +28,10 @@ describe('solve --film', () => {
     expect(f.layers.A + f.layers.B).toBeGreaterThanOrEqual(2);
   });
 
-  it('--thickness-scan: F(H) with both walls preferring A has its first minimum near one period (commensurability, Matsen 1997), written for the report', () => {
+  it('--thickness-scan: F(H) with both walls preferring A has its first minimum near one period (commensurability, Matsen 1997), written for the report', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'mesofield-film-'));
-    const r = runCli(['solve', '--film', '3.5', '--affinity', '1,1', '--chiN', '15', '--nx', '32', '--ns', '60', '--thickness-scan', '3:4.5:4', '--json', '--quiet', '--out', join(dir, 'film')], { timeoutMs: 180_000 });
+    // In this process through the CLI entry function (the film solve above is the built program's case).
+    const r = await runInProcess(['solve', '--film', '3.5', '--affinity', '1,1', '--chiN', '15', '--nx', '32', '--ns', '60', '--thickness-scan', '3:4.5:4', '--json', '--quiet', '--out', join(dir, 'film')], { capture: true });
     expect(r.code, r.stderr).toBe(0);
     const scan = JSON.parse(r.stdout).thicknessScan;
     expect(scan.points).toHaveLength(4);
@@ -43,8 +44,8 @@ describe('solve --film', () => {
     expect(file.thicknessScan.minima[0].thickness).toBeCloseTo(scan.minima[0].thickness, 10);
   });
 
-  it('refuses a malformed --affinity naming the flag', () => {
-    const r = runCli(['solve', '--film', '3.7', '--affinity', '1', '--quiet']);
+  it('refuses a malformed --affinity naming the flag', async () => {
+    const r = await runInProcess(['solve', '--film', '3.7', '--affinity', '1', '--quiet'], { capture: true });
     expect(r.code).toBe(2);
     expect(r.stderr).toContain('--affinity');
   });

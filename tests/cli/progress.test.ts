@@ -6,6 +6,7 @@
  */
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { Progress, RunProgress } from '../../src/cli/progress.js';
+import { runCli as runInProcess } from '../../src/cli/run-cli.js';
 import { runCli } from '../helpers/run-cli.js';
 
 describe('RunProgress: time left for the whole run', () => {
@@ -39,7 +40,7 @@ describe('RunProgress: time left for the whole run', () => {
 });
 
 describe('long commands from the command line', () => {
-  it('solve (period search) and invert (classical fit, Rg refits) show the rate and time left on stderr; stdout holds only the result', () => {
+  it('solve (period search) and invert (classical fit, Rg refits) show the rate and time left on stderr; stdout holds only the result', async () => {
     const solve = runCli(['solve', '--f', '0.4', '--chiN', '20', '--nx', '32', '--ns', '60', '--json']);
     expect(solve.code, solve.stderr).toBe(0);
     expect(solve.stderr).toMatch(/^solve: period search \d+\/~\d+ evaluations \| L = [\d.]+ Rg, F = [\d.]+ kT \(lamellar\), field residual [\d.e+-]+ kT \| [\d.]+ evaluations\/s \| ~[\d.]+ s left/m);
@@ -47,7 +48,9 @@ describe('long commands from the command line', () => {
     expect(solve.stdout).not.toMatch(/left|evaluations\/s/);
 
     const dir = `${process.env.TMPDIR ?? '/tmp'}/mesofield-progress-${process.pid}`;
-    expect(runCli(['synth', '--f', '0.5', '--chiN', '15', '--nx', '32', '--ns', '60', '--points', '40', '--noise', '0.02', '--rg-nm', '3', '--out', dir, '--quiet']).code).toBe(0);
+    // The profile is set-up: made in this process through the CLI entry function; the two runs
+    // whose progress is checked are processes of their own (stderr to a pipe, stdout apart).
+    expect((await runInProcess(['synth', '--f', '0.5', '--chiN', '15', '--nx', '32', '--ns', '60', '--points', '40', '--noise', '0.02', '--rg-nm', '3', '--out', dir, '--quiet'], { capture: true })).code).toBe(0);
     const inv = runCli(['invert', `${dir}/profile.csv`, '--f', '0.5', '--nx', '32', '--ns', '60', '--rg-nm', '3', '--chiN-range', '12,20', '--json']);
     expect(inv.code, inv.stderr).toBe(0);
     expect(inv.stderr).toMatch(/^invert: classical fit \d+\/~\d+ evaluations \| .*χN = [\d.]+, misfit [\d.]+.* \| [\d.]+ evaluations\/s \| ~[\d.]+ s left, then 2 refits \(assumed inputs\) not yet timed$/m);

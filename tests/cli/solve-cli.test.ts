@@ -56,7 +56,7 @@ describe('mesofield solve', () => {
     }
     // f = 0.27 from the text summary alone (one solve serves both outputs' checks): exit 0 is a
     // converged run (a run that does not converge exits 3, below).
-    const t = runCli(['solve', '--f', '0.27', '--chiN', '22']);
+    const t = await inProcess(['solve', '--f', '0.27', '--chiN', '22']);
     expect(t.code, t.stderr).toBe(0);
     expect(t.stdout).toMatch(/phase: lamellar/);
     const steps = /resolution: \d+ grid points, (\d+) contour steps \((\d+) \+ (\d+) per block\)/.exec(t.stdout);

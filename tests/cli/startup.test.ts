@@ -15,7 +15,11 @@ import { CLI } from '../helpers/run-cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'mesofield-startup-'));
 const hooks = join(dir, 'hooks.mjs');
-writeFileSync(hooks, "export async function resolve(s, c, next) { const r = await next(s, c); process.stderr.write('RESOLVED ' + r.url + '\\n'); return r; }\n");
+// The hooks run on a thread of their own, whose process.stderr passes lines to the main thread
+// asynchronously: a synchronous write to fd 2 leaves none queued when a quick command exits. (A
+// whole-suite run at load 12 once missed two of spinodal's lines with process.stderr.write; 25
+// runs at load 3 did not reproduce it.)
+writeFileSync(hooks, "import { writeSync } from 'node:fs';\nexport async function resolve(s, c, next) { const r = await next(s, c); writeSync(2, 'RESOLVED ' + r.url + '\\n'); return r; }\n");
 const register = join(dir, 'register.mjs');
 writeFileSync(
   register,

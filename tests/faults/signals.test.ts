@@ -15,6 +15,7 @@ import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { runCli } from '../../src/cli/run-cli.js';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import { requestStop, resetStop, stopRequested } from '../../src/runtime/stop.js';
 import { trainRun, TrainingStopped } from '../../src/training/train-run.js';
@@ -53,7 +54,9 @@ describe('signals', () => {
       const cfg = join(dir, 't.json');
       writeFileSync(cfg, JSON.stringify(TRAIN));
       const out = join(dir, 'run');
-      const { p, r } = await stopAt(['train', cfg, '--out', out], /Adam \d+\/4000 steps/, sig);
+      // A progress line at every step (the test hook): the signal goes at the first Adam line,
+      // not after the one-second throttle, so the run trains a step or two instead of a second's worth.
+      const { p, r } = await stopAt(['train', cfg, '--out', out], /Adam \d+\/4000 steps/, sig, 120_000, { everyLine: true });
       expect(r.code, p.stderr()).toBe(exit);
       expect(p.stderr()).toMatch(new RegExp(`${sig === 'SIGINT' ? 'Ctrl-C' : 'SIGTERM'}: stopping after this step and saving a checkpoint`));
       expect(p.stderr()).toMatch(/interrupted at step (\d+); checkpoint saved at step \1 \(checkpoint: .*run, step \1\)/);
@@ -82,10 +85,13 @@ describe('signals', () => {
     expect(saved % 10).toBe(0);
     // The killed run's lock is stale (its process is gone): the resume takes it over.
     expect(existsSync(join(out, '.mesofield-lock'))).toBe(true);
-    const q = start(['train', cfg, '--resume', out, '--json']);
-    const r = await q.code;
-    expect(r.code, q.stderr()).toBe(0);
-    expect(q.stderr()).toMatch(new RegExp(`resumed from .*run at step ${saved}`));
+    // The resume in this process through the CLI entry function (the kill needed a process of
+    // its own; the resume is the same command line, and tfjs is loaded here already).
+    resetStop();
+    const q = await runCli(['train', cfg, '--resume', out, '--json'], { capture: true });
+    expect(q.code, q.stderr).toBe(0);
+    expect(q.stderr).toMatch(new RegExp(`resumed from .*run at step ${saved}`));
+    expect(existsSync(join(out, '.mesofield-lock'))).toBe(false);
     expect(checkpointStep(out)).toBe(40);
     counts['correct answer']++;
   });
@@ -105,10 +111,12 @@ describe('signals', () => {
     const done = Number(/stopped after (\d+) of 20/.exec(p.stderr())![1]);
     expect(done).toBeGreaterThan(0);
     expect(JSON.parse(readFileSync(join(out, 'shard-1-of-1.json'), 'utf8')).points.length).toBe(done);
-    const q = start(['sweep', cfg, '--out', out, '--workers', '1', '--json']);
-    const r2 = await q.code;
-    expect(r2.code, q.stderr()).toBe(0);
-    expect(q.stderr()).toMatch(new RegExp(`resuming .* ${done} of 20 points already saved`));
+    // The resume in this process through the CLI entry function: the same command line again.
+    resetStop();
+    const q = await runCli(['sweep', cfg, '--out', out, '--workers', '1', '--json'], { capture: true });
+    expect(q.code, q.stderr).toBe(0);
+    expect(q.stderr).toMatch(new RegExp(`resuming .* ${done} of 20 points already saved`));
+    expect(JSON.parse(readFileSync(join(out, 'shard-1-of-1.json'), 'utf8')).points.length).toBe(20);
     counts['clear error or stop']++;
   });
 });

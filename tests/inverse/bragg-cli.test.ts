@@ -8,7 +8,7 @@
 import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { readFormat } from '../../src/io/formats/file-format.js';
 import { braggFitFileSchema } from '../../src/io/formats/measurement-fits.js';
 import { braggPatternFileSchema } from '../../src/io/formats/bragg-pattern.js';
@@ -24,11 +24,13 @@ const TRUE_CHIN = 18;
 const RG_NM = 6;
 const fit = ['--f', '0.3', '--nx', '32', '--ns', '60', '--chiN-range', '14,24'];
 
-function makePeaks(): string {
+// Set-up in this process through the CLI entry function (solve's and bragg-pattern's own process
+// cases are tests/cli/solve-cli.test.ts's and tests/inverse/measurements-cli.test.ts's).
+async function makePeaks(): Promise<string> {
   const sol = join(dir, 'reference');
-  const s = runCli(['solve', '--f', '0.3', '--chiN', String(TRUE_CHIN), '--period', 'equilibrium', '--nx', '64', '--ns', '100', '--out', sol, '--quiet']);
+  const s = await inProcess(['solve', '--f', '0.3', '--chiN', String(TRUE_CHIN), '--period', 'equilibrium', '--nx', '64', '--ns', '100', '--out', sol, '--quiet']);
   expect(s.code, s.stderr).toBe(0);
-  const p = runCli(['bragg-pattern', join(sol, 'solution.json'), '--orders', '4', '--rg-nm', String(RG_NM), '--json']);
+  const p = await inProcess(['bragg-pattern', join(sol, 'solution.json'), '--orders', '4', '--rg-nm', String(RG_NM), '--json']);
   expect(p.code, p.stderr).toBe(0);
   const peaks = braggPatternFileSchema.parse(JSON.parse(p.stdout)).peaks;
   const rows = peaks.map((k) => `${k.order},${k.q},${1000 * k.relative!},${Math.max(30 * k.relative!, 0.3)}`);
@@ -38,7 +40,10 @@ function makePeaks(): string {
 }
 
 describe('fit-bragg (CLI)', () => {
-  const peaks = makePeaks();
+  let peaks = '';
+  beforeAll(async () => {
+    peaks = await makePeaks();
+  });
 
   it('recovers χN within its intervals and the Rg the peaks were made with; writes result.json through its schema and the report', async () => {
     const out = join(dir, 'fit');

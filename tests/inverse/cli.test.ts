@@ -80,9 +80,12 @@ describe('mesofield synth', () => {
 });
 
 describe('mesofield invert', () => {
-  it('recovers χN from a synthetic profile and writes result.json, fit.csv and solution.json', () => {
+  it('recovers χN from a synthetic profile and writes result.json, fit.csv and solution.json', async () => {
     const dir = tmp();
-    const p = synth(dir, ['--noise', '0.02', '--seed', '2']);
+    // The profile is set-up, made in this process (synth's process case is the one above); the invert is the built program's.
+    const p = join(dir, 'synth', 'profile.csv');
+    const made = await inProcess(['synth', '--f', '0.5', '--chiN', '15', '--offset', '0.6', ...grid, '--noise', '0.02', '--seed', '2', '--out', dirname(p), '--quiet']);
+    expect(made.code, made.stderr).toBe(0);
     const out = join(dir, 'res');
     const r = runCli(['invert', p, '--f', '0.5', ...grid, '--json', '--out', out]);
     expect(r.code).toBe(0);
@@ -119,7 +122,7 @@ describe('mesofield invert', () => {
     const p = join(dir, 'nm', 'profile.csv');
     expect((await inProcess(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--rg-nm', '2.8', '--out', dirname(p), '--quiet'])).code).toBe(0);
     // Without --json: the text summary on stdout (it states the assumptions too), the result in --out.
-    const text = runCli(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--out', join(dir, 'nm-res'), '--quiet']);
+    const text = await inProcess(['invert', p, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--out', join(dir, 'nm-res'), '--quiet']);
     expect(text.code, text.stderr).toBe(0);
     expect(text.stdout).toMatch(/χN = .*\n.*68\.3% interval/);
     expect(text.stdout).toMatch(/mean-field SCFT: no fluctuation corrections/);

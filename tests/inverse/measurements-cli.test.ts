@@ -17,22 +17,25 @@ const dir = mkdtempSync(join(tmpdir(), 'mesofield-meas-'));
 // Scenario of our own: χN = 15, Rg = 2.8 nm, two periods, 2 % noise, x written in nm.
 // synth --out DIR writes DIR/profile.csv (and its truth beside it).
 const nm = join(dir, 'nm', 'profile.csv');
-const made = runCli(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '2', '--points', '40', '--noise', '0.02', '--seed', '3', '--rg-nm', '2.8', '--out', join(dir, 'nm')]);
+// Set-up in this process through the CLI entry function (synth's own process case is tests/inverse/cli.test.ts's).
+beforeAll(async () => {
+  const made = await inProcess(['synth', '--f', '0.5', '--chiN', '15', ...grid, '--periods', '2', '--points', '40', '--noise', '0.02', '--seed', '3', '--rg-nm', '2.8', '--out', join(dir, 'nm'), '--quiet']);
+  expect(made.code, made.stderr).toBe(0);
+});
 
 describe('invert: honest about Rg and units', () => {
   // One run serves the text summary and the report (the same fit; --quiet only silences progress).
   const reportOut = join(dir, 'inv-report');
   let a: ReturnType<typeof runCli>;
   beforeAll(() => {
-    expect(made.code).toBe(0);
     a = runCli(['invert', nm, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--chiN-range', '12,20', '--out', reportOut, '--report', '--quiet']);
   });
 
-  it('states the Rg sensitivity without an sd, and profiles Rg out with one', () => {
+  it('states the Rg sensitivity without an sd, and profiles Rg out with one', async () => {
     expect(a.code, a.stderr).toBe(0);
     expect(a.stdout).toMatch(/SENSITIVITY: .*Rg × 0\.95 gives χN = [\d.]+, Rg × 1\.05 gives [\d.]+.*--period free/);
     expect(a.stdout).toMatch(/period [\d.]+ nm \([\d.]+ Rg\)/);
-    const b = runCli(['invert', nm, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--rg-nm-sd', '0.14', '--chiN-range', '12,20', '--json', '--quiet']);
+    const b = await inProcess(['invert', nm, '--f', '0.5', ...grid, '--rg-nm', '2.8', '--rg-nm-sd', '0.14', '--chiN-range', '12,20', '--json', '--quiet']);
     expect(b.code).toBe(0);
     const c = JSON.parse(b.stdout).estimators.classical;
     expect(c.interval[1] - c.interval[0]).toBeGreaterThan(c.assumedInputs.statisticalInterval[1] - c.assumedInputs.statisticalInterval[0]);
@@ -87,7 +90,7 @@ describe('bragg-pattern', () => {
     expect(braggPatternFileSchema.parse(res).orders).toBe(4);
   });
 
-  it('--out writes result.json, peaks.csv and pattern.csv through their one format, and the report reads them', () => {
+  it('--out writes result.json, peaks.csv and pattern.csv through their one format, and the report reads them', async () => {
     const out = join(dir, 'pattern');
     const r = runCli(['bragg-pattern', join(dir, 'sol', 'solution.json'), '--orders', '3', '--rg-nm', '2.8', '--out', out, '--report']);
     expect(r.code, r.stderr).toBe(0);
@@ -103,7 +106,7 @@ describe('bragg-pattern', () => {
     expect(r.stdout).toMatch(/^lamella at χN = 20: period D = [\d.]+ nm/);
     expect(pdfText(join(out, 'report', 'report.pdf'))).toMatch(/Bragg pattern of the lamella at χN = 20/);
     // `report DIR` reads result.json and pattern.csv back through their format and draws the same page.
-    const again = runCli(['report', out, '--out', join(out, 'again'), '--format', 'pdf', '--quiet']);
+    const again = await inProcess(['report', out, '--out', join(out, 'again'), '--format', 'pdf', '--quiet']);
     expect(again.code, again.stderr).toBe(0);
     expect(pdfText(join(out, 'again', 'report.pdf'))).toMatch(/Bragg pattern of the lamella at χN = 20/);
   });

@@ -3,23 +3,27 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { runCli } from '../helpers/run-cli.js';
+import { runCli } from '../../src/cli/run-cli.js';
 
 // In a file of its own so that the test runner can run it beside the long estimator tests.
+// The command lines run in this process through the CLI entry function (src/cli/run-cli.ts):
+// invert as a process of its own (exit code, stdout and stderr apart) is tests/inverse/cli.test.ts's.
 describe('mesofield invert --method both', () => {
-  it('reports both estimators and their agreement', () => {
+  it('reports both estimators and their agreement', async () => {
     const d = mkdtempSync(join(tmpdir(), 'mesofield-netinv-'));
     const csv = join(d, 'p', 'profile.csv');
-    expect(runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', join(d, 'p')]).code).toBe(0);
+    const synth = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', join(d, 'p'), '--quiet'], { capture: true });
+    expect(synth.code, synth.stderr).toBe(0);
     const out = join(d, 'run');
     // The plumbing of both estimators, not their accuracy (network.test.ts, network-noise.test.ts):
-    // a 16 × 40 model grid and 50 Adam steps with a field/χN update after 25 of them (a config
-    // file, under the flags), so that the network's χN moves off the classical one; a 100-step
-    // warm start (network.warmStartSteps, default 400).
+    // a 16 × 20 model grid and 50 Adam steps with a field/χN update after 25 of them (a config
+    // file, under the flags), so that the network's χN moves off the classical one; a 20-step
+    // warm start (network.warmStartSteps, default 400). The two seeds train one after the other
+    // (--workers 1: no worker thread loading tfjs again; the threads are tests/inverse/seed-workers.test.ts's).
     const cfg = join(d, 'invert.json');
-    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, network: { fieldUpdateEvery: 25, warmStartSteps: 100 } }));
-    const r = runCli(['invert', csv, cfg, '--method', 'both', '--seeds', '2', '--adam-steps', '50', '--lbfgs-iterations', '0', '--nx', '16', '--ns', '40', '--backend', 'wasm', '--json', '--out', out, '--report'], { timeoutMs: 300_000 });
-    expect(r.code).toBe(0);
+    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, network: { fieldUpdateEvery: 25, warmStartSteps: 20 } }));
+    const r = await runCli(['invert', csv, cfg, '--method', 'both', '--seeds', '2', '--workers', '1', '--adam-steps', '50', '--lbfgs-iterations', '0', '--nx', '16', '--ns', '20', '--backend', 'wasm', '--json', '--out', out, '--report'], { capture: true });
+    expect(r.code, r.stderr).toBe(0);
     const res = JSON.parse(r.stdout);
     expect(Object.keys(res.estimators).sort()).toEqual(['classical', 'network']);
     expect(res.estimators.network.runs.length).toBe(2);

@@ -10,6 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { readFormat } from '../../src/io/formats/file-format.js';
 import { spacingFitFileSchema } from '../../src/io/formats/measurement-fits.js';
 import { LamellaModel } from '../../src/inverse/lamella-model.js';
+import { runCli as runInProcess } from '../../src/cli/run-cli.js';
 import { runCli } from '../helpers/run-cli.js';
 import { pdfText } from '../reports/pdf-tools.js';
 import { diblock } from './helpers.js';
@@ -50,10 +51,11 @@ describe('fit-spacing (CLI)', () => {
     expect(text).toMatch(/What χ and b rest on/);
   });
 
-  it('a bad config key is named with the file (exit 2)', () => {
+  // In this process through the CLI entry function (the fit above is the built program's case).
+  it('a bad config key is named with the file (exit 2)', async () => {
     const cfg = join(dir, 'bad.json');
     writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'fit-spacing', system: { chain: { type: 'diblock', f: 0.5 } }, chiRange: [0.2, 0.1] }));
-    const r = runCli(['fit-spacing', join(dir, 'spacing.csv'), cfg]);
+    const r = await runInProcess(['fit-spacing', join(dir, 'spacing.csv'), cfg], { capture: true });
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/bad\.json: chiRange: got \[0\.2, 0\.1\]; must be \[lo, hi\] with lo < hi/);
   });

@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { InputError, parseOrThrow } from '../../src/io/errors.js';
 import { CONFIG_SCHEMAS } from '../../src/io/schemas/config-schemas.js';
-import { runCli } from '../helpers/run-cli.js';
+import { runCli } from '../../src/cli/run-cli.js';
 
 describe('config version 2', () => {
   it('every config in configs/ validates against the schema of its kind', () => {
@@ -64,11 +64,12 @@ describe('config version 2', () => {
     expect(tr).toMatch(/system\.chain\.segmentLengths → system\.chain\.segmentRatio \(b_A\/b_B\) \(here segmentRatio: 0\.5; .*factor 2\)/);
   });
 
-  it('the CLI exits 2 on a version-1 config and prints the renames', () => {
+  // In this process through the CLI entry function: the refusal's text and code, not a process's.
+  it('the CLI exits 2 on a version-1 config and prints the renames', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'mesofield-v1-'));
     const p = join(dir, 'old.solve.json');
     writeFileSync(p, JSON.stringify({ version: 1, kind: 'solve', system: { chain: { type: 'diblock', f: 0.5 }, chiN: 15 }, cell: { period: 'optimize' } }));
-    const r = runCli(['solve', p]);
+    const r = await runCli(['solve', p], { capture: true });
     expect(r.code).toBe(2);
     expect(r.stderr).toContain('a version-1 "solve" config');
     expect(r.stderr).toContain('cell.period "optimize" → "equilibrium"');

@@ -64,7 +64,7 @@ describe('surrogate commands', () => {
   });
 
   it('train refuses --adam-steps and --resume for a surrogate config (exit 2, naming the flag)', async () => {
-    const r = runCli(['train', configPath, '--adam-steps', '10', '--out', join(work, 'x')]);
+    const r = await here(['train', configPath, '--adam-steps', '10', '--out', join(work, 'x')]);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--adam-steps: got "10"; a surrogate's Adam steps are warmStart.adamSteps/);
     const resume = await here(['train', configPath, '--resume', ck]);
@@ -132,7 +132,7 @@ describe('surrogate commands', () => {
     const other = join(work, 'other');
     mkdirSync(other);
     writeFileSync(join(other, 'checkpoint.json'), JSON.stringify({ kind: 'checkpoint' }));
-    const r = runCli(['predict', other, '--chiN', '15']);
+    const r = await here(['predict', other, '--chiN', '15']);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/predict needs a surrogate checkpoint/);
     // And the other way round: evaluate (single-point networks) points a surrogate to predict and report.
@@ -147,8 +147,8 @@ describe('surrogate commands', () => {
     for (const f of ['surrogate-error', 'surrogate-free-energy-error', 'surrogate-period', 'surrogate-rounds', 'profiles-phi']) expect(existsSync(join(work, 'report', 'figures', `${f}.png`)), f).toBe(true);
   });
 
-  it('schema surrogate prints the JSON Schema of the kind', () => {
-    const r = runCli(['schema', 'surrogate']);
+  it('schema surrogate prints the JSON Schema of the kind', async () => {
+    const r = await here(['schema', 'surrogate']);
     expect(r.code).toBe(0);
     const s = JSON.parse(r.stdout);
     expect(s.properties.kind.const).toBe('surrogate');

@@ -19,7 +19,7 @@ function writeConfig(dir: string, parameters: unknown, extra: Record<string, unk
 }
 
 describe('mesofield sweep', () => {
-  it('runs two shards, skips a finished one on rerun, and merges them into the table', () => {
+  it('runs two shards, skips a finished one on rerun, and merges them into the table', async () => {
     const dir = tmp();
     const cfg = writeConfig(dir, { chiN: [11, 13, 15] });
     const out = join(dir, 'out');
@@ -29,14 +29,16 @@ describe('mesofield sweep', () => {
     const shard = JSON.parse(one.stdout);
     expect(shard.kind).toBe('sweep-shard');
     expect(shard.points.map((p: { index: number }) => p.index)).toEqual([0, 2]);
-    expect(runCli(['sweep', cfg, '--shard', '2/2', '--out', out, '--workers', '1', '--quiet']).code).toBe(0);
-    const again = runCli(['sweep', cfg, '--shard', '1/2', '--out', out]);
+    // The first shard ran as a user starts it (exit code, stdout and stderr apart); the rest run the
+    // same command lines in this process (no node start-up each).
+    expect((await inProcess(['sweep', cfg, '--shard', '2/2', '--out', out, '--workers', '1', '--quiet'])).code).toBe(0);
+    const again = await inProcess(['sweep', cfg, '--shard', '1/2', '--out', out]);
     expect(again.code).toBe(0);
     expect(again.stderr).toMatch(/shard-1-of-2 of this config .* already complete .*skipped/);
     expect(again.stdout).toMatch(/lamellar/);
 
     const merged = join(dir, 'merged');
-    const m = runCli(['sweep', '--merge', out, '--out', merged]);
+    const m = await inProcess(['sweep', '--merge', out, '--out', merged]);
     expect(m.code, m.stderr).toBe(0);
     expect(m.stderr).toMatch(/merged 2 shard files \(3 points\)/);
     const table = JSON.parse(readFileSync(join(merged, 'sweep.json'), 'utf8'));
@@ -81,7 +83,7 @@ describe('mesofield sweep', () => {
     expect(file.stderr).toMatch(/solver\.start\.type: got "file"; start "file" is not allowed in a sweep/);
     expect((await inProcess(['sweep', cfg, '--merge', dir, '--out', dir])).stderr).toMatch(/config: got .* with --merge/);
     expect((await inProcess(['sweep', '--merge', dir])).stderr).toMatch(/--out: missing; --merge needs/);
-    expect(runCli(['sweep']).code).toBe(2);
+    expect((await inProcess(['sweep'])).code).toBe(2);
     expect(existsSync(join(dir, 'o'))).toBe(false);
   });
 
@@ -96,8 +98,8 @@ describe('mesofield sweep', () => {
     expect(table.points[0].notes[0]).toMatch(/did not converge/);
   });
 
-  it('schema knows the sweep kind', () => {
-    const r = runCli(['schema', 'sweep']);
+  it('schema knows the sweep kind', async () => {
+    const r = await inProcess(['schema', 'sweep']);
     expect(r.code).toBe(0);
     expect(JSON.parse(r.stdout).properties.kind.const).toBe('sweep');
   });

@@ -2,6 +2,7 @@
 import { existsSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { runCli as runInProcess } from '../../src/cli/run-cli.js';
 import { runCli } from '../helpers/run-cli.js';
 import { fieldSystem, tmp } from './trainer-configs.js';
 
@@ -22,14 +23,16 @@ describe('mesofield train / evaluate CLI', () => {
     expect(JSON.parse(ev.stdout).phiA.relativeL2).toBe(m.errors.phiA.relativeL2);
   });
 
-  it('bad train input exits 2 naming the field', () => {
+  // The refusals run in this process through the CLI entry function (no node start-up each);
+  // the run above is train's case as a user starts it.
+  it('bad train input exits 2 naming the field', async () => {
     const d = tmp();
     const p = join(d, 'bad.json');
     writeFileSync(p, JSON.stringify({ version: 2, kind: 'train', system: fieldSystem, collocation: { nodesPerBlock: 7 } }));
-    const r = runCli(['train', p]);
+    const r = await runInProcess(['train', p], { capture: true });
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/collocation\.nodesPerBlock: got 7; must be even/);
-    const r2 = runCli(['train', p, '--backend', 'gpu']);
+    const r2 = await runInProcess(['train', p, '--backend', 'gpu'], { capture: true });
     expect(r2.code).toBe(2);
   });
 });
