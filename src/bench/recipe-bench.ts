@@ -10,7 +10,11 @@
  * steps, after every L-BFGS cycle, and every 5 LM iterations (so the times are upper bounds
  * at that resolution). Options: --seeds=N (default 5), --seed=K (network seed K alone),
  * --seed-order=3,2 (these seeds first), --systems=name,name (default all), --budget=quick
- * (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only).
+ * (shorter runs), --recipe=second-order, --recipe=adam+lbfgs or --recipe=pytorch-lbfgs (one
+ * recipe only). The third recipe, pytorch-lbfgs, is the PyTorch twin of adam+lbfgs
+ * (recipe-twin.ts, bench/pytorch/recipe_twin.py): from the same warm-started networks, the
+ * recipe's L-BFGS cycles done by torch.optim.LBFGS, φ_A measured after every cycle as ours is;
+ * it runs when a python with torch is found, and otherwise one line says why it did not.
  * Besides the levels: the median final φA error and F error (kT per chain) over the seeds.
  * The machine is shared while it runs: timings are wall-clock on whatever load there is.
  */
