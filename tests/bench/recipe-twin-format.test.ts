@@ -67,7 +67,8 @@ describe('the PyTorch twin hand-over file', () => {
   });
 
   it('gives each point the diffusivity of its block, a junction point that of the later block', () => {
-    // b_A/b_B = 1.5 with b = b_B: D = (b_K/b)² is 2.25 on A and 1 on B (docs/physics.md).
+    // b_A/b_B = 1.5: a Gaussian block's diffusivity goes as its segment length squared, so D_A/D_B = 2.25
+    // (common practice, no source); a point at the junction belongs to the later block (propagator-net.ts).
     const { nets, config } = networksFor(tf, { type: 'diblock', f: 0.5, segmentRatio: 1.5 });
     const file = inputFor(tf, nets, config);
     const D = new Map<number, number>();
