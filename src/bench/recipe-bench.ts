@@ -182,6 +182,7 @@ export async function runRecipeBench(): Promise<void> {
         const cpu0 = process.cpuUsage();
         const wall0 = performance.now();
         let twin: TwinReport | null = null;
+        let twinFailure: string | null = null;
         const r = await trainRun({
           config: trainConfigSchema.parse(recipe === 'pytorch-lbfgs' ? twinConfig(b, seed, quick) : recipeConfig(b, recipe, seed, quick)),
           backend: 'wasm',
@@ -189,11 +190,20 @@ export async function runRecipeBench(): Promise<void> {
             ? {
                 onTrainingStart: async (ctx: TrainingStart) => {
                   const tr = trainConfigSchema.parse(recipeConfig(b, 'adam+lbfgs', seed, quick)).training;
-                  twin = await runRecipeTwin(ctx, torch.python, tr.lbfgsCycles, Math.ceil(tr.lbfgsIterations / tr.lbfgsCycles));
+                  // A twin that fails (torch's process ends, an answer out of form) costs its row, not the bench.
+                  try {
+                    twin = await runRecipeTwin(ctx, torch.python, tr.lbfgsCycles, Math.ceil(tr.lbfgsIterations / tr.lbfgsCycles));
+                  } catch (e) {
+                    twinFailure = (e as Error).message.split('\n')[0];
+                  }
                 },
               }
             : {}),
         });
+        if (twinFailure !== null) {
+          process.stderr.write(`bench: ${b.name} pytorch-lbfgs seed ${seed}: the twin failed (${twinFailure}); no row for this seed\n`);
+          continue;
+        }
         const cpu = process.cpuUsage(cpu0);
         const cost = `${((cpu.user + cpu.system) / 1e6).toFixed(0)} s CPU${twin ? ` in node (the twin's field steps included) + ${(twin as TwinReport).torchCpuSeconds.toFixed(0)} s CPU in torch's process` : ''}, ${((performance.now() - wall0) / 1000).toFixed(0)} s wall, load average ${loadavg()[0].toFixed(1)} at the end`;
         finals.push(r.metrics.errors.phiA.relativeL2);

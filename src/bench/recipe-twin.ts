@@ -147,10 +147,16 @@ function conversation(python: string, script: string, file: string) {
   const child = spawn(python, [script, file], { env: torchThreadEnv(1), stdio: ['pipe', 'pipe', 'pipe'] });
   let stderr = '';
   child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
+  // Its last words arrive on stderr, possibly after stdout has closed: wait for the process to end before quoting them.
+  const ended = new Promise<number | null>((resolve) => child.on('close', (code) => resolve(code)));
+  child.on('error', () => {});
   const lines = createInterface({ input: child.stdout })[Symbol.asyncIterator]();
   const read = async <S extends z.ZodType>(schema: S): Promise<z.infer<S>> => {
     const next = await lines.next();
-    if (next.done) throw new Error(`PyTorch twin ended: ${stderr.trim().split('\n').pop() ?? ''}`);
+    if (next.done) {
+      const code = await ended;
+      throw new Error(`PyTorch twin ended (exit ${code}): ${stderr.trim().split('\n').pop() ?? ''}`);
+    }
     return schema.parse(JSON.parse(next.value));
   };
   const send = (cmd: object) => child.stdin.write(`${JSON.stringify(cmd)}\n`);
