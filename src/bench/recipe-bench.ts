@@ -10,7 +10,11 @@
  * steps, after every L-BFGS cycle, and every 5 LM iterations (so the times are upper bounds
  * at that resolution). Options: --seeds=N (default 5), --seed=K (network seed K alone),
  * --seed-order=3,2 (these seeds first), --systems=name,name (default all), --budget=quick
- * (shorter runs), --recipe=second-order or --recipe=adam+lbfgs (one recipe only).
+ * (shorter runs), --recipe=second-order, --recipe=adam+lbfgs or --recipe=pytorch-lbfgs (one
+ * recipe only). The third recipe, pytorch-lbfgs, is the PyTorch twin of adam+lbfgs
+ * (recipe-twin.ts, bench/pytorch/recipe_twin.py): from the same warm-started networks, the
+ * recipe's L-BFGS cycles done by torch.optim.LBFGS, φ_A measured after every cycle as ours is;
+ * it runs when a python with torch is found, and otherwise one line says why it did not.
  * Besides the levels: the median final φA error and F error (kT per chain) over the seeds.
  * The machine is shared while it runs: timings are wall-clock on whatever load there is.
  */
@@ -18,7 +22,11 @@ import { loadavg } from 'node:os';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { TrainConfigInput } from '../io/schemas/train-config.js';
 import { trainRun } from '../training/train-run.js';
+import type { TrainingStart } from '../training/train-run.js';
 import { median } from '../numerics/median.js';
+import { runRecipeTwin } from './recipe-twin.js';
+import type { TwinReport } from './recipe-twin.js';
+import { findTorchPython } from './torch-python.js';
 
 const LEVELS = [1e-3, 1e-4, 1e-5];
 
@@ -81,10 +89,11 @@ export const RECIPE_SYSTEMS: BenchSystem[] = [
   },
 ];
 
-type Recipe = 'adam+lbfgs' | 'second-order';
+type Recipe = 'adam+lbfgs' | 'second-order' | 'pytorch-lbfgs';
+const RECIPES: Recipe[] = ['adam+lbfgs', 'second-order', 'pytorch-lbfgs'];
 
 /** The train config of a recipe (the second-order one is the shipped configs' recipe). */
-export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick: boolean): TrainConfigInput {
+export function recipeConfig(b: BenchSystem, recipe: Exclude<Recipe, 'pytorch-lbfgs'>, seed: number, quick: boolean): TrainConfigInput {
   const warmStart = b.cold ? { type: 'none' as const } : { type: 'reference' as const, adamSteps: 400, learningRate: 0.01 };
   const base = { version: 2 as const, kind: 'train' as const, system: b.system, cell: b.cell, backend: 'wasm' as const, warmStart };
   if (recipe === 'adam+lbfgs') {
@@ -101,6 +110,26 @@ export function recipeConfig(b: BenchSystem, recipe: Recipe, seed: number, quick
     training: { adamSteps: 0, evaluateEvery: 1, secondOrderIterations: quick ? 40 : 160, secondOrder: { evaluateEvery: 5, cycles: quick ? 2 : 6, firstCycleIterations: quick ? 0 : 40, fieldStep: 'anderson' } },
   };
   return quick || !b.secondOrderRecipe ? shared : (mergedConfig(shared, b.secondOrderRecipe) as TrainConfigInput);
+}
+
+/**
+ * The twin's run on our side: the adam+lbfgs config with no Adam steps and no L-BFGS of ours
+ * (reference solve, warm start and the final evaluation only); the twin trains in between.
+ */
+function twinConfig(b: BenchSystem, seed: number, quick: boolean): TrainConfigInput {
+  const c = recipeConfig(b, 'adam+lbfgs', seed, quick);
+  return { ...c, training: { ...c.training, adamSteps: 0, lbfgsIterations: 0 } };
+}
+
+function twinHistory(t: TwinReport): Array<{ phiError: number; seconds: number; steps: number }> {
+  return t.cycles.map((c) => ({ phiError: c.phiError, seconds: c.seconds, steps: c.iterations }));
+}
+
+/** One line: what ran, the check that both sides measure φ_A alike, and each cycle. */
+function twinSummary(t: TwinReport): string {
+  const agree = Math.abs(t.start.twin - t.start.node) / t.start.node;
+  const cycles = t.cycles.map((c) => `cycle ${c.cycle}: start loss twin ${c.startLoss.twin.toExponential(6)} ours ${c.startLoss.node.toExponential(6)}, ${c.iterations} it, ${c.seconds.toFixed(1)} s (${c.cpuSeconds.toFixed(1)} s CPU), loss ${c.loss.toExponential(3)}, φA ${c.phiError.toExponential(3)} (ours on its weights ${c.nodePhiError.toExponential(3)})`).join('; ');
+  return `torch ${t.torch}, BLAS ${t.blas}, one thread; starting φA error: twin ${t.start.twin.toExponential(6)}, ours ${t.start.node.toExponential(6)} (relative difference ${agree.toExponential(1)}); ${cycles}; kept cycle ${t.kept}`;
 }
 
 interface Reach {
@@ -130,8 +159,14 @@ export async function runRecipeBench(): Promise<void> {
   const quick = arg('budget') === 'quick';
   const systems = RECIPE_SYSTEMS.filter((s) => !names || names.includes(s.name));
   const only = arg('recipe');
-  const recipes = (['adam+lbfgs', 'second-order'] as Recipe[]).filter((r) => !only || r === only);
-  if (recipes.length === 0) throw new Error(`--recipe=${only}: allowed: adam+lbfgs, second-order`);
+  let recipes = RECIPES.filter((r) => !only || r === only);
+  if (recipes.length === 0) throw new Error(`--recipe=${only}: allowed: ${RECIPES.join(', ')}`);
+  // The PyTorch twin of adam+lbfgs runs when a python with torch is found; torch is optional.
+  const torch = recipes.includes('pytorch-lbfgs') ? findTorchPython() : null;
+  if (torch && 'reason' in torch) {
+    console.log(`pytorch-lbfgs: skipped, no python with torch (${torch.reason}; set MESOFIELD_PYTHON to one that has it)`);
+    recipes = recipes.filter((r) => r !== 'pytorch-lbfgs');
+  }
   console.log(`\ntraining recipes: time (s of warm start + training, after the reference solve) and steps to φA relative L2 < 1e-3, 1e-4, 1e-5; ${only1 !== null ? `network seed ${only1}` : `${seeds} seed(s)`}${quick ? ', quick budget' : ''}`);
   const rows: string[] = ['| system | recipe | level | reached | seconds min / median / max | steps min / median / max | final φA error (median) | final F error (median, kT) |', '|---|---|---|---|---|---|---|---|'];
   for (const b of systems) {
@@ -140,24 +175,54 @@ export async function runRecipeBench(): Promise<void> {
       const finals: number[] = [];
       const energies: number[] = [];
       for (const seed of seedList) {
+        if (recipe === 'pytorch-lbfgs' && b.cold) {
+          process.stderr.write(`bench: ${b.name} pytorch-lbfgs: skipped (the twin covers a melt with a field network; this chain is in a prescribed field)\n`);
+          continue;
+        }
         const cpu0 = process.cpuUsage();
         const wall0 = performance.now();
-        const r = await trainRun({ config: trainConfigSchema.parse(recipeConfig(b, recipe, seed, quick)), backend: 'wasm' });
+        let twin: TwinReport | null = null;
+        let twinFailure: string | null = null;
+        const r = await trainRun({
+          config: trainConfigSchema.parse(recipe === 'pytorch-lbfgs' ? twinConfig(b, seed, quick) : recipeConfig(b, recipe, seed, quick)),
+          backend: 'wasm',
+          ...(recipe === 'pytorch-lbfgs' && torch && 'python' in torch
+            ? {
+                onTrainingStart: async (ctx: TrainingStart) => {
+                  const tr = trainConfigSchema.parse(recipeConfig(b, 'adam+lbfgs', seed, quick)).training;
+                  // A twin that fails (torch's process ends, an answer out of form) costs its row, not the bench.
+                  try {
+                    twin = await runRecipeTwin(ctx, torch.python, tr.lbfgsCycles, Math.ceil(tr.lbfgsIterations / tr.lbfgsCycles));
+                  } catch (e) {
+                    twinFailure = (e as Error).message.split('\n')[0];
+                  }
+                },
+              }
+            : {}),
+        });
+        if (twinFailure !== null) {
+          process.stderr.write(`bench: ${b.name} pytorch-lbfgs seed ${seed}: the twin failed (${twinFailure}); no row for this seed\n`);
+          continue;
+        }
         const cpu = process.cpuUsage(cpu0);
-        const cost = `${((cpu.user + cpu.system) / 1e6).toFixed(0)} s CPU, ${((performance.now() - wall0) / 1000).toFixed(0)} s wall, load average ${loadavg()[0].toFixed(1)} at the end`;
+        const cost = `${((cpu.user + cpu.system) / 1e6).toFixed(0)} s CPU${twin ? ` in node (the twin's field steps included) + ${(twin as TwinReport).torchCpuSeconds.toFixed(0)} s CPU in torch's process` : ''}, ${((performance.now() - wall0) / 1000).toFixed(0)} s wall, load average ${loadavg()[0].toFixed(1)} at the end`;
         finals.push(r.metrics.errors.phiA.relativeL2);
         energies.push(r.metrics.errors.freeEnergyError);
         const warm = r.metrics.training.warmStart?.seconds ?? 0;
+        // The twin's history: its own φ_A measure after each cycle, its time from the warm start's start.
+        const history = twin ? twinHistory(twin) : r.history.map((h) => ({ phiError: h.phiError, seconds: warm + h.seconds, steps: h.step + (h.lbfgsIterations ?? 0) + (h.secondOrderIterations ?? 0) }));
         LEVELS.forEach((level, li) => {
-          const hit = r.history.find((h) => h.phiError !== undefined && h.phiError < level);
-          if (hit) reach[li].push({ seconds: warm + hit.seconds, steps: hit.step + (hit.lbfgsIterations ?? 0) + (hit.secondOrderIterations ?? 0) });
+          const hit = history.find((h) => h.phiError !== undefined && h.phiError < level);
+          if (hit) reach[li].push({ seconds: hit.seconds, steps: hit.steps });
         });
         const firstBelow = LEVELS.map((level) => {
-          const h = r.history.find((e) => e.phiError !== undefined && e.phiError < level);
-          return `${level}: ${h ? `${(warm + h.seconds).toFixed(1)} s` : '—'}`;
+          const h = history.find((e) => e.phiError !== undefined && e.phiError < level);
+          return `${level}: ${h ? `${h.seconds.toFixed(1)} s` : '—'}`;
         }).join(', ');
+        if (twin) process.stderr.write(`bench: ${b.name} pytorch-lbfgs seed ${seed}: ${twinSummary(twin)}\n`);
         process.stderr.write(`bench: ${b.name} ${recipe} seed ${seed}: φA error ${r.metrics.errors.phiA.relativeL2.toExponential(2)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT, warm start ${warm.toFixed(1)} s, below ${firstBelow}, ${r.metrics.training.seconds.toFixed(1)} s in all; ${cost}\n`);
       }
+      if (finals.length === 0) continue;
       LEVELS.forEach((level, li) => {
         rows.push(`| ${b.name} | ${recipe} | ${level} | ${reach[li].length}/${seedList.length} | ${stats(reach[li].map((x) => x.seconds))} | ${stats(reach[li].map((x) => x.steps))} | ${li === 0 ? median(finals).toExponential(2) : ''} | ${li === 0 ? median(energies).toExponential(2) : ''} |`);
       });

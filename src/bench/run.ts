@@ -4,7 +4,7 @@
  * side by side with PyTorch; independent runs and one run split across worker threads),
  * `--trainer` (trainer steps, transfer, time to a target error), `--inverse` (both χN
  * estimators, and the network estimator's convergence from a start 10 % low), `--surrogate` (the parametric surrogate), `--startup` (start-up of the command
- * line against bare node), `--recipes` (Adam + L-BFGS against the second-order phase on five
+ * line against bare node), `--recipes` (Adam + L-BFGS against the second-order phase, and the PyTorch twin of Adam + L-BFGS when torch is found, on five
  * systems; only when asked, it is long: see recipe-bench.ts), `--propagator-floor` (the
  * propagator networks alone in the reference's field: the floor of the second-order recipe;
  * only when asked, see propagator-floor.ts), `--lm-profile` (CPU time of the parts of one

@@ -28,6 +28,7 @@ import { LOSS_TERMS } from '../network/losses/terms.js';
 import type { LossValues } from '../network/losses/terms.js';
 import { ScftProblem } from '../network/problem/scft-problem.js';
 import { median, timeIt } from './timing.js';
+import { findTorchPython, torchThreadEnv } from './torch-python.js';
 import { likeForLikePoints, likeForLikeProblem, LIKE_FOR_LIKE_LEARNING_RATE, LIKE_FOR_LIKE_NX, LIKE_FOR_LIKE_PERIOD } from './like-for-like.js';
 
 export const SIZES: Array<[width: number, points: number]> = [
@@ -129,17 +130,12 @@ function torchStep(width: number, points: number, weights: object, steps: number
   const file = join(dir, 'weights.json');
   const { x, s } = likeForLikePoints(points);
   writeFileSync(file, JSON.stringify({ ...weights, x: Array.from(x), s: Array.from(s), period: LIKE_FOR_LIKE_PERIOD, learningRate: LIKE_FOR_LIKE_LEARNING_RATE }));
-  // Debian's python3-torch lives in the system python, which a pyenv shim may hide.
-  let last = '';
-  for (const python of [process.env.MESOFIELD_PYTHON, 'python3', '/usr/bin/python3'].filter((p): p is string => Boolean(p))) {
-    // The same number of threads for every pool torch may use (its own, OpenMP, OpenBLAS).
-    const n = String(threads);
-    const env = { ...process.env, OMP_NUM_THREADS: n, OPENBLAS_NUM_THREADS: n, MKL_NUM_THREADS: n };
-    const r = spawnSync(python, [script, file, String(steps), String(rounds), n], { encoding: 'utf8', env });
-    if (r.status === 0) return JSON.parse(r.stdout.trim().split('\n').pop()!) as TorchResult;
-    last = `${python}: ${(r.stderr || r.error?.message || '').trim().split('\n').pop()}`;
-  }
-  return `not run (${last})`;
+  const found = findTorchPython();
+  if ('reason' in found) return `not run (${found.reason})`;
+  // The same number of threads for every pool torch may use (its own, OpenMP, OpenBLAS).
+  const r = spawnSync(found.python, [script, file, String(steps), String(rounds), String(threads)], { encoding: 'utf8', env: torchThreadEnv(threads) });
+  if (r.status === 0) return JSON.parse(r.stdout.trim().split('\n').pop()!) as TorchResult;
+  return `not run (${found.python}: ${(r.stderr || r.error?.message || '').trim().split('\n').pop()})`;
 }
 
 export async function runStepProfile(opts: { top?: number; rounds?: number; steps?: number } = {}): Promise<void> {

@@ -54,6 +54,26 @@ export interface TrainRunOptions {
   /** Each L-BFGS iteration over all cycles (of `iterations`) with its loss. */
   onLbfgs?: (iteration: number, iterations: number, loss: number) => void;
   shouldStop?: () => boolean;
+  /**
+   * Called once the networks are warm-started and the problem and field updater are built,
+   * before the Adam steps: the recipe bench's PyTorch twin trains the networks from here
+   * (src/bench/recipe-twin.ts). What it leaves in the networks is what the run goes on with.
+   */
+  onTrainingStart?: (ctx: TrainingStart) => Promise<void>;
+}
+
+/** What onTrainingStart gets: the warm-started networks and what the run trains them with. */
+export interface TrainingStart {
+  tf: Tf;
+  nets: ScftNetworks;
+  problem: ScftProblem;
+  fieldUpdater: FieldUpdater;
+  config: TrainConfig;
+  reference: ScftSolution;
+  /** Seconds of the warm start (0 without one). */
+  warmStartSeconds: number;
+  /** φ_A relative L2 of the networks against the reference, as the run's history measures it. */
+  phiError: () => number;
 }
 
 export type { TrainMetrics } from '../io/formats/training.js';
@@ -247,6 +267,9 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
     await saveCheckpoint(tf, opts.outDir, meta as Parameters<typeof saveCheckpoint>[2], [...nets.parameters.namedWeights(), ...adam.state()], { 'reference.json': refFile, ...extraFiles });
   };
 
+  if (opts.onTrainingStart) {
+    await opts.onTrainingStart({ tf, nets, problem, fieldUpdater, config, reference, warmStartSeconds: training.warmStart?.seconds ?? 0, phiError: () => phiErrorOf(tf, nets, config, reference) });
+  }
   stage(`training (${handle.backend} backend, tfjs ${handle.tfjsVersion})`);
   const tLoop = performance.now();
   const loop = await runTraining(tf, problem, nets.parameters, adam, config, state, {
