@@ -8,37 +8,9 @@
  * Ann. Math. Stat. 22 (1951) 400–407.
  */
 import { describe, expect, it } from 'vitest';
-import { runSecondOrder } from '../../src/training/second-order-phase.js';
-import { smallDiblockNetworks } from '../helpers/small-diblock-networks.js';
+import { smallAlternatingRun } from '../helpers/small-diblock-networks.js';
 
-async function run(fieldStepDecay: number | undefined) {
-  const { config, nets } = await smallDiblockNetworks(0.4);
-  const so = await runSecondOrder(
-    nets,
-    config.system,
-    config.losses.weights,
-    {
-      iterations: 24,
-      nx: 16,
-      nodesPerBlock: 8,
-      damping: 'marquardt',
-      evaluateEvery: 0,
-      lossTolerance: 0,
-      strategy: 'alternating',
-      cycles: 4,
-      firstCycleIterations: 0,
-      jointIterations: 0,
-      fieldMixing: 0.5,
-      fieldStep: 'simple',
-      andersonHistory: 1,
-      periods: 1,
-      ...(fieldStepDecay !== undefined ? { fieldStepDecay } : {}),
-    },
-    {},
-  );
-  nets.dispose();
-  return so;
-}
+const run = (fieldStepDecay: number | undefined) => smallAlternatingRun(0.4, { iterations: 24, cycles: 4, ...(fieldStepDecay !== undefined ? { fieldStepDecay } : {}) });
 
 describe('field steps that shrink', () => {
   it('1 is no setting; the first step is whole; with 1e-6 the later steps barely move the fields', async () => {
