@@ -49,7 +49,7 @@ export async function runStallAnalysis(): Promise<void> {
   console.log(`kept state: ${JSON.stringify(r.metrics.training.holds)}`);
   console.log(`φA relative L2 ${r.metrics.errors.phiA.relativeL2.toExponential(3)}, F error ${r.metrics.errors.freeEnergyError.toExponential(2)} kT, wA − wB ${r.metrics.errors.exchangeField.relativeL2.toExponential(2)}`);
   const steps = r.metrics.training.secondOrder?.fieldSteps ?? [];
-  console.log(`field steps max |d| (kT): ${steps.map((s) => `${s.residual.toExponential(2)} (after ${s.afterIteration})`).join(', ')}`);
+  console.log(`field steps max |d| (kT): ${steps.map((s) => `${s.residual.toExponential(2)} (after ${s.afterIteration}, move ${s.move?.toExponential(2)})`).join(', ')}`);
   const last = r.history.filter((h) => h.stage === 'second-order').pop();
   if (last) console.log(`last iteration's loss terms: ${Object.entries(last.terms).map(([k, v]) => `${k} ${(v as number).toExponential(2)}`).join(', ')}`);
 

@@ -90,6 +90,14 @@ export interface SecondOrderSettings {
   fieldStep: 'simple' | 'anderson';
   /** Pairs kept by the Anderson field step. */
   andersonHistory: number;
+  /**
+   * The k-th field step (k = 1, 2, …) moves the fields by decay^(k−1) of the move its rule
+   * (`fieldStep`) asks for (absent or 1: the whole move). The networks' deviation d carries
+   * their propagators' error as well as the fields'; shrinking steps stop that error from
+   * moving converged fields (decreasing step sizes: Robbins & Monro, Ann. Math. Stat. 22
+   * (1951) 400–407).
+   */
+  fieldStepDecay?: number;
   /** Lamellar periods in the cell (the harmonic whose phase the field step pins). */
   periods: number;
   /**
@@ -129,6 +137,8 @@ export interface FieldStepReport {
   residual: number;
   /** RMS of the field network's misfit to the step's target (kT) after the refit. */
   fitRms: number;
+  /** max |target − w| (kT) over the species and the grid: the move the step asked for (after fieldStepDecay). */
+  move: number;
 }
 
 export interface SecondOrderHooks {
@@ -273,7 +283,10 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
       onChain.forEach((k, i) => out.set(u[k], i * nx));
       return out;
     };
-    const next = mixer.next(flat(w), flat(deviation));
+    const current = flat(w);
+    const next = mixer.next(current, flat(deviation));
+    const scale = (settings.fieldStepDecay ?? 1) ** cycle;
+    if (scale !== 1) for (let j = 0; j < next.length; j++) next[j] = current[j] + scale * (next[j] - current[j]);
     const target: SpeciesArrays = { A: new Float64Array(nx), B: new Float64Array(nx) };
     onChain.forEach((k, i) => target[k].set(next.subarray(i * nx, (i + 1) * nx)));
     fixGauge(nets.chain, target, gridCell);
@@ -283,7 +296,9 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
     theta = Float64Array.from(theta);
     theta.set(r.x, fit.first);
     // fieldFit's cost is ½ Σ_c,j (w − target)² / (species · nx): its RMS is √(2 cost).
-    const report = { cycle: ++cycle, afterIteration: done, residual, fitRms: Math.sqrt(2 * r.cost) };
+    let move = 0;
+    onChain.forEach((k, i) => target[k].forEach((v, j) => (move = Math.max(move, Math.abs(v - current[i * nx + j])))));
+    const report = { cycle: ++cycle, afterIteration: done, residual, fitRms: Math.sqrt(2 * r.cost), move };
     fieldSteps.push(report);
     hooks.onFieldStep?.(report);
   };

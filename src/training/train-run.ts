@@ -393,12 +393,13 @@ export async function trainRun(opts: TrainRunOptions): Promise<TrainRunResult> {
         fieldMixing: tr.fieldMixing,
         fieldStep: tr.secondOrder.fieldStep,
         andersonHistory: tr.secondOrder.andersonHistory,
+        fieldStepDecay: tr.secondOrder.fieldStepDecay,
         periods: reference.periods,
       },
       {
         evaluate: () => phiErrorOf(tf, nets, config, reference),
         shouldStop: opts.shouldStop,
-        onFieldStep: (f) => stage(`second-order field step ${f.cycle}: SCFT deviation max |d| ${f.residual.toExponential(2)} kT, field refit RMS ${f.fitRms.toExponential(2)} kT`),
+        onFieldStep: (f) => stage(`second-order field step ${f.cycle}: SCFT deviation max |d| ${f.residual.toExponential(2)} kT, move ${f.move.toExponential(2)} kT, field refit RMS ${f.fitRms.toExponential(2)} kT`),
         onProgress: opts.onSecondOrder ?? ((p) => stage(`second-order ${p.iteration}/${p.iterations}: loss ${p.loss.toExponential(3)}, μ ${p.mu.toExponential(2)}${p.phiError !== undefined ? `, φA error ${p.phiError.toExponential(3)}` : ''}`)),
         onRecord: (rec) =>
           loop.state.history.push({

@@ -5,37 +5,9 @@
  * accuracy is measured in docs/second-order-training.md). Common practice, no source.
  */
 import { describe, expect, it } from 'vitest';
-import { runSecondOrder } from '../../src/training/second-order-phase.js';
-import { smallDiblockNetworks } from '../helpers/small-diblock-networks.js';
+import { smallAlternatingRun } from '../helpers/small-diblock-networks.js';
 
-async function run(firstCyclePlateau: number | undefined) {
-  const { config, nets } = await smallDiblockNetworks(0.4);
-  const so = await runSecondOrder(
-    nets,
-    config.system,
-    config.losses.weights,
-    {
-      iterations: 28,
-      nx: 16,
-      nodesPerBlock: 8,
-      damping: 'marquardt',
-      evaluateEvery: 0,
-      lossTolerance: 0,
-      strategy: 'alternating',
-      cycles: 3,
-      firstCycleIterations: 10,
-      jointIterations: 0,
-      fieldMixing: 0.5,
-      fieldStep: 'simple',
-      andersonHistory: 1,
-      periods: 1,
-      ...(firstCyclePlateau !== undefined ? { firstCyclePlateau } : {}),
-    },
-    {},
-  );
-  nets.dispose();
-  return so;
-}
+const run = (firstCyclePlateau: number | undefined) => smallAlternatingRun(0.4, { iterations: 28, cycles: 3, firstCycleIterations: 10, ...(firstCyclePlateau !== undefined ? { firstCyclePlateau } : {}) });
 
 describe('the first cycle ends where a propagator’s loss stops falling', () => {
   it('0 is no setting; a plateau that every step meets ends each propagator’s first cycle after 6 iterations, and the later cycles use the rest', async () => {

@@ -6,19 +6,10 @@
  * count changes the SCFT deviation the first field step sees. Common practice, no source.
  */
 import { describe, expect, it } from 'vitest';
-import { runSecondOrder } from '../../src/training/second-order-phase.js';
-import { smallDiblockNetworks } from '../helpers/small-diblock-networks.js';
+import { smallAlternatingRun } from '../helpers/small-diblock-networks.js';
 
 async function firstDeviation(stateNodesPerBlock: number | undefined) {
-  const { config, nets } = await smallDiblockNetworks(0.5);
-  const so = await runSecondOrder(
-    nets,
-    config.system,
-    config.losses.weights,
-    { iterations: 8, nx: 16, nodesPerBlock: 8, damping: 'marquardt', evaluateEvery: 0, lossTolerance: 0, strategy: 'alternating', cycles: 2, firstCycleIterations: 0, jointIterations: 0, fieldMixing: 0.5, fieldStep: 'simple', andersonHistory: 1, periods: 1, ...(stateNodesPerBlock !== undefined ? { stateNodesPerBlock } : {}) },
-    {},
-  );
-  nets.dispose();
+  const so = await smallAlternatingRun(0.5, stateNodesPerBlock !== undefined ? { stateNodesPerBlock } : {});
   expect(so.fieldSteps.length).toBe(1);
   return so.fieldSteps[0].residual;
 }

@@ -128,7 +128,7 @@ export const trainMetricsSchema = z
              * The alternating strategy's field steps: after which iteration, the networks' SCFT
              * deviation max |d| (kT) before the step, and the field network's refit RMS (kT).
              */
-            fieldSteps: z.array(z.object({ cycle: z.number().int(), afterIteration: z.number().int(), residual: z.number(), fitRms: z.number() }).strict()).optional(),
+            fieldSteps: z.array(z.object({ cycle: z.number().int(), afterIteration: z.number().int(), residual: z.number(), fitRms: z.number(), move: z.number().optional() }).strict()).optional(),
           })
           .strict()
           .optional(),

@@ -194,6 +194,12 @@ export const trainConfigSchema = z
             /** Alternating with the Anderson field step: earlier cycles it keeps. */
             andersonHistory: z.number().int().min(1).max(50).default(8),
             /**
+             * Alternating: the k-th field step moves the fields by fieldStepDecay^(k−1) of the
+             * move its rule asks for (1: the whole move), so the propagators' error in the
+             * networks' SCFT deviation moves converged fields less and less.
+             */
+            fieldStepDecay: z.number().gt(0).lte(1).default(1),
+            /**
              * Alternating: LM iterations of each propagator in the first cycle, before the
              * first field step (0: the same share of secondOrderIterations as every cycle);
              * the other cycles share what is left.
