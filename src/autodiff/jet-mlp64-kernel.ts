@@ -20,7 +20,7 @@
  * then, or without WebAssembly SIMD, JetMlp64 runs its JS passes.
  * Units: none (plain numbers).
  */
-import { loadAssembler } from './wasm/heap-module.js';
+import { assembleSimdModule } from '../numerics/simd-module.js';
 
 const loop = (name: string, counter: string, end: string, step: number, body: string) => `(local.set $${counter} (i32.const 0))
     (block $${name}_done (loop $${name}
@@ -201,19 +201,7 @@ export function jetKernelModule(): WebAssembly.Module | null {
 export function loadJetKernels(): Promise<WebAssembly.Module | null> {
   if (loading) return loading;
   loading = (async () => {
-    try {
-      const wabt = await loadAssembler();
-      const parsed = wabt.parseWat('mesofield-jet64.wat', moduleWat, { simd: true });
-      try {
-        parsed.validate();
-        compiled = new WebAssembly.Module(parsed.toBinary({}).buffer);
-      } finally {
-        parsed.destroy();
-      }
-    } catch (e) {
-      if (process.env.MESOFIELD_DEBUG_KERNELS) console.error(e);
-      compiled = null;
-    }
+    compiled = await assembleSimdModule('mesofield-jet64.wat', moduleWat);
     return compiled;
   })();
   return loading;

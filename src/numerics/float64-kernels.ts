@@ -25,6 +25,8 @@
  * Units: none (plain numbers).
  */
 
+import { assembleSimdModule } from './simd-module.js';
+
 /** Byte offsets into the module's memory, as the kernels take them. */
 type Offset = number;
 
@@ -220,21 +222,8 @@ export function float64Kernels(): Float64Kernels | null {
 export function loadFloat64Kernels(): Promise<Float64Kernels | null> {
   if (loading) return loading;
   loading = (async () => {
-    try {
-      const mod = (await import('wabt')) as unknown as { default: () => Promise<{ parseWat: (name: string, text: string, features: Record<string, boolean>) => { validate(): void; toBinary(o: object): { buffer: Uint8Array }; destroy(): void } }> };
-      const wabt = await mod.default();
-      const parsed = wabt.parseWat('mesofield-float64.wat', moduleWat, { simd: true });
-      try {
-        parsed.validate();
-        const instance = new WebAssembly.Instance(new WebAssembly.Module(parsed.toBinary({}).buffer), {});
-        loaded = new Float64Kernels(instance.exports as unknown as Exports);
-      } finally {
-        parsed.destroy();
-      }
-    } catch (e) {
-      if (process.env.MESOFIELD_DEBUG_KERNELS) console.error(e);
-      loaded = null;
-    }
+    const module = await assembleSimdModule('mesofield-float64.wat', moduleWat);
+    loaded = module ? new Float64Kernels(new WebAssembly.Instance(module, {}).exports as unknown as Exports) : null;
     return loaded;
   })();
   return loading;
