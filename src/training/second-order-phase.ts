@@ -222,14 +222,18 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
     return loss > settings.lossTolerance;
   };
 
-  /** LM on one propagator's output layers alone (settings.outputLayerIterations). */
-  const solveOutputLayer = (side: 'q' | 'qDagger') => {
+  /**
+   * LM on one propagator's output layers alone (settings.outputLayerIterations), stoppable
+   * after any of its iterations as the propagators' LM is (a stop there ends the phase).
+   */
+  const solveOutputLayer = async (side: 'q' | 'qDagger') => {
     const n = settings.outputLayerIterations ?? 0;
     if (n <= 0) return;
     const cols = sys.outputLayerColumns(side);
     const problem = sys.columnProblem(theta, side, cols);
-    const r = levenbergMarquardt(problem, Float64Array.from(cols, (c) => theta[c]), { maxIterations: n, damping: settings.damping });
+    const r = await levenbergMarquardtYielding(problem, Float64Array.from(cols, (c) => theta[c]), { maxIterations: n, damping: settings.damping }, yieldToEvents, () => hooks.shouldStop?.() ?? false);
     theta = problem.embed(r.x);
+    if (r.reason === 'interrupted') stopped = 'interrupted';
   };
 
   const lastMu = new Map<ResidualPart, number>();
@@ -320,7 +324,8 @@ export async function runSecondOrder(nets: ScftNetworks, system: SystemSpec, wei
         if (c === 1 && first > 0) perCycle = Math.max(1, Math.ceil((settings.iterations - done) / (restCycles * sides.length)));
         for (const side of sides) {
           if (stopped || done >= settings.iterations) break;
-          if (side !== 'all') solveOutputLayer(side);
+          if (side !== 'all') await solveOutputLayer(side);
+          if (stopped) break;
           await solvePart(side, Math.min(c === 0 && first > 0 ? first : perCycle, settings.iterations - done), c === 0 && first > 0 ? (settings.firstCyclePlateau ?? 0) : 0);
         }
       }

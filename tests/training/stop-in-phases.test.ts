@@ -58,6 +58,26 @@ describe('a stop inside an optimisation phase', () => {
     expect(Number(m![1])).toBeGreaterThanOrEqual(1);
     expect(Number(m![1])).toBeLessThanOrEqual(3);
   }, 120_000);
+
+  it('second-order phase, in the output-layer LM before a propagator iteration: stops there, at iteration 0', async () => {
+    // 1000 output-layer iterations (secondOrder.outputLayerIterations) come before the first
+    // propagator iteration: a stop that waited for the propagators' LM would report iteration 1
+    // after all of them.
+    const config = trainConfigSchema.parse({
+      version: 2,
+      kind: 'train',
+      system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2.0, mode: 1, offset: 0 } } },
+      cell: { period: 4.0, nx: 32, ns: 40 },
+      networks: { propagator: { hidden: [8, 8], fourierModes: 3 } },
+      collocation: { nx: 16, nodesPerBlock: 16, random: 0 },
+      warmStart: { type: 'none' },
+      training: { adamSteps: 0, evaluateEvery: 0, secondOrderIterations: 40, secondOrder: { outputLayerIterations: 1000 } },
+    });
+    resetStop();
+    const e = await trainRun({ config, backend: 'wasm', shouldStop: stopRequested, onStage: (m) => void (/^second-order phase/.test(m) && stopSoon()) }).catch((x) => x);
+    expect(e).toBeInstanceOf(TrainingStopped);
+    expect((e as Error).message).toMatch(/interrupted in the second-order phase at iteration 0\b/);
+  }, 120_000);
 });
 
 describe('a stop in the warm start', () => {
