@@ -26,6 +26,17 @@ const SMALL_DIBLOCK = {
   collocation: { nx: 16, nodesPerBlock: 8, random: 0 },
 };
 
+/** A chain in a cosine field from a cold start, tiny networks: a second-order phase of seconds. */
+const CHAIN_IN_A_FIELD = {
+  version: 2,
+  kind: 'train',
+  system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2.0, mode: 1, offset: 0 } } },
+  cell: { period: 4.0, nx: 32, ns: 40 },
+  networks: { propagator: { hidden: [8, 8], fourierModes: 3 } },
+  collocation: { nx: 16, nodesPerBlock: 16, random: 0 },
+  warmStart: { type: 'none' },
+};
+
 describe('a stop inside an optimisation phase', () => {
   it('L-BFGS polish: stops within an iteration of the request, saved as a stop between cycles', async () => {
     const config = trainConfigSchema.parse({ ...SMALL_DIBLOCK, warmStart: { type: 'reference', adamSteps: 5 }, training: { adamSteps: 5, lbfgsIterations: 300, lbfgsCycles: 1, evaluateEvery: 0 } });
@@ -40,16 +51,7 @@ describe('a stop inside an optimisation phase', () => {
   }, 120_000);
 
   it('second-order phase: stops within an LM iteration of the request', async () => {
-    const config = trainConfigSchema.parse({
-      version: 2,
-      kind: 'train',
-      system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2.0, mode: 1, offset: 0 } } },
-      cell: { period: 4.0, nx: 32, ns: 40 },
-      networks: { propagator: { hidden: [8, 8], fourierModes: 3 } },
-      collocation: { nx: 16, nodesPerBlock: 16, random: 0 },
-      warmStart: { type: 'none' },
-      training: { adamSteps: 0, evaluateEvery: 0, secondOrderIterations: 40 },
-    });
+    const config = trainConfigSchema.parse({ ...CHAIN_IN_A_FIELD, training: { adamSteps: 0, evaluateEvery: 0, secondOrderIterations: 40 } });
     resetStop();
     const e = await trainRun({ config, backend: 'wasm', shouldStop: stopRequested, onStage: (m) => void (/^second-order phase/.test(m) && stopSoon()) }).catch((x) => x);
     expect(e).toBeInstanceOf(TrainingStopped);
@@ -63,16 +65,7 @@ describe('a stop inside an optimisation phase', () => {
     // 1000 output-layer iterations (secondOrder.outputLayerIterations) come before the first
     // propagator iteration: a stop that waited for the propagators' LM would report iteration 1
     // after all of them.
-    const config = trainConfigSchema.parse({
-      version: 2,
-      kind: 'train',
-      system: { chain: { type: 'homopolymer', species: 'A' }, externalField: { A: { type: 'cosine', amplitude: 2.0, mode: 1, offset: 0 } } },
-      cell: { period: 4.0, nx: 32, ns: 40 },
-      networks: { propagator: { hidden: [8, 8], fourierModes: 3 } },
-      collocation: { nx: 16, nodesPerBlock: 16, random: 0 },
-      warmStart: { type: 'none' },
-      training: { adamSteps: 0, evaluateEvery: 0, secondOrderIterations: 40, secondOrder: { outputLayerIterations: 1000 } },
-    });
+    const config = trainConfigSchema.parse({ ...CHAIN_IN_A_FIELD, training: { adamSteps: 0, evaluateEvery: 0, secondOrderIterations: 40, secondOrder: { outputLayerIterations: 1000 } } });
     resetStop();
     const e = await trainRun({ config, backend: 'wasm', shouldStop: stopRequested, onStage: (m) => void (/^second-order phase/.test(m) && stopSoon()) }).catch((x) => x);
     expect(e).toBeInstanceOf(TrainingStopped);
