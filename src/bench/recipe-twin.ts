@@ -16,7 +16,7 @@ import { join } from 'node:path';
 import { createInterface } from 'node:readline';
 import type { z } from 'zod';
 import { formatText } from '../io/formats/file-format.js';
-import { blockAt, collocationContours, contourFromSteps } from '../physics/contour.js';
+import { blockAt, contourFromSteps } from '../physics/contour.js';
 import type { Chain } from '../physics/chain.js';
 import type { PropagatorNet } from '../network/propagator-net.js';
 import type { ScftNetworks } from '../network/scft-networks.js';
@@ -72,10 +72,9 @@ interface SidePoints {
 
 /** The points the recipe's L-BFGS phase trains each propagator on: its tensor grid, then the extra points it holds. */
 function trainingPoints(ctx: TrainingStart): { q: SidePoints; qDagger: SidePoints } {
-  const { nets, config, problem } = ctx;
-  const c = config.collocation;
-  const contours = collocationContours(nets.chain, nets.reversed, c.nodesPerBlock, c.contourSpread, 'collocation.nodesPerBlock');
-  const gx = nets.cell.withPoints(c.nx).x;
+  const { nets, problem } = ctx;
+  // The problem's own tensor grid (its contour nodes per side and x points), not a rebuilt one.
+  const gx = problem.xGrid;
   const extra = problem.extraPoints();
   const side = (contour: Float64Array, chain: Chain, more: { x: number[] | Float64Array; s: number[] | Float64Array } | undefined): SidePoints => {
     const n = contour.length * gx.length + (more?.x.length ?? 0);
@@ -86,7 +85,7 @@ function trainingPoints(ctx: TrainingStart): { q: SidePoints; qDagger: SidePoint
     if (more) for (let i = 0; i < more.x.length; i++) ((x[o] = more.x[i]), (s[o++] = more.s[i]));
     return { x, s, chain };
   };
-  return { q: side(contours.q.s, nets.chain, extra?.q), qDagger: side(contours.qDagger.s, nets.reversed, extra?.qDagger) };
+  return { q: side(problem.nodes.s, nets.chain, extra?.q), qDagger: side(problem.nodesReversed.s, nets.reversed, extra?.qDagger) };
 }
 
 /** The hand-over file's content for the warm-started networks of ctx. */

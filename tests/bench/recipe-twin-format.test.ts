@@ -11,6 +11,7 @@ import { selectBackend, type Tf } from '../../src/autodiff/backend.js';
 import { trainConfigSchema } from '../../src/io/schemas/train-config.js';
 import { buildChain } from '../../src/physics/chain.js';
 import { buildScftNetworks } from '../../src/network/scft-networks.js';
+import { ScftProblem } from '../../src/network/problem/scft-problem.js';
 import type { ScftNetworks } from '../../src/network/scft-networks.js';
 import { twinInput } from '../../src/bench/recipe-twin.js';
 import type { TrainingStart } from '../../src/training/train-run.js';
@@ -35,8 +36,13 @@ function networksFor(tf: Tf, chain: Record<string, unknown>): { nets: ScftNetwor
 function inputFor(tf: Tf, nets: ScftNetworks, config: TrainingStart['config']): RecipeTwinInput {
   const x = Float64Array.from({ length: NX }, (_, j) => (j * PERIOD) / NX);
   const reference = { x, periods: 1, phi: { A: x.map((v) => 0.5 + 0.4 * Math.cos((2 * Math.PI * v) / PERIOD)) } } as unknown as TrainingStart['reference'];
-  const problem = { extraPoints: () => null } as unknown as TrainingStart['problem'];
-  return twinInput({ tf, nets, config, reference, problem } as TrainingStart);
+  // The run's own problem: its tensor grid is where the twin's points come from.
+  const problem = new ScftProblem(tf, nets, config.system, config.collocation);
+  try {
+    return twinInput({ tf, nets, config, reference, problem } as TrainingStart);
+  } finally {
+    problem.dispose();
+  }
 }
 
 describe('the PyTorch twin hand-over file', () => {
