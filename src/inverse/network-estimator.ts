@@ -76,7 +76,7 @@ export interface NetworkEstimatorSettings {
    * dataWeight, not the Adam/L-BFGS budgets.
    */
   strategy?: 'adam-lbfgs' | 'least-squares';
-  /** Joint LM iterations of the 'least-squares' strategy with χN free (default 100; 8 with χN held come first). */
+  /** Cycles of the 'least-squares' strategy with χN free (default 20; 2 with χN held come first): each one joint LM iteration, then the propagators' own (network-joint-fit.ts). */
   secondOrderIterations?: number;
   /** λ of the data rows of the 'least-squares' strategy (default 30). */
   dataWeight?: number;
@@ -120,16 +120,18 @@ export interface NetworkEstimate {
 }
 
 /**
- * Networks, grid and start fits of the 'least-squares' strategy (the sizes of the second-order
- * train recipe, docs/second-order-training.md; the start iterations as measured in
- * docs/inverse.md). The residual grid has 64 x points: on 32 the networks fitted the MDE at
- * the points and not between them (mean square 5.8e-4 there, 7.9e-2 on 4 × as many; on 64
- * points 5.0e-4 on both; docs/inverse.md). 16 contour steps per block, not 32: on the
- * noiseless bench case χN −2.55e-4 against −5.94e-4 and w_A − w_B 1.29e-3 against 1.77e-3, on
- * a 2 % noise profile the field 9.63e-3 against 1.29e-2, at about a sixth less CPU
- * (docs/inverse.md, "16 contour steps per block").
+ * Networks, grid, start fits and cycles of the 'least-squares' strategy (network sizes of the
+ * second-order train recipe, docs/second-order-training.md; the rest as measured in
+ * docs/inverse.md). The residual grid has 64 x points: on 32 the networks fitted the MDE at the
+ * points and not between them (mean square 5.8e-4 there, 7.9e-2 on 4 × as many; on 64 points
+ * 5.0e-4 on both). 12 contour steps per block, 10 start iterations of each propagator's MDE,
+ * then 2 cycles with χN held and `iterations` (default 20) with it free, each one joint LM
+ * iteration and 4 of each propagator on its own MDE (network-joint-fit.ts). On the noiseless
+ * bench case, started 10 % low, network seeds 1–5 ended within 5.3e-4 of the true χN in 13–14 s
+ * each here, where the joint iteration alone (100 iterations, 16 steps per block) took 29 s to
+ * −2.6e-4 on seed 1 (docs/inverse.md, "Joint and propagator iterations in cycles").
  */
-const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 64, nodesPerBlock: 16, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 3, tau: 1e-7, holdChiNIterations: 8 };
+const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 64, nodesPerBlock: 12, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 10, tau: 1e-7, holdChiNIterations: 2, propagatorIterations: 4 };
 
 function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   const L = est.period;
@@ -211,11 +213,11 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
         ...LEAST_SQUARES_RECIPE,
         chain: s.chain,
         seed,
-        iterations: s.secondOrderIterations ?? 100,
+        iterations: s.secondOrderIterations ?? 20,
         dataWeight: s.dataWeight ?? 30,
         resolution: s.resolution,
         shouldStop: stopRequested,
-        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 100), chiN),
+        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 20), chiN),
       }, start.x);
       if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
       runs.push({ seed, chiN: run.chiN, trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
@@ -317,7 +319,7 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
     `seed spread over ${values.length} run(s): it measures how far independent trainings land apart, not the statistical error of the data; read the classical profile-likelihood interval for that`,
     `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
     ...runs.flatMap((r) => (r.aliasing ? [`seed ${r.seed}: the networks' MDE mean square ${r.aliasing.onGrid.toExponential(2)} on the ${r.aliasing.nx} x points of the fit, ${r.aliasing.between.toExponential(2)} on 4 × as many (far above the first: the networks fit the MDE at the points and not between them)`] : [])),
-    ...(strategy === 'least-squares' ? ['strategy least-squares (experimental): χN fitted with the networks as one Levenberg–Marquardt problem; in the measured runs (f = 0.5, χN = 15, 64 points) it ended 0.11 % below the truth without noise from a start 10 % low, and 1.6–1.7 % below, outside the classical 95 % interval, with 2 % noise (an older recipe: 32 x points, 10–15 iterations; not measured since) (docs/inverse.md): use the classical estimate'] : []),
+    ...(strategy === 'least-squares' ? ['strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem (SCFT residuals beside the data rows, weight λ); with noisy data the penalised fit can sit apart from the classical one (measured with 2 % noise: 4 of 5 draws inside the classical 95 % interval, docs/inverse.md), so read the classical interval for the statistical error'] : []),
   ];
   return {
     chiN: mean,

@@ -73,10 +73,11 @@ export const invertConfigSchema = z
          */
         strategy: z.enum(['adam-lbfgs', 'least-squares']).default('adam-lbfgs'),
         /**
-         * Levenberg–Marquardt iterations of the 'least-squares' strategy with χN free (after 8 with χN held).
-         * 100: χN from 13.5 reached −0.059 % of a noiseless χN = 15 in 100, −0.109 % in 60 (docs/inverse.md).
+         * Cycles of the 'least-squares' strategy with χN free (after 2 with χN held), each one
+         * Levenberg–Marquardt iteration of the joint problem and 4 of each propagator on its MDE.
+         * 20: χN from 13.5 within 5.3e-4 of a noiseless χN = 15 on five network seeds (docs/inverse.md).
          */
-        secondOrderIterations: z.number().int().min(1).max(10000).default(100),
+        secondOrderIterations: z.number().int().min(1).max(10000).default(20),
         /** Weight λ of the data rows beside the SCFT residuals ('least-squares'). */
         dataWeight: positive.default(30),
         backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
