@@ -1,12 +1,13 @@
 /**
  * The least-squares network χN estimator end to end (`invert --method network` with
- * `network.strategy: "least-squares"`), too long for a test (minutes here): a noiseless
- * f = 0.5, χN = 15 profile of 64 points synthesised by the spectral reference on a finer grid
- * (128 × 200) than the estimator's (32 × 60), the classical estimate for the frame, then one
- * seed of the least-squares strategy started 10 % low (χN = 13.5). Prints χN and its relative
- * error (the issue's target: 1e-3), w_A − w_B against the self-consistent field at the true χN,
- * the networks' MDE mean square on the fit's x points and on 4 × as many (aliasing), wall and
- * CPU time. Not a test: prints figures, never fails on them.
+ * `network.strategy: "least-squares"`; tests/inverse/network-least-squares-targets.test.ts holds
+ * its targets): a noiseless f = 0.5, χN = 15 profile of 64 points synthesised by the spectral
+ * reference on a finer grid (128 × 200) than the classical fit's (32 × 60) and the estimator's
+ * (64 x points, 12 contour steps per block), the classical estimate for the frame, then one seed
+ * of the least-squares strategy started 10 % low (χN = 13.5). Prints χN and its relative error
+ * (the issue's target: 1e-3), w_A − w_B against the self-consistent field at the true χN, the
+ * networks' MDE mean square on the fit's x points and on 4 × as many (aliasing), wall and CPU
+ * time (the issue's target: 15 s per seed). Not a test: prints figures, never fails on them.
  */
 import { estimateClassical } from '../inverse/classical.js';
 import { estimateNetwork } from '../inverse/network-estimator.js';
