@@ -234,7 +234,7 @@ export function summaryText(result: InversionResult): string {
       if (assumed?.sensitivity) lines.push(`  SENSITIVITY: ${assumed.sensitivity.note}`);
     }
     lines.push(`  period ${len(e.period, e.periodNm)} (${e.periodMode}), offset ${len(e.offset, e.offsetNm)} (centre of an A-rich domain, inside the data range)`);
-    if (e.method === 'network') lines.push(`  rms residual ${e.rmsResidual.toExponential(3)} against the data; offset and period from the classical fit`);
+    if (e.method === 'network') lines.push(`  rms residual ${e.rmsResidual.toExponential(3)} against the data; ${e.p === 2 ? 'period fitted with χN, offset from the classical fit' : 'offset and period from the classical fit'}`);
     else lines.push(
       `  χ² = ${e.chi2.toPrecision(5)} for n − p = ${e.dof} (n = ${e.n}, p = ${e.p}), reduced χ² = ${e.reducedChi2.toPrecision(4)}, rms residual ${e.rmsResidual.toExponential(3)}, sigma ${e.sigma.source === 'column' ? 'from the column' : `estimated ${e.sigma.value!.toExponential(3)}`}`,
     );
@@ -266,7 +266,8 @@ export function agreementText(p: NonNullable<Agreement['pairs']>[number]): strin
 /**
  * The network estimator's block. Its interval is the seed spread (mean ± one standard
  * deviation, and ± 1.96 of them), an optimisation spread rather than a statistical interval:
- * the block says so. Offset and period are the classical ones it was given.
+ * the block says so. Offset and period are the classical ones it was given, except a period
+ * every run fitted beside χN (the least-squares strategy with a free period: their mean, p = 2).
  */
 export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: ProfileData): EstimatorBlock {
   const nm = data.units.x === 'nm' ? data.units.rgNm! : undefined;
@@ -275,6 +276,9 @@ export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: P
   // One seed has no spread: no interval at all rather than a zero-width one (NaN, written as null).
   const sd = ne.runs.length > 1 ? ne.spread : Number.NaN;
   const open = { lo: false, hi: false };
+  const fitted = ne.runs.every((r) => r.period !== undefined);
+  const period = fitted ? ne.runs.reduce((a, r) => a + r.period!, 0) / ne.runs.length : cl.period;
+  const p = fitted ? 2 : 1;
   return {
     method: 'network',
     status: 'ok',
@@ -288,16 +292,16 @@ export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: P
     intervalMethod:
       ne.runs.length > 1 ? `spread of ${ne.runs.length} seeded trainings (mean ± sd, ± 1.96 sd): an optimisation spread, not a statistical interval` : 'none: one seeded training has no spread (run 3 or more seeds)',
     offset: offsetInData(cl.offset, cl.period, data.x[0]),
-    period: cl.period,
-    ...(nm ? { offsetNm: offsetInData(cl.offset, cl.period, data.x[0]) * nm, periodNm: cl.period * nm } : {}),
+    period,
+    ...(nm ? { offsetNm: offsetInData(cl.offset, cl.period, data.x[0]) * nm, periodNm: period * nm } : {}),
     periodMode: cl.periodMode,
     chi2: Number.NaN,
     reducedChi2: Number.NaN,
     rss: rms * rms * n,
     rmsResidual: rms,
     n,
-    p: 1,
-    dof: n - 1,
+    p,
+    dof: n - p,
     sigma: cl.sigma,
     seconds: ne.seconds,
     backend: ne.backend,

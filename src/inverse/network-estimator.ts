@@ -91,7 +91,7 @@ export interface NetworkEstimatorSettings {
 }
 
 /** What the estimator reads of the classical estimate (all a worker thread is sent). */
-export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'solution'>;
+export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'solution'> & Partial<Pick<ClassicalEstimate, 'periodMode'>>;
 
 export interface NetworkRun {
   seed: number;
@@ -99,6 +99,8 @@ export interface NetworkRun {
   /** Least-squares strategy: the propagators' MDE mean square on the residual grid and between its points (network-joint-fit.ts). */
   aliasing?: { onGrid: number; between: number; nx: number };
   trajectory: { step: number; chiN: number }[];
+  /** The period this run fitted beside χN (Rg; the least-squares strategy with a free period), absent when it kept the classical one. */
+  period?: number;
   rmsResidual: number;
   /** w_A − w_B of the network on the model grid (kT). */
   exchange: Float64Array;
@@ -163,7 +165,7 @@ async function estimateInSeedWorkers(data: ProfileData, classical: ClassicalStar
   const { onProgress, seeds, workers, ...settings } = s;
   const workerData: SeedWorkerData = {
     data,
-    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, solution: portable(classical.solution) },
+    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, ...(classical.periodMode ? { periodMode: classical.periodMode } : {}), solution: portable(classical.solution) },
     settings,
   };
   try {
@@ -209,10 +211,15 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   for (const seed of s.seeds) {
     const tr0 = performance.now();
     if (s.strategy === 'least-squares') {
-      const run = jointFitSeed(tf, start, chiNStart, L, { t, phi: data.phi, sigma: data.sigma }, {
+      // A free period (the classical fit's mode "free") is a parameter of the fit too; the
+      // offset needs none: the networks translate freely, and the data rows set their phase.
+      const fitPeriod = classical.periodMode === 'free';
+      const u = Float64Array.from(data.x, (x) => x - classical.offset);
+      const run = jointFitSeed(tf, start, chiNStart, L, { t, u, phi: data.phi, sigma: data.sigma }, {
         ...LEAST_SQUARES_RECIPE,
         chain: s.chain,
         seed,
+        fitPeriod,
         iterations: s.secondOrderIterations ?? 20,
         dataWeight: s.dataWeight ?? 30,
         resolution: s.resolution,
@@ -220,7 +227,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
         onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 20), chiN),
       }, start.x);
       if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
-      runs.push({ seed, chiN: run.chiN, trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
+      runs.push({ seed, chiN: run.chiN, ...(fitPeriod ? { period: run.period } : {}), trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
       continue;
     }
     const config: TrainConfig = trainConfigSchema.parse({
@@ -317,7 +324,9 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
   const spread = values.length > 1 ? Math.sqrt(values.reduce((a, b) => a + (b - mean) ** 2, 0) / (values.length - 1)) : 0;
   const notes = [
     `seed spread over ${values.length} run(s): it measures how far independent trainings land apart, not the statistical error of the data; read the classical profile-likelihood interval for that`,
-    `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
+    runs.every((r) => r.period !== undefined)
+      ? `period fitted with χN from the classical one; the data's offset set by the networks' own phase (they translate freely), reported as the classical one; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`
+      : `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
     ...runs.flatMap((r) => (r.aliasing ? [`seed ${r.seed}: the networks' MDE mean square ${r.aliasing.onGrid.toExponential(2)} on the ${r.aliasing.nx} x points of the fit, ${r.aliasing.between.toExponential(2)} on 4 × as many (far above the first: the networks fit the MDE at the points and not between them)`] : [])),
     ...(strategy === 'least-squares' ? ['strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem (SCFT residuals beside the data rows, weight λ); with noisy data the penalised fit can sit apart from the classical one (measured with 2 % noise: 4 of 5 draws inside the classical 95 % interval, docs/inverse.md), so read the classical interval for the statistical error'] : []),
   ];

@@ -65,6 +65,12 @@ export interface JointFitSettings {
   propagatorIterations?: number;
   /** First LM damping of the joint problem, relative to max diag(JᵀJ). */
   tau?: number;
+  /**
+   * The period as a parameter beside χN (a free period: the classical fit's period mode "free"),
+   * started at the given one; otherwise held there. Needs the data's unwrapped positions
+   * (FrameData.u).
+   */
+  fitPeriod?: boolean;
   /** Gaussian resolution of the data (Rg), applied to the model before the misfit. */
   resolution: number;
   shouldStop?: () => boolean;
@@ -73,6 +79,8 @@ export interface JointFitSettings {
 
 export interface JointFitResult {
   chiN: number;
+  /** The cell length (period, Rg) of the fit: the one given unless fitPeriod. */
+  period: number;
   trajectory: { step: number; chiN: number }[];
   /** RMS of network φ_A − data at the data points. */
   rmsResidual: number;
@@ -97,7 +105,10 @@ export interface JointFitResult {
 
 /** Data positions in the model frame and the data themselves. */
 export interface FrameData {
+  /** Positions in the model frame, t = (x − x0) mod L. */
   t: Float64Array;
+  /** x − x0 unwrapped (needed with a free period: a stretched cell moves the points by their distance from x0). */
+  u?: Float64Array;
   phi: Float64Array;
   sigma?: Float64Array;
 }
@@ -157,7 +168,12 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     const tStart = (performance.now() - t0) / 1000;
     // 2. The joint problem: every parameter and χN, physics and data rows.
     const grid = new PeriodicCell(period, s.nx, 1);
-    const problem = new NetworkInverseProblem(sys, { matrix: grid.interpolationMatrix(data.t, s.resolution), phi: data.phi, sigma: data.sigma }, chiNStart, s.dataWeight);
+    // A free period: the cell stretched from `period` (L₀) to L with the networks fixed in x/L,
+    // so the data at x − x0 = u sit at u L₀/L on the residual grid, and the blur scales alike.
+    const u = data.u;
+    if (s.fitPeriod && !u) throw new Error('jointFitSeed: a free period needs the unwrapped positions (FrameData.u)');
+    const stretched = (L: number) => grid.interpolationMatrix(Float64Array.from(u!, (v) => (v * period) / L), (s.resolution * period) / L);
+    const problem = new NetworkInverseProblem(sys, { matrix: grid.interpolationMatrix(data.t, s.resolution), phi: data.phi, sigma: data.sigma, ...(s.fitPeriod ? { period: { length: period, matrixAt: stretched } } : {}) }, chiNStart, s.dataWeight);
     const x0 = problem.join(theta, chiNStart);
     const e0 = problem.evaluate(x0);
     const physicsLoss = (e: ReturnType<typeof problem.evaluate>) => {
@@ -202,7 +218,7 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
       if (own <= 0 || interrupted || c === cycles) continue;
       const cur = problem.split(x);
       let th: Float64Array = Float64Array.from(cur.theta);
-      sys.chiN = cur.chiN;
+      problem.applyState(x);
       for (const side of sides) {
         const part = sys.partProblem(th, side);
         const mu0 = muOwn.get(side);
@@ -214,20 +230,24 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
         if (Number.isFinite(rs.mu)) muOwn.set(side, Math.min(rs.mu, mu0 ?? rs.mu));
         th = part.embed(rs.x);
       }
-      x = problem.join(th, cur.chiN);
+      x = problem.join(th, cur.chiN, cur.length);
     }
     const r = { x, iterations: done, reason };
-    const { theta: thetaEnd, chiN } = problem.split(r.x);
+    const { theta: thetaEnd, chiN, length } = problem.split(r.x);
     const eEnd = problem.evaluate(r.x);
-    sys.chiN = chiN;
+    problem.applyState(r.x);
+    const L = s.fitPeriod ? length : period;
     const state = sys.state(thetaEnd);
     nets.parameters.unflatten(thetaEnd);
     const fine = new ScftResidualSystem(nets, { chain: s.chain, chiN }, { nx: ALIAS_CHECK * s.nx, nodesPerBlock: s.nodesPerBlock }, config.losses.weights);
+    fine.lengthFactor = sys.lengthFactor;
     // w_A − w_B on the requested grid: the band-limited interpolant of the residual grid's values.
     const ex = Float64Array.from(state.w.A, (a, j) => a - state.w.B[j]);
-    const exchange = grid.interpolate(ex, exchangeGrid);
+    // (With a free period the cell is stretched to L: the value at t is the grid's at t L₀/L.)
+    const exchange = grid.interpolate(ex, L === period ? exchangeGrid : Float64Array.from(exchangeGrid, (t) => (t * period) / L));
     return {
       chiN,
+      period: L,
       trajectory,
       rmsResidual: Math.sqrt(eEnd.misfit),
       exchange,

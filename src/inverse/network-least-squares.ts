@@ -25,7 +25,7 @@
  *
  * Units: x in Rg, s ∈ [0, 1], w and χN in kT per chain; φ dimensionless.
  */
-import { groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
+import { groupedGradient, groupedNormalEquations } from '../numerics/grouped-normal-equations.js';
 import type { ResidualGroup } from '../numerics/grouped-normal-equations.js';
 import type { LeastSquaresProblem, NormalLinearisation } from '../numerics/levenberg-marquardt.js';
 import type { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
@@ -34,6 +34,12 @@ import type { LossValues } from '../network/losses/terms.js';
 export interface DataRows {
   /** Interpolation matrix from the residual grid to the data points, row-major [j · n + i]. */
   matrix: Float64Array;
+  /**
+   * When given, the cell length L is a parameter too (a free period): `matrixAt(L)` is the
+   * matrix with the cell stretched from the residual system's length `length` (L₀) to L, the
+   * networks unchanged in x/L (`matrix` is the one at L₀).
+   */
+  period?: { length: number; matrixAt: (L: number) => Float64Array };
   /** Measured φ_A at the data points. */
   phi: Float64Array;
   /** Per-point standard deviations, or undefined for unit weights. */
@@ -55,8 +61,12 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
   private readonly n: number;
   private readonly rowScale: Float64Array;
   private readonly scaleFixed: number;
-  /** When set, χN is held: its column is zero, so the step leaves it where it is. */
+  /** When set, χN (and a free period) are held: their columns are zero, so the step leaves them where they are. */
   holdChiN = false;
+  /** Column of χN (the last) and whether L is a parameter (the column before it). */
+  private readonly chiNColumn: number;
+  private readonly periodFree: boolean;
+  private lastMatrix: { L: number; M: Float64Array } | null = null;
 
   constructor(
     private readonly sys: ScftResidualSystem,
@@ -65,7 +75,9 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     readonly dataWeight: number,
   ) {
     this.n = data.phi.length;
-    this.size = sys.size + 1;
+    this.periodFree = data.period !== undefined;
+    this.size = sys.size + (this.periodFree ? 2 : 1);
+    this.chiNColumn = this.size - 1;
     const sig = data.sigma ?? new Float64Array(this.n).fill(1);
     let meanInvVar = 0;
     for (const v of sig) meanInvVar += 1 / (v * v);
@@ -75,21 +87,40 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     if (data.matrix.length !== sys.nx * this.n) throw new RangeError(`data matrix has ${data.matrix.length} entries, expected ${sys.nx}·${this.n}`);
   }
 
-  /** The interpolation matrix of the data rows. */
-  get matrix(): Float64Array {
-    return this.data.matrix;
+  /** The interpolation matrix of the data rows at cell length L (the last one asked is kept). */
+  private matrixFor(L: number): Float64Array {
+    const per = this.data.period;
+    if (!per || L === per.length) return this.data.matrix;
+    if (this.lastMatrix?.L !== L) this.lastMatrix = { L, M: per.matrixAt(L) };
+    return this.lastMatrix.M;
   }
 
-  /** θ and χN of a parameter vector. */
-  split(x: Float64Array): { theta: Float64Array; chiN: number } {
-    return { theta: x.subarray(0, this.sys.size), chiN: x[this.sys.size] };
+  /** θ, χN and the cell length (L₀ when the period is not a parameter) of a parameter vector. */
+  split(x: Float64Array): { theta: Float64Array; chiN: number; length: number } {
+    return { theta: x.subarray(0, this.sys.size), chiN: x[this.chiNColumn], length: this.data.period ? x[this.sys.size] : Number.NaN };
   }
 
-  join(theta: Float64Array, chiN: number): Float64Array {
+  /** The parameter vector of θ, χN and (with a free period) the cell length L. */
+  join(theta: Float64Array, chiN: number, length?: number): Float64Array {
     const x = new Float64Array(this.size);
     x.set(theta);
-    x[this.sys.size] = chiN;
+    if (this.data.period) x[this.sys.size] = length ?? this.data.period.length;
+    x[this.chiNColumn] = chiN;
     return x;
+  }
+
+  /** Puts χN and the cell length of x into the residual system (before it is used on its own). */
+  applyState(x: Float64Array): void {
+    const { chiN, length } = this.split(x);
+    this.setState(chiN, length);
+  }
+
+  /** Puts χN and the cell length into the residual system; the data matrix at that length. */
+  private setState(chiN: number, length: number): Float64Array {
+    this.sys.chiN = chiN;
+    const per = this.data.period;
+    this.sys.lengthFactor = per ? (per.length / length) ** 2 : 1;
+    return this.matrixFor(per ? length : Number.NaN);
   }
 
   /** Factor that takes the residual system's self-consistency/gauge rows to the fixed scale. */
@@ -98,18 +129,18 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
   }
 
   evaluate(x: Float64Array): InverseEvaluation {
-    const { theta, chiN } = this.split(x);
-    this.sys.chiN = chiN;
+    const { theta, chiN, length } = this.split(x);
+    const M = this.setState(chiN, length);
     const e = this.sys.evaluate(theta, false);
-    return this.withData(e.cost, e.terms, e.density!.phi.A, chiN);
+    return this.withData(e.cost, e.terms, e.density!.phi.A, chiN, M);
   }
 
-  private withData(sysCost: number, terms: LossValues, phiA: Float64Array, chiN: number): InverseEvaluation {
+  private withData(sysCost: number, terms: LossValues, phiA: Float64Array, chiN: number, M: Float64Array): InverseEvaluation {
     const W = this.sys.weights;
     const rho2 = this.rescale(chiN) ** 2;
     const fixedTerms = { ...terms, selfConsistency: terms.selfConsistency * rho2, gauge: terms.gauge * rho2 };
     let cost = sysCost + 0.5 * (W.selfConsistency * terms.selfConsistency + W.gauge * terms.gauge) * (rho2 - 1);
-    const fit = this.fitAt(phiA);
+    const fit = this.fitAt(phiA, M);
     let misfit = 0;
     for (let i = 0; i < this.n; i++) {
       const d = fit[i] - this.data.phi[i];
@@ -119,9 +150,8 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     return { cost, terms: fixedTerms, misfit: misfit / this.n, fit };
   }
 
-  private fitAt(phiA: Float64Array): Float64Array {
+  private fitAt(phiA: Float64Array, M: Float64Array): Float64Array {
     const n = this.n;
-    const M = this.data.matrix;
     const fit = new Float64Array(n);
     for (let j = 0; j < phiA.length; j++) {
       const p = phiA[j];
@@ -136,16 +166,16 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
   }
 
   linearise(x: Float64Array): NormalLinearisation {
-    const { theta, chiN } = this.split(x);
+    const { theta, chiN, length } = this.split(x);
     const sys = this.sys;
-    sys.chiN = chiN;
+    const M = this.setState(chiN, length);
     const e = sys.evaluate(theta, true);
     const density = e.density;
     if (!density?.dphi) throw new Error('network inverse: the networks need a field network and two species');
     const groups = e.groups!;
     const nx = sys.nx;
     const p = sys.size;
-    const cols = p + 1;
+    const cols = this.size;
     // The field-equation group (nx incompressibility rows, nx self-consistency rows, the gauge):
     // the last group, over every column; rebuilt with the χN column and the fixed scale.
     const fe = groups[groups.length - 1];
@@ -163,14 +193,13 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
       for (let a = 0; a < p; a++) dst[a] = f * src[a];
       if (i >= nx && i < 2 * nx && !this.holdChiN) {
         const j = i - nx;
-        J[i * cols + p] = -scScale * (density.phi.B[j] - density.phi.A[j]);
+        J[i * cols + this.chiNColumn] = -scScale * (density.phi.B[j] - density.phi.A[j]);
       }
     }
     const all = Int32Array.from({ length: cols }, (_, i) => i);
     // Data rows: r_i = s_i (Σ_j M_ji φ_A(x_j) − φ_i); ∂/∂θ through dφ_A(x_j)/dθ; no χN column.
     const n = this.n;
-    const M = this.data.matrix;
-    const fit = this.fitAt(density.phi.A);
+    const fit = this.fitAt(density.phi.A, M);
     const Jd = new Float64Array(n * cols);
     const rd = new Float64Array(n);
     for (let i = 0; i < n; i++) rd[i] = this.rowScale[i] * (fit[i] - this.data.phi[i]);
@@ -184,9 +213,37 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
         for (let a = 0; a < p; a++) row[a] += c * d[a];
       }
     }
-    const all2: ResidualGroup[] = [...groups.slice(0, -1), { columns: all, J, r }, { columns: all, J: Jd, r: rd }];
+    const mde = groups.slice(0, -1);
+    const per = this.data.period;
+    const lengthFree = per !== undefined && !this.holdChiN;
+    if (lengthFree) {
+      // The length column of the data rows: ∂/∂L of the stretched interpolant, by central
+      // differences (a trigonometric polynomial: with h = 1e-6 L the error is round-off, about
+      // 1e-10 relative).
+      const h = 1e-6 * length;
+      const up = this.fitAt(density.phi.A, per.matrixAt(length + h));
+      const down = this.fitAt(density.phi.A, per.matrixAt(length - h));
+      for (let i = 0; i < n; i++) Jd[i * cols + p] = (this.rowScale[i] * (up[i] - down[i])) / (2 * h);
+    }
+    const all2: ResidualGroup[] = [...mde, { columns: all, J, r }, { columns: all, J: Jd, r: rd }];
     const { A, g } = groupedNormalEquations(cols, all2);
-    const cost = this.withData(e.cost, e.terms, density.phi.A, chiN).cost;
+    if (lengthFree) {
+      // The length column of the MDE rows, added to the normal equations as its products (the
+      // groups keep their columns, so their kernels stay as they are): with u fixed in x/L,
+      // r = u_s − D (L₀/L)² (u_xx + u_x²) + w, so ∂r/∂L = (2/L) · D (L₀/L)² (u_xx + u_x²), the
+      // diffusion term as the row holds it. Row L of A gets Jᵀd over the θ columns and d·d; g_L d·r.
+      const d = e.diffusionRows!.map((rows) => Float64Array.from(rows, (v) => (2 / length) * v));
+      const cross = groupedGradient(cols, mde, d);
+      for (let c = 0; c < p; c++) A[p * cols + c] += cross[c];
+      mde.forEach((grp, k) => {
+        for (let i = 0; i < grp.r.length; i++) {
+          A[p * cols + p] += d[k][i] * d[k][i];
+          g[p] += d[k][i] * grp.r[i];
+        }
+      });
+    }
+    const cost = this.withData(e.cost, e.terms, density.phi.A, chiN, M).cost;
     return { kind: 'normal', cost, A, g };
   }
 }
+

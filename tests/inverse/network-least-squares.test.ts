@@ -49,6 +49,39 @@ describe('network inverse least-squares problem', () => {
     nets.dispose();
   });
 
+  it('with the period free: the length column matches finite differences of the cost', async () => {
+    const { nets, sys } = await smallSystem();
+    const t = Float64Array.from({ length: 11 }, (_, i) => 0.13 + 0.35 * i);
+    const phi = Float64Array.from(t, (x) => 0.5 + 0.3 * Math.cos((2 * Math.PI * x) / 4.1));
+    const grid = new PeriodicCell(4, 8, 1);
+    const matrixAt = (L: number) => grid.interpolationMatrix(Float64Array.from(t, (v) => (v * 4) / L), (0.1 * 4) / L);
+    const problem = new NetworkInverseProblem(sys, { matrix: matrixAt(4), phi, period: { length: 4, matrixAt } }, 14, 5);
+    const x = problem.join(nets.parameters.flatten(), 15.5, 4.2);
+    expect(problem.split(x)).toMatchObject({ chiN: 15.5, length: 4.2 });
+    const lin = problem.linearise(x);
+    expect(lin.cost).toBeCloseTo(problem.cost(x), 12);
+    let scale = 0;
+    for (const v of lin.g) scale = Math.max(scale, Math.abs(v));
+    const n = problem.size;
+    for (const a of [3, 60, n - 2, n - 1]) {
+      const h = 1e-6;
+      const xp = Float64Array.from(x);
+      xp[a] += h;
+      const xm = Float64Array.from(x);
+      xm[a] -= h;
+      const fd = (problem.cost(xp) - problem.cost(xm)) / (2 * h);
+      expect(Math.abs(fd - lin.g[a])).toBeLessThan(1e-6 * scale + 1e-8);
+    }
+    // The length column is exercised: the cost depends on L (the MDE rows and the data rows).
+    expect(Math.abs(lin.g[n - 2])).toBeGreaterThan(1e-6);
+    // Held, its column (and χN's) is zero.
+    problem.holdChiN = true;
+    const held = problem.linearise(x);
+    expect(held.g[n - 2]).toBe(0);
+    expect(held.g[n - 1]).toBe(0);
+    nets.dispose();
+  });
+
   it('the propagator value fit: Jacobian against central differences of its residuals', async () => {
     const { nets, sys } = await smallSystem();
     const theta = nets.parameters.flatten();

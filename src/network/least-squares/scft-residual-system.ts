@@ -89,6 +89,12 @@ export interface ResidualEvaluation {
   terms: LossValues;
   groups?: ResidualGroup[];
   /**
+   * With the Jacobian: for each MDE group (the first groups, in order), each row's diffusion
+   * term as scaled in the row, mdeScale · D · lengthFactor · (u_xx + u_x²): the row's
+   * derivative with respect to the cell length L is 2/L times it.
+   */
+  diffusionRows?: Float64Array[];
+  /**
    * With the field network and part 'all': φ and w on the grid, and with the Jacobian the
    * tangent dφ_K(x_j)/dθ over all columns (for data rows added beside these residuals).
    */
@@ -126,6 +132,13 @@ export class ScftResidualSystem {
   private readonly surfaceField: Float64Array | null;
   /** χN of the self-consistency equation; the inverse problem (inverse/network-least-squares.ts) moves it between evaluations. */
   chiN: number;
+  /**
+   * (L₀/L)²: the cell stretched from the length it was built with, L₀, to L with the networks
+   * unchanged as functions of x/L (their inputs are periodic features of x/L, so on the grid
+   * x_j = j L/nx they see the same values): ∂x scales by L₀/L, so the MDE's diffusion term by
+   * this factor. The inverse problem with a free period moves it; 1 otherwise.
+   */
+  lengthFactor = 1;
   private readonly mdePoints: number;
 
   constructor(
@@ -378,12 +391,14 @@ export class ScftResidualSystem {
     let mdeSum = 0;
     const logQ: Float64Array[][] = [];
     const valueRows: (Float64Array[] | null)[] = [];
+    const diffusionRows: Float64Array[] = [];
     for (const [si, side] of this.sides.entries()) {
       const withMde = part === 'all' ? si === 0 || !this.shared : part === side.name;
       if (part !== 'all' && !withMde) continue;
       const out = this.sideResiduals(theta, side, part === 'all' ? field : field && { w: field.w, dw: null }, withMde, jacobian, mdeScale, part === 'all' && field !== null);
       mdeSum += out.sumSq;
       groups.push(...out.groups);
+      diffusionRows.push(...out.diffusion);
       logQ.push(out.u);
       valueRows.push(out.valueRows);
     }
@@ -394,9 +409,9 @@ export class ScftResidualSystem {
       Object.assign(terms, fe.terms);
       sumSq += fe.weightedSum;
       if (fe.group) groups.push(fe.group);
-      return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups } : {}), density: { phi: fe.phi, w: field.w, dphi: fe.dphi } };
+      return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups, diffusionRows } : {}), density: { phi: fe.phi, w: field.w, dphi: fe.dphi } };
     }
-    return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups } : {}) };
+    return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups, diffusionRows } : {}) };
   }
 
   /** w_A, w_B at the grid and (with the Jacobian) ∂w_c(x_j)/∂θ over the field network's columns. */
@@ -445,9 +460,10 @@ export class ScftResidualSystem {
   private readonly valueCache = new Map<Side, { key: Float64Array; out: ReturnType<ScftResidualSystem['computeSide']> }>();
 
   private cacheKey(theta: Float64Array, side: Side): Float64Array {
-    const key = new Float64Array(side.count + this.fieldCount);
+    const key = new Float64Array(side.count + this.fieldCount + 1);
     key.set(theta.subarray(side.first, side.first + side.count));
     if (this.fieldCount > 0) key.set(theta.subarray(this.fieldFirst, this.fieldFirst + this.fieldCount), side.count);
+    key[key.length - 1] = this.lengthFactor;
     return key;
   }
 
@@ -499,6 +515,7 @@ export class ScftResidualSystem {
     const valueRows = valueStore ? Array.from({ length: (ns + 1) * nx }, (_, r) => valueStore.subarray(r * side.count, (r + 1) * side.count)) : null;
     const groups: ResidualGroup[] = [];
     const blockResiduals: Float64Array[] = [];
+    const diffusion: Float64Array[] = [];
     let sumSq = 0;
     const row = new Float64Array(this.size);
     const speciesChannel = (b: number) => (side.chain.blocks[b].species === 'A' ? 0 : 1);
@@ -506,7 +523,7 @@ export class ScftResidualSystem {
       const cb = side.contour.blocks[b];
       const p = side.pieceOfBlock[b];
       const piece = P[p];
-      const D = block.diffusivity;
+      const D = block.diffusivity * this.lengthFactor;
       const rows = (cb.steps + 1) * nx;
       const sideCols = side.upTo[p];
       const fieldCols = field?.dw ? this.fieldCount : 0;
@@ -548,6 +565,8 @@ export class ScftResidualSystem {
       }
       const r = new Float64Array(withMde ? rows : 0);
       blockResiduals.push(r);
+      const dRows = jacobian && withMde ? new Float64Array(rows) : null;
+      if (dRows) diffusion.push(dRows);
       for (let i = 0; i <= cb.steps; i++) {
         const node = cb.offset + i;
         const s = side.contour.s[node];
@@ -569,6 +588,7 @@ export class ScftResidualSystem {
           u[node][j] = uv;
           const w = field ? field.w[speciesChannel(b)][j] : side.prescribed![b][j];
           const res = us - D * (uxx + ux * ux) + w;
+          if (dRows) dRows[i * nx + j] = mdeScale * D * (uxx + ux * ux);
           const rIndex = i * nx + j;
           if (withMde) {
             r[rIndex] = mdeScale * res;
@@ -612,7 +632,7 @@ export class ScftResidualSystem {
         groups.push({ columns, J, r, ...(factored ? { factored } : {}) });
       }
     });
-    return { u, valueRows, groups, sumSq, blockResiduals };
+    return { u, valueRows, groups, sumSq, blockResiduals, diffusion };
   }
 
   private fieldEquations(field: { w: Float64Array[]; dw: Float64Array[][] | null }, logQ: Float64Array[][], valueRows: (Float64Array[] | null)[], jacobian: boolean) {
