@@ -6,7 +6,7 @@
  */
 import { truthText } from './truth-comparison.js';
 import type { TruthComparison } from './truth-comparison.js';
-import type { NetworkEstimate } from './network-estimator.js';
+import type { NetworkEstimate, NetworkRun } from './network-estimator.js';
 import type { Provenance } from '../io/versions.js';
 import { INVERSION_VERSION, inversionResultSchema } from '../io/formats/inversion.js';
 import { formatText } from '../io/formats/file-format.js';
@@ -234,7 +234,7 @@ export function summaryText(result: InversionResult): string {
       if (assumed?.sensitivity) lines.push(`  SENSITIVITY: ${assumed.sensitivity.note}`);
     }
     lines.push(`  period ${len(e.period, e.periodNm)} (${e.periodMode}), offset ${len(e.offset, e.offsetNm)} (centre of an A-rich domain, inside the data range)`);
-    if (e.method === 'network') lines.push(`  rms residual ${e.rmsResidual.toExponential(3)} against the data; ${e.p === 2 ? 'period fitted with χN, offset from the classical fit' : 'offset and period from the classical fit'}`);
+    if (e.method === 'network') lines.push(`  rms residual ${e.rmsResidual.toExponential(3)} against the data; ${e.p === 3 ? 'offset and period fitted with χN' : e.p === 2 ? 'offset fitted with χN, period from the classical fit' : 'offset and period from the classical fit'}`);
     else lines.push(
       `  χ² = ${e.chi2.toPrecision(5)} for n − p = ${e.dof} (n = ${e.n}, p = ${e.p}), reduced χ² = ${e.reducedChi2.toPrecision(4)}, rms residual ${e.rmsResidual.toExponential(3)}, sigma ${e.sigma.source === 'column' ? 'from the column' : `estimated ${e.sigma.value!.toExponential(3)}`}`,
     );
@@ -266,8 +266,8 @@ export function agreementText(p: NonNullable<Agreement['pairs']>[number]): strin
 /**
  * The network estimator's block. Its interval is the seed spread (mean ± one standard
  * deviation, and ± 1.96 of them), an optimisation spread rather than a statistical interval:
- * the block says so. Offset and period are the classical ones it was given, except a period
- * every run fitted beside χN (the least-squares strategy with a free period: their mean, p = 2).
+ * the block says so. Offset and period are the classical ones it was given, except those every
+ * run fitted beside χN (the least-squares strategy: the offset, and a free period; their means).
  */
 export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: ProfileData): EstimatorBlock {
   const nm = data.units.x === 'nm' ? data.units.rgNm! : undefined;
@@ -276,9 +276,12 @@ export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: P
   // One seed has no spread: no interval at all rather than a zero-width one (NaN, written as null).
   const sd = ne.runs.length > 1 ? ne.spread : Number.NaN;
   const open = { lo: false, hi: false };
-  const fitted = ne.runs.every((r) => r.period !== undefined);
-  const period = fitted ? ne.runs.reduce((a, r) => a + r.period!, 0) / ne.runs.length : cl.period;
-  const p = fitted ? 2 : 1;
+  const mean = (v: (r: NetworkRun) => number | undefined) => (ne.runs.every((r) => v(r) !== undefined) ? ne.runs.reduce((a, r) => a + v(r)!, 0) / ne.runs.length : undefined);
+  const period = mean((r) => r.period) ?? cl.period;
+  const fittedOffset = mean((r) => r.offset);
+  const offset = offsetInData(fittedOffset ?? cl.offset, period, data.x[0]);
+  // Fitted parameters: χN, then the offset and the period where the runs fitted them.
+  const p = 1 + (fittedOffset !== undefined ? 1 : 0) + (ne.runs.every((r) => r.period !== undefined) ? 1 : 0);
   return {
     method: 'network',
     status: 'ok',
@@ -291,9 +294,9 @@ export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: P
     },
     intervalMethod:
       ne.runs.length > 1 ? `spread of ${ne.runs.length} seeded trainings (mean ± sd, ± 1.96 sd): an optimisation spread, not a statistical interval` : 'none: one seeded training has no spread (run 3 or more seeds)',
-    offset: offsetInData(cl.offset, cl.period, data.x[0]),
+    offset,
     period,
-    ...(nm ? { offsetNm: offsetInData(cl.offset, cl.period, data.x[0]) * nm, periodNm: period * nm } : {}),
+    ...(nm ? { offsetNm: offset * nm, periodNm: period * nm } : {}),
     periodMode: cl.periodMode,
     chi2: Number.NaN,
     reducedChi2: Number.NaN,

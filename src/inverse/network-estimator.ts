@@ -101,6 +101,8 @@ export interface NetworkRun {
   trajectory: { step: number; chiN: number }[];
   /** The period this run fitted beside χN (Rg; the least-squares strategy with a free period), absent when it kept the classical one. */
   period?: number;
+  /** The data's offset this run's networks settled on (Rg; the least-squares strategy), absent when it kept the classical one. */
+  offset?: number;
   rmsResidual: number;
   /** w_A − w_B of the network on the model grid (kT). */
   exchange: Float64Array;
@@ -227,7 +229,7 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
         onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 20), chiN),
       }, start.x);
       if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
-      runs.push({ seed, chiN: run.chiN, ...(fitPeriod ? { period: run.period } : {}), trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
+      runs.push({ seed, chiN: run.chiN, offset: classical.offset + run.shift, ...(fitPeriod ? { period: run.period } : {}), trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
       continue;
     }
     const config: TrainConfig = trainConfigSchema.parse({
@@ -324,8 +326,8 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
   const spread = values.length > 1 ? Math.sqrt(values.reduce((a, b) => a + (b - mean) ** 2, 0) / (values.length - 1)) : 0;
   const notes = [
     `seed spread over ${values.length} run(s): it measures how far independent trainings land apart, not the statistical error of the data; read the classical profile-likelihood interval for that`,
-    runs.every((r) => r.period !== undefined)
-      ? `period fitted with χN from the classical one; the data's offset set by the networks' own phase (they translate freely), reported as the classical one; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`
+    runs.every((r) => r.offset !== undefined)
+      ? `offset${runs.every((r) => r.period !== undefined) ? ' and period' : ''} fitted with χN (started at the classical ${runs.every((r) => r.period !== undefined) ? 'ones' : 'offset, the period held at the classical one'}; the offset is where the networks put the A-rich domain, since they translate freely and the data rows set their phase); networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`
       : `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
     ...runs.flatMap((r) => (r.aliasing ? [`seed ${r.seed}: the networks' MDE mean square ${r.aliasing.onGrid.toExponential(2)} on the ${r.aliasing.nx} x points of the fit, ${r.aliasing.between.toExponential(2)} on 4 × as many (far above the first: the networks fit the MDE at the points and not between them)`] : [])),
     ...(strategy === 'least-squares' ? ['strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem (SCFT residuals beside the data rows, weight λ); with noisy data the penalised fit can sit apart from the classical one (measured with 2 % noise: 4 of 5 draws inside the classical 95 % interval, docs/inverse.md), so read the classical interval for the statistical error'] : []),

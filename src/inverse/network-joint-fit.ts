@@ -81,10 +81,16 @@ export interface JointFitResult {
   chiN: number;
   /** The cell length (period, Rg) of the fit: the one given unless fitPeriod. */
   period: number;
+  /**
+   * Where the networks put the A-rich domain's centre, in the start's frame (Rg): the phase of
+   * φ_A's first Fourier mode. The networks translate freely, so the data rows set it: the offset
+   * of the data is the start's plus this.
+   */
+  shift: number;
   trajectory: { step: number; chiN: number }[];
   /** RMS of network φ_A − data at the data points. */
   rmsResidual: number;
-  /** w_A − w_B of the network on `exchangeGrid` (kT). */
+  /** w_A − w_B of the network on `exchangeGrid` (kT), with its A-rich domain centred at 0. */
   exchange: Float64Array;
   /** SCFT loss (Σ r² of the physics rows) at the start of the joint problem and at its end. */
   lossStart: number;
@@ -243,11 +249,15 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     fine.lengthFactor = sys.lengthFactor;
     // w_A − w_B on the requested grid: the band-limited interpolant of the residual grid's values.
     const ex = Float64Array.from(state.w.A, (a, j) => a - state.w.B[j]);
-    // (With a free period the cell is stretched to L: the value at t is the grid's at t L₀/L.)
-    const exchange = grid.interpolate(ex, L === period ? exchangeGrid : Float64Array.from(exchangeGrid, (t) => (t * period) / L));
+    // Read with the networks' own A-rich domain centre (shift) at t = 0, as the classical model
+    // places its own; with a free period the cell is stretched to L, so the value at t is the
+    // grid's at t L₀/L.
+    const shift = domainCentre(state.phi.A, L);
+    const exchange = grid.interpolate(ex, Float64Array.from(exchangeGrid, (t) => ((t + shift) * period) / L));
     return {
       chiN,
       period: L,
+      shift,
       trajectory,
       rmsResidual: Math.sqrt(eEnd.misfit),
       exchange,
@@ -263,6 +273,23 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
   } finally {
     nets.dispose();
   }
+}
+
+/**
+ * The centre of the A-rich domain of a one-period φ_A on a uniform grid of a cell of length L, in
+ * (−L/2, L/2]: the phase of its first Fourier mode, a₁ cos(k(x − c)) (a lamella's profile is even
+ * about its domain centres; common practice, no source).
+ */
+function domainCentre(phiA: Float64Array, L: number): number {
+  let a = 0;
+  let b = 0;
+  const n = phiA.length;
+  for (let j = 0; j < n; j++) {
+    const angle = (2 * Math.PI * j) / n;
+    a += phiA[j] * Math.cos(angle);
+    b += phiA[j] * Math.sin(angle);
+  }
+  return (Math.atan2(b, a) / (2 * Math.PI)) * L;
 }
 
 /**
