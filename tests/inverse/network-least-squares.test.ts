@@ -21,6 +21,24 @@ async function smallSystem() {
   return { nets, sys };
 }
 
+/** The gradient Jᵀr of `linearise` against central differences of the cost, at the given columns. */
+function expectGradientMatches(problem: NetworkInverseProblem, x: Float64Array, columns: number[], step: (a: number) => number): Float64Array {
+  const lin = problem.linearise(x);
+  expect(lin.cost).toBeCloseTo(problem.cost(x), 12);
+  let scale = 0;
+  for (const v of lin.g) scale = Math.max(scale, Math.abs(v));
+  for (const a of columns) {
+    const h = step(a);
+    const xp = Float64Array.from(x);
+    xp[a] += h;
+    const xm = Float64Array.from(x);
+    xm[a] -= h;
+    const fd = (problem.cost(xp) - problem.cost(xm)) / (2 * h);
+    expect(Math.abs(fd - lin.g[a])).toBeLessThan(1e-6 * scale + 1e-8);
+  }
+  return lin.g;
+}
+
 describe('network inverse least-squares problem', () => {
   it('the gradient (χN column and data rows included) matches finite differences of the cost', async () => {
     const { nets, sys } = await smallSystem();
@@ -30,22 +48,10 @@ describe('network inverse least-squares problem', () => {
     const grid = new PeriodicCell(4, 8, 1);
     const problem = new NetworkInverseProblem(sys, { matrix: grid.interpolationMatrix(t, 0.1), phi, sigma }, 14, 5);
     const x = problem.join(nets.parameters.flatten(), 15.5);
-    const lin = problem.linearise(x);
-    expect(lin.cost).toBeCloseTo(problem.cost(x), 12);
     const n = problem.size;
-    let scale = 0;
-    for (const v of lin.g) scale = Math.max(scale, Math.abs(v));
-    for (const a of [0, 5, 40, 77, n - 30, n - 2, n - 1]) {
-      const h = 1e-6 * Math.max(1, Math.abs(x[a]));
-      const xp = Float64Array.from(x);
-      xp[a] += h;
-      const xm = Float64Array.from(x);
-      xm[a] -= h;
-      const fd = (problem.cost(xp) - problem.cost(xm)) / (2 * h);
-      expect(Math.abs(fd - lin.g[a])).toBeLessThan(1e-6 * scale + 1e-8);
-    }
+    const g = expectGradientMatches(problem, x, [0, 5, 40, 77, n - 30, n - 2, n - 1], (a) => 1e-6 * Math.max(1, Math.abs(x[a])));
     // The χN column is really exercised: the cost depends on χN.
-    expect(Math.abs(lin.g[n - 1])).toBeGreaterThan(1e-6);
+    expect(Math.abs(g[n - 1])).toBeGreaterThan(1e-6);
     nets.dispose();
   });
 
@@ -58,22 +64,10 @@ describe('network inverse least-squares problem', () => {
     const problem = new NetworkInverseProblem(sys, { matrix: matrixAt(4), phi, period: { length: 4, matrixAt } }, 14, 5);
     const x = problem.join(nets.parameters.flatten(), 15.5, 4.2);
     expect(problem.split(x)).toMatchObject({ chiN: 15.5, length: 4.2 });
-    const lin = problem.linearise(x);
-    expect(lin.cost).toBeCloseTo(problem.cost(x), 12);
-    let scale = 0;
-    for (const v of lin.g) scale = Math.max(scale, Math.abs(v));
     const n = problem.size;
-    for (const a of [3, 60, n - 2, n - 1]) {
-      const h = 1e-6;
-      const xp = Float64Array.from(x);
-      xp[a] += h;
-      const xm = Float64Array.from(x);
-      xm[a] -= h;
-      const fd = (problem.cost(xp) - problem.cost(xm)) / (2 * h);
-      expect(Math.abs(fd - lin.g[a])).toBeLessThan(1e-6 * scale + 1e-8);
-    }
+    const g = expectGradientMatches(problem, x, [3, 60, n - 2, n - 1], () => 1e-6);
     // The length column is exercised: the cost depends on L (the MDE rows and the data rows).
-    expect(Math.abs(lin.g[n - 2])).toBeGreaterThan(1e-6);
+    expect(Math.abs(g[n - 2])).toBeGreaterThan(1e-6);
     // Held, its column (and χN's) is zero.
     problem.holdChiN = true;
     const held = problem.linearise(x);
