@@ -19,6 +19,10 @@
  * approaches the constrained least-squares fit of the data by SCFT (the classical
  * estimator's χ² minimum) with the network as the propagator solver.
  *
+ * With a free period the cell length L is one more parameter (DataRows.period): the networks
+ * stay fixed as functions of x/L, so the MDE's diffusion term scales by (L₀/L)² and the data
+ * rows read a stretched interpolant.
+ *
  * Solved by Levenberg–Marquardt (numerics/levenberg-marquardt.ts) on the normal equations
  * assembled per row group (numerics/grouped-normal-equations.ts); the χN column is one
  * more column of the field-equation group.
@@ -120,7 +124,7 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     this.sys.chiN = chiN;
     const per = this.data.period;
     this.sys.lengthFactor = per ? (per.length / length) ** 2 : 1;
-    return this.matrixFor(per ? length : Number.NaN);
+    return this.matrixFor(length);
   }
 
   /** Factor that takes the residual system's self-consistency/gauge rows to the fixed scale. */
@@ -246,4 +250,3 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     return { kind: 'normal', cost, A, g };
   }
 }
-
