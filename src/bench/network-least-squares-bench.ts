@@ -1,7 +1,7 @@
 /**
  * The least-squares network χN estimator end to end (`invert --method network` with
- * `network.strategy: "least-squares"`; tests/inverse/network-least-squares-targets.test.ts holds
- * its targets): a noiseless f = 0.5, χN = 15 profile of 64 points synthesised by the spectral
+ * `network.strategy: "least-squares"`; the tests
+ * tests/inverse/network-least-squares-{noiseless,noise,period}.test.ts hold its targets): a noiseless f = 0.5, χN = 15 profile of 64 points synthesised by the spectral
  * reference on a finer grid (128 × 200) than the classical fit's (32 × 60) and the estimator's
  * (64 x points, 12 contour steps per block), the classical estimate for the frame, then one seed
  * of the least-squares strategy started 10 % low (χN = 13.5). Prints χN and its relative error
