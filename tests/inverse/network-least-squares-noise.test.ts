@@ -17,8 +17,10 @@ describe('least-squares network estimator: 2 % noise', () => {
     const cl = invert(data, { chain });
     // Not every noise draw: of noise seeds 1–5 (network seed 1, sigma column), measured in
     // docs/inverse.md, four ended inside the classical 95 % interval; seed 5 ended at 15.095, just
-    // below the classical [15.104, 15.626] (which misses the truth 15 itself on that draw). This
-    // draw is seed 1 (measured 15.006; classical 15.012, 95 % [14.778, 15.257]).
+    // below the classical [15.104, 15.626] (which misses the truth 15 itself on that draw), and the
+    // demo's own draw at 14.803, below its [14.912, 15.213]. This draw is seed 1 (measured 15.006;
+    // classical 15.012, 95 % [14.778, 15.257]): the check holds the plumbing and this draw's
+    // figure, not the estimator's coverage.
     const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: 0, resolution: 0, backend: 'wasm', strategy: 'least-squares' });
     console.log(`least-squares estimator, 2 % noise: χN ${ne.chiN}; classical ${cl.chiN}, 95 % [${cl.interval95.join(', ')}]`);
     expect(ne.chiN).toBeGreaterThan(cl.interval95[0]);
