@@ -15,9 +15,9 @@ describe('least-squares network estimator: 2 % noise', () => {
   it('2 % noise, started at the classical estimate: χN inside the classical 95 % interval', async () => {
     const { data } = synthData({ chain, chiN: 15, nx: 128, ns: 200, noise: 0.02, seed: 1 });
     const cl = invert(data, { chain });
-    // Not every noise draw: of noise seeds 1–5 (network seed 1, sigma column), measured in
-    // docs/inverse.md, four ended inside the classical 95 % interval; seed 5 ended at 15.095, just
-    // below the classical [15.104, 15.626] (which misses the truth 15 itself on that draw), and the
+    // Not every noise draw: of noise seeds 1–15 (network seed 1, sigma column), measured in
+    // docs/inverse.md, 10 ended inside the classical 95 % interval (seed 5 at 15.095, just below
+    // the classical [15.104, 15.626], which misses the truth 15 itself on that draw), and the
     // demo's own draw at 14.803, below its [14.912, 15.213]. This draw is seed 1 (measured 15.006;
     // classical 15.012, 95 % [14.778, 15.257]): the check holds the plumbing and this draw's
     // figure, not the estimator's coverage.
