@@ -87,7 +87,8 @@ export async function invertRun(opts: InvertRunOptions): Promise<InvertRunResult
   let ne: NetworkEstimate | undefined;
   if (config.method !== 'network') estimators.classical = classicalBlock(estimate, data, assumed);
   if (config.method !== 'classical') {
-    // The network fits χN and the fields; the phase offset and period come from the classical fit.
+    // The network fits χN and the fields; the phase offset and period come from the classical fit
+    // (the least-squares strategy fits the offset, and a free period, further).
     const { estimateNetwork } = await import('./network-estimator.js');
     const net = config.network;
     // Seeds may train at once on worker threads: the phase's count is the sum of their steps.
