@@ -277,11 +277,12 @@ export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: P
   const sd = ne.runs.length > 1 ? ne.spread : Number.NaN;
   const open = { lo: false, hi: false };
   const mean = (v: (r: NetworkRun) => number | undefined) => (ne.runs.every((r) => v(r) !== undefined) ? ne.runs.reduce((a, r) => a + v(r)!, 0) / ne.runs.length : undefined);
-  const period = mean((r) => r.period) ?? cl.period;
+  const fittedPeriod = mean((r) => r.period);
   const fittedOffset = mean((r) => r.offset);
+  const period = fittedPeriod ?? cl.period;
   const offset = offsetInData(fittedOffset ?? cl.offset, period, data.x[0]);
   // Fitted parameters: χN, then the offset and the period where the runs fitted them.
-  const p = 1 + (fittedOffset !== undefined ? 1 : 0) + (ne.runs.every((r) => r.period !== undefined) ? 1 : 0);
+  const p = 1 + (fittedOffset !== undefined ? 1 : 0) + (fittedPeriod !== undefined ? 1 : 0);
   return {
     method: 'network',
     status: 'ok',

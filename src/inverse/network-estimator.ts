@@ -210,13 +210,14 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   const modes = Math.max(2, Math.min(nx / 2 - 1, Math.floor((t.length - 1) / 4)));
   const phiData = bandLimitedFit(t, data.phi, weights, L, modes)(start.x);
   const updateEvery = s.fieldUpdateEvery ?? 50;
+  // Least squares: a free period (the classical fit's mode "free") is a parameter of the fit too,
+  // on the data's unwrapped positions; the offset needs none: the networks translate freely, and
+  // the data rows set their phase.
+  const fitPeriod = classical.periodMode === 'free';
+  const u = Float64Array.from(data.x, (x) => x - classical.offset);
   for (const seed of s.seeds) {
     const tr0 = performance.now();
     if (s.strategy === 'least-squares') {
-      // A free period (the classical fit's mode "free") is a parameter of the fit too; the
-      // offset needs none: the networks translate freely, and the data rows set their phase.
-      const fitPeriod = classical.periodMode === 'free';
-      const u = Float64Array.from(data.x, (x) => x - classical.offset);
       const run = jointFitSeed(tf, start, chiNStart, L, { t, u, phi: data.phi, sigma: data.sigma }, {
         ...LEAST_SQUARES_RECIPE,
         chain: s.chain,
@@ -324,10 +325,11 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
   const values = runs.map((r) => r.chiN);
   const mean = values.reduce((a, b) => a + b, 0) / values.length;
   const spread = values.length > 1 ? Math.sqrt(values.reduce((a, b) => a + (b - mean) ** 2, 0) / (values.length - 1)) : 0;
+  const periodFitted = runs.every((r) => r.period !== undefined);
   const notes = [
     `seed spread over ${values.length} run(s): it measures how far independent trainings land apart, not the statistical error of the data; read the classical profile-likelihood interval for that`,
     runs.every((r) => r.offset !== undefined)
-      ? `offset${runs.every((r) => r.period !== undefined) ? ' and period' : ''} fitted with χN (started at the classical ${runs.every((r) => r.period !== undefined) ? 'ones' : 'offset, the period held at the classical one'}; the offset is where the networks put the A-rich domain, since they translate freely and the data rows set their phase); networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`
+      ? `offset${periodFitted ? ' and period' : ''} fitted with χN (started at the classical ${periodFitted ? 'ones' : 'offset, the period held at the classical one'}; the offset is where the networks put the A-rich domain, since they translate freely and the data rows set their phase); networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`
       : `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
     ...runs.flatMap((r) => (r.aliasing ? [`seed ${r.seed}: the networks' MDE mean square ${r.aliasing.onGrid.toExponential(2)} on the ${r.aliasing.nx} x points of the fit, ${r.aliasing.between.toExponential(2)} on 4 × as many (${r.aliasing.between > 2 * r.aliasing.onGrid ? 'far above the first: the networks fit the MDE at the points and not between them' : 'no more than twice the first: the MDE holds between the points as on them'})`] : [])),
     ...(strategy === 'least-squares' ? ['strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem (SCFT residuals beside the data rows, weight λ); with noisy data the penalised fit can sit apart from the classical one (measured with 2 % noise: 10 of 16 draws inside the classical 95 % interval, up to 0.39 from the classical estimate; docs/inverse.md), so read the classical interval for the statistical error'] : []),

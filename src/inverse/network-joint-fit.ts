@@ -29,6 +29,7 @@
 import type { ChainSpec } from '../physics/chain-schema.js';
 import { buildChain } from '../physics/chain.js';
 import { PeriodicCell } from '../physics/cell/periodic-cell.js';
+import { conventionShift } from '../physics/phase-convention.js';
 import type { ScftSolution } from '../physics/result.js';
 import { trainConfigSchema } from '../io/schemas/train-config.js';
 import type { Tf } from '../autodiff/tf.js';
@@ -82,8 +83,8 @@ export interface JointFitResult {
   /** The cell length (period, Rg) of the fit: the one given unless fitPeriod. */
   period: number;
   /**
-   * Where the networks put the A-rich domain's centre, in the start's frame (Rg): the phase of
-   * φ_A's first Fourier mode. The networks translate freely, so the data rows set it: the offset
+   * Where the networks put the A-rich domain's centre, in the start's frame (Rg): the shift of
+   * the phase convention (physics/phase-convention.ts). The networks translate freely, so the data rows set it: the offset
    * of the data is the start's plus this.
    */
   shift: number;
@@ -238,10 +239,9 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
       }
       x = problem.join(th, cur.chiN, cur.length);
     }
-    const r = { x, iterations: done, reason };
-    const { theta: thetaEnd, chiN, length } = problem.split(r.x);
-    const eEnd = problem.evaluate(r.x);
-    problem.applyState(r.x);
+    const { theta: thetaEnd, chiN, length } = problem.split(x);
+    // (evaluate leaves χN and the cell length of x in the residual system, for what follows.)
+    const eEnd = problem.evaluate(x);
     const L = s.fitPeriod ? length : period;
     const state = sys.state(thetaEnd);
     nets.parameters.unflatten(thetaEnd);
@@ -252,7 +252,7 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     // Read with the networks' own A-rich domain centre (shift) at t = 0, as the classical model
     // places its own; with a free period the cell is stretched to L, so the value at t is the
     // grid's at t L₀/L.
-    const shift = domainCentre(state.phi.A, L);
+    const shift = conventionShift(grid.withLength(L), state.phi.A);
     const exchange = grid.interpolate(ex, Float64Array.from(exchangeGrid, (t) => ((t + shift) * period) / L));
     return {
       chiN,
@@ -266,30 +266,13 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
       amplitudeRatio: amplitude(state.phi.A) / amp0,
       mdeOnGrid: eEnd.terms.mde,
       mdeBetween: fine.evaluate(thetaEnd, false, 'q').terms.mde + (nets.shared ? 0 : fine.evaluate(thetaEnd, false, 'qDagger').terms.mde),
-      iterations: r.iterations,
-      reason: interrupted ? 'interrupted' : r.reason,
+      iterations: done,
+      reason: interrupted ? 'interrupted' : reason,
       seconds: { start: tStart, joint: (performance.now() - t0) / 1000 - tStart },
     };
   } finally {
     nets.dispose();
   }
-}
-
-/**
- * The centre of the A-rich domain of a one-period φ_A on a uniform grid of a cell of length L, in
- * (−L/2, L/2]: the phase of its first Fourier mode, a₁ cos(k(x − c)) (a lamella's profile is even
- * about its domain centres; common practice, no source).
- */
-function domainCentre(phiA: Float64Array, L: number): number {
-  let a = 0;
-  let b = 0;
-  const n = phiA.length;
-  for (let j = 0; j < n; j++) {
-    const angle = (2 * Math.PI * j) / n;
-    a += phiA[j] * Math.cos(angle);
-    b += phiA[j] * Math.sin(angle);
-  }
-  return (Math.atan2(b, a) / (2 * Math.PI)) * L;
 }
 
 /**

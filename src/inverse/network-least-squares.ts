@@ -67,9 +67,8 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
   private readonly scaleFixed: number;
   /** When set, χN (and a free period) are held: their columns are zero, so the step leaves them where they are. */
   holdChiN = false;
-  /** Column of χN (the last) and whether L is a parameter (the column before it). */
+  /** Column of χN: the last (with a free period, L's is the one before it). */
   private readonly chiNColumn: number;
-  private readonly periodFree: boolean;
   private lastMatrix: { L: number; M: Float64Array } | null = null;
 
   constructor(
@@ -79,8 +78,7 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     readonly dataWeight: number,
   ) {
     this.n = data.phi.length;
-    this.periodFree = data.period !== undefined;
-    this.size = sys.size + (this.periodFree ? 2 : 1);
+    this.size = sys.size + (data.period ? 2 : 1);
     this.chiNColumn = this.size - 1;
     const sig = data.sigma ?? new Float64Array(this.n).fill(1);
     let meanInvVar = 0;
