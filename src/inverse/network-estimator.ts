@@ -47,6 +47,7 @@ import { warmStartYielding } from '../network/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
 import { loadFloat64Passes } from '../autodiff/float64-passes.js';
 import { jointFitSeed } from './network-joint-fit.js';
+import { fitDirections } from './fit-directions.js';
 import type { ProfileData } from './profile-csv.js';
 
 export interface NetworkEstimatorSettings {
@@ -91,7 +92,7 @@ export interface NetworkEstimatorSettings {
 }
 
 /** What the estimator reads of the classical estimate (all a worker thread is sent). */
-export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'solution'> & Partial<Pick<ClassicalEstimate, 'periodMode'>>;
+export type ClassicalStart = Pick<ClassicalEstimate, 'chiN' | 'period' | 'offset' | 'solution'> & Partial<Pick<ClassicalEstimate, 'periodMode' | 'rmsResidual'>>;
 
 export interface NetworkRun {
   seed: number;
@@ -137,6 +138,34 @@ export interface NetworkEstimate {
  */
 const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 64, nodesPerBlock: 12, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 10, tau: 1e-7, holdChiNIterations: 2, propagatorIterations: 4 };
 
+/**
+ * φ_A accuracy of the least-squares recipe's networks (RMS over the data points, φ units): the
+ * scale below which the networks' own profile is no better than the data's. Measured on the
+ * noiseless bench case started at the classical estimate, with the data rows reduced to the
+ * fit's directions (shape weight 0): RMS of network φ_A − data 4.5e-4 (seed 1) and 2.9e-3
+ * (seed 4) after the recipe's cycles (docs/inverse.md, "The data rows along the fit's directions").
+ */
+const NETWORK_PROFILE_ACCURACY = 1e-3;
+
+/**
+ * The least-squares strategy's data rows, split along the classical fit's directions (offset,
+ * χN, and the period when free: inverse/fit-directions.ts). The part of the data in their span
+ * is what moves the estimate; the rest is the profile's shape beyond them, which the data know
+ * to their noise σ and the networks' physics to about NETWORK_PROFILE_ACCURACY (a): it is
+ * weighted a² / (a² + σ²), the share the data would add to the networks' own (inverse-variance
+ * weighting). Noiseless data keep every point row (weight ≈ 1): the shape from the data pins the
+ * networks, which settle faster; noisy data leave the shape to the physics, so the networks do
+ * not bend towards the noise (measured: docs/inverse.md). σ is the sigma column's RMS, or the
+ * classical fit's RMS residual without one.
+ */
+function dataSplit(data: ProfileData, classical: ClassicalStart, s: NetworkEstimatorSettings): { directions: Float64Array[]; shapeWeight: number } {
+  const sol = classical.solution;
+  const directions = fitDirections(data.x, { chiN: classical.chiN, period: classical.period, offset: classical.offset, periodMode: classical.periodMode ?? 'given', nx: sol.nx, ns: sol.ns }, s.chain, s.resolution).columns;
+  const sigma = data.sigma ? Math.sqrt(data.sigma.reduce((a, v) => a + v * v, 0) / data.sigma.length) : (classical.rmsResidual ?? 0);
+  const a2 = NETWORK_PROFILE_ACCURACY ** 2;
+  return { directions, shapeWeight: a2 / (a2 + sigma * sigma) };
+}
+
 function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
   const L = est.period;
   return Float64Array.from(data.x, (x) => {
@@ -167,7 +196,7 @@ async function estimateInSeedWorkers(data: ProfileData, classical: ClassicalStar
   const { onProgress, seeds, workers, ...settings } = s;
   const workerData: SeedWorkerData = {
     data,
-    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, ...(classical.periodMode ? { periodMode: classical.periodMode } : {}), solution: portable(classical.solution) },
+    classical: { chiN: classical.chiN, period: classical.period, offset: classical.offset, ...(classical.periodMode ? { periodMode: classical.periodMode } : {}), ...(classical.rmsResidual !== undefined ? { rmsResidual: classical.rmsResidual } : {}), solution: portable(classical.solution) },
     settings,
   };
   try {
@@ -215,10 +244,11 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
   // the data rows set their phase.
   const fitPeriod = classical.periodMode === 'free';
   const u = Float64Array.from(data.x, (x) => x - classical.offset);
+  const split = s.strategy === 'least-squares' ? dataSplit(data, classical, s) : undefined;
   for (const seed of s.seeds) {
     const tr0 = performance.now();
     if (s.strategy === 'least-squares') {
-      const run = jointFitSeed(tf, start, chiNStart, L, { t, u, phi: data.phi, sigma: data.sigma }, {
+      const run = jointFitSeed(tf, start, chiNStart, L, { t, u, phi: data.phi, sigma: data.sigma, ...(split ? { split } : {}) }, {
         ...LEAST_SQUARES_RECIPE,
         chain: s.chain,
         seed,

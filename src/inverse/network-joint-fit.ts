@@ -118,6 +118,8 @@ export interface FrameData {
   u?: Float64Array;
   phi: Float64Array;
   sigma?: Float64Array;
+  /** The data rows split along the classical fit's directions (DataRows.split). */
+  split?: { directions: Float64Array[]; shapeWeight: number };
 }
 
 function amplitude(v: Float64Array): number {
@@ -180,7 +182,7 @@ export function jointFitSeed(tf: Tf, start: ScftSolution, chiNStart: number, per
     const u = data.u;
     if (s.fitPeriod && !u) throw new Error('jointFitSeed: a free period needs the unwrapped positions (FrameData.u)');
     const stretched = (L: number) => grid.interpolationMatrix(Float64Array.from(u!, (v) => (v * period) / L), (s.resolution * period) / L);
-    const problem = new NetworkInverseProblem(sys, { matrix: grid.interpolationMatrix(data.t, s.resolution), phi: data.phi, sigma: data.sigma, ...(s.fitPeriod ? { period: { length: period, matrixAt: stretched } } : {}) }, chiNStart, s.dataWeight);
+    const problem = new NetworkInverseProblem(sys, { matrix: grid.interpolationMatrix(data.t, s.resolution), phi: data.phi, sigma: data.sigma, ...(data.split ? { split: data.split } : {}), ...(s.fitPeriod ? { period: { length: period, matrixAt: stretched } } : {}) }, chiNStart, s.dataWeight);
     const x0 = problem.join(theta, chiNStart);
     const e0 = problem.evaluate(x0);
     const physicsLoss = (e: ReturnType<typeof problem.evaluate>) => {

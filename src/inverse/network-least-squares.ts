@@ -48,6 +48,13 @@ export interface DataRows {
   phi: Float64Array;
   /** Per-point standard deviations, or undefined for unit weights. */
   sigma?: Float64Array;
+  /**
+   * When given, the data rows split along the classical fit's directions (∂φ/∂β at its
+   * estimate, inverse/fit-directions.ts): with e the weighted point rows and P the orthogonal
+   * projection on the directions' span (in the rows' own weighting), the data cost is
+   * ½|P e|² + ½ shapeWeight |(I − P) e|² (the point rows themselves at shapeWeight 1).
+   */
+  split?: { directions: Float64Array[]; shapeWeight: number };
 }
 
 export interface InverseEvaluation {
@@ -70,6 +77,8 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
   /** Column of χN: the last (with a free period, L's is the one before it). */
   private readonly chiNColumn: number;
   private lastMatrix: { L: number; M: Float64Array } | null = null;
+  /** Orthonormal basis of the weighted directions (DataRows.split), or null: the point rows as they are. */
+  private readonly basis: Float64Array[] | null;
 
   constructor(
     private readonly sys: ScftResidualSystem,
@@ -86,6 +95,7 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     meanInvVar /= this.n;
     this.rowScale = Float64Array.from(sig, (v) => Math.sqrt(dataWeight / this.n) / (v * Math.sqrt(meanInvVar)));
     this.scaleFixed = 1 / Math.max(1, chiNStart);
+    this.basis = data.split ? orthonormalBasis(data.split.directions.map((a) => Float64Array.from(a, (v, i) => v * this.rowScale[i]))) : null;
     if (data.matrix.length !== sys.nx * this.n) throw new RangeError(`data matrix has ${data.matrix.length} entries, expected ${sys.nx}·${this.n}`);
   }
 
@@ -144,11 +154,13 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     let cost = sysCost + 0.5 * (W.selfConsistency * terms.selfConsistency + W.gauge * terms.gauge) * (rho2 - 1);
     const fit = this.fitAt(phiA, M);
     let misfit = 0;
+    const e = new Float64Array(this.n);
     for (let i = 0; i < this.n; i++) {
       const d = fit[i] - this.data.phi[i];
       misfit += d * d;
-      cost += 0.5 * (this.rowScale[i] * d) ** 2;
+      e[i] = this.rowScale[i] * d;
     }
+    for (const v of this.splitRows(e, 1).r) cost += 0.5 * v * v;
     return { cost, terms: fixedTerms, misfit: misfit / this.n, fit };
   }
 
@@ -161,6 +173,53 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
       for (let i = 0; i < n; i++) fit[i] += p * M[o + i];
     }
     return fit;
+  }
+
+  /**
+   * The data rows as the problem holds them, from the weighted point rows e (n) and their
+   * Jacobian J (n × cols, row-major): e and J themselves, or with DataRows.split the m rows
+   * Qᵀe and the n rows √w (e − Q Qᵀe) (w the shape weight; none when w = 0), and their Jacobians.
+   */
+  private splitRows(e: Float64Array, cols: number, J?: Float64Array): { r: Float64Array; J?: Float64Array } {
+    const Q = this.basis;
+    if (!Q) return { r: e, J };
+    const n = this.n;
+    const m = Q.length;
+    const root = Math.sqrt(this.data.split!.shapeWeight);
+    const rows = root > 0 ? m + n : m;
+    const r = new Float64Array(rows);
+    const Jout = J ? new Float64Array(rows * cols) : undefined;
+    Q.forEach((q, k) => {
+      let v = 0;
+      for (let i = 0; i < n; i++) v += q[i] * e[i];
+      r[k] = v;
+      if (J) {
+        const row = Jout!.subarray(k * cols, (k + 1) * cols);
+        for (let i = 0; i < n; i++) {
+          const c = q[i];
+          if (c === 0) continue;
+          const src = J.subarray(i * cols, (i + 1) * cols);
+          for (let a = 0; a < cols; a++) row[a] += c * src[a];
+        }
+      }
+    });
+    if (root === 0) return { r, J: Jout };
+    // √w (I − Q Qᵀ) on e and on J: the rows minus their parts in the span.
+    for (let i = 0; i < n; i++) {
+      let v = e[i];
+      for (let k = 0; k < m; k++) v -= Q[k][i] * r[k];
+      r[m + i] = root * v;
+      if (J) {
+        const dst = Jout!.subarray((m + i) * cols, (m + i + 1) * cols);
+        const src = J.subarray(i * cols, (i + 1) * cols);
+        for (let a = 0; a < cols; a++) {
+          let w = src[a];
+          for (let k = 0; k < m; k++) w -= Q[k][i] * Jout![k * cols + a];
+          dst[a] = root * w;
+        }
+      }
+    }
+    return { r, J: Jout };
   }
 
   cost(x: Float64Array): number {
@@ -227,7 +286,8 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
       const down = this.fitAt(density.phi.A, per.matrixAt(length - h));
       for (let i = 0; i < n; i++) Jd[i * cols + p] = (this.rowScale[i] * (up[i] - down[i])) / (2 * h);
     }
-    const all2: ResidualGroup[] = [...mde, { columns: all, J, r }, { columns: all, J: Jd, r: rd }];
+    const held = this.splitRows(rd, cols, Jd);
+    const all2: ResidualGroup[] = [...mde, { columns: all, J, r }, { columns: all, J: held.J!, r: held.r }];
     const { A, g } = groupedNormalEquations(cols, all2);
     if (lengthFree) {
       // The length column of the MDE rows, added to the normal equations as its products (the
@@ -247,4 +307,22 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     const cost = this.withData(e.cost, e.terms, density.phi.A, chiN, M).cost;
     return { kind: 'normal', cost, A, g };
   }
+}
+
+/** Modified Gram–Schmidt (Golub & Van Loan, "Matrix Computations", 4th ed., §5.2.8): an orthonormal basis of the vectors' span, dependent ones dropped. */
+function orthonormalBasis(vectors: Float64Array[]): Float64Array[] {
+  const basis: Float64Array[] = [];
+  for (const a of vectors) {
+    const v = Float64Array.from(a);
+    const size = Math.hypot(...v);
+    for (const q of basis) {
+      let d = 0;
+      for (let i = 0; i < v.length; i++) d += q[i] * v[i];
+      for (let i = 0; i < v.length; i++) v[i] -= d * q[i];
+    }
+    const left = Math.hypot(...v);
+    if (!(left > 1e-10 * size)) continue;
+    basis.push(v.map((x) => x / left));
+  }
+  return basis;
 }

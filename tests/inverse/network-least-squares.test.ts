@@ -76,6 +76,58 @@ describe('network inverse least-squares problem', () => {
     nets.dispose();
   });
 
+  it('data rows split along directions: the gradient matches finite differences; shape weight 1 is the point rows; at 0 the data outside the span do not enter', async () => {
+    const { nets, sys } = await smallSystem();
+    const t = Float64Array.from({ length: 11 }, (_, i) => 0.13 + 0.35 * i);
+    const k = (2 * Math.PI) / 4;
+    const phi = Float64Array.from(t, (x) => 0.5 + 0.3 * Math.cos(k * x) + 0.02 * Math.sin(3 * k * x));
+    const sigma = Float64Array.from(t, (_, i) => 0.02 + 0.002 * i);
+    const directions = [Float64Array.from(t, (x) => Math.sin(k * x)), Float64Array.from(t, (x) => Math.cos(k * x))];
+    const grid = new PeriodicCell(4, 8, 1);
+    const rows = { matrix: grid.interpolationMatrix(t, 0.1), phi, sigma };
+    const make = (shapeWeight: number, data = phi) => new NetworkInverseProblem(sys, { ...rows, phi: data, split: { directions, shapeWeight } }, 14, 5);
+    const plain = new NetworkInverseProblem(sys, rows, 14, 5);
+    const x = plain.join(nets.parameters.flatten(), 15.5);
+    const n = plain.size;
+    expectGradientMatches(make(0.3), x, [0, 5, 40, n - 30, n - 1], (a) => 1e-6 * Math.max(1, Math.abs(x[a])));
+    // ½|P e|² + ½|(I − P) e|² = ½|e|²: at shape weight 1 the same cost and normal equations.
+    const a = plain.linearise(x);
+    const b = make(1).linearise(x);
+    expect(b.cost).toBeCloseTo(a.cost, 12);
+    let worst = 0;
+    let scale = 0;
+    for (let i = 0; i < a.g.length; i++) {
+      worst = Math.max(worst, Math.abs(a.g[i] - b.g[i]));
+      scale = Math.max(scale, Math.abs(a.g[i]));
+    }
+    expect(worst).toBeLessThan(1e-12 * scale);
+    // … and the same JᵀJ (the gradient alone cannot tell (I − P)J from J: (I − P) is a symmetric projector).
+    if (a.kind !== 'normal' || b.kind !== 'normal') throw new Error('expected normal equations');
+    let worstA = 0;
+    let scaleA = 0;
+    for (let i = 0; i < a.A.length; i++) {
+      worstA = Math.max(worstA, Math.abs(a.A[i] - b.A[i]));
+      scaleA = Math.max(scaleA, Math.abs(a.A[i]));
+    }
+    expect(worstA).toBeLessThan(1e-12 * scaleA);
+    // At shape weight 0 a change of the data orthogonal (in the 1/σ² weighting) to both
+    // directions leaves the cost as it was; at 0.3 it does not.
+    const w = Float64Array.from(sigma, (v) => 1 / (v * v));
+    const v = Float64Array.from(t, (x) => Math.cos(3 * k * x));
+    // (alternating projections on the two complements: repeated, they converge to the projection on the intersection)
+    for (let pass = 0; pass < 60; pass++) {
+      for (const d of directions) {
+        const dd = d.reduce((s, y, i) => s + w[i] * y * y, 0);
+        const vd = v.reduce((s, y, i) => s + w[i] * y * d[i], 0);
+        v.forEach((y, i) => (v[i] = y - (vd / dd) * d[i]));
+      }
+    }
+    const moved = Float64Array.from(phi, (p, i) => p + 0.05 * v[i]);
+    expect(make(0, moved).cost(x)).toBeCloseTo(make(0).cost(x), 12);
+    expect(Math.abs(make(0.3, moved).cost(x) - make(0.3).cost(x))).toBeGreaterThan(1e-6);
+    nets.dispose();
+  });
+
   it('the propagator value fit: Jacobian against central differences of its residuals', async () => {
     const { nets, sys } = await smallSystem();
     const theta = nets.parameters.flatten();
