@@ -42,9 +42,21 @@ export async function runInverseBench(): Promise<void> {
   const settings = { chain, nx: 64, ns: 100, period: { mode: 'equilibrium' as const }, resolution: 0, profilePoints: 0 };
   const data = profile(chain, 1, 64, 100);
   const cl = estimateClassical(data, settings, createModels(settings));
-  const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: net.adamSteps, fieldUpdateEvery: net.fieldUpdateEvery, lbfgsIterations: net.lbfgsIterations, lbfgsPerUpdate: net.lbfgsPerUpdate, resolution: 0, backend: 'wasm' });
+  const ne = await estimateNetwork(data, cl, {
+    chain,
+    seeds: [1],
+    strategy: net.strategy,
+    steps: net.adamSteps,
+    fieldUpdateEvery: net.fieldUpdateEvery,
+    lbfgsIterations: net.lbfgsIterations,
+    lbfgsPerUpdate: net.lbfgsPerUpdate,
+    secondOrderIterations: net.secondOrderIterations,
+    dataWeight: net.dataWeight,
+    resolution: 0,
+    backend: 'wasm',
+  });
   console.log(
-    `network estimator (defaults: ${net.adamSteps} Adam steps + ${net.lbfgsIterations} L-BFGS iterations, one seed, wasm), same case, seed 1, target 2 min: ` +
+    `network estimator (the invert defaults: strategy ${net.strategy}, one seed, wasm), same case, seed 1, target 2 min: ` +
       `χN = ${ne.chiN.toFixed(4)} (classical ${cl.chiN.toFixed(4)}) in ${ne.seconds.toFixed(1)} s`,
   );
   runFilmIntervalBench(chain);
@@ -95,7 +107,7 @@ export async function runNetworkConvergenceBench(): Promise<void> {
   const s = synthesize({ chain, chiN: 15, points: 64, noise: 0, seed: 1, periods: 1, offset: 0, period: 'equilibrium', resolution: 0, nx: 64, ns: 100 });
   const data: ProfileData = { source: 'synthetic, noiseless', x: s.x, xRaw: s.x, phi: s.phi, lines: [], units: { x: 'Rg' } };
   const cl = estimateClassical(data, { chain, nx: 64, ns: 100, period: { mode: 'equilibrium' }, resolution: 0, profilePoints: 0 });
-  const ne = await estimateNetwork(data, cl, { chain, seeds: [1], chiNStart: 13.5, steps: 200, fieldUpdateEvery: 50, lbfgsIterations: 1200, lbfgsPerUpdate: 100, resolution: 0, backend: 'wasm' });
+  const ne = await estimateNetwork(data, cl, { chain, seeds: [1], chiNStart: 13.5, strategy: 'adam-lbfgs', steps: 200, fieldUpdateEvery: 50, lbfgsIterations: 1200, lbfgsPerUpdate: 100, resolution: 0, backend: 'wasm' });
   const vs = compareWithTruth('synthetic', 15, chain, cl, ne).estimators.network;
   console.log('network estimator convergence, noiseless f = 0.5, χN = 15, 64 points, started at χN = 13.5 (200 Adam steps + 1200 L-BFGS iterations, one seed, wasm)');
   console.log(`  χN after each field update (step: χN): ${ne.runs[0].trajectory.map((p) => `${p.step}: ${p.chiN.toFixed(3)}`).join(', ')}`);

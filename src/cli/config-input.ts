@@ -40,6 +40,7 @@ export const FLAG_CONFIG_PATHS = {
     '--ns': 'cell.ns',
     '--profile-points': 'profilePoints',
     '--seeds': 'network.seeds',
+    '--strategy': 'network.strategy',
     '--adam-steps': 'network.adamSteps',
     '--lbfgs-iterations': 'network.lbfgsIterations',
     '--backend': 'network.backend',
@@ -162,6 +163,11 @@ export class ConfigInput<C extends Command> {
     for (const [p, flag] of this.byFlag) if (path === p || path.startsWith(`${p}.`) || p.startsWith(`${path}.`)) return { where: `${flag} → ${path}`, isDefault: false };
     if (this.configPath) return { where: `${this.configPath}: ${path}`, isDefault: false };
     return { where: path, isDefault: true };
+  }
+
+  /** Where a config path's value came from, as the user would recognise it (a flag, or the file and key). */
+  origin(path: string): string {
+    return this.source(path).where;
   }
 
   /** Validate with the schema; every problem is one line naming its source, value and what is allowed. */

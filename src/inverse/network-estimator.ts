@@ -1,6 +1,8 @@
 /**
- * The network estimator of χN: the physics-informed trainer run as a data-driven SCFT
- * iteration. The propagator networks learn the MDE in the current fields (the trainer's
+ * The network estimator of χN, in two strategies. The default, 'least-squares', makes χN a
+ * parameter of one least-squares problem with the networks' SCFT residuals and the data rows
+ * (network-joint-fit.ts, network-least-squares.ts). The other, 'adam-lbfgs', is described here:
+ * the physics-informed trainer run as a data-driven SCFT iteration. The propagator networks learn the MDE in the current fields (the trainer's
  * 'alternating' strategy); every fieldUpdateEvery steps the fields and χN are updated from
  * the networks' own φ and the data:
  *   exchange part from the data:   w_A − w_B ← χN (φ_B − φ_A)[data],
@@ -71,10 +73,10 @@ export interface NetworkEstimatorSettings {
   lbfgsIterations?: number;
   lbfgsPerUpdate?: number;
   /**
-   * 'adam-lbfgs' (default): the data-driven SCFT iteration above. 'least-squares': χN as a
-   * parameter of one least-squares problem with the SCFT residuals and the data rows, solved by
-   * Levenberg–Marquardt in float64 (network-joint-fit.ts); it reads secondOrderIterations and
-   * dataWeight, not the Adam/L-BFGS budgets.
+   * 'least-squares' (default): χN as a parameter of one least-squares problem with the SCFT
+   * residuals and the data rows, solved by Levenberg–Marquardt in float64 (network-joint-fit.ts);
+   * it reads secondOrderIterations and dataWeight, not the Adam/L-BFGS budgets. 'adam-lbfgs': the
+   * data-driven SCFT iteration above.
    */
   strategy?: 'adam-lbfgs' | 'least-squares';
   /** Cycles of the 'least-squares' strategy with χN free (default 20; 2 with χN held come first): each one joint LM iteration, then the propagators' own (network-joint-fit.ts). */
@@ -208,8 +210,9 @@ async function estimateInSeedWorkers(data: ProfileData, classical: ClassicalStar
   }
 }
 
-export async function estimateNetwork(data: ProfileData, classical: ClassicalStart, s: NetworkEstimatorSettings): Promise<NetworkEstimate> {
+export async function estimateNetwork(data: ProfileData, classical: ClassicalStart, settings: NetworkEstimatorSettings): Promise<NetworkEstimate> {
   const t0 = performance.now();
+  const s = { ...settings, strategy: settings.strategy ?? 'least-squares' };
   if ((s.workers ?? 1) > 1 && s.seeds.length > 1) {
     const one = await estimateInSeedWorkers(data, classical, s);
     const runs = one.flatMap((e) => e.runs).sort((a, b) => a.seed - b.seed);
@@ -362,7 +365,11 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
       ? `offset${periodFitted ? ' and period' : ''} fitted with χN (started at the classical ${periodFitted ? 'ones' : 'offset, the period held at the classical one'}; the offset is where the networks put the A-rich domain, since they translate freely and the data rows set their phase); networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`
       : `offset and period taken from the classical estimate; networks started from the spectral solution at χN = ${common.chiNStart.toPrecision(6)}`,
     ...runs.flatMap((r) => (r.aliasing ? [`seed ${r.seed}: the networks' MDE mean square ${r.aliasing.onGrid.toExponential(2)} on the ${r.aliasing.nx} x points of the fit, ${r.aliasing.between.toExponential(2)} on 4 × as many (${r.aliasing.between > 2 * r.aliasing.onGrid ? 'far above the first: the networks fit the MDE at the points and not between them' : 'no more than twice the first: the MDE holds between the points as on them'})`] : [])),
-    ...(strategy === 'least-squares' ? ['strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem (SCFT residuals beside the data rows, weight λ); with noisy data the penalised fit can sit apart from the classical one (measured with 2 % noise: 10 of 16 draws inside the classical 95 % interval, up to 0.39 from the classical estimate; docs/inverse.md), so read the classical interval for the statistical error'] : []),
+    ...(strategy === 'least-squares'
+      ? [
+          'strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem, the SCFT residuals beside the data rows; the data enter along the classical fit\'s directions (offset, χN, the period when free), and the profile\'s shape beyond them by their noise against the networks\' accuracy (measured with 2 % noise: 16 of 16 draws inside the classical 95 % interval, 0.016 to 0.059 below the classical estimate; docs/inverse.md); the estimate rests on the classical fit\'s offset, period and directions, so read the classical interval for the statistical error',
+        ]
+      : []),
   ];
   return {
     chiN: mean,

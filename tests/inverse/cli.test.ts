@@ -148,6 +148,19 @@ describe('mesofield invert', () => {
     const b = await inProcess(['invert', p, '--f', '0.5', '--method', 'both', '--backend', 'gpu', '--out', out]);
     expect(b.code).toBe(2);
     expect(b.stderr).toMatch(/network\.backend: got "gpu";/);
+    // A budget of the strategy not run is refused, not ignored: the flag (the default strategy is least-squares) …
+    const c = await inProcess(['invert', p, '--f', '0.5', '--method', 'network', '--adam-steps', '500', '--out', out]);
+    expect(c.code).toBe(2);
+    expect(c.stderr).toMatch(/--adam-steps → network\.adamSteps: got 500; allowed only with network\.strategy "adam-lbfgs", and this run's strategy is "least-squares" \(the default/);
+    // … and the config file's key, with the other strategy chosen by flag.
+    const cfg = join(dir, 'net.json');
+    writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, network: { dataWeight: 3 } }));
+    const d = await inProcess(['invert', p, cfg, '--method', 'network', '--strategy', 'adam-lbfgs', '--out', out]);
+    expect(d.code).toBe(2);
+    expect(d.stderr).toMatch(/net\.json: network\.dataWeight: got 3; allowed only with network\.strategy "least-squares", and this run's strategy is "adam-lbfgs"/);
+    const e = await inProcess(['invert', p, '--f', '0.5', '--method', 'network', '--strategy', 'lbfgs', '--out', out]);
+    expect(e.code).toBe(2);
+    expect(e.stderr).toMatch(/--strategy → network\.strategy: got "lbfgs"/);
     expect(existsSync(out)).toBe(false);
   });
 

@@ -15,14 +15,15 @@ describe('mesofield invert --method both', () => {
     const synth = await runCli(['synth', '--f', '0.5', '--chiN', '15', '--points', '48', '--noise', '0.02', '--seed', '3', '--out', join(d, 'p'), '--quiet'], { capture: true });
     expect(synth.code, synth.stderr).toBe(0);
     const out = join(d, 'run');
-    // The plumbing of both estimators, not their accuracy (network.test.ts, network-noise.test.ts):
-    // a 16 × 20 model grid and 50 Adam steps with a field/χN update after 25 of them (a config
+    // The plumbing of both estimators, not their accuracy (network.test.ts, network-noise.test.ts),
+    // with the adam-lbfgs strategy (the default least-squares one: the signal and flag cases in
+    // tests/faults, and tests/inverse/network-least-squares-*.test.ts): a 16 × 20 model grid and 50 Adam steps with a field/χN update after 25 of them (a config
     // file, under the flags), so that the network's χN moves off the classical one; a 20-step
     // warm start (network.warmStartSteps, default 400). The two seeds train one after the other
     // (--workers 1: no worker thread loading tfjs again; the threads are tests/inverse/seed-workers.test.ts's).
     const cfg = join(d, 'invert.json');
     writeFileSync(cfg, JSON.stringify({ version: 2, kind: 'invert', system: { chain: { type: 'diblock', f: 0.5 } }, network: { fieldUpdateEvery: 25, warmStartSteps: 20 } }));
-    const r = await runCli(['invert', csv, cfg, '--method', 'both', '--seeds', '2', '--workers', '1', '--adam-steps', '50', '--lbfgs-iterations', '0', '--nx', '16', '--ns', '20', '--backend', 'wasm', '--json', '--out', out, '--report'], { capture: true });
+    const r = await runCli(['invert', csv, cfg, '--method', 'both', '--strategy', 'adam-lbfgs', '--seeds', '2', '--workers', '1', '--adam-steps', '50', '--lbfgs-iterations', '0', '--nx', '16', '--ns', '20', '--backend', 'wasm', '--json', '--out', out, '--report'], { capture: true });
     expect(r.code, r.stderr).toBe(0);
     const res = JSON.parse(r.stdout);
     expect(Object.keys(res.estimators).sort()).toEqual(['classical', 'network']);

@@ -22,7 +22,7 @@ describe('network estimator of χN, noisy profile', () => {
     // its L-BFGS cycles), estimate 15.4006 (+2.7 %, measured). Cheaper settings measured worse (same
     // case, 32 × 60): updates every 25 of 100 Adam steps ended at 15.82 (+5.5 %); a 200-step warm
     // start (not 400) reached 15.65 (+4.3 %) on the way, a 300-step one 15.43 (+2.9 %) at step 100.
-    const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: 100, fieldUpdateEvery: 50, lbfgsIterations: 30, lbfgsPerUpdate: 30, resolution: 0, backend: 'wasm' });
+    const ne = await estimateNetwork(data, cl, { chain, strategy: 'adam-lbfgs', seeds: [1], steps: 100, fieldUpdateEvery: 50, lbfgsIterations: 30, lbfgsPerUpdate: 30, resolution: 0, backend: 'wasm' });
     console.log(`network estimator, 2 % noise: χN ${ne.chiN} (trajectory ${ne.runs[0].trajectory.map((p) => p.chiN.toFixed(4)).join(', ')})`);
     expect(Math.abs(ne.chiN / 15 - 1)).toBeLessThan(0.03);
   });

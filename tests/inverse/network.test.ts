@@ -22,7 +22,7 @@ describe('network estimator of χN', () => {
   // exchange field (the start is 1.5 from the truth, 10 % low). A 300-step warm start (not the
   // default 400) costs a quarter less here: measured 14.50, 14.98, 15.15, 15.13 at steps 25–100,
   // so the estimate 15.125 (+0.8 %) with w_A − w_B within 0.8 %; a 200-step one ended at 15.56 (+3.7 %).
-  const settings = { seeds: [1], steps: 125, fieldUpdateEvery: 25, lbfgsIterations: 0, warmStartSteps: 300, resolution: 0, backend: 'wasm' as const };
+  const settings = { strategy: 'adam-lbfgs' as const, seeds: [1], steps: 125, fieldUpdateEvery: 25, lbfgsIterations: 0, warmStartSteps: 300, resolution: 0, backend: 'wasm' as const };
 
   it('noiseless profile (f = 0.5, χN = 15, 64 points), started 10 % low: χN within 3 % and three quarters of the way from the start, wA − wB within 5 %', async () => {
     const chain = diblock(0.5);

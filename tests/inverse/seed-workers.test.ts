@@ -13,7 +13,7 @@ describe('network estimator seeds on worker threads', () => {
     const cl = invert(data, { chain, nx: 32, ns: 60 });
     // 12 Adam steps with one field/χN update (at step 10) after a 10-step warm start: each seed's
     // cost is mostly its per-seed set-up and the 150-step field refit of each update.
-    const settings = { chain, seeds: [2, 1, 3], steps: 12, fieldUpdateEvery: 10, lbfgsIterations: 0, warmStartSteps: 10, resolution: 0, backend: 'wasm' as const };
+    const settings = { chain, strategy: 'adam-lbfgs' as const, seeds: [2, 1, 3], steps: 12, fieldUpdateEvery: 10, lbfgsIterations: 0, warmStartSteps: 10, resolution: 0, backend: 'wasm' as const };
     const progress: number[] = [];
     const threads = await estimateNetwork(data, cl, { ...settings, workers: 2, onProgress: (seed) => progress.push(seed) });
     const here = await estimateNetwork(data, cl, { ...settings, workers: 1 });

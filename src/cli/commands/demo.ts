@@ -137,15 +137,13 @@ async function runDemo(flags: { out: string; backend: string; quiet?: boolean },
   await between('the reference and the training');
   const est = estimateClassical(data, { chain: chainSpec, nx: 64, ns: 100, period: { mode: 'equilibrium' }, resolution: 0, profilePoints: 12 });
   await between('the reference, the training and the classical inversion');
-  // The network estimator beside it: one seed, half the default L-BFGS budget, started from the classical estimate.
+  // The network estimator beside it: one seed of the default (least-squares) strategy, started from the classical estimate.
   const { estimateNetwork } = await import('../../inverse/network-estimator.js');
   const ne = await estimateNetwork(data, est, {
     chain: chainSpec,
     seeds: [1],
-    steps: 200,
-    fieldUpdateEvery: 50,
-    lbfgsIterations: 600,
-    lbfgsPerUpdate: 100,
+    steps: 0,
+    strategy: 'least-squares',
     resolution: 0,
     backend: trainConfig.backend,
     onProgress: (_seed, step, steps, chiN) => progress.update(`network estimator: step ${step}/${steps}, χN = ${chiN.toPrecision(6)}`),

@@ -3,7 +3,7 @@ import type { Command } from 'commander';
 import type { OutputDirectory } from '../../io/output-directory.js';
 import { claimOut, withOutput } from '../run-output.js';
 import { InputError } from '../../io/errors.js';
-import { invertConfigSchema } from '../../io/schemas/invert-config.js';
+import { invertConfigSchema, NETWORK_STRATEGY_KEYS } from '../../io/schemas/invert-config.js';
 import type { InvertConfig } from '../../io/schemas/invert-config.js';
 import { inversionResultText, summaryText } from '../../inverse/inversion-result.js';
 import { parseDecimal } from '../decimal-text.js';
@@ -34,6 +34,7 @@ interface InvertFlags {
   profilePoints?: string;
   seeds?: string;
   workers?: string;
+  strategy?: string;
   adamSteps?: string;
   lbfgsIterations?: string;
   backend?: string;
@@ -69,6 +70,7 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
   const f = input.number('--f', flags.f);
   if (!configPath && f === undefined) throw new InputError('--f: missing; the A fraction f of the chain is required (or a CONFIG file with system.chain)');
   input.number('--seeds', flags.seeds);
+  if (flags.strategy !== undefined) input.set('--strategy', flags.strategy);
   input.number('--adam-steps', flags.adamSteps);
   input.number('--lbfgs-iterations', flags.lbfgsIterations);
   if (flags.backend !== undefined) input.set('--backend', flags.backend);
@@ -101,7 +103,18 @@ export function buildInvertConfig(configPath: string | undefined, flags: InvertF
   sources['sd.rgNm'] = flags.rgNmSd !== undefined ? '--rg-nm-sd' : `${configPath ?? 'flags'}: units.rgNmSd`;
   sources['sd.f'] = flags.fSd !== undefined ? '--f-sd' : `${configPath ?? 'flags'}: uncertainty.f`;
   sources['sd.segmentRatio'] = flags.segmentRatioSd !== undefined ? '--segment-ratio-sd' : `${configPath ?? 'flags'}: uncertainty.segmentRatio`;
-  return { config: input.parse(invertConfigSchema), sources };
+  const config = input.parse(invertConfigSchema);
+  // A budget of the strategy not run would be silently ignored: refuse it, naming where it came from.
+  const strategy = config.network.strategy;
+  for (const [other, keys] of Object.entries(NETWORK_STRATEGY_KEYS)) {
+    if (other === strategy) continue;
+    for (const key of keys) {
+      const value = input.get(`network.${key}`);
+      if (value === undefined) continue;
+      throw new InputError(`${input.origin(`network.${key}`)}: got ${JSON.stringify(value)}; allowed only with network.strategy "${other}", and this run's strategy is "${strategy}"${input.get('network.strategy') === undefined ? ' (the default; choose the other with --strategy or network.strategy)' : ''}`);
+    }
+  }
+  return { config, sources };
 }
 
 export function registerInvert(program: Command): void {
@@ -114,8 +127,9 @@ export function registerInvert(program: Command): void {
     .option('--method <m>', 'classical | network | both')
     .option('--seeds <n>', 'network: independent seeded trainings (their spread is reported)')
     .option('--workers <k>', 'network: worker threads training seeds at once (default: min(2, cores))')
-    .option('--adam-steps <n>', 'network: Adam steps per seed (network.adamSteps)')
-    .option('--lbfgs-iterations <n>', 'network: L-BFGS iterations per seed after the Adam steps (network.lbfgsIterations)')
+    .option('--strategy <s>', 'network: least-squares (default: χN in one Levenberg–Marquardt problem with the networks) | adam-lbfgs')
+    .option('--adam-steps <n>', 'network, strategy adam-lbfgs: Adam steps per seed (network.adamSteps)')
+    .option('--lbfgs-iterations <n>', 'network, strategy adam-lbfgs: L-BFGS iterations per seed after the Adam steps (network.lbfgsIterations)')
     .option('--backend <b>', 'network: tfjs backend auto | native | wasm | cpu')
     .option('--period <mode>', 'equilibrium (stress-free at each χN, default) | free (fitted) | L (given, in the units of x)')
     .option('--chiN-range <lo,hi>', 'χN search range (default 1.01 × the spinodal χN to 60)')

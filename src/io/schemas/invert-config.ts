@@ -67,11 +67,12 @@ export const invertConfigSchema = z
         /** χN the networks start from; default the classical estimate. */
         chiNStart: positive.optional(),
         /**
-         * 'adam-lbfgs': the data-driven SCFT iteration (Adam, L-BFGS cycles, field/χN updates);
          * 'least-squares': χN a parameter of one least-squares problem with the SCFT and data
-         * residuals, Levenberg–Marquardt in float64 (docs/inverse.md).
+         * residuals, Levenberg–Marquardt in float64 (docs/inverse.md); 'adam-lbfgs': the
+         * data-driven SCFT iteration (Adam, L-BFGS cycles, field/χN updates). Each reads only its
+         * own keys (NETWORK_STRATEGY_KEYS); a key of the other strategy is an error.
          */
-        strategy: z.enum(['adam-lbfgs', 'least-squares']).default('adam-lbfgs'),
+        strategy: z.enum(['least-squares', 'adam-lbfgs']).default('least-squares'),
         /**
          * Cycles of the 'least-squares' strategy with χN free (after 2 with χN held), each one
          * Levenberg–Marquardt iteration of the joint problem and 4 of each propagator on its MDE.
@@ -90,3 +91,9 @@ export const invertConfigSchema = z
   .strict();
 
 export type InvertConfig = z.infer<typeof invertConfigSchema>;
+
+/** The network block's keys that only one strategy reads (the rest are shared). */
+export const NETWORK_STRATEGY_KEYS = {
+  'least-squares': ['secondOrderIterations', 'dataWeight'],
+  'adam-lbfgs': ['warmStartSteps', 'adamSteps', 'fieldUpdateEvery', 'lbfgsIterations', 'lbfgsPerUpdate'],
+} as const;
