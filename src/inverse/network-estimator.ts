@@ -79,7 +79,7 @@ export interface NetworkEstimatorSettings {
    * data-driven SCFT iteration above.
    */
   strategy?: 'adam-lbfgs' | 'least-squares';
-  /** Cycles of the 'least-squares' strategy with χN free (default 20; 2 with χN held come first): each one joint LM iteration, then the propagators' own (network-joint-fit.ts). */
+  /** Cycles of the 'least-squares' strategy with χN free (default 16; 2 with χN held come first): each one joint LM iteration, then the propagators' own (network-joint-fit.ts). */
   secondOrderIterations?: number;
   /** λ of the data rows of the 'least-squares' strategy (default 30). */
   dataWeight?: number;
@@ -131,14 +131,15 @@ export interface NetworkEstimate {
  * second-order train recipe, docs/second-order-training.md; the rest as measured in
  * docs/inverse.md). The residual grid has 64 x points: on 32 the networks fitted the MDE at the
  * points and not between them (mean square 5.8e-4 there, 7.9e-2 on 4 × as many; on 64 points
- * 5.0e-4 on both). 12 contour steps per block, 10 start iterations of each propagator's MDE,
- * then 2 cycles with χN held and `iterations` (default 20) with it free, each one joint LM
- * iteration and 4 of each propagator on its own MDE (network-joint-fit.ts). On the noiseless
- * bench case, started 10 % low, network seeds 1–5 ended within 5.3e-4 of the true χN in 13–14 s
- * each here, where the joint iteration alone (100 iterations, 16 steps per block) took 29 s to
- * −2.6e-4 on seed 1 (docs/inverse.md, "Joint and propagator iterations in cycles").
+ * 5.0e-4 on both). 12 contour steps per block, 40 start iterations of each propagator's MDE,
+ * then 2 cycles with χN held and `cycles` (16, the default of secondOrderIterations) with it
+ * free, each one joint LM iteration and 4 of each propagator on its own MDE
+ * (network-joint-fit.ts). The 40 start iterations (10 before) shrink the fall of χN when it is
+ * freed, which the cycles then climb back (docs/inverse.md, "The data rows along the fit's
+ * directions"); they cost about as much as the 4 cycles dropped. On the noiseless bench case,
+ * started 10 % low, network seeds 1–5 ended within 6e-4 of the true χN in about 13 s each here.
  */
-const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 64, nodesPerBlock: 12, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 10, tau: 1e-7, holdChiNIterations: 2, propagatorIterations: 4 };
+const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 64, nodesPerBlock: 12, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 40, tau: 1e-7, holdChiNIterations: 2, propagatorIterations: 4, cycles: 16 };
 
 /**
  * φ_A accuracy of the least-squares recipe's networks (RMS over the data points, φ units): the
@@ -256,11 +257,11 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
         chain: s.chain,
         seed,
         fitPeriod,
-        iterations: s.secondOrderIterations ?? 20,
+        iterations: s.secondOrderIterations ?? LEAST_SQUARES_RECIPE.cycles,
         dataWeight: s.dataWeight ?? 30,
         resolution: s.resolution,
         shouldStop: stopRequested,
-        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? 20), chiN),
+        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? LEAST_SQUARES_RECIPE.cycles), chiN),
       }, start.x);
       if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
       runs.push({ seed, chiN: run.chiN, offset: classical.offset + run.shift, ...(fitPeriod ? { period: run.period } : {}), trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
@@ -367,7 +368,7 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
     ...runs.flatMap((r) => (r.aliasing ? [`seed ${r.seed}: the networks' MDE mean square ${r.aliasing.onGrid.toExponential(2)} on the ${r.aliasing.nx} x points of the fit, ${r.aliasing.between.toExponential(2)} on 4 × as many (${r.aliasing.between > 2 * r.aliasing.onGrid ? 'far above the first: the networks fit the MDE at the points and not between them' : 'no more than twice the first: the MDE holds between the points as on them'})`] : [])),
     ...(strategy === 'least-squares'
       ? [
-          'strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem, the SCFT residuals beside the data rows; the data enter along the classical fit\'s directions (offset, χN, the period when free), and the profile\'s shape beyond them by their noise against the networks\' accuracy (measured with 2 % noise: 16 of 16 draws inside the classical 95 % interval, 0.016 to 0.059 below the classical estimate; docs/inverse.md); the estimate rests on the classical fit\'s offset, period and directions, so read the classical interval for the statistical error',
+          'strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem, the SCFT residuals beside the data rows; the data enter along the classical fit\'s directions (offset, χN, the period when free), and the profile\'s shape beyond them by their noise against the networks\' accuracy (measured with 2 % noise: 16 of 16 draws inside the classical 95 % interval, 0.007 to 0.032 below the classical estimate; docs/inverse.md); the estimate rests on the classical fit\'s offset, period and directions, so read the classical interval for the statistical error',
         ]
       : []),
   ];

@@ -23,6 +23,9 @@
  * The data rows pin the ordered profile, so the joint iteration cannot slide to another
  * discrete solution of the network system (the forward joint LM does from a warm start:
  * docs/second-order-training.md); the run checks it (the φ_A amplitude against the start).
+ * With FrameData.split they pin it along the classical fit's directions, and the profile's
+ * shape beyond them by the data's noise against the networks' accuracy
+ * (network-least-squares.ts, DataRows.split; network-estimator.ts, dataSplit).
  *
  * Units: x in Rg (model frame), w and χN in kT per chain.
  */

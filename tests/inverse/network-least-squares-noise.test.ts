@@ -19,8 +19,8 @@ describe('least-squares network estimator: 2 % noise', () => {
     // problem, the estimator before its data rows were split along the classical fit's
     // directions) ended furthest from the classical estimate: 14.769 against 15.154, 95 %
     // [14.907, 15.413]. With the split rows (docs/inverse.md, "The data rows along the fit's
-    // directions") it measured 15.118; over noise seeds 1–15 and the demo's draw every estimate
-    // was inside the classical 95 % interval, 0.016 to 0.059 below the classical estimate.
+    // directions") it measured 15.122; over noise seeds 1–15 and the demo's draw every estimate
+    // was inside the classical 95 % interval, 0.007 to 0.032 below the classical estimate.
     const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: 0, resolution: 0, backend: 'wasm', strategy: 'least-squares' });
     console.log(`least-squares estimator, 2 % noise: χN ${ne.chiN}; classical ${cl.chiN}, 95 % [${cl.interval95.join(', ')}]`);
     expect(ne.chiN).toBeGreaterThan(cl.interval95[0]);

@@ -18,8 +18,8 @@ describe('least-squares network estimator: the noiseless targets', () => {
   it('noiseless f = 0.5, χN = 15, 64 points, started 10 % low: χN within 1e-3, w_A − w_B within 1e-2', async () => {
     const { data } = synthData({ chain, chiN: 15, nx: 128, ns: 200 });
     const cl = invert(data, { chain });
-    // Measured (docs/inverse.md, "Joint and propagator iterations in cycles"): network seeds 1–5
-    // ended at relative errors +2.8e-4, −2.1e-4, −5.2e-4, −5.3e-4, −3.7e-4, fields 0.8e-3 to 3.9e-3.
+    // Measured (docs/inverse.md, the least-squares strategy's status table): network seeds 1–5
+    // ended at relative errors +1.7e-4, +5.2e-4, −6.0e-4, −4.3e-4, −4.3e-4, fields 0.9e-3 to 2.7e-3.
     const ne = await estimateNetwork(data, cl, { chain, seeds: [1], steps: 0, chiNStart: 13.5, resolution: 0, backend: 'wasm', strategy: 'least-squares' });
     const vs = compareWithTruth('synthetic', 15, chain, cl, ne).estimators.network;
     console.log(`least-squares estimator, noiseless: χN ${ne.chiN} (relative ${vs.relativeError.toExponential(2)}), w_A − w_B ${vs.exchangeFieldRelativeL2?.toExponential(2)}, ${ne.seconds.toFixed(1)} s`);

@@ -76,9 +76,10 @@ export const invertConfigSchema = z
         /**
          * Cycles of the 'least-squares' strategy with χN free (after 2 with χN held), each one
          * Levenberg–Marquardt iteration of the joint problem and 4 of each propagator on its MDE.
-         * 20: χN from 13.5 within 5.3e-4 of a noiseless χN = 15 on five network seeds (docs/inverse.md).
+         * 16 (the estimator's own default, inverse/network-estimator.ts): χN from 13.5 within 6e-4
+         * of a noiseless χN = 15 on five network seeds (docs/inverse.md).
          */
-        secondOrderIterations: z.number().int().min(1).max(10000).default(20),
+        secondOrderIterations: z.number().int().min(1).max(10000).default(16),
         /** Weight λ of the data rows beside the SCFT residuals ('least-squares'). */
         dataWeight: positive.default(30),
         backend: z.enum(['auto', 'native', 'wasm', 'cpu']).default('auto'),
