@@ -2,8 +2,8 @@
  * The network estimator of χN, in two strategies. The default, 'least-squares', makes χN a
  * parameter of one least-squares problem with the networks' SCFT residuals and the data rows
  * (network-joint-fit.ts, network-least-squares.ts). The other, 'adam-lbfgs', is described here:
- * the physics-informed trainer run as a data-driven SCFT iteration. The propagator networks learn the MDE in the current fields (the trainer's
- * 'alternating' strategy); every fieldUpdateEvery steps the fields and χN are updated from
+ * the physics-informed trainer run as a data-driven SCFT iteration. The propagator networks
+ * learn the MDE in the current fields (the trainer's 'alternating' strategy); every fieldUpdateEvery steps the fields and χN are updated from
  * the networks' own φ and the data:
  *   exchange part from the data:   w_A − w_B ← χN (φ_B − φ_A)[data],
  *   pressure from incompressibility: (w_A + w_B) ← (w_A + w_B) + χN (φ_A + φ_B − 1)[network],
@@ -123,6 +123,8 @@ export interface NetworkEstimate {
   seconds: number;
   /** Model grid (Rg, cell frame) of `exchange`. */
   x: Float64Array;
+  /** How the least-squares strategy's data rows were built (dataSplit), absent for adam-lbfgs. */
+  dataRows?: string;
   notes: string[];
 }
 
@@ -161,12 +163,16 @@ const NETWORK_PROFILE_ACCURACY = 1e-3;
  * not bend towards the noise (measured: docs/inverse.md). σ is the sigma column's RMS, or the
  * classical fit's RMS residual without one.
  */
-function dataSplit(data: ProfileData, classical: ClassicalStart, s: NetworkEstimatorSettings): { directions: Float64Array[]; shapeWeight: number } {
+function dataSplit(data: ProfileData, classical: ClassicalStart, s: NetworkEstimatorSettings): { directions: Float64Array[]; shapeWeight: number; note: string } {
   const sol = classical.solution;
-  const directions = fitDirections(data.x, { chiN: classical.chiN, period: classical.period, offset: classical.offset, periodMode: classical.periodMode ?? 'given', nx: sol.nx, ns: sol.ns }, s.chain, s.resolution).columns;
+  const periodMode = classical.periodMode ?? 'given';
+  const { names, columns } = fitDirections(data.x, { chiN: classical.chiN, period: classical.period, offset: classical.offset, periodMode, nx: sol.nx, ns: sol.ns }, s.chain, s.resolution);
   const sigma = data.sigma ? Math.sqrt(data.sigma.reduce((a, v) => a + v * v, 0) / data.sigma.length) : (classical.rmsResidual ?? 0);
   const a2 = NETWORK_PROFILE_ACCURACY ** 2;
-  return { directions, shapeWeight: a2 / (a2 + sigma * sigma) };
+  const shapeWeight = a2 / (a2 + sigma * sigma);
+  const described = names.map((n) => (n === 'chiN' ? (periodMode === 'equilibrium' ? 'χN along the stress-free period' : 'χN at the held period') : n));
+  const note = `data rows along the classical fit's directions at its estimate (${described.join(', ')}); the profile's shape beyond them weighted ${shapeWeight.toPrecision(2)} = a²/(a² + σ²), with the data's noise σ = ${sigma.toPrecision(2)} (${data.sigma ? 'the sigma column' : "the classical fit's RMS residual"}) against the networks' accuracy a = ${NETWORK_PROFILE_ACCURACY} (docs/inverse.md)`;
+  return { directions: columns, shapeWeight, note };
 }
 
 function modelFrame(data: ProfileData, est: ClassicalStart): Float64Array {
@@ -351,11 +357,11 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
     nets.dispose();
     if (loop.reason === 'diverged') throw new RunFailure(`network estimator: seed ${seed}: ${loop.message}`);
   }
-  return summarise(runs, { chiNStart, backend: handle.backend, tfjs: handle.tfjsVersion, x: start.x }, t0, s.strategy);
+  return summarise(runs, { chiNStart, backend: handle.backend, tfjs: handle.tfjsVersion, x: start.x, ...(split ? { dataRows: split.note } : {}) }, t0, s.strategy);
 }
 
 /** The estimate from the seeds' runs: their mean, spread and range. */
-function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart' | 'backend' | 'tfjs' | 'x'>, t0: number, strategy: NetworkEstimatorSettings['strategy']): NetworkEstimate {
+function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart' | 'backend' | 'tfjs' | 'x' | 'dataRows'>, t0: number, strategy: NetworkEstimatorSettings['strategy']): NetworkEstimate {
   const values = runs.map((r) => r.chiN);
   const mean = values.reduce((a, b) => a + b, 0) / values.length;
   const spread = values.length > 1 ? Math.sqrt(values.reduce((a, b) => a + (b - mean) ** 2, 0) / (values.length - 1)) : 0;
@@ -368,7 +374,8 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
     ...runs.flatMap((r) => (r.aliasing ? [`seed ${r.seed}: the networks' MDE mean square ${r.aliasing.onGrid.toExponential(2)} on the ${r.aliasing.nx} x points of the fit, ${r.aliasing.between.toExponential(2)} on 4 × as many (${r.aliasing.between > 2 * r.aliasing.onGrid ? 'far above the first: the networks fit the MDE at the points and not between them' : 'no more than twice the first: the MDE holds between the points as on them'})`] : [])),
     ...(strategy === 'least-squares'
       ? [
-          'strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem, the SCFT residuals beside the data rows; the data enter along the classical fit\'s directions (offset, χN, the period when free), and the profile\'s shape beyond them by their noise against the networks\' accuracy (measured with 2 % noise: 16 of 16 draws inside the classical 95 % interval, 0.007 to 0.032 below the classical estimate; docs/inverse.md); the estimate rests on the classical fit\'s offset, period and directions, so read the classical interval for the statistical error',
+          "strategy least-squares: χN fitted with the networks as one Levenberg–Marquardt problem, the SCFT residuals beside the data rows (measured with 2 % noise: 16 of 16 draws inside the classical 95 % interval, 0.007 to 0.032 below the classical estimate; docs/inverse.md); the estimate rests on the classical fit's offset, period and directions, so read the classical interval for the statistical error",
+          ...(common.dataRows ? [common.dataRows] : []),
         ]
       : []),
   ];
@@ -382,6 +389,7 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
     tfjs: common.tfjs,
     seconds: (performance.now() - t0) / 1000,
     x: common.x,
+    ...(common.dataRows ? { dataRows: common.dataRows } : {}),
     notes,
   };
 }
