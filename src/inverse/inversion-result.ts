@@ -308,6 +308,7 @@ export function networkBlock(ne: NetworkEstimate, cl: ClassicalEstimate, data: P
     dof: n - p,
     sigma: cl.sigma,
     seconds: ne.seconds,
+    restsOn: ne.restsOn,
     backend: ne.backend,
     tfjs: ne.tfjs,
     chiNStart: ne.chiNStart,

@@ -125,6 +125,8 @@ export interface NetworkEstimate {
   x: Float64Array;
   /** How the least-squares strategy's data rows were built (dataSplit), absent for adam-lbfgs. */
   dataRows?: string;
+  /** What the network χN rests on beyond the model: the classical fit's inputs it starts from and reads the data along (the report's title page). */
+  restsOn: string[];
   notes: string[];
 }
 
@@ -379,6 +381,13 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
         ]
       : []),
   ];
+  const restsOn =
+    strategy === 'least-squares'
+      ? [
+          `Network χN (least-squares strategy): the networks start at the classical fit's offset and period (${periodFitted ? 'both fitted further with χN' : 'the offset fitted further with χN, the period held'}); ${common.dataRows ?? "the data rows point by point"}.`,
+          "The network χN checks the classical one with the networks' own SCFT; its seed spread is an optimisation spread, not a statistical interval.",
+        ]
+      : ["Network χN (adam-lbfgs strategy): offset and period from the classical fit; biased low by the networks' forward error (about 0.5 % measured; docs/inverse.md); its seed spread is an optimisation spread, not a statistical interval."];
   return {
     chiN: mean,
     spread,
@@ -390,6 +399,7 @@ function summarise(runs: NetworkRun[], common: Pick<NetworkEstimate, 'chiNStart'
     seconds: (performance.now() - t0) / 1000,
     x: common.x,
     ...(common.dataRows ? { dataRows: common.dataRows } : {}),
+    restsOn,
     notes,
   };
 }

@@ -41,7 +41,9 @@ describe('mesofield invert --method both', () => {
     expect(res.truth.estimators.network.exchangeFieldRelativeL2).toBeLessThan(0.2);
     // The report draws the network's χN trajectory against the classical estimate.
     const text = execFileSync('pdftotext', [join(out, 'report', 'report.pdf'), '-'], { encoding: 'utf8' });
-    expect(text).toMatch(/trainable χN against step/);
+    expect(text).toMatch(/network estimator's χN at each of its steps/);
     expect(text).toMatch(/classical estimate/);
+    // … and says on its title page what the network χN rests on (pdftotext may break the line).
+    expect(text.replace(/\s+/g, ' ')).toMatch(/Network χN \(adam-lbfgs strategy\): offset and period from the classical fit/);
   });
 });

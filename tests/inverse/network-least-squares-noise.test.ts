@@ -27,5 +27,8 @@ describe('least-squares network estimator: 2 % noise', () => {
     expect(ne.chiN).toBeLessThan(cl.interval95[1]);
     // Within a fifth of the interval's half-width (0.25 here) of the classical estimate.
     expect(Math.abs(ne.chiN - cl.chiN)).toBeLessThan(0.1);
+    // The result says what it rests on: the fit's directions and the shape weight from the sigma
+    // column (2 % noise against the networks' 1e-3: 1e-6 / (1e-6 + 4e-4) = 0.0025).
+    expect(ne.restsOn.join(' ')).toMatch(/directions at its estimate \(offset, χN along the stress-free period\); the profile's shape beyond them weighted 0\.0025 .*σ = 0\.020 \(the sigma column\)/);
   }, 60_000);
 });

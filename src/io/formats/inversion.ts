@@ -46,6 +46,8 @@ export const estimatorBlockSchema = z
     dof: z.number().int(),
     sigma: z.object({ source: z.enum(['column', 'estimated']), value: maybe, floored: z.boolean() }).strict(),
     seconds: num,
+    /** What this estimator's χN rests on beyond the model and the data (the network: the classical fit's inputs it starts from and reads the data along). */
+    restsOn: z.array(z.string()).optional(),
     profileLikelihood: z.array(z.object({ chiN: num, deltaChi2: num, period: num, offset: num }).strict()).optional(),
     fitCurve: z.object({ x: z.array(num), phiA: z.array(num) }).strict().optional(),
     points: z

@@ -65,6 +65,7 @@ function restsOn(file: InversionResultFile, e: EstimatorBlockFile): string[] {
     lines.push(`From the data alone (inputs fixed): ${dataOnly !== undefined ? `χN = ${sig(dataOnly, 5)}, ` : ''}68 % interval ${sig(a.statisticalInterval[0], 5)} – ${sig(a.statisticalInterval[1], 5)}${dataOnly !== undefined ? '; the profiles and fields drawn are that fit' : ''}.`);
   }
   lines.push(`Period: ${e.periodMode === 'equilibrium' ? 'the stress-free period of the model at each χN' : e.periodMode === 'free' ? 'fitted to the data' : 'given'}.`);
+  lines.push(...(file.estimators.network?.restsOn ?? []));
   return lines;
 }
 
