@@ -56,6 +56,9 @@ const specific: FaultCase[] = [
   flagCase('invert', invert, '--chiN-range', '40,11', /--chiN-range: got "40,11"; allowed: 0 < lo < hi/),
   flagCase('invert', invert, '--chiN-range', '0x10,20', /--chiN-range: got "0x10,20"; allowed: two numbers/),
   flagCase('invert', invert, '--backend', 'gpu', /--backend → network\.backend: got "gpu"/),
+  flagCase('invert', invert, '--strategy', 'lbfgs', /--strategy → network\.strategy: got "lbfgs"/),
+  // A budget of the strategy not run (the default strategy is least-squares): refused, not ignored.
+  flagCase('invert', invert, '--adam-steps', '500', /--adam-steps → network\.adamSteps: got 500; allowed only with network\.strategy "adam-lbfgs"/),
   flagCase('invert', invert, '--workers', '0', /--workers: got 0; allowed: a whole number from 1 to 64/),
   flagCase('invert', invert, '--workers', '2.5', /--workers: got 2\.5/),
   flagCase('spinodal', spinodal, '--chain', 'star', /type: got "star"/),
