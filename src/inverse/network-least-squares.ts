@@ -9,7 +9,8 @@
  * with M the cell's interpolation matrix (band-limited interpolant, with the resolution's
  * blur) from the residual grid x_j to the data positions in the model frame, σ̂_i the
  * data's standard deviations normalised to a mean inverse variance of 1 (unit weights
- * without a sigma column), and λ the data weight. χN enters only the self-consistency rows
+ * without a sigma column), and λ the data weight; with DataRows.split these rows are split
+ * along the classical fit's directions, the shape beyond them weighted (DataRows.split). χN enters only the self-consistency rows
  *   r_j = √(w_sc/nx) · (w_A − w_B − χN (φ_B − φ_A))(x_j) / max(1, χN₀),
  * whose scale is held at the starting χN₀ here (the residual system scales by the current
  * χN; the rows are rescaled so the objective does not reward a larger χN for shrinking
