@@ -10,14 +10,15 @@
  * At the weighted least-squares minimum the residual is orthogonal (in the 1/σ² metric) to
  * every one of these (the normal equations of the fit, Gauss–Newton's stationarity condition;
  * Nocedal & Wright, "Numerical Optimization", 2nd ed., §10.3). The network estimator's data
- * rows use them (network-least-squares.ts, DataRows.directions): the part of the data outside
+ * rows use them (network-least-squares.ts, DataRows.split): the part of the data outside
  * their span is what no lamella of the model moves towards near the estimate, noise by the
  * fit's own account.
  *
  * The χN and period derivatives are central differences of spectral solves (the classical
  * model, inverse/lamella-model.ts) with steps h_χ = 1e-3 χN and h_L = 1e-3 L: the profiles
- * are smooth in both, so the truncation error is O(h²) ≈ 1e-6 relative, and the solves'
- * tolerance (about 1e-10 in φ) is far below h·|∂φ/∂β|. The offset derivative is the
+ * are smooth in both, so the truncation error is O(h²) ≈ 1e-6 relative, and the solves
+ * converge far below h·|∂φ/∂β| (their last field change is about 1e-9 kT at the default
+ * tolerance: the demo's reference solve reports 8.3e-10). The offset derivative is the
  * interpolant's, by central differences with h = 1e-6 L (a trigonometric polynomial: the
  * error is round-off).
  *
