@@ -1,96 +1,54 @@
 /**
- * The network estimator of χN, in two strategies. The default, 'least-squares', makes χN a
- * parameter of one least-squares problem with the networks' SCFT residuals and the data rows
- * (network-joint-fit.ts, network-least-squares.ts). The other, 'adam-lbfgs', is described here:
- * the physics-informed trainer run as a data-driven SCFT iteration. The propagator networks
- * learn the MDE in the current fields (the trainer's 'alternating' strategy); every fieldUpdateEvery steps the fields and χN are updated from
- * the networks' own φ and the data:
- *   exchange part from the data:   w_A − w_B ← χN (φ_B − φ_A)[data],
- *   pressure from incompressibility: (w_A + w_B) ← (w_A + w_B) + χN (φ_A + φ_B − 1)[network],
- *   χN ← χN · r^{1/2},  r = ⟨1 − 2φ_A^data, 1 − 2φ_A^net⟩ / ⟨1 − 2φ_A^net, 1 − 2φ_A^net⟩,
- * so χN stays positive, grows while the network profile is less segregated than the data
- * and shrinks while it is more. At the fixed point the networks solve SCFT at χN and
- * reproduce the data: the exchange field is discovered from the data, not given.
- * The data enter on the model grid through a band-limited least-squares fit
- * (numerics/band-limited-fit.ts), which assumes only periodicity.
+ * The network estimator of χN, in two strategies, run per seed and summarised here. The
+ * default, 'least-squares', makes χN a parameter of one least-squares problem with the
+ * networks' SCFT residuals and the data rows (network-joint-fit.ts, network-least-squares.ts),
+ * the data rows split along the classical fit's directions (fit-directions.ts, dataSplit
+ * below). The other, 'adam-lbfgs', runs the physics-informed trainer as a data-driven SCFT
+ * iteration (network-adam-lbfgs.ts).
  *
- * Frame: data coordinate x ↦ model cell t = x − x0 + origin (mod L), with the offset x0 and
- * period L of the classical estimate (the network fits χN and the fields, not the phase).
- * Start: the networks are fitted to the spectral solution at a starting χN (the classical
- * estimate, or a given guess). Uncertainty: several seeds give a spread; it measures how
- * far independent trainings land apart, not the statistical error of the data.
- *
- * A plain gradient variant (χN = e^θ trained by Adam with a data-misfit loss, all terms in
- * one loss) was tried first: χN drifted away from the truth (13.5 → 11.8 for a true 15 in
- * 400 steps), because the propagators fitted the data faster than the fields followed.
+ * Frame: data coordinate x ↦ model cell t = x − x0 (mod L), with the offset x0 and period L of
+ * the classical estimate. Start: the networks are fitted to the spectral solution at a starting
+ * χN (the classical estimate, or a given guess). Uncertainty: several seeds give a spread; it
+ * measures how far independent trainings land apart, not the statistical error of the data.
  */
-import type { ChainSpec } from '../physics/chain-schema.js';
-import { buildChain } from '../physics/chain.js';
-import { trainConfigSchema } from '../io/schemas/train-config.js';
-import type { TrainConfig } from '../io/schemas/train-config.js';
 import { portable } from '../physics/cell/make-cell.js';
 import type { Portable } from '../physics/cell/make-cell.js';
-import { bandLimitedFit } from '../numerics/band-limited-fit.js';
+import type { ScftSolution } from '../physics/result.js';
 import { solveFixedCell } from '../spectral/scft-solver.js';
-import { Adam } from '../autodiff/adam.js';
 import { selectBackend } from '../autodiff/backend.js';
 import type { BackendKind } from '../autodiff/backend.js';
-import { networkSolution } from '../network/network-solution.js';
-import { buildScftNetworks } from '../network/scft-networks.js';
-import { LOSS_TERMS } from '../network/losses/terms.js';
-import type { LossValues } from '../network/losses/terms.js';
-import { ScftProblem } from '../network/problem/scft-problem.js';
-import { polishCycle, propagatorWeights, runTraining } from '../training/train-loop.js';
+import type { Tf } from '../autodiff/tf.js';
 import { RunStopped, stopAbortSignal, stopRequested } from '../runtime/stop.js';
 import { PoolStopped } from '../threads/worker-pool.js';
-import { RunFailure } from '../io/errors.js';
-import { refitFieldsToUpdate } from '../network/field-update.js';
-import { warmStartYielding } from '../network/warm-start.js';
 import type { ClassicalEstimate } from './classical.js';
 import { loadFloat64Passes } from '../autodiff/float64-passes.js';
 import { jointFitSeed } from './network-joint-fit.js';
 import { fitDirections } from './fit-directions.js';
+import { adamLbfgsRuns } from './network-adam-lbfgs.js';
+import type { AdamLbfgsSettings } from './network-adam-lbfgs.js';
 import type { ProfileData } from './profile-csv.js';
 
-export interface NetworkEstimatorSettings {
-  chain: ChainSpec;
-  seeds: number[];
-  steps: number;
+/** The settings of both strategies (the adam-lbfgs ones in AdamLbfgsSettings: that strategy alone reads them). */
+export interface NetworkEstimatorSettings extends AdamLbfgsSettings {
   /** χN the networks start from; default the classical estimate. */
   chiNStart?: number;
-  resolution: number;
   backend: BackendKind;
-  learningRate?: number;
-  /** Periodic input modes of both networks (default: the trainer's). */
-  fourierModes?: number;
-  /** Steps between field/χN updates, and their mixing λ. */
-  fieldUpdateEvery?: number;
-  mixing?: number;
-  /**
-   * After the Adam steps: this many L-BFGS iterations on the MDE, in cycles of
-   * `lbfgsPerUpdate`, each cycle preceded by a field/χN update (0: none).
-   */
-  lbfgsIterations?: number;
-  lbfgsPerUpdate?: number;
   /**
    * 'least-squares' (default): χN as a parameter of one least-squares problem with the SCFT
    * residuals and the data rows, solved by Levenberg–Marquardt in float64 (network-joint-fit.ts);
    * it reads secondOrderIterations and dataWeight, not the Adam/L-BFGS budgets. 'adam-lbfgs': the
-   * data-driven SCFT iteration above.
+   * data-driven SCFT iteration of network-adam-lbfgs.ts.
    */
   strategy?: 'adam-lbfgs' | 'least-squares';
   /** Cycles of the 'least-squares' strategy with χN free (default 16; 2 with χN held come first): each one joint LM iteration, then the propagators' own (network-joint-fit.ts). */
   secondOrderIterations?: number;
   /** λ of the data rows of the 'least-squares' strategy (default 30). */
   dataWeight?: number;
-  /** Adam steps fitting each seed's networks to the starting spectral solution (default 400). */
-  warmStartSteps?: number;
   /**
    * Worker threads running seeds at once (default 1: all seeds in this thread). The seeds
    * are independent and each is deterministic, so the estimate is the same either way.
    */
   workers?: number;
-  onProgress?: (seed: number, step: number, steps: number, chiN: number) => void;
 }
 
 /** What the estimator reads of the classical estimate (all a worker thread is sent). */
@@ -136,14 +94,17 @@ export interface NetworkEstimate {
  * docs/inverse.md). The residual grid has 64 x points: on 32 the networks fitted the MDE at the
  * points and not between them (mean square 5.8e-4 there, 7.9e-2 on 4 × as many; on 64 points
  * 5.0e-4 on both). 12 contour steps per block, 40 start iterations of each propagator's MDE,
- * then 2 cycles with χN held and `cycles` (16, the default of secondOrderIterations) with it
- * free, each one joint LM iteration and 4 of each propagator on its own MDE
+ * then 2 cycles with χN held and LEAST_SQUARES_CYCLES (16, the default of
+ * secondOrderIterations) with it free, each one joint LM iteration and 4 of each propagator on
+ * its own MDE
  * (network-joint-fit.ts). The 40 start iterations (10 before) shrink the fall of χN when it is
  * freed, which the cycles then climb back (docs/inverse.md, "The data rows along the fit's
  * directions"); they cost about as much as the 4 cycles dropped. On the noiseless bench case,
  * started 10 % low, network seeds 1–5 ended within 6e-4 of the true χN in about 13 s each here.
  */
-const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 64, nodesPerBlock: 12, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 40, tau: 1e-7, holdChiNIterations: 2, propagatorIterations: 4, cycles: 16 };
+const LEAST_SQUARES_RECIPE = { fieldHidden: [16], propagatorHidden: [12, 12], nx: 64, nodesPerBlock: 12, fieldStartIterations: 20, propagatorStartIterations: 6, mdeStartIterations: 40, tau: 1e-7, holdChiNIterations: 2, propagatorIterations: 4 };
+/** Default cycles with χN free (network.secondOrderIterations). */
+const LEAST_SQUARES_CYCLES = 16;
 
 /**
  * φ_A accuracy of the least-squares recipe's networks (RMS over the data points, φ units): the
@@ -228,138 +189,51 @@ export async function estimateNetwork(data: ProfileData, classical: ClassicalSta
     return summarise(runs, one[0], t0, s.strategy);
   }
   const handle = await selectBackend(s.backend);
-  const tf = handle.tf;
   // The least-squares strategy's normal matrices, factorisations and jet passes in the f64x2
   // kernels (the JS forms' results to the last bit).
   if (s.strategy === 'least-squares') await loadFloat64Passes();
-  const chain = buildChain(s.chain);
-  const L = classical.period;
-  const nx = classical.solution.nx;
   const chiNStart = s.chiNStart ?? classical.chiN;
   // Starting fields: the spectral solution at the starting χN in the classical cell.
-  const cell = classical.solution.cell.withLength(L);
+  const cell = classical.solution.cell.withLength(classical.period);
   const start = solveFixedCell({ system: { chain: s.chain, chiN: chiNStart }, cell, contour: classical.solution.contour, initial: classical.solution.w, keepPropagators: true });
   if (!start.propagators) throw new Error('network estimator: the start solve kept no propagators');
   const t = modelFrame(data, classical);
-  const matrix = Float32Array.from(cell.interpolationMatrix(t, s.resolution));
-  const sig = data.sigma ?? new Float64Array(data.x.length).fill(1);
-  let meanInvVar = 0;
-  for (const v of sig) meanInvVar += 1 / (v * v);
-  meanInvVar /= sig.length;
-  const weights = Float32Array.from(sig, (v) => 1 / (v * v) / meanInvVar);
-  const runs: NetworkRun[] = [];
-  const modes = Math.max(2, Math.min(nx / 2 - 1, Math.floor((t.length - 1) / 4)));
-  const phiData = bandLimitedFit(t, data.phi, weights, L, modes)(start.x);
-  const updateEvery = s.fieldUpdateEvery ?? 50;
-  // Least squares: a free period (the classical fit's mode "free") is a parameter of the fit too,
-  // on the data's unwrapped positions; the offset needs none: the networks translate freely, and
-  // the data rows set their phase.
+  const common = { chiNStart, backend: handle.backend, tfjs: handle.tfjsVersion, x: start.x };
+  if (s.strategy === 'least-squares') {
+    const { runs, dataRows } = leastSquaresRuns(handle.tf, data, classical, start, chiNStart, t, s);
+    return summarise(runs, { ...common, dataRows }, t0, s.strategy);
+  }
+  const runs = await adamLbfgsRuns(handle.tf, data, classical, start, chiNStart, t, s);
+  return summarise(runs, common, t0, s.strategy);
+}
+
+/** The least-squares strategy's seeds, one after the other (network-joint-fit.ts). */
+function leastSquaresRuns(tf: Tf, data: ProfileData, classical: ClassicalStart, start: ScftSolution, chiNStart: number, t: Float64Array, s: NetworkEstimatorSettings): { runs: NetworkRun[]; dataRows: string } {
+  // A free period (the classical fit's mode "free") is a parameter of the fit too, on the data's
+  // unwrapped positions; the offset needs none: the networks translate freely, and the data rows
+  // set their phase.
   const fitPeriod = classical.periodMode === 'free';
   const u = Float64Array.from(data.x, (x) => x - classical.offset);
-  const split = s.strategy === 'least-squares' ? dataSplit(data, classical, s) : undefined;
+  const split = dataSplit(data, classical, s);
+  const cycles = s.secondOrderIterations ?? LEAST_SQUARES_CYCLES;
+  const runs: NetworkRun[] = [];
   for (const seed of s.seeds) {
     const tr0 = performance.now();
-    if (s.strategy === 'least-squares') {
-      const run = jointFitSeed(tf, start, chiNStart, L, { t, u, phi: data.phi, sigma: data.sigma, ...(split ? { split } : {}) }, {
-        ...LEAST_SQUARES_RECIPE,
-        chain: s.chain,
-        seed,
-        fitPeriod,
-        iterations: s.secondOrderIterations ?? LEAST_SQUARES_RECIPE.cycles,
-        dataWeight: s.dataWeight ?? 30,
-        resolution: s.resolution,
-        shouldStop: stopRequested,
-        onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + (s.secondOrderIterations ?? LEAST_SQUARES_RECIPE.cycles), chiN),
-      }, start.x);
-      if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
-      runs.push({ seed, chiN: run.chiN, offset: classical.offset + run.shift, ...(fitPeriod ? { period: run.period } : {}), trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
-      continue;
-    }
-    const config: TrainConfig = trainConfigSchema.parse({
-      version: 2,
-      kind: 'train',
-      system: { chain: s.chain, chiN: chiNStart },
-      cell: { period: L, nx, ns: classical.solution.ns },
-      networks: { field: { seed, ...(s.fourierModes ? { fourierModes: s.fourierModes } : {}) }, propagator: { seed: seed + 101, ...(s.fourierModes ? { fourierModes: s.fourierModes } : {}) } },
-      // The trainer's default x grid (32) measured as accurate as the model grid for the MDE, at half the cost.
-      collocation: { nx: Math.min(nx, 32), seed: seed + 7 },
-      training: { strategy: 'alternating', adamSteps: s.steps, learningRate: s.learningRate ?? 1e-3, logEvery: 25, checkpointEvery: s.steps + 1, fieldUpdateEvery: updateEvery },
-    });
-    const nets = buildScftNetworks(tf, config, chain, L, true);
-    const ws = await warmStartYielding(tf, nets, { x: start.x, w: start.w, chiN: chiNStart, propagators: start.propagators }, s.warmStartSteps ?? 400, 1e-2, undefined, stopRequested);
-    if (ws.interrupted) {
-      nets.dispose();
-      throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, warm-start step ${ws.steps}; no network result was written`);
-    }
-    const problem = new ScftProblem(tf, nets, config.system, config.collocation, 'detached');
-    problem.fieldsFrozen = true;
-    let chiN = chiNStart;
-    const trajectory: { step: number; chiN: number }[] = [{ step: 0, chiN }];
-    /** The field/χN update made after `step` optimisation steps (Adam steps, then L-BFGS iterations). */
-    const fieldUpdateAt = (step: number) => {
-      const sol = networkSolution(tf, nets, { chain: s.chain, chiN }, { periods: 1, nx, nodesPerBlock: config.collocation.nodesPerBlock, correctQ: false });
-      let num = 0;
-      let den = 0;
-      for (let j = 0; j < nx; j++) {
-        const a = 1 - 2 * phiData[j];
-        const b = sol.phi.A[j] - sol.phi.B[j];
-        num += a * -b;
-        den += b * b;
-      }
-      const ratio = Math.min(1.25, Math.max(0.8, num / den));
-      chiN = chiN * Math.sqrt(ratio);
-      // The SCFT field update of physics/scft-equations.ts with the data's composition in the
-      // exchange part and the networks' incompressibility error (split evenly) in the pressure.
-      const phi = { A: new Float64Array(nx), B: new Float64Array(nx) };
-      for (let j = 0; j < nx; j++) {
-        const excess = 0.5 * (sol.phi.A[j] + sol.phi.B[j] - 1);
-        phi.A[j] = phiData[j] + excess;
-        phi.B[j] = 1 - phiData[j] + excess;
-      }
-      refitFieldsToUpdate(tf, nets, chiN, sol.x, sol.w, phi, s.mixing ?? 0.5, config.training.fieldFitSteps, config.training.fieldFitLearningRate);
-      trajectory.push({ step, chiN });
-      s.onProgress?.(seed, step, s.steps + (s.lbfgsIterations ?? 0), chiN);
-    };
-    const adam = new Adam(tf, nets.parameters);
-    let adamUpdates = 0;
-    const unit = Object.fromEntries(LOSS_TERMS.map((k) => [k, 1])) as LossValues;
-    const loop = await runTraining(tf, problem, nets.parameters, adam, config, { step: 0, lossWeights: unit, history: [], bestTotal: Infinity, secondsBefore: 0 }, { fieldUpdate: () => fieldUpdateAt((adamUpdates += updateEvery)), shouldStop: stopRequested });
-    if (loop.reason === 'interrupted') {
-      adam.dispose();
-      problem.dispose();
-      nets.dispose();
-      throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, Adam step ${loop.state.step}; no network result was written`);
-    }
-    // Quasi-Newton cycles: each a field/χN update, then L-BFGS on the MDE in the new fields
-    // (measured in the forward problem: several times the MDE reduction of Adam per second).
-    const perUpdate = s.lbfgsPerUpdate ?? 100;
-    for (let done = 0; loop.reason !== 'diverged' && done < (s.lbfgsIterations ?? 0); done += perUpdate) {
-      const r = await polishCycle(tf, problem, nets.parameters, propagatorWeights(config), perUpdate, () => fieldUpdateAt(s.steps + done), undefined, stopRequested);
-      if (r.reason === 'interrupted') {
-        adam.dispose();
-        problem.dispose();
-        nets.dispose();
-        throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, L-BFGS iteration ${done + r.iterations}; no network result was written`);
-      }
-    }
-    // Only φ_A and the fields are read here: the adjoint Q correction (a float64 pass over every
-    // node: 4.9 s of a 27 s run of three 20-step seeds, measured on a loaded machine) changes Q
-    // and F, neither of which the estimate uses.
-    const sol = networkSolution(tf, nets, { chain: s.chain, chiN }, { periods: 1, nx, nodesPerBlock: 64, correctQ: false });
-    let rss = 0;
-    for (let i = 0; i < t.length; i++) {
-      let v = 0;
-      for (let j = 0; j < nx; j++) v += sol.phi.A[j] * matrix[j * t.length + i];
-      rss += (v - data.phi[i]) ** 2;
-    }
-    const exchange = Float64Array.from(sol.w.A, (a, j) => a - sol.w.B[j]);
-    runs.push({ seed, chiN, trajectory, rmsResidual: Math.sqrt(rss / t.length), exchange, seconds: (performance.now() - tr0) / 1000 });
-    adam.dispose();
-    problem.dispose();
-    nets.dispose();
-    if (loop.reason === 'diverged') throw new RunFailure(`network estimator: seed ${seed}: ${loop.message}`);
+    const run = jointFitSeed(tf, start, chiNStart, classical.period, { t, u, phi: data.phi, sigma: data.sigma, split }, {
+      ...LEAST_SQUARES_RECIPE,
+      chain: s.chain,
+      seed,
+      fitPeriod,
+      iterations: cycles,
+      dataWeight: s.dataWeight ?? 30,
+      resolution: s.resolution,
+      shouldStop: stopRequested,
+      onIteration: (it, chiN) => s.onProgress?.(seed, it, LEAST_SQUARES_RECIPE.holdChiNIterations + cycles, chiN),
+    }, start.x);
+    if (run.reason === 'interrupted') throw new RunStopped(`network estimator stopped by a signal at seed ${seed}, least-squares iteration ${run.iterations}; no network result was written`);
+    runs.push({ seed, chiN: run.chiN, offset: classical.offset + run.shift, ...(fitPeriod ? { period: run.period } : {}), trajectory: run.trajectory, rmsResidual: run.rmsResidual, exchange: run.exchange, seconds: (performance.now() - tr0) / 1000, aliasing: { onGrid: run.mdeOnGrid, between: run.mdeBetween, nx: LEAST_SQUARES_RECIPE.nx } });
   }
-  return summarise(runs, { chiNStart, backend: handle.backend, tfjs: handle.tfjsVersion, x: start.x, ...(split ? { dataRows: split.note } : {}) }, t0, s.strategy);
+  return { runs, dataRows: split.note };
 }
 
 /** The estimate from the seeds' runs: their mean, spread and range. */

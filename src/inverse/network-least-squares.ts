@@ -35,6 +35,7 @@ import type { ResidualGroup } from '../numerics/grouped-normal-equations.js';
 import type { LeastSquaresProblem, NormalLinearisation } from '../numerics/levenberg-marquardt.js';
 import type { ScftResidualSystem } from '../network/least-squares/scft-residual-system.js';
 import type { LossValues } from '../network/losses/terms.js';
+import { meanInverseVariance, pointSigmas } from './data-weights.js';
 
 export interface DataRows {
   /** Interpolation matrix from the residual grid to the data points, row-major [j · n + i]. */
@@ -90,12 +91,12 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     this.n = data.phi.length;
     this.size = sys.size + (data.period ? 2 : 1);
     this.chiNColumn = this.size - 1;
-    const sig = data.sigma ?? new Float64Array(this.n).fill(1);
-    let meanInvVar = 0;
-    for (const v of sig) meanInvVar += 1 / (v * v);
-    meanInvVar /= this.n;
+    const sig = pointSigmas(data.sigma, this.n);
+    const meanInvVar = meanInverseVariance(sig);
     this.rowScale = Float64Array.from(sig, (v) => Math.sqrt(dataWeight / this.n) / (v * Math.sqrt(meanInvVar)));
     this.scaleFixed = 1 / Math.max(1, chiNStart);
+    // A free period needs the MDE rows' diffusion terms for its column (linearise).
+    if (data.period) sys.keepDiffusionRows = true;
     this.basis = data.split ? orthonormalBasis(data.split.directions.map((a) => Float64Array.from(a, (v, i) => v * this.rowScale[i]))) : null;
     if (data.matrix.length !== sys.nx * this.n) throw new RangeError(`data matrix has ${data.matrix.length} entries, expected ${sys.nx}·${this.n}`);
   }
@@ -145,15 +146,15 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
     const { theta, chiN, length } = this.split(x);
     const M = this.setState(chiN, length);
     const e = this.sys.evaluate(theta, false);
-    return this.withData(e.cost, e.terms, e.density!.phi.A, chiN, M);
+    return this.withData(e.cost, e.terms, this.fitAt(e.density!.phi.A, M), chiN);
   }
 
-  private withData(sysCost: number, terms: LossValues, phiA: Float64Array, chiN: number, M: Float64Array): InverseEvaluation {
+  /** The evaluation from the residual system's cost and terms and the network's φ_A at the data points (`fit`). */
+  private withData(sysCost: number, terms: LossValues, fit: Float64Array, chiN: number): InverseEvaluation {
     const W = this.sys.weights;
     const rho2 = this.rescale(chiN) ** 2;
     const fixedTerms = { ...terms, selfConsistency: terms.selfConsistency * rho2, gauge: terms.gauge * rho2 };
     let cost = sysCost + 0.5 * (W.selfConsistency * terms.selfConsistency + W.gauge * terms.gauge) * (rho2 - 1);
-    const fit = this.fitAt(phiA, M);
     let misfit = 0;
     const e = new Float64Array(this.n);
     for (let i = 0; i < this.n; i++) {
@@ -305,7 +306,7 @@ export class NetworkInverseProblem implements LeastSquaresProblem {
         }
       });
     }
-    const cost = this.withData(e.cost, e.terms, density.phi.A, chiN, M).cost;
+    const cost = this.withData(e.cost, e.terms, fit, chiN).cost;
     return { kind: 'normal', cost, A, g };
   }
 }

@@ -89,7 +89,7 @@ export interface ResidualEvaluation {
   terms: LossValues;
   groups?: ResidualGroup[];
   /**
-   * With the Jacobian: for each MDE group (the first groups, in order), each row's diffusion
+   * With the Jacobian and keepDiffusionRows: for each MDE group (the first groups, in order), each row's diffusion
    * term as scaled in the row, mdeScale · D · lengthFactor · (u_xx + u_x²): the row's
    * derivative with respect to the cell length L is 2/L times it.
    */
@@ -139,6 +139,8 @@ export class ScftResidualSystem {
    * this factor. The inverse problem with a free period moves it; 1 otherwise.
    */
   lengthFactor = 1;
+  /** Return each MDE row's diffusion term with the Jacobian (ResidualEvaluation.diffusionRows): only a free cell length needs them. */
+  keepDiffusionRows = false;
   private readonly mdePoints: number;
 
   constructor(
@@ -409,9 +411,9 @@ export class ScftResidualSystem {
       Object.assign(terms, fe.terms);
       sumSq += fe.weightedSum;
       if (fe.group) groups.push(fe.group);
-      return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups, diffusionRows } : {}), density: { phi: fe.phi, w: field.w, dphi: fe.dphi } };
+      return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups, ...(this.keepDiffusionRows ? { diffusionRows } : {}) } : {}), density: { phi: fe.phi, w: field.w, dphi: fe.dphi } };
     }
-    return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups, diffusionRows } : {}) };
+    return { cost: 0.5 * sumSq, terms, ...(jacobian ? { groups, ...(this.keepDiffusionRows ? { diffusionRows } : {}) } : {}) };
   }
 
   /** w_A, w_B at the grid and (with the Jacobian) ∂w_c(x_j)/∂θ over the field network's columns. */
@@ -565,7 +567,7 @@ export class ScftResidualSystem {
       }
       const r = new Float64Array(withMde ? rows : 0);
       blockResiduals.push(r);
-      const dRows = jacobian && withMde ? new Float64Array(rows) : null;
+      const dRows = jacobian && withMde && this.keepDiffusionRows ? new Float64Array(rows) : null;
       if (dRows) diffusion.push(dRows);
       for (let i = 0; i <= cb.steps; i++) {
         const node = cb.offset + i;
